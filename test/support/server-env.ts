@@ -1,0 +1,5 @@
+// Server-side test suites talk to the private cluster's test database, never the demo one,
+// and send mail only to an in-process SMTP fake.
+process.env.NODE_ENV = 'test';
+process.env.PGDATABASE = process.env.SPINCYCLE_TEST_DB ?? 'spincycle_test';
+process.env.LOG_LEVEL = process.env.LOG_LEVEL ?? 'silent';
