@@ -23,6 +23,7 @@ module.exports = {
     nodeProject('reference', ['<rootDir>/test/reference']),
     nodeProject('server', ['<rootDir>/server', '<rootDir>/test/api', '<rootDir>/fakes', '<rootDir>/database'], {
       setupFiles: ['<rootDir>/test/support/server-env.ts'],
+      globalSetup: '<rootDir>/test/support/server-global-setup.ts',
     }),
     {
       displayName: 'client',

@@ -3,3 +3,5 @@
 process.env.NODE_ENV = 'test';
 process.env.PGDATABASE = process.env.SPINCYCLE_TEST_DB ?? 'spincycle_test';
 process.env.LOG_LEVEL = process.env.LOG_LEVEL ?? 'silent';
+// A cheaper scrypt cost keeps sign-up-heavy suites quick; the stored format records it.
+process.env.SCRYPT_LOG_N = '11';

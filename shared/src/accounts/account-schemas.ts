@@ -1,6 +1,8 @@
 import { z } from 'zod';
 import { ROLES, type Role } from './roles';
 
+export type { Role };
+
 /** Minimum password length; a memory-hard hash protects the rest. */
 export const PASSWORD_MIN_LENGTH = 10;
 
@@ -60,4 +62,18 @@ export interface AccountSummary extends SessionUser {
   disabled: boolean;
   createdAt: string;
   lastSignInAt: string | null;
+}
+
+/** GET /api/admin/accounts query string. */
+export const listAccountsQuerySchema = z.object({
+  search: z.string().trim().max(200).optional(),
+  role: z.enum(ROLES).optional(),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(200).default(25),
+});
+export type ListAccountsQuery = z.infer<typeof listAccountsQuerySchema>;
+
+export interface AccountPage {
+  items: AccountSummary[];
+  total: number;
 }

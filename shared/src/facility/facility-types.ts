@@ -86,3 +86,27 @@ export interface Cycle {
   anonymousReview: boolean;
   categories: string[];
 }
+
+/** Node-hours a node offers in a cycle. */
+export interface CycleNodeCapacity {
+  nodeId: number;
+  nodeCode: string;
+  nodeHoursAvailable: number;
+}
+
+/** Where a cycle's call stands at the moment of the request. */
+export type CallStatus = 'upcoming' | 'open' | 'closed';
+
+/** GET /api/cycles items. */
+export interface CycleSummary extends Cycle {
+  status: CallStatus;
+  nodes: CycleNodeCapacity[];
+}
+
+/** The call status of a cycle at an instant (the closing instant itself is already closed). */
+export function callStatusAt(cycle: Pick<Cycle, 'callOpensAt' | 'callClosesAt'>, now: Date): CallStatus {
+  const t = now.getTime();
+  if (t < Date.parse(cycle.callOpensAt)) return 'upcoming';
+  if (t < Date.parse(cycle.callClosesAt)) return 'open';
+  return 'closed';
+}

@@ -1,0 +1,124 @@
+import { createServer, type Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { simpleParser } from 'mailparser';
+import { SMTPServer } from 'smtp-server';
+import { renderMailboxPage } from './mailbox-page';
+
+/** One message as the fake received it. */
+export interface FakeMessage {
+  id: number;
+  receivedAt: string;
+  from: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string | null;
+  attachments: { filename: string; contentType: string; size: number }[];
+}
+
+export interface MailFake {
+  smtpPort: number;
+  httpPort: number | null;
+  messages(): FakeMessage[];
+  /** Resolves with the first message (received now or later) that matches. */
+  waitFor(match: (m: FakeMessage) => boolean, timeoutMs?: number): Promise<FakeMessage>;
+  clear(): void;
+  close(): Promise<void>;
+}
+
+const MAX_KEPT = 500;
+
+/**
+ * A local SMTP server standing in for a mail relay: accepts everything on loopback, keeps
+ * the last messages in memory, and (with `httpPort`) serves a page and a JSON list of them.
+ */
+export async function startMailFake(options: { smtpPort?: number; httpPort?: number | null; host?: string } = {}): Promise<MailFake> {
+  const host = options.host ?? '127.0.0.1';
+  const messages: FakeMessage[] = [];
+  const waiters: { match: (m: FakeMessage) => boolean; resolve: (m: FakeMessage) => void }[] = [];
+  let nextId = 1;
+
+  const smtp = new SMTPServer({
+    authOptional: true,
+    disabledCommands: ['STARTTLS'],
+    logger: false,
+    size: 25 * 1024 * 1024,
+    onData(stream, session, callback) {
+      simpleParser(stream)
+        .then((parsed) => {
+          const to = session.envelope.rcptTo.map((r) => r.address);
+          const message: FakeMessage = {
+            id: nextId++,
+            receivedAt: new Date().toISOString(),
+            from: parsed.from?.text ?? (session.envelope.mailFrom ? session.envelope.mailFrom.address : ''),
+            to,
+            subject: parsed.subject ?? '',
+            text: parsed.text ?? '',
+            html: typeof parsed.html === 'string' ? parsed.html : null,
+            attachments: parsed.attachments.map((a) => ({ filename: a.filename ?? 'attachment', contentType: a.contentType, size: a.size })),
+          };
+          messages.push(message);
+          if (messages.length > MAX_KEPT) messages.shift();
+          for (const w of [...waiters]) {
+            if (w.match(message)) {
+              waiters.splice(waiters.indexOf(w), 1);
+              w.resolve(message);
+            }
+          }
+          callback();
+        })
+        .catch((err: Error) => callback(err));
+    },
+  });
+  await new Promise<void>((resolve, reject) => {
+    smtp.once('error', reject);
+    smtp.listen(options.smtpPort ?? 0, host, () => resolve());
+  });
+  const smtpPort = (smtp.server.address() as AddressInfo).port;
+
+  let http: Server | null = null;
+  if (options.httpPort !== undefined && options.httpPort !== null) {
+    http = createServer((req, res) => {
+      const url = new URL(req.url ?? '/', 'http://fake');
+      if (url.pathname === '/api/messages') {
+        res.writeHead(200, { 'content-type': 'application/json' });
+        res.end(JSON.stringify([...messages].reverse()));
+        return;
+      }
+      if (url.pathname === '/' || url.pathname === '') {
+        res.writeHead(200, { 'content-type': 'text/html; charset=utf-8' });
+        res.end(renderMailboxPage([...messages].reverse(), url.searchParams.get('to') ?? undefined));
+        return;
+      }
+      res.writeHead(404, { 'content-type': 'text/plain' });
+      res.end('not found');
+    });
+    await new Promise<void>((resolve, reject) => {
+      http!.once('error', reject);
+      http!.listen(options.httpPort!, host, () => resolve());
+    });
+  }
+
+  return {
+    smtpPort,
+    httpPort: http ? (http.address() as AddressInfo).port : null,
+    messages: () => [...messages],
+    waitFor(match, timeoutMs = 5000) {
+      const found = messages.find(match);
+      if (found) return Promise.resolve(found);
+      return new Promise((resolve, reject) => {
+        const waiter = { match, resolve: (m: FakeMessage) => (clearTimeout(timer), resolve(m)) };
+        const timer = setTimeout(() => {
+          waiters.splice(waiters.indexOf(waiter), 1);
+          reject(new Error(`no matching message within ${timeoutMs} ms`));
+        }, timeoutMs);
+        waiters.push(waiter);
+      });
+    },
+    clear: () => void messages.splice(0),
+    async close() {
+      await new Promise<void>((resolve) => smtp.close(() => resolve()));
+      if (http) await new Promise<void>((resolve) => http!.close(() => resolve()));
+    },
+  };
+}

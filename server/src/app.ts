@@ -1,0 +1,113 @@
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import connectPgSimple from 'connect-pg-simple';
+import cookieParser from 'cookie-parser';
+import express, { type Express } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import pg from 'pg';
+import { pinoHttp } from 'pino-http';
+import type { AppContext } from './app-context';
+import { loadConfig, type Config, type ConfigOverrides } from './config';
+import { createDb } from './db/knex';
+import { createAccountRoutes } from './features/accounts/account-routes';
+import { createAuthRoutes } from './features/auth/auth-routes';
+import { createPassport } from './features/auth/passport-setup';
+import { createFacilityRoutes } from './features/facility/facility-routes';
+import { createHealthRoutes } from './features/health/health-routes';
+import { createCsrf } from './http/csrf';
+import { createDevMailboxRoutes } from './http/dev-mailbox';
+import { apiNotFound, errorHandler } from './http/error-handler';
+import { createLogger } from './logger';
+import { createSmtpMailer } from './mail/mailer';
+
+export interface CreatedApp {
+  app: Express;
+  ctx: AppContext;
+  /** Closes the database pools and the mail transport. */
+  close(): Promise<void>;
+}
+
+/** Builds the Express application (no listen). Parts of the context can be replaced, e.g. by tests. */
+export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<AppContext> } = {}): CreatedApp {
+  const config: Config = loadConfig(process.env, overrides.config);
+  const logger = overrides.ctx?.logger ?? createLogger(config);
+  const ctx: AppContext = {
+    config,
+    logger,
+    db: overrides.ctx?.db ?? createDb(config, logger),
+    mailer: overrides.ctx?.mailer ?? createSmtpMailer(config),
+  };
+  const production = config.NODE_ENV === 'production';
+
+  const sessionPool = new pg.Pool({
+    host: config.PGHOST,
+    port: config.PGPORT,
+    user: config.PGUSER,
+    password: config.PGPASSWORD,
+    database: config.PGDATABASE,
+    max: 5,
+  });
+  const PgStore = connectPgSimple(session);
+  const store = new PgStore({ pool: sessionPool, tableName: 'sessions', pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 });
+
+  const passport = createPassport(ctx);
+  const csrf = createCsrf(production);
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(pinoHttp({ logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
+  app.use(helmet());
+  app.use(express.json({ limit: '1mb' }));
+  app.use(
+    session({
+      name: 'spincycle.sid',
+      secret: config.sessionSecret,
+      store,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: production, maxAge: config.SESSION_MAX_AGE_HOURS * 3600_000 },
+    }),
+  );
+  // After express-session, which reads its own cookie.
+  app.use(cookieParser());
+  app.use(passport.initialize());
+  app.use(passport.session());
+
+  app.use('/api/health', createHealthRoutes(ctx));
+  const api = express.Router();
+  api.use(csrf.issue, csrf.protect);
+  api.use('/auth', createAuthRoutes(ctx, passport, csrf));
+  api.use('/admin/accounts', createAccountRoutes(ctx));
+  api.use('/', createFacilityRoutes(ctx));
+  app.use('/api', api);
+  app.use('/api', apiNotFound);
+
+  if (config.MAILBOX_URL) app.use('/dev/mailbox', createDevMailboxRoutes(config.MAILBOX_URL));
+
+  const clientDir = config.CLIENT_DIST ?? path.resolve(__dirname, '../../dist/client/browser');
+  if (existsSync(path.join(clientDir, 'index.html'))) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h', setHeaders: noCacheForIndex }));
+    // Every other path belongs to the single-page app's router.
+    app.get('/{*splat}', (_req, res) => {
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(path.join(clientDir, 'index.html'));
+    });
+  }
+
+  app.use(errorHandler);
+
+  return {
+    app,
+    ctx,
+    async close() {
+      ctx.mailer.close();
+      await Promise.allSettled([ctx.db.destroy(), sessionPool.end()]);
+    },
+  };
+}
+
+function noCacheForIndex(res: express.Response, filePath: string): void {
+  if (filePath.endsWith('.html')) res.setHeader('Cache-Control', 'no-cache');
+}

@@ -1,0 +1,14 @@
+/** An error with an HTTP status and a stable code; messages of statuses < 500 reach the client. */
+export class AppError extends Error {
+  constructor(
+    readonly code: string,
+    message: string,
+    readonly status = 400,
+    readonly fieldErrors?: Record<string, string[]>,
+  ) {
+    super(message);
+    this.name = 'AppError';
+  }
+}
+
+export const notFound = (what: string) => new AppError('not_found', `${what} was not found`, 404);

@@ -1,0 +1,17 @@
+import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
+
+declare global {
+  namespace Express {
+    // passport puts the signed-in account here.
+    // eslint-disable-next-line @typescript-eslint/no-empty-object-type
+    interface User extends SessionUser {}
+  }
+}
+
+declare module 'express-session' {
+  interface SessionData {
+    csrfToken?: string;
+  }
+}
+
+export {};
