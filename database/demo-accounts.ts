@@ -1,8 +1,10 @@
 import type { Role } from '../shared/src/accounts/roles';
+import demo from './demo-accounts.json';
 
-/** One invented person per role; printed by `npm start` and listed in the README. */
-export const DEMO_PASSWORD = 'starspots-demo';
-
+/**
+ * One invented person per role (the list lives in demo-accounts.json so that the start
+ * script can print it before TypeScript tooling is available).
+ */
 export interface DemoAccount {
   email: string;
   displayName: string;
@@ -10,10 +12,5 @@ export interface DemoAccount {
   roles: Role[];
 }
 
-export const DEMO_ACCOUNTS: DemoAccount[] = [
-  { email: 'proposer@halcyon.example', displayName: 'Mara Quillfeather', affiliation: 'Halcyon Night Array, Kestrel Ridge', roles: ['proposer'] },
-  { email: 'reviewer@halcyon.example', displayName: 'Teodor Vasslund', affiliation: 'Vindelholm Station', roles: ['reviewer'] },
-  { email: 'manager@halcyon.example', displayName: 'Ilse Marrowby', affiliation: 'Halcyon Night Array operations', roles: ['facility_manager'] },
-  { email: 'billing@halcyon.example', displayName: 'Pim Lattercombe', affiliation: 'Halcyon Night Array finance', roles: ['billing_contact'] },
-  { email: 'admin@halcyon.example', displayName: 'Sol Ardenwick', affiliation: 'Halcyon Night Array IT', roles: ['administrator'] },
-];
+export const DEMO_PASSWORD: string = demo.password;
+export const DEMO_ACCOUNTS = demo.accounts as DemoAccount[];

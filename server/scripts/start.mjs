@@ -1,0 +1,80 @@
+// `npm start`: everything from a fresh machine to a running app, idempotent and quick the
+// second time. Ctrl-C stops what it started (PostgreSQL included, if this run started it).
+import { bringUpCluster } from '../../database/cluster.mjs';
+import { ensureClientBuild, ensureDependencies, readDemoAccounts, setUpDatabase, startTs, step, waitForHttp } from './setup.mjs';
+
+const env = {
+  PORT: process.env.PORT ?? '4300',
+  HOST: process.env.HOST ?? '127.0.0.1',
+  PGDATABASE: process.env.PGDATABASE ?? 'spincycle',
+  SMTP_PORT: process.env.SMTP_PORT ?? '2525',
+  MAIL_FAKE_HTTP_PORT: process.env.MAIL_FAKE_HTTP_PORT ?? '4399',
+};
+env.MAILBOX_URL = process.env.MAILBOX_URL ?? `http://127.0.0.1:${env.MAIL_FAKE_HTTP_PORT}`;
+const url = `http://${env.HOST}:${env.PORT}`;
+
+const children = [];
+let cluster;
+let stopping = false;
+
+function stopAll(code = 0) {
+  if (stopping) return;
+  stopping = true;
+  console.log('\nstopping Spincycle…');
+  for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
+  const wait = children.map((c) => (c.exitCode === null ? new Promise((r) => c.once('exit', r)) : null)).filter(Boolean);
+  Promise.race([Promise.all(wait), new Promise((r) => setTimeout(r, 6000))]).then(() => {
+    if (cluster?.started) {
+      cluster.stop();
+      console.log('PostgreSQL stopped');
+    }
+    process.exit(code);
+  });
+}
+process.on('SIGINT', () => stopAll(0));
+process.on('SIGTERM', () => stopAll(0));
+
+async function main() {
+  const t0 = performance.now();
+  await step('dependencies', () => ensureDependencies());
+  cluster = await step('PostgreSQL', () => bringUpCluster({ log: (m) => console.log(`  ${m}`) }));
+  await step(`database ${env.PGDATABASE}: migrations and demo data`, () => {
+    cluster.ensureDatabase(env.PGDATABASE);
+    setUpDatabase(env.PGDATABASE, '--seed-if-empty');
+  });
+  await step('client build', () => {
+    if (!ensureClientBuild()) console.log('  unchanged since the last build');
+  });
+  await step('local fakes (SMTP)', async () => {
+    const fakes = startTs('fakes/run.ts', env, { name: 'fakes' });
+    children.push(fakes);
+    await waitForHttp(env.MAILBOX_URL, 20_000, fakes);
+  });
+  await step('web server', async () => {
+    const server = startTs('server/src/server.ts', env, { name: 'web server' });
+    children.push(server);
+    await waitForHttp(`${url}/api/health`, 30_000, server);
+  });
+  for (const c of children) {
+    c.on('exit', (code) => {
+      if (!stopping) {
+        console.error(`${c.name} exited (code ${code}); stopping everything`);
+        stopAll(1);
+      }
+    });
+  }
+
+  const demo = readDemoAccounts();
+  const width = Math.max(...demo.accounts.map((a) => a.email.length));
+  console.log(`
+Spincycle is running at ${url}   (ready in ${((performance.now() - t0) / 1000).toFixed(1)} s)
+Development mailbox: ${url}/dev/mailbox
+Demo accounts (password for all: ${demo.password}):
+${demo.accounts.map((a) => `  ${a.email.padEnd(width)}  ${a.roles.join(', ')}`).join('\n')}
+Press Ctrl-C to stop.`);
+}
+
+main().catch((err) => {
+  console.error(`\nnpm start failed: ${err.message}`);
+  stopAll(1);
+});
