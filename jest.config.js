@@ -40,7 +40,7 @@ module.exports = {
     nodeProject('browser', ['<rootDir>/test/e2e'], {
       globalSetup: '<rootDir>/test/e2e/support/global-setup.ts',
       globalTeardown: '<rootDir>/test/e2e/support/global-teardown.ts',
-      testTimeout: 60_000,
+      setupFilesAfterEnv: ['<rootDir>/test/e2e/support/timeouts.ts'],
     }),
   ],
 };

@@ -1,0 +1,35 @@
+import { Routes } from '@angular/router';
+import { authGuard } from './core/auth/auth-guard';
+import { roleGuard } from './core/auth/role-guard';
+import { authRoutes } from './features/auth/auth.routes';
+
+/**
+ * Top-level routes; every page is a lazily loaded chunk. The auth pages are spread in rather
+ * than loaded with loadChildren: they live at top-level URLs that e-mails link to
+ * (/reset-password?token=…), and a path-'' loadChildren would fetch their chunk on every
+ * first navigation while the router looks for a match.
+ */
+export const routes: Routes = [
+  ...authRoutes,
+  {
+    path: '',
+    pathMatch: 'full',
+    canActivate: [authGuard],
+    loadChildren: () => import('./features/home/home.routes'),
+  },
+  {
+    path: 'network',
+    canActivate: [authGuard],
+    loadChildren: () => import('./features/network/network.routes'),
+  },
+  {
+    path: 'admin',
+    canActivate: [authGuard, roleGuard('administrator')],
+    loadChildren: () => import('./features/admin/admin.routes'),
+  },
+  {
+    path: '**',
+    title: 'Page not found',
+    loadComponent: () => import('./features/not-found/not-found'),
+  },
+];

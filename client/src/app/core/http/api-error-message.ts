@@ -1,0 +1,18 @@
+import { HttpErrorResponse } from '@angular/common/http';
+import { isApiErrorBody, type ApiErrorBody } from '@spincycle/shared/http/api-error';
+
+/**
+ * The API's `{ code, message, fieldErrors? }` from any failure a page may receive
+ * (an HttpClient error, or a resource error wrapping one), with a plain sentence when the
+ * server did not send such a body.
+ */
+export function readApiError(error: unknown): ApiErrorBody {
+  const cause = error instanceof HttpErrorResponse ? error : (error as { cause?: unknown } | null)?.cause;
+  if (cause instanceof HttpErrorResponse) {
+    if (isApiErrorBody(cause.error)) return cause.error;
+    if (cause.status === 0) return { code: 'unreachable', message: 'The server could not be reached.' };
+    if (cause.status >= 500) return { code: 'server_error', message: 'The server could not complete the request.' };
+    return { code: `http_${cause.status}`, message: `The request was refused (${cause.status}).` };
+  }
+  return { code: 'unexpected', message: 'Something went wrong.' };
+}

@@ -1,0 +1,26 @@
+import { hasAnyRole, type Role } from '@spincycle/shared/accounts/roles';
+
+/** One entry of the main navigation. */
+export interface NavLink {
+  path: string;
+  label: string;
+  /** A Material Symbols ligature. */
+  icon: string;
+  /** Shown only to holders of one of these roles; absent = every signed-in person. */
+  roles?: Role[];
+  /** Active only on this exact URL (for the home link). */
+  exact?: boolean;
+}
+
+/** The pages that exist so far, in the order they appear in the sidenav. */
+export const NAV_LINKS: readonly NavLink[] = [
+  { path: '/', label: 'Home', icon: 'home', exact: true },
+  { path: '/network', label: 'Network', icon: 'hub' },
+  { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['administrator'] },
+];
+
+/** The links a person with these roles may follow. */
+export function visibleNavLinks(user: { roles: readonly Role[] } | null): NavLink[] {
+  if (!user) return [];
+  return NAV_LINKS.filter((link) => !link.roles || hasAnyRole(user, ...link.roles));
+}

@@ -1,0 +1,9 @@
+import { Routes } from '@angular/router';
+
+/** Loaded under /admin behind authGuard and roleGuard('administrator') (see app.routes.ts). */
+const adminRoutes: Routes = [
+  { path: '', pathMatch: 'full', redirectTo: 'accounts' },
+  { path: 'accounts', title: 'Accounts', loadComponent: () => import('./account-list/account-list') },
+];
+
+export default adminRoutes;
