@@ -1,0 +1,147 @@
+import fc from 'fast-check';
+import type { NodeSpec, SiteSpec } from '../facility/facility-types';
+import { ScienceInputError } from './science-input-error';
+import { type TargetPlanTarget, computeTargetPlan, defaultRelationFor } from './target-plan';
+
+const NODE: NodeSpec = {
+  apertureM: 0.5,
+  obstructionFraction: 0.4,
+  throughput: 0.45,
+  band: 'V',
+  readNoiseE: 9,
+  darkCurrentEPerS: 0.02,
+  gainEPerAdu: 1.4,
+  saturationE: 50000,
+  pixelScaleArcsec: 0.75,
+  seeingFwhmArcsec: 2,
+  systematicFloorMmag: 1,
+  scintillationModel: 'young1967',
+  overheadSeconds: 45,
+  minExposureSeconds: 2,
+  maxExposureSeconds: 300,
+  altitudeLimitDeg: 30,
+  sunAltitudeLimitDeg: -12,
+  weatherLossFraction: 0.3,
+  rateMinorPerHour: 6000,
+  currency: 'eur',
+};
+const SITE: SiteSpec = { latitudeDeg: 30, longitudeDeg: -70, elevationM: 2000, timeZone: 'UTC', skyBrightnessMagPerArcsec2: 21.3 };
+const STAR: TargetPlanTarget = {
+  name: 'Star A-17',
+  colour: { value: 1.1, system: 'BPRP' },
+  ageMyr: 800,
+  ageUncertaintyMyr: 100,
+  magnitude: { value: 11.5, band: 'G' },
+};
+
+describe('computeTargetPlan', () => {
+  it('explains every quantity with a finite value, a unit, a why line and a source', () => {
+    const plan = computeTargetPlan(STAR, NODE, SITE);
+    for (const [key, q] of Object.entries(plan.quantities)) {
+      if (q.value !== null) expect([key, Number.isFinite(q.value)]).toEqual([key, true]);
+      expect(q.unit.length).toBeGreaterThan(0);
+      expect(q.why.length).toBeGreaterThan(5);
+      expect(q.source.length).toBeGreaterThan(3);
+      expect(['paper', 'derived', 'memory', 'practice', 'choice']).toContain(q.tag);
+    }
+    expect(plan).toMatchObject({ targetName: 'Star A-17', relation: 'angus2019', turnoverScale: 'noyes1984', currency: 'eur', feasible: true });
+  });
+
+  it('chains the numbers consistently', () => {
+    const { quantities: q } = computeTargetPlan(STAR, NODE, SITE);
+    expect(q.shortestPeriodDays.value).toBeLessThan(q.periodDays.value);
+    expect(q.longestPeriodDays.value).toBeGreaterThan(q.periodDays.value);
+    expect(q.baselineDays.value).toBeGreaterThanOrEqual(3 * q.longestPeriodDays.value);
+    expect(q.visits.value).toBeGreaterThanOrEqual(Math.max(q.visitsForDetection.value, q.visitsForCadence.value));
+    expect(q.visitSeconds.value).toBeCloseTo(q.exposureSeconds.value + NODE.overheadSeconds, 9);
+    expect(q.nodeHoursClear.value).toBeCloseTo((q.visits.value * q.visitSeconds.value) / 3600, 9);
+    expect(q.nodeHours.value).toBeGreaterThanOrEqual(q.nodeHoursClear.value / (1 - NODE.weatherLossFraction) - 1e-9);
+    expect(Number.isInteger(q.feeMinor.value)).toBe(true);
+    expect(q.feeMinor.value).toBe(Math.round(q.nodeHours.value * NODE.rateMinorPerHour));
+    expect(q.expectedFalseAlarmProbability.value).toBeLessThanOrEqual(0.01);
+    // Samples per cycle of the shortest plausible period ≥ 10.
+    expect((q.visitsPerNight.value * q.shortestPeriodDays.value) / q.nightStepDays.value).toBeGreaterThanOrEqual(10);
+  });
+
+  it('defaults to Angus 2019 for BP−RP and Barnes 2007 for B−V', () => {
+    expect(defaultRelationFor('BPRP')).toBe('angus2019');
+    expect(computeTargetPlan({ ...STAR, colour: { value: 0.9, system: 'BV' } }, NODE, SITE).relation).toBe('barnes2007');
+  });
+
+  it('extends the baseline for a requested period precision, and then reaches it', () => {
+    const plain = computeTargetPlan(STAR, NODE, SITE);
+    const precise = computeTargetPlan({ ...STAR, periodPrecisionDays: 0.05 }, NODE, SITE);
+    expect(precise.quantities.baselineDays.value).toBeGreaterThan(plain.quantities.baselineDays.value);
+    expect(precise.quantities.expectedPeriodPrecisionDays.value).toBeLessThanOrEqual(0.05 * 1.0001);
+    expect(precise.quantities.baselineForPrecisionDays.value).not.toBeNull();
+    expect(plain.quantities.baselineForPrecisionDays.value).toBeNull();
+  });
+
+  it('asks for several visits per night for short periods (SCIENCE.md §6)', () => {
+    const young = computeTargetPlan({ ...STAR, colour: { value: 0.75, system: 'BPRP' }, ageMyr: 300, ageUncertaintyMyr: 50 }, NODE, SITE);
+    expect(young.quantities.shortestPeriodDays.value).toBeLessThan(5);
+    expect(young.quantities.visitsPerNight.value).toBeGreaterThanOrEqual(3);
+  });
+
+  it('marks a star that saturates at the shortest exposure as not feasible', () => {
+    const plan = computeTargetPlan({ ...STAR, magnitude: { value: 4, band: 'V' } }, NODE, SITE);
+    expect(plan.feasible).toBe(false);
+    expect(plan.flags.find((f) => f.code === 'saturatesAtMinExposure')?.severity).toBe('blocking');
+  });
+
+  it('costs more node-hours on a node with more weather loss, other things equal', () => {
+    const a = computeTargetPlan(STAR, NODE, SITE).quantities.nodeHours.value;
+    const b = computeTargetPlan(STAR, { ...NODE, weatherLossFraction: 0.5 }, SITE).quantities.nodeHours.value;
+    expect(b).toBeGreaterThan(a);
+  });
+
+  it('never returns NaN over a wide range of targets (property)', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0.6, max: 3.3, noNaN: true }),
+        fc.double({ min: 50, max: 12000, noNaN: true }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        fc.double({ min: 3, max: 20, noNaN: true }),
+        fc.constantFrom('B', 'V', 'R', 'I', 'G' as const),
+        (bprp, ageMyr, relErr, mag, band) => {
+          const plan = computeTargetPlan(
+            { colour: { value: bprp, system: 'BPRP' }, ageMyr, ageUncertaintyMyr: relErr * ageMyr, magnitude: { value: mag, band } },
+            { ...NODE, band },
+            SITE,
+          );
+          for (const q of Object.values(plan.quantities)) if (q.value !== null) expect(Number.isFinite(q.value)).toBe(true);
+        },
+      ),
+      { numRuns: 200 },
+    );
+  });
+
+  it.each([
+    ['target.ageMyr', { ...STAR, ageMyr: -1 }, {}],
+    ['target.ageMyr', { ...STAR, ageMyr: Number.NaN }, {}],
+    ['target.colour.value', { ...STAR, colour: { value: 4, system: 'BPRP' as const } }, {}],
+    ['target.colour.system', { ...STAR, colour: { value: 1, system: 'UB' as never } }, {}],
+    ['target.magnitude.value', { ...STAR, magnitude: { value: Number.NaN, band: 'G' as const } }, {}],
+    ['target.periodPrecisionDays', { ...STAR, periodPrecisionDays: 0 }, {}],
+    ['target.reddeningEbvMag', { ...STAR, reddeningEbvMag: -0.2 }, {}],
+    ['options.falseAlarmProbability', STAR, { falseAlarmProbability: 1.5 }],
+    ['options.samplesPerCycle', STAR, { samplesPerCycle: 0 }],
+    ['options.relation', STAR, { relation: 'nope' as never }],
+    ['options.amplitudeModel.anchorRossby', STAR, { amplitudeModel: { anchorRossby: -1 } }],
+    ['options.photometry.apertureRadiusFwhm', STAR, { photometry: { apertureRadiusFwhm: 0 } }],
+  ])('rejects bad input naming %s', (field, target, options) => {
+    let err: unknown;
+    try {
+      computeTargetPlan(target as TargetPlanTarget, NODE, SITE, options as never);
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(ScienceInputError);
+    expect((err as ScienceInputError).field).toBe(field);
+  });
+
+  it('rejects a bad node or site naming the field', () => {
+    expect(() => computeTargetPlan(STAR, { ...NODE, saturationE: 0 }, SITE)).toThrow(/node.saturationE/);
+    expect(() => computeTargetPlan(STAR, NODE, { ...SITE, skyBrightnessMagPerArcsec2: Number.NaN })).toThrow(/site.skyBrightnessMagPerArcsec2/);
+  });
+});

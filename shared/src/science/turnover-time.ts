@@ -1,0 +1,187 @@
+/**
+ * Convective turnover time τc and Rossby number Ro = P/τc on four published scales.
+ * Every result names its scale: Rossby numbers from different scales differ by factors of
+ * order 1 and must never be compared across scales.
+ */
+import {
+  type ColourSystem,
+  type ResolvedColour,
+  colourLabel,
+  requireSequence,
+  resolveColour,
+  DWARF_SEQUENCE_SOURCE,
+} from './colour-sequence';
+import { type ScienceFlag, flag, fmt } from './explained';
+import { requireOneOf, requirePositive } from './science-input-error';
+
+export const TURNOVER_SCALES = ['noyes1984', 'cranmerSaar2011', 'wright2011', 'wright2018'] as const;
+export type TurnoverScale = (typeof TURNOVER_SCALES)[number];
+
+/** What each scale needs, its validity range, and its citation. */
+export interface TurnoverScaleInfo {
+  id: TurnoverScale;
+  label: string;
+  citation: string;
+  /** The stellar quantity the formula takes. */
+  input: 'bvMag' | 'teffK' | 'massSolar' | 'vKsMag';
+  /** Range of that quantity over which the formula was calibrated. */
+  valid: { min: number; max: number; note: string };
+}
+
+export const TURNOVER_SCALE_INFO: Readonly<Record<TurnoverScale, TurnoverScaleInfo>> = {
+  noyes1984: {
+    id: 'noyes1984',
+    label: 'Noyes et al. (1984)',
+    citation: 'Noyes et al. (1984), ApJ 279, 763, eq. 4 (equation number from memory)',
+    input: 'bvMag',
+    valid: { min: 0.4, max: 1.4, note: 'B−V 0.4–1.4 (from memory)' },
+  },
+  cranmerSaar2011: {
+    id: 'cranmerSaar2011',
+    label: 'Cranmer & Saar (2011)',
+    citation: 'Cranmer & Saar (2011), ApJ 741, 54, eq. 36',
+    input: 'teffK',
+    valid: { min: 3300, max: 7000, note: 'Teff 3300–7000 K (SCIENCE.md §2)' },
+  },
+  wright2011: {
+    id: 'wright2011',
+    label: 'Wright et al. (2011)',
+    citation: 'Wright et al. (2011), ApJ 743, 48, eq. 11',
+    input: 'massSolar',
+    valid: { min: 0.09, max: 1.36, note: 'mass 0.09–1.36 M☉ (from memory)' },
+  },
+  wright2018: {
+    id: 'wright2018',
+    label: 'Wright et al. (2018)',
+    citation: 'Wright et al. (2018), MNRAS 479, 2351, eq. 5',
+    input: 'vKsMag',
+    valid: { min: 1.1, max: 7.0, note: 'V−Ks 1.1–7.0 (SCIENCE.md §2)' },
+  },
+};
+
+/**
+ * Noyes et al. (1984), ApJ 279, 763, eq. 4 (equation number from memory): with x = 1 − (B−V),
+ * log10 τ = 1.362 − 0.166x + 0.025x² − 5.323x³ for x > 0, and 1.362 − 0.14x for x ≤ 0 (days).
+ */
+export function turnoverTimeNoyes1984(bvMag: number, field = 'bvMag'): number {
+  const bv = requirePositive(bvMag, field);
+  const x = 1 - bv;
+  const logTau = x > 0 ? 1.362 - 0.166 * x + 0.025 * x * x - 5.323 * x * x * x : 1.362 - 0.14 * x;
+  return 10 ** logTau;
+}
+
+/**
+ * Cranmer & Saar (2011), ApJ 741, 54, eq. 36:
+ * τ = 314.24·exp(−Teff/1952.5 − (Teff/6250)^18) + 0.002 days.
+ */
+export function turnoverTimeCranmerSaar2011(teffK: number, field = 'teffK'): number {
+  const t = requirePositive(teffK, field);
+  return 314.24 * Math.exp(-t / 1952.5 - (t / 6250) ** 18) + 0.002;
+}
+
+/** Wright et al. (2011), ApJ 743, 48, eq. 11: log10 τ = 1.16 − 1.49·log10 M − 0.54·(log10 M)² days. */
+export function turnoverTimeWright2011(massSolar: number, field = 'massSolar'): number {
+  const lm = Math.log10(requirePositive(massSolar, field));
+  return 10 ** (1.16 - 1.49 * lm - 0.54 * lm * lm);
+}
+
+/** Wright et al. (2018), MNRAS 479, 2351, eq. 5: log10 τ = 0.64 + 0.25·(V−Ks) days. */
+export function turnoverTimeWright2018(vKsMag: number, field = 'vKsMag'): number {
+  const vk = requirePositive(vKsMag, field);
+  return 10 ** (0.64 + 0.25 * vk);
+}
+
+/** τc on one scale, with the stellar quantity it used. */
+export interface TurnoverTime {
+  tauDays: number;
+  scale: TurnoverScale;
+  scaleLabel: string;
+  source: string;
+  /** The quantity the formula took and its value (e.g. B−V 0.65, or Teff 5772 K). */
+  inputQuantity: TurnoverScaleInfo['input'];
+  inputValue: number;
+  /** How the input was obtained: the target's own colour, or the dwarf sequence. */
+  inputOrigin: string;
+  flags: ScienceFlag[];
+}
+
+/**
+ * τc for a target colour on the chosen scale. Noyes takes (B−V)0 directly when the colour is
+ * given in B−V; otherwise the quantity comes from the dwarf sequence (Pecaut & Mamajek 2013),
+ * which then must contain the colour (ScienceInputError otherwise).
+ */
+export function turnoverTimeForColour(
+  colour: ResolvedColour,
+  scale: TurnoverScale,
+  field = 'colour.value',
+): TurnoverTime {
+  requireOneOf(scale, 'turnoverScale', TURNOVER_SCALES);
+  const info = TURNOVER_SCALE_INFO[scale];
+  const direct: Partial<Record<TurnoverScaleInfo['input'], ColourSystem>> = { bvMag: 'BV', vKsMag: 'VKs' };
+  let value: number;
+  let origin: string;
+  if (direct[info.input] === colour.intrinsic.system) {
+    value = colour.intrinsic.value;
+    origin = `the target's intrinsic ${colourLabel(colour.intrinsic.system)}`;
+  } else {
+    const point = requireSequence(colour, field);
+    value = point[info.input];
+    origin = `${DWARF_SEQUENCE_SOURCE} at ${colourLabel(colour.intrinsic.system)} ${fmt(colour.intrinsic.value)}`;
+  }
+  const tauDays = turnoverTimeOf(scale, value);
+  const flags: ScienceFlag[] = [];
+  if (value < info.valid.min || value > info.valid.max) {
+    flags.push(
+      flag(
+        'turnoverOutsideCalibration',
+        'caution',
+        `${info.label} τc is extrapolated: ${inputLabel(info.input)} ${fmt(value)} is outside ${info.valid.note}`,
+        info.citation,
+      ),
+    );
+  }
+  return {
+    tauDays,
+    scale,
+    scaleLabel: info.label,
+    source: info.citation,
+    inputQuantity: info.input,
+    inputValue: value,
+    inputOrigin: origin,
+    flags,
+  };
+}
+
+/** τc from the scale's own input quantity. */
+export function turnoverTimeOf(scale: TurnoverScale, value: number): number {
+  switch (scale) {
+    case 'noyes1984':
+      return turnoverTimeNoyes1984(value);
+    case 'cranmerSaar2011':
+      return turnoverTimeCranmerSaar2011(value);
+    case 'wright2011':
+      return turnoverTimeWright2011(value);
+    case 'wright2018':
+      return turnoverTimeWright2018(value);
+  }
+}
+
+/** A Rossby number and the τ scale it is on. */
+export interface RossbyNumber extends TurnoverTime {
+  rossby: number;
+  periodDays: number;
+}
+
+/** Ro = P/τc (Noyes et al. 1984 definition), on the chosen τ scale. */
+export function rossbyNumber(
+  input: { periodDays: number; colour: { value: number; system: ColourSystem }; reddeningEbvMag?: number },
+  scale: TurnoverScale = 'noyes1984',
+): RossbyNumber {
+  const periodDays = requirePositive(input.periodDays, 'periodDays');
+  const tau = turnoverTimeForColour(resolveColour(input.colour, input.reddeningEbvMag), scale);
+  return { ...tau, rossby: periodDays / tau.tauDays, periodDays };
+}
+
+function inputLabel(q: TurnoverScaleInfo['input']): string {
+  return { bvMag: 'B−V', teffK: 'Teff', massSolar: 'mass', vKsMag: 'V−Ks' }[q];
+}
