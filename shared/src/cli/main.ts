@@ -1,0 +1,12 @@
+/** Entry point of the `spincycle` command line (see README.md beside this file). */
+import { runCli } from './run-cli';
+
+runCli(process.argv.slice(2)).then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (err: unknown) => {
+    process.stderr.write(`error: ${(err as Error)?.stack ?? String(err)}\n`);
+    process.exitCode = 1;
+  },
+);

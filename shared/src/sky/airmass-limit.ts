@@ -1,0 +1,37 @@
+/**
+ * Airmass ↔ altitude with the Kasten & Young (1989) formula, Applied Optics 28, 4735 [memory for the
+ * page; the coefficients reproduce SCIENCE.md §8 check value 9]:
+ *
+ *     X(h) = 1 / (sin h + 0.50572 · (h + 6.07995°)^−1.6364)
+ *
+ * with h the altitude in degrees (SCIENCE.md §8 check value 9: X(30°) = 1.9943, X(90°) = 0.9997).
+ * The product's precision model uses the same formula, so an airmass limit converted here
+ * selects the same altitudes the exposure times were computed for.
+ */
+import { SkyInputError, requireFiniteInRange } from './sky-input-error';
+
+/** Kasten & Young (1989) relative airmass at altitude `altitudeDeg` (degrees, 0–90). */
+export function kastenYoungAirmass(altitudeDeg: number): number {
+  return 1 / (Math.sin((altitudeDeg * Math.PI) / 180) + 0.50572 * Math.pow(altitudeDeg + 6.07995, -1.6364));
+}
+
+/** Highest airmass the formula reaches (at the horizon), ≈ 37.9. */
+export const MAX_AIRMASS_AT_HORIZON = kastenYoungAirmass(0);
+
+/**
+ * Altitude (degrees) at which the Kasten & Young airmass equals `airmass`: the inverse of
+ * `kastenYoungAirmass`, by bisection (X decreases monotonically with altitude on 0–90°).
+ */
+export function altitudeForAirmassDeg(airmass: number, field = 'limits.airmassLimit'): number {
+  requireFiniteInRange(airmass, field, 1, MAX_AIRMASS_AT_HORIZON);
+  let low = 0;
+  let high = 90;
+  for (let i = 0; i < 60; i++) {
+    const mid = (low + high) / 2;
+    if (kastenYoungAirmass(mid) > airmass) low = mid;
+    else high = mid;
+  }
+  const altitude = (low + high) / 2;
+  if (!Number.isFinite(altitude)) throw new SkyInputError(field, 'cannot be converted to an altitude');
+  return altitude;
+}

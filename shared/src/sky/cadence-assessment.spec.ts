@@ -1,0 +1,147 @@
+import { assessCadence, nightVisitCapacity, type CadenceRequirement } from './cadence-assessment';
+import { SkyInputError } from './sky-input-error';
+import { computeSkyWindows, summarizeTargetWindows } from './sky-windows';
+import { MAX_INTERVALS_PER_NIGHT, type TargetWindows } from './sky-types';
+
+const HOUR = 3_600_000;
+
+/** Synthetic windows: night n has one interval of `hours[n]` (or several, given as arrays). */
+function windowsOf(hours: Array<number | number[]>): TargetWindows {
+  const count = hours.length;
+  const intervals = new Float64Array(count * MAX_INTERVALS_PER_NIGHT * 2);
+  const intervalCount = new Uint8Array(count);
+  const usable = new Float64Array(count);
+  hours.forEach((h, n) => {
+    const list = Array.isArray(h) ? h : h > 0 ? [h] : [];
+    let t = n * 24 * HOUR;
+    list.forEach((len, k) => {
+      intervals[(n * MAX_INTERVALS_PER_NIGHT + k) * 2] = t;
+      intervals[(n * MAX_INTERVALS_PER_NIGHT + k) * 2 + 1] = t + len * HOUR;
+      t += len * HOUR + 2 * HOUR;
+      usable[n] += len;
+    });
+    intervalCount[n] = list.length;
+  });
+  const w: TargetWindows = {
+    targetIndex: 0,
+    name: 'synthetic',
+    raDeg: 0,
+    decDeg: 0,
+    nightDates: hours.map((_, n) => new Date(Date.UTC(2025, 0, 1 + n)).toISOString().slice(0, 10)),
+    usableHoursByNight: usable,
+    altitudeAtMidDarkDegByNight: new Float64Array(count),
+    moonSeparationDegByNight: new Float64Array(count),
+    moonAltitudeDegByNight: new Float64Array(count),
+    moonIlluminationByNight: new Float64Array(count),
+    moonExcludedByNight: new Uint8Array(count),
+    intervalCountByNight: intervalCount,
+    intervalsUtcMs: intervals,
+    summary: {
+      firstUsableNight: null,
+      lastUsableNight: null,
+      usableNights: 0,
+      totalNights: count,
+      totalUsableHours: 0,
+      maxNightlyUsableHours: 0,
+      longestGapNights: null,
+      visibility: 'rises-and-sets',
+    },
+  };
+  summarizeTargetWindows(w, 0);
+  return w;
+}
+
+const every = (n: number, h: number) => Array.from({ length: n }, () => h);
+const req = (r: Partial<CadenceRequirement>): CadenceRequirement => ({
+  visitsPerNight: 1,
+  visitHours: 0.25,
+  cadenceDays: 1,
+  baselineDays: 30,
+  totalVisits: 20,
+  ...r,
+});
+
+describe('assessCadence', () => {
+  it('fits a modest requirement on 180 clear-able nights and says so in one line', () => {
+    const a = assessCadence(windowsOf(every(180, 4)), req({ cadenceDays: 2, baselineDays: 90, totalVisits: 46 }), 0.3);
+    expect(a.fits).toBe(true);
+    expect(a.reasons).toEqual([]);
+    expect(a.verdict).toBe('observable on 180 of 180 nights; longest gap 1 night; cadence fits');
+    expect(a.expectedClearNights).toBeCloseTo(126, 9);
+    expect(a.cadenceNightsNeeded).toBe(46);
+  });
+
+  it('refuses when the qualifying nights after weather loss are fewer than the cadence needs', () => {
+    // 41 observable nights, cadence 1 night over 59 days → 60 nights needed.
+    const hours = [...every(41, 3), ...every(139, 0)];
+    const a = assessCadence(windowsOf(hours), req({ cadenceDays: 1, baselineDays: 59, totalVisits: 60 }), 0);
+    expect(a.fits).toBe(false);
+    expect(a.reasons).toContain('the target is observable on only 41 nights but 60 visits at 1 per night need 60');
+    expect(a.reasons).toContain('observable span 40 nights is shorter than the baseline of 59 days');
+  });
+
+  it('names the weather loss when it is what breaks the count', () => {
+    const a = assessCadence(windowsOf(every(60, 3)), req({ cadenceDays: 1, baselineDays: 59, totalVisits: 60 }), 0.25);
+    expect(a.fits).toBe(false);
+    expect(a.reasons[0]).toBe('the target is observable on only 60 nights (45 expected clear after 25 % weather loss) but 60 visits at 1 per night need 60');
+    expect(a.reasons[1]).toBe('the target is observable on only 60 nights (45 expected clear after 25 % weather loss) but the cadence needs 60');
+  });
+
+  it('reports a gap longer than the cadence', () => {
+    const hours = [...every(30, 3), ...every(33, 0), ...every(30, 3)];
+    const a = assessCadence(windowsOf(hours), req({ cadenceDays: 2, baselineDays: 80, totalVisits: 30 }), 0);
+    expect(a.fits).toBe(false);
+    expect(a.longestGapNights).toBe(34);
+    expect(a.reasons).toEqual(['longest gap 34 nights exceeds the cadence of 2 nights']);
+    expect(a.verdict).toBe(
+      'observable on 60 of 93 nights; longest gap 34 nights; cadence does not fit: longest gap 34 nights exceeds the cadence of 2 nights',
+    );
+  });
+
+  it('chooses the stretch of the campaign without the gap when the baseline is short enough', () => {
+    const hours = [...every(30, 3), ...every(33, 0), ...every(30, 3)];
+    const a = assessCadence(windowsOf(hours), req({ cadenceDays: 2, baselineDays: 20, totalVisits: 11 }), 0);
+    expect(a.fits).toBe(true);
+    expect(a.baselineWindow).toEqual({ firstNight: '2025-01-01', lastNight: '2025-01-21', qualifyingNights: 21, longestGapNights: 1 });
+  });
+
+  it('explains a nightly window too short for the visits', () => {
+    const a = assessCadence(windowsOf(every(30, 0.4)), req({ visitsPerNight: 3, visitHours: 0.25, totalVisits: 30 }), 0);
+    expect(a.fits).toBe(false);
+    expect(a.reasons).toEqual(['nightly window 0.4 h at most cannot hold 3 visits of 0.25 h spaced over the night']);
+  });
+
+  it('counts visits per interval: two intervals of 0.5 h hold 2 visits of 0.4 h, not 2 of 0.6 h', () => {
+    const w = windowsOf([[0.5, 0.5]]);
+    expect(nightVisitCapacity(w, 0, 0.4)).toBe(2);
+    expect(nightVisitCapacity(w, 0, 0.5)).toBe(2);
+    expect(nightVisitCapacity(w, 0, 0.6)).toBe(0);
+  });
+
+  it('says when the target is never observable', () => {
+    const a = assessCadence(windowsOf(every(10, 0)), req({}), 0);
+    expect(a.reasons).toEqual(['the target is never observable from this site during the campaign']);
+    expect(a.verdict).toMatch(/^observable on 0 of 10 nights; no gap; cadence does not fit/);
+  });
+
+  it('refuses a bad requirement with a SkyInputError naming the field', () => {
+    const w = windowsOf(every(5, 2));
+    expect(() => assessCadence(w, req({ visitsPerNight: 1.5 }), 0)).toThrow(SkyInputError);
+    expect(() => assessCadence(w, req({ visitHours: Number.NaN }), 0)).toThrow('requirement.visitHours');
+    expect(() => assessCadence(w, req({}), 1)).toThrow('weatherLossFraction');
+  });
+
+  it('works on computed windows: a winter target from a northern site over half a year', () => {
+    const result = computeSkyWindows({
+      site: { latitudeDeg: 28.76, longitudeDeg: -17.88, elevationM: 2300, timeZone: 'Atlantic/Canary' },
+      limits: { altitudeLimitDeg: 30 },
+      campaign: { firstNight: '2025-01-01', lastNight: '2025-06-29' },
+      targets: [{ raDeg: 90, decDeg: 20 }],
+    });
+    const a = assessCadence(result.targets[0], req({ cadenceDays: 3, baselineDays: 60, totalVisits: 21 }), 0.2);
+    expect(a.fits).toBe(true);
+    expect(a.qualifyingNights).toBeGreaterThan(80);
+    expect(a.qualifyingNights).toBeLessThan(180);
+    expect(a.verdict).toMatch(/^observable on \d+ of 180 nights; longest gap 1 night; cadence fits$/);
+  });
+});

@@ -1,0 +1,38 @@
+/**
+ * The one error the sky-window code throws for bad input. `field` is the path of the offending
+ * value in the caller's input (`targets[3].decDeg`, `campaign.lastNight`, `ra`), so the server
+ * can turn it into `fieldErrors` and the CLI can name the column.
+ */
+export class SkyInputError extends Error {
+  /** Path of the offending value, e.g. `targets[3].decDeg`. */
+  readonly field: string;
+  /** Why the value was refused, without the field name, e.g. `must be within −90…+90, got 91`. */
+  readonly reason: string;
+
+  constructor(field: string, reason: string) {
+    super(`${field}: ${reason}`);
+    this.name = 'SkyInputError';
+    this.field = field;
+    this.reason = reason;
+  }
+}
+
+/** Formats a number for an error message without hiding NaN or infinities. */
+export function describeValue(value: unknown): string {
+  if (typeof value === 'number') return Number.isNaN(value) ? 'NaN' : String(value);
+  if (typeof value === 'string') return JSON.stringify(value);
+  if (value === undefined) return 'nothing';
+  if (value === null) return 'null';
+  return typeof value;
+}
+
+/** Throws unless `value` is a finite number within [min, max]. */
+export function requireFiniteInRange(value: unknown, field: string, min: number, max: number): number {
+  if (typeof value !== 'number' || !Number.isFinite(value)) {
+    throw new SkyInputError(field, `must be a finite number, got ${describeValue(value)}`);
+  }
+  if (value < min || value > max) {
+    throw new SkyInputError(field, `must be within ${min}…${max}, got ${value}`);
+  }
+  return value;
+}

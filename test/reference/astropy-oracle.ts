@@ -1,0 +1,31 @@
+/**
+ * Calls Debian's astropy (through /usr/bin/python3 and astropy-oracle.py beside this file)
+ * as the oracle of the Lomb–Scargle reference tests and of the periodogram benchmark. Data
+ * go in as JSON on stdin and come back as JSON on stdout.
+ */
+import { spawnSync } from 'node:child_process';
+import { join } from 'node:path';
+
+export const PYTHON = '/usr/bin/python3';
+const SCRIPT = join(__dirname, 'astropy-oracle.py');
+
+/** Throws a clear error unless /usr/bin/python3 can import astropy (the oracle never skips). */
+export function requireAstropy(): string {
+  const r = spawnSync(PYTHON, ['-c', 'import astropy, numpy; print(astropy.__version__)'], { encoding: 'utf8' });
+  if (r.error || r.status !== 0) {
+    throw new Error(
+      `astropy oracle unavailable: ${PYTHON} cannot import astropy (${r.error?.message ?? r.stderr.trim()}). ` +
+        'Install Debian\'s python3-astropy (apt-get install python3-astropy); the test set-up does this on a fresh machine.',
+    );
+  }
+  return r.stdout.trim();
+}
+
+/** Runs the oracle on a request and returns its parsed answer. */
+export function runAstropyOracle<T>(request: unknown): T {
+  const r = spawnSync(PYTHON, [SCRIPT], { input: JSON.stringify(request), encoding: 'utf8', maxBuffer: 512 * 1024 * 1024 });
+  if (r.error || r.status !== 0) {
+    throw new Error(`astropy oracle failed (exit ${r.status}): ${r.error?.message ?? r.stderr}`);
+  }
+  return JSON.parse(r.stdout) as T;
+}
