@@ -15,6 +15,7 @@ import { createAuthRoutes } from './features/auth/auth-routes';
 import { createPassport } from './features/auth/passport-setup';
 import { createFacilityRoutes } from './features/facility/facility-routes';
 import { createHealthRoutes } from './features/health/health-routes';
+import { createSkyWindowsRoutes } from './features/sky-windows/sky-windows-routes';
 import { createCsrf } from './http/csrf';
 import { createDevMailboxRoutes } from './http/dev-mailbox';
 import { apiNotFound, errorHandler } from './http/error-handler';
@@ -80,6 +81,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   api.use(csrf.issue, csrf.protect);
   api.use('/auth', createAuthRoutes(ctx, passport, csrf));
   api.use('/admin/accounts', createAccountRoutes(ctx));
+  api.use('/sky-windows', createSkyWindowsRoutes(ctx));
   api.use('/', createFacilityRoutes(ctx));
   app.use('/api', api);
   app.use('/api', apiNotFound);

@@ -110,3 +110,8 @@ export async function listCycles(db: Knex): Promise<(Cycle & { nodes: CycleNodeC
       .map((c) => ({ nodeId: c.node_id, nodeCode: c.code, nodeHoursAvailable: c.node_hours_available })),
   }));
 }
+
+export async function findCycleById(db: Knex, id: number): Promise<Cycle | undefined> {
+  const row = await db<CycleRow>('cycles').where({ id }).first();
+  return row ? toCycle(row) : undefined;
+}

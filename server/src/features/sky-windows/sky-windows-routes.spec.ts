@@ -1,0 +1,91 @@
+import { Horizon, Observer } from 'astronomy-engine';
+import { signedIn, startHarness, type Harness } from '../../../../test/support/api-harness';
+
+let h: Harness;
+let cycleId: number;
+let nodeId: number;
+let siteId: number;
+const tag = `W${Date.now().toString(36).toUpperCase()}`;
+
+beforeAll(async () => {
+  h = await startHarness();
+  const db = h.created.ctx.db;
+  [{ id: siteId }] = await db('sites')
+    .insert({ code: `${tag}S`, name: 'Window Hill', latitude_deg: -29.25, longitude_deg: -70.73, elevation_m: 2300, time_zone: 'America/Santiago', sky_brightness_mag_per_arcsec2: 21.7 })
+    .returning('id');
+  [{ id: nodeId }] = await db('nodes')
+    .insert({
+      code: `${tag}N`, name: 'Window 60', site_id: siteId, aperture_m: 0.6, obstruction_fraction: 0.4, throughput: 0.5, band: 'R', read_noise_e: 8,
+      dark_current_e_per_s: 0.02, gain_e_per_adu: 1.2, saturation_e: 70000, pixel_scale_arcsec: 0.9, seeing_fwhm_arcsec: 1.5, systematic_floor_mmag: 1,
+      scintillation_model: 'osborn2015', overhead_seconds: 50, min_exposure_seconds: 1, max_exposure_seconds: 300, altitude_limit_deg: 30,
+      weather_loss_fraction: 0.2, rate_minor_per_hour: 5000, currency: 'eur',
+    })
+    .returning('id');
+  [{ id: cycleId }] = await db('cycles')
+    .insert({ code: `${tag}C`, title: 'Window cycle', call_opens_at: new Date('2030-01-01'), call_closes_at: new Date('2030-02-01'), campaign_start: '2030-06-01', campaign_end: '2030-06-30' })
+    .returning('id');
+});
+afterAll(async () => {
+  const db = h.created.ctx.db;
+  await db('cycles').where({ id: cycleId }).del();
+  await db('nodes').where({ id: nodeId }).del();
+  await db('sites').where({ id: siteId }).del();
+  await h.close();
+});
+
+describe('POST /api/sky-windows', () => {
+  it('returns per-night windows from the node’s site with its own limits; a target at Dec −60° is up every June night in the south', async () => {
+    const { browser } = await signedIn(h);
+    const res = await browser.post('/api/sky-windows', {
+      cycleId,
+      nodeIds: [nodeId],
+      targets: [{ name: 'Star S-1', ra: '15:30:00', dec: '-60:00:00' }, { name: 'Star N-1', ra: 120, dec: 70 }],
+    });
+    expect(res.status).toBe(200);
+    const node = res.body.nodes[0];
+    expect(node).toMatchObject({ nodeId, nodeCode: `${tag}N`, siteName: 'Window Hill', weatherLossFraction: 0.2 });
+    expect(node.report.limits.altitudeLimitDeg).toBe(30);
+    expect(node.report.nights).toHaveLength(30);
+    const [south, north] = node.report.targets;
+    expect(south.raDeg).toBeCloseTo(232.5, 9);
+    expect(south.summary.usableNights).toBe(30);
+    // Dec +70° never climbs above 30° at latitude −29.25° (max altitude 90 − |φ − δ| = −9.25°).
+    expect(north.summary.usableNights).toBe(0);
+    // Cross-check one night's mid-darkness altitude with astronomy-engine's Horizon (outside our fast path).
+    const night = south.nights[10];
+    const dark = node.report.nights[10];
+    const mid = new Date((Date.parse(dark.darkStartUtc) + Date.parse(dark.darkEndUtc)) / 2);
+    const observer = new Observer(-29.25, -70.73, 2300);
+    // astronomy-engine works in of-date coordinates; at this precision (0.1°) J2000 is close enough.
+    const hor = Horizon(mid, observer, 232.5 / 15, -60, 'normal');
+    expect(night.altitudeAtMidDarkDeg).toBeCloseTo(hor.altitude, 0);
+  });
+
+  it('reports every bad coordinate by row and field, and computes nothing', async () => {
+    const { browser } = await signedIn(h);
+    const res = await browser.post('/api/sky-windows', {
+      cycleId,
+      nodeIds: [nodeId],
+      targets: [{ ra: 10, dec: 10 }, { ra: 400, dec: 0 }, { ra: '12:30', dec: '95.2' }, { ra: 'abc', dec: '1' }],
+    });
+    expect(res.status).toBe(400);
+    expect(res.body.message).toMatch(/^row 2, ra: /);
+    expect(Object.keys(res.body.fieldErrors).sort()).toEqual(['targets.1.ra', 'targets.2.dec', 'targets.3.ra']);
+    expect(res.body.fieldErrors['targets.2.dec'][0]).toMatch(/row 3, dec: .*95\.2/);
+  });
+
+  it('validates the request: unknown cycle or node, empty lists, too many targets with nights', async () => {
+    const { browser } = await signedIn(h);
+    const one = [{ ra: 1, dec: 1 }];
+    expect((await browser.post('/api/sky-windows', { cycleId: 99999999, nodeIds: [nodeId], targets: one })).body.fieldErrors.cycleId).toBeDefined();
+    expect((await browser.post('/api/sky-windows', { cycleId, nodeIds: [99999999], targets: one })).body.fieldErrors.nodeIds).toBeDefined();
+    expect((await browser.post('/api/sky-windows', { cycleId, nodeIds: [], targets: [] })).body.fieldErrors).toEqual(
+      expect.objectContaining({ nodeIds: expect.any(Array), targets: expect.any(Array) }),
+    );
+    const many = Array.from({ length: 51 }, (_, i) => ({ ra: i, dec: 0 }));
+    const res = await browser.post('/api/sky-windows', { cycleId, nodeIds: [nodeId], targets: many });
+    expect(res.status).toBe(400);
+    expect(res.body.fieldErrors.includeNights).toBeDefined();
+    expect((await browser.post('/api/sky-windows', { cycleId, nodeIds: [nodeId], targets: many, includeNights: false })).status).toBe(200);
+  });
+});
