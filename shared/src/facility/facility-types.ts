@@ -85,6 +85,8 @@ export interface Cycle {
   campaignEnd: string;
   anonymousReview: boolean;
   categories: string[];
+  /** Optimistic-concurrency version: an update must name the version it read. */
+  version: number;
 }
 
 /** Node-hours a node offers in a cycle. */

@@ -80,6 +80,7 @@ interface CycleRow {
   campaign_end: string;
   anonymous_review: boolean;
   categories: string[];
+  version: number;
 }
 
 export function toCycle(r: CycleRow): Cycle {
@@ -93,6 +94,7 @@ export function toCycle(r: CycleRow): Cycle {
     campaignEnd: r.campaign_end,
     anonymousReview: r.anonymous_review,
     categories: r.categories,
+    version: r.version,
   };
 }
 

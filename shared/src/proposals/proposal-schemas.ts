@@ -1,0 +1,109 @@
+import { z } from 'zod';
+import type { CycleSummary } from '../facility/facility-types';
+import type { ProposalState } from './proposal-states';
+
+/** POST /api/proposals: a new draft in an open cycle; the creator becomes its PI. */
+export const createProposalSchema = z.object({
+  cycleId: z.number().int().positive(),
+  title: z.string().trim().min(1, { message: 'give the proposal a title' }).max(200),
+});
+export type CreateProposalInput = z.infer<typeof createProposalSchema>;
+
+/**
+ * PATCH /api/proposals/:id (autosave). `version` is the one the editor last read: a
+ * different current version means someone else saved in between → 409 `version_conflict`.
+ */
+export const updateProposalSchema = z.object({
+  version: z.number().int().positive(),
+  title: z.string().trim().min(1, { message: 'give the proposal a title' }).max(200).optional(),
+  abstract: z.string().max(4000, { message: 'at most 4000 characters' }).optional(),
+  category: z.string().trim().max(80).nullable().optional(),
+  nodeIds: z.array(z.number().int().positive()).max(20).optional(),
+});
+export type UpdateProposalInput = z.infer<typeof updateProposalSchema>;
+
+/** POST /api/proposals/:id/members: invite a co-investigator by e-mail. */
+export const inviteMemberSchema = z.object({
+  email: z.string().trim().toLowerCase().pipe(z.email({ message: 'Enter a valid e-mail address' })),
+});
+export type InviteMemberInput = z.infer<typeof inviteMemberSchema>;
+
+/** POST /api/invitations/accept */
+export const acceptInvitationSchema = z.object({ token: z.string().min(20).max(200) });
+
+export type MemberRole = 'pi' | 'coi';
+
+export interface ProposalMember {
+  id: number;
+  /** null until the invitee has an account and accepted. */
+  accountId: number | null;
+  email: string;
+  displayName: string | null;
+  role: MemberRole;
+  status: 'active' | 'invited';
+  invitedAt: string;
+}
+
+export interface JustificationFile {
+  filename: string;
+  sizeBytes: number;
+  sha256: string;
+  uploadedAt: string;
+  uploadedBy: string;
+}
+
+/** Node-hours requested on one node (sum of the current target plans on it). */
+export interface NodeRequest {
+  nodeId: number;
+  nodeCode: string;
+  nodeHours: number;
+  feeMinor: number;
+  currency: string;
+  targets: number;
+  infeasibleTargets: number;
+}
+
+/** A proposal as its team sees it. */
+export interface Proposal {
+  id: number;
+  cycle: CycleSummary;
+  title: string;
+  abstract: string;
+  category: string | null;
+  state: ProposalState;
+  version: number;
+  nodeIds: number[];
+  team: ProposalMember[];
+  justification: JustificationFile | null;
+  targetCount: number;
+  request: NodeRequest[];
+  /** The viewer's part in it. */
+  myRole: MemberRole;
+  /** False once submitted (or after the call closed). */
+  editable: boolean;
+  submittedAt: string | null;
+  createdAt: string;
+  updatedAt: string;
+}
+
+/** GET /api/proposals items (the viewer's own proposals). */
+export interface ProposalSummary {
+  id: number;
+  cycleId: number;
+  cycleCode: string;
+  callClosesAt: string;
+  title: string;
+  state: ProposalState;
+  piName: string;
+  myRole: MemberRole;
+  targetCount: number;
+  requestedNodeHours: number;
+  submittedAt: string | null;
+  updatedAt: string;
+}
+
+/** Why a proposal cannot be submitted yet (GET /api/proposals/:id/readiness and 422 bodies). */
+export interface SubmissionCheck {
+  ready: boolean;
+  problems: { field: string; message: string }[];
+}
