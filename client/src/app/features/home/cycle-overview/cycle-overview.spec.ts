@@ -19,6 +19,7 @@ function cycle(id: number, status: CycleListing['status'], overrides: Partial<Cy
     campaignEnd: '2026-10-31',
     anonymousReview: false,
     categories: [],
+    version: 1,
     status,
     ...overrides,
   };
