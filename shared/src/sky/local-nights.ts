@@ -1,7 +1,7 @@
 /**
  * Local nights: naming them and bounding them in UTC.
  *
- * Policy (chosen here, documented in README-cli.md):
+ * Policy (chosen here, documented in docs/command-line.md):
  * - The site's IANA time zone only NAMES the night: "the night of D" is the one that begins on
  *   the evening of local date D in that zone (a campaign's first and last nights are such dates).
  * - The night's 24-h WINDOW runs from local MEAN solar noon to the next one, i.e. from

@@ -33,7 +33,7 @@ export interface SkyLimits {
   /**
    * Minimum Moon–target separation, degrees. When given, a night whose usable time has the Moon
    * above the horizon and closer than this at the middle of its (longest) usable interval is
-   * excluded as a whole (`moonExcluded`); a planning simplification, documented in README-cli.md.
+   * excluded as a whole (`moonExcluded`); a planning simplification, documented in docs/command-line.md.
    */
   moonSeparationMinDeg?: number;
   /** A night counts as usable when its usable time is > 0 and ≥ this, hours; default 0. */

@@ -4,7 +4,7 @@
  * Cost: per site and night, one hour-angle search and two altitude searches for the Sun plus
  * two Moon positions (astronomy-engine), shared by all targets; per target and night, a
  * handful of arithmetic operations and ~6 trigonometric calls (target-visibility.ts), with no
- * time sampling. See README-cli.md for the policies (night windows, refraction, Moon).
+ * time sampling. See docs/command-line.md for the policies (night windows, refraction, Moon).
  */
 import { buildNightTable } from './night-ephemeris';
 import { validateSkyWindowsInput } from './sky-input-validation';
