@@ -140,6 +140,55 @@ describe('computeTargetPlan', () => {
     expect((err as ScienceInputError).field).toBe(field);
   });
 
+  describe('with a fixed exposure (options.exposureSeconds)', () => {
+    it('honours the exposure and says the user chose it', () => {
+      const plan = computeTargetPlan(STAR, NODE, SITE, { exposureSeconds: 42 });
+      expect(plan.quantities.exposureSeconds.value).toBe(42);
+      expect(plan.quantities.exposureSeconds.why).toMatch(/chosen by the user/);
+      expect(plan.quantities.exposureSeconds.tag).toBe('choice');
+      expect(plan.quantities.visitSeconds.value).toBeCloseTo(42 + NODE.overheadSeconds, 9);
+      expect(plan.precision.exposureSeconds).toBe(42);
+    });
+
+    it('a longer fixed exposure improves the per-visit precision', () => {
+      const short = computeTargetPlan(STAR, NODE, SITE, { exposureSeconds: 5 });
+      const long = computeTargetPlan(STAR, NODE, SITE, { exposureSeconds: 60 });
+      expect(long.quantities.perVisitPrecisionPpm.value).toBeLessThan(short.quantities.perVisitPrecisionPpm.value);
+      expect(long.quantities.visitsForDetection.value).toBeLessThanOrEqual(short.quantities.visitsForDetection.value);
+    });
+
+    it.each([1, 301, Number.NaN])('rejects %p s outside the node range, naming options.exposureSeconds', (exposureSeconds) => {
+      let err: unknown;
+      try {
+        computeTargetPlan(STAR, NODE, SITE, { exposureSeconds });
+      } catch (e) {
+        err = e;
+      }
+      expect(err).toBeInstanceOf(ScienceInputError);
+      expect((err as ScienceInputError).field).toBe('options.exposureSeconds');
+    });
+
+    it('a saturating fixed exposure gives a blocking flag and finite numbers', () => {
+      // A bright star: the automatic choice stays below saturation, 300 s does not.
+      const bright = { ...STAR, magnitude: { value: 8.5, band: 'V' as const } };
+      const auto = computeTargetPlan(bright, NODE, SITE);
+      expect(auto.feasible).toBe(true);
+      expect(auto.quantities.saturationLimitSeconds.value).toBeLessThan(300);
+      const plan = computeTargetPlan(bright, NODE, SITE, { exposureSeconds: 300 });
+      expect(plan.feasible).toBe(false);
+      const saturation = plan.flags.find((f) => f.code === 'saturatesAtChosenExposure');
+      expect(saturation?.severity).toBe('blocking');
+      expect(saturation?.message).toMatch(/saturates at the chosen exposure of 300 s/);
+      for (const q of Object.values(plan.quantities)) if (q.value !== null) expect(Number.isFinite(q.value)).toBe(true);
+    });
+
+    it('a star that saturates even at the node minimum keeps the existing flag', () => {
+      const plan = computeTargetPlan({ ...STAR, magnitude: { value: 4, band: 'V' } }, NODE, SITE, { exposureSeconds: 10 });
+      expect(plan.feasible).toBe(false);
+      expect(plan.flags.map((f) => f.code)).toContain('saturatesAtMinExposure');
+    });
+  });
+
   it('rejects a bad node or site naming the field', () => {
     expect(() => computeTargetPlan(STAR, { ...NODE, saturationE: 0 }, SITE)).toThrow(/node.saturationE/);
     expect(() => computeTargetPlan(STAR, NODE, { ...SITE, skyBrightnessMagPerArcsec2: Number.NaN })).toThrow(/site.skyBrightnessMagPerArcsec2/);

@@ -13,7 +13,7 @@
  *  5. baseline for the coherence rule (cycles of the longest plausible period);
  *  6. per-visit precision goal: the σ at which the cadence's own visits already reach the
  *     detection threshold (or the caller's value), and the shortest exposure reaching it
- *     without saturating;
+ *     without saturating (or the caller's fixed exposure, flagged when it saturates);
  *  7. visits for detection; baseline for the requested period precision (σP solved for T);
  *  8. visits = the larger of detection and cadence, spread over the visit nights;
  *  9. node-hours = visits × (exposure + overhead) / (1 − weather loss); fee at the node's rate.
@@ -43,7 +43,9 @@ import {
 } from './spot-amplitude';
 import { type TurnoverScale, TURNOVER_SCALES, TURNOVER_SCALE_INFO, turnoverTimeForColour } from './turnover-time';
 import {
+  type ExposureChoice,
   type PhotometryOptions,
+  type PhotometrySetup,
   type VisitPrecision,
   MAG_PER_RELATIVE_FLUX,
   airmassKastenYoung,
@@ -51,6 +53,7 @@ import {
   photometrySetup,
   validateNodeSpec,
   validateSiteSpec,
+  visitPrecisionAt,
 } from './visit-precision';
 
 /** One target as the plan needs it. */
@@ -90,6 +93,12 @@ export interface TargetPlanOptions {
   amplitudeModel?: Partial<AmplitudeModelCoefficients>;
   /** Per-visit precision goal, ppm; default: the σ at which the cadence's visits just reach detection. */
   perVisitPrecisionPpm?: number;
+  /**
+   * Fixed exposure time, seconds, within the node's [minExposureSeconds, maxExposureSeconds].
+   * Default: chosen by the plan (the shortest exposure reaching the precision goal without
+   * saturating). A fixed exposure that saturates gives a blocking flag; the numbers stay finite.
+   */
+  exposureSeconds?: number;
   /** Altitude at which the precision is computed, degrees; default max(45°, node altitude limit). */
   planningAltitudeDeg?: number;
   /** Hours per night a target is typically observable (default 6), for the fit check of the nightly visits. */
@@ -276,7 +285,8 @@ export function computeTargetPlan(
     o.perVisitPrecisionPpm !== undefined
       ? 'requested per-visit precision'
       : `the σ at which the ${nCad0} visits of the cadence alone reach the detection threshold: A·sqrt(N/(4·z0))`;
-  const exposure = chooseExposureFromSetup(setup, node, goalPpm);
+  const automatic = chooseExposureFromSetup(setup, node, goalPpm);
+  const exposure = o.exposureSeconds === undefined ? automatic : fixedExposure(setup, automatic, o.exposureSeconds, goalPpm);
   const sigmaPpm = exposure.precision.totalPpm;
   if (exposure.saturatesAtMinExposure) {
     flags.push(
@@ -287,12 +297,24 @@ export function computeTargetPlan(
         'Gaussian PSF peak pixel against the node saturationE',
       ),
     );
+  } else if (o.exposureSeconds !== undefined && exposure.precision.saturated) {
+    // Same style as the flag above: the chosen exposure fills the peak pixel past saturationE.
+    flags.push(
+      flag(
+        'saturatesAtChosenExposure',
+        'blocking',
+        `the star saturates at the chosen exposure of ${fmt(exposure.exposureSeconds)} s (saturation after ${fmt(exposure.saturationLimitSeconds)} s): choose a shorter exposure or the automatic one (${fmt(automatic.exposureSeconds)} s)`,
+        'Gaussian PSF peak pixel against the node saturationE',
+      ),
+    );
   } else if (!exposure.reachesTarget) {
     flags.push(
       flag(
         'precisionGoalNotReached',
         'info',
-        `the precision goal ${fmt(goalPpm)} ppm is not reached (best ${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s, limited by ${exposure.limitedBy}): more visits make up for it`,
+        o.exposureSeconds === undefined
+          ? `the precision goal ${fmt(goalPpm)} ppm is not reached (best ${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s, limited by ${exposure.limitedBy}): more visits make up for it`
+          : `the precision goal ${fmt(goalPpm)} ppm is not reached at the chosen exposure (${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s): more visits make up for it`,
       ),
     );
   }
@@ -450,15 +472,24 @@ export function computeTargetPlan(
       'practice',
     ),
     perVisitPrecisionGoalPpm: explained(goalPpm, 'ppm', goalWhy, DETECTION_SOURCE, o.perVisitPrecisionPpm !== undefined ? 'choice' : 'derived'),
-    exposureSeconds: explained(
-      exposure.exposureSeconds,
-      's',
-      exposure.limitedBy === 'targetPrecision'
-        ? 'shortest exposure reaching the precision goal'
-        : `${exposure.limitedBy === 'minExposure' ? 'the node minimum: the goal is reached already' : `limited by ${exposure.limitedBy}`}`,
-      'CCD equation (Howell 2006; Merline & Howell 1995, from memory) + scintillation + floor, solved for t',
-      'memory',
-    ),
+    exposureSeconds:
+      o.exposureSeconds !== undefined
+        ? explained(
+            exposure.exposureSeconds,
+            's',
+            `chosen by the user (node range ${node.minExposureSeconds}–${node.maxExposureSeconds} s); the automatic choice would be ${fmt(automatic.exposureSeconds)} s`,
+            "the user's choice, within the node's exposure range",
+            'choice',
+          )
+        : explained(
+            exposure.exposureSeconds,
+            's',
+            exposure.limitedBy === 'targetPrecision'
+              ? 'shortest exposure reaching the precision goal'
+              : `${exposure.limitedBy === 'minExposure' ? 'the node minimum: the goal is reached already' : `limited by ${exposure.limitedBy}`}`,
+            'CCD equation (Howell 2006; Merline & Howell 1995, from memory) + scintillation + floor, solved for t',
+            'memory',
+          ),
     perVisitPrecisionPpm: explained(
       sigmaPpm,
       'ppm',
@@ -552,6 +583,7 @@ interface ResolvedOptions {
   periodRangeSigma: number;
   amplitudeModel: Partial<AmplitudeModelCoefficients>;
   perVisitPrecisionPpm: number | undefined;
+  exposureSeconds: number | undefined;
   planningAltitudeDeg: number;
   observableHoursPerNight: number;
   aliasPeriodDays: number;
@@ -573,6 +605,10 @@ function resolveOptions(options: TargetPlanOptions, system: TargetColourSystem, 
     periodRangeSigma: requireInRange(o.periodRangeSigma ?? PLAN_DEFAULTS.periodRangeSigma, 'periodRangeSigma', 0, 5),
     amplitudeModel: o.amplitudeModel ?? {},
     perVisitPrecisionPpm: o.perVisitPrecisionPpm === undefined ? undefined : requirePositive(o.perVisitPrecisionPpm, 'perVisitPrecisionPpm'),
+    exposureSeconds:
+      o.exposureSeconds === undefined
+        ? undefined
+        : requireInRange(o.exposureSeconds, 'exposureSeconds', node.minExposureSeconds, node.maxExposureSeconds),
     planningAltitudeDeg: requireInRange(
       o.planningAltitudeDeg ?? Math.max(PLAN_DEFAULTS.planningAltitudeDeg, node.altitudeLimitDeg),
       'planningAltitudeDeg',
@@ -587,6 +623,24 @@ function resolveOptions(options: TargetPlanOptions, system: TargetColourSystem, 
     weakenedBrakingRossby: o.weakenedBrakingRossby,
     photometry: o.photometry ?? {},
   }));
+}
+
+/**
+ * The exposure the caller fixed, in the same shape as the automatic choice, so that the rest
+ * of the plan reads one object. `limitedBy` keeps the automatic choice's reason for reference
+ * only; `saturatesAtMinExposure` stays a property of the node and star (not of the choice).
+ */
+function fixedExposure(setup: PhotometrySetup, automatic: ExposureChoice, exposureSeconds: number, goalPpm: number): ExposureChoice {
+  const precision = visitPrecisionAt(setup, exposureSeconds);
+  return {
+    exposureSeconds,
+    precision,
+    limitedBy: automatic.limitedBy,
+    reachesTarget: precision.totalPpm <= goalPpm * (1 + 1e-9),
+    targetPrecisionPpm: goalPpm,
+    saturationLimitSeconds: automatic.saturationLimitSeconds,
+    saturatesAtMinExposure: automatic.saturatesAtMinExposure,
+  };
 }
 
 /**

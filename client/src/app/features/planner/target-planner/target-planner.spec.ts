@@ -1,0 +1,332 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HarnessLoader } from '@angular/cdk/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { MatButtonToggleHarness } from '@angular/material/button-toggle/testing';
+import { MatSelectHarness } from '@angular/material/select/testing';
+import type { CycleSummary, Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
+import { combinePlanWithSky } from '@spincycle/shared/planning/node-target-plan';
+import { targetWindowsFromReport } from '@spincycle/shared/planning/sky-report-adapter';
+import type { SkyWindowsResponse } from '@spincycle/shared/planning/sky-windows-request';
+import { computeTargetPlan, type TargetPlanTarget } from '@spincycle/shared/science/target-plan';
+import { computeSkyWindows } from '@spincycle/shared/sky/sky-windows';
+import { skyLimitsForNode, toSkyWindowsReport } from '@spincycle/shared/sky/sky-windows-report';
+import { formatValue } from '../plan-display';
+import { PLANNER_DEFAULTS, RECOMPUTE_DEBOUNCE_MS } from '../planner-form';
+import TargetPlanner from './target-planner';
+
+const SITE: Site = {
+  id: 1,
+  code: 'HLM',
+  name: 'Hollin Moor',
+  latitudeDeg: 28.76,
+  longitudeDeg: -17.88,
+  elevationM: 2326,
+  timeZone: 'Atlantic/Canary',
+  skyBrightnessMagPerArcsec2: 21.6,
+};
+
+function node(id: number, code: string, overrides: Partial<TelescopeNode> = {}): TelescopeNode {
+  return {
+    id,
+    code,
+    name: `Node ${code}`,
+    siteId: SITE.id,
+    site: SITE,
+    active: true,
+    apertureM: 0.4,
+    obstructionFraction: 0.35,
+    throughput: 0.6,
+    band: 'V',
+    readNoiseE: 9,
+    darkCurrentEPerS: 0.02,
+    gainEPerAdu: 1.3,
+    saturationE: 60000,
+    pixelScaleArcsec: 1.2,
+    seeingFwhmArcsec: 1.6,
+    systematicFloorMmag: 1.5,
+    scintillationModel: 'young1967',
+    overheadSeconds: 60,
+    minExposureSeconds: 2,
+    maxExposureSeconds: 300,
+    altitudeLimitDeg: 30,
+    sunAltitudeLimitDeg: -12,
+    weatherLossFraction: 0.25,
+    rateMinorPerHour: 4850,
+    currency: 'eur',
+    ...overrides,
+  };
+}
+
+const N1 = node(1, 'N1');
+const N2 = node(2, 'N2', { apertureM: 1.0, band: 'R' });
+
+const CYCLE: CycleSummary = {
+  id: 7,
+  code: 'C7',
+  title: 'Cycle of the Lantern cluster',
+  callOpensAt: '2026-01-01T12:00:00Z',
+  callClosesAt: '2026-12-01T12:00:00Z',
+  campaignStart: '2027-01-01',
+  campaignEnd: '2027-03-01',
+  anonymousReview: false,
+  categories: [],
+  version: 1,
+  status: 'open',
+  nodes: [],
+};
+
+const DEFAULT_TARGET: TargetPlanTarget = {
+  name: PLANNER_DEFAULTS.starName,
+  colour: { value: PLANNER_DEFAULTS.colourValue, system: PLANNER_DEFAULTS.colourSystem },
+  ageMyr: PLANNER_DEFAULTS.ageMyr,
+  ageUncertaintyMyr: PLANNER_DEFAULTS.ageUncertaintyMyr,
+  magnitude: { value: PLANNER_DEFAULTS.magnitude, band: PLANNER_DEFAULTS.band },
+};
+const DEFAULT_OPTIONS = { falseAlarmProbability: PLANNER_DEFAULTS.falseAlarmProbability };
+
+describe('TargetPlanner', () => {
+  let fixture: ComponentFixture<TargetPlanner>;
+  let backend: HttpTestingController;
+  let loader: HarnessLoader;
+
+  beforeEach(() => {
+    TestBed.configureTestingModule({ imports: [TargetPlanner], providers: [provideHttpClient(), provideHttpClientTesting()] });
+    backend = TestBed.inject(HttpTestingController);
+    fixture = TestBed.createComponent(TargetPlanner);
+    loader = TestbedHarnessEnvironment.loader(fixture);
+    TestBed.tick();
+  });
+
+  afterEach(() => backend.verify());
+
+  const host = () => fixture.nativeElement as HTMLElement;
+  const text = () => host().textContent ?? '';
+  const q = <T extends Element = HTMLElement>(selector: string) => host().querySelector(selector) as T | null;
+
+  /** Waits out the recompute debounce and lets the view settle. */
+  async function settle(): Promise<void> {
+    await new Promise((resolve) => setTimeout(resolve, RECOMPUTE_DEBOUNCE_MS + 60));
+    await fixture.whenStable();
+  }
+
+  async function load(nodes: TelescopeNode[] = [N1, N2], cycles: CycleSummary[] = [CYCLE]): Promise<void> {
+    backend.expectOne('/api/nodes').flush(nodes);
+    backend.expectOne('/api/cycles').flush(cycles);
+    await fixture.whenStable();
+    await settle();
+  }
+
+  async function type(testId: string, value: string): Promise<void> {
+    const input = q<HTMLInputElement>(`[data-testid=${testId}]`)!;
+    input.value = value;
+    input.dispatchEvent(new Event('input'));
+    input.dispatchEvent(new Event('blur'));
+    await fixture.whenStable();
+  }
+
+  const keyValue = (key: string) => q(`[data-key=${key}] .value .num`)?.textContent?.trim();
+
+  it('while loading: a progress bar', async () => {
+    expect(host().querySelectorAll('mat-progress-bar')).toHaveLength(1);
+    await load();
+  });
+
+  it('default inputs: a real plan whose period is the science core’s own, in the plausible range', async () => {
+    await load();
+    const plan = computeTargetPlan(DEFAULT_TARGET, N1, SITE, DEFAULT_OPTIONS);
+    const q0 = plan.quantities;
+    expect(keyValue('periodDays')).toBe(formatValue(q0.periodDays.value, 'en-US'));
+    expect(q0.periodDays.value).toBeGreaterThan(q0.shortestPeriodDays.value);
+    expect(q0.periodDays.value).toBeLessThan(q0.longestPeriodDays.value);
+    expect(q(`[data-key=periodDays] .alt`)?.textContent).toContain(
+      `plausible ${formatValue(q0.shortestPeriodDays.value, 'en-US')}–${formatValue(q0.longestPeriodDays.value, 'en-US')} d`,
+    );
+    expect(keyValue('visits')).toBe(formatValue(q0.visits.value, 'en-US', { integer: true }));
+    expect(q('[data-key=feeMinor] .value')?.textContent).toContain('€');
+    // Each key row explains itself: a why line, a source and a tag chip.
+    const row = q('[data-key=periodDays]')!;
+    expect(row.querySelector('.why')?.textContent).toContain(q0.periodDays.why.slice(0, 20));
+    expect(row.querySelector('.source')?.textContent).toContain('Angus et al. (2019)');
+    expect(row.querySelector('.tag-chip')?.textContent?.trim()).toBe('from the paper');
+    // The headline is a live region.
+    const headline = q('[data-testid=headline]')!;
+    expect(headline.getAttribute('aria-live')).toBe('polite');
+    expect(headline.textContent).toContain(plan.feasible ? 'Feasible on N1' : 'Not feasible on N1');
+    // All 36 numbers, and both gyrochronology charts.
+    expect(host().querySelectorAll('[data-testid=all-numbers] tbody tr')).toHaveLength(Object.keys(q0).length);
+    expect(q('app-gyrochrone-chart canvas')?.getAttribute('aria-label')).toContain('Expected rotation period against age');
+    expect(q('app-period-colour-chart canvas')?.getAttribute('aria-label')).toContain('against intrinsic colour');
+    expect(text()).not.toMatch(/NaN|Infinity|undefined/);
+  });
+
+  it('changing the age recomputes after the debounce', async () => {
+    await load();
+    const before = keyValue('periodDays');
+    await type('age-input', '2500');
+    expect(keyValue('periodDays')).toBe(before);
+    await settle();
+    const expected = computeTargetPlan({ ...DEFAULT_TARGET, ageMyr: 2500 }, N1, SITE, DEFAULT_OPTIONS).quantities.periodDays.value;
+    expect(keyValue('periodDays')).toBe(formatValue(expected, 'en-US'));
+    expect(keyValue('periodDays')).not.toBe(before);
+  });
+
+  it('bad input: the field shows the science core’s message and no NaN appears anywhere', async () => {
+    await load();
+    await type('age-input', '-5');
+    await settle();
+    expect(q('[data-testid=age-error]')?.textContent).toContain('Must be positive (got -5).');
+    expect(q('[data-testid=age-input]')?.getAttribute('aria-invalid')).toBe('true');
+    expect(q('[data-testid=headline]')?.textContent).toContain('Age: Must be positive (got -5).');
+    expect(q('[data-testid=key-rows]')).toBeNull();
+    expect(text()).not.toMatch(/NaN|Infinity/);
+
+    await type('age-input', '800');
+    await type('colour-input', '5');
+    await settle();
+    expect(q('[data-testid=colour-error]')?.textContent).toMatch(/BP−RP 5 is outside all supported relations/);
+    expect(text()).not.toMatch(/NaN|Infinity/);
+
+    await type('colour-input', '');
+    await settle();
+    expect(q('[data-testid=colour-error]')?.textContent).toContain('Enter the colour index');
+    expect(text()).not.toMatch(/NaN|Infinity/);
+  });
+
+  it('a fixed exposure outside the node range is refused under the exposure field', async () => {
+    await load();
+    await (await loader.getHarness(MatButtonToggleHarness.with({ text: 'Fixed' }))).check();
+    await type('exposure-input', '1000');
+    await settle();
+    expect(q('[data-testid=exposure-error]')?.textContent).toContain('Must be within [2, 300] (got 1000).');
+    await type('exposure-input', '60');
+    await settle();
+    expect(keyValue('exposureSeconds')).toBe('60');
+    expect(q('[data-key=exposureSeconds] .why')?.textContent).toContain('chosen by the user');
+  });
+
+  it('a relation that does not cover the colour is reported as not calibrated for it', async () => {
+    await load();
+    await type('colour-input', '2.0');
+    await settle();
+    const list = q('[data-testid=uncovered-relations]')?.textContent ?? '';
+    expect(list).toContain('Mamajek & Hillenbrand (2008): not calibrated for this colour');
+    expect(list).toContain('Angus et al. (2015): not calibrated for this colour');
+    expect(list).not.toContain('Angus et al. (2019)');
+  });
+
+  it('the star-type helper fills the colour in the chosen system', async () => {
+    await load();
+    await (await loader.getHarness(MatButtonToggleHarness.with({ text: 'B−V' }))).check();
+    const select = await loader.getHarness(MatSelectHarness.with({ selector: '[data-testid=star-type]' }));
+    await select.open();
+    await select.clickOptions({ text: 'G2V' });
+    expect(q<HTMLInputElement>('[data-testid=colour-input]')?.value).toBe('0.65');
+    await settle();
+    expect(q('[data-key=periodDays] .source')?.textContent).toContain('Barnes (2007)');
+  });
+
+  it('nodes fail to load: error state with a retry that asks again', async () => {
+    backend.expectOne('/api/nodes').flush({ code: 'unavailable', message: 'Down for maintenance.' }, { status: 503, statusText: 'Unavailable' });
+    backend.expectOne('/api/cycles').flush([CYCLE]);
+    await fixture.whenStable();
+    expect(text()).toContain('The nodes could not be loaded.');
+    expect(q('[data-testid=key-rows]')).toBeNull();
+    const retry = Array.from(host().querySelectorAll('button')).find((b) => b.textContent?.includes('Try again'))!;
+    retry.click();
+    TestBed.tick();
+    backend.expectOne('/api/nodes').flush([N1]);
+    await fixture.whenStable();
+    await settle();
+    expect(q('[data-testid=key-rows]')).not.toBeNull();
+  });
+
+  it('no node in the network: says so, no plan', async () => {
+    await load([], [CYCLE]);
+    expect(text()).toContain('No node is defined in the network yet');
+    expect(q('form')).toBeNull();
+  });
+
+  it('RA/Dec that cannot be read: the parser’s message under the field, no request', async () => {
+    await load();
+    await type('ra-input', '25h');
+    await type('dec-input', '-20');
+    await settle();
+    expect(q('[data-testid=ra-error]')?.textContent).toContain('Right ascension must be below 24 h');
+    backend.expectNone('/api/sky-windows');
+  });
+
+  it('RA/Dec and a cycle: asks for the sky windows on the ticked nodes and draws one chart per node with the plan’s verdict', async () => {
+    await load();
+    await type('ra-input', '6h45m');
+    await type('dec-input', '-16.7');
+    await settle();
+    const compare = host().querySelectorAll('mat-checkbox input');
+    (compare[1] as HTMLInputElement).click();
+    await fixture.whenStable();
+    await settle();
+    const requests = backend.match('/api/sky-windows');
+    expect(requests.length).toBeGreaterThanOrEqual(1);
+    const request = requests[requests.length - 1];
+    expect(request.request.method).toBe('POST');
+    expect(request.request.body).toEqual({
+      cycleId: 7,
+      nodeIds: [1, 2],
+      targets: [{ ra: '6h45m', dec: '-16.7' }],
+      includeNights: true,
+    });
+    expect(q('.results mat-progress-bar')).not.toBeNull();
+
+    const report = (n: TelescopeNode) =>
+      toSkyWindowsReport(
+        computeSkyWindows({
+          site: SITE,
+          limits: skyLimitsForNode(n),
+          campaign: { firstNight: CYCLE.campaignStart, lastNight: CYCLE.campaignEnd },
+          targets: [{ name: 'Star A-17', raDeg: 101.25, decDeg: -16.7 }],
+        }),
+      );
+    const response: SkyWindowsResponse = {
+      cycle: { id: 7, code: 'C7', campaignStart: CYCLE.campaignStart, campaignEnd: CYCLE.campaignEnd },
+      nodes: [N1, N2].map((n) => ({ nodeId: n.id, nodeCode: n.code, nodeName: n.name, siteName: SITE.name, weatherLossFraction: n.weatherLossFraction, report: report(n) })),
+    };
+    for (const stale of requests.slice(0, -1)) expect(stale.cancelled).toBe(true);
+    request.flush(response);
+    await fixture.whenStable();
+
+    const charts = host().querySelectorAll('app-sky-window-chart');
+    expect(charts).toHaveLength(2);
+    const plan = computeTargetPlan(DEFAULT_TARGET, N1, SITE, DEFAULT_OPTIONS);
+    const expected = combinePlanWithSky(plan, targetWindowsFromReport(response.nodes[0].report.targets[0]), N1).sky.verdict;
+    expect(charts[0].querySelector('[data-testid=sky-verdict]')?.textContent).toContain(expected);
+    expect(charts[0].querySelectorAll('[data-testid=sky-window-table] tbody tr')).toHaveLength(response.nodes[0].report.nights.length);
+    expect(q('[data-testid=headline]')?.textContent).toContain('Sky window from Hollin Moor');
+    expect(q('.results mat-progress-bar')).toBeNull();
+
+    // A younger star asks for another cadence: the verdict follows the plan, without asking the server again.
+    await type('age-input', '150');
+    await settle();
+    backend.expectNone('/api/sky-windows');
+    const younger = computeTargetPlan({ ...DEFAULT_TARGET, ageMyr: 150 }, N1, SITE, DEFAULT_OPTIONS);
+    const verdict = combinePlanWithSky(younger, targetWindowsFromReport(response.nodes[0].report.targets[0]), N1).sky.verdict;
+    expect(verdict).not.toBe(expected);
+    expect(host().querySelector('app-sky-window-chart [data-testid=sky-verdict]')?.textContent).toContain(verdict);
+  });
+
+  it('a 400 from the sky windows puts its field errors under RA/Dec', async () => {
+    await load();
+    await type('ra-input', '101.25');
+    await type('dec-input', '-16.7');
+    await settle();
+    backend
+      .expectOne('/api/sky-windows')
+      .flush(
+        { code: 'validation_failed', message: 'Check the targets.', fieldErrors: { 'targets.0.dec': ['declination is not accepted here'] } },
+        { status: 400, statusText: 'Bad Request' },
+      );
+    await fixture.whenStable();
+    expect(q('[data-testid=dec-error]')?.textContent).toContain('Declination is not accepted here.');
+    expect(text()).toContain('The sky window could not be computed');
+  });
+});

@@ -1,0 +1,24 @@
+/** Small formatting helpers shared by the charts' ticks, tooltips and text alternatives. */
+
+const SHORT_DATE = new Map<string, Intl.DateTimeFormat>();
+
+/** `2026-03-04` → `4 Mar` (or the locale's order); the date is a calendar date, no time zone. */
+export function formatNightDate(nightDate: string, locale: string, withYear = false): string {
+  const key = `${locale}|${withYear}`;
+  let format = SHORT_DATE.get(key);
+  if (!format) {
+    format = new Intl.DateTimeFormat(locale, { day: 'numeric', month: 'short', ...(withYear ? { year: 'numeric' } : {}), timeZone: 'UTC' });
+    SHORT_DATE.set(key, format);
+  }
+  const ms = Date.parse(`${nightDate}T00:00:00Z`);
+  return Number.isFinite(ms) ? format.format(ms) : nightDate;
+}
+
+/** Tick labels of a log axis: 1, 2, 5 × powers of ten only, plainly written (no `1e+3`). */
+export function logTickLabel(value: number | string, locale: string): string {
+  const v = Number(value);
+  if (!(v > 0)) return '';
+  const mantissa = v / 10 ** Math.floor(Math.log10(v) + 1e-9);
+  const keep = [1, 2, 5].some((m) => Math.abs(mantissa - m) < 1e-6);
+  return keep ? new Intl.NumberFormat(locale, { maximumSignificantDigits: 3 }).format(v) : '';
+}
