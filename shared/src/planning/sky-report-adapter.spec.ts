@@ -62,19 +62,21 @@ describe('targetWindowsFromReport', () => {
   });
 
   it('gives the same cadence verdict as the typed windows, for the plan of the moment', () => {
-    const result = computed(200, -35);
-    const report = toSkyWindowsReport(result);
     const verdicts: boolean[] = [];
-    for (const star of [target, olderTarget]) {
-      const plan = computeTargetPlan(star, node, site);
-      const requirement = requirementFromPlan(plan);
-      for (const [i, original] of result.targets.entries()) {
-        const back = targetWindowsFromReport(report.targets[i], i);
-        const direct = assessCadence(original, requirement, node.weatherLossFraction);
-        expectSameAssessment(assessCadence(back, requirement, node.weatherLossFraction), direct);
-        const combined = combinePlanWithSky(plan, back, node);
-        expect(combined.feasible).toBe(combinePlanWithSky(plan, original, node).feasible);
-        verdicts.push(direct.fits);
+    // A southern-sky field, and a field at Dec +50° that never climbs above 30° from −29°.
+    for (const result of [computed(200, -35), computed(20, 50)]) {
+      const report = toSkyWindowsReport(result);
+      for (const star of [target, olderTarget]) {
+        const plan = computeTargetPlan(star, node, site);
+        const requirement = requirementFromPlan(plan);
+        for (const [i, original] of result.targets.entries()) {
+          const back = targetWindowsFromReport(report.targets[i], i);
+          const direct = assessCadence(original, requirement, node.weatherLossFraction);
+          expectSameAssessment(assessCadence(back, requirement, node.weatherLossFraction), direct);
+          const combined = combinePlanWithSky(plan, back, node);
+          expect(combined.feasible).toBe(combinePlanWithSky(plan, original, node).feasible);
+          verdicts.push(direct.fits);
+        }
       }
     }
     // The scenarios cover both answers.

@@ -87,6 +87,16 @@ describe('assessCadence', () => {
     expect(a.reasons[1]).toBe('the target is observable on only 60 nights (45 expected clear after 25 % weather loss) but the cadence needs 60');
   });
 
+  it('stretches the baseline to absorb the weather when the campaign has the nights', () => {
+    // 120 observable nights; nightly cadence over 59 days asks for 60 clear nights; with 25 %
+    // weather loss that takes 80 qualifying nights, i.e. a stretch of 79 nights.
+    const a = assessCadence(windowsOf(every(120, 3)), req({ cadenceDays: 1, baselineDays: 59, totalVisits: 60 }), 0.25);
+    expect(a.fits).toBe(true);
+    expect(a.stretchDays).toBe(79);
+    expect(a.baselineWindow).toEqual({ firstNight: '2025-01-01', lastNight: '2025-03-21', qualifyingNights: 80, longestGapNights: 1 });
+    expect(a.verdict).toBe('observable on 120 of 120 nights; longest gap 1 night; cadence fits over 79 nights to absorb the weather');
+  });
+
   it('reports a gap longer than the cadence', () => {
     const hours = [...every(30, 3), ...every(33, 0), ...every(30, 3)];
     const a = assessCadence(windowsOf(hours), req({ cadenceDays: 2, baselineDays: 80, totalVisits: 30 }), 0);

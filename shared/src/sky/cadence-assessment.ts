@@ -10,11 +10,13 @@
  * - Weather: of N qualifying nights, N × (1 − weather loss) are expected clear.
  * - Visits: ceil(totalVisits / visitsPerNight) visiting nights are needed among the expected
  *   clear qualifying nights of the whole campaign.
- * - Cadence over the baseline: the best stretch of the campaign that starts on a qualifying
- *   night and reaches a qualifying night at least `baselineDays` later is chosen (smallest
- *   longest gap, then most qualifying nights). Its longest gap between qualifying nights must
- *   not exceed `cadenceDays`, and its expected clear qualifying nights must reach the
- *   floor(baselineDays / cadenceDays) + 1 nights the cadence asks for.
+ * - Cadence over the baseline: the visits need a stretch of the campaign that spans at least
+ *   `baselineDays`, in which no gap between qualifying nights exceeds `cadenceDays`, and whose
+ *   expected clear qualifying nights reach the nights the plan asks for: the larger of
+ *   floor(baselineDays / cadenceDays) + 1 (the cadence) and the visiting nights. Weather makes
+ *   some planned nights fail, so the stretch may be longer than the baseline: the shortest
+ *   such stretch is chosen and, when it is longer, the assessment says by how much
+ *   (`stretchDays`). A longer baseline only adds cycles, which the period search tolerates.
  */
 import { SkyInputError, describeValue, requireFiniteInRange } from './sky-input-error';
 import { MAX_INTERVALS_PER_NIGHT, type TargetWindows } from './sky-types';
@@ -53,6 +55,8 @@ export interface CadenceAssessment {
   longestGapNights: number | null;
   /** The stretch chosen for the baseline (see the file comment), or null when none reaches it. */
   baselineWindow: { firstNight: string; lastNight: string; qualifyingNights: number; longestGapNights: number | null } | null;
+  /** Nights from the first to the last night of the chosen stretch (≥ the baseline), or null. */
+  stretchDays: number | null;
   /** Longest usable time in one night, hours. */
   maxNightlyUsableHours: number;
 }
@@ -127,21 +131,31 @@ export function assessCadence(
   const cadenceNightsNeeded = Math.floor(req.baselineDays / req.cadenceDays + 1e-9) + 1;
   const weatherNote = weather > 0 ? ` (${fmt(expectedClear)} expected clear after ${fmt(weather * 100, 0)} % weather loss)` : '';
 
-  // Best stretch reaching the baseline.
-  let best: { first: number; last: number; count: number; gap: number | null } | null = null;
+  const neededInStretch = Math.max(cadenceNightsNeeded, visitingNightsNeeded);
+  const spansBaseline = (first: number, last: number) => qualifying[last] - qualifying[first] >= req.baselineDays - 1e-9;
+
+  // Runs of qualifying nights whose gaps stay within the cadence.
+  const runs: { from: number; to: number }[] = [];
   for (let i = 0; i < qualifying.length; i++) {
-    const start = qualifying[i];
-    let j = i;
-    while (j < qualifying.length && qualifying[j] - start < req.baselineDays - 1e-9) j++;
-    if (j >= qualifying.length) break;
+    if (i === 0 || qualifying[i] - qualifying[i - 1] > req.cadenceDays) runs.push({ from: i, to: i });
+    else runs[runs.length - 1].to = i;
+  }
+  const gapWithin = (first: number, last: number): number | null => {
     let gap: number | null = null;
-    for (let k = i + 1; k <= j; k++) gap = Math.max(gap ?? 0, qualifying[k] - qualifying[k - 1]);
-    const candidate = { first: start, last: qualifying[j], count: j - i + 1, gap };
-    const better =
-      !best ||
-      (candidate.gap ?? 0) < (best.gap ?? 0) ||
-      ((candidate.gap ?? 0) === (best.gap ?? 0) && candidate.count > best.count);
-    if (better) best = candidate;
+    for (let k = first + 1; k <= last; k++) gap = Math.max(gap ?? 0, qualifying[k] - qualifying[k - 1]);
+    return gap;
+  };
+
+  // The shortest stretch inside one run that spans the baseline and holds enough clear nights.
+  let best: { first: number; last: number } | null = null;
+  for (const run of runs) {
+    let j = run.from;
+    for (let i = run.from; i <= run.to; i++) {
+      if (j < i) j = i;
+      while (j <= run.to && !(spansBaseline(i, j) && (j - i + 1) * clearFactor >= neededInStretch - 1e-9)) j++;
+      if (j > run.to) break;
+      if (!best || qualifying[j] - qualifying[i] < qualifying[best.last] - qualifying[best.first]) best = { first: i, last: j };
+    }
   }
 
   const reasons: string[] = [];
@@ -153,32 +167,43 @@ export function assessCadence(
         `nightly window ${fmt(maxHours, 2)} h at most cannot hold ${plural(req.visitsPerNight, 'visit')} of ${fmt(req.visitHours, 2)} h spaced over the night`,
       );
     }
-  } else {
+  } else if (!best) {
     if (expectedClear < visitingNightsNeeded) {
       reasons.push(
         `the target is observable on only ${plural(qualifying.length, 'night')}${weatherNote} but ${plural(req.totalVisits, 'visit')} at ${req.visitsPerNight} per night need ${visitingNightsNeeded}`,
       );
     }
-    if (!best) {
+    const longRuns = runs.filter((r) => spansBaseline(r.from, r.to));
+    if (longRuns.length > 0) {
+      // Long enough and without gaps, but too few clear nights in it.
+      const run = longRuns.reduce((a, b) => (b.to - b.from > a.to - a.from ? b : a));
+      const count = run.to - run.from + 1;
+      const where = count === qualifying.length ? '' : ` within the best ${plural(qualifying[run.to] - qualifying[run.from], 'night')} stretch`;
+      const note = weather > 0 ? ` (${fmt(count * clearFactor)} expected clear after ${fmt(weather * 100, 0)} % weather loss)` : '';
+      const line = `the target is observable on only ${plural(count, 'night')}${where}${note} but the cadence needs ${neededInStretch}`;
+      if (!reasons.includes(line)) reasons.push(line);
+    } else if (spansBaseline(0, qualifying.length - 1)) {
+      // The campaign spans the baseline only across a gap longer than the cadence.
+      let smallest: number | null = null;
+      for (let i = 0, j = 0; i < qualifying.length; i++) {
+        while (j < qualifying.length && !spansBaseline(i, j)) j++;
+        if (j >= qualifying.length) break;
+        const gap = gapWithin(i, j) ?? 0;
+        smallest = smallest === null ? gap : Math.min(smallest, gap);
+      }
+      reasons.push(`longest gap ${plural(smallest ?? 0, 'night')} exceeds the cadence of ${plural(req.cadenceDays, 'night')}`);
+    } else {
       const span = qualifying[qualifying.length - 1] - qualifying[0];
       reasons.push(`observable span ${plural(span, 'night')} is shorter than the baseline of ${plural(req.baselineDays, 'day')}`);
-    } else {
-      if (best.gap !== null && best.gap > req.cadenceDays) {
-        reasons.push(`longest gap ${plural(best.gap, 'night')} exceeds the cadence of ${plural(req.cadenceDays, 'night')}`);
-      }
-      const clearInStretch = best.count * clearFactor;
-      if (cadenceNightsNeeded > 1 && clearInStretch < cadenceNightsNeeded) {
-        const where = best.count === qualifying.length ? '' : ` within the best ${plural(best.last - best.first, 'night')} stretch`;
-        const note = weather > 0 ? ` (${fmt(clearInStretch)} expected clear after ${fmt(weather * 100, 0)} % weather loss)` : '';
-        reasons.push(`the target is observable on only ${plural(best.count, 'night')}${where}${note} but the cadence needs ${cadenceNightsNeeded}`);
-      }
     }
   }
+  const stretchDays = best ? qualifying[best.last] - qualifying[best.first] : null;
 
   const fits = reasons.length === 0;
   const gapText = longestGap === null ? 'no gap' : `longest gap ${plural(longestGap, 'night')}`;
+  const stretched = stretchDays !== null && stretchDays > req.baselineDays + 1e-9;
   const verdict = `observable on ${qualifying.length} of ${plural(total, 'night')}; ${gapText}; ${
-    fits ? 'cadence fits' : `cadence does not fit: ${reasons[0]}`
+    fits ? (stretched ? `cadence fits over ${plural(stretchDays, 'night')} to absorb the weather` : 'cadence fits') : `cadence does not fit: ${reasons[0]}`
   }`;
 
   return {
@@ -193,12 +218,13 @@ export function assessCadence(
     longestGapNights: longestGap,
     baselineWindow: best
       ? {
-          firstNight: windows.nightDates[best.first],
-          lastNight: windows.nightDates[best.last],
-          qualifyingNights: best.count,
-          longestGapNights: best.gap,
+          firstNight: windows.nightDates[qualifying[best.first]],
+          lastNight: windows.nightDates[qualifying[best.last]],
+          qualifyingNights: best.last - best.first + 1,
+          longestGapNights: gapWithin(best.first, best.last),
         }
       : null,
+    stretchDays,
     maxNightlyUsableHours: maxHours,
   };
 }
