@@ -18,9 +18,30 @@ export const routes: Routes = [
     loadChildren: () => import('./features/home/home.routes'),
   },
   {
+    path: 'planner',
+    canActivate: [authGuard],
+    loadChildren: () => import('./features/planner/planner.routes'),
+  },
+  {
     path: 'network',
     canActivate: [authGuard],
     loadChildren: () => import('./features/network/network.routes'),
+  },
+  {
+    path: 'proposals',
+    canActivate: [authGuard],
+    loadChildren: () => import('./features/proposals/proposals.routes'),
+  },
+  {
+    // The link mailed to an invitee who has an account; signing in returns here.
+    path: 'invitations',
+    canActivate: [authGuard],
+    loadChildren: () => import('./features/invitations/invitations.routes'),
+  },
+  {
+    path: 'cycles',
+    canActivate: [authGuard, roleGuard('facility_manager')],
+    loadChildren: () => import('./features/cycles/cycles.routes'),
   },
   {
     path: 'admin',

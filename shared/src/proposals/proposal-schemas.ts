@@ -31,6 +31,11 @@ export type InviteMemberInput = z.infer<typeof inviteMemberSchema>;
 /** POST /api/invitations/accept */
 export const acceptInvitationSchema = z.object({ token: z.string().min(20).max(200) });
 
+/** Answer of POST /api/invitations/accept: the proposal the account has joined. */
+export interface InvitationAccepted {
+  proposalId: number;
+}
+
 export type MemberRole = 'pi' | 'coi';
 
 export interface ProposalMember {
@@ -106,4 +111,6 @@ export interface ProposalSummary {
 export interface SubmissionCheck {
   ready: boolean;
   problems: { field: string; message: string }[];
+  /** Things worth a look that do not block submission (e.g. infeasible targets). */
+  warnings: { field: string; message: string }[];
 }

@@ -58,9 +58,39 @@ export const TARGET_CSV_COLUMNS = [
   { name: 'notes', required: false, help: 'free text' },
 ] as const;
 
-/** One problem of an uploaded list: row 1 is the first data row after the header. */
+/**
+ * One problem of an uploaded list: row 1 is the first data row after the header; row 0 is the
+ * header itself (missing or unknown columns). `field` is the CSV column name.
+ */
 export interface CsvRowError {
   row: number;
   field: string;
   message: string;
+}
+
+/** POST /api/proposals/:id/targets/upload?mode=replace|append (default replace). */
+export const targetUploadQuerySchema = z.object({
+  mode: z.enum(['replace', 'append'], { message: 'mode must be replace or append' }).default('replace'),
+});
+export type TargetUploadMode = z.output<typeof targetUploadQuerySchema>['mode'];
+
+/** Answer of a successful upload: the whole list as stored now. */
+export interface TargetUploadResult {
+  mode: TargetUploadMode;
+  /** Rows read from the file and stored. */
+  added: number;
+  /** Rows removed first (replace mode; 0 in append mode). */
+  removed: number;
+  targets: TargetRow[];
+}
+
+/**
+ * 400 `invalid_target_list` body: the usual error body plus every problem of the file
+ * (`fieldErrors` carries the same problems keyed `rows.<row>.<column>`).
+ */
+export interface TargetListErrorBody {
+  code: string;
+  message: string;
+  fieldErrors?: Record<string, string[]>;
+  rows: CsvRowError[];
 }

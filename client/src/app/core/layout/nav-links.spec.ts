@@ -7,12 +7,17 @@ describe('visibleNavLinks', () => {
     expect(labels(null)).toEqual([]);
   });
 
-  it('any signed-in person: Home and Network', () => {
-    expect(labels({ roles: ['reviewer'] })).toEqual(['Home', 'Network']);
-    expect(labels({ roles: [] })).toEqual(['Home', 'Network']);
+  it('any signed-in person: Home, Target planner and Network', () => {
+    expect(labels({ roles: ['reviewer'] })).toEqual(['Home', 'Target planner', 'Network']);
+    expect(labels({ roles: [] })).toEqual(['Home', 'Target planner', 'Network']);
   });
 
   it('administrator: also Accounts', () => {
-    expect(labels({ roles: ['proposer', 'administrator'] })).toEqual(['Home', 'Network', 'Accounts']);
+    expect(labels({ roles: ['proposer', 'administrator'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network', 'Accounts']);
+  });
+
+  it('proposer: Proposals; facility manager: Cycles', () => {
+    expect(labels({ roles: ['proposer'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network']);
+    expect(labels({ roles: ['facility_manager'] })).toEqual(['Home', 'Target planner', 'Network', 'Cycles']);
   });
 });

@@ -15,7 +15,10 @@ export interface NavLink {
 /** The pages that exist so far, in the order they appear in the sidenav. */
 export const NAV_LINKS: readonly NavLink[] = [
   { path: '/', label: 'Home', icon: 'home', exact: true },
+  { path: '/proposals', label: 'Proposals', icon: 'description', roles: ['proposer'] },
+  { path: '/planner', label: 'Target planner', icon: 'query_stats' },
   { path: '/network', label: 'Network', icon: 'hub' },
+  { path: '/cycles', label: 'Cycles', icon: 'event_repeat', roles: ['facility_manager'] },
   { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['administrator'] },
 ];
 

@@ -100,4 +100,22 @@ describe('SignUp', () => {
     await fixture.whenStable();
     expect(navigateByUrl).toHaveBeenCalledWith('/');
   });
+
+  it('with ?invite=: says so, and after sign-up goes to the invitation page that accepts it', async () => {
+    fixture.componentRef.setInput('invite', 'k3X9-lantern-invite-token-0042');
+    await fixture.whenStable();
+    expect(fixture.nativeElement.querySelector('[data-testid=invite-note]').textContent).toContain(
+      'You have been invited to join a proposal team.',
+    );
+    const signIn = Array.from(fixture.nativeElement.querySelectorAll('a') as NodeListOf<HTMLAnchorElement>).find((a) =>
+      a.textContent?.includes('I already have an account'),
+    );
+    expect(signIn?.getAttribute('href')).toBe('/sign-in?returnUrl=%2Finvitations%2Fk3X9-lantern-invite-token-0042');
+
+    await fill(VALID);
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Create account' }))).click();
+    backend.expectOne('/api/auth/sign-up').flush({ user: testUser(['proposer']) }, { status: 201, statusText: 'Created' });
+    await fixture.whenStable();
+    expect(navigateByUrl).toHaveBeenCalledWith('/invitations/k3X9-lantern-invite-token-0042');
+  });
 });

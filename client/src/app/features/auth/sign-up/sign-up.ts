@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButton, MatIconButton } from '@angular/material/button';
 import { MatCard } from '@angular/material/card';
@@ -13,7 +13,16 @@ import { readApiError } from '../../../core/http/api-error-message';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
 
-/** Self-registration: the server creates a proposer account and signs it in. */
+/** The page that accepts an invitation once the account exists (see features/invitations). */
+export function invitationPath(token: string): string {
+  return `/invitations/${encodeURIComponent(token)}`;
+}
+
+/**
+ * Self-registration: the server creates a proposer account and signs it in. With
+ * `?invite=<token>` (the link mailed to an invitee without an account) the new account then
+ * goes to the invitation page, which accepts it and opens the proposal.
+ */
 @Component({
   selector: 'app-sign-up',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -39,6 +48,14 @@ export default class SignUp {
   private readonly auth = inject(SessionAuth);
   private readonly router = inject(Router);
 
+  /** Query parameter `invite`: a proposal-team invitation to accept after signing up. */
+  readonly invite = input<string>();
+  protected readonly inviteToken = computed(() => this.invite()?.trim() || null);
+  protected readonly signInLink = computed(() => {
+    const token = this.inviteToken();
+    return token ? { returnUrl: invitationPath(token) } : {};
+  });
+
   protected readonly passwordMinLength = PASSWORD_MIN_LENGTH;
   protected readonly submitting = signal(false);
   protected readonly serverError = signal<string | null>(null);
@@ -63,7 +80,8 @@ export default class SignUp {
     this.auth.signUp(this.form.getRawValue()).subscribe({
       next: () => {
         this.submitting.set(false);
-        void this.router.navigateByUrl('/');
+        const token = this.inviteToken();
+        void this.router.navigateByUrl(token ? invitationPath(token) : '/');
       },
       error: (error: unknown) => {
         const body = readApiError(error);

@@ -1,0 +1,10 @@
+import { Routes } from '@angular/router';
+
+/** Loaded under /cycles behind authGuard and roleGuard('facility_manager') (see app.routes.ts). */
+const cyclesRoutes: Routes = [
+  { path: '', title: 'Cycles', loadComponent: () => import('./cycle-list/cycle-list') },
+  { path: 'new', title: 'New cycle', loadComponent: () => import('./cycle-form/cycle-form') },
+  { path: ':id', title: 'Edit cycle', loadComponent: () => import('./cycle-form/cycle-form') },
+];
+
+export default cyclesRoutes;

@@ -1,0 +1,41 @@
+import { HttpClient, httpResource } from '@angular/common/http';
+import { inject, Injectable } from '@angular/core';
+import type { PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
+import type { SkyWindowsReport } from '@spincycle/shared/sky/sky-windows-report';
+import { Observable } from 'rxjs';
+
+/** Which target on which node a sky window is asked for. */
+export interface SkyWindowQuery {
+  proposalId: number;
+  targetId: number;
+  nodeId: number;
+}
+
+/** All HTTP of a proposal's target plans and sky windows. */
+@Injectable({ providedIn: 'root' })
+export class PlanApi {
+  private readonly http = inject(HttpClient);
+
+  /** GET /api/proposals/:id/plans: the stored plans and the state of their computation. */
+  plansResource(proposalId: () => number | null) {
+    return httpResource<ProposalPlans>(() => {
+      const id = proposalId();
+      return id === null ? undefined : `/api/proposals/${id}/plans`;
+    });
+  }
+
+  /** POST /api/proposals/:id/plans/recompute → the queued run. */
+  recompute(proposalId: number): Observable<PlanRunStatus> {
+    return this.http.post<PlanRunStatus>(`/api/proposals/${proposalId}/plans/recompute`, null);
+  }
+
+  /** GET /api/proposals/:id/targets/:targetId/sky?nodeId=N: one target's sky window, night by night. */
+  skyWindowResource(query: () => SkyWindowQuery | null) {
+    return httpResource<SkyWindowsReport>(() => {
+      const q = query();
+      return q === null
+        ? undefined
+        : { url: `/api/proposals/${q.proposalId}/targets/${q.targetId}/sky`, params: { nodeId: q.nodeId } };
+    });
+  }
+}

@@ -1,0 +1,81 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { signal } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
+import { provideRouter, withComponentInputBinding } from '@angular/router';
+import { RouterTestingHarness } from '@angular/router/testing';
+import { Clock } from '../../../core/time/clock';
+import proposalsRoutes from '../proposals.routes';
+import { testProposal } from '../testing/fixtures';
+
+const NOW = Date.parse('2027-01-10T12:00:00Z');
+
+describe('ProposalEditor', () => {
+  let harness: RouterTestingHarness;
+  let backend: HttpTestingController;
+
+  beforeEach(async () => {
+    TestBed.configureTestingModule({
+      providers: [
+        provideRouter([{ path: 'proposals', children: proposalsRoutes }], withComponentInputBinding()),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: Clock, useValue: { now: signal(NOW) } },
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    harness = await RouterTestingHarness.create();
+  });
+
+  afterEach(() => backend.verify());
+
+  const el = () => harness.routeNativeElement as HTMLElement;
+
+  it('opens on the overview tab, with a link per tab and the deadline in local time and UTC', async () => {
+    await harness.navigateByUrl('/proposals/5');
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal());
+    await harness.fixture.whenStable();
+    const links = Array.from(el().querySelectorAll('nav a')) as HTMLAnchorElement[];
+    expect(links.map((a) => a.textContent?.trim())).toEqual(['Overview', 'Team', 'Targets', 'Plans', 'Justification', 'Submit']);
+    expect(links.map((a) => a.getAttribute('href'))).toEqual([
+      '/proposals/5/overview',
+      '/proposals/5/team',
+      '/proposals/5/targets',
+      '/proposals/5/plans',
+      '/proposals/5/justification',
+      '/proposals/5/submit',
+    ]);
+    expect(links[0].classList).toContain('mdc-tab--active');
+    expect(el().querySelector('h1')?.textContent).toBe('Spin-down of the Lantern cluster');
+    expect(el().textContent).toContain('Call closes in 5 days');
+    expect(el().textContent).toContain('(15 Jan 2027, 23:59 UTC)');
+    expect(el().querySelector('app-proposal-overview textarea')).not.toBeNull();
+    expect(el().querySelector('[data-testid=read-only-banner]')).toBeNull();
+  });
+
+  it('submitted: a banner says when, and that every tab is read-only', async () => {
+    await harness.navigateByUrl('/proposals/5/overview');
+    TestBed.tick();
+    backend
+      .expectOne('/api/proposals/5')
+      .flush(testProposal({ state: 'submitted', editable: false, submittedAt: '2027-01-09T16:45:00Z' }));
+    await harness.fixture.whenStable();
+    const banner = el().querySelector('[data-testid=read-only-banner]') as HTMLElement;
+    expect(banner.textContent).toContain('Submitted on');
+    expect(banner.textContent).toContain('9 Jan 2027, 16:45 UTC');
+    expect(banner.textContent).toContain('— read-only.');
+    expect((el().querySelector('app-proposal-overview textarea') as HTMLTextAreaElement).disabled).toBe(true);
+  });
+
+  it('not on the team (404): says so instead of the tabs', async () => {
+    await harness.navigateByUrl('/proposals/99/overview');
+    TestBed.tick();
+    backend.expectOne('/api/proposals/99').flush({ code: 'proposal_not_found', message: 'No proposal 99' }, { status: 404, statusText: 'Not Found' });
+    await harness.fixture.whenStable();
+    expect(el().textContent).toContain('This proposal does not exist, or you are not on its team.');
+    expect(el().querySelector('nav')).toBeNull();
+  });
+});

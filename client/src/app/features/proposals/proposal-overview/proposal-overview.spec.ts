@@ -1,0 +1,124 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HarnessLoader } from '@angular/cdk/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { MatCheckboxHarness } from '@angular/material/checkbox/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
+import { MatInputHarness } from '@angular/material/input/testing';
+import { AUTOSAVE_DEBOUNCE_MS, ProposalStore } from '../proposal-store';
+import { testProposal } from '../testing/fixtures';
+import ProposalOverview from './proposal-overview';
+
+const pause = () => new Promise((resolve) => setTimeout(resolve, AUTOSAVE_DEBOUNCE_MS + 60));
+const isPatch = (req: { method: string; url: string }) => req.method === 'PATCH' && req.url === '/api/proposals/5';
+
+describe('ProposalOverview', () => {
+  let fixture: ComponentFixture<ProposalOverview>;
+  let loader: HarnessLoader;
+  let backend: HttpTestingController;
+
+  beforeEach(async () => {
+    TestBed.configureTestingModule({
+      imports: [ProposalOverview],
+      providers: [
+        ProposalStore,
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    TestBed.inject(ProposalStore).id.set(5);
+    fixture = TestBed.createComponent(ProposalOverview);
+    loader = TestbedHarnessEnvironment.loader(fixture);
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal());
+    await fixture.whenStable();
+  });
+
+  afterEach(() => backend.verify());
+
+  const abstract = () => loader.getHarness(MatInputHarness.with({ selector: 'textarea' }));
+  const status = () => (fixture.nativeElement.querySelector('[data-testid=save-status]') as HTMLElement).textContent?.trim();
+
+  it('shows the stored values and counts the abstract characters', async () => {
+    expect(await (await abstract()).getValue()).toBe('Rotation periods of forty K dwarfs.');
+    expect(fixture.nativeElement.querySelector('[data-testid=abstract-count]').textContent).toContain('35 / 4,000 characters');
+    expect(await (await loader.getHarness(MatCheckboxHarness.with({ label: 'KRG-50' }))).isChecked()).toBe(true);
+  });
+
+  it('autosave: waits for typing to pause, then PATCHes only the changed field with the version read', async () => {
+    await (await abstract()).setValue('Rotation periods of forty-two K dwarfs.');
+    expect(status()).toBe('Unsaved changes');
+    backend.expectNone(isPatch);
+    await pause();
+    const patch = backend.expectOne(isPatch);
+    expect(patch.request.body).toEqual({ version: 3, abstract: 'Rotation periods of forty-two K dwarfs.' });
+    expect(status()).toBe('Saving…');
+    patch.flush(testProposal({ abstract: 'Rotation periods of forty-two K dwarfs.', version: 4 }));
+    await fixture.whenStable();
+    expect(status()).toMatch(/(^|\s)Saved \d\d:\d\d$/);
+
+    // The next save names the version the server returned.
+    await (await loader.getHarness(MatCheckboxHarness.with({ label: 'VHM-40' }))).check();
+    await pause();
+    const next = backend.expectOne(isPatch);
+    expect(next.request.body).toEqual({ version: 4, nodeIds: [1, 2] });
+    next.flush(testProposal({ nodeIds: [1, 2], version: 5 }));
+    await fixture.whenStable();
+  });
+
+  it('409: shows the banner with the server message, keeps the typed text and sends nothing more', async () => {
+    const typed = 'A new abstract that someone else did not see.';
+    await (await abstract()).setValue(typed);
+    await pause();
+    backend
+      .expectOne(isPatch)
+      .flush(
+        { code: 'version_conflict', message: 'Someone else saved this proposal at 14:01.' },
+        { status: 409, statusText: 'Conflict' },
+      );
+    await fixture.whenStable();
+
+    const banner = fixture.nativeElement.querySelector('[data-testid=conflict-banner]') as HTMLElement;
+    expect(banner).not.toBeNull();
+    expect(banner.getAttribute('role')).toBe('alert');
+    expect(banner.textContent).toContain('Someone else saved this proposal at 14:01.');
+    expect(banner.querySelector('button')?.textContent).toContain('Reload');
+    expect(banner.querySelector('[aria-label*=ismiss], .close')).toBeNull();
+    expect(await (await abstract()).getValue()).toBe(typed);
+    expect(status()).toBe('Not saved');
+
+    await (await abstract()).setValue(`${typed} More.`);
+    await pause();
+    backend.expectNone(isPatch);
+    expect(await (await abstract()).getValue()).toBe(`${typed} More.`);
+  });
+
+  it('reload after a conflict: fetches the stored version, fills the form with it and offers the discarded text', async () => {
+    await (await abstract()).setValue('Mine.');
+    await pause();
+    backend.expectOne(isPatch).flush({ code: 'version_conflict', message: 'Changed.' }, { status: 409, statusText: 'Conflict' });
+    await fixture.whenStable();
+
+    (fixture.nativeElement.querySelector('[data-testid=conflict-banner] button') as HTMLButtonElement).click();
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal({ abstract: 'Theirs.', version: 4 }));
+    await fixture.whenStable();
+    expect(fixture.nativeElement.querySelector('[data-testid=conflict-banner]')).toBeNull();
+    expect(await (await abstract()).getValue()).toBe('Theirs.');
+    expect(fixture.nativeElement.textContent).toContain('Your text before the reload');
+
+    await (await abstract()).setValue('Theirs, and mine.');
+    await pause();
+    expect(backend.expectOne(isPatch).request.body).toEqual({ version: 4, abstract: 'Theirs, and mine.' });
+  });
+
+  it('read-only after submission: the fields are disabled and nothing is sent', async () => {
+    TestBed.inject(ProposalStore).replace(testProposal({ state: 'submitted', editable: false, submittedAt: '2027-01-10T10:00:00Z' }));
+    await fixture.whenStable();
+    expect(await (await abstract()).isDisabled()).toBe(true);
+    expect(await (await loader.getHarness(MatCheckboxHarness.with({ label: 'KRG-50' }))).isDisabled()).toBe(true);
+  });
+});

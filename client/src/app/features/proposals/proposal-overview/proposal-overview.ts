@@ -1,0 +1,152 @@
+import { DatePipe, DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { MatButton } from '@angular/material/button';
+import { MatCheckbox, MatCheckboxChange } from '@angular/material/checkbox';
+import { MatExpansionPanel, MatExpansionPanelHeader, MatExpansionPanelTitle } from '@angular/material/expansion';
+import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
+import { MatInput } from '@angular/material/input';
+import { MatOption, MatSelect } from '@angular/material/select';
+import { createProposalSchema, updateProposalSchema } from '@spincycle/shared/proposals/proposal-schemas';
+import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
+import { map } from 'rxjs';
+import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
+import { zodValidator } from '../../../ui/forms/zod-validator';
+import { OverviewValues, overviewOf, ProposalStore } from '../proposal-store';
+
+/** Longest abstract the API takes (updateProposalSchema). */
+export const ABSTRACT_MAX_LENGTH = 4000;
+
+/**
+ * The overview tab: title, abstract, category and requested nodes, saved automatically a
+ * moment after typing stops. A 409 stops autosave and shows a banner that keeps what was
+ * typed until the person chooses to reload.
+ */
+@Component({
+  selector: 'app-proposal-overview',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  imports: [
+    DatePipe,
+    DecimalPipe,
+    MatButton,
+    MatCheckbox,
+    MatError,
+    MatExpansionPanel,
+    MatExpansionPanelHeader,
+    MatExpansionPanelTitle,
+    MatFormField,
+    MatHint,
+    MatIcon,
+    MatInput,
+    MatLabel,
+    MatOption,
+    MatSelect,
+    ReactiveFormsModule,
+  ],
+  templateUrl: './proposal-overview.html',
+  styleUrl: './proposal-overview.scss',
+})
+export default class ProposalOverview {
+  protected readonly store = inject(ProposalStore);
+  protected readonly proposal = this.store.proposal;
+  protected readonly abstractMax = ABSTRACT_MAX_LENGTH;
+  protected readonly errorOf = controlErrorMessage;
+
+  protected readonly form = new FormGroup({
+    title: new FormControl('', { nonNullable: true, validators: [zodValidator(createProposalSchema.shape.title)] }),
+    abstract: new FormControl('', { nonNullable: true, validators: [zodValidator(updateProposalSchema.shape.abstract)] }),
+    category: new FormControl<string | null>(null),
+    nodeIds: new FormControl<number[]>([], { nonNullable: true }),
+  });
+
+  protected readonly abstractLength = toSignal(this.form.controls.abstract.valueChanges.pipe(map((v) => v.length)), {
+    initialValue: 0,
+  });
+  protected readonly nodeIds = toSignal(this.form.controls.nodeIds.valueChanges, { initialValue: [] as number[] });
+  /** The text that was on screen when the person reloaded after a conflict, offered for copying. */
+  protected readonly discarded = signal<OverviewValues | null>(null);
+
+  protected readonly requestedHours = computed(() => {
+    const proposal = this.proposal();
+    return proposal ? proposal.request.reduce((sum, r) => sum + r.nodeHours, 0) : 0;
+  });
+
+  private filling = false;
+  private filled = false;
+  private seenReloads = 0;
+
+  constructor() {
+    effect(() => {
+      const proposal = this.store.proposal();
+      const reloads = this.store.reloads();
+      if (proposal) untracked(() => this.sync(proposal, reloads));
+    });
+    effect(() => {
+      const readOnly = this.store.readOnly();
+      untracked(() => (readOnly ? this.form.disable({ emitEvent: false }) : this.form.enable({ emitEvent: false })));
+    });
+    effect(() => {
+      const failure = this.store.saveError();
+      if (failure?.fieldErrors) untracked(() => applyServerFieldErrors(this.form, failure.fieldErrors));
+    });
+    this.form.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => {
+      if (!this.filling && !this.store.readOnly()) this.store.edit(this.values());
+    });
+  }
+
+  protected toggleNode(nodeId: number, change: MatCheckboxChange): void {
+    const control = this.form.controls.nodeIds;
+    const others = control.value.filter((id) => id !== nodeId);
+    control.setValue(change.checked ? [...others, nodeId] : others);
+  }
+
+  protected reload(): void {
+    const draft = this.store.draft();
+    this.discarded.set(draft);
+    this.store.reload();
+  }
+
+  protected retry(): void {
+    this.store.flush();
+  }
+
+  /**
+   * Fills the form from the server's copy: the first time (or what was typed before leaving
+   * the tab), after an explicit reload, and when a newer version arrives while nothing typed
+   * is waiting to be saved.
+   */
+  private sync(proposal: Proposal, reloads: number): void {
+    if (!this.filled) {
+      this.filled = true;
+      this.seenReloads = reloads;
+      const draft = this.store.draft();
+      if (!draft) this.store.rebase(proposal);
+      this.fill(draft ?? overviewOf(proposal));
+      return;
+    }
+    if (reloads !== this.seenReloads) {
+      this.seenReloads = reloads;
+      this.store.rebase(proposal);
+      this.fill(overviewOf(proposal));
+      return;
+    }
+    const idle = !this.store.draft() && this.store.saveState() !== 'saving';
+    if (idle && proposal.version > (this.store.baseVersion ?? 0)) {
+      this.store.rebase(proposal);
+      this.fill(overviewOf(proposal));
+    }
+  }
+
+  private fill(values: OverviewValues): void {
+    this.filling = true;
+    this.form.setValue({ ...values, nodeIds: [...values.nodeIds] });
+    this.filling = false;
+  }
+
+  private values(): OverviewValues {
+    const v = this.form.getRawValue();
+    return { title: v.title, abstract: v.abstract, category: v.category, nodeIds: v.nodeIds };
+  }
+}

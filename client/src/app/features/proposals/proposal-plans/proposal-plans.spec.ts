@@ -1,0 +1,187 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
+import { MatDialog } from '@angular/material/dialog';
+import { provideRouter } from '@angular/router';
+import type { PlanRunStatus, ProposalPlans as PlansBody } from '@spincycle/shared/proposals/plan-types';
+import { ProposalStore } from '../proposal-store';
+import { testPlanRow, testProposal, testTarget } from '../testing/fixtures';
+import ProposalPlans, { PLAN_POLL_MS } from './proposal-plans';
+
+function run(overrides: Partial<PlanRunStatus> = {}): PlanRunStatus {
+  return { state: 'idle', total: 4, done: 4, startedAt: null, finishedAt: null, error: null, current: true, ...overrides };
+}
+
+function body(overrides: Partial<PlansBody> = {}): PlansBody {
+  return { run: run(), plans: [], errors: [], ...overrides };
+}
+
+const PLANS_URL = '/api/proposals/5/plans';
+
+describe('ProposalPlans', () => {
+  let fixture: ComponentFixture<ProposalPlans>;
+  let backend: HttpTestingController;
+  let dialogOpen: jest.Mock;
+
+  function setUp(): void {
+    dialogOpen = jest.fn();
+    TestBed.configureTestingModule({
+      imports: [ProposalPlans],
+      providers: [
+        ProposalStore,
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: MatDialog, useValue: { open: dialogOpen } },
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    TestBed.inject(ProposalStore).id.set(5);
+    fixture = TestBed.createComponent(ProposalPlans);
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal());
+  }
+
+  afterEach(() => {
+    backend.verify();
+    jest.useRealTimers();
+  });
+
+  const el = () => fixture.nativeElement as HTMLElement;
+
+  describe('with a computed set of plans', () => {
+    beforeEach(async () => {
+      setUp();
+      backend.expectOne(PLANS_URL).flush(
+        body({
+          plans: [
+            testPlanRow(1, 1),
+            testPlanRow(2, 1, {
+              feasible: false,
+              reasons: ['Only 12 clear nights carry the cadence; 30 are needed.'],
+              suggestions: [{ kind: 'other_node', message: 'Another node of the network may see this target longer in the campaign.' }],
+            }),
+          ],
+        }),
+      );
+      backend.expectOne('/api/proposals/5/targets').flush([testTarget(1), testTarget(2)]);
+      await fixture.whenStable();
+    });
+
+    it('highlights the infeasible row and gives its reason and suggestion beneath it', () => {
+      const rows = Array.from(el().querySelectorAll('[data-testid=plans-table] tbody tr.mat-mdc-row'));
+      const main = rows.filter((row) => !row.classList.contains('detail-row'));
+      expect(main).toHaveLength(2);
+      expect(main[0].classList).not.toContain('infeasible');
+      expect(main[1].classList).toContain('infeasible');
+      expect(main[1].textContent).toContain('Infeasible:');
+      const details = el().querySelectorAll('[data-testid=infeasible-detail]');
+      expect(details).toHaveLength(1);
+      expect(details[0].textContent).toContain('Only 12 clear nights carry the cadence; 30 are needed.');
+      expect(details[0].textContent).toContain('Another node of the network may see this target longer in the campaign.');
+    });
+
+    it('shows the request per node with its total and the fee caution', () => {
+      const table = el().querySelector('[data-testid=request-table]') as HTMLElement;
+      expect(table.textContent).toContain('KRG-50');
+      expect(table.textContent).toContain('€2,061.25');
+      expect(el().querySelector('[data-testid=total-hours]')?.textContent?.trim()).toBe('42.50');
+      expect(el().textContent).toContain("the consortium's own terms and local tax rules govern");
+    });
+
+    it('the explain button opens the side panel with the row; the sky window button names target and node', () => {
+      const buttons = Array.from(el().querySelectorAll('td.actions button')) as HTMLButtonElement[];
+      buttons[0].click();
+      expect(dialogOpen.mock.calls[0][1].data).toEqual(expect.objectContaining({ targetId: 1, nodeId: 1 }));
+      buttons[3].click();
+      expect(dialogOpen.mock.calls[1][1].data).toEqual(
+        expect.objectContaining({ proposalId: 5, targetId: 2, nodeId: 1, targetName: 'Lantern 2', nodes: [{ nodeId: 1, nodeCode: 'KRG-50' }] }),
+      );
+    });
+
+    it('a target list of one age gets the cluster chart', () => {
+      expect(el().querySelector('[data-testid=cluster-chart]')).not.toBeNull();
+      expect(el().querySelector('[data-testid=cluster-summary]')?.textContent).toContain('2 targets of one age, 650 Myr');
+      expect(el().querySelector('canvas')?.getAttribute('aria-label')).toContain('expected rotation period in days against Intrinsic colour (B−V)₀ (mag) at 650 Myr');
+    });
+  });
+
+  it('targets of different ages: no cluster chart', async () => {
+    setUp();
+    backend.expectOne(PLANS_URL).flush(body({ plans: [testPlanRow(1, 1), testPlanRow(2, 1)] }));
+    backend.expectOne('/api/proposals/5/targets').flush([testTarget(1), testTarget(2, { ageMyr: 120 })]);
+    await fixture.whenStable();
+    expect(el().querySelector('[data-testid=plans-table]')).not.toBeNull();
+    expect(el().querySelector('[data-testid=cluster-chart]')).toBeNull();
+  });
+
+  it('out of date: says so, and Recompute posts and starts following the run', async () => {
+    setUp();
+    backend.expectOne(PLANS_URL).flush(body({ run: run({ current: false }), plans: [testPlanRow(1, 1)] }));
+    backend.expectOne('/api/proposals/5/targets').flush([testTarget(1)]);
+    await fixture.whenStable();
+    const stale = el().querySelector('[data-testid=plans-stale]') as HTMLElement;
+    expect(stale.textContent).toContain('Plans are out of date');
+    jest.useFakeTimers();
+    (stale.querySelector('button') as HTMLButtonElement).click();
+    const post = backend.expectOne('/api/proposals/5/plans/recompute');
+    expect(post.request.method).toBe('POST');
+    post.flush(run({ state: 'queued', done: 0, total: 1, current: false }));
+    TestBed.tick();
+    expect(el().querySelector('[data-testid=plan-progress]')?.textContent).toContain('0 of 1 done');
+    jest.advanceTimersByTime(PLAN_POLL_MS);
+    TestBed.tick();
+    backend.expectOne(PLANS_URL).flush(body({ plans: [testPlanRow(1, 1)] }));
+  });
+
+  it('while the plans are computed: a determinate bar, a poll every second, and no poll once idle or after leaving', async () => {
+    jest.useFakeTimers();
+    setUp();
+    backend.expectOne('/api/proposals/5/targets').flush([testTarget(1), testTarget(2)]);
+    backend.expectOne(PLANS_URL).flush(body({ run: run({ state: 'running', done: 1, total: 4, current: false }) }));
+    await Promise.resolve();
+    TestBed.tick();
+
+    const bar = () => el().querySelector('[data-testid=plan-progress] mat-progress-bar');
+    expect(el().querySelector('[data-testid=plan-progress]')?.textContent).toContain('1 of 4 done');
+    expect(bar()?.getAttribute('aria-valuenow')).toBe('25');
+
+    backend.expectNone(PLANS_URL);
+    jest.advanceTimersByTime(PLAN_POLL_MS - 1);
+    TestBed.tick();
+    backend.expectNone(PLANS_URL);
+    jest.advanceTimersByTime(1);
+    TestBed.tick();
+    backend.expectOne(PLANS_URL).flush(body({ run: run({ state: 'running', done: 3, total: 4, current: false }) }));
+    await Promise.resolve();
+    TestBed.tick();
+    expect(bar()?.getAttribute('aria-valuenow')).toBe('75');
+
+    jest.advanceTimersByTime(PLAN_POLL_MS);
+    TestBed.tick();
+    backend.expectOne(PLANS_URL).flush(body({ plans: [testPlanRow(1, 1), testPlanRow(2, 1)] }));
+    await Promise.resolve();
+    TestBed.tick();
+    expect(el().querySelector('[data-testid=plan-progress]')).toBeNull();
+    // The run ended: the request per node is fetched again, and polling stops.
+    backend.expectOne('/api/proposals/5').flush(testProposal());
+    jest.advanceTimersByTime(5 * PLAN_POLL_MS);
+    TestBed.tick();
+    backend.expectNone(PLANS_URL);
+  });
+
+  it('leaving the tab while the plans are computed stops the polling', async () => {
+    jest.useFakeTimers();
+    setUp();
+    backend.expectOne('/api/proposals/5/targets').flush([]);
+    backend.expectOne(PLANS_URL).flush(body({ run: run({ state: 'queued', done: 0, total: 4, current: false }) }));
+    await Promise.resolve();
+    TestBed.tick();
+    fixture.destroy();
+    jest.advanceTimersByTime(5 * PLAN_POLL_MS);
+    TestBed.tick();
+    backend.expectNone(PLANS_URL);
+  });
+});

@@ -1,0 +1,316 @@
+import { DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, linkedSignal, signal, untracked } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
+import { MatButton } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormField, MatLabel, MatPrefix } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
+import { MatInput } from '@angular/material/input';
+import { MatPaginator, PageEvent } from '@angular/material/paginator';
+import { MatProgressBar } from '@angular/material/progress-bar';
+import { MatSlideToggle } from '@angular/material/slide-toggle';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatSort, MatSortHeader, Sort } from '@angular/material/sort';
+import {
+  MatCell,
+  MatCellDef,
+  MatColumnDef,
+  MatHeaderCell,
+  MatHeaderCellDef,
+  MatHeaderRow,
+  MatHeaderRowDef,
+  MatRow,
+  MatRowDef,
+  MatTable,
+} from '@angular/material/table';
+import { MatTooltip } from '@angular/material/tooltip';
+import type { ProposalPlans as ProposalPlansBody, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
+import { debounceTime, map, startWith } from 'rxjs';
+import { readApiError } from '../../../core/http/api-error-message';
+import { LoadStatus } from '../../../ui/load-status/load-status';
+import { sortRows, SortValue } from '../../../ui/table/sort-rows';
+import { MinorCurrencyPipe } from '../../../ui/units/minor-currency-pipe';
+import { ClusterChart, ClusterPointSelection } from '../cluster-chart/cluster-chart';
+import { sharedAgeMyr } from '../cluster-chart/cluster-curves';
+import { PlanApi } from '../plan-api';
+import { PlanExplainDialog } from '../plan-explain-dialog/plan-explain-dialog';
+import { ProposalStore } from '../proposal-store';
+import { SkyWindowDialog, SkyWindowDialogData } from '../sky-window-dialog/sky-window-dialog';
+import { TargetApi } from '../target-api';
+
+/** How often the plans are asked for while they are being computed. */
+export const PLAN_POLL_MS = 1000;
+
+const COLUMNS = [
+  'target',
+  'node',
+  'period',
+  'amplitude',
+  'precision',
+  'exposure',
+  'visits',
+  'visitsPerNight',
+  'cadence',
+  'baseline',
+  'usableNights',
+  'nodeHours',
+  'fee',
+  'actions',
+] as const;
+
+/** The quantity whose "why" a cell's tooltip shows. */
+export const CELL_QUANTITY: Readonly<Record<string, string>> = {
+  period: 'periodDays',
+  amplitude: 'semiAmplitudePpm',
+  precision: 'perVisitPrecisionPpm',
+  exposure: 'exposureSeconds',
+  visits: 'visits',
+  visitsPerNight: 'visitsPerNight',
+  cadence: 'sampleIntervalDays',
+  baseline: 'baselineDays',
+  nodeHours: 'nodeHours',
+  fee: 'feeMinor',
+};
+
+function planValue(row: TargetPlanRow, column: string): SortValue {
+  switch (column) {
+    case 'target': return row.targetName;
+    case 'node': return row.nodeCode;
+    case 'period': return row.periodDays;
+    case 'amplitude': return row.amplitudePpm;
+    case 'precision': return row.perVisitPrecisionPpm;
+    case 'exposure': return row.exposureSeconds;
+    case 'visits': return row.visits;
+    case 'visitsPerNight': return row.visitsPerNight;
+    case 'cadence': return row.cadenceDays;
+    case 'baseline': return row.baselineDays;
+    case 'usableNights': return row.usableNights;
+    case 'nodeHours': return row.nodeHours;
+    case 'fee': return row.feeMinor;
+    case 'feasible': return row.feasible ? 1 : 0;
+    default: return null;
+  }
+}
+
+/** Fee totals per currency (nodes may charge in different currencies). */
+export function feeTotals(request: readonly NodeRequest[]): { currency: string; feeMinor: number }[] {
+  const totals = new Map<string, number>();
+  for (const r of request) totals.set(r.currency, (totals.get(r.currency) ?? 0) + r.feeMinor);
+  return [...totals].map(([currency, feeMinor]) => ({ currency, feeMinor }));
+}
+
+/**
+ * The plans tab: the target plans of every target on every requested node, the request per
+ * node, the computation's progress (polled every second while it runs), and for a coeval
+ * target list the cluster chart. Each row explains its numbers and opens its sky window.
+ */
+@Component({
+  selector: 'app-proposal-plans',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  imports: [
+    ClusterChart,
+    DecimalPipe,
+    LoadStatus,
+    MatButton,
+    MatCell,
+    MatCellDef,
+    MatColumnDef,
+    MatFormField,
+    MatHeaderCell,
+    MatHeaderCellDef,
+    MatHeaderRow,
+    MatHeaderRowDef,
+    MatIcon,
+    MatInput,
+    MatLabel,
+    MatPaginator,
+    MatPrefix,
+    MatProgressBar,
+    MatRow,
+    MatRowDef,
+    MatSlideToggle,
+    MatSort,
+    MatSortHeader,
+    MatTable,
+    MatTooltip,
+    MinorCurrencyPipe,
+    ReactiveFormsModule,
+  ],
+  templateUrl: './proposal-plans.html',
+  styleUrl: './proposal-plans.scss',
+})
+export default class ProposalPlans {
+  private readonly planApi = inject(PlanApi);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+  protected readonly store = inject(ProposalStore);
+
+  protected readonly plans = this.planApi.plansResource(() => this.store.id());
+  protected readonly targets = inject(TargetApi).listResource(() => this.store.id());
+
+  /** The last plans received; kept while a poll is on its way or after a failed poll. */
+  protected readonly body = linkedSignal<ProposalPlansBody | undefined, ProposalPlansBody | null>({
+    source: () => (this.plans.hasValue() ? this.plans.value() : undefined),
+    computation: (next, previous) => next ?? previous?.value ?? null,
+  });
+  protected readonly run = computed(() => this.body()?.run ?? null);
+  protected readonly computing = computed(() => {
+    const state = this.run()?.state;
+    return state === 'queued' || state === 'running';
+  });
+  protected readonly percentDone = computed(() => {
+    const run = this.run();
+    return run && run.total > 0 ? Math.round((100 * run.done) / run.total) : 0;
+  });
+  protected readonly recomputing = signal(false);
+
+  protected readonly columns = COLUMNS;
+  protected readonly detailColumns = ['detail'];
+  protected readonly cellQuantity = CELL_QUANTITY;
+
+  protected readonly sort = signal<Sort>({ active: '', direction: '' });
+  protected readonly filterControl = new FormControl('', { nonNullable: true });
+  protected readonly onlyInfeasible = new FormControl(false, { nonNullable: true });
+  private readonly filterText = toSignal(
+    this.filterControl.valueChanges.pipe(
+      debounceTime(200),
+      map((text) => text.trim().toLowerCase()),
+    ),
+    { initialValue: '' },
+  );
+  private readonly infeasibleOnly = toSignal(this.onlyInfeasible.valueChanges.pipe(startWith(false)), { initialValue: false });
+
+  protected readonly allRows = computed(() => this.body()?.plans ?? []);
+  protected readonly filtered = computed(() => {
+    const text = this.filterText();
+    const infeasibleOnly = this.infeasibleOnly();
+    const rows = this.allRows().filter(
+      (row) =>
+        (!infeasibleOnly || !row.feasible) &&
+        (!text || row.targetName.toLowerCase().includes(text) || row.nodeCode.toLowerCase().includes(text)),
+    );
+    return sortRows(rows, this.sort(), planValue);
+  });
+  protected readonly pageSize = signal(25);
+  protected readonly pageIndex = linkedSignal({
+    source: () => ({ text: this.filterText(), infeasible: this.infeasibleOnly(), sort: this.sort() }),
+    computation: () => 0,
+  });
+  protected readonly pageRows = computed(() => {
+    const start = this.pageIndex() * this.pageSize();
+    return this.filtered().slice(start, start + this.pageSize());
+  });
+  protected readonly infeasibleCount = computed(() => this.allRows().filter((row) => !row.feasible).length);
+
+  protected readonly request = computed(() => this.store.proposal()?.request ?? []);
+  protected readonly capacity = computed(() => {
+    const map = new Map<number, number>();
+    for (const node of this.store.proposal()?.cycle.nodes ?? []) map.set(node.nodeId, node.nodeHoursAvailable);
+    return map;
+  });
+  protected readonly totalHours = computed(() => this.request().reduce((sum, r) => sum + r.nodeHours, 0));
+  protected readonly totalFees = computed(() => feeTotals(this.request()));
+
+  protected readonly targetRows = computed(() => (this.targets.hasValue() ? this.targets.value() : []));
+  /** The cluster chart is drawn only for a target list that shares one age. */
+  protected readonly showCluster = computed(() => sharedAgeMyr(this.targetRows()) !== null);
+
+  protected readonly error = computed(() => {
+    const error = this.plans.error();
+    return error ? `The target plans could not be loaded. ${readApiError(error).message}` : null;
+  });
+  protected readonly empty = computed(() => this.body() !== null && this.allRows().length === 0 && !this.computing());
+
+  protected readonly isInfeasible = (_index: number, row: TargetPlanRow) => !row.feasible;
+
+  constructor() {
+    // Poll while the computation runs: each answer re-runs this effect, which schedules the
+    // next request. The cleanup clears the timer when the answer changes or the tab closes.
+    effect((onCleanup) => {
+      if (!this.computing()) return;
+      this.body();
+      const timer = setTimeout(() => this.plans.reload(), PLAN_POLL_MS);
+      onCleanup(() => clearTimeout(timer));
+    });
+    // When a computation ends, the proposal's request per node has changed: fetch it again.
+    let wasComputing = false;
+    effect(() => {
+      const computing = this.computing();
+      if (wasComputing && !computing) untracked(() => this.store.refresh());
+      wasComputing = computing;
+    });
+  }
+
+  protected onPage(event: PageEvent): void {
+    this.pageSize.set(event.pageSize);
+    this.pageIndex.set(event.pageIndex);
+  }
+
+  protected recompute(): void {
+    const id = this.store.id();
+    if (id === null || this.recomputing()) return;
+    this.recomputing.set(true);
+    this.planApi.recompute(id).subscribe({
+      next: (run) => {
+        this.recomputing.set(false);
+        this.body.update((body) => (body ? { ...body, run } : { run, plans: [], errors: [] }));
+      },
+      error: (error: unknown) => {
+        this.recomputing.set(false);
+        this.snackBar.open(`The plans were not recomputed: ${readApiError(error).message}`, 'Dismiss', { duration: 10000 });
+      },
+    });
+  }
+
+  protected why(row: TargetPlanRow, column: string): string {
+    const key = CELL_QUANTITY[column];
+    return (key && row.quantities[key]?.why) || '';
+  }
+
+  protected explain(row: TargetPlanRow): void {
+    this.dialog.open(PlanExplainDialog, {
+      data: row,
+      position: { right: '0', top: '0' },
+      height: '100vh',
+      width: 'min(560px, 100vw)',
+      maxWidth: '100vw',
+      panelClass: 'side-panel-dialog',
+      ariaLabel: `Every number of the plan of ${row.targetName} on ${row.nodeCode}`,
+    });
+  }
+
+  protected openSkyWindow(row: TargetPlanRow): void {
+    this.openSkyWindowFor(row.targetId, row.nodeId);
+  }
+
+  protected onClusterPoint(selection: ClusterPointSelection): void {
+    this.openSkyWindowFor(selection.targetId, selection.nodeIds[0]);
+  }
+
+  private openSkyWindowFor(targetId: number, nodeId: number | undefined): void {
+    const proposalId = this.store.id();
+    if (proposalId === null) return;
+    const rows = this.allRows().filter((row) => row.targetId === targetId);
+    const target = this.targetRows().find((t) => t.id === targetId);
+    const nodes = rows.length
+      ? rows.map((row) => ({ nodeId: row.nodeId, nodeCode: row.nodeCode }))
+      : (this.store.proposal()?.cycle.nodes ?? [])
+          .filter((node) => this.store.proposal()?.nodeIds.includes(node.nodeId))
+          .map((node) => ({ nodeId: node.nodeId, nodeCode: node.nodeCode }));
+    if (!nodes.length) {
+      this.snackBar.open('Request a node on the overview first: a sky window is seen from a node.', 'Dismiss');
+      return;
+    }
+    const data: SkyWindowDialogData = {
+      proposalId,
+      targetId,
+      targetName: rows[0]?.targetName ?? target?.name ?? `Target ${targetId}`,
+      nodes,
+      nodeId: nodeId ?? nodes[0].nodeId,
+      verdicts: Object.fromEntries(rows.map((row) => [row.nodeId, row.skyVerdict])),
+    };
+    this.dialog.open(SkyWindowDialog, { data, width: '880px', maxWidth: '95vw' });
+  }
+}
