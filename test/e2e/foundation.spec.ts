@@ -1,21 +1,14 @@
-import type { Browser, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import demo from '../../database/demo-accounts.json';
 import { axeViolations, describeViolations, launchBrowser, newPage, screenshot } from './support/browser';
 import { E2E_MAIL_HTTP_PORT } from './support/e2e-env';
+import { signIn } from './support/session';
 
 let browser: Browser;
 beforeAll(async () => {
   browser = await launchBrowser();
 });
 afterAll(() => browser?.close());
-
-async function signIn(page: Page, email: string, password = demo.password): Promise<void> {
-  await page.goto('/sign-in');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(password);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-}
 
 describe('each demo account', () => {
   it.each(demo.accounts.map((a) => [a.roles[0], a]))('%s signs in and sees its own home, accessible', async (role, account) => {

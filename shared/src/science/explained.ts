@@ -11,9 +11,10 @@
  * - `derived`: computed from a cited formula;
  * - `memory`: recalled, not re-read (verify before relying on it);
  * - `practice`: a fact of the trade, no single source;
- * - `choice`: a Spincycle policy (a default we chose), no source.
+ * - `choice`: a Spincycle policy (a default we chose), no source;
+ * - `facility`: the node's own configuration or rate card (not a scientific source).
  */
-export type SourceTag = 'paper' | 'derived' | 'memory' | 'practice' | 'choice';
+export type SourceTag = 'paper' | 'derived' | 'memory' | 'practice' | 'choice' | 'facility';
 
 /** A number with its unit, the reason it has this value, and where its formula comes from. */
 export interface Explained<T = number> {

@@ -42,7 +42,7 @@ describe('computeTargetPlan', () => {
       expect(q.unit.length).toBeGreaterThan(0);
       expect(q.why.length).toBeGreaterThan(5);
       expect(q.source.length).toBeGreaterThan(3);
-      expect(['paper', 'derived', 'memory', 'practice', 'choice']).toContain(q.tag);
+      expect(['paper', 'derived', 'memory', 'practice', 'choice', 'facility']).toContain(q.tag);
     }
     expect(plan).toMatchObject({ targetName: 'Star A-17', relation: 'angus2019', turnoverScale: 'noyes1984', currency: 'eur', feasible: true });
   });

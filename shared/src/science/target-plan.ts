@@ -548,8 +548,8 @@ export function computeTargetPlan(
       'derived',
     ),
     expectedPeriodPrecisionDays: explained(expectedSigmaP.sigmaPeriodDays, 'd', `σP at the longest plausible period with ${visits} visits over ${baseline} d`, PERIOD_PRECISION_SOURCE, 'memory'),
-    visitSeconds: explained(visitSeconds, 's', `exposure ${fmt(exposure.exposureSeconds)} s + overhead ${node.overheadSeconds} s`, 'node overhead', 'paper'),
-    nodeHoursClear: explained(hoursClear, 'h', `${visits} visits × ${fmt(visitSeconds)} s`, 'definition of node-hours', 'paper'),
+    visitSeconds: explained(visitSeconds, 's', `exposure ${fmt(exposure.exposureSeconds)} s + overhead ${node.overheadSeconds} s`, "the node's overhead per visit", 'facility'),
+    nodeHoursClear: explained(hoursClear, 'h', `${visits} visits × ${fmt(visitSeconds)} s`, 'definition of node-hours', 'practice'),
     nodeHours: explained(
       hoursRounded,
       'h',
@@ -557,7 +557,7 @@ export function computeTargetPlan(
       `node weather loss; rounding: ${CHOICE}`,
       'choice',
     ),
-    feeMinor: explained(fee, `${node.currency} minor units`, `${fmt(hoursRounded)} h × ${node.rateMinorPerHour} per hour, rounded to the unit`, "the node's rate card", 'paper'),
+    feeMinor: explained(fee, `${node.currency} minor units`, `${fmt(hoursRounded)} h × ${node.rateMinorPerHour} per hour, rounded to the unit`, "the node's rate card", 'facility'),
   };
   return {
     targetName: target.name ?? null,

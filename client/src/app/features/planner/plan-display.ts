@@ -5,66 +5,15 @@
 import type { SourceTag, Explained, FlagSeverity } from '@spincycle/shared/science/explained';
 import type { TargetPlan, TargetPlanQuantities } from '@spincycle/shared/science/target-plan';
 import { MAG_PER_RELATIVE_FLUX } from '@spincycle/shared/science/visit-precision';
+import { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS, SOURCE_TAG_LABELS } from '@spincycle/shared/science/quantity-labels';
 import { formatMinorCurrency } from '../../ui/units/format-units';
+
+export { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS as TAG_DESCRIPTIONS };
 
 export type QuantityKey = keyof TargetPlanQuantities;
 
 /** Labels of every quantity, in the plan's order. */
-export const QUANTITY_LABELS: Readonly<Record<QuantityKey, string>> = {
-  intrinsicColourMag: 'Intrinsic colour',
-  relationColourMag: 'Colour used by the relation',
-  periodDays: 'Expected rotation period',
-  shortestPeriodDays: 'Shortest plausible period',
-  longestPeriodDays: 'Longest plausible period',
-  turnoverTimeDays: 'Convective turnover time τc',
-  rossbyNumber: 'Rossby number',
-  rossbyNumberAtLongestPeriod: 'Rossby number at the longest period',
-  amplitudeRperPpm: 'Spot amplitude R_per',
-  semiAmplitudePpm: 'Semi-amplitude',
-  magnitudeInNodeBand: "Magnitude in the node's band",
-  airmass: 'Planning airmass',
-  starPhotonRatePerSecond: 'Star photon rate',
-  saturationLimitSeconds: 'Saturation limit',
-  perVisitPrecisionGoalPpm: 'Per-visit precision goal',
-  exposureSeconds: 'Exposure',
-  perVisitPrecisionPpm: 'Per-visit precision',
-  perVisitPrecisionMmag: 'Per-visit precision (mag)',
-  sampleIntervalDays: 'Sample interval',
-  nightStepDays: 'Night step',
-  visitsPerNight: 'Visits per night',
-  baselineForCyclesDays: 'Baseline for the cycles rule',
-  baselineForPrecisionDays: 'Baseline for the period precision',
-  baselineDays: 'Baseline',
-  searchMaxFrequencyPerDay: 'Highest searched frequency',
-  independentFrequencies: 'Independent frequencies M',
-  detectionThresholdPower: 'Detection threshold power z0',
-  visitsForDetection: 'Visits for detection',
-  visitsForCadence: 'Visits for the cadence',
-  visits: 'Visits',
-  expectedFalseAlarmProbability: 'Expected false-alarm probability',
-  expectedPeriodPrecisionDays: 'Expected period precision',
-  visitSeconds: 'Visit length',
-  nodeHoursClear: 'Node-hours in clear weather',
-  nodeHours: 'Node-hours requested',
-  feeMinor: 'Fee',
-};
 
-/** How much to trust a source, in words (SCIENCE.md tags). */
-export const TAG_LABELS: Readonly<Record<SourceTag, string>> = {
-  paper: 'from the paper',
-  derived: 'derived',
-  memory: 'from memory',
-  practice: 'common practice',
-  choice: 'our choice',
-};
-
-export const TAG_DESCRIPTIONS: Readonly<Record<SourceTag, string>> = {
-  paper: 'Read in the cited paper or its data release',
-  derived: 'Computed from a cited formula',
-  memory: 'Recalled, not re-read: verify before relying on it',
-  practice: 'A rule of the trade, no single source',
-  choice: "A Spincycle default, no source",
-};
 
 export const SEVERITY_LABELS: Readonly<Record<FlagSeverity, string>> = {
   info: 'Note',
@@ -147,7 +96,7 @@ export function quantityRow(plan: TargetPlan, key: QuantityKey, locale: string):
     why: q.why,
     source: q.source,
     tag: q.tag,
-    tagLabel: TAG_LABELS[q.tag],
+    tagLabel: SOURCE_TAG_LABELS[q.tag],
   };
 }
 

@@ -12,10 +12,10 @@ describe('explainRows', () => {
       'en-US',
       'eur',
     );
-    expect(rows.map((r) => r.label)).toEqual(['Expected period', 'Baseline for the period precision', 'Fee', 'Something new']);
-    expect(rows[0]).toEqual(expect.objectContaining({ value: '10.23', unit: 'd', tagLabel: 'from the cited paper' }));
+    expect(rows.map((r) => r.label)).toEqual(['Expected rotation period', 'Baseline for the period precision', 'Fee', 'Something new']);
+    expect(rows[0]).toEqual(expect.objectContaining({ value: '10.23', unit: 'd', tagLabel: 'from the paper' }));
     expect(rows[1].value).toBe('—');
     expect(rows[2]).toEqual(expect.objectContaining({ value: '€194.00', unit: '' }));
-    expect(rows[3]).toEqual(expect.objectContaining({ unit: '', tagLabel: "Spincycle's choice" }));
+    expect(rows[3]).toEqual(expect.objectContaining({ unit: '', tagLabel: 'our choice' }));
   });
 });

@@ -4,54 +4,8 @@ import { MAT_DIALOG_DATA, MatDialogActions, MatDialogClose, MatDialogContent, Ma
 import { MatIcon } from '@angular/material/icon';
 import type { TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { Explained, SourceTag } from '@spincycle/shared/science/explained';
+import { QUANTITY_LABELS, SOURCE_TAG_LABELS } from '@spincycle/shared/science/quantity-labels';
 
-/** Names of the plan's quantities in the side panel, in the order the computation reaches them. */
-export const QUANTITY_LABELS: Readonly<Record<string, string>> = {
-  intrinsicColourMag: 'Intrinsic colour',
-  relationColourMag: "Colour in the relation's system",
-  periodDays: 'Expected period',
-  shortestPeriodDays: 'Shortest plausible period',
-  longestPeriodDays: 'Longest plausible period',
-  turnoverTimeDays: 'Convective turnover time',
-  rossbyNumber: 'Rossby number',
-  rossbyNumberAtLongestPeriod: 'Rossby number at the longest period',
-  amplitudeRperPpm: 'Spot amplitude (peak to peak)',
-  semiAmplitudePpm: 'Spot semi-amplitude',
-  magnitudeInNodeBand: "Magnitude in the node's band",
-  airmass: 'Airmass',
-  starPhotonRatePerSecond: 'Photon rate from the star',
-  saturationLimitSeconds: 'Exposure at saturation',
-  perVisitPrecisionGoalPpm: 'Per-visit precision goal',
-  exposureSeconds: 'Exposure',
-  perVisitPrecisionPpm: 'Per-visit precision',
-  perVisitPrecisionMmag: 'Per-visit precision (mmag)',
-  sampleIntervalDays: 'Sample interval (cadence)',
-  nightStepDays: 'Step between observing nights',
-  visitsPerNight: 'Visits per night',
-  baselineForCyclesDays: 'Baseline for the cycles',
-  baselineForPrecisionDays: 'Baseline for the period precision',
-  baselineDays: 'Baseline',
-  searchMaxFrequencyPerDay: 'Highest searched frequency',
-  independentFrequencies: 'Independent frequencies',
-  detectionThresholdPower: 'Detection threshold (power)',
-  visitsForDetection: 'Visits for detection',
-  visitsForCadence: 'Visits for the cadence',
-  visits: 'Visits',
-  expectedFalseAlarmProbability: 'Expected false-alarm probability',
-  expectedPeriodPrecisionDays: 'Expected period precision',
-  visitSeconds: 'Time per visit',
-  nodeHoursClear: 'Node-hours in clear time',
-  nodeHours: 'Node-hours (after weather loss)',
-  feeMinor: 'Fee',
-};
-
-export const SOURCE_TAG_LABELS: Readonly<Record<SourceTag, string>> = {
-  paper: 'from the cited paper',
-  derived: 'derived from a cited formula',
-  memory: 'recalled, not re-read: verify',
-  practice: 'common practice',
-  choice: "Spincycle's choice",
-};
 
 /** `periodDays` → `Period days` for a quantity without a label. */
 function humanize(key: string): string {
@@ -85,7 +39,7 @@ export function explainRows(quantities: Record<string, Explained<number | null>>
       value = money.format(q.value / 10 ** digits);
       unit = '';
     }
-    return { key, label: QUANTITY_LABELS[key] ?? humanize(key), value, unit, why: q.why, source: q.source, tag: q.tag, tagLabel: SOURCE_TAG_LABELS[q.tag] ?? q.tag };
+    return { key, label: (QUANTITY_LABELS as Record<string, string>)[key] ?? humanize(key), value, unit, why: q.why, source: q.source, tag: q.tag, tagLabel: SOURCE_TAG_LABELS[q.tag] ?? q.tag };
   });
 }
 

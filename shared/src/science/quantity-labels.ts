@@ -1,0 +1,66 @@
+/**
+ * Words for the science core's explained numbers, shared by every screen (and the command
+ * line) that shows a target plan: quantity names and what each source tag means.
+ */
+import type { SourceTag } from './explained';
+import type { TargetPlanQuantities } from './target-plan';
+
+/** Names of the plan's quantities, in the order the computation reaches them. */
+export const QUANTITY_LABELS: Readonly<Record<keyof TargetPlanQuantities, string>> = {
+  intrinsicColourMag: 'Intrinsic colour',
+  relationColourMag: 'Colour used by the relation',
+  periodDays: 'Expected rotation period',
+  shortestPeriodDays: 'Shortest plausible period',
+  longestPeriodDays: 'Longest plausible period',
+  turnoverTimeDays: 'Convective turnover time τc',
+  rossbyNumber: 'Rossby number',
+  rossbyNumberAtLongestPeriod: 'Rossby number at the longest period',
+  amplitudeRperPpm: 'Spot amplitude R_per',
+  semiAmplitudePpm: 'Semi-amplitude',
+  magnitudeInNodeBand: "Magnitude in the node's band",
+  airmass: 'Planning airmass',
+  starPhotonRatePerSecond: 'Star photon rate',
+  saturationLimitSeconds: 'Saturation limit',
+  perVisitPrecisionGoalPpm: 'Per-visit precision goal',
+  exposureSeconds: 'Exposure',
+  perVisitPrecisionPpm: 'Per-visit precision',
+  perVisitPrecisionMmag: 'Per-visit precision (mag)',
+  sampleIntervalDays: 'Sample interval',
+  nightStepDays: 'Night step',
+  visitsPerNight: 'Visits per night',
+  baselineForCyclesDays: 'Baseline for the cycles rule',
+  baselineForPrecisionDays: 'Baseline for the period precision',
+  baselineDays: 'Baseline',
+  searchMaxFrequencyPerDay: 'Highest searched frequency',
+  independentFrequencies: 'Independent frequencies M',
+  detectionThresholdPower: 'Detection threshold power z0',
+  visitsForDetection: 'Visits for detection',
+  visitsForCadence: 'Visits for the cadence',
+  visits: 'Visits',
+  expectedFalseAlarmProbability: 'Expected false-alarm probability',
+  expectedPeriodPrecisionDays: 'Expected period precision',
+  visitSeconds: 'Visit length',
+  nodeHoursClear: 'Node-hours in clear weather',
+  nodeHours: 'Node-hours requested',
+  feeMinor: 'Fee',
+};
+
+/** How much to trust a source, in a few words (SCIENCE.md tags). */
+export const SOURCE_TAG_LABELS: Readonly<Record<SourceTag, string>> = {
+  paper: 'from the paper',
+  derived: 'derived',
+  memory: 'from memory',
+  practice: 'common practice',
+  choice: 'our choice',
+  facility: "node's own data",
+};
+
+/** The same, in a sentence (tooltips). */
+export const SOURCE_TAG_DESCRIPTIONS: Readonly<Record<SourceTag, string>> = {
+  paper: 'Read in the cited paper or its data release',
+  derived: 'Computed from a cited formula',
+  memory: 'Recalled, not re-read: verify before relying on it',
+  practice: 'A rule of the trade, no single source',
+  choice: 'A Spincycle default, no source',
+  facility: "Taken from the node's own configuration or rate card",
+};
