@@ -55,6 +55,13 @@ async function main() {
     children.push(server);
     await waitForHttp(`${url}/api/health`, 30_000, server);
   });
+  await step('plan worker', async () => {
+    // Computes target plans from the queue in PostgreSQL (pg-boss); it has no HTTP port.
+    const worker = startTs('server/src/worker.ts', env, { name: 'plan worker' });
+    children.push(worker);
+    await new Promise((resolve) => setTimeout(resolve, 300));
+    if (worker.exitCode !== null) throw new Error(`the plan worker exited with code ${worker.exitCode}`);
+  });
   for (const c of children) {
     c.on('exit', (code) => {
       if (!stopping) {

@@ -1,6 +1,7 @@
 import type { Logger } from 'pino';
 import type { Config } from './config';
 import type { Db } from './db/knex';
+import type { PlanQueue } from './jobs/plan-queue';
 import type { Mailer } from './mail/mailer';
 
 /** What every feature's routes need, built once by createApp (tests may pass their own parts). */
@@ -9,4 +10,11 @@ export interface AppContext {
   db: Db;
   mailer: Mailer;
   logger: Logger;
+  /** Where plan computations are queued (pg-boss; the worker process runs them). */
+  planQueue: PlanQueue;
+  /**
+   * The server's clock. Deadlines (a cycle's call closing instant) are judged against it; tests
+   * replace it to stand one second before or after a deadline.
+   */
+  now: () => Date;
 }

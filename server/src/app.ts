@@ -13,19 +13,22 @@ import { createDb } from './db/knex';
 import { createAccountRoutes } from './features/accounts/account-routes';
 import { createAuthRoutes } from './features/auth/auth-routes';
 import { createPassport } from './features/auth/passport-setup';
+import { createCycleRoutes } from './features/cycles/cycle-routes';
 import { createFacilityRoutes } from './features/facility/facility-routes';
 import { createHealthRoutes } from './features/health/health-routes';
+import { createInvitationRoutes, createProposalRoutes, createTargetListRoutes } from './features/proposals/proposal-routes';
 import { createSkyWindowsRoutes } from './features/sky-windows/sky-windows-routes';
 import { createCsrf } from './http/csrf';
 import { createDevMailboxRoutes } from './http/dev-mailbox';
 import { apiNotFound, errorHandler } from './http/error-handler';
+import { createPgBossPlanQueue } from './jobs/plan-queue';
 import { createLogger } from './logger';
 import { createSmtpMailer } from './mail/mailer';
 
 export interface CreatedApp {
   app: Express;
   ctx: AppContext;
-  /** Closes the database pools and the mail transport. */
+  /** Closes the database pools, the plan queue and the mail transport. */
   close(): Promise<void>;
 }
 
@@ -38,6 +41,8 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
     logger,
     db: overrides.ctx?.db ?? createDb(config, logger),
     mailer: overrides.ctx?.mailer ?? createSmtpMailer(config),
+    planQueue: overrides.ctx?.planQueue ?? createPgBossPlanQueue(config, logger),
+    now: overrides.ctx?.now ?? (() => new Date()),
   };
   const production = config.NODE_ENV === 'production';
 
@@ -82,6 +87,10 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   api.use('/auth', createAuthRoutes(ctx, passport, csrf));
   api.use('/admin/accounts', createAccountRoutes(ctx));
   api.use('/sky-windows', createSkyWindowsRoutes(ctx));
+  api.use('/cycles', createCycleRoutes(ctx));
+  api.use('/proposals', createProposalRoutes(ctx));
+  api.use('/invitations', createInvitationRoutes(ctx));
+  api.use('/target-lists', createTargetListRoutes(ctx));
   api.use('/', createFacilityRoutes(ctx));
   app.use('/api', api);
   app.use('/api', apiNotFound);
@@ -105,6 +114,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
     ctx,
     async close() {
       ctx.mailer.close();
+      await ctx.planQueue.close().catch((err) => logger.error({ err }, 'closing the plan queue failed'));
       await Promise.allSettled([ctx.db.destroy(), sessionPool.end()]);
     },
   };

@@ -23,6 +23,10 @@ const envSchema = z.object({
   LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(10),
   LOGIN_RATE_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   RESET_TOKEN_MINUTES: z.coerce.number().int().positive().default(60),
+  /** pg-boss queue of the target-plan jobs (tests use their own name to keep their jobs apart). */
+  PLAN_QUEUE: z.string().regex(/^[A-Za-z0-9_.-]+$/).default('proposal-plans'),
+  /** How often an idle plan worker looks for new jobs, seconds. */
+  PLAN_WORKER_POLL_SECONDS: z.coerce.number().min(0.5).max(60).default(1),
 });
 
 export type Config = z.infer<typeof envSchema> & { publicUrl: string; sessionSecret: string };

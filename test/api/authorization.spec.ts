@@ -5,7 +5,7 @@ import { Browser, signedIn, startHarness, type Harness } from '../support/api-ha
  * The authorization matrix: every protected route, as nobody (401), as each role, and the
  * expected status. Later features add their rows here.
  */
-type Method = 'get' | 'patch' | 'post';
+type Method = 'get' | 'patch' | 'post' | 'put' | 'delete';
 interface RouteCase {
   method: Method;
   path: string;
@@ -13,6 +13,31 @@ interface RouteCase {
   /** Roles allowed; `'signed-in'` means any signed-in person. */
   allowed: Role[] | 'signed-in';
 }
+
+const P = '/api/proposals/99999999';
+/** Every route under /api/proposals/:id, on a proposal that does not exist. */
+const PROPOSAL_ROUTES: Omit<RouteCase, 'allowed'>[] = [
+  { method: 'get', path: P },
+  { method: 'patch', path: P, body: { version: 1, title: 'x' } },
+  { method: 'delete', path: P },
+  { method: 'post', path: `${P}/members`, body: { email: 'someone@test.example' } },
+  { method: 'delete', path: `${P}/members/1` },
+  { method: 'put', path: `${P}/justification`, body: {} },
+  { method: 'get', path: `${P}/justification` },
+  { method: 'get', path: `${P}/targets` },
+  { method: 'post', path: `${P}/targets`, body: {} },
+  { method: 'post', path: `${P}/targets/upload`, body: {} },
+  { method: 'get', path: `${P}/targets.csv` },
+  { method: 'put', path: `${P}/targets/1`, body: {} },
+  { method: 'delete', path: `${P}/targets/1` },
+  { method: 'get', path: `${P}/targets/1/sky?nodeId=1` },
+  { method: 'get', path: `${P}/plans` },
+  { method: 'post', path: `${P}/plans/recompute` },
+  { method: 'get', path: `${P}/readiness` },
+  { method: 'post', path: `${P}/submit` },
+  { method: 'post', path: `${P}/withdraw` },
+  { method: 'get', path: `${P}/summary.pdf` },
+];
 
 const ALL_ROLES: Role[] = ['proposer', 'reviewer', 'facility_manager', 'billing_contact', 'administrator'];
 
@@ -23,6 +48,17 @@ const ROUTES: RouteCase[] = [
   { method: 'post', path: '/api/sky-windows', body: { cycleId: 1, nodeIds: [1], targets: [{ ra: 1, dec: 1 }] }, allowed: 'signed-in' },
   { method: 'get', path: '/api/admin/accounts', allowed: ['administrator'] },
   { method: 'patch', path: '/api/admin/accounts/1', body: { disabled: false }, allowed: ['administrator'] },
+  // Cycles: reads for everyone signed in (filtered by role), writes for facility managers.
+  { method: 'get', path: '/api/cycles/99999999', allowed: 'signed-in' },
+  { method: 'post', path: '/api/cycles', body: {}, allowed: ['facility_manager'] },
+  { method: 'put', path: '/api/cycles/99999999', body: {}, allowed: ['facility_manager'] },
+  // Proposals: creating one needs the proposer role; everything under /:id is for the team
+  // (everyone else gets 404: see proposal-permissions.spec.ts for PI, co-I and outsiders).
+  { method: 'get', path: '/api/proposals', allowed: 'signed-in' },
+  { method: 'post', path: '/api/proposals', body: {}, allowed: ['proposer'] },
+  ...PROPOSAL_ROUTES.map((r) => ({ ...r, allowed: 'signed-in' as const })),
+  { method: 'post', path: '/api/invitations/accept', body: { token: 'x'.repeat(43) }, allowed: 'signed-in' },
+  { method: 'get', path: '/api/target-lists/example.csv', allowed: 'signed-in' },
 ];
 
 let h: Harness;
@@ -33,7 +69,7 @@ beforeAll(async () => {
 });
 afterAll(() => h.close());
 
-const call = (b: Browser, r: RouteCase) => (r.method === 'get' ? b.get(r.path) : b[r.method](r.path, r.body));
+const call = (b: Browser, r: RouteCase) => (r.method === 'get' ? b.get(r.path) : r.method === 'delete' ? b.delete(r.path) : b[r.method](r.path, r.body));
 
 describe.each(ROUTES)('$method $path', (r) => {
   it('answers 401 not_signed_in without a session', async () => {

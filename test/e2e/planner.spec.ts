@@ -1,5 +1,5 @@
 import type { Browser } from 'playwright-core';
-import { axeViolations, describeViolations, launchBrowser, newPage, screenshot } from './support/browser';
+import { axeViolations, describeViolations, launchBrowser, newPage, screenshot, screenshotOf } from './support/browser';
 import { signIn } from './support/session';
 
 let browser: Browser;
@@ -35,6 +35,9 @@ describe('target planner', () => {
       await page.getByText(/observable on \d+ of \d+ nights/).first().waitFor();
       await page.waitForLoadState('networkidle');
       await screenshot(page, 'planner');
+      await screenshotOf(page.locator('section[aria-labelledby="plan-heading"]'), 'planner-plan');
+      await screenshotOf(page.locator('section[aria-labelledby="gyro-heading"]'), 'planner-gyrochronology');
+      await screenshotOf(page.locator('section[aria-labelledby="sky-heading"]'), 'planner-sky-window');
       expect(describeViolations(await axeViolations(page))).toBe('');
 
       // A bad declination is named under its field, and nothing breaks.

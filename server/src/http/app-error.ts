@@ -5,6 +5,8 @@ export class AppError extends Error {
     message: string,
     readonly status = 400,
     readonly fieldErrors?: Record<string, string[]>,
+    /** Further members of the error body (e.g. `rows` of a refused target list); never `code`, `message` or `fieldErrors`. */
+    readonly details?: Record<string, unknown>,
   ) {
     super(message);
     this.name = 'AppError';

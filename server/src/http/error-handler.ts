@@ -1,4 +1,5 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { MulterError } from 'multer';
 import { ZodError } from 'zod';
 import type { ApiErrorBody } from '@spincycle/shared/http/api-error';
 import { AppError } from './app-error';
@@ -33,9 +34,16 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     return;
   }
   if (err instanceof AppError && err.status < 500) {
-    const body: ApiErrorBody = { code: err.code, message: err.message };
+    const body: ApiErrorBody & Record<string, unknown> = { ...err.details, code: err.code, message: err.message };
     if (err.fieldErrors) body.fieldErrors = err.fieldErrors;
     res.status(err.status).json(body);
+    return;
+  }
+  if (err instanceof MulterError) {
+    // Upload routes translate multer's errors themselves (http/upload-limits.ts); this is the
+    // safety net for any other, so that they still leave in the API error shape.
+    const status = err.code === 'LIMIT_FILE_SIZE' ? 413 : 400;
+    res.status(status).json({ code: err.code.toLowerCase(), message: `Upload refused: ${err.message}${err.field ? ` (field ${err.field})` : ''}` });
     return;
   }
   const e = err as HttpishError;

@@ -1,6 +1,6 @@
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type Locator, type Page } from 'playwright-core';
 import { BASE_URL } from './e2e-env';
 
 export const SCREENSHOT_DIR = path.resolve(__dirname, '../../../.data/screenshots');
@@ -20,10 +20,28 @@ export async function newPage(browser: Browser, options: { colorScheme?: 'light'
   return { context, page };
 }
 
+/**
+ * Saves a screenshot of the whole page. The app shell scrolls inside its content pane, not
+ * the document, so the viewport is made as tall as that pane's content for the shot.
+ */
 export async function screenshot(page: Page, name: string): Promise<string> {
   mkdirSync(SCREENSHOT_DIR, { recursive: true });
   const file = path.join(SCREENSHOT_DIR, `${name}.png`);
+  const viewport = page.viewportSize();
+  const contentHeight = await page.evaluate(() =>
+    Math.max(...Array.from(document.querySelectorAll('mat-sidenav-content, main, body')).map((e) => e.scrollHeight + (e.getBoundingClientRect().top || 0))),
+  );
+  if (viewport && contentHeight > viewport.height) await page.setViewportSize({ width: viewport.width, height: Math.min(Math.ceil(contentHeight), 8000) });
   await page.screenshot({ path: file, fullPage: true });
+  if (viewport) await page.setViewportSize(viewport);
+  return file;
+}
+
+/** Saves a screenshot of one part of the page (a chart, a table) at full resolution. */
+export async function screenshotOf(locator: Locator, name: string): Promise<string> {
+  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  const file = path.join(SCREENSHOT_DIR, `${name}.png`);
+  await locator.screenshot({ path: file });
   return file;
 }
 

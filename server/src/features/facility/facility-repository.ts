@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import type { CycleNodeCapacity, Cycle, NodeBand, ScintillationModel, Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
+import type { NodeBand, ScintillationModel, Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
 
 interface SiteRow {
   id: number;
@@ -12,6 +12,7 @@ interface SiteRow {
   sky_brightness_mag_per_arcsec2: number;
 }
 
+/** A `sites` row as the API shape. */
 export function toSite(r: SiteRow): Site {
   return {
     id: r.id,
@@ -27,6 +28,7 @@ export function toSite(r: SiteRow): Site {
 
 type NodeRow = Record<string, unknown> & { site_id: number };
 
+/** A `nodes` row with its site as the API shape. */
 export function toNode(r: NodeRow, site: Site): TelescopeNode {
   return {
     id: r.id as number,
@@ -58,6 +60,7 @@ export function toNode(r: NodeRow, site: Site): TelescopeNode {
   };
 }
 
+/** Every site, by code. */
 export async function listSites(db: Knex): Promise<Site[]> {
   return (await db<SiteRow>('sites').orderBy('code')).map(toSite);
 }
@@ -68,52 +71,4 @@ export async function listNodes(db: Knex, ids?: number[]): Promise<TelescopeNode
   const q = db<NodeRow>('nodes').orderBy('code');
   if (ids) q.whereIn('id', ids);
   return (await q).map((r) => toNode(r, sites.get(r.site_id)!));
-}
-
-interface CycleRow {
-  id: number;
-  code: string;
-  title: string;
-  call_opens_at: Date;
-  call_closes_at: Date;
-  campaign_start: string;
-  campaign_end: string;
-  anonymous_review: boolean;
-  categories: string[];
-  version: number;
-}
-
-export function toCycle(r: CycleRow): Cycle {
-  return {
-    id: r.id,
-    code: r.code,
-    title: r.title,
-    callOpensAt: r.call_opens_at.toISOString(),
-    callClosesAt: r.call_closes_at.toISOString(),
-    campaignStart: r.campaign_start,
-    campaignEnd: r.campaign_end,
-    anonymousReview: r.anonymous_review,
-    categories: r.categories,
-    version: r.version,
-  };
-}
-
-export async function listCycles(db: Knex): Promise<(Cycle & { nodes: CycleNodeCapacity[] })[]> {
-  const rows = await db<CycleRow>('cycles').orderBy('call_opens_at', 'desc');
-  const capacity = await db('cycle_nodes as cn')
-    .join('nodes as n', 'n.id', 'cn.node_id')
-    .whereIn('cn.cycle_id', rows.map((r) => r.id))
-    .orderBy('n.code')
-    .select('cn.cycle_id', 'cn.node_id', 'n.code', 'cn.node_hours_available');
-  return rows.map((r) => ({
-    ...toCycle(r),
-    nodes: capacity
-      .filter((c) => c.cycle_id === r.id)
-      .map((c) => ({ nodeId: c.node_id, nodeCode: c.code, nodeHoursAvailable: c.node_hours_available })),
-  }));
-}
-
-export async function findCycleById(db: Knex, id: number): Promise<Cycle | undefined> {
-  const row = await db<CycleRow>('cycles').where({ id }).first();
-  return row ? toCycle(row) : undefined;
 }

@@ -1,22 +1,13 @@
-import { Router, type Request, type Response } from 'express';
-import { callStatusAt, type CycleSummary } from '@spincycle/shared/facility/facility-types';
+import { Router } from 'express';
 import type { AppContext } from '../../app-context';
 import { requireSignedIn } from '../../http/auth-middleware';
-import { listCycles, listNodes, listSites } from './facility-repository';
+import { createFacilityController } from './facility-controller';
 
-/** Read-only views of the network and its cycles, for every signed-in person. */
+/** Read-only views of the network (sites and nodes), for every signed-in person. Cycles: see features/cycles. */
 export function createFacilityRoutes(ctx: AppContext): Router {
+  const c = createFacilityController(ctx);
   const router = Router();
-  router.get('/sites', requireSignedIn, async (_req: Request, res: Response) => {
-    res.json(await listSites(ctx.db));
-  });
-  router.get('/nodes', requireSignedIn, async (_req: Request, res: Response) => {
-    res.json(await listNodes(ctx.db));
-  });
-  router.get('/cycles', requireSignedIn, async (_req: Request, res: Response) => {
-    const now = new Date();
-    const cycles: CycleSummary[] = (await listCycles(ctx.db)).map((c) => ({ ...c, status: callStatusAt(c, now) }));
-    res.json(cycles);
-  });
+  router.get('/sites', requireSignedIn, c.sites);
+  router.get('/nodes', requireSignedIn, c.nodes);
   return router;
 }

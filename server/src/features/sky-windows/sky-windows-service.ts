@@ -4,7 +4,8 @@ import { computeSkyWindows, parseRaDec, SkyInputError, skyLimitsForNode, toSkyWi
 import type { z } from 'zod';
 import type { AppContext } from '../../app-context';
 import { AppError } from '../../http/app-error';
-import { findCycleById, listNodes } from '../facility/facility-repository';
+import { findCycleById } from '../cycles/cycle-repository';
+import { listNodes } from '../facility/facility-repository';
 
 type Input = z.output<typeof skyWindowsRequestSchema>;
 

@@ -1,0 +1,149 @@
+import type { Knex } from 'knex';
+import type { CycleInput } from '@spincycle/shared/cycles/cycle-schemas';
+import type { Cycle, CycleNodeCapacity } from '@spincycle/shared/facility/facility-types';
+
+interface CycleRow {
+  id: number;
+  code: string;
+  title: string;
+  call_opens_at: Date;
+  call_closes_at: Date;
+  campaign_start: string | Date;
+  campaign_end: string | Date;
+  anonymous_review: boolean;
+  categories: string[];
+  version: number;
+  updated_at: Date;
+}
+
+/** A cycle with the time of its last change (for conflict messages). */
+export interface StoredCycle extends Cycle {
+  updatedAt: string;
+}
+
+/**
+ * A DATE column as `YYYY-MM-DD`. db/knex.ts makes pg return DATEs as text; a knex built
+ * elsewhere (a script) gets a Date at local midnight, whose local parts are the date.
+ */
+function localDate(v: string | Date): string {
+  if (typeof v === 'string') return v;
+  return `${v.getFullYear()}-${String(v.getMonth() + 1).padStart(2, '0')}-${String(v.getDate()).padStart(2, '0')}`;
+}
+
+/** A `cycles` row as a stored cycle (camelCase, ISO instants). */
+export function toCycle(r: CycleRow): StoredCycle {
+  return {
+    id: r.id,
+    code: r.code,
+    title: r.title,
+    callOpensAt: r.call_opens_at.toISOString(),
+    callClosesAt: r.call_closes_at.toISOString(),
+    campaignStart: localDate(r.campaign_start),
+    campaignEnd: localDate(r.campaign_end),
+    anonymousReview: r.anonymous_review,
+    categories: r.categories,
+    version: r.version,
+    updatedAt: r.updated_at.toISOString(),
+  };
+}
+
+/** Strips the repository-only `updatedAt` from a stored cycle. */
+export function toPublicCycle({ updatedAt: _hidden, ...cycle }: StoredCycle): Cycle {
+  return cycle;
+}
+
+async function capacityOf(db: Knex, cycleIds: number[]): Promise<Map<number, CycleNodeCapacity[]>> {
+  const rows = await db('cycle_nodes as cn')
+    .join('nodes as n', 'n.id', 'cn.node_id')
+    .whereIn('cn.cycle_id', cycleIds)
+    .orderBy('n.code')
+    .select('cn.cycle_id', 'cn.node_id', 'n.code', 'cn.node_hours_available');
+  const byCycle = new Map<number, CycleNodeCapacity[]>();
+  for (const r of rows) {
+    const list = byCycle.get(r.cycle_id) ?? [];
+    list.push({ nodeId: r.node_id, nodeCode: r.code, nodeHoursAvailable: r.node_hours_available });
+    byCycle.set(r.cycle_id, list);
+  }
+  return byCycle;
+}
+
+/** Cycles with their node capacity, newest call first; `ids` narrows the list. */
+export async function listCycles(db: Knex, ids?: number[]): Promise<(StoredCycle & { nodes: CycleNodeCapacity[] })[]> {
+  const q = db<CycleRow>('cycles').orderBy('call_opens_at', 'desc').orderBy('id', 'desc');
+  if (ids) q.whereIn('id', ids);
+  const rows = await q;
+  const capacity = await capacityOf(db, rows.map((r) => r.id));
+  return rows.map((r) => ({ ...toCycle(r), nodes: capacity.get(r.id) ?? [] }));
+}
+
+/** The cycle; `forUpdate` locks its row until the transaction ends. */
+export async function findCycleById(db: Knex, id: number, options: { forUpdate?: boolean } = {}): Promise<StoredCycle | undefined> {
+  const q = db<CycleRow>('cycles').where({ id }).first();
+  if (options.forUpdate) q.forUpdate();
+  const row = await q;
+  return row ? toCycle(row) : undefined;
+}
+
+/** The cycle with its node capacity. */
+export async function findCycleWithNodes(db: Knex, id: number): Promise<(StoredCycle & { nodes: CycleNodeCapacity[] }) | undefined> {
+  const [cycle] = await listCycles(db, [id]);
+  return cycle;
+}
+
+/** Ids of the cycles in which the account is an active member of a proposal. */
+export async function cycleIdsWithMembership(db: Knex, accountId: number): Promise<number[]> {
+  return db('proposals as p')
+    .join('proposal_members as m', 'm.proposal_id', 'p.id')
+    .where('m.account_id', accountId)
+    .whereNotNull('m.accepted_at')
+    .distinct('p.cycle_id')
+    .pluck('p.cycle_id');
+}
+
+function cycleColumns(input: CycleInput) {
+  return {
+    code: input.code,
+    title: input.title,
+    call_opens_at: new Date(input.callOpensAt),
+    call_closes_at: new Date(input.callClosesAt),
+    campaign_start: input.campaignStart,
+    campaign_end: input.campaignEnd,
+    anonymous_review: input.anonymousReview,
+    categories: input.categories,
+  };
+}
+
+/** Inserts a cycle (version 1); returns its id. */
+export async function insertCycle(db: Knex, input: CycleInput, createdBy: number): Promise<number> {
+  const [row] = await db('cycles').insert({ ...cycleColumns(input), created_by: createdBy }).returning('id');
+  return row.id;
+}
+
+/** Writes the fields and increments the version. */
+export async function updateCycleRow(db: Knex, id: number, input: CycleInput): Promise<void> {
+  await db('cycles')
+    .where({ id })
+    .update({ ...cycleColumns(input), version: db.raw('version + 1'), updated_at: db.fn.now() });
+}
+
+/** Replaces the cycle's participating nodes and their capacity. */
+export async function replaceCycleNodes(db: Knex, cycleId: number, nodes: CycleInput['nodes']): Promise<void> {
+  await db('cycle_nodes').where({ cycle_id: cycleId }).del();
+  await db('cycle_nodes').insert(nodes.map((n) => ({ cycle_id: cycleId, node_id: n.nodeId, node_hours_available: n.nodeHoursAvailable })));
+}
+
+/** Nodes requested by proposals of the cycle, with how many proposals request each. */
+export async function requestedNodesOfCycle(db: Knex, cycleId: number): Promise<{ nodeId: number; nodeCode: string; proposals: number }[]> {
+  const rows = await db('proposal_nodes as pn')
+    .join('proposals as p', 'p.id', 'pn.proposal_id')
+    .join('nodes as n', 'n.id', 'pn.node_id')
+    .where('p.cycle_id', cycleId)
+    .groupBy('pn.node_id', 'n.code')
+    .select('pn.node_id', 'n.code', db.raw('count(*)::int AS proposals'));
+  return rows.map((r: { node_id: number; code: string; proposals: number }) => ({ nodeId: r.node_id, nodeCode: r.code, proposals: r.proposals }));
+}
+
+/** Ids of the cycle's proposals still in draft. */
+export async function draftProposalIdsOfCycle(db: Knex, cycleId: number): Promise<number[]> {
+  return db('proposals').where({ cycle_id: cycleId, state: 'draft' }).pluck('id');
+}

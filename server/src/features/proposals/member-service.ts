@@ -1,0 +1,101 @@
+import { createHash, randomBytes } from 'node:crypto';
+import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
+import type { InvitationAccepted, InviteMemberInput, ProposalMember } from '@spincycle/shared/proposals/proposal-schemas';
+import type { AppContext } from '../../app-context';
+import { AppError } from '../../http/app-error';
+import { findAccountByEmail } from '../accounts/account-repository';
+import { accessProposal, requireEditable, requirePi } from './proposal-access';
+import { invitationMail } from './proposal-mail';
+import {
+  acceptInvitationRow,
+  accountExistsWithEmail,
+  deleteMemberRow,
+  deletePendingInvitationsTo,
+  findActiveRole,
+  findInvitationByTokenHash,
+  findMemberByEmail,
+  findMemberById,
+  insertInvitation,
+  renewInvitation,
+  touchProposal,
+} from './proposal-repository';
+
+const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
+
+/**
+ * POST /api/proposals/:id/members (the PI, while the proposal is editable): invites a
+ * co-investigator by e-mail. The link carries a random token of which only the SHA-256 is
+ * stored. Someone with an account gets `/invitations/<token>`; someone without one gets
+ * `/sign-up?invite=<token>` (the client signs them up, then accepts). Inviting a pending
+ * address again sends a fresh link (the old one stops working). Answers the team row and
+ * whether it is new.
+ */
+export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: number, input: InviteMemberInput): Promise<{ member: ProposalMember; created: boolean }> {
+  const token = randomBytes(32).toString('base64url');
+  const { memberId, created, title } = await ctx.db.transaction(async (trx) => {
+    const access = await accessProposal(trx, viewer, id, { forUpdate: true });
+    requirePi(access, 'invite co-investigators');
+    requireEditable(access, ctx.now());
+    const already = () => new AppError('already_member', `${input.email} is already on the team`, 409, { email: ['already on the team'] });
+    const existing = await findMemberByEmail(trx, id, input.email);
+    if (existing?.active) throw already();
+    const account = await findAccountByEmail(trx, input.email);
+    if (account && (await findActiveRole(trx, id, account.id))) throw already();
+    let rowId: number;
+    if (existing) {
+      await renewInvitation(trx, existing.id, hashToken(token), viewer.id);
+      rowId = existing.id;
+    } else {
+      rowId = await insertInvitation(trx, { proposalId: id, email: input.email, tokenHash: hashToken(token), invitedBy: viewer.id });
+    }
+    await touchProposal(trx, id);
+    return { memberId: rowId, created: !existing, title: access.proposal.title };
+  });
+  const hasAccount = await accountExistsWithEmail(ctx.db, input.email);
+  const link = hasAccount ? `${ctx.config.publicUrl}/invitations/${token}` : `${ctx.config.publicUrl}/sign-up?invite=${token}`;
+  try {
+    await ctx.mailer.send(invitationMail({ to: input.email, inviter: viewer.displayName, title, link, hasAccount }));
+  } catch (err) {
+    ctx.logger.error({ err, proposalId: id }, 'invitation mail could not be sent');
+  }
+  const { proposalId: _p, ...member } = (await findMemberById(ctx.db, id, memberId))!;
+  return { member, created };
+}
+
+/**
+ * POST /api/invitations/accept: the signed-in account joins the team as a co-investigator.
+ * The link is the credential: the account's address need not be the invited one (people
+ * have several). The token works once; an account already on the team gets 409.
+ */
+export async function acceptInvitation(ctx: AppContext, viewer: SessionUser, token: string): Promise<InvitationAccepted> {
+  return ctx.db.transaction(async (trx) => {
+    const invitation = await findInvitationByTokenHash(trx, hashToken(token));
+    if (!invitation) {
+      throw new AppError('invalid_invitation', 'This invitation link is not valid: it was used already, or the PI withdrew it. Ask the PI for a new one.', 400, {
+        token: ['used, withdrawn or unknown'],
+      });
+    }
+    if (await findActiveRole(trx, invitation.proposalId, viewer.id)) {
+      throw new AppError('already_member', 'You are already on the team of this proposal', 409);
+    }
+    await acceptInvitationRow(trx, invitation.id, viewer.id);
+    // Other pending invitations of this proposal to the same person are moot now.
+    await deletePendingInvitationsTo(trx, invitation.proposalId, viewer.email);
+    await touchProposal(trx, invitation.proposalId);
+    return { proposalId: invitation.proposalId };
+  });
+}
+
+/** DELETE /api/proposals/:id/members/:memberId (the PI, while editable): removes a co-investigator or withdraws an invitation. */
+export async function removeMember(ctx: AppContext, viewer: SessionUser, id: number, memberId: number): Promise<void> {
+  await ctx.db.transaction(async (trx) => {
+    const access = await accessProposal(trx, viewer, id, { forUpdate: true });
+    requirePi(access, 'remove team members');
+    requireEditable(access, ctx.now());
+    const member = await findMemberById(trx, id, memberId);
+    if (!member) throw new AppError('member_not_found', `No team member ${memberId} on proposal ${id}`, 404);
+    if (member.role === 'pi') throw new AppError('cannot_remove_pi', 'The PI cannot be removed from the team', 409);
+    await deleteMemberRow(trx, memberId);
+    await touchProposal(trx, id);
+  });
+}

@@ -1,0 +1,109 @@
+import type { TelescopeNode } from '@spincycle/shared/facility/facility-types';
+import { combinePlanWithSky, type NodeTargetPlan } from '@spincycle/shared/planning/node-target-plan';
+import type { Explained } from '@spincycle/shared/science/explained';
+import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
+import { computeTargetPlan, type TargetPlanTarget } from '@spincycle/shared/science/target-plan';
+import { computeSkyWindows, SkyInputError, skyLimitsForNode, type SkyWindowsResult, type TargetWindows } from '@spincycle/shared/sky/index';
+import type { PlanRowInsert, StoredPlanResult } from './plan-repository';
+import type { PlanInputs } from './plan-inputs';
+import type { StoredTarget } from './target-repository';
+
+/** A stored target as the science core takes it. */
+export function toPlanTarget(t: StoredTarget): TargetPlanTarget {
+  return {
+    name: t.name,
+    colour: { value: t.colour, system: t.colourSystem },
+    reddeningEbvMag: t.reddeningEbv ?? undefined,
+    ageMyr: t.ageMyr,
+    ageUncertaintyMyr: t.ageUncertaintyMyr ?? undefined,
+    magnitude: { value: t.magnitude, band: t.magnitudeBand },
+    periodPrecisionDays: t.periodPrecisionDays ?? undefined,
+  };
+}
+
+/** Sky windows of the targets from the node's site over the campaign, with the node's own limits. */
+export function nodeSkyWindows(node: TelescopeNode, campaign: PlanInputs['campaign'], targets: StoredTarget[]): SkyWindowsResult {
+  return computeSkyWindows({
+    site: node.site,
+    limits: skyLimitsForNode(node),
+    campaign,
+    targets: targets.map((t) => ({ name: t.name, raDeg: t.raDeg, decDeg: t.decDeg })),
+  });
+}
+
+/** The numbers of a combined plan as they are stored and listed. */
+export function toPlanResult(combined: NodeTargetPlan, windows: TargetWindows): StoredPlanResult {
+  const { plan, sky } = combined;
+  const q = plan.quantities;
+  return {
+    feasible: combined.feasible,
+    reasons: combined.reasons,
+    suggestions: combined.suggestions,
+    skyVerdict: sky.verdict,
+    periodDays: q.periodDays.value,
+    shortestPeriodDays: q.shortestPeriodDays.value,
+    longestPeriodDays: q.longestPeriodDays.value,
+    // Rper, the 5–95 % range of the light curve: what rotation surveys quote as the amplitude.
+    amplitudePpm: q.amplitudeRperPpm.value,
+    perVisitPrecisionPpm: q.perVisitPrecisionPpm.value,
+    exposureSeconds: q.exposureSeconds.value,
+    visits: q.visits.value,
+    visitsPerNight: q.visitsPerNight.value,
+    // Nights between visit nights as the plan schedules them (1 = every night).
+    cadenceDays: q.nightStepDays.value,
+    baselineDays: q.baselineDays.value,
+    usableNights: windows.summary.usableNights,
+    nodeHours: q.nodeHours.value,
+    feeMinor: q.feeMinor.value,
+    currency: plan.currency,
+    quantities: q as unknown as Record<string, Explained<number | null>>,
+    flags: plan.flags,
+    relationLabel: plan.relationLabel,
+  };
+}
+
+/** A message for a plan that could not be computed from its input. */
+export function planErrorMessage(err: { field: string; reason: string }): string {
+  return `${err.field}: ${err.reason}`;
+}
+
+const isInputError = (err: unknown): err is { field: string; reason: string } => isScienceInputError(err) || err instanceof SkyInputError;
+
+/**
+ * Every plan of the inputs: per node one sky-window computation for all targets, then per
+ * target and node the science plan combined with its window. A target whose input the science
+ * core refuses becomes an error row (the job itself succeeds). `onTargetDone` is called after
+ * each target with the count so far (for progress).
+ */
+export async function computePlanRows(inputs: PlanInputs, onTargetDone?: (done: number) => Promise<void> | void): Promise<PlanRowInsert[]> {
+  const { nodes, targets, campaign } = inputs;
+  const windowsByNode = nodes.map((node) => {
+    if (!targets.length) return { node, windows: null, error: null };
+    try {
+      return { node, windows: nodeSkyWindows(node, campaign, targets), error: null };
+    } catch (err) {
+      if (!isInputError(err)) throw err;
+      return { node, windows: null, error: `sky windows of ${node.code}: ${planErrorMessage(err)}` };
+    }
+  });
+  const rows: PlanRowInsert[] = [];
+  for (let i = 0; i < targets.length; i++) {
+    const target = targets[i];
+    const planTarget = toPlanTarget(target);
+    for (const { node, windows, error } of windowsByNode) {
+      if (!windows) {
+        rows.push({ targetId: target.id, nodeId: node.id, error: error ?? 'no sky windows' });
+        continue;
+      }
+      try {
+        const combined = combinePlanWithSky(computeTargetPlan(planTarget, node, node.site), windows.targets[i], node);
+        rows.push({ targetId: target.id, nodeId: node.id, result: toPlanResult(combined, windows.targets[i]) });
+      } catch (err) {
+        if (!isInputError(err)) throw err;
+        rows.push({ targetId: target.id, nodeId: node.id, error: planErrorMessage(err) });
+      }
+    }
+    if (onTargetDone) await onTargetDone(i + 1);
+  }
+  return rows;
+}

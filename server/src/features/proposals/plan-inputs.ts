@@ -1,0 +1,59 @@
+import { createHash } from 'node:crypto';
+import type { Knex } from 'knex';
+import type { TelescopeNode } from '@spincycle/shared/facility/facility-types';
+import { inParallel } from '../../db/in-parallel';
+import { findCycleById } from '../cycles/cycle-repository';
+import { listNodes } from '../facility/facility-repository';
+import { findProposalById, listProposalNodeIds, type StoredProposal } from './proposal-repository';
+import { listTargets, type StoredTarget } from './target-repository';
+
+/**
+ * Version of the plan computation. Part of the inputs hash, so that raising it (when the
+ * science core's results change in a way stored plans should not survive) marks every stored
+ * plan stale.
+ */
+export const PLAN_MODEL_VERSION = 1;
+
+/** Everything a proposal's plans are computed from. */
+export interface PlanInputs {
+  proposal: StoredProposal;
+  campaign: { firstNight: string; lastNight: string };
+  /** The requested nodes, with their sites, by code. */
+  nodes: TelescopeNode[];
+  /** In list order. */
+  targets: StoredTarget[];
+}
+
+/** Loads the inputs of a proposal's plans, or undefined when the proposal no longer exists. */
+export async function loadPlanInputs(db: Knex, proposalId: number): Promise<PlanInputs | undefined> {
+  const proposal = await findProposalById(db, proposalId);
+  if (!proposal) return undefined;
+  const [cycle, nodeIds, targets] = await inParallel(db, [
+    () => findCycleById(db, proposal.cycleId),
+    () => listProposalNodeIds(db, proposalId),
+    () => listTargets(db, proposalId),
+  ] as const);
+  const nodes = nodeIds.length ? await listNodes(db, nodeIds) : [];
+  return { proposal, campaign: { firstNight: cycle!.campaignStart, lastNight: cycle!.campaignEnd }, nodes, targets };
+}
+
+/**
+ * SHA-256 of what the plans depend on: the campaign, each requested node's instrument and
+ * site, and each target's science values (not its name, notes or position, which change no
+ * number). Stored with the plans; a different hash now means the plans are stale.
+ */
+export function planInputsHash(inputs: Pick<PlanInputs, 'campaign' | 'nodes' | 'targets'>): string {
+  const nodes = [...inputs.nodes]
+    .sort((a, b) => a.id - b.id)
+    .map(({ id, site, code: _c, name: _n, siteId: _s, active: _a, ...spec }) => ({
+      id,
+      spec,
+      site: { lat: site.latitudeDeg, lon: site.longitudeDeg, el: site.elevationM, tz: site.timeZone, sky: site.skyBrightnessMagPerArcsec2 },
+    }));
+  const targets = [...inputs.targets]
+    .sort((a, b) => a.id - b.id)
+    .map((t) => [t.id, t.raDeg, t.decDeg, t.magnitude, t.magnitudeBand, t.colour, t.colourSystem, t.reddeningEbv, t.ageMyr, t.ageUncertaintyMyr, t.periodPrecisionDays]);
+  return createHash('sha256')
+    .update(JSON.stringify({ v: PLAN_MODEL_VERSION, campaign: inputs.campaign, nodes, targets }))
+    .digest('hex');
+}

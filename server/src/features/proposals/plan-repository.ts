@@ -1,0 +1,164 @@
+import type { Knex } from 'knex';
+import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
+import type { PlanRunStatus, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+
+/** The computed part of a plan row, stored as `target_plans.result`. */
+export type StoredPlanResult = Omit<TargetPlanRow, 'targetId' | 'targetName' | 'nodeId' | 'nodeCode'>;
+
+/** One row to write into `target_plans`: a result or an error. */
+export type PlanRowInsert =
+  | { targetId: number; nodeId: number; result: StoredPlanResult; error?: undefined }
+  | { targetId: number; nodeId: number; result?: undefined; error: string };
+
+interface PlanRunRow {
+  proposal_id: number;
+  state: PlanRunStatus['state'];
+  total: number;
+  done: number;
+  requested_at: Date | null;
+  started_at: Date | null;
+  finished_at: Date | null;
+  error: string | null;
+  inputs_hash: string | null;
+}
+
+export interface StoredPlanRun extends Omit<PlanRunStatus, 'current'> {
+  inputsHash: string | null;
+}
+
+function toRun(r: PlanRunRow): StoredPlanRun {
+  return {
+    state: r.state,
+    total: r.total,
+    done: r.done,
+    startedAt: r.started_at?.toISOString() ?? null,
+    finishedAt: r.finished_at?.toISOString() ?? null,
+    error: r.error,
+    inputsHash: r.inputs_hash,
+  };
+}
+
+/** The plan run of a proposal, if any. */
+export async function findPlanRun(db: Knex, proposalId: number): Promise<StoredPlanRun | undefined> {
+  const row: PlanRunRow | undefined = await db('plan_runs').where({ proposal_id: proposalId }).first();
+  return row ? toRun(row) : undefined;
+}
+
+/** A new run starts: progress 0 of `total` targets. */
+export async function startPlanRun(db: Knex, proposalId: number, total: number): Promise<void> {
+  await db('plan_runs')
+    .insert({ proposal_id: proposalId, state: 'running', total, done: 0, started_at: db.raw('clock_timestamp()') })
+    .onConflict('proposal_id')
+    .merge({ state: 'running', total, done: 0, started_at: db.raw('clock_timestamp()'), finished_at: null, error: null });
+}
+
+/** Progress of a running computation: targets done so far. */
+export async function updatePlanProgress(db: Knex, proposalId: number, done: number): Promise<void> {
+  await db('plan_runs').where({ proposal_id: proposalId }).update({ done });
+}
+
+/** The run ended with its plans stored; `state` is `queued` when the inputs changed meanwhile. */
+export async function finishPlanRun(db: Knex, proposalId: number, input: { inputsHash: string; total: number; state: 'idle' | 'queued' }): Promise<void> {
+  await db('plan_runs')
+    .where({ proposal_id: proposalId })
+    .update({ state: input.state, total: input.total, done: input.total, inputs_hash: input.inputsHash, finished_at: db.raw('clock_timestamp()'), error: null });
+}
+
+/** The run failed: state `failed` with a message for the team. */
+export async function failPlanRun(db: Knex, proposalId: number, message: string): Promise<void> {
+  await db('plan_runs').where({ proposal_id: proposalId }).update({ state: 'failed', error: message, finished_at: db.raw('clock_timestamp()') });
+}
+
+/** Runs left `queued` or `running` (e.g. by a worker that stopped), to queue again. */
+export async function listUnfinishedPlanRuns(db: Knex): Promise<number[]> {
+  return db('plan_runs').whereIn('state', ['queued', 'running']).pluck('proposal_id');
+}
+
+/** Replaces every stored plan of the proposal with `rows` (caller's transaction). */
+export async function replaceTargetPlans(db: Knex, proposalId: number, inputsHash: string, rows: PlanRowInsert[]): Promise<void> {
+  await db('target_plans').where({ proposal_id: proposalId }).del();
+  const records = rows.map((r) => ({
+    target_id: r.targetId,
+    node_id: r.nodeId,
+    proposal_id: proposalId,
+    inputs_hash: inputsHash,
+    feasible: r.result ? r.result.feasible : null,
+    node_hours: r.result ? r.result.nodeHours : null,
+    fee_minor: r.result ? r.result.feeMinor : null,
+    currency: r.result ? r.result.currency : null,
+    // pg would send a JS array as a PostgreSQL array: json values go as JSON text.
+    result: r.result ? JSON.stringify(r.result) : null,
+    error: r.error ?? null,
+    computed_at: db.fn.now(),
+  }));
+  // ~10 kB of JSON per plan: statements of 100 rows (~1 MB) were the quickest measured
+  // (larger ones spend more time building one huge parameter list than they save in round trips).
+  for (let i = 0; i < records.length; i += 100) await db('target_plans').insert(records.slice(i, i + 100));
+}
+
+interface StoredPlanDbRow {
+  target_id: number;
+  node_id: number;
+  target_name: string;
+  node_code: string;
+  result: StoredPlanResult | null;
+  error: string | null;
+}
+
+/** Stored plans of the proposal, in list order then node code. */
+export async function listStoredPlans(
+  db: Knex,
+  proposalId: number,
+): Promise<{ plans: TargetPlanRow[]; errors: { targetId: number; nodeId: number; message: string }[] }> {
+  const rows: StoredPlanDbRow[] = await db('target_plans as tp')
+    .join('targets as t', 't.id', 'tp.target_id')
+    .join('nodes as n', 'n.id', 'tp.node_id')
+    .where('tp.proposal_id', proposalId)
+    .orderBy('t.position')
+    .orderBy('t.id')
+    .orderBy('n.code')
+    .select('tp.target_id', 'tp.node_id', 't.name as target_name', 'n.code as node_code', 'tp.result', 'tp.error');
+  const plans: TargetPlanRow[] = [];
+  const errors: { targetId: number; nodeId: number; message: string }[] = [];
+  for (const r of rows) {
+    if (r.result) plans.push({ targetId: r.target_id, targetName: r.target_name, nodeId: r.node_id, nodeCode: r.node_code, ...r.result });
+    else errors.push({ targetId: r.target_id, nodeId: r.node_id, message: r.error ?? 'not computed' });
+  }
+  return { plans, errors };
+}
+
+/** Per requested node: totals of the stored plans on it (nodes without plans give zeros). */
+export async function nodeRequestTotals(db: Knex, proposalId: number): Promise<NodeRequest[]> {
+  const rows = await db('proposal_nodes as pn')
+    .join('nodes as n', 'n.id', 'pn.node_id')
+    .leftJoin('target_plans as tp', function () {
+      this.on('tp.proposal_id', 'pn.proposal_id').andOn('tp.node_id', 'pn.node_id').andOnNotNull('tp.result');
+    })
+    .where('pn.proposal_id', proposalId)
+    .groupBy('pn.node_id', 'n.code', 'n.currency')
+    .orderBy('n.code')
+    .select(
+      'pn.node_id',
+      'n.code',
+      'n.currency',
+      db.raw('coalesce(sum(tp.node_hours), 0) AS node_hours'),
+      db.raw('coalesce(sum(tp.fee_minor), 0)::bigint AS fee_minor'),
+      db.raw('count(tp.target_id)::int AS targets'),
+      db.raw('count(tp.target_id) FILTER (WHERE NOT tp.feasible)::int AS infeasible'),
+    );
+  return rows.map((r: { node_id: number; code: string; currency: string; node_hours: number; fee_minor: number; targets: number; infeasible: number }) => ({
+    nodeId: r.node_id,
+    nodeCode: r.code,
+    nodeHours: Math.round(r.node_hours * 100) / 100,
+    feeMinor: r.fee_minor,
+    currency: r.currency,
+    targets: r.targets,
+    infeasibleTargets: r.infeasible,
+  }));
+}
+
+/** How many stored plans of the proposal are errors. */
+export async function countPlanErrors(db: Knex, proposalId: number): Promise<number> {
+  const [{ n }] = await db('target_plans').where({ proposal_id: proposalId }).whereNotNull('error').count<{ n: number }[]>({ n: '*' });
+  return n;
+}

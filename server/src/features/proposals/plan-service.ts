@@ -1,0 +1,160 @@
+import type { Knex } from 'knex';
+import type { Logger } from 'pino';
+import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
+import { combinePlanWithSky, requirementFromPlan } from '@spincycle/shared/planning/node-target-plan';
+import type { PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
+import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
+import { computeTargetPlan } from '@spincycle/shared/science/target-plan';
+import { SkyInputError, toSkyWindowsReport, type SkyWindowsReport } from '@spincycle/shared/sky/index';
+import type { AppContext } from '../../app-context';
+import { inParallel } from '../../db/in-parallel';
+import { AppError } from '../../http/app-error';
+import { findCycleWithNodes } from '../cycles/cycle-repository';
+import { listNodes } from '../facility/facility-repository';
+import { computePlanRows, nodeSkyWindows, toPlanTarget } from './plan-computation';
+import { loadPlanInputs, planInputsHash } from './plan-inputs';
+import {
+  failPlanRun,
+  findPlanRun,
+  finishPlanRun,
+  listStoredPlans,
+  replaceTargetPlans,
+  startPlanRun,
+  updatePlanProgress,
+  type StoredPlanRun,
+} from './plan-repository';
+import { markPlansRequested, queuePlanComputations } from './plan-requests';
+import { accessProposal, requireEditable } from './proposal-access';
+import { findProposalById } from './proposal-repository';
+import { findTarget } from './target-repository';
+
+/** Progress is written after every this many targets (enough for a smooth bar, few writes). */
+export const PROGRESS_EVERY_TARGETS = 25;
+
+export interface PlanComputationResult {
+  proposalId: number;
+  targets: number;
+  nodes: number;
+  plans: number;
+  errors: number;
+  /** Wall time of the computation (sky windows and plans), ms. */
+  computeMs: number;
+  /** Wall time of the write transaction, ms. */
+  writeMs: number;
+  inputsHash: string;
+}
+
+/**
+ * Computes and stores every target plan of a proposal: the body of the plan job, also called
+ * directly by the demo seed, the tests and the benchmark (no queue needed). Progress goes to
+ * `plan_runs` every {@link PROGRESS_EVERY_TARGETS} targets. The plans replace the stored ones
+ * in one transaction, with the hash of the inputs they were computed from; when the inputs
+ * changed while it ran (a target edited meanwhile), the run ends `queued`, since that change
+ * queued another job. Returns null when the proposal no longer exists.
+ */
+export async function computeAndStoreProposalPlans(db: Knex, proposalId: number, options: { logger?: Logger } = {}): Promise<PlanComputationResult | null> {
+  const inputs = await loadPlanInputs(db, proposalId);
+  if (!inputs) return null;
+  const inputsHash = planInputsHash(inputs);
+  const total = inputs.targets.length;
+  await startPlanRun(db, proposalId, total);
+
+  const t0 = performance.now();
+  const rows = await computePlanRows(inputs, async (done) => {
+    if (done % PROGRESS_EVERY_TARGETS === 0 && done < total) await updatePlanProgress(db, proposalId, done);
+  });
+  const computeMs = performance.now() - t0;
+
+  const t1 = performance.now();
+  const written = await db.transaction(async (trx) => {
+    // Lock the proposal: edits wait for this write, so the hash check below sees a settled state.
+    if (!(await findProposalById(trx, proposalId, { forUpdate: true }))) return false;
+    const now = await loadPlanInputs(trx, proposalId);
+    const existing = new Set(now!.targets.map((t) => t.id));
+    const requested = new Set(now!.nodes.map((n) => n.id));
+    // Targets deleted (or nodes dropped) while computing have no row to hang a plan on.
+    const kept = rows.filter((r) => existing.has(r.targetId) && requested.has(r.nodeId));
+    await replaceTargetPlans(trx, proposalId, inputsHash, kept);
+    const changed = planInputsHash(now!) !== inputsHash;
+    await finishPlanRun(trx, proposalId, { inputsHash, total, state: changed ? 'queued' : 'idle' });
+    return true;
+  });
+  const writeMs = performance.now() - t1;
+  if (!written) return null;
+  const errors = rows.filter((r) => r.error !== undefined).length;
+  options.logger?.info({ proposalId, targets: total, nodes: inputs.nodes.length, errors, computeMs: Math.round(computeMs), writeMs: Math.round(writeMs) }, 'target plans stored');
+  return { proposalId, targets: total, nodes: inputs.nodes.length, plans: rows.length - errors, errors, computeMs, writeMs, inputsHash };
+}
+
+/**
+ * The plan job: computes and stores the plans; an unexpected failure marks the run `failed`
+ * with a message and is rethrown so that pg-boss records (and retries) the job.
+ */
+export async function runPlanJob(db: Knex, proposalId: number, logger: Logger): Promise<void> {
+  try {
+    await computeAndStoreProposalPlans(db, proposalId, { logger });
+  } catch (err) {
+    logger.error({ err, proposalId }, 'plan computation failed');
+    await failPlanRun(db, proposalId, 'The plan computation failed unexpectedly; it has been logged. Ask for a recomputation, or contact the facility if it fails again.').catch(() => undefined);
+    throw err;
+  }
+}
+
+/** The run status as the API shows it; `current` compares the stored plans' inputs with today's. */
+export function toRunStatus(run: StoredPlanRun | undefined, currentHash: string): PlanRunStatus {
+  if (!run) return { state: 'idle', total: 0, done: 0, startedAt: null, finishedAt: null, error: null, current: false };
+  const { inputsHash, ...rest } = run;
+  return { ...rest, current: inputsHash === currentHash };
+}
+
+/** The run status of a proposal (for readiness and the proposal page). */
+export async function planRunStatusOf(db: Knex, proposalId: number): Promise<PlanRunStatus> {
+  const [run, inputs] = await inParallel(db, [() => findPlanRun(db, proposalId), () => loadPlanInputs(db, proposalId)] as const);
+  return toRunStatus(run, planInputsHash(inputs!));
+}
+
+/** GET /api/proposals/:id/plans (team members). */
+export async function getProposalPlans(ctx: AppContext, viewer: SessionUser, id: number): Promise<ProposalPlans> {
+  await accessProposal(ctx.db, viewer, id);
+  const [run, stored] = await Promise.all([planRunStatusOf(ctx.db, id), listStoredPlans(ctx.db, id)]);
+  return { run, ...stored };
+}
+
+/** POST /api/proposals/:id/plans/recompute (team members, editable proposals): 202 with the run status. */
+export async function recomputeProposalPlans(ctx: AppContext, viewer: SessionUser, id: number): Promise<PlanRunStatus> {
+  await ctx.db.transaction(async (trx) => {
+    const access = await accessProposal(trx, viewer, id, { forUpdate: true });
+    requireEditable(access, ctx.now());
+    await markPlansRequested(trx, [id]);
+  });
+  await queuePlanComputations(ctx, [id]);
+  return planRunStatusOf(ctx.db, id);
+}
+
+/**
+ * GET /api/proposals/:id/targets/:targetId/sky?nodeId=N: the target's sky windows night by
+ * night from that node's site over the campaign, computed now. The node may be any node of
+ * the cycle (to compare before requesting it). When the target can be planned on it, the
+ * report carries the assessment of the plan's cadence against the windows.
+ */
+export async function getTargetSky(ctx: AppContext, viewer: SessionUser, id: number, targetId: number, nodeId: number): Promise<SkyWindowsReport> {
+  const { cycle } = await accessProposal(ctx.db, viewer, id);
+  const target = await findTarget(ctx.db, id, targetId);
+  if (!target) throw new AppError('target_not_found', `No target ${targetId} in proposal ${id}`, 404);
+  const cycleNodes = (await findCycleWithNodes(ctx.db, cycle.id))!.nodes;
+  if (!cycleNodes.some((n) => n.nodeId === nodeId)) {
+    const message = `node ${nodeId} does not take part in cycle ${cycle.code}`;
+    throw new AppError('validation_failed', `nodeId: ${message}`, 400, { nodeId: [message] });
+  }
+  const [node] = await listNodes(ctx.db, [nodeId]);
+  const result = nodeSkyWindows(node, { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, [target]);
+  let requirement: ReturnType<typeof requirementFromPlan> | undefined;
+  try {
+    const plan = combinePlanWithSky(computeTargetPlan(toPlanTarget(target), node, node.site), result.targets[0], node);
+    requirement = requirementFromPlan(plan.plan);
+  } catch (err) {
+    // Without a plan the windows are still worth showing; the plan's error is on the plans page.
+    if (!isScienceInputError(err) && !(err instanceof SkyInputError)) throw err;
+  }
+  return toSkyWindowsReport(result, { includeNights: true, requirement, weatherLossFraction: node.weatherLossFraction });
+}

@@ -1,0 +1,64 @@
+import type { Knex } from 'knex';
+import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
+import { callStatusAt } from '@spincycle/shared/facility/facility-types';
+import type { MemberRole } from '@spincycle/shared/proposals/proposal-schemas';
+import { isEditableState, PROPOSAL_STATE_LABELS } from '@spincycle/shared/proposals/proposal-states';
+import { AppError } from '../../http/app-error';
+import { findCycleById, type StoredCycle } from '../cycles/cycle-repository';
+import { formatUtc } from '../cycles/cycle-service';
+import { findActiveRole, findProposalById, type StoredProposal } from './proposal-repository';
+
+/** A proposal as one of its team members reaches it. */
+export interface ProposalAccess {
+  proposal: StoredProposal;
+  cycle: StoredCycle;
+  role: MemberRole;
+}
+
+/**
+ * The proposal and the viewer's part in it. Anyone who is not an active member of the team
+ * (other proposers, reviewers, managers, administrators) gets the same 404 as for a proposal
+ * that does not exist: its existence is not revealed. `forUpdate` locks the proposal row for
+ * the rest of the transaction, so that edits, submission and withdrawal never interleave.
+ */
+export async function accessProposal(db: Knex, viewer: SessionUser, id: number, options: { forUpdate?: boolean } = {}): Promise<ProposalAccess> {
+  const proposal = await findProposalById(db, id, options);
+  const role = proposal ? await findActiveRole(db, id, viewer.id) : undefined;
+  if (!proposal || !role) throw new AppError('proposal_not_found', `No proposal ${id}`, 404);
+  const cycle = (await findCycleById(db, proposal.cycleId))!;
+  return { proposal, cycle, role };
+}
+
+/** 403 `pi_only` unless the viewer is the proposal's PI. */
+export function requirePi(access: ProposalAccess, action: string): void {
+  if (access.role !== 'pi') throw new AppError('pi_only', `Only the PI can ${action}`, 403);
+}
+
+/** Whether the team may still change the proposal: a draft while its call is open. */
+export function isEditable(access: Pick<ProposalAccess, 'proposal' | 'cycle'>, now: Date): boolean {
+  return isEditableState(access.proposal.state) && callStatusAt(access.cycle, now) === 'open';
+}
+
+/**
+ * 409 `not_editable` unless the proposal is a draft in an open call. Once submitted the
+ * proposal is read-only (withdrawing it, while the call is open, makes it a draft again); once
+ * the call closed, a draft can no longer be changed either.
+ */
+export function requireEditable(access: ProposalAccess, now: Date): void {
+  const { proposal, cycle } = access;
+  if (!isEditableState(proposal.state)) {
+    const how = proposal.state === 'submitted' ? ' (withdraw it first, while the call is open)' : '';
+    throw new AppError(
+      'not_editable',
+      `This proposal is ${PROPOSAL_STATE_LABELS[proposal.state].toLowerCase()} and can no longer be changed${how}`,
+      409,
+    );
+  }
+  const status = callStatusAt(cycle, now);
+  if (status === 'closed') {
+    throw new AppError('not_editable', `The call for ${cycle.code} closed at ${formatUtc(cycle.callClosesAt)}; the proposal can no longer be changed`, 409);
+  }
+  if (status === 'upcoming') {
+    throw new AppError('not_editable', `The call for ${cycle.code} opens at ${formatUtc(cycle.callOpensAt)}; the proposal can be changed once it is open`, 409);
+  }
+}

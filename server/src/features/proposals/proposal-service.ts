@@ -1,0 +1,154 @@
+import type { Knex } from 'knex';
+import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
+import { callStatusAt } from '@spincycle/shared/facility/facility-types';
+import type { CreateProposalInput, Proposal, ProposalSummary, UpdateProposalInput } from '@spincycle/shared/proposals/proposal-schemas';
+import type { AppContext } from '../../app-context';
+import { inParallel } from '../../db/in-parallel';
+import { AppError } from '../../http/app-error';
+import { findCycleById, findCycleWithNodes } from '../cycles/cycle-repository';
+import { formatUtc, formatUtcTime, summarizeCycle } from '../cycles/cycle-service';
+import { planInputsHash } from './plan-inputs';
+import { nodeRequestTotals } from './plan-repository';
+import { markPlansRequested, queuePlanComputations } from './plan-requests';
+import { accessProposal, isEditable, requireEditable, requirePi, type ProposalAccess } from './proposal-access';
+import {
+  countTargets,
+  deleteProposalRow,
+  findJustificationMeta,
+  insertPiMember,
+  insertProposal,
+  listMembers,
+  listProposalNodeIds,
+  listProposalSummariesOf,
+  replaceProposalNodes,
+  updateProposalFields,
+} from './proposal-repository';
+
+/** GET /api/proposals: the proposals on which the viewer is an active team member. */
+export function listMyProposals(ctx: AppContext, viewer: SessionUser): Promise<ProposalSummary[]> {
+  return listProposalSummariesOf(ctx.db, viewer.id);
+}
+
+/** The whole proposal as its team sees it. */
+export async function assembleProposal(ctx: AppContext, db: Knex, access: ProposalAccess): Promise<Proposal> {
+  const { proposal, role } = access;
+  const [cycle, team, nodeIds, justification, targetCount, request] = await inParallel(db, [
+    () => findCycleWithNodes(db, proposal.cycleId),
+    () => listMembers(db, proposal.id),
+    () => listProposalNodeIds(db, proposal.id),
+    () => findJustificationMeta(db, proposal.id),
+    () => countTargets(db, proposal.id),
+    () => nodeRequestTotals(db, proposal.id),
+  ] as const);
+  const now = ctx.now();
+  return {
+    id: proposal.id,
+    cycle: summarizeCycle(cycle!, now),
+    title: proposal.title,
+    abstract: proposal.abstract,
+    category: proposal.category,
+    state: proposal.state,
+    version: proposal.version,
+    nodeIds,
+    team: team.map(({ proposalId: _p, ...member }) => member),
+    justification,
+    targetCount,
+    request,
+    myRole: role,
+    editable: isEditable(access, now),
+    submittedAt: proposal.submittedAt,
+    createdAt: proposal.createdAt,
+    updatedAt: proposal.updatedAt,
+  };
+}
+
+/** GET /api/proposals/:id (team members; 404 for everyone else). */
+export async function getProposal(ctx: AppContext, viewer: SessionUser, id: number): Promise<Proposal> {
+  return assembleProposal(ctx, ctx.db, await accessProposal(ctx.db, viewer, id));
+}
+
+/**
+ * POST /api/proposals (proposers): a new draft in a cycle whose call is open; the creator
+ * becomes its PI. The plan run starts `idle` and current (no targets, no nodes: nothing to plan).
+ */
+export async function createProposal(ctx: AppContext, viewer: SessionUser, input: CreateProposalInput): Promise<Proposal> {
+  const cycle = await findCycleById(ctx.db, input.cycleId);
+  if (!cycle) throw new AppError('validation_failed', `cycleId: no cycle ${input.cycleId}`, 400, { cycleId: [`no cycle ${input.cycleId}`] });
+  const status = callStatusAt(cycle, ctx.now());
+  if (status !== 'open') {
+    const when = status === 'upcoming' ? `opens at ${formatUtc(cycle.callOpensAt)}` : `closed at ${formatUtc(cycle.callClosesAt)}`;
+    throw new AppError('call_not_open', `The call for ${cycle.code} is not open: it ${when}`, 422, { cycleId: [`the call ${when}`] });
+  }
+  const id = await ctx.db.transaction(async (trx) => {
+    const proposalId = await insertProposal(trx, { cycleId: cycle.id, piAccountId: viewer.id, title: input.title });
+    await insertPiMember(trx, proposalId, viewer);
+    const emptyHash = planInputsHash({ campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, nodes: [], targets: [] });
+    await trx('plan_runs').insert({ proposal_id: proposalId, state: 'idle', inputs_hash: emptyHash });
+    return proposalId;
+  });
+  return getProposal(ctx, viewer, id);
+}
+
+/**
+ * PATCH /api/proposals/:id (team members; the editor's autosave). The body names the version
+ * the editor last read; if someone else on the team saved since, nothing is written and the
+ * answer is 409 `version_conflict` with the time of their save: never a silent overwrite.
+ * Requested nodes must take part in the cycle; changing them queues the plans again.
+ */
+export async function updateProposal(ctx: AppContext, viewer: SessionUser, id: number, input: UpdateProposalInput): Promise<Proposal> {
+  let nodesChanged = false;
+  await ctx.db.transaction(async (trx) => {
+    const access = await accessProposal(trx, viewer, id, { forUpdate: true });
+    requireEditable(access, ctx.now());
+    const { proposal, cycle } = access;
+    if (proposal.version !== input.version) {
+      throw new AppError(
+        'version_conflict',
+        `Someone else on the team saved this proposal at ${formatUtcTime(proposal.updatedAt)}; reload to see their changes`,
+        409,
+        { version: [`the current version is ${proposal.version}, not ${input.version}`] },
+      );
+    }
+    if (input.category !== undefined && input.category !== null && !cycle.categories.includes(input.category)) {
+      const message = `choose one of the cycle's categories: ${cycle.categories.join('; ')}`;
+      throw new AppError('validation_failed', `category: ${message}`, 400, { category: [message] });
+    }
+    let nodeIds: number[] | undefined;
+    if (input.nodeIds !== undefined) {
+      nodeIds = [...new Set(input.nodeIds)].sort((a, b) => a - b);
+      const offered = new Set((await findCycleWithNodes(trx, cycle.id))!.nodes.map((n) => n.nodeId));
+      const foreign = nodeIds.filter((n) => !offered.has(n));
+      if (foreign.length) {
+        const message = `node${foreign.length > 1 ? 's' : ''} ${foreign.join(', ')} ${foreign.length > 1 ? 'do' : 'does'} not take part in cycle ${cycle.code}`;
+        throw new AppError('validation_failed', `nodeIds: ${message}`, 400, { nodeIds: [message] });
+      }
+      const current = await listProposalNodeIds(trx, id);
+      nodesChanged = current.join(',') !== nodeIds.join(',');
+    }
+    const fieldsChanged =
+      (input.title !== undefined && input.title !== proposal.title) ||
+      (input.abstract !== undefined && input.abstract !== proposal.abstract) ||
+      (input.category !== undefined && input.category !== proposal.category);
+    // An autosave that changes nothing keeps the version, so that it cannot cause a conflict.
+    if (!fieldsChanged && !nodesChanged) return;
+    await updateProposalFields(trx, id, { title: input.title, abstract: input.abstract, category: input.category });
+    if (nodesChanged) {
+      await replaceProposalNodes(trx, id, nodeIds!);
+      await markPlansRequested(trx, [id]);
+    }
+  });
+  if (nodesChanged) await queuePlanComputations(ctx, [id]);
+  return getProposal(ctx, viewer, id);
+}
+
+/** DELETE /api/proposals/:id: the PI deletes a draft, with its team, targets, plans and files. */
+export async function deleteProposal(ctx: AppContext, viewer: SessionUser, id: number): Promise<void> {
+  await ctx.db.transaction(async (trx) => {
+    const access = await accessProposal(trx, viewer, id, { forUpdate: true });
+    requirePi(access, 'delete the proposal');
+    if (access.proposal.state !== 'draft') {
+      throw new AppError('not_editable', 'Only a draft can be deleted; withdraw the proposal first, while the call is open', 409);
+    }
+    await deleteProposalRow(trx, id);
+  });
+}

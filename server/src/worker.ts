@@ -1,0 +1,41 @@
+import { loadConfig } from './config';
+import { createDb } from './db/knex';
+import { startPlanWorker } from './jobs/plan-worker';
+import { createLogger } from './logger';
+
+/**
+ * The background worker process: computes target plans from the pg-boss queue in the
+ * application's database. Started by `npm start` beside the web server; any number may run,
+ * on any machine that reaches the database. SIGINT/SIGTERM let a running job finish first.
+ */
+const config = loadConfig();
+const logger = createLogger(config).child({ process: 'worker' });
+const db = createDb(config, logger);
+
+let stopping = false;
+async function main(): Promise<void> {
+  const worker = await startPlanWorker({ config, db, logger });
+  const shutdown = (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    logger.info({ signal }, 'worker shutting down');
+    worker
+      .stop(20_000)
+      .catch((err) => logger.error({ err }, 'worker stop failed'))
+      .finally(() => db.destroy().finally(() => process.exit(0)));
+    setTimeout(() => process.exit(0), 25_000).unref();
+  };
+  process.on('SIGINT', () => shutdown('SIGINT'));
+  process.on('SIGTERM', () => shutdown('SIGTERM'));
+}
+
+process.on('unhandledRejection', (err) => logger.error({ err }, 'unhandled promise rejection'));
+process.on('uncaughtException', (err) => {
+  logger.fatal({ err }, 'uncaught exception');
+  process.exit(1);
+});
+
+main().catch((err) => {
+  logger.fatal({ err }, 'the worker could not start');
+  process.exit(1);
+});
