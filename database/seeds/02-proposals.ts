@@ -25,14 +25,14 @@ import { DEMO_PASSWORD } from '../demo-accounts';
  */
 
 /** The invented cluster: centre, age, distance modulus, reddening. Not the position of any real cluster. */
-const LANTERN = { raDeg: 163.2, decDeg: 31.6, ageMyr: 650, ageErrMyr: 60, distanceModulus: 7.0, ebv: 0.02 };
+const LANTERN = { raDeg: 163.2, decDeg: 31.6, ageMyr: 650, ageErrMyr: 60, distanceModulus: 5.0, ebv: 0.02 };
 const SECOND_PROPOSER = { email: 'rhea.tallowmere@halcyon.example', displayName: 'Rhea Tallowmere', affiliation: 'Tallowmere Rooftop Observatory' };
 
-/** Cluster members: colours spread over F–M, V from the dwarf sequence's Mv at one distance. */
+/** Cluster members: colours spread from late F to early M, V from the dwarf sequence's Mv at one distance. */
 export function lanternMembers(count = 60): TargetValues[] {
   const r = seededRandom(650);
   return Array.from({ length: count }, (_, i) => {
-    const bpRp = Number((0.6 + (2.1 * i) / (count - 1) + r.uniform(-0.02, 0.02)).toFixed(3));
+    const bpRp = Number((0.7 + (1.8 * i) / (count - 1) + r.uniform(-0.02, 0.02)).toFixed(3));
     // Positions scattered within about a degree of the centre (RA offsets widened by 1/cos δ).
     const radius = Math.sqrt(r.next()) * 1.0;
     const angle = r.uniform(0, 2 * Math.PI);
@@ -124,8 +124,8 @@ function justificationPdf(title: string): Promise<Buffer> {
   doc.font('Helvetica-Bold').fontSize(16).text(title);
   doc.moveDown().font('Helvetica').fontSize(11);
   for (const p of [
-    'Scientific case. The Lantern cluster is a rich open cluster of 650 Myr at about 250 pc. Its cool dwarfs have converged onto the slow rotation sequence, which makes it a calibrator of the spin-down relation between the ages of the youngest and the oldest well-studied clusters.',
-    'Aims. We will measure the rotation periods of 60 members from F to mid-M, from starspot modulation, with nightly photometry over a baseline of at least three cycles of the longest expected period.',
+    'Scientific case. The Lantern cluster is a rich open cluster of 650 Myr at about 100 pc. Its cool dwarfs have converged onto the slow rotation sequence, which makes it a calibrator of the spin-down relation between the ages of the youngest and the oldest well-studied clusters.',
+    'Aims. We will measure the rotation periods of 60 members from late F to early M, from starspot modulation, with nightly photometry over a baseline of at least three cycles of the longest expected period.',
     'Feasibility. The per-target plans (cadence, baseline, visits and node-hours) follow from the expected period and amplitude of each star and from its nightly windows at Kestrel Ridge and Vindelholm; the faintest M dwarfs need the most visits and are flagged where they cannot be done as they stand.',
     'Data. Reduced light curves and the measured periods will be returned to the consortium archive within six months of the end of the campaign.',
   ]) {
@@ -210,7 +210,7 @@ async function seedProposals(knex: Knex): Promise<void> {
     title: lanternTitle,
     abstract:
       'We propose to measure the rotation periods of 60 cool dwarfs in the Lantern cluster, an open cluster of 650 ± 60 Myr, from starspot modulation. ' +
-      'Members span F to mid-M (BP−RP 0.6–2.7), so that the slow rotation sequence is traced across the whole range where gyrochronology is calibrated. ' +
+      'Members span late F to early M (BP−RP 0.7–2.5), so that the slow rotation sequence is traced across the whole range where gyrochronology is calibrated. ' +
       'Nightly photometry from Kestrel Ridge and Vindelholm over the campaign gives a baseline of at least three cycles of the longest expected period.',
     category: 'Open clusters and associations',
     nodes: ['KRG-50', 'VHM-40'],

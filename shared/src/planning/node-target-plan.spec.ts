@@ -31,7 +31,7 @@ describe('computeNodeTargetPlan', () => {
     expect(r.sky.verdict).toMatch(/cadence fits/);
     const req = requirementFromPlan(r.plan);
     expect(req.totalVisits).toBe(r.plan.quantities.visits.value);
-    expect(req.visitHours).toBeCloseTo((r.plan.quantities.exposureSeconds.value + node.overheadSeconds) / 3600, 9);
+    expect(req.visitHours).toBeCloseTo(r.plan.quantities.visitSeconds.value / 3600, 9);
   });
 
   it('the same star at Dec −75° never rises at 35°N: infeasible with a reason and an other-node suggestion', () => {

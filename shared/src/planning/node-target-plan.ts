@@ -61,10 +61,23 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
     suggestions.push({ kind: 'longer_exposure', message: `A longer exposure (up to ${node.maxExposureSeconds} s on this node) reaches the per-visit precision goal with fewer visits.` });
   }
   if (!sky.fits) {
-    if (sky.maxNightlyUsableHours > 0 && sky.maxNightlyUsableHours * 0.999 < requirementFromPlan(plan).visitsPerNight * requirementFromPlan(plan).visitHours) {
-      suggestions.push({ kind: 'fewer_samples', message: 'The nightly window is too short for the visits per night: fewer samples per cycle or a node where the target culminates higher.' });
+    const req = requirementFromPlan(plan);
+    const nightlyCapacity = Math.floor((sky.maxNightlyUsableHours * 0.999) / req.visitHours);
+    if (sky.maxNightlyUsableHours > 0 && nightlyCapacity < req.visitsPerNight) {
+      suggestions.push({
+        kind: 'fewer_samples',
+        message: `The longest nightly window (${sky.maxNightlyUsableHours.toFixed(1)} h) holds ${nightlyCapacity} of the ${req.visitsPerNight} visits per night: fewer samples per cycle, or a node where the target culminates higher.`,
+      });
     } else if (sky.qualifyingNights > 0 && sky.visitingNightsNeeded > sky.expectedClearNights) {
-      suggestions.push({ kind: 'more_visits_per_night', message: 'Too few clear nights for the visits: more visits per night on fewer nights, or a node with less weather loss.' });
+      const clearNights = Math.floor(sky.expectedClearNights);
+      const perNight = clearNights > 0 ? Math.ceil(req.totalVisits / clearNights) : Infinity;
+      suggestions.push({
+        kind: 'more_visits_per_night',
+        message:
+          perNight <= nightlyCapacity
+            ? `About ${perNight} visits per night on the ${clearNights} expected clear nights would carry the ${req.totalVisits} visits (the nightly window holds up to ${nightlyCapacity}).`
+            : `Too few clear nights for ${req.totalVisits} visits even at ${nightlyCapacity} per night: a node with less weather loss, or a brighter comparison setup that needs fewer visits.`,
+      });
     }
     suggestions.push({ kind: 'other_node', message: 'Another node of the network may see this target longer in the campaign.' });
   }

@@ -23,6 +23,7 @@ export const QUANTITY_LABELS: Readonly<Record<keyof TargetPlanQuantities, string
   saturationLimitSeconds: 'Saturation limit',
   perVisitPrecisionGoalPpm: 'Per-visit precision goal',
   exposureSeconds: 'Exposure',
+  exposuresPerVisit: 'Exposures per visit',
   perVisitPrecisionPpm: 'Per-visit precision',
   perVisitPrecisionMmag: 'Per-visit precision (mag)',
   sampleIntervalDays: 'Sample interval',

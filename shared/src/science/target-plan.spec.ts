@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import type { NodeSpec, SiteSpec } from '../facility/facility-types';
 import { ScienceInputError } from './science-input-error';
-import { type TargetPlanTarget, computeTargetPlan, defaultRelationFor } from './target-plan';
+import { PLAN_DEFAULTS, type TargetPlanTarget, computeTargetPlan, defaultRelationFor } from './target-plan';
 
 const NODE: NodeSpec = {
   apertureM: 0.5,
@@ -53,7 +53,8 @@ describe('computeTargetPlan', () => {
     expect(q.longestPeriodDays.value).toBeGreaterThan(q.periodDays.value);
     expect(q.baselineDays.value).toBeGreaterThanOrEqual(3 * q.longestPeriodDays.value);
     expect(q.visits.value).toBeGreaterThanOrEqual(Math.max(q.visitsForDetection.value, q.visitsForCadence.value));
-    expect(q.visitSeconds.value).toBeCloseTo(q.exposureSeconds.value + NODE.overheadSeconds, 9);
+    const k = q.exposuresPerVisit.value;
+    expect(q.visitSeconds.value).toBeCloseTo(k * q.exposureSeconds.value + (k - 1) * PLAN_DEFAULTS.readoutSeconds + NODE.overheadSeconds, 9);
     expect(q.nodeHoursClear.value).toBeCloseTo((q.visits.value * q.visitSeconds.value) / 3600, 9);
     expect(q.nodeHours.value).toBeGreaterThanOrEqual(q.nodeHoursClear.value / (1 - NODE.weatherLossFraction) - 1e-9);
     expect(Number.isInteger(q.feeMinor.value)).toBe(true);
@@ -192,5 +193,54 @@ describe('computeTargetPlan', () => {
   it('rejects a bad node or site naming the field', () => {
     expect(() => computeTargetPlan(STAR, { ...NODE, saturationE: 0 }, SITE)).toThrow(/node.saturationE/);
     expect(() => computeTargetPlan(STAR, NODE, { ...SITE, skyBrightnessMagPerArcsec2: Number.NaN })).toThrow(/site.skyBrightnessMagPerArcsec2/);
+  });
+});
+
+describe('computeTargetPlan, exposures per visit', () => {
+  // An old, bright G dwarf: small spot amplitude, and a saturation-capped single exposure
+  // dominated by scintillation.
+  const BRIGHT_OLD: TargetPlanTarget = { name: 'Star B-2', colour: { value: 0.65, system: 'BV' }, ageMyr: 4000, ageUncertaintyMyr: 500, magnitude: { value: 9.6, band: 'V' } };
+
+  it('stacks exposures when the single exposure is capped by saturation, and the visit gets more precise', () => {
+    const plan = computeTargetPlan(BRIGHT_OLD, NODE, SITE);
+    const single = computeTargetPlan(BRIGHT_OLD, NODE, SITE, { exposuresPerVisit: 1 });
+    const q = plan.quantities;
+    expect(q.exposuresPerVisit.value).toBeGreaterThan(1);
+    expect(q.exposuresPerVisit.why).toMatch(/capped by saturation/);
+    // …and less node time than one exposure per visit.
+    expect(q.nodeHoursClear.value).toBeLessThan(single.quantities.nodeHoursClear.value);
+    expect(q.perVisitPrecisionPpm.value).toBeLessThan(single.quantities.perVisitPrecisionPpm.value);
+    // Fewer visits for the same detection, and fewer visits per night.
+    expect(q.visits.value).toBeLessThan(single.quantities.visits.value);
+    expect(q.visitsPerNight.value).toBeLessThanOrEqual(single.quantities.visitsPerNight.value);
+    // The visit stays within the longest visit.
+    expect(q.visitSeconds.value).toBeLessThanOrEqual(PLAN_DEFAULTS.maxVisitSeconds + 1e-9);
+  });
+
+  it('follows σ_visit² = (σ₁² − floor²)/k + floor²: stacking never beats the systematic floor', () => {
+    const k = 16;
+    const plan = computeTargetPlan(BRIGHT_OLD, NODE, SITE, { exposuresPerVisit: k });
+    const c = plan.precision.components;
+    const random2 = plan.precision.totalPpm ** 2 - c.floorPpm ** 2;
+    expect(plan.quantities.perVisitPrecisionPpm.value).toBeCloseTo(Math.sqrt(random2 / k + c.floorPpm ** 2), 6);
+    expect(plan.quantities.perVisitPrecisionPpm.value).toBeGreaterThan(c.floorPpm);
+    expect(plan.quantities.exposuresPerVisit.tag).toBe('choice');
+  });
+
+  it('keeps one exposure per visit when a single exposure reaches the goal', () => {
+    const loose = computeTargetPlan(STAR, NODE, SITE, { perVisitPrecisionPpm: 5000 });
+    expect(loose.quantities.exposureSeconds.why).toMatch(/reaching the precision goal/);
+    expect(loose.quantities.exposuresPerVisit.value).toBe(1);
+  });
+
+  it('does not stack a faint star whose exposure is capped by the node maximum (photon-limited: no node time saved)', () => {
+    const faint = computeTargetPlan({ ...STAR, magnitude: { value: 14.5, band: 'G' } }, NODE, SITE);
+    expect(faint.quantities.exposureSeconds.why).toMatch(/maxExposure/);
+    expect(faint.quantities.exposuresPerVisit.value).toBe(1);
+  });
+
+  it('refuses a fractional or zero exposuresPerVisit, naming the option', () => {
+    expect(() => computeTargetPlan(STAR, NODE, SITE, { exposuresPerVisit: 0 })).toThrow(/options\.exposuresPerVisit/);
+    expect(() => computeTargetPlan(STAR, NODE, SITE, { exposuresPerVisit: 2.5 })).toThrow(ScienceInputError);
   });
 });

@@ -99,6 +99,16 @@ export interface TargetPlanOptions {
    * saturating). A fixed exposure that saturates gives a blocking flag; the numbers stay finite.
    */
   exposureSeconds?: number;
+  /**
+   * Exposures stacked in one visit (whole, ≥ 1). Default: 1 unless the single exposure is
+   * capped by saturation or the node's longest exposure and misses the precision goal; then
+   * as many as reach it, within `maxVisitSeconds`.
+   */
+  exposuresPerVisit?: number;
+  /** Dead time between stacked exposures (readout), s (default 5; common practice, no source). */
+  readoutSeconds?: number;
+  /** Longest visit when exposures are stacked, s, overhead included (default 600; Spincycle's choice). */
+  maxVisitSeconds?: number;
   /** Altitude at which the precision is computed, degrees; default max(45°, node altitude limit). */
   planningAltitudeDeg?: number;
   /** Hours per night a target is typically observable (default 6), for the fit check of the nightly visits. */
@@ -133,6 +143,7 @@ export interface TargetPlanQuantities {
   saturationLimitSeconds: Explained;
   perVisitPrecisionGoalPpm: Explained;
   exposureSeconds: Explained;
+  exposuresPerVisit: Explained;
   perVisitPrecisionPpm: Explained;
   perVisitPrecisionMmag: Explained;
   sampleIntervalDays: Explained;
@@ -166,10 +177,17 @@ export interface TargetPlan {
   /** False when a blocking flag is present (e.g. the star saturates at the shortest exposure). */
   feasible: boolean;
   quantities: TargetPlanQuantities;
-  /** Noise terms of one visit at the chosen exposure. */
+  /** Noise terms of one exposure at the chosen exposure time (a visit may stack several: see exposuresPerVisit). */
   precision: VisitPrecision;
   flags: ScienceFlag[];
 }
+
+/**
+ * Version of the plan model: raise it whenever a change makes the same inputs give different
+ * numbers, so that stored plans (the server keeps them per proposal) are marked out of date.
+ * 2: exposures stacked per visit.
+ */
+export const TARGET_PLAN_MODEL_VERSION = 2;
 
 export const PLAN_DEFAULTS = {
   falseAlarmProbability: 0.01,
@@ -182,6 +200,8 @@ export const PLAN_DEFAULTS = {
   searchPeriodFraction: 0.5,
   coherenceCycles: 10,
   planningAltitudeDeg: 45,
+  readoutSeconds: 5,
+  maxVisitSeconds: 600,
 } as const;
 
 const CHOICE = "Spincycle's choice, no source";
@@ -287,7 +307,42 @@ export function computeTargetPlan(
       : `the σ at which the ${nCad0} visits of the cadence alone reach the detection threshold: A·sqrt(N/(4·z0))`;
   const automatic = chooseExposureFromSetup(setup, node, goalPpm);
   const exposure = o.exposureSeconds === undefined ? automatic : fixedExposure(setup, automatic, o.exposureSeconds, goalPpm);
-  const sigmaPpm = exposure.precision.totalPpm;
+  // 6b. Exposures per visit. A single exposure capped by saturation (bright stars) or by the
+  // node's longest exposure (faint ones) may miss the goal; stacking k exposures in one visit
+  // averages the photon, sky, read and scintillation noise down by √k (independent between
+  // exposures) but not the systematic floor (the same comparison stars, the same flat field):
+  // σ_visit² = (σ₁² − floor²)/k + floor² (Spincycle's model; common practice, no source).
+  const singlePpm = exposure.precision.totalPpm;
+  const floorPpm = exposure.precision.components.floorPpm;
+  // A fixed exposure is the user's decision; only the automatic one is stacked automatically.
+  const stackable = o.exposureSeconds === undefined && (exposure.limitedBy === 'saturation' || exposure.limitedBy === 'maxExposure');
+  const maxStack = Math.max(1, Math.floor((o.maxVisitSeconds - node.overheadSeconds + o.readoutSeconds) / (exposure.exposureSeconds + o.readoutSeconds)));
+  // Node time for detection ∝ σ_visit²(k) × visit length(k); its minimum over k is the most
+  // stacking worth doing, and reaching the goal needs no more than k_goal.
+  const randomVar = Math.max(0, singlePpm ** 2 - floorPpm ** 2);
+  const stackTime = (k: number) =>
+    (randomVar / k + floorPpm ** 2) * (k * exposure.exposureSeconds + (k - 1) * o.readoutSeconds + node.overheadSeconds);
+  let exposuresPerVisit = 1;
+  let stackWhy = 'one exposure per visit reaches the goal';
+  if (o.exposuresPerVisit !== undefined) {
+    exposuresPerVisit = o.exposuresPerVisit;
+    stackWhy = 'chosen by the user';
+  } else if (!exposure.reachesTarget && stackable && !exposure.saturatesAtMinExposure) {
+    let kBest = 1;
+    for (let k = 2; k <= maxStack; k++) if (stackTime(k) < stackTime(kBest)) kBest = k;
+    const kGoal = goalPpm > floorPpm * 1.001 ? Math.ceil(randomVar / (goalPpm ** 2 - floorPpm ** 2) - 1e-9) : Infinity;
+    exposuresPerVisit = Math.max(1, Math.min(kBest, kGoal));
+    stackWhy =
+      exposuresPerVisit === kGoal
+        ? `${exposuresPerVisit} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${exposure.limitedBy}) reach the goal of ${fmt(goalPpm)} ppm`
+        : exposuresPerVisit === 1
+          ? 'stacking would not save node time here'
+          : `${exposuresPerVisit} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${exposure.limitedBy}) need the least node time for the detection (more would mostly average down what the floor keeps)`;
+  } else if (!exposure.reachesTarget) {
+    stackWhy = 'one exposure per visit (stacking does not help here)';
+  }
+  const sigmaPpm = Math.sqrt(Math.max(0, singlePpm ** 2 - floorPpm ** 2) / exposuresPerVisit + floorPpm ** 2);
+  const reachesGoal = sigmaPpm <= goalPpm * (1 + 1e-9);
   if (exposure.saturatesAtMinExposure) {
     flags.push(
       flag(
@@ -307,7 +362,7 @@ export function computeTargetPlan(
         'Gaussian PSF peak pixel against the node saturationE',
       ),
     );
-  } else if (!exposure.reachesTarget) {
+  } else if (!reachesGoal) {
     flags.push(
       flag(
         'precisionGoalNotReached',
@@ -375,7 +430,7 @@ export function computeTargetPlan(
       ),
     );
   }
-  const visitSeconds = exposure.exposureSeconds + node.overheadSeconds;
+  const visitSeconds = exposuresPerVisit * exposure.exposureSeconds + (exposuresPerVisit - 1) * o.readoutSeconds + node.overheadSeconds;
   const nightSeconds = o.observableHoursPerNight * 3600;
   if (visitsPerNight * visitSeconds > nightSeconds) {
     flags.push(
@@ -490,16 +545,17 @@ export function computeTargetPlan(
             'CCD equation (Howell 2006; Merline & Howell 1995, from memory) + scintillation + floor, solved for t',
             'memory',
           ),
+    exposuresPerVisit: explained(exposuresPerVisit, '1', stackWhy, 'σ_visit² = (σ₁² − floor²)/k + floor² (common practice, no source)', o.exposuresPerVisit !== undefined ? 'choice' : 'practice'),
     perVisitPrecisionPpm: explained(
       sigmaPpm,
       'ppm',
-      `photon ${fmt(exposure.precision.components.photonPpm)}, sky ${fmt(exposure.precision.components.skyPpm)}, read ${fmt(exposure.precision.components.readPpm)}, scintillation ${fmt(exposure.precision.components.scintillationPpm)} (${node.scintillationModel}), floor ${fmt(exposure.precision.components.floorPpm)} ppm in quadrature`,
+      `${exposuresPerVisit > 1 ? `${exposuresPerVisit} exposures of ` : ''}photon ${fmt(exposure.precision.components.photonPpm)}, sky ${fmt(exposure.precision.components.skyPpm)}, read ${fmt(exposure.precision.components.readPpm)}, scintillation ${fmt(exposure.precision.components.scintillationPpm)} (${node.scintillationModel}), floor ${fmt(exposure.precision.components.floorPpm)} ppm in quadrature`,
       'CCD equation, Howell (2006), Handbook of CCD Astronomy (from memory); ' +
         (node.scintillationModel === 'young1967' ? 'Young (1967), AJ 72, 747' : 'Osborn et al. (2015), MNRAS 452, 1707') +
         ' (from memory)',
       'memory',
     ),
-    perVisitPrecisionMmag: explained(exposure.precision.totalMmag, 'mmag', `σ(mag) = ${fmt(MAG_PER_RELATIVE_FLUX, 5)}·σ(flux)/flux`, 'Howell (2006), Handbook of CCD Astronomy', 'memory'),
+    perVisitPrecisionMmag: explained(MAG_PER_RELATIVE_FLUX * sigmaPpm * 1e-3, 'mmag', `σ(mag) = ${fmt(MAG_PER_RELATIVE_FLUX, 5)}·σ(flux)/flux`, 'Howell (2006), Handbook of CCD Astronomy', 'memory'),
     sampleIntervalDays: explained(sampleInterval, 'd', `shortest plausible period ${fmt(pMin)} d / ${s} samples per cycle`, RULE, 'practice'),
     nightStepDays: explained(nightStep, 'd', nightStep === 1 ? 'visits every night' : `a visit night every ${nightStep} nights`, RULE, 'practice'),
     visitsPerNight: explained(
@@ -548,7 +604,12 @@ export function computeTargetPlan(
       'derived',
     ),
     expectedPeriodPrecisionDays: explained(expectedSigmaP.sigmaPeriodDays, 'd', `σP at the longest plausible period with ${visits} visits over ${baseline} d`, PERIOD_PRECISION_SOURCE, 'memory'),
-    visitSeconds: explained(visitSeconds, 's', `exposure ${fmt(exposure.exposureSeconds)} s + overhead ${node.overheadSeconds} s`, "the node's overhead per visit", 'facility'),
+    visitSeconds: explained(
+      visitSeconds,
+      's',
+      exposuresPerVisit > 1
+        ? `${exposuresPerVisit} × ${fmt(exposure.exposureSeconds)} s exposures + ${exposuresPerVisit - 1} × ${o.readoutSeconds} s readout + overhead ${node.overheadSeconds} s`
+        : `exposure ${fmt(exposure.exposureSeconds)} s + overhead ${node.overheadSeconds} s`, "the node's overhead per visit", 'facility'),
     nodeHoursClear: explained(hoursClear, 'h', `${visits} visits × ${fmt(visitSeconds)} s`, 'definition of node-hours', 'practice'),
     nodeHours: explained(
       hoursRounded,
@@ -584,6 +645,9 @@ interface ResolvedOptions {
   amplitudeModel: Partial<AmplitudeModelCoefficients>;
   perVisitPrecisionPpm: number | undefined;
   exposureSeconds: number | undefined;
+  exposuresPerVisit: number | undefined;
+  readoutSeconds: number;
+  maxVisitSeconds: number;
   planningAltitudeDeg: number;
   observableHoursPerNight: number;
   aliasPeriodDays: number;
@@ -609,6 +673,9 @@ function resolveOptions(options: TargetPlanOptions, system: TargetColourSystem, 
       o.exposureSeconds === undefined
         ? undefined
         : requireInRange(o.exposureSeconds, 'exposureSeconds', node.minExposureSeconds, node.maxExposureSeconds),
+    exposuresPerVisit: o.exposuresPerVisit === undefined ? undefined : requireInteger(o.exposuresPerVisit, 'exposuresPerVisit', 1),
+    readoutSeconds: requireInRange(o.readoutSeconds ?? PLAN_DEFAULTS.readoutSeconds, 'readoutSeconds', 0, 600),
+    maxVisitSeconds: requireInRange(o.maxVisitSeconds ?? PLAN_DEFAULTS.maxVisitSeconds, 'maxVisitSeconds', 1, 7200),
     planningAltitudeDeg: requireInRange(
       o.planningAltitudeDeg ?? Math.max(PLAN_DEFAULTS.planningAltitudeDeg, node.altitudeLimitDeg),
       'planningAltitudeDeg',

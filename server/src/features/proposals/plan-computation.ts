@@ -90,20 +90,45 @@ export async function computePlanRows(inputs: PlanInputs, onTargetDone?: (done: 
   for (let i = 0; i < targets.length; i++) {
     const target = targets[i];
     const planTarget = toPlanTarget(target);
+    const targetRows: PlanRowInsert[] = [];
     for (const { node, windows, error } of windowsByNode) {
       if (!windows) {
-        rows.push({ targetId: target.id, nodeId: node.id, error: error ?? 'no sky windows' });
+        targetRows.push({ targetId: target.id, nodeId: node.id, error: error ?? 'no sky windows' });
         continue;
       }
       try {
         const combined = combinePlanWithSky(computeTargetPlan(planTarget, node, node.site), windows.targets[i], node);
-        rows.push({ targetId: target.id, nodeId: node.id, result: toPlanResult(combined, windows.targets[i]) });
+        targetRows.push({ targetId: target.id, nodeId: node.id, result: toPlanResult(combined, windows.targets[i]) });
       } catch (err) {
         if (!isInputError(err)) throw err;
-        rows.push({ targetId: target.id, nodeId: node.id, error: planErrorMessage(err) });
+        targetRows.push({ targetId: target.id, nodeId: node.id, error: planErrorMessage(err) });
       }
     }
+    nameOtherNodes(targetRows, nodes);
+    rows.push(...targetRows);
     if (onTargetDone) await onTargetDone(i + 1);
   }
   return rows;
+}
+
+/**
+ * The science core can only say "another node may do better"; with every requested node of
+ * the proposal computed, an infeasible plan can name the node where the same target works.
+ */
+function nameOtherNodes(targetRows: PlanRowInsert[], nodes: TelescopeNode[]): void {
+  const code = (id: number) => nodes.find((n) => n.id === id)?.code ?? `node ${id}`;
+  const feasible = targetRows.filter((r) => r.result?.feasible);
+  for (const row of targetRows) {
+    const result = row.result;
+    if (!result || result.feasible) continue;
+    const elsewhere = feasible.filter((r) => r.nodeId !== row.nodeId);
+    result.suggestions = result.suggestions.map((s) => {
+      if (s.kind !== 'other_node') return s;
+      if (!elsewhere.length) {
+        return { ...s, message: 'None of the requested nodes can carry this target as planned: another node of the network, not requested here, may.' };
+      }
+      const list = elsewhere.map((r) => `${code(r.nodeId)} (${r.result!.nodeHours.toFixed(1)} node-hours; ${r.result!.skyVerdict.split(';')[0]})`).join(', ');
+      return { ...s, message: `Feasible on ${list}.` };
+    });
+  }
 }

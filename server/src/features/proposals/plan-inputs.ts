@@ -5,14 +5,14 @@ import { inParallel } from '../../db/in-parallel';
 import { findCycleById } from '../cycles/cycle-repository';
 import { listNodes } from '../facility/facility-repository';
 import { findProposalById, listProposalNodeIds, type StoredProposal } from './proposal-repository';
+import { TARGET_PLAN_MODEL_VERSION } from '@spincycle/shared/science/target-plan';
 import { listTargets, type StoredTarget } from './target-repository';
 
 /**
- * Version of the plan computation. Part of the inputs hash, so that raising it (when the
- * science core's results change in a way stored plans should not survive) marks every stored
- * plan stale.
+ * Version of the plan computation (the science core's, plus the sky-window combination). Part
+ * of the inputs hash, so that raising it marks every stored plan stale.
  */
-export const PLAN_MODEL_VERSION = 1;
+export const PLAN_MODEL_VERSION = TARGET_PLAN_MODEL_VERSION;
 
 /** Everything a proposal's plans are computed from. */
 export interface PlanInputs {
