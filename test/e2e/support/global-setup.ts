@@ -19,7 +19,7 @@ async function waitFor(url: string, child: ChildProcess, name: string): Promise<
 }
 
 /**
- * Starts the fakes and the web server (serving the production client build) against the
+ * Starts the fakes, the web server (serving the production client build) and the plan worker against the
  * demo-seeded e2e database. `npm test` prepares that database; run alone, the suite expects
  * `npm test` to have run once (or `tsx database/setup.ts spincycle_e2e --seed`).
  */
@@ -39,7 +39,10 @@ export default async function globalSetup(): Promise<void> {
     spawn(process.execPath, ['--import', 'tsx', path.join(root, entry)], { cwd: root, env, stdio: ['ignore', 'ignore', 'inherit'] });
   const fakes = start('fakes/run.ts');
   const server = start('server/src/server.ts');
-  (globalThis as Record<string, unknown>).__spincycleE2eChildren = [fakes, server];
+  // The plan worker (pg-boss) computes target plans, as beside `npm start`.
+  const worker = start('server/src/worker.ts');
+  (globalThis as Record<string, unknown>).__spincycleE2eChildren = [fakes, server, worker];
   await waitFor(`http://127.0.0.1:${E2E_MAIL_HTTP_PORT}/`, fakes, 'mail fake');
   await waitFor(`${BASE_URL}/api/health`, server, 'web server');
+  if (worker.exitCode !== null) throw new Error(`plan worker exited with code ${worker.exitCode}`);
 }

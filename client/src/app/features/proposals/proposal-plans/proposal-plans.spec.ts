@@ -108,6 +108,15 @@ describe('ProposalPlans', () => {
     });
   });
 
+  it('opened after a run already finished (e.g. right after an upload): fetches the request per node again', async () => {
+    setUp();
+    backend.expectOne(PLANS_URL).flush(body({ run: run({ finishedAt: '2030-01-01T10:00:00Z' }), plans: [testPlanRow(1, 1)] }));
+    backend.expectOne('/api/proposals/5/targets').flush([testTarget(1)]);
+    await Promise.resolve();
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal());
+  });
+
   it('targets of different ages: no cluster chart', async () => {
     setUp();
     backend.expectOne(PLANS_URL).flush(body({ plans: [testPlanRow(1, 1), testPlanRow(2, 1)] }));

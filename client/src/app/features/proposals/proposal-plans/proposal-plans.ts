@@ -234,11 +234,19 @@ export default class ProposalPlans {
       const timer = setTimeout(() => this.plans.reload(), PLAN_POLL_MS);
       onCleanup(() => clearTimeout(timer));
     });
-    // When a computation ends, the proposal's request per node has changed: fetch it again.
+    // The proposal's request per node comes from the stored plans: fetch it again whenever a
+    // computation has finished since it was loaded (also one that finished before this tab
+    // opened, e.g. right after a target upload).
+    let seenFinishedAt: string | null | undefined;
     let wasComputing = false;
     effect(() => {
+      const run = this.body()?.run;
       const computing = this.computing();
-      if (wasComputing && !computing) untracked(() => this.store.refresh());
+      if (run && !computing) {
+        const ended = wasComputing || (run.finishedAt !== null && run.finishedAt !== seenFinishedAt);
+        if (ended) untracked(() => this.store.refresh());
+        seenFinishedAt = run.finishedAt;
+      }
       wasComputing = computing;
     });
   }
