@@ -47,4 +47,13 @@ describe('computeNodeTargetPlan', () => {
     expect(r.feasible).toBe(false);
     expect(r.reasons.join(' ')).toMatch(/saturat/);
   });
+
+  it('suggests a longer exposure only where one is possible: not for a star already at its saturation limit', () => {
+    const bright = computeNodeTargetPlan({ ...target, ageMyr: 4000, ageUncertaintyMyr: 400, magnitude: { value: 10, band: 'V' } }, node, site, windowsFor(130, 20));
+    expect(bright.plan.quantities.exposureSeconds.value).toBeCloseTo(bright.plan.quantities.saturationLimitSeconds.value, 0);
+    expect(bright.suggestions.map((s) => s.kind)).not.toContain('longer_exposure');
+    const short = computeNodeTargetPlan({ ...target, magnitude: { value: 14, band: 'V' } }, node, site, windowsFor(130, 20), { exposureSeconds: 5 });
+    expect(short.plan.flags.map((f) => f.code)).toContain('precisionGoalNotReached');
+    expect(short.suggestions.find((s) => s.kind === 'longer_exposure')?.message).toMatch(/up to \d+ s/);
+  });
 });

@@ -57,8 +57,13 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
   if (plan.flags.some((f) => f.code === 'saturatesAtMinExposure')) {
     suggestions.push({ kind: 'other_node', message: 'The star saturates here even at the shortest exposure: a smaller aperture or a redder band avoids it.' });
   }
-  if (plan.flags.some((f) => f.code === 'precisionGoalNotReached') && q.exposureSeconds.value < node.maxExposureSeconds) {
-    suggestions.push({ kind: 'longer_exposure', message: `A longer exposure (up to ${node.maxExposureSeconds} s on this node) reaches the per-visit precision goal with fewer visits.` });
+  // A longer exposure is only possible below both the node's longest exposure and saturation.
+  const longestUsefulExposure = Math.min(node.maxExposureSeconds, q.saturationLimitSeconds.value);
+  if (plan.flags.some((f) => f.code === 'precisionGoalNotReached') && q.exposureSeconds.value < longestUsefulExposure * 0.95) {
+    suggestions.push({
+      kind: 'longer_exposure',
+      message: `A longer exposure (up to ${Math.floor(longestUsefulExposure)} s before ${longestUsefulExposure < node.maxExposureSeconds ? 'the star saturates' : "the node's limit"}) reaches the per-visit precision goal with fewer visits.`,
+    });
   }
   if (!sky.fits) {
     const req = requirementFromPlan(plan);

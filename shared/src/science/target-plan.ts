@@ -185,9 +185,9 @@ export interface TargetPlan {
 /**
  * Version of the plan model: raise it whenever a change makes the same inputs give different
  * numbers, so that stored plans (the server keeps them per proposal) are marked out of date.
- * 2: exposures stacked per visit.
+ * 2: exposures stacked per visit; 3: suggestions name what is possible (exposure, other node).
  */
-export const TARGET_PLAN_MODEL_VERSION = 2;
+export const TARGET_PLAN_MODEL_VERSION = 3;
 
 export const PLAN_DEFAULTS = {
   falseAlarmProbability: 0.01,
