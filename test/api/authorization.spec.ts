@@ -31,6 +31,7 @@ const PROPOSAL_ROUTES: Omit<RouteCase, 'allowed'>[] = [
   { method: 'put', path: `${P}/targets/1`, body: {} },
   { method: 'delete', path: `${P}/targets/1` },
   { method: 'get', path: `${P}/targets/1/sky?nodeId=1` },
+  { method: 'get', path: `${P}/targets/1/plan?nodeId=1` },
   { method: 'get', path: `${P}/plans` },
   { method: 'post', path: `${P}/plans/recompute` },
   { method: 'get', path: `${P}/readiness` },

@@ -37,6 +37,7 @@ const ROWS: Row[] = [
   { name: 'PUT /:id/targets/:targetId', who: 'team', call: (b, f) => b.put(`/api/proposals/${f.id}/targets/${f.targetId}`, { version: 1, target: target() }) },
   { name: 'DELETE /:id/targets/:targetId', who: 'team', call: (b, f) => b.delete(`/api/proposals/${f.id}/targets/${f.targetId}`) },
   { name: 'GET /:id/targets/:targetId/sky', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/targets/${f.targetId}/sky?nodeId=${net.nodeIds[0]}`) },
+  { name: 'GET /:id/targets/:targetId/plan', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/targets/${f.targetId}/plan?nodeId=${net.nodeIds[0]}`) },
   { name: 'GET /:id/plans', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/plans`) },
   { name: 'POST /:id/plans/recompute', who: 'team', call: (b, f) => b.post(`/api/proposals/${f.id}/plans/recompute`) },
   { name: 'GET /:id/readiness', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/readiness`) },

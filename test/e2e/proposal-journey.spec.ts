@@ -86,6 +86,14 @@ describe('a proposer’s journey', () => {
       await page.waitForLoadState('networkidle');
       await screenshot(page, 'proposal-plans');
       expect(describeViolations(await axeViolations(page))).toBe('');
+      // Every number of a plan explains itself.
+      await page.getByRole('button', { name: /^Explain/ }).first().click();
+      await page.getByRole('dialog').getByTestId('quantities').getByText('Expected rotation period').waitFor();
+      await screenshotOf(page.getByRole('dialog'), 'proposal-explain-panel');
+      expect(describeViolations(await axeViolations(page))).toBe('');
+      await page.keyboard.press('Escape');
+      await page.getByRole('dialog').waitFor({ state: 'detached' });
+
       // One click away: the sky window of the first target.
       await page.getByRole('button', { name: /Sky window/ }).first().click();
       await page.getByRole('dialog').locator('app-sky-window-chart').waitFor();

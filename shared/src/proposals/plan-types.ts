@@ -40,10 +40,46 @@ export interface TargetPlanRow {
   nodeHours: number;
   feeMinor: number;
   currency: string;
-  /** Every number of the plan, explained (for the side panel). */
-  quantities: Record<string, Explained<number | null>>;
+  /**
+   * The "why" line of the numbers shown in the plans table, by quantity key (see
+   * PLAN_TABLE_QUANTITIES); every number with its source comes from the plan's explanation.
+   */
+  why: Partial<Record<PlanTableQuantity, string>>;
   flags: ScienceFlag[];
   relationLabel: string;
+}
+
+/** The quantities the plans table shows, whose why line travels with each row. */
+export const PLAN_TABLE_QUANTITIES = [
+  'periodDays',
+  'semiAmplitudePpm',
+  'amplitudeRperPpm',
+  'perVisitPrecisionPpm',
+  'exposureSeconds',
+  'exposuresPerVisit',
+  'visits',
+  'visitsPerNight',
+  'sampleIntervalDays',
+  'nightStepDays',
+  'baselineDays',
+  'nodeHours',
+  'feeMinor',
+] as const;
+export type PlanTableQuantity = (typeof PLAN_TABLE_QUANTITIES)[number];
+
+/**
+ * Every number of one stored plan, explained (GET /api/proposals/:id/targets/:targetId/plan?nodeId=N):
+ * the side panel loads it on demand, so the plans list stays small.
+ */
+export interface PlanExplanation {
+  targetId: number;
+  targetName: string;
+  nodeId: number;
+  nodeCode: string;
+  currency: string;
+  relationLabel: string;
+  quantities: Record<string, Explained<number | null>>;
+  flags: ScienceFlag[];
 }
 
 export interface ProposalPlans {

@@ -1,5 +1,6 @@
 import type { TelescopeNode } from '@spincycle/shared/facility/facility-types';
 import { combinePlanWithSky, type NodeTargetPlan } from '@spincycle/shared/planning/node-target-plan';
+import { PLAN_TABLE_QUANTITIES } from '@spincycle/shared/proposals/plan-types';
 import type { Explained } from '@spincycle/shared/science/explained';
 import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
 import { computeTargetPlan, type TargetPlanTarget } from '@spincycle/shared/science/target-plan';
@@ -56,6 +57,7 @@ export function toPlanResult(combined: NodeTargetPlan, windows: TargetWindows): 
     nodeHours: q.nodeHours.value,
     feeMinor: q.feeMinor.value,
     currency: plan.currency,
+    why: Object.fromEntries(PLAN_TABLE_QUANTITIES.map((key) => [key, q[key].why])),
     quantities: q as unknown as Record<string, Explained<number | null>>,
     flags: plan.flags,
     relationLabel: plan.relationLabel,

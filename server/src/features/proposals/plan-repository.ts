@@ -1,9 +1,9 @@
 import type { Knex } from 'knex';
 import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
-import type { PlanRunStatus, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import type { PlanExplanation, PlanRunStatus, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 
-/** The computed part of a plan row, stored as `target_plans.result`. */
-export type StoredPlanResult = Omit<TargetPlanRow, 'targetId' | 'targetName' | 'nodeId' | 'nodeCode'>;
+/** The computed part of a plan row, stored as `target_plans.result` (with every explained number). */
+export type StoredPlanResult = Omit<TargetPlanRow, 'targetId' | 'targetName' | 'nodeId' | 'nodeCode'> & Pick<PlanExplanation, 'quantities'>;
 
 /** One row to write into `target_plans`: a result or an error. */
 export type PlanRowInsert =
@@ -101,7 +101,7 @@ interface StoredPlanDbRow {
   node_id: number;
   target_name: string;
   node_code: string;
-  result: StoredPlanResult | null;
+  result: Omit<StoredPlanResult, 'quantities'> | null;
   error: string | null;
 }
 
@@ -117,7 +117,8 @@ export async function listStoredPlans(
     .orderBy('t.position')
     .orderBy('t.id')
     .orderBy('n.code')
-    .select('tp.target_id', 'tp.node_id', 't.name as target_name', 'n.code as node_code', 'tp.result', 'tp.error');
+    // The explained numbers (~90 % of each result) stay in the database: the side panel asks for them.
+    .select('tp.target_id', 'tp.node_id', 't.name as target_name', 'n.code as node_code', db.raw("(tp.result::jsonb - 'quantities') AS result"), 'tp.error');
   const plans: TargetPlanRow[] = [];
   const errors: { targetId: number; nodeId: number; message: string }[] = [];
   for (const r of rows) {
@@ -125,6 +126,28 @@ export async function listStoredPlans(
     else errors.push({ targetId: r.target_id, nodeId: r.node_id, message: r.error ?? 'not computed' });
   }
   return { plans, errors };
+}
+
+/** Every explained number of one stored plan, or undefined when there is none (not computed, or an error row). */
+export async function findPlanExplanation(db: Knex, proposalId: number, targetId: number, nodeId: number): Promise<PlanExplanation | undefined> {
+  const row = await db('target_plans as tp')
+    .join('targets as t', 't.id', 'tp.target_id')
+    .join('nodes as n', 'n.id', 'tp.node_id')
+    .where({ 'tp.proposal_id': proposalId, 'tp.target_id': targetId, 'tp.node_id': nodeId })
+    .whereNotNull('tp.result')
+    .first('t.name as target_name', 'n.code as node_code', 'tp.result');
+  if (!row) return undefined;
+  const result = row.result as StoredPlanResult;
+  return {
+    targetId,
+    targetName: row.target_name,
+    nodeId,
+    nodeCode: row.node_code,
+    currency: result.currency,
+    relationLabel: result.relationLabel,
+    quantities: result.quantities,
+    flags: result.flags,
+  };
 }
 
 /** Per requested node: totals of the stored plans on it (nodes without plans give zeros). */

@@ -1,3 +1,4 @@
+import { PLAN_TABLE_QUANTITIES } from '@spincycle/shared/proposals/plan-types';
 import { startPlanWorker } from '../../jobs/plan-worker';
 import { startHarness, type Harness } from '../../../../test/support/api-harness';
 import { createTestNetwork, proposerWithDraft, target, type TestNetwork } from '../../../../test/api/support/proposal-kit';
@@ -17,7 +18,7 @@ afterAll(async () => {
 const TARGET_PLAN_ROW_KEYS = [
   'targetId', 'targetName', 'nodeId', 'nodeCode', 'feasible', 'reasons', 'suggestions', 'skyVerdict', 'periodDays', 'shortestPeriodDays',
   'longestPeriodDays', 'amplitudePpm', 'perVisitPrecisionPpm', 'exposureSeconds', 'visits', 'visitsPerNight', 'cadenceDays', 'baselineDays',
-  'usableNights', 'nodeHours', 'feeMinor', 'currency', 'quantities', 'flags', 'relationLabel',
+  'usableNights', 'nodeHours', 'feeMinor', 'currency', 'why', 'flags', 'relationLabel',
 ].sort();
 
 async function draftWithTargets(names: string[], nodeIds = [net.nodeIds[0], net.nodeIds[2]], extra: Parameters<typeof target>[0] = {}) {
@@ -49,9 +50,16 @@ describe('plan service called in-process', () => {
     expect(Number.isInteger(first.feeMinor)).toBe(true);
     expect(first.shortestPeriodDays).toBeLessThan(first.periodDays);
     expect(first.longestPeriodDays).toBeGreaterThan(first.periodDays);
-    // quantities is the plan's map of explained numbers.
-    expect(first.quantities.periodDays).toEqual({ value: first.periodDays, unit: 'd', why: expect.any(String), source: expect.any(String), tag: expect.any(String) });
-    expect(first.quantities.nodeHours.value).toBe(first.nodeHours);
+    // The list carries the why lines of the table's numbers; the explanation carries every number.
+    expect(Object.keys(first.why).sort()).toEqual([...PLAN_TABLE_QUANTITIES].sort());
+    const explained = await browser.get(`/api/proposals/${proposal.id}/targets/${first.targetId}/plan?nodeId=${first.nodeId}`);
+    expect(explained.status).toBe(200);
+    expect(explained.body).toMatchObject({ targetId: first.targetId, nodeId: first.nodeId, targetName: 'Star P-1', currency: 'eur', relationLabel: first.relationLabel });
+    expect(explained.body.quantities.periodDays).toEqual({ value: first.periodDays, unit: 'd', why: first.why.periodDays, source: expect.any(String), tag: expect.any(String) });
+    expect(explained.body.quantities.nodeHours.value).toBe(first.nodeHours);
+    expect(Object.keys(explained.body.quantities).length).toBeGreaterThan(30);
+    // Not computed (another node of the cycle, not requested) → 404.
+    expect((await browser.get(`/api/proposals/${proposal.id}/targets/${first.targetId}/plan?nodeId=${net.nodeIds[1]}`)).status).toBe(404);
     // Ordered by list position, then node code.
     expect(res.body.plans.map((p: { targetName: string }) => p.targetName)).toEqual(['Star P-1', 'Star P-1', 'Star P-2', 'Star P-2', 'Star P-3', 'Star P-3']);
 

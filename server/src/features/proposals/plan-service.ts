@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
 import { combinePlanWithSky, requirementFromPlan } from '@spincycle/shared/planning/node-target-plan';
-import type { PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
+import type { PlanExplanation, PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
 import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
 import { computeTargetPlan } from '@spincycle/shared/science/target-plan';
 import { SkyInputError, toSkyWindowsReport, type SkyWindowsReport } from '@spincycle/shared/sky/index';
@@ -16,6 +16,7 @@ import { loadPlanInputs, planInputsHash } from './plan-inputs';
 import {
   failPlanRun,
   findPlanRun,
+  findPlanExplanation,
   finishPlanRun,
   listStoredPlans,
   replaceTargetPlans,
@@ -129,6 +130,14 @@ export async function recomputeProposalPlans(ctx: AppContext, viewer: SessionUse
   });
   await queuePlanComputations(ctx, [id]);
   return planRunStatusOf(ctx.db, id);
+}
+
+/** GET /api/proposals/:id/targets/:targetId/plan?nodeId=N: every number of the stored plan, explained. */
+export async function getPlanExplanation(ctx: AppContext, viewer: SessionUser, id: number, targetId: number, nodeId: number): Promise<PlanExplanation> {
+  await accessProposal(ctx.db, viewer, id);
+  const explanation = await findPlanExplanation(ctx.db, id, targetId, nodeId);
+  if (!explanation) throw new AppError('plan_not_found', `No computed plan of target ${targetId} on node ${nodeId} in proposal ${id}`, 404);
+  return explanation;
 }
 
 /**

@@ -46,6 +46,7 @@ export function createProposalRoutes(ctx: AppContext): Router {
   router.put('/:id/targets/:targetId', targets.update);
   router.delete('/:id/targets/:targetId', targets.remove);
   router.get('/:id/targets/:targetId/sky', plans.sky);
+  router.get('/:id/targets/:targetId/plan', plans.explanation);
 
   router.get('/:id/plans', plans.plans);
   router.post('/:id/plans/recompute', plans.recompute);

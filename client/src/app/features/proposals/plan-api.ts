@@ -1,6 +1,6 @@
 import { HttpClient, httpResource } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
-import type { PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
+import type { PlanExplanation, PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
 import type { SkyWindowsReport } from '@spincycle/shared/sky/sky-windows-report';
 import { Observable } from 'rxjs';
 
@@ -27,6 +27,16 @@ export class PlanApi {
   /** POST /api/proposals/:id/plans/recompute → the queued run. */
   recompute(proposalId: number): Observable<PlanRunStatus> {
     return this.http.post<PlanRunStatus>(`/api/proposals/${proposalId}/plans/recompute`, null);
+  }
+
+  /** GET /api/proposals/:id/targets/:targetId/plan?nodeId=N: every number of one stored plan, explained. */
+  explanationResource(query: () => SkyWindowQuery | null) {
+    return httpResource<PlanExplanation>(() => {
+      const q = query();
+      return q === null
+        ? undefined
+        : { url: `/api/proposals/${q.proposalId}/targets/${q.targetId}/plan`, params: { nodeId: q.nodeId } };
+    });
   }
 
   /** GET /api/proposals/:id/targets/:targetId/sky?nodeId=N: one target's sky window, night by night. */

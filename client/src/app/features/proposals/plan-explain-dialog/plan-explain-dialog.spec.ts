@@ -19,3 +19,44 @@ describe('explainRows', () => {
     expect(rows[3]).toEqual(expect.objectContaining({ unit: '', tagLabel: 'our choice' }));
   });
 });
+
+describe('PlanExplainDialog', () => {
+  it('loads every number of the plan when it opens, and says so when that fails', async () => {
+    const { TestBed } = await import('@angular/core/testing');
+    const { provideHttpClient } = await import('@angular/common/http');
+    const { HttpTestingController, provideHttpClientTesting } = await import('@angular/common/http/testing');
+    const { MAT_DIALOG_DATA } = await import('@angular/material/dialog');
+    const { PlanExplainDialog } = await import('./plan-explain-dialog');
+    const { testPlanRow } = await import('../testing/fixtures');
+    TestBed.configureTestingModule({
+      imports: [PlanExplainDialog],
+      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(3, 1) } }],
+    });
+    const backend = TestBed.inject(HttpTestingController);
+    const fixture = TestBed.createComponent(PlanExplainDialog);
+    TestBed.tick();
+    const req = backend.expectOne((r) => r.url === '/api/proposals/5/targets/3/plan' && r.params.get('nodeId') === '1');
+    expect((fixture.nativeElement as HTMLElement).querySelector('mat-progress-bar')).not.toBeNull();
+    req.flush({
+      targetId: 3, targetName: 'Lantern 3', nodeId: 1, nodeCode: 'KRG-50', currency: 'eur', relationLabel: 'Barnes (2007)', flags: [],
+      quantities: { periodDays: { value: 10.2, unit: 'd', why: 'Expected period.', source: 'Barnes (2007), ApJ 669, 1167, eqs. 1–3', tag: 'paper' } },
+    });
+    await fixture.whenStable();
+    const text = (fixture.nativeElement as HTMLElement).querySelector('[data-testid=quantities]')!.textContent!;
+    expect(text).toContain('Expected rotation period');
+    expect(text).toContain('Barnes (2007), ApJ 669, 1167');
+    backend.verify();
+
+    TestBed.resetTestingModule();
+    TestBed.configureTestingModule({
+      imports: [PlanExplainDialog],
+      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(4, 1) } }],
+    });
+    const backend2 = TestBed.inject(HttpTestingController);
+    const failing = TestBed.createComponent(PlanExplainDialog);
+    TestBed.tick();
+    backend2.expectOne((r) => r.url === '/api/proposals/5/targets/4/plan').flush({ code: 'plan_not_found', message: 'No computed plan' }, { status: 404, statusText: 'Not Found' });
+    await failing.whenStable();
+    expect((failing.nativeElement as HTMLElement).querySelector('[role=alert]')?.textContent).toMatch(/could not be loaded.*No computed plan/);
+  });
+});

@@ -4,6 +4,9 @@ import { MAT_DIALOG_DATA, MatDialogActions, MatDialogClose, MatDialogContent, Ma
 import { MatIcon } from '@angular/material/icon';
 import type { TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { Explained, SourceTag } from '@spincycle/shared/science/explained';
+import { MatProgressBar } from '@angular/material/progress-bar';
+import { readApiError } from '../../../core/http/api-error-message';
+import { PlanApi } from '../plan-api';
 import { QUANTITY_LABELS, SOURCE_TAG_LABELS } from '@spincycle/shared/science/quantity-labels';
 
 
@@ -47,12 +50,32 @@ export function explainRows(quantities: Record<string, Explained<number | null>>
 @Component({
   selector: 'app-plan-explain-dialog',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [MatButton, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle, MatIcon],
+  imports: [MatButton, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle, MatIcon, MatProgressBar],
   templateUrl: './plan-explain-dialog.html',
   styleUrl: './plan-explain-dialog.scss',
 })
 export class PlanExplainDialog {
-  protected readonly row = inject<TargetPlanRow>(MAT_DIALOG_DATA);
+  private readonly data = inject<PlanExplainData>(MAT_DIALOG_DATA);
+  protected readonly row = this.data.row;
   private readonly locale = inject(LOCALE_ID);
-  protected readonly rows = computed(() => explainRows(this.row.quantities, this.locale, this.row.currency));
+  /** The explained numbers are loaded when the panel opens (the plans list leaves them out). */
+  protected readonly explanation = inject(PlanApi).explanationResource(() => ({
+    proposalId: this.data.proposalId,
+    targetId: this.row.targetId,
+    nodeId: this.row.nodeId,
+  }));
+  protected readonly rows = computed(() => {
+    const explanation = this.explanation.hasValue() ? this.explanation.value() : undefined;
+    return explanation ? explainRows(explanation.quantities, this.locale, explanation.currency) : [];
+  });
+  protected readonly loadError = computed(() => {
+    const error = this.explanation.error();
+    return error ? `The numbers could not be loaded. ${readApiError(error).message}` : null;
+  });
+}
+
+/** What the plans table passes to the side panel. */
+export interface PlanExplainData {
+  proposalId: number;
+  row: TargetPlanRow;
 }

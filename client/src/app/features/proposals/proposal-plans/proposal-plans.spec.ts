@@ -94,7 +94,7 @@ describe('ProposalPlans', () => {
     it('the explain button opens the side panel with the row; the sky window button names target and node', () => {
       const buttons = Array.from(el().querySelectorAll('td.actions button')) as HTMLButtonElement[];
       buttons[0].click();
-      expect(dialogOpen.mock.calls[0][1].data).toEqual(expect.objectContaining({ targetId: 1, nodeId: 1 }));
+      expect(dialogOpen.mock.calls[0][1].data).toEqual({ proposalId: 5, row: expect.objectContaining({ targetId: 1, nodeId: 1 }) });
       buttons[3].click();
       expect(dialogOpen.mock.calls[1][1].data).toEqual(
         expect.objectContaining({ proposalId: 5, targetId: 2, nodeId: 1, targetName: 'Lantern 2', nodes: [{ nodeId: 1, nodeCode: 'KRG-50' }] }),

@@ -25,7 +25,7 @@ import {
   MatTable,
 } from '@angular/material/table';
 import { MatTooltip } from '@angular/material/tooltip';
-import type { ProposalPlans as ProposalPlansBody, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import type { PlanTableQuantity, ProposalPlans as ProposalPlansBody, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
 import { debounceTime, map, startWith } from 'rxjs';
 import { readApiError } from '../../../core/http/api-error-message';
@@ -35,7 +35,7 @@ import { MinorCurrencyPipe } from '../../../ui/units/minor-currency-pipe';
 import { ClusterChart, ClusterPointSelection } from '../cluster-chart/cluster-chart';
 import { sharedAgeMyr } from '../cluster-chart/cluster-curves';
 import { PlanApi } from '../plan-api';
-import { PlanExplainDialog } from '../plan-explain-dialog/plan-explain-dialog';
+import { PlanExplainDialog, type PlanExplainData } from '../plan-explain-dialog/plan-explain-dialog';
 import { ProposalStore } from '../proposal-store';
 import { SkyWindowDialog, SkyWindowDialogData } from '../sky-window-dialog/sky-window-dialog';
 import { TargetApi } from '../target-api';
@@ -63,12 +63,12 @@ const COLUMNS = [
 /** The quantity whose "why" a cell's tooltip shows. */
 export const CELL_QUANTITY: Readonly<Record<string, string>> = {
   period: 'periodDays',
-  amplitude: 'semiAmplitudePpm',
+  amplitude: 'amplitudeRperPpm',
   precision: 'perVisitPrecisionPpm',
   exposure: 'exposureSeconds',
   visits: 'visits',
   visitsPerNight: 'visitsPerNight',
-  cadence: 'sampleIntervalDays',
+  cadence: 'nightStepDays',
   baseline: 'baselineDays',
   nodeHours: 'nodeHours',
   fee: 'feeMinor',
@@ -274,12 +274,12 @@ export default class ProposalPlans {
 
   protected why(row: TargetPlanRow, column: string): string {
     const key = CELL_QUANTITY[column];
-    return (key && row.quantities[key]?.why) || '';
+    return (key && row.why[key as PlanTableQuantity]) || '';
   }
 
   protected explain(row: TargetPlanRow): void {
     this.dialog.open(PlanExplainDialog, {
-      data: row,
+      data: { proposalId: this.store.id()!, row } satisfies PlanExplainData,
       position: { right: '0', top: '0' },
       height: '100vh',
       width: 'min(560px, 100vw)',

@@ -129,9 +129,9 @@ export function testPlanRow(targetId: number, nodeId: number, overrides: Partial
     nodeHours: 4,
     feeMinor: 19400,
     currency: 'eur',
-    quantities: {
-      periodDays: { value: 10.2, unit: 'd', why: 'Expected period at this colour and age.', source: 'Barnes (2007), ApJ 669, 1167, eqs. 1–3', tag: 'paper' },
-      visits: { value: 120, unit: '1', why: 'The larger of the detection and cadence needs.', source: "Spincycle's choice, no source", tag: 'choice' },
+    why: {
+      periodDays: 'Expected period at this colour and age.',
+      visits: 'The larger of the detection and cadence needs.',
     },
     flags: [],
     relationLabel: 'Barnes (2007)',
