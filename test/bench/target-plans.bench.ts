@@ -1,31 +1,11 @@
 /** Target plans: 500 targets on 3 nodes (1500 plans). Target: ≤ 300 ms in total. */
 import type { NodeSpec, SiteSpec } from '../../shared/src/facility/facility-types';
+import { TYPICAL_NODE, TYPICAL_SITE } from '../../shared/src/cli/typical-node';
 import { type TargetPlanTarget, computeTargetPlan, seededRandom } from '../../shared/src/science/index';
 
-const BASE: NodeSpec = {
-  apertureM: 0.5,
-  obstructionFraction: 0.4,
-  throughput: 0.45,
-  band: 'V',
-  readNoiseE: 9,
-  darkCurrentEPerS: 0.02,
-  gainEPerAdu: 1.4,
-  saturationE: 50000,
-  pixelScaleArcsec: 0.75,
-  seeingFwhmArcsec: 2,
-  systematicFloorMmag: 1,
-  scintillationModel: 'young1967',
-  overheadSeconds: 45,
-  minExposureSeconds: 2,
-  maxExposureSeconds: 300,
-  altitudeLimitDeg: 30,
-  sunAltitudeLimitDeg: -12,
-  weatherLossFraction: 0.3,
-  rateMinorPerHour: 6000,
-  currency: 'eur',
-};
+const BASE: NodeSpec = TYPICAL_NODE;
 const NODES: Array<{ node: NodeSpec; site: SiteSpec }> = [
-  { node: BASE, site: { latitudeDeg: 30, longitudeDeg: -70, elevationM: 2000, timeZone: 'UTC', skyBrightnessMagPerArcsec2: 21.3 } },
+  { node: BASE, site: TYPICAL_SITE },
   {
     node: { ...BASE, apertureM: 0.4, band: 'R', scintillationModel: 'osborn2015', weatherLossFraction: 0.45, rateMinorPerHour: 4500 },
     site: { latitudeDeg: -25, longitudeDeg: 20, elevationM: 1200, timeZone: 'UTC', skyBrightnessMagPerArcsec2: 20.8 },

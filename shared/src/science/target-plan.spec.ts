@@ -2,30 +2,11 @@ import fc from 'fast-check';
 import type { NodeSpec, SiteSpec } from '../facility/facility-types';
 import { ScienceInputError } from './science-input-error';
 import { PLAN_DEFAULTS, type TargetPlanTarget, computeTargetPlan, defaultRelationFor } from './target-plan';
+import { TYPICAL_NODE, TYPICAL_SITE } from '../cli/typical-node';
 
-const NODE: NodeSpec = {
-  apertureM: 0.5,
-  obstructionFraction: 0.4,
-  throughput: 0.45,
-  band: 'V',
-  readNoiseE: 9,
-  darkCurrentEPerS: 0.02,
-  gainEPerAdu: 1.4,
-  saturationE: 50000,
-  pixelScaleArcsec: 0.75,
-  seeingFwhmArcsec: 2,
-  systematicFloorMmag: 1,
-  scintillationModel: 'young1967',
-  overheadSeconds: 45,
-  minExposureSeconds: 2,
-  maxExposureSeconds: 300,
-  altitudeLimitDeg: 30,
-  sunAltitudeLimitDeg: -12,
-  weatherLossFraction: 0.3,
-  rateMinorPerHour: 6000,
-  currency: 'eur',
-};
-const SITE: SiteSpec = { latitudeDeg: 30, longitudeDeg: -70, elevationM: 2000, timeZone: 'UTC', skyBrightnessMagPerArcsec2: 21.3 };
+// The command line's typical 0.5 m node (illustrative values).
+const NODE: NodeSpec = TYPICAL_NODE;
+const SITE: SiteSpec = TYPICAL_SITE;
 const STAR: TargetPlanTarget = {
   name: 'Star A-17',
   colour: { value: 1.1, system: 'BPRP' },

@@ -11,30 +11,11 @@ import {
   scintillationYoung1967,
   validateNodeSpec,
 } from './visit-precision';
+import { TYPICAL_NODE, TYPICAL_SITE } from '../cli/typical-node';
 
-const NODE: NodeSpec = {
-  apertureM: 0.5,
-  obstructionFraction: 0.4,
-  throughput: 0.45,
-  band: 'V',
-  readNoiseE: 9,
-  darkCurrentEPerS: 0.02,
-  gainEPerAdu: 1.4,
-  saturationE: 50000,
-  pixelScaleArcsec: 0.75,
-  seeingFwhmArcsec: 2,
-  systematicFloorMmag: 1,
-  scintillationModel: 'young1967',
-  overheadSeconds: 45,
-  minExposureSeconds: 2,
-  maxExposureSeconds: 300,
-  altitudeLimitDeg: 30,
-  sunAltitudeLimitDeg: -12,
-  weatherLossFraction: 0.3,
-  rateMinorPerHour: 6000,
-  currency: 'eur',
-};
-const SITE: SiteSpec = { latitudeDeg: 30, longitudeDeg: -70, elevationM: 2000, timeZone: 'UTC', skyBrightnessMagPerArcsec2: 21.3 };
+// The command line's typical 0.5 m node (illustrative values).
+const NODE: NodeSpec = TYPICAL_NODE;
+const SITE: SiteSpec = TYPICAL_SITE;
 
 describe('airmassKastenYoung', () => {
   it('is 1.9943 at 30° and 0.9997 at 90° (SCIENCE.md §8 #9, [derived] from Kasten & Young 1989 — formula from memory)', () => {
