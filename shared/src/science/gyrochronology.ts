@@ -335,26 +335,7 @@ export function predictPeriod(input: PeriodPredictionInput): PeriodPrediction {
   const periodDays = Math.exp(lnP0);
 
   flags.push(...calibrationFlags(relation, x, ageMyr));
-  let rossby: GyroRossby | null = null;
-  try {
-    const tau = turnoverTimeForColour(colour, scale);
-    const { flags: tauFlags, ...tauRest } = tau;
-    rossby = { ...tauRest, rossby: periodDays / tau.tauDays, periodDays };
-    flags.push(...tauFlags);
-    if (rossby.rossby > roCrit) {
-      flags.push(
-        flag(
-          'weakenedBraking',
-          'caution',
-          `Ro = ${fmt(rossby.rossby)} (${tau.scaleLabel} τ) exceeds ≈ ${roCrit}: magnetic braking weakens there, so the period may be shorter than predicted`,
-          VAN_SADERS,
-        ),
-      );
-    }
-  } catch (err) {
-    if (!(err instanceof ScienceInputError)) throw err;
-    flags.push(flag('rossbyUnavailable', 'info', `no Rossby number: ${err.reason}`));
-  }
+  const rossby = rossbyWithFlags(colour, scale, periodDays, roCrit, flags, 'magnetic braking weakens there, so the period may be shorter than predicted');
 
   return {
     relation,
@@ -469,26 +450,7 @@ function finishAge(
   roCrit: number,
 ): AgeEstimate {
   flags.push(...calibrationFlags(relation, relationColour.value, ageMyr));
-  let rossby: GyroRossby | null = null;
-  try {
-    const tau = turnoverTimeForColour(colour, scale);
-    const { flags: tauFlags, ...tauRest } = tau;
-    rossby = { ...tauRest, rossby: periodDays / tau.tauDays, periodDays };
-    flags.push(...tauFlags);
-    if (rossby.rossby > roCrit) {
-      flags.push(
-        flag(
-          'weakenedBraking',
-          'caution',
-          `Ro = ${fmt(rossby.rossby)} (${tau.scaleLabel} τ) exceeds ≈ ${roCrit}: braking weakens there, so the star may be older than this age`,
-          VAN_SADERS,
-        ),
-      );
-    }
-  } catch (err) {
-    if (!(err instanceof ScienceInputError)) throw err;
-    flags.push(flag('rossbyUnavailable', 'info', `no Rossby number: ${err.reason}`));
-  }
+  const rossby = rossbyWithFlags(colour, scale, periodDays, roCrit, flags, 'braking weakens there, so the star may be older than this age');
   return {
     relation,
     relationLabel: info.label,
@@ -637,4 +599,33 @@ function quadrature(values: number[]): number {
   let s = 0;
   for (const v of values) s += v * v;
   return Math.sqrt(s);
+}
+
+/**
+ * The Rossby number of a star at a period on a τ scale, with its flags: the τ scale's own, and
+ * van Saders et al. (2016)'s weakened braking past `roCrit` (`consequence` says what it means
+ * for the caller's result). A colour outside the τ scale gives no Rossby number, and says why.
+ */
+function rossbyWithFlags(
+  colour: ResolvedColour,
+  scale: TurnoverScale,
+  periodDays: number,
+  roCrit: number,
+  flags: ScienceFlag[],
+  consequence: string,
+): GyroRossby | null {
+  try {
+    const tau = turnoverTimeForColour(colour, scale);
+    const { flags: tauFlags, ...tauRest } = tau;
+    const rossby: GyroRossby = { ...tauRest, rossby: periodDays / tau.tauDays, periodDays };
+    flags.push(...tauFlags);
+    if (rossby.rossby > roCrit) {
+      flags.push(flag('weakenedBraking', 'caution', `Ro = ${fmt(rossby.rossby)} (${tau.scaleLabel} τ) exceeds ≈ ${roCrit}: ${consequence}`, VAN_SADERS));
+    }
+    return rossby;
+  } catch (err) {
+    if (!(err instanceof ScienceInputError)) throw err;
+    flags.push(flag('rossbyUnavailable', 'info', `no Rossby number: ${err.reason}`));
+    return null;
+  }
 }
