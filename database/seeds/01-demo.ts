@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { addDays, formatISO, startOfDay } from 'date-fns';
+import { insertAccount } from '../../server/src/features/accounts/account-repository';
 import { hashPassword } from '../../server/src/features/auth/password-hash';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../demo-accounts';
 
@@ -15,13 +16,7 @@ export async function seed(knex: Knex): Promise<void> {
 
     const passwordHash = await hashPassword(DEMO_PASSWORD);
     const accountIds: Record<string, number> = {};
-    for (const a of DEMO_ACCOUNTS) {
-      const [row] = await trx('accounts')
-        .insert({ email: a.email, display_name: a.displayName, affiliation: a.affiliation, password_hash: passwordHash })
-        .returning('id');
-      accountIds[a.email] = row.id;
-      await trx('account_roles').insert(a.roles.map((role) => ({ account_id: row.id, role })));
-    }
+    for (const a of DEMO_ACCOUNTS) accountIds[a.email] = await insertAccount(trx, { ...a, passwordHash });
 
     const sites = await trx('sites')
       .insert([

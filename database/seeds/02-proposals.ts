@@ -7,8 +7,12 @@ import type { TargetValues } from '../../shared/src/proposals/target-schemas';
 // The server's pg type parsers (DATE as text, NUMERIC and BIGINT as numbers) must apply to the
 // seed's queries too: the plan service reads the cycle's campaign dates through them.
 import '../../server/src/db/knex';
+import { findAccountByEmail, insertAccount } from '../../server/src/features/accounts/account-repository';
+import { hashLinkToken } from '../../server/src/features/auth/link-token';
 import { hashPassword } from '../../server/src/features/auth/password-hash';
 import { computeAndStoreProposalPlans } from '../../server/src/features/proposals/plan-service';
+import { insertPiMember } from '../../server/src/features/proposals/proposal-repository';
+import { insertTargets } from '../../server/src/features/proposals/target-repository';
 import { DEMO_PASSWORD } from '../demo-accounts';
 
 /**
@@ -29,7 +33,7 @@ const LANTERN = { raDeg: 163.2, decDeg: 31.6, ageMyr: 650, ageErrMyr: 60, distan
 const SECOND_PROPOSER = { email: 'rhea.tallowmere@halcyon.example', displayName: 'Rhea Tallowmere', affiliation: 'Tallowmere Rooftop Observatory' };
 
 /** Cluster members: colours spread from late F to early M, V from the dwarf sequence's Mv at one distance. */
-export function lanternMembers(count = 60): TargetValues[] {
+function lanternMembers(count = 60): TargetValues[] {
   const r = seededRandom(650);
   return Array.from({ length: count }, (_, i) => {
     const bpRp = Number((0.7 + (1.8 * i) / (count - 1) + r.uniform(-0.02, 0.02)).toFixed(3));
@@ -136,27 +140,6 @@ function justificationPdf(title: string): Promise<Buffer> {
   return done;
 }
 
-async function insertTargets(knex: Knex, proposalId: number, targets: TargetValues[]): Promise<void> {
-  await knex('targets').insert(
-    targets.map((t, i) => ({
-      proposal_id: proposalId,
-      position: i + 1,
-      name: t.name,
-      ra_deg: t.raDeg,
-      dec_deg: t.decDeg,
-      magnitude: t.magnitude,
-      magnitude_band: t.magnitudeBand,
-      colour: t.colour,
-      colour_system: t.colourSystem,
-      reddening_ebv: t.reddeningEbv,
-      age_myr: t.ageMyr,
-      age_uncertainty_myr: t.ageUncertaintyMyr,
-      period_precision_days: t.periodPrecisionDays,
-      notes: t.notes,
-    })),
-  );
-}
-
 /** Loads the demo proposals (see the file comment). */
 export async function seed(db: Knex): Promise<void> {
   // One transaction: the demo data is there completely or not at all.
@@ -168,16 +151,10 @@ async function seedProposals(knex: Knex): Promise<void> {
   const cycle = await knex('cycles').orderBy('call_opens_at', 'desc').first();
   if (!cycle) throw new Error('02-proposals needs the open cycle of 01-demo');
   const nodeId: Record<string, number> = Object.fromEntries((await knex('nodes').select('id', 'code')).map((n: { id: number; code: string }) => [n.code, n.id]));
-  const accountId = async (email: string): Promise<number> => (await knex('accounts').whereRaw('lower(email) = lower(?)', [email]).first('id')).id;
-
-  let rheaId = (await knex('accounts').whereRaw('lower(email) = lower(?)', [SECOND_PROPOSER.email]).first('id'))?.id as number | undefined;
-  if (!rheaId) {
-    [{ id: rheaId }] = await knex('accounts')
-      .insert({ email: SECOND_PROPOSER.email, display_name: SECOND_PROPOSER.displayName, affiliation: SECOND_PROPOSER.affiliation, password_hash: await hashPassword(DEMO_PASSWORD) })
-      .returning('id');
-    await knex('account_roles').insert({ account_id: rheaId, role: 'proposer' });
-  }
-  const maraId = await accountId('proposer@halcyon.example');
+  const rheaId =
+    (await findAccountByEmail(knex, SECOND_PROPOSER.email))?.id ??
+    (await insertAccount(knex, { ...SECOND_PROPOSER, passwordHash: await hashPassword(DEMO_PASSWORD), roles: ['proposer'] }));
+  const maraId = (await findAccountByEmail(knex, 'proposer@halcyon.example'))!.id;
 
   const createProposal = async (input: {
     pi: { id: number; email: string };
@@ -191,18 +168,18 @@ async function seedProposals(knex: Knex): Promise<void> {
     const [{ id }] = await knex('proposals')
       .insert({ cycle_id: cycle.id, pi_account_id: input.pi.id, title: input.title, abstract: input.abstract, category: input.category })
       .returning('id');
-    await knex('proposal_members').insert({ proposal_id: id, account_id: input.pi.id, email: input.pi.email, role: 'pi', invited_by: input.pi.id, accepted_at: knex.fn.now() });
+    await insertPiMember(knex, id, input.pi);
     for (const c of input.coInvestigators ?? []) {
       await knex('proposal_members').insert({ proposal_id: id, account_id: c.id, email: c.email, role: 'coi', invited_by: input.pi.id, accepted_at: knex.fn.now() });
     }
     await knex('proposal_nodes').insert(input.nodes.map((code) => ({ proposal_id: id, node_id: nodeId[code] })));
-    await insertTargets(knex, id, input.targets);
+    await insertTargets(knex, id, input.targets, 0);
     await computeAndStoreProposalPlans(knex, id);
     return id;
   };
 
   const mara = { id: maraId, email: 'proposer@halcyon.example' };
-  const rhea = { id: rheaId!, email: SECOND_PROPOSER.email };
+  const rhea = { id: rheaId, email: SECOND_PROPOSER.email };
 
   const lanternTitle = 'Lantern cluster rotation survey';
   const lanternId = await createProposal({
@@ -221,7 +198,7 @@ async function seedProposals(knex: Knex): Promise<void> {
     proposal_id: lanternId,
     email: 'ansel.prewitt@halcyon.example',
     role: 'coi',
-    invite_token_hash: createHash('sha256').update(`demo-invitation-${lanternId}`).digest('hex'),
+    invite_token_hash: hashLinkToken(`demo-invitation-${lanternId}`),
     invited_by: maraId,
   });
   const pdf = await justificationPdf(lanternTitle);

@@ -18,11 +18,7 @@ export async function step(label, fn) {
   return result;
 }
 
-function sha256(...parts) {
-  const h = createHash('sha256');
-  for (const p of parts) h.update(p);
-  return h.digest('hex');
-}
+const sha256 = (data) => createHash('sha256').update(data).digest('hex');
 
 /** `npm ci` when node_modules is missing or was installed from another package-lock.json. */
 export function ensureDependencies() {

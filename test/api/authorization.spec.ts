@@ -1,4 +1,4 @@
-import type { Role } from '@spincycle/shared/accounts/roles';
+import { ROLES, type Role } from '@spincycle/shared/accounts/roles';
 import { Browser, signedIn, startHarness, type Harness } from '../support/api-harness';
 
 /**
@@ -40,7 +40,7 @@ const PROPOSAL_ROUTES: Omit<RouteCase, 'allowed'>[] = [
   { method: 'get', path: `${P}/summary.pdf` },
 ];
 
-const ALL_ROLES: Role[] = ['proposer', 'reviewer', 'facility_manager', 'billing_contact', 'administrator'];
+const ALL_ROLES: Role[] = [...ROLES];
 
 const ROUTES: RouteCase[] = [
   { method: 'get', path: '/api/nodes', allowed: 'signed-in' },

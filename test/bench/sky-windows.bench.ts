@@ -2,9 +2,10 @@
  * Sky windows: 1000 targets × 3 sites × 180 nights with the fast path (target ≤ 1 s on one
  * core), beside astropy doing a small sample of the same work on a 1-minute grid, extrapolated.
  */
-import { spawnSync } from 'node:child_process';
+import { seededRandom } from '../../shared/src/science/seeded-random';
 import { computeSkyWindows } from '../../shared/src/sky/sky-windows';
 import type { SkySite, SkyTarget } from '../../shared/src/sky/sky-types';
+import { runAstropyOracle } from '../reference/astropy-oracle';
 
 const SITES: SkySite[] = [
   { latitudeDeg: 31.96, longitudeDeg: -111.6, elevationM: 2096, timeZone: 'America/Phoenix' },
@@ -14,17 +15,13 @@ const SITES: SkySite[] = [
 const CAMPAIGN = { firstNight: '2025-01-01', lastNight: '2025-06-29' }; // 180 nights
 const LIMITS = { altitudeLimitDeg: 30, moonSeparationMinDeg: 30 };
 
-/** Seeded uniform targets over the sphere (LCG, Numerical Recipes constants). */
+/** Seeded uniform targets over the sphere. */
 function randomTargets(count: number, seed: number): SkyTarget[] {
-  let s = seed >>> 0;
-  const next = () => {
-    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-    return s / 2 ** 32;
-  };
+  const r = seededRandom(seed);
   return Array.from({ length: count }, (_, i) => ({
     name: `B${i}`,
-    raDeg: next() * 360,
-    decDeg: (Math.asin(2 * next() - 1) * 180) / Math.PI,
+    raDeg: r.uniform(0, 360),
+    decDeg: (Math.asin(r.uniform(-1, 1)) * 180) / Math.PI,
   }));
 }
 
@@ -106,12 +103,11 @@ export default async function benchSkyWindows(): Promise<void> {
     ra: sampleTargets.map((t) => t.raDeg),
     dec: sampleTargets.map((t) => t.decDeg),
   };
-  const run = spawnSync('/usr/bin/python3', ['-c', ASTROPY_SAMPLE], { input: JSON.stringify(request), encoding: 'utf8' });
   let sample: AstropySample;
   try {
-    sample = JSON.parse(run.stdout.trim().split('\n').pop() ?? '') as AstropySample;
-  } catch {
-    console.log(`astropy sample not run: ${run.error?.message ?? run.stderr.trim().split('\n').pop() ?? 'no output'}`);
+    sample = runAstropyOracle<AstropySample>(request, ['-c', ASTROPY_SAMPLE]);
+  } catch (err) {
+    console.log(`astropy sample not run: ${((err as Error).message.trim().split('\n').pop() ?? '').slice(0, 300)}`);
     return;
   }
   const sunScale = (3 * 180) / (1 * 5); // site-nights

@@ -15,7 +15,7 @@ describe('each demo account', () => {
     const { context, page } = await newPage(browser);
     try {
       await signIn(page, account.email);
-      await expect(page.getByRole('heading', { level: 1 })).toBeTruthy();
+      await page.getByRole('heading', { level: 1 }).first().waitFor();
       await page.getByText(account.displayName).first().waitFor();
       // The open demo cycle is on every home page.
       await page.getByText(/Spin-down monitoring/).first().waitFor();

@@ -1,7 +1,8 @@
 /**
- * Calls Debian's astropy (through /usr/bin/python3 and astropy-oracle.py beside this file)
- * as the oracle of the Lomb–Scargle reference tests and of the periodogram benchmark. Data
- * go in as JSON on stdin and come back as JSON on stdout.
+ * Calls Debian's astropy (through /usr/bin/python3) as the oracle of the reference tests and
+ * of the benchmarks: astropy-oracle.py beside this file for the Lomb–Scargle tests, or a script
+ * given by the caller (the sky windows). Data go in as JSON on stdin and come back as JSON on
+ * stdout.
  */
 import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
@@ -21,9 +22,13 @@ export function requireAstropy(): string {
   return r.stdout.trim();
 }
 
-/** Runs the oracle on a request and returns its parsed answer. */
-export function runAstropyOracle<T>(request: unknown): T {
-  const r = spawnSync(PYTHON, [SCRIPT], { input: JSON.stringify(request), encoding: 'utf8', maxBuffer: 512 * 1024 * 1024 });
+/**
+ * Runs an oracle on a request (JSON on stdin) and returns its parsed answer (JSON on stdout).
+ * By default the Lomb–Scargle oracle beside this file; `pythonArgs` runs another one, e.g.
+ * `['-c', source]` for a script kept beside its test.
+ */
+export function runAstropyOracle<T>(request: unknown, pythonArgs: string[] = [SCRIPT]): T {
+  const r = spawnSync(PYTHON, pythonArgs, { input: JSON.stringify(request), encoding: 'utf8', maxBuffer: 512 * 1024 * 1024 });
   if (r.error || r.status !== 0) {
     throw new Error(`astropy oracle failed (exit ${r.status}): ${r.error?.message ?? r.stderr}`);
   }

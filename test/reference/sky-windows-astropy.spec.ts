@@ -16,26 +16,20 @@
  * IERS: auto-download off, auto_max_age None (offline); for dates past the bundled table astropy
  * assumes UT1−UTC = 0 (≤ 0.9 s, i.e. ≤ 0.004°), which is within the tolerances used here.
  */
-import { spawnSync } from 'node:child_process';
 import { utDaysFromMs } from '../../shared/src/sky/astro-time';
 import { parseNightDate } from '../../shared/src/sky/local-nights';
 import { buildNightTable } from '../../shared/src/sky/night-ephemeris';
 import { computeSkyWindows } from '../../shared/src/sky/sky-windows';
 import type { RefractionMode, SkySite, SkyTarget, SkyWindowsResult } from '../../shared/src/sky/sky-types';
 import { fastHorizontal } from '../../shared/src/sky/target-visibility';
+import { requireAstropy, runAstropyOracle } from './astropy-oracle';
 
 jest.setTimeout(300_000);
-
-const PYTHON = '/usr/bin/python3';
 
 const PYTHON_ORACLE = String.raw`
 import json, sys, warnings
 warnings.filterwarnings('ignore')
-try:
-    from astropy.utils import iers
-except Exception as e:
-    print(json.dumps({'error': 'import astropy failed: %s' % e}))
-    sys.exit(0)
+from astropy.utils import iers
 iers.conf.auto_download = False
 iers.conf.auto_max_age = None
 iers.conf.iers_degraded_accuracy = 'warn'
@@ -129,7 +123,6 @@ interface OracleCase {
   sunMin: number;
 }
 interface OracleAnswer {
-  error?: string;
   astropy: string;
   cases: OracleCase[];
   check11: { alt: number; az: number };
@@ -206,21 +199,7 @@ function runOracle(cases: Case[]): OracleAnswer {
       dec: TARGETS.map((t) => t.decDeg),
     })),
   };
-  const run = spawnSync(PYTHON, ['-c', PYTHON_ORACLE], { input: JSON.stringify(request), encoding: 'utf8', maxBuffer: 64 << 20 });
-  if (run.error) {
-    throw new Error(`Cannot start ${PYTHON} (${run.error.message}). Install Debian's python3 and python3-astropy (apt-get install -y python3-astropy).`);
-  }
-  const lastLine = run.stdout.trim().split('\n').pop() ?? '';
-  let answer: OracleAnswer;
-  try {
-    answer = JSON.parse(lastLine) as OracleAnswer;
-  } catch {
-    throw new Error(`The astropy oracle failed (exit ${run.status}). stderr:\n${run.stderr.slice(-3000)}`);
-  }
-  if (answer.error) {
-    throw new Error(`${answer.error}. The astropy reference needs Debian's python3-astropy: apt-get install -y python3-astropy`);
-  }
-  return answer;
+  return runAstropyOracle<OracleAnswer>(request, ['-c', PYTHON_ORACLE]);
 }
 
 describe('sky windows against astropy 5.2.1 (reference)', () => {
@@ -228,6 +207,8 @@ describe('sky windows against astropy 5.2.1 (reference)', () => {
   let oracle: OracleAnswer;
 
   beforeAll(() => {
+    // Fails with a clear message (never skips) when /usr/bin/python3 cannot import astropy.
+    requireAstropy();
     cases = buildCases();
     oracle = runOracle(cases);
   });

@@ -52,7 +52,8 @@ export class Browser {
     this.agent = request.agent(h.created.app);
   }
 
-  private xsrf(): string | undefined {
+  /** The current XSRF-TOKEN cookie, which unsafe requests echo in the X-XSRF-TOKEN header. */
+  xsrf(): string | undefined {
     const cookie = this.agent.jar.getCookie('XSRF-TOKEN', { domain: '127.0.0.1', path: '/', secure: false, script: true });
     return cookie?.value;
   }

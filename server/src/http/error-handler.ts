@@ -5,7 +5,7 @@ import type { ApiErrorBody } from '@spincycle/shared/http/api-error';
 import { AppError } from './app-error';
 
 /** Turns a ZodError into `{ fieldErrors }` keyed by dotted path, and a message naming the first field. */
-export function zodToBody(err: ZodError): ApiErrorBody {
+function zodToBody(err: ZodError): ApiErrorBody {
   const fieldErrors: Record<string, string[]> = {};
   for (const issue of err.issues) {
     const key = issue.path.length ? issue.path.join('.') : '_';

@@ -1,4 +1,4 @@
-/** Entry point of the `spincycle` command line (see README.md beside this file). */
+/** Entry point of the `spincycle` command line (see docs/command-line.md). */
 import { runCli } from './run-cli';
 
 runCli(process.argv.slice(2)).then(

@@ -28,7 +28,7 @@ export function requirementFromPlan(plan: TargetPlan): CadenceRequirement {
 }
 
 /** What a person can change to make an infeasible plan work. */
-export type SuggestionKind = 'other_node' | 'longer_exposure' | 'more_visits_per_night' | 'fewer_samples' | 'brighter_band' | 'check_inputs';
+export type SuggestionKind = 'other_node' | 'longer_exposure' | 'more_visits_per_night' | 'fewer_samples';
 
 export interface PlanSuggestion {
   kind: SuggestionKind;
@@ -50,7 +50,8 @@ export interface NodeTargetPlan {
  * come from `computeSkyWindows` with this node's limits (see `skyLimitsForNode`).
  */
 export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, node: Pick<NodeSpec, 'weatherLossFraction' | 'maxExposureSeconds'>): NodeTargetPlan {
-  const sky = assessCadence(windows, requirementFromPlan(plan), node.weatherLossFraction);
+  const req = requirementFromPlan(plan);
+  const sky = assessCadence(windows, req, node.weatherLossFraction);
   const reasons = [...plan.flags.filter((f) => f.severity === 'blocking').map((f) => f.message), ...sky.reasons];
   const suggestions: PlanSuggestion[] = [];
   const q = plan.quantities;
@@ -66,7 +67,6 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
     });
   }
   if (!sky.fits) {
-    const req = requirementFromPlan(plan);
     const nightlyCapacity = Math.floor((sky.maxNightlyUsableHours * 0.999) / req.visitHours);
     if (sky.maxNightlyUsableHours > 0 && nightlyCapacity < req.visitsPerNight) {
       suggestions.push({

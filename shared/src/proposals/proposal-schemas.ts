@@ -2,6 +2,9 @@ import { z } from 'zod';
 import type { CycleSummary } from '../facility/facility-types';
 import type { ProposalState } from './proposal-states';
 
+/** Longest abstract, characters. */
+export const ABSTRACT_MAX_LENGTH = 4000;
+
 /** POST /api/proposals: a new draft in an open cycle; the creator becomes its PI. */
 export const createProposalSchema = z.object({
   cycleId: z.number().int().positive(),
@@ -16,7 +19,7 @@ export type CreateProposalInput = z.infer<typeof createProposalSchema>;
 export const updateProposalSchema = z.object({
   version: z.number().int().positive(),
   title: z.string().trim().min(1, { message: 'give the proposal a title' }).max(200).optional(),
-  abstract: z.string().max(4000, { message: 'at most 4000 characters' }).optional(),
+  abstract: z.string().max(ABSTRACT_MAX_LENGTH, { message: `at most ${ABSTRACT_MAX_LENGTH} characters` }).optional(),
   category: z.string().trim().max(80).nullable().optional(),
   nodeIds: z.array(z.number().int().positive()).max(20).optional(),
 });

@@ -309,13 +309,12 @@ export function predictPeriod(input: PeriodPredictionInput): PeriodPrediction {
 
   const { colour, relationColour, flags } = colourForRelation(relation, input.colour, input.reddeningEbvMag);
   const x = relationColour.value;
-  const lnP0 = relation === 'angus2019' ? lnPeriodAngus2019(ANGUS_2019.cA.value, x, ageMyr) : lnPeriodBarnesForm(central(relation), x, ageMyr);
-  if (!Number.isFinite(lnP0)) throw outsideFormula(relation, x);
-
   const evaluate = (over: Partial<Numbers & { cA: number; t: number }>): number =>
     relation === 'angus2019'
       ? lnPeriodAngus2019(over.cA ?? ANGUS_2019.cA.value, x, over.t ?? ageMyr)
       : lnPeriodBarnesForm({ ...central(relation), ...over }, x, over.t ?? ageMyr);
+  const lnP0 = evaluate({});
+  if (!Number.isFinite(lnP0)) throw outsideFormula(relation, x);
 
   const contributions: UncertaintyContribution[] = [];
   if (ageSigma > 0) {

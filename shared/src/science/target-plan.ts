@@ -28,6 +28,7 @@ import {
   expectedFalseAlarmProbability,
   independentFrequencyCount,
   periodPrecision,
+  visitsForDetection,
 } from './detection';
 import { type Explained, type ScienceFlag, explained, flag, fmt } from './explained';
 import { type GyroRelationId, GYRO_RELATIONS, GYRO_RELATION_INFO, PROPAGATION_METHOD, predictPeriod } from './gyrochronology';
@@ -341,7 +342,7 @@ export function computeTargetPlan(
   } else if (!exposure.reachesTarget) {
     stackWhy = 'one exposure per visit (stacking does not help here)';
   }
-  const sigmaPpm = Math.sqrt(Math.max(0, singlePpm ** 2 - floorPpm ** 2) / exposuresPerVisit + floorPpm ** 2);
+  const sigmaPpm = Math.sqrt(randomVar / exposuresPerVisit + floorPpm ** 2);
   const reachesGoal = sigmaPpm <= goalPpm * (1 + 1e-9);
   if (exposure.saturatesAtMinExposure) {
     flags.push(
@@ -378,7 +379,8 @@ export function computeTargetPlan(
   const detectionVisits = (T: number) => {
     const m = independentFrequencyCount(T, fmax);
     const z0 = detectionThresholdPower(m, o.falseAlarmProbability);
-    return { m, z0, n: Math.max(4, Math.ceil((4 * sigmaPpm * sigmaPpm * z0) / (semiAmplitudePpm * semiAmplitudePpm) - 1e-9)) };
+    const n = visitsForDetection({ semiAmplitudePpm, sigmaPpm, independentFrequencies: m, falseAlarmProbability: o.falseAlarmProbability });
+    return { m, z0, n };
   };
   const visitsAt = (T: number) => Math.max(detectionVisits(T).n, cadenceVisits(T));
   let baselineForPrecision: number | null = null;
@@ -457,8 +459,7 @@ export function computeTargetPlan(
   // 9. Hours and fee.
   const hoursClear = (visits * visitSeconds) / 3600;
   const hours = Math.ceil(hoursClear / (1 - node.weatherLossFraction) / HOURS_STEP - 1e-9) * HOURS_STEP;
-  const hoursRounded = Math.round(hours / HOURS_STEP) * HOURS_STEP;
-  const fee = Math.round(hoursRounded * node.rateMinorPerHour);
+  const fee = Math.round(hours * node.rateMinorPerHour);
 
   const cl = colourLabel(colour.intrinsic.system);
   const rl = colourLabel(prediction.relationColour.system);
@@ -612,13 +613,13 @@ export function computeTargetPlan(
         : `exposure ${fmt(exposure.exposureSeconds)} s + overhead ${node.overheadSeconds} s`, "the node's overhead per visit", 'facility'),
     nodeHoursClear: explained(hoursClear, 'h', `${visits} visits × ${fmt(visitSeconds)} s`, 'definition of node-hours', 'practice'),
     nodeHours: explained(
-      hoursRounded,
+      hours,
       'h',
       `clear hours / (1 − weather loss ${node.weatherLossFraction}), rounded up to ${HOURS_STEP} h`,
       `node weather loss; rounding: ${CHOICE}`,
       'choice',
     ),
-    feeMinor: explained(fee, `${node.currency} minor units`, `${fmt(hoursRounded)} h × ${node.rateMinorPerHour} per hour, rounded to the unit`, "the node's rate card", 'facility'),
+    feeMinor: explained(fee, `${node.currency} minor units`, `${fmt(hours)} h × ${node.rateMinorPerHour} per hour, rounded to the unit`, "the node's rate card", 'facility'),
   };
   return {
     targetName: target.name ?? null,

@@ -59,6 +59,8 @@ export const DEFAULT_PHOTOMETRY: Required<Omit<PhotometryOptions, 'extinctionMag
  * Relative airmass, Kasten & Young (1989), Appl. Opt. 28, 4735, eq. 3 (equation number from
  * memory; formula as SCIENCE.md §5, from memory):
  * X = 1/(sin h + 0.50572·(h + 6.07995°)^(−1.6364)), h = apparent altitude in degrees.
+ * The sky windows convert an airmass limit to an altitude with this same function
+ * (sky/airmass-limit.ts).
  */
 export function airmassKastenYoung(altitudeDeg: number): number {
   const h = requireInRange(altitudeDeg, 'altitudeDeg', 0, 90);
@@ -103,7 +105,10 @@ function requireAirmass(airmass: number): number {
   return x;
 }
 
-/** Error function, Abramowitz & Stegun (1964), eq. 7.1.26 (|error| < 1.5e-7; common practice). */
+/**
+ * Error function, Abramowitz & Stegun (1964), eq. 7.1.26 (|error| < 1.5e-7; common practice;
+ * coefficients from memory, checked against tabulated erf values in the tests).
+ */
 export function erf(x: number): number {
   const s = x < 0 ? -1 : 1;
   const a = Math.abs(x);

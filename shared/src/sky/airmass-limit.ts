@@ -5,14 +5,19 @@
  *     X(h) = 1 / (sin h + 0.50572 · (h + 6.07995°)^−1.6364)
  *
  * with h the altitude in degrees (SCIENCE.md §8 check value 9: X(30°) = 1.9943, X(90°) = 0.9997).
- * The product's precision model uses the same formula, so an airmass limit converted here
- * selects the same altitudes the exposure times were computed for.
+ * The formula itself lives once, in the science core's precision model
+ * (`airmassKastenYoung`, science/visit-precision.ts), so an airmass limit converted here selects
+ * the same altitudes the exposure times were computed for.
  */
+import { airmassKastenYoung } from '../science/visit-precision';
 import { SkyInputError, requireFiniteInRange } from './sky-input-error';
 
-/** Kasten & Young (1989) relative airmass at altitude `altitudeDeg` (degrees, 0–90). */
+/**
+ * Kasten & Young (1989) relative airmass at altitude `altitudeDeg` (degrees, 0–90; outside that
+ * range the science core throws a ScienceInputError naming `altitudeDeg`).
+ */
 export function kastenYoungAirmass(altitudeDeg: number): number {
-  return 1 / (Math.sin((altitudeDeg * Math.PI) / 180) + 0.50572 * Math.pow(altitudeDeg + 6.07995, -1.6364));
+  return airmassKastenYoung(altitudeDeg);
 }
 
 /** Highest airmass the formula reaches (at the horizon), ≈ 37.9. */

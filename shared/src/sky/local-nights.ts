@@ -9,8 +9,8 @@
  *   of date D in the zone. Mean noon is fixed by longitude, so windows are exactly 24 h long,
  *   do not move when daylight-saving time starts or ends, and do not depend on how far the
  *   zone's offset is from the site's solar time. The Sun culminates within ±16.5 min of mean
- *   noon (equation of time), so the dark part of a night never touches the window edges except
- *   in polar night, where darkness is clipped to the window.
+ *   noon (equation of time [memory]), so the dark part of a night never touches the window
+ *   edges except in polar night, where darkness is clipped to the window.
  */
 import { SkyInputError, describeValue } from './sky-input-error';
 
@@ -112,18 +112,33 @@ export interface NightWindow {
   endUtcMs: number;
 }
 
+/** Local mean noon on UTC day `dayNumber`: 12:00 UTC − longitude × 4 min. */
+function meanNoonUtcMs(dayNumber: number, longitudeDeg: number): number {
+  return dayNumber * MS_PER_DAY + 12 * MS_PER_HOUR - longitudeDeg * 240_000;
+}
+
+/**
+ * Days from local mean noon of UTC day `dayNumber` to 12:00 wall-clock time of that date in the
+ * zone, with one offset lookup at 12:00 UTC of the date (see `nightWindow` for why one is enough).
+ */
+function zoneNoonFromMeanNoonDays(dayNumber: number, longitudeDeg: number, timeZone: string): number {
+  const wallNoon = dayNumber * MS_PER_DAY + 12 * MS_PER_HOUR;
+  const zonedNoon = wallNoon - timeZoneOffsetMs(timeZone, wallNoon);
+  return (zonedNoon - meanNoonUtcMs(dayNumber, longitudeDeg)) / MS_PER_DAY;
+}
+
+function windowStartingAt(dayNumber: number, startUtcMs: number): NightWindow {
+  return { dayNumber, nightDate: formatDayNumber(dayNumber), startUtcMs, endUtcMs: startUtcMs + MS_PER_DAY };
+}
+
 /** The window of the night of local date `dayNumber` at a site. */
 export function nightWindow(dayNumber: number, longitudeDeg: number, timeZone: string): NightWindow {
   // Only the whole-day rounding below depends on the zone, so one offset lookup (at 12:00 UTC
   // of the date) is enough: being an hour off at a daylight-saving change could only alter the
   // rounding for a zone about 12 h away from the site's solar time, and none is (the extreme,
   // UTC+14 at longitude −157°, is 24.5 h ≈ 0.5 h away).
-  const wallNoon = dayNumber * MS_PER_DAY + 12 * MS_PER_HOUR;
-  const zonedNoon = wallNoon - timeZoneOffsetMs(timeZone, wallNoon);
-  // Local mean noon on UTC day `dayNumber`: 12:00 UTC − longitude × 4 min.
-  const meanNoon = dayNumber * MS_PER_DAY + 12 * MS_PER_HOUR - longitudeDeg * 240_000;
-  const start = meanNoon + Math.round((zonedNoon - meanNoon) / MS_PER_DAY) * MS_PER_DAY;
-  return { dayNumber, nightDate: formatDayNumber(dayNumber), startUtcMs: start, endUtcMs: start + MS_PER_DAY };
+  const shiftDays = Math.round(zoneNoonFromMeanNoonDays(dayNumber, longitudeDeg, timeZone));
+  return windowStartingAt(dayNumber, meanNoonUtcMs(dayNumber, longitudeDeg) + shiftDays * MS_PER_DAY);
 }
 
 /**
@@ -134,10 +149,7 @@ export function nightWindow(dayNumber: number, longitudeDeg: number, timeZone: s
  */
 export function nightWindows(firstDayNumber: number, lastDayNumber: number, longitudeDeg: number, timeZone: string): NightWindow[] {
   const dayShift = (dayNumber: number): { shift: number; marginDays: number } => {
-    const wallNoon = dayNumber * MS_PER_DAY + 12 * MS_PER_HOUR;
-    const zonedNoon = wallNoon - timeZoneOffsetMs(timeZone, wallNoon);
-    const meanNoon = dayNumber * MS_PER_DAY + 12 * MS_PER_HOUR - longitudeDeg * 240_000;
-    const days = (zonedNoon - meanNoon) / MS_PER_DAY;
+    const days = zoneNoonFromMeanNoonDays(dayNumber, longitudeDeg, timeZone);
     const shift = Math.round(days);
     return { shift, marginDays: 0.5 - Math.abs(days - shift) };
   };
@@ -146,12 +158,9 @@ export function nightWindows(firstDayNumber: number, lastDayNumber: number, long
   const out: NightWindow[] = [];
   const uniform = first.shift === last.shift && first.marginDays > 3 / 24 && last.marginDays > 3 / 24;
   for (let d = firstDayNumber; d <= lastDayNumber; d++) {
-    if (!uniform) {
-      out.push(nightWindow(d, longitudeDeg, timeZone));
-      continue;
-    }
-    const start = d * MS_PER_DAY + 12 * MS_PER_HOUR - longitudeDeg * 240_000 + first.shift * MS_PER_DAY;
-    out.push({ dayNumber: d, nightDate: formatDayNumber(d), startUtcMs: start, endUtcMs: start + MS_PER_DAY });
+    out.push(
+      uniform ? windowStartingAt(d, meanNoonUtcMs(d, longitudeDeg) + first.shift * MS_PER_DAY) : nightWindow(d, longitudeDeg, timeZone),
+    );
   }
   return out;
 }

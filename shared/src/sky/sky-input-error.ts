@@ -17,9 +17,9 @@ export class SkyInputError extends Error {
   }
 }
 
-/** Formats a number for an error message without hiding NaN or infinities. */
+/** Formats a value for an error message without hiding NaN or infinities. */
 export function describeValue(value: unknown): string {
-  if (typeof value === 'number') return Number.isNaN(value) ? 'NaN' : String(value);
+  if (typeof value === 'number') return String(value);
   if (typeof value === 'string') return JSON.stringify(value);
   if (value === undefined) return 'nothing';
   if (value === null) return 'null';

@@ -12,9 +12,10 @@
  * `Equator(Sun, ofdate, aberration)` + `Horizon` without refraction: the geometric altitude of
  * the Sun's centre). For speed they are found by a secant iteration started from the
  * hour-angle estimate (cos H0 = (sin h − sin φ sin δ☉)/(cos φ cos δ☉) with δ☉ at the lower
- * culmination), which needs ~4 Sun positions per edge instead of SearchAltitude's ~25; where
- * that estimate is unreliable (the Sun grazing the limit, |cos H0| > 0.95, i.e. near the polar
- * day/night boundaries) or the iteration does not settle inside the expected half-night,
+ * culmination; SCIENCE.md §7, Meeus, Astronomical Algorithms 1991, eq. 15.1 [memory]), which
+ * needs ~4 Sun positions per edge instead of SearchAltitude's ~25; where that estimate is
+ * unreliable (the Sun grazing the limit, |cos H0| > 0.95, i.e. near the polar day/night
+ * boundaries) or the iteration does not settle inside the expected half-night,
  * `SearchAltitude` itself is used. Tests check both agree within 1 s.
  */
 import { Body, Equator, Horizon, Observer, SearchAltitude, SearchHourAngle } from 'astronomy-engine';

@@ -20,7 +20,7 @@
  * `Horizon(…, 'normal')` crossing the apparent limit.
  */
 import { DEG, J2000_UTC_MS, SIDEREAL_DEG_PER_UT_DAY } from './astro-time';
-import type { NightTable } from './night-ephemeris';
+import { type NightTable, localSiderealDeg } from './night-ephemeris';
 import {
   MAX_INTERVALS_PER_NIGHT,
   type ResolvedSkyLimits,
@@ -104,11 +104,6 @@ export function classifyVisibility(cosH0: number): TargetVisibility {
   if (cosH0 <= -1) return 'circumpolar';
   if (cosH0 >= 1) return 'never-rises';
   return 'rises-and-sets';
-}
-
-/** Geometric altitude → reported altitude (refraction added when the mode is `normal`), degrees. */
-export function reportedAltitudeDeg(geometricDeg: number, limits: ResolvedSkyLimits): number {
-  return limits.refraction === 'normal' ? geometricDeg + normalRefractionDeg(geometricDeg) : geometricDeg;
 }
 
 /**
@@ -337,7 +332,7 @@ export function fastHorizontal(
   const raDeg = Math.atan2(v[1], v[0]) * RAD;
   const sinDec = v[2];
   const cosDec = Math.hypot(v[0], v[1]);
-  const h = (table.lstAtWindowStartDeg[n] + SIDEREAL_DEG_PER_UT_DAY * (ut - table.windowStartUt[n]) - raDeg) * DEG;
+  const h = (localSiderealDeg(table, n, ut) - raDeg) * DEG;
   const sinAlt = table.sinLat * sinDec + table.cosLat * cosDec * Math.cos(h);
   const geometric = Math.asin(Math.max(-1, Math.min(1, sinAlt))) * RAD;
   let az = Math.atan2(-cosDec * Math.sin(h), sinDec * table.cosLat - cosDec * Math.cos(h) * table.sinLat) * RAD;

@@ -117,10 +117,6 @@ export function csvLine(name: string, overrides: Partial<Record<'ra' | 'dec' | '
   return `${name},${o.ra},${o.dec},${o.magnitude},${o.band},${o.colour},${o.colour_system},,${o.age},60,,`;
 }
 
-function xsrf(b: Browser): string {
-  return b.agent.jar.getCookie('XSRF-TOKEN', { domain: '127.0.0.1', path: '/', secure: false, script: true })?.value ?? '';
-}
-
 /** A multipart upload of one file, with the CSRF header like the client sends it. */
 export async function uploadFile(
   b: Browser,
@@ -132,7 +128,7 @@ export async function uploadFile(
 ) {
   await b.ready();
   return b.agent[method](url)
-    .set('X-XSRF-TOKEN', xsrf(b))
+    .set('X-XSRF-TOKEN', b.xsrf() ?? '')
     .attach(options.field ?? 'file', Buffer.isBuffer(content) ? content : Buffer.from(content, 'utf8'), {
       filename,
       contentType: options.contentType ?? (filename.endsWith('.pdf') ? 'application/pdf' : 'text/csv'),
@@ -159,6 +155,13 @@ export async function addCoInvestigator(h: Harness, pi: Browser, proposalId: num
   const accepted = await browser.post('/api/invitations/accept', { token });
   if (accepted.status !== 200) throw new Error(`accept failed: ${accepted.status} ${JSON.stringify(accepted.body)}`);
   return { account, browser, memberId: invite.body.id as number };
+}
+
+/** A supertest parser that keeps a binary body (a PDF) as one Buffer: `.buffer(true).parse(binaryBody)`. */
+export function binaryBody(res: import('superagent').Response, cb: (err: Error | null, body: Buffer) => void): void {
+  const chunks: Buffer[] = [];
+  res.on('data', (c: Buffer) => chunks.push(c));
+  res.on('end', () => cb(null, Buffer.concat(chunks)));
 }
 
 /** A minimal valid PDF (header, one empty page, %%EOF). */

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import type { AccountSummary, SessionUser } from '@spincycle/shared/accounts/account-schemas';
-import type { Role } from '@spincycle/shared/accounts/roles';
+import { ROLES, type Role } from '@spincycle/shared/accounts/roles';
 
 interface AccountRow {
   id: number;
@@ -18,15 +18,13 @@ export interface AccountWithSecret extends AccountSummary {
   passwordHash: string;
 }
 
-const ROLE_ORDER = ['proposer', 'reviewer', 'facility_manager', 'billing_contact', 'administrator'];
-
 function toAccount(row: AccountRow): AccountWithSecret {
   return {
     id: row.id,
     email: row.email,
     displayName: row.display_name,
     affiliation: row.affiliation,
-    roles: (row.roles ?? []).filter(Boolean).sort((a, b) => ROLE_ORDER.indexOf(a) - ROLE_ORDER.indexOf(b)),
+    roles: (row.roles ?? []).filter(Boolean).sort((a, b) => ROLES.indexOf(a) - ROLES.indexOf(b)),
     disabled: row.disabled_at !== null,
     createdAt: row.created_at.toISOString(),
     lastSignInAt: row.last_sign_in_at?.toISOString() ?? null,
@@ -125,4 +123,9 @@ export async function consumeResetToken(db: Knex, tokenHash: string): Promise<nu
     .update({ used_at: db.fn.now() })
     .returning('account_id');
   return row?.account_id;
+}
+
+/** Spends every unused reset link of the account (after its password changed). */
+export async function spendResetTokensOf(db: Knex, accountId: number): Promise<void> {
+  await db('password_reset_tokens').where({ account_id: accountId }).whereNull('used_at').update({ used_at: db.fn.now() });
 }

@@ -8,10 +8,9 @@ import {
   type SessionUser,
 } from '@spincycle/shared/accounts/account-schemas';
 import type { AppContext } from '../../app-context';
-import { AppError } from '../../http/app-error';
+import type { AppError } from '../../http/app-error';
 import type { Csrf } from '../../http/csrf';
-import { recordSignIn } from '../accounts/account-repository';
-import { confirmPasswordReset, requestPasswordReset, signUp } from './auth-service';
+import { confirmPasswordReset, invalidCredentials, noteSignIn, requestPasswordReset, signUp } from './auth-service';
 
 function logIn(req: Request, user: SessionUser): Promise<void> {
   // passport ≥ 0.6 regenerates the session here, which defeats session fixation.
@@ -29,12 +28,12 @@ export function createAuthController(ctx: AppContext, passport: AppPassport, csr
       const user = await new Promise<SessionUser>((resolve, reject) => {
         passport.authenticate('local', { session: false }, (err: unknown, found: SessionUser | false, info?: { error?: AppError }) => {
           if (err) reject(err);
-          else if (!found) reject(info?.error ?? new AppError('invalid_credentials', 'The e-mail address or the password is not right', 401));
+          else if (!found) reject(info?.error ?? invalidCredentials());
           else resolve(found);
         })(req, res, next);
       });
       await logIn(req, user);
-      await recordSignIn(ctx.db, user.id);
+      await noteSignIn(ctx, user.id);
       csrf.renew(req, res);
       res.json({ user });
     },

@@ -1,6 +1,6 @@
-import { createHash, randomBytes } from 'node:crypto';
 import type { PasswordResetConfirmInput, SessionUser, SignUpInput } from '@spincycle/shared/accounts/account-schemas';
 import type { AppContext } from '../../app-context';
+import { isUniqueViolation } from '../../db/unique-violation';
 import { AppError } from '../../http/app-error';
 import {
   consumeResetToken,
@@ -9,18 +9,22 @@ import {
   findAccountById,
   insertAccount,
   insertResetToken,
+  recordSignIn,
   setPasswordHash,
+  spendResetTokensOf,
   toSessionUser,
 } from '../accounts/account-repository';
+import { hashLinkToken, newLinkToken } from './link-token';
 import { dummyPasswordHash, hashPassword, verifyPassword } from './password-hash';
 
-const INVALID = () => new AppError('invalid_credentials', 'The e-mail address or the password is not right', 401);
+/** 401 `invalid_credentials`: the same answer for an unknown address and a wrong password. */
+export const invalidCredentials = () => new AppError('invalid_credentials', 'The e-mail address or the password is not right', 401);
 
 /** Checks an e-mail and password; the same answer and similar timing whether or not the account exists. */
 export async function verifyCredentials(ctx: AppContext, email: string, password: string): Promise<SessionUser> {
   const account = await findAccountByEmail(ctx.db, email);
   const ok = await verifyPassword(password, account?.passwordHash ?? (await dummyPasswordHash()));
-  if (!account || !ok) throw INVALID();
+  if (!account || !ok) throw invalidCredentials();
   if (account.disabled) throw new AppError('account_disabled', 'This account has been disabled. Ask an administrator to enable it.', 403);
   return toSessionUser(account);
 }
@@ -31,7 +35,10 @@ export async function loadSessionUser(ctx: AppContext, id: number): Promise<Sess
   return account && !account.disabled ? toSessionUser(account) : null;
 }
 
-const UNIQUE_VIOLATION = '23505';
+/** Notes the time of a successful sign-in (shown to administrators). */
+export async function noteSignIn(ctx: AppContext, accountId: number): Promise<void> {
+  await recordSignIn(ctx.db, accountId);
+}
 
 /** Self-registration: always a proposer; other roles come from an administrator. */
 export async function signUp(ctx: AppContext, input: Required<SignUpInput>): Promise<SessionUser> {
@@ -47,12 +54,10 @@ export async function signUp(ctx: AppContext, input: Required<SignUpInput>): Pro
     );
     return (await loadSessionUser(ctx, id))!;
   } catch (err) {
-    if ((err as { code?: string }).code === UNIQUE_VIOLATION) throw taken();
+    if (isUniqueViolation(err)) throw taken();
     throw err;
   }
 }
-
-const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
 /**
  * Sends a single-use, expiring reset link when the address belongs to an enabled account.
@@ -61,9 +66,9 @@ const hashToken = (token: string) => createHash('sha256').update(token).digest('
 export async function requestPasswordReset(ctx: AppContext, email: string): Promise<void> {
   const account = await findAccountByEmail(ctx.db, email);
   if (!account || account.disabled) return;
-  const token = randomBytes(32).toString('base64url');
+  const token = newLinkToken();
   const minutes = ctx.config.RESET_TOKEN_MINUTES;
-  await insertResetToken(ctx.db, account.id, hashToken(token), new Date(Date.now() + minutes * 60_000));
+  await insertResetToken(ctx.db, account.id, hashLinkToken(token), new Date(Date.now() + minutes * 60_000));
   const link = `${ctx.config.publicUrl}/reset-password?token=${token}`;
   try {
     await ctx.mailer.send({
@@ -89,14 +94,14 @@ export async function requestPasswordReset(ctx: AppContext, email: string): Prom
 export async function confirmPasswordReset(ctx: AppContext, input: PasswordResetConfirmInput): Promise<void> {
   const passwordHash = await hashPassword(input.password);
   await ctx.db.transaction(async (trx) => {
-    const accountId = await consumeResetToken(trx, hashToken(input.token));
+    const accountId = await consumeResetToken(trx, hashLinkToken(input.token));
     if (!accountId) {
       throw new AppError('invalid_reset_link', 'This reset link is not valid: it may have expired or been used already. Ask for a new one.', 400, {
         token: ['expired, used or unknown'],
       });
     }
     await setPasswordHash(trx, accountId, passwordHash);
-    await trx('password_reset_tokens').where({ account_id: accountId }).whereNull('used_at').update({ used_at: trx.fn.now() });
+    await spendResetTokensOf(trx, accountId);
     await deleteSessionsOf(trx, accountId);
   });
 }

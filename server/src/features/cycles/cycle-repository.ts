@@ -31,7 +31,7 @@ function localDate(v: string | Date): string {
 }
 
 /** A `cycles` row as a stored cycle (camelCase, ISO instants). */
-export function toCycle(r: CycleRow): StoredCycle {
+function toCycle(r: CycleRow): StoredCycle {
   return {
     id: r.id,
     code: r.code,
@@ -88,6 +88,11 @@ export async function findCycleById(db: Knex, id: number, options: { forUpdate?:
 export async function findCycleWithNodes(db: Knex, id: number): Promise<(StoredCycle & { nodes: CycleNodeCapacity[] }) | undefined> {
   const [cycle] = await listCycles(db, [id]);
   return cycle;
+}
+
+/** The node capacity of one cycle, by node code (for a cycle already at hand). */
+export async function listCycleNodes(db: Knex, cycleId: number): Promise<CycleNodeCapacity[]> {
+  return (await capacityOf(db, [cycleId])).get(cycleId) ?? [];
 }
 
 /** Ids of the cycles in which the account is an active member of a proposal. */

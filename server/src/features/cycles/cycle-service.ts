@@ -3,9 +3,11 @@ import { callStatusAt, type CycleSummary } from '@spincycle/shared/facility/faci
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
 import { hasAnyRole } from '@spincycle/shared/accounts/roles';
 import type { AppContext } from '../../app-context';
+import { isUniqueViolation } from '../../db/unique-violation';
 import { AppError } from '../../http/app-error';
 import { listNodes } from '../facility/facility-repository';
-import { markPlansRequested, queuePlanComputations } from '../proposals/plan-requests';
+import { markPlansRequested } from '../proposals/plan-repository';
+import { queuePlanComputations } from '../proposals/plan-requests';
 import {
   cycleIdsWithMembership,
   draftProposalIdsOfCycle,
@@ -20,10 +22,8 @@ import {
   type StoredCycle,
 } from './cycle-repository';
 
-const UNIQUE_VIOLATION = '23505';
-
 /** Facility managers and administrators see every cycle, whatever its call status. */
-export const seesAllCycles = (viewer: SessionUser) => hasAnyRole(viewer, 'facility_manager', 'administrator');
+const seesAllCycles = (viewer: SessionUser) => hasAnyRole(viewer, 'facility_manager', 'administrator');
 
 /** `2027-01-15T23:59:59.000Z` → `2027-01-15 23:59:59 UTC`. */
 export function formatUtc(iso: string): string {
@@ -94,7 +94,7 @@ export async function createCycle(ctx: AppContext, actor: SessionUser, input: Cy
     });
     return summarize(ctx, (await findCycleWithNodes(ctx.db, id))!);
   } catch (err) {
-    if ((err as { code?: string }).code === UNIQUE_VIOLATION) throw codeTaken(input.code, '');
+    if (isUniqueViolation(err)) throw codeTaken(input.code, '');
     throw err;
   }
 }
@@ -138,7 +138,7 @@ export async function updateCycle(ctx: AppContext, id: number, update: CycleUpda
       }
     });
   } catch (err) {
-    if ((err as { code?: string }).code === UNIQUE_VIOLATION) throw codeTaken(input.code, 'cycle.');
+    if (isUniqueViolation(err)) throw codeTaken(input.code, 'cycle.');
     throw err;
   }
   await queuePlanComputations(ctx, replan);

@@ -13,7 +13,7 @@ interface SiteRow {
 }
 
 /** A `sites` row as the API shape. */
-export function toSite(r: SiteRow): Site {
+function toSite(r: SiteRow): Site {
   return {
     id: r.id,
     code: r.code,
@@ -29,7 +29,7 @@ export function toSite(r: SiteRow): Site {
 type NodeRow = Record<string, unknown> & { site_id: number };
 
 /** A `nodes` row with its site as the API shape. */
-export function toNode(r: NodeRow, site: Site): TelescopeNode {
+function toNode(r: NodeRow, site: Site): TelescopeNode {
   return {
     id: r.id as number,
     code: r.code as string,

@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import { startHarness, type Harness } from '../../../../test/support/api-harness';
-import { addCoInvestigator, countRows, createTestNetwork, proposerWithDraft, tinyPdf, uploadFile, type TestNetwork } from '../../../../test/api/support/proposal-kit';
+import { addCoInvestigator, binaryBody, countRows, createTestNetwork, proposerWithDraft, tinyPdf, uploadFile, type TestNetwork } from '../../../../test/api/support/proposal-kit';
 import { cleanFilename, looksLikePdf } from './justification-service';
 
 let h: Harness;
@@ -13,12 +13,6 @@ afterAll(async () => {
   await net.cleanUp();
   await h.close();
 });
-
-const binary = (res: import('superagent').Response, cb: (err: Error | null, body: Buffer) => void) => {
-  const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-};
 
 describe('PUT/GET /api/proposals/:id/justification', () => {
   it('stores a PDF with its SHA-256 (any member), replaces it on a new upload, and downloads it back byte for byte', async () => {
@@ -37,7 +31,7 @@ describe('PUT/GET /api/proposals/:id/justification', () => {
     const second = tinyPdf('second version, by the co-I');
     expect((await uploadFile(coi.browser, 'put', `/api/proposals/${proposal.id}/justification`, second, 'v2.pdf')).status).toBe(200);
     expect(await countRows(h, 'proposal_files', { proposal_id: proposal.id })).toBe(1);
-    const got = await pi.get(`/api/proposals/${proposal.id}/justification`).buffer(true).parse(binary);
+    const got = await pi.get(`/api/proposals/${proposal.id}/justification`).buffer(true).parse(binaryBody);
     expect(got.status).toBe(200);
     expect(got.headers['content-type']).toBe('application/pdf');
     expect(got.headers['content-disposition']).toMatch(/^attachment; filename="?v2\.pdf"?$/);

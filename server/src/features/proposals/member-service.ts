@@ -1,14 +1,13 @@
-import { createHash, randomBytes } from 'node:crypto';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
 import type { InvitationAccepted, InviteMemberInput, ProposalMember } from '@spincycle/shared/proposals/proposal-schemas';
 import type { AppContext } from '../../app-context';
 import { AppError } from '../../http/app-error';
 import { findAccountByEmail } from '../accounts/account-repository';
+import { hashLinkToken, newLinkToken } from '../auth/link-token';
 import { accessProposal, requireEditable, requirePi } from './proposal-access';
 import { invitationMail } from './proposal-mail';
 import {
   acceptInvitationRow,
-  accountExistsWithEmail,
   deleteMemberRow,
   deletePendingInvitationsTo,
   findActiveRole,
@@ -20,8 +19,6 @@ import {
   touchProposal,
 } from './proposal-repository';
 
-const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
-
 /**
  * POST /api/proposals/:id/members (the PI, while the proposal is editable): invites a
  * co-investigator by e-mail. The link carries a random token of which only the SHA-256 is
@@ -31,8 +28,8 @@ const hashToken = (token: string) => createHash('sha256').update(token).digest('
  * whether it is new.
  */
 export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: number, input: InviteMemberInput): Promise<{ member: ProposalMember; created: boolean }> {
-  const token = randomBytes(32).toString('base64url');
-  const { memberId, created, title } = await ctx.db.transaction(async (trx) => {
+  const token = newLinkToken();
+  const { memberId, created, title, hasAccount } = await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });
     requirePi(access, 'invite co-investigators');
     requireEditable(access, ctx.now());
@@ -43,15 +40,14 @@ export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: num
     if (account && (await findActiveRole(trx, id, account.id))) throw already();
     let rowId: number;
     if (existing) {
-      await renewInvitation(trx, existing.id, hashToken(token), viewer.id);
+      await renewInvitation(trx, existing.id, hashLinkToken(token), viewer.id);
       rowId = existing.id;
     } else {
-      rowId = await insertInvitation(trx, { proposalId: id, email: input.email, tokenHash: hashToken(token), invitedBy: viewer.id });
+      rowId = await insertInvitation(trx, { proposalId: id, email: input.email, tokenHash: hashLinkToken(token), invitedBy: viewer.id });
     }
     await touchProposal(trx, id);
-    return { memberId: rowId, created: !existing, title: access.proposal.title };
+    return { memberId: rowId, created: !existing, title: access.proposal.title, hasAccount: account !== undefined };
   });
-  const hasAccount = await accountExistsWithEmail(ctx.db, input.email);
   const link = hasAccount ? `${ctx.config.publicUrl}/invitations/${token}` : `${ctx.config.publicUrl}/sign-up?invite=${token}`;
   try {
     await ctx.mailer.send(invitationMail({ to: input.email, inviter: viewer.displayName, title, link, hasAccount }));
@@ -69,7 +65,7 @@ export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: num
  */
 export async function acceptInvitation(ctx: AppContext, viewer: SessionUser, token: string): Promise<InvitationAccepted> {
   return ctx.db.transaction(async (trx) => {
-    const invitation = await findInvitationByTokenHash(trx, hashToken(token));
+    const invitation = await findInvitationByTokenHash(trx, hashLinkToken(token));
     if (!invitation) {
       throw new AppError('invalid_invitation', 'This invitation link is not valid: it was used already, or the PI withdrew it. Ask the PI for a new one.', 400, {
         token: ['used, withdrawn or unknown'],

@@ -25,12 +25,11 @@ const target = (id: number, name: string, decDeg: number): StoredTarget => ({
 
 describe('computePlanRows', () => {
   it('names the requested node where an infeasible target works, and says so when none does', async () => {
-    const inputs = {
-      proposal: {} as PlanInputs['proposal'],
+    const inputs: PlanInputs = {
       campaign: { firstNight: '2030-11-01', lastNight: '2031-02-28' },
       nodes: [north, south],
       targets: [target(1, 'Star S-75', -75), target(2, 'Star N+85', 85), { ...target(3, 'Star B-1', 0), magnitude: 2.5 }],
-    } as PlanInputs;
+    };
     const progress: number[] = [];
     const rows = await computePlanRows(inputs, (done) => void progress.push(done));
     expect(progress).toEqual([1, 2, 3]);

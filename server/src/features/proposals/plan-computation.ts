@@ -33,7 +33,7 @@ export function nodeSkyWindows(node: TelescopeNode, campaign: PlanInputs['campai
 }
 
 /** The numbers of a combined plan as they are stored and listed. */
-export function toPlanResult(combined: NodeTargetPlan, windows: TargetWindows): StoredPlanResult {
+function toPlanResult(combined: NodeTargetPlan, windows: TargetWindows): StoredPlanResult {
   const { plan, sky } = combined;
   const q = plan.quantities;
   return {
@@ -65,7 +65,7 @@ export function toPlanResult(combined: NodeTargetPlan, windows: TargetWindows): 
 }
 
 /** A message for a plan that could not be computed from its input. */
-export function planErrorMessage(err: { field: string; reason: string }): string {
+function planErrorMessage(err: { field: string; reason: string }): string {
   return `${err.field}: ${err.reason}`;
 }
 

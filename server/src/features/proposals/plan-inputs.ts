@@ -2,9 +2,9 @@ import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { TelescopeNode } from '@spincycle/shared/facility/facility-types';
 import { inParallel } from '../../db/in-parallel';
-import { findCycleById } from '../cycles/cycle-repository';
+import { findCycleById, type StoredCycle } from '../cycles/cycle-repository';
 import { listNodes } from '../facility/facility-repository';
-import { findProposalById, listProposalNodeIds, type StoredProposal } from './proposal-repository';
+import { findProposalById, listProposalNodeIds } from './proposal-repository';
 import { TARGET_PLAN_MODEL_VERSION } from '@spincycle/shared/science/target-plan';
 import { listTargets, type StoredTarget } from './target-repository';
 
@@ -16,7 +16,6 @@ export const PLAN_MODEL_VERSION = TARGET_PLAN_MODEL_VERSION;
 
 /** Everything a proposal's plans are computed from. */
 export interface PlanInputs {
-  proposal: StoredProposal;
   campaign: { firstNight: string; lastNight: string };
   /** The requested nodes, with their sites, by code. */
   nodes: TelescopeNode[];
@@ -28,13 +27,14 @@ export interface PlanInputs {
 export async function loadPlanInputs(db: Knex, proposalId: number): Promise<PlanInputs | undefined> {
   const proposal = await findProposalById(db, proposalId);
   if (!proposal) return undefined;
-  const [cycle, nodeIds, targets] = await inParallel(db, [
-    () => findCycleById(db, proposal.cycleId),
-    () => listProposalNodeIds(db, proposalId),
-    () => listTargets(db, proposalId),
-  ] as const);
+  return loadPlanInputsOf(db, proposalId, (await findCycleById(db, proposal.cycleId))!);
+}
+
+/** The inputs of the plans of a proposal whose cycle is already at hand (e.g. from accessProposal). */
+export async function loadPlanInputsOf(db: Knex, proposalId: number, cycle: Pick<StoredCycle, 'campaignStart' | 'campaignEnd'>): Promise<PlanInputs> {
+  const [nodeIds, targets] = await inParallel(db, [() => listProposalNodeIds(db, proposalId), () => listTargets(db, proposalId)] as const);
   const nodes = nodeIds.length ? await listNodes(db, nodeIds) : [];
-  return { proposal, campaign: { firstNight: cycle!.campaignStart, lastNight: cycle!.campaignEnd }, nodes, targets };
+  return { campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, nodes, targets };
 }
 
 /**
@@ -42,7 +42,7 @@ export async function loadPlanInputs(db: Knex, proposalId: number): Promise<Plan
  * site, and each target's science values (not its name, notes or position, which change no
  * number). Stored with the plans; a different hash now means the plans are stale.
  */
-export function planInputsHash(inputs: Pick<PlanInputs, 'campaign' | 'nodes' | 'targets'>): string {
+export function planInputsHash(inputs: PlanInputs): string {
   const nodes = [...inputs.nodes]
     .sort((a, b) => a.id - b.id)
     .map(({ id, site, code: _c, name: _n, siteId: _s, active: _a, ...spec }) => ({

@@ -44,6 +44,29 @@ export async function findPlanRun(db: Knex, proposalId: number): Promise<StoredP
   return row ? toRun(row) : undefined;
 }
 
+/** The run of a new proposal: idle, its (empty) plans current for `inputsHash`. */
+export async function insertIdlePlanRun(db: Knex, proposalId: number, inputsHash: string): Promise<void> {
+  await db('plan_runs').insert({ proposal_id: proposalId, state: 'idle', inputs_hash: inputsHash });
+}
+
+/**
+ * Records, inside the caller's transaction, that the proposals' plans must be computed again.
+ * A run in progress keeps its `running` state (its own end notices the change and leaves the
+ * run `queued`); any other run becomes `queued`.
+ */
+export async function markPlansRequested(db: Knex, proposalIds: number[]): Promise<void> {
+  if (!proposalIds.length) return;
+  await db.raw(
+    `INSERT INTO plan_runs (proposal_id, state, requested_at)
+     SELECT unnest(?::int[]), 'queued', clock_timestamp()
+     ON CONFLICT (proposal_id) DO UPDATE SET
+       requested_at = clock_timestamp(),
+       state = CASE WHEN plan_runs.state = 'running' THEN 'running' ELSE 'queued' END,
+       error = CASE WHEN plan_runs.state = 'running' THEN plan_runs.error ELSE NULL END`,
+    [proposalIds],
+  );
+}
+
 /** A new run starts: progress 0 of `total` targets. */
 export async function startPlanRun(db: Knex, proposalId: number, total: number): Promise<void> {
   await db('plan_runs')

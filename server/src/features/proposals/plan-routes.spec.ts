@@ -1,7 +1,7 @@
 import { PLAN_TABLE_QUANTITIES } from '@spincycle/shared/proposals/plan-types';
 import { startPlanWorker } from '../../jobs/plan-worker';
 import { startHarness, type Harness } from '../../../../test/support/api-harness';
-import { createTestNetwork, proposerWithDraft, target, type TestNetwork } from '../../../../test/api/support/proposal-kit';
+import { createTestNetwork, CSV_HEADER, proposerWithDraft, target, uploadFile, type TestNetwork } from '../../../../test/api/support/proposal-kit';
 import { computeAndStoreProposalPlans, PROGRESS_EVERY_TARGETS } from './plan-service';
 
 let h: Harness;
@@ -157,10 +157,7 @@ describe('the plan job through pg-boss', () => {
       const { browser, proposal } = await proposerWithDraft(app, net.cycleId, 'Queued plans');
       expect((await browser.patch(`/api/proposals/${proposal.id}`, { version: 1, nodeIds: net.nodeIds })).status).toBe(200);
       const lines = Array.from({ length: count }, (_, i) => `Star Q-${i + 1},${(150 + i * 0.3).toFixed(2)},${(20 + (i % 30)).toFixed(1)},${(10 + (i % 6)).toFixed(1)},V,${(0.7 + (i % 15) * 0.12).toFixed(2)},BPRP,,650,60,,`);
-      const up = await browser.agent
-        .post(`/api/proposals/${proposal.id}/targets/upload`)
-        .set('X-XSRF-TOKEN', browser.agent.jar.getCookie('XSRF-TOKEN', { domain: '127.0.0.1', path: '/', secure: false, script: true })!.value)
-        .attach('file', Buffer.from(['name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,notes', ...lines].join('\n')), 'q.csv');
+      const up = await uploadFile(browser, 'post', `/api/proposals/${proposal.id}/targets/upload`, [CSV_HEADER, ...lines].join('\n'), 'q.csv');
       expect(up.status).toBe(200);
 
       const seen = new Set<string>();

@@ -8,24 +8,25 @@ import { computeTargetPlan } from '@spincycle/shared/science/target-plan';
 import { SkyInputError, toSkyWindowsReport, type SkyWindowsReport } from '@spincycle/shared/sky/index';
 import type { AppContext } from '../../app-context';
 import { inParallel } from '../../db/in-parallel';
-import { AppError } from '../../http/app-error';
-import { findCycleWithNodes } from '../cycles/cycle-repository';
+import { AppError, invalidField } from '../../http/app-error';
+import { listCycleNodes } from '../cycles/cycle-repository';
 import { listNodes } from '../facility/facility-repository';
 import { computePlanRows, nodeSkyWindows, toPlanTarget } from './plan-computation';
-import { loadPlanInputs, planInputsHash } from './plan-inputs';
+import { loadPlanInputs, loadPlanInputsOf, planInputsHash } from './plan-inputs';
 import {
   failPlanRun,
   findPlanRun,
   findPlanExplanation,
   finishPlanRun,
   listStoredPlans,
+  markPlansRequested,
   replaceTargetPlans,
   startPlanRun,
   updatePlanProgress,
   type StoredPlanRun,
 } from './plan-repository';
-import { markPlansRequested, queuePlanComputations } from './plan-requests';
-import { accessProposal, requireEditable } from './proposal-access';
+import { queuePlanComputations } from './plan-requests';
+import { accessProposal, requireEditable, type ProposalAccess } from './proposal-access';
 import { findProposalById } from './proposal-repository';
 import { findTarget } from './target-repository';
 
@@ -102,34 +103,36 @@ export async function runPlanJob(db: Knex, proposalId: number, logger: Logger): 
 }
 
 /** The run status as the API shows it; `current` compares the stored plans' inputs with today's. */
-export function toRunStatus(run: StoredPlanRun | undefined, currentHash: string): PlanRunStatus {
+function toRunStatus(run: StoredPlanRun | undefined, currentHash: string): PlanRunStatus {
   if (!run) return { state: 'idle', total: 0, done: 0, startedAt: null, finishedAt: null, error: null, current: false };
   const { inputsHash, ...rest } = run;
   return { ...rest, current: inputsHash === currentHash };
 }
 
-/** The run status of a proposal (for readiness and the proposal page). */
-export async function planRunStatusOf(db: Knex, proposalId: number): Promise<PlanRunStatus> {
-  const [run, inputs] = await inParallel(db, [() => findPlanRun(db, proposalId), () => loadPlanInputs(db, proposalId)] as const);
-  return toRunStatus(run, planInputsHash(inputs!));
+/** The run status of a proposal reached through accessProposal (for readiness and the proposal page). */
+export async function planRunStatusOf(db: Knex, access: Pick<ProposalAccess, 'proposal' | 'cycle'>): Promise<PlanRunStatus> {
+  const id = access.proposal.id;
+  const [run, inputs] = await inParallel(db, [() => findPlanRun(db, id), () => loadPlanInputsOf(db, id, access.cycle)] as const);
+  return toRunStatus(run, planInputsHash(inputs));
 }
 
 /** GET /api/proposals/:id/plans (team members). */
 export async function getProposalPlans(ctx: AppContext, viewer: SessionUser, id: number): Promise<ProposalPlans> {
-  await accessProposal(ctx.db, viewer, id);
-  const [run, stored] = await Promise.all([planRunStatusOf(ctx.db, id), listStoredPlans(ctx.db, id)]);
+  const access = await accessProposal(ctx.db, viewer, id);
+  const [run, stored] = await Promise.all([planRunStatusOf(ctx.db, access), listStoredPlans(ctx.db, id)]);
   return { run, ...stored };
 }
 
 /** POST /api/proposals/:id/plans/recompute (team members, editable proposals): 202 with the run status. */
 export async function recomputeProposalPlans(ctx: AppContext, viewer: SessionUser, id: number): Promise<PlanRunStatus> {
-  await ctx.db.transaction(async (trx) => {
-    const access = await accessProposal(trx, viewer, id, { forUpdate: true });
-    requireEditable(access, ctx.now());
+  const access = await ctx.db.transaction(async (trx) => {
+    const locked = await accessProposal(trx, viewer, id, { forUpdate: true });
+    requireEditable(locked, ctx.now());
     await markPlansRequested(trx, [id]);
+    return locked;
   });
   await queuePlanComputations(ctx, [id]);
-  return planRunStatusOf(ctx.db, id);
+  return planRunStatusOf(ctx.db, access);
 }
 
 /** GET /api/proposals/:id/targets/:targetId/plan?nodeId=N: every number of the stored plan, explained. */
@@ -150,10 +153,8 @@ export async function getTargetSky(ctx: AppContext, viewer: SessionUser, id: num
   const { cycle } = await accessProposal(ctx.db, viewer, id);
   const target = await findTarget(ctx.db, id, targetId);
   if (!target) throw new AppError('target_not_found', `No target ${targetId} in proposal ${id}`, 404);
-  const cycleNodes = (await findCycleWithNodes(ctx.db, cycle.id))!.nodes;
-  if (!cycleNodes.some((n) => n.nodeId === nodeId)) {
-    const message = `node ${nodeId} does not take part in cycle ${cycle.code}`;
-    throw new AppError('validation_failed', `nodeId: ${message}`, 400, { nodeId: [message] });
+  if (!(await listCycleNodes(ctx.db, cycle.id)).some((n) => n.nodeId === nodeId)) {
+    throw invalidField('nodeId', `node ${nodeId} does not take part in cycle ${cycle.code}`);
   }
   const [node] = await listNodes(ctx.db, [nodeId]);
   const result = nodeSkyWindows(node, { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, [target]);

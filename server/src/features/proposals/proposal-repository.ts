@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import type { JustificationFile, MemberRole, ProposalMember } from '@spincycle/shared/proposals/proposal-schemas';
+import type { JustificationFile, MemberRole, ProposalMember, ProposalSummary } from '@spincycle/shared/proposals/proposal-schemas';
 import type { ProposalState } from '@spincycle/shared/proposals/proposal-states';
 
 interface ProposalRow {
@@ -221,11 +221,6 @@ export async function deleteMemberRow(db: Knex, memberId: number): Promise<void>
   await db('proposal_members').where({ id: memberId }).del();
 }
 
-/** Whether an account with this address exists (decides which link an invitation carries). */
-export async function accountExistsWithEmail(db: Knex, email: string): Promise<boolean> {
-  return !!(await db('accounts').whereRaw('lower(email) = lower(?)', [email]).first('id'));
-}
-
 // ---- justification ----
 
 /** The justification file without its content, or null. */
@@ -284,7 +279,7 @@ interface SummaryRow {
 }
 
 /** The proposals on which the account is an active member, newest change first. */
-export async function listProposalSummariesOf(db: Knex, accountId: number) {
+export async function listProposalSummariesOf(db: Knex, accountId: number): Promise<ProposalSummary[]> {
   const rows: SummaryRow[] = await db('proposals as p')
     .join('proposal_members as m', function () {
       this.on('m.proposal_id', 'p.id').andOn('m.account_id', db.raw('?', [accountId]));

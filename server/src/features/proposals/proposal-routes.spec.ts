@@ -1,4 +1,4 @@
-import { signedIn, startHarness, type Harness } from '../../../../test/support/api-harness';
+import { Browser, signedIn, startHarness, type Harness } from '../../../../test/support/api-harness';
 import { addCoInvestigator, countRows, createTestNetwork, proposerWithDraft, target, type TestNetwork } from '../../../../test/api/support/proposal-kit';
 
 let h: Harness;
@@ -62,6 +62,7 @@ describe('POST /api/proposals', () => {
   it('needs the proposer role (403) and a session (401)', async () => {
     const { browser } = await signedIn(h, ['reviewer']);
     expect((await browser.post('/api/proposals', { cycleId: net.cycleId, title: 'No' })).status).toBe(403);
+    expect((await new Browser(h).post('/api/proposals', { cycleId: net.cycleId, title: 'No' })).status).toBe(401);
   });
 });
 

@@ -4,12 +4,12 @@ import { callStatusAt } from '@spincycle/shared/facility/facility-types';
 import type { CreateProposalInput, Proposal, ProposalSummary, UpdateProposalInput } from '@spincycle/shared/proposals/proposal-schemas';
 import type { AppContext } from '../../app-context';
 import { inParallel } from '../../db/in-parallel';
-import { AppError } from '../../http/app-error';
-import { findCycleById, findCycleWithNodes } from '../cycles/cycle-repository';
+import { AppError, invalidField } from '../../http/app-error';
+import { findCycleById, listCycleNodes } from '../cycles/cycle-repository';
 import { formatUtc, formatUtcTime, summarizeCycle } from '../cycles/cycle-service';
 import { planInputsHash } from './plan-inputs';
-import { nodeRequestTotals } from './plan-repository';
-import { markPlansRequested, queuePlanComputations } from './plan-requests';
+import { insertIdlePlanRun, markPlansRequested, nodeRequestTotals } from './plan-repository';
+import { queuePlanComputations } from './plan-requests';
 import { accessProposal, isEditable, requireEditable, requirePi, type ProposalAccess } from './proposal-access';
 import {
   countTargets,
@@ -29,11 +29,11 @@ export function listMyProposals(ctx: AppContext, viewer: SessionUser): Promise<P
   return listProposalSummariesOf(ctx.db, viewer.id);
 }
 
-/** The whole proposal as its team sees it. */
+/** The whole proposal as its team sees it (the cycle's row comes with `access`, its capacity is read here). */
 export async function assembleProposal(ctx: AppContext, db: Knex, access: ProposalAccess): Promise<Proposal> {
-  const { proposal, role } = access;
-  const [cycle, team, nodeIds, justification, targetCount, request] = await inParallel(db, [
-    () => findCycleWithNodes(db, proposal.cycleId),
+  const { proposal, cycle, role } = access;
+  const [cycleNodes, team, nodeIds, justification, targetCount, request] = await inParallel(db, [
+    () => listCycleNodes(db, cycle.id),
     () => listMembers(db, proposal.id),
     () => listProposalNodeIds(db, proposal.id),
     () => findJustificationMeta(db, proposal.id),
@@ -43,7 +43,7 @@ export async function assembleProposal(ctx: AppContext, db: Knex, access: Propos
   const now = ctx.now();
   return {
     id: proposal.id,
-    cycle: summarizeCycle(cycle!, now),
+    cycle: summarizeCycle({ ...cycle, nodes: cycleNodes }, now),
     title: proposal.title,
     abstract: proposal.abstract,
     category: proposal.category,
@@ -73,7 +73,7 @@ export async function getProposal(ctx: AppContext, viewer: SessionUser, id: numb
  */
 export async function createProposal(ctx: AppContext, viewer: SessionUser, input: CreateProposalInput): Promise<Proposal> {
   const cycle = await findCycleById(ctx.db, input.cycleId);
-  if (!cycle) throw new AppError('validation_failed', `cycleId: no cycle ${input.cycleId}`, 400, { cycleId: [`no cycle ${input.cycleId}`] });
+  if (!cycle) throw invalidField('cycleId', `no cycle ${input.cycleId}`);
   const status = callStatusAt(cycle, ctx.now());
   if (status !== 'open') {
     const when = status === 'upcoming' ? `opens at ${formatUtc(cycle.callOpensAt)}` : `closed at ${formatUtc(cycle.callClosesAt)}`;
@@ -83,7 +83,7 @@ export async function createProposal(ctx: AppContext, viewer: SessionUser, input
     const proposalId = await insertProposal(trx, { cycleId: cycle.id, piAccountId: viewer.id, title: input.title });
     await insertPiMember(trx, proposalId, viewer);
     const emptyHash = planInputsHash({ campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, nodes: [], targets: [] });
-    await trx('plan_runs').insert({ proposal_id: proposalId, state: 'idle', inputs_hash: emptyHash });
+    await insertIdlePlanRun(trx, proposalId, emptyHash);
     return proposalId;
   });
   return getProposal(ctx, viewer, id);
@@ -110,17 +110,15 @@ export async function updateProposal(ctx: AppContext, viewer: SessionUser, id: n
       );
     }
     if (input.category !== undefined && input.category !== null && !cycle.categories.includes(input.category)) {
-      const message = `choose one of the cycle's categories: ${cycle.categories.join('; ')}`;
-      throw new AppError('validation_failed', `category: ${message}`, 400, { category: [message] });
+      throw invalidField('category', `choose one of the cycle's categories: ${cycle.categories.join('; ')}`);
     }
     let nodeIds: number[] | undefined;
     if (input.nodeIds !== undefined) {
       nodeIds = [...new Set(input.nodeIds)].sort((a, b) => a - b);
-      const offered = new Set((await findCycleWithNodes(trx, cycle.id))!.nodes.map((n) => n.nodeId));
+      const offered = new Set((await listCycleNodes(trx, cycle.id)).map((n) => n.nodeId));
       const foreign = nodeIds.filter((n) => !offered.has(n));
       if (foreign.length) {
-        const message = `node${foreign.length > 1 ? 's' : ''} ${foreign.join(', ')} ${foreign.length > 1 ? 'do' : 'does'} not take part in cycle ${cycle.code}`;
-        throw new AppError('validation_failed', `nodeIds: ${message}`, 400, { nodeIds: [message] });
+        throw invalidField('nodeIds', `node${foreign.length > 1 ? 's' : ''} ${foreign.join(', ')} ${foreign.length > 1 ? 'do' : 'does'} not take part in cycle ${cycle.code}`);
       }
       const current = await listProposalNodeIds(trx, id);
       nodesChanged = current.join(',') !== nodeIds.join(',');

@@ -2,6 +2,7 @@ import { inflateSync } from 'node:zlib';
 import { startHarness, type Browser, type Harness } from '../../../../test/support/api-harness';
 import {
   addCoInvestigator,
+  binaryBody,
   createTestNetwork,
   CSV_HEADER,
   csvLine,
@@ -222,11 +223,7 @@ describe('GET /api/proposals/:id/summary.pdf', () => {
     const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId, 'Printable summary');
     const coi = await addCoInvestigator(h, pi, proposal.id);
     await makeReady(h, pi, proposal.id, [net.nodeIds[0], net.nodeIds[2]], [target({ name: 'Star Print-1' }), target({ name: 'Star Print-2', raDeg: 10.5, decDeg: -45.25 })]);
-    const res = await coi.browser.get(`/api/proposals/${proposal.id}/summary.pdf`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const res = await coi.browser.get(`/api/proposals/${proposal.id}/summary.pdf`).buffer(true).parse(binaryBody);
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('application/pdf');
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename="?proposal-\d+-summary\.pdf"?$/);

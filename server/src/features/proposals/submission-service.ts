@@ -11,7 +11,7 @@ import { planRunStatusOf } from './plan-service';
 import { accessProposal, requirePi, type ProposalAccess } from './proposal-access';
 import { receiptMail } from './proposal-mail';
 import { assembleProposal, getProposal } from './proposal-service';
-import { countTargets, findJustificationMeta, listMembers, listProposalNodeIds, setProposalState } from './proposal-repository';
+import { countTargets, findJustificationMeta, listProposalNodeIds, setProposalState } from './proposal-repository';
 import { renderProposalSummaryPdf } from './summary-pdf';
 import { listTargets, toTargetRow } from './target-repository';
 
@@ -22,14 +22,14 @@ export const MIN_ABSTRACT_CHARACTERS = 100;
  * What still stands between the proposal and submission. Problems block it; warnings do not
  * (infeasible target plans may be submitted: the panel judges them).
  */
-export async function checkReadiness(db: Knex, access: ProposalAccess): Promise<SubmissionCheck> {
+async function checkReadiness(db: Knex, access: ProposalAccess): Promise<SubmissionCheck> {
   const { proposal, cycle } = access;
   const id = proposal.id;
   const [nodeIds, targetCount, justification, run, planErrors, request] = await inParallel(db, [
     () => listProposalNodeIds(db, id),
     () => countTargets(db, id),
     () => findJustificationMeta(db, id),
-    () => planRunStatusOf(db, id),
+    () => planRunStatusOf(db, access),
     () => countPlanErrors(db, id),
     () => nodeRequestTotals(db, id),
   ] as const);
@@ -101,7 +101,7 @@ export async function submitProposal(ctx: AppContext, viewer: SessionUser, id: n
     return now;
   });
   const proposal = await getProposal(ctx, viewer, id);
-  const team = (await listMembers(ctx.db, id)).filter((m) => m.status === 'active');
+  const team = proposal.team.filter((m) => m.status === 'active');
   try {
     await ctx.mailer.send(
       receiptMail({
@@ -140,7 +140,7 @@ export async function proposalSummaryPdf(ctx: AppContext, viewer: SessionUser, i
     assembleProposal(ctx, ctx.db, access),
     listTargets(ctx.db, id),
     listStoredPlans(ctx.db, id),
-    planRunStatusOf(ctx.db, id),
+    planRunStatusOf(ctx.db, access),
   ]);
   const requested = new Set(proposal.nodeIds);
   const pdf = await renderProposalSummaryPdf(

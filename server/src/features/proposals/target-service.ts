@@ -10,10 +10,12 @@ import {
 import type { z } from 'zod';
 import type { targetUpdateSchema } from '@spincycle/shared/proposals/target-schemas';
 import type { AppContext } from '../../app-context';
+import { isUniqueViolation } from '../../db/unique-violation';
 import { AppError } from '../../http/app-error';
 import { requireUploadedFile } from '../../http/upload-limits';
 import { formatUtcTime } from '../cycles/cycle-service';
-import { markPlansRequested, queuePlanComputations } from './plan-requests';
+import { markPlansRequested } from './plan-repository';
+import { queuePlanComputations } from './plan-requests';
 import { accessProposal, requireEditable } from './proposal-access';
 import { touchProposal } from './proposal-repository';
 import { decodeCsvText, readTargetCsv, rowErrorsToAppError, writeTargetCsv } from './target-csv';
@@ -31,8 +33,6 @@ import {
 } from './target-repository';
 
 type TargetUpdate = z.output<typeof targetUpdateSchema>;
-
-const UNIQUE_VIOLATION = '23505';
 
 function nameTaken(name: string, field: string) {
   return new AppError('target_name_taken', `A target named “${name}” is already in the list`, 409, { [field]: ['already in the list'] });
@@ -89,7 +89,7 @@ export async function updateTarget(ctx: AppContext, viewer: SessionUser, id: num
       await touchProposal(trx, id);
     });
   } catch (err) {
-    if ((err as { code?: string }).code === UNIQUE_VIOLATION) throw nameTaken(update.target.name, 'target.name');
+    if (isUniqueViolation(err)) throw nameTaken(update.target.name, 'target.name');
     throw err;
   }
   await queuePlanComputations(ctx, [id]);

@@ -1,14 +1,12 @@
-import { Router, type Request, type Response } from 'express';
-import { skyWindowsRequestSchema } from '@spincycle/shared/planning/sky-windows-request';
+import { Router } from 'express';
 import type { AppContext } from '../../app-context';
 import { requireSignedIn } from '../../http/auth-middleware';
-import { computeCycleSkyWindows } from './sky-windows-service';
+import { createSkyWindowsController } from './sky-windows-controller';
 
 /** POST /api/sky-windows: windows of up to 500 targets on chosen nodes over a cycle's campaign. */
 export function createSkyWindowsRoutes(ctx: AppContext): Router {
+  const c = createSkyWindowsController(ctx);
   const router = Router();
-  router.post('/', requireSignedIn, async (req: Request, res: Response) => {
-    res.json(await computeCycleSkyWindows(ctx, skyWindowsRequestSchema.parse(req.body)));
-  });
+  router.post('/', requireSignedIn, c.compute);
   return router;
 }

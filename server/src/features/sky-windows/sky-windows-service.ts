@@ -3,7 +3,7 @@ import type { skyWindowsRequestSchema } from '@spincycle/shared/planning/sky-win
 import { computeSkyWindows, parseRaDec, SkyInputError, skyLimitsForNode, toSkyWindowsReport } from '@spincycle/shared/sky/index';
 import type { z } from 'zod';
 import type { AppContext } from '../../app-context';
-import { AppError } from '../../http/app-error';
+import { AppError, invalidField } from '../../http/app-error';
 import { findCycleById } from '../cycles/cycle-repository';
 import { listNodes } from '../facility/facility-repository';
 
@@ -21,10 +21,10 @@ function apiField(field: string): string {
  */
 export async function computeCycleSkyWindows(ctx: AppContext, input: Input): Promise<SkyWindowsResponse> {
   const cycle = await findCycleById(ctx.db, input.cycleId);
-  if (!cycle) throw new AppError('validation_failed', `cycleId: no cycle ${input.cycleId}`, 400, { cycleId: [`no cycle ${input.cycleId}`] });
+  if (!cycle) throw invalidField('cycleId', `no cycle ${input.cycleId}`);
   const nodes = await listNodes(ctx.db, input.nodeIds);
   const missing = input.nodeIds.filter((id) => !nodes.some((n) => n.id === id));
-  if (missing.length) throw new AppError('validation_failed', `nodeIds: no node ${missing.join(', ')}`, 400, { nodeIds: [`no node ${missing.join(', ')}`] });
+  if (missing.length) throw invalidField('nodeIds', `no node ${missing.join(', ')}`);
 
   const fieldErrors: Record<string, string[]> = {};
   const targets = input.targets.map((t, i) => {

@@ -1,7 +1,6 @@
 /** `spincycle windows`: sky windows of a list of targets from one site over a campaign. */
 import { readFileSync } from 'node:fs';
 import { parse } from 'csv-parse/sync';
-import { ScienceInputError } from '../../science/science-input-error';
 import type { CadenceRequirement } from '../../sky/cadence-assessment';
 import { parseDec, parseRa } from '../../sky/ra-dec-parser';
 import { SkyInputError } from '../../sky/sky-input-error';
@@ -190,13 +189,9 @@ export const command: CliCommand = {
   name: 'windows',
   summary: 'sky windows: darkness and usable hours per target and night from one site',
   usage,
+  // A SkyInputError (bad site, limits, campaign or target) is reported by the driver as bad
+  // input, exit 2, like the science core's errors: both name their field.
   async run(argv) {
-    try {
-      return runWindows(argv);
-    } catch (err) {
-      // The driver reports ScienceInputError as bad input (exit 2): carry the field over.
-      if (err instanceof SkyInputError) throw new ScienceInputError(err.field, err.reason);
-      throw err;
-    }
+    return runWindows(argv);
   },
 };

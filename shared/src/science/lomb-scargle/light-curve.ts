@@ -31,6 +31,11 @@ export interface PreparedLightCurve {
   timeVariance: number;
 }
 
+/** True for a light curve already through {@link prepareLightCurve} (its typed arrays and sums). */
+export function isPreparedLightCurve(lc: LightCurve | PreparedLightCurve): lc is PreparedLightCurve {
+  return (lc as PreparedLightCurve).yy !== undefined && (lc as PreparedLightCurve).w instanceof Float64Array;
+}
+
 /** Minimum number of points: the floating-mean sinusoid has 3 parameters. */
 export const MIN_POINTS = 4;
 

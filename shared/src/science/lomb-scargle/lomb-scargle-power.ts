@@ -19,7 +19,7 @@
 import FFT from 'fft.js';
 import { ScienceInputError, requireInteger, requireOneOf } from '../science-input-error';
 import { type FrequencyGrid, validateGrid } from './frequency-grid';
-import { type LightCurve, type PreparedLightCurve, prepareLightCurve } from './light-curve';
+import { type LightCurve, type PreparedLightCurve, isPreparedLightCurve, prepareLightCurve } from './light-curve';
 
 export const LOMB_SCARGLE_METHODS = ['fast', 'exact'] as const;
 export type LombScargleMethod = (typeof LOMB_SCARGLE_METHODS)[number];
@@ -47,7 +47,7 @@ const DEGENERATE = 1e-14;
 
 /** Power on a regular grid. */
 export function lombScarglePower(lc: LightCurve | PreparedLightCurve, grid: FrequencyGrid, options: PowerOptions = {}): Float64Array {
-  const data = isPrepared(lc) ? lc : prepareLightCurve(lc);
+  const data = isPreparedLightCurve(lc) ? lc : prepareLightCurve(lc);
   validateGrid(grid);
   const method = requireOneOf(options.method ?? 'fast', 'method', LOMB_SCARGLE_METHODS);
   return method === 'fast' ? fastPower(data, grid, options) : exactPowerRegular(data, grid);
@@ -55,7 +55,7 @@ export function lombScarglePower(lc: LightCurve | PreparedLightCurve, grid: Freq
 
 /** Exact power at arbitrary frequencies (per day, ≥ 0). */
 export function lombScarglePowerAt(lc: LightCurve | PreparedLightCurve, frequenciesPerDay: ArrayLike<number>): Float64Array {
-  const data = isPrepared(lc) ? lc : prepareLightCurve(lc);
+  const data = isPreparedLightCurve(lc) ? lc : prepareLightCurve(lc);
   const m = frequenciesPerDay.length;
   const out = new Float64Array(m);
   const { n, t, y, w, yy } = data;
@@ -315,8 +315,4 @@ function spread(
       grid[g + 1] += c * im;
     }
   }
-}
-
-function isPrepared(lc: LightCurve | PreparedLightCurve): lc is PreparedLightCurve {
-  return (lc as PreparedLightCurve).yy !== undefined && (lc as PreparedLightCurve).w instanceof Float64Array;
 }

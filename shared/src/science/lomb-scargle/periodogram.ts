@@ -13,7 +13,7 @@ import {
   gridMaxFrequency,
   validateGrid,
 } from './frequency-grid';
-import { type LightCurve, type PreparedLightCurve, prepareLightCurve } from './light-curve';
+import { type LightCurve, type PreparedLightCurve, isPreparedLightCurve, prepareLightCurve } from './light-curve';
 import {
   type FastMethodOptions,
   type LombScargleMethod,
@@ -46,7 +46,7 @@ export interface SinusoidFit {
  * times counted from the earliest one.
  */
 export function fitSinusoid(lc: LightCurve | PreparedLightCurve, frequencyPerDay: number): SinusoidFit {
-  const data = 'yy' in lc && lc.w instanceof Float64Array ? (lc as PreparedLightCurve) : prepareLightCurve(lc as LightCurve);
+  const data = isPreparedLightCurve(lc) ? lc : prepareLightCurve(lc);
   const f = requireFinite(frequencyPerDay, 'frequencyPerDay');
   if (f <= 0) throw new ScienceInputError('frequencyPerDay', `must be positive (got ${f})`);
   const { n, t, y, w } = data;

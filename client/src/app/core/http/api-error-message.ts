@@ -16,3 +16,11 @@ export function readApiError(error: unknown): ApiErrorBody {
   }
   return { code: 'unexpected', message: 'Something went wrong.' };
 }
+
+/**
+ * The error state of a failed read: `lead` ("The cycles could not be loaded.") followed by
+ * the API's message, or null while `error` is empty (a resource's `error()` without a failure).
+ */
+export function loadErrorText(error: unknown, lead: string): string | null {
+  return error ? `${lead} ${readApiError(error).message}` : null;
+}

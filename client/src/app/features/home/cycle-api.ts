@@ -1,12 +1,9 @@
 import { httpResource } from '@angular/common/http';
 import { Injectable } from '@angular/core';
-import type { Cycle } from '@spincycle/shared/facility/facility-types';
+import type { CallStatus, Cycle } from '@spincycle/shared/facility/facility-types';
 
-/** Where a cycle's call stands now, as the server computes it. */
-export type CycleStatus = 'upcoming' | 'open' | 'closed';
-
-/** One row of GET /api/cycles. */
-export type CycleListing = Cycle & { status: CycleStatus };
+/** The part of a GET /api/cycles row the home page reads. */
+export type CycleListing = Cycle & { status: CallStatus };
 
 /** All HTTP of the home feature. */
 @Injectable({ providedIn: 'root' })

@@ -17,7 +17,7 @@ const PLANNER: RoleLink = { label: 'Target planner', path: '/planner' };
 const PROPOSALS: RoleLink = { label: 'Proposals', path: '/proposals' };
 const CYCLES: RoleLink = { label: 'Cycles', path: '/cycles' };
 
-/** Links only to pages that exist; later issues add the proposal, review, award and billing pages. */
+/** Links only to pages that exist; the review, award and billing pages come with their own features. */
 export const ROLE_GUIDE: Record<Role, RoleGuide> = {
   proposer: {
     summary:

@@ -1,18 +1,9 @@
-/** What the planner's two curve charts share: relation colours and the chart.js options. */
-import type { GyroRelationId } from '@spincycle/shared/science/gyrochronology';
+/** What the planner's two curve charts share: the star's datasets and the chart.js options. */
 import type { ChartDataset, ChartOptions } from 'chart.js';
 import { logTickLabel } from '../../ui/charts/chart-format';
-import { type ChartTheme, OKABE_ITO } from '../../ui/charts/chart-palette';
+import type { ChartTheme } from '../../ui/charts/chart-palette';
 import { formatValue } from './plan-display';
 import type { CurvePoint } from './gyro-curves';
-
-/** One colour per relation, the same in both charts (Okabe & Ito 2008). */
-export const RELATION_COLOURS: Readonly<Record<GyroRelationId, string>> = {
-  barnes2007: OKABE_ITO.blue,
-  mamajekHillenbrand2008: OKABE_ITO.orange,
-  angus2015: OKABE_ITO.bluishGreen,
-  angus2019: OKABE_ITO.reddishPurple,
-};
 
 export type CurveDataset = ChartDataset<'line', CurvePoint[]>;
 

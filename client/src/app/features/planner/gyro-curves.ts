@@ -2,7 +2,8 @@
  * The curves of the planner's two gyrochronology charts, computed with the science core:
  * period against age at the star's colour (one curve per relation that covers the colour,
  * with the ±1σ band of the plan's relation), and period against colour at the star's age.
- * Pure functions: the charts only draw what these return.
+ * Pure functions: the charts only draw what these return. The proposals' cluster chart draws
+ * its relations with `periodColourSeries` too.
  */
 import {
   type ColourValue,
@@ -134,7 +135,7 @@ export function gyrochroneSeries(input: GyrochroneInput): GyrochroneSeries {
     }
     const points: CurvePoint[] = [];
     for (const age of ages) {
-      const period = safe(() => periodFromAge(relation, coverage.relationColour.value, age));
+      const period = scienceOrNull(() => periodFromAge(relation, coverage.relationColour.value, age));
       if (period !== null) points.push({ x: age, y: period });
     }
     curves.push({
@@ -150,7 +151,7 @@ export function gyrochroneSeries(input: GyrochroneInput): GyrochroneSeries {
       const low: CurvePoint[] = [];
       const high: CurvePoint[] = [];
       for (const age of ages) {
-        const range = safe(() => predictPeriod({ relation, colour: { value: colour.value, system: input.colour.system }, ageMyr: age }).rangeDays);
+        const range = scienceOrNull(() => predictPeriod({ relation, colour: { value: colour.value, system: input.colour.system }, ageMyr: age }).rangeDays);
         if (range) {
           low.push({ x: age, y: range.low });
           high.push({ x: age, y: range.high });
@@ -206,7 +207,7 @@ export function periodColourSeries(input: {
     for (const x of colours) {
       const coverage = relationCoverage(relation, { value: x, system: input.system });
       if (!coverage.covered) continue;
-      const period = safe(() => periodFromAge(relation, coverage.relationColour.value, input.ageMyr));
+      const period = scienceOrNull(() => periodFromAge(relation, coverage.relationColour.value, input.ageMyr));
       if (period !== null) points.push({ x, y: period });
     }
     if (points.length < 2) {
@@ -225,8 +226,11 @@ export function periodColourSeries(input: {
   return { system: input.system, ageMyr: input.ageMyr, domain: { min: start, max: dom.max }, curves, uncovered, star: input.star };
 }
 
-/** Runs a science-core call, turning its ScienceInputError into null (other errors propagate). */
-function safe<T>(fn: () => T): T | null {
+/**
+ * Runs a science-core call, turning its ScienceInputError (outside a relation or the dwarf
+ * sequence) and a non-finite number into null; other errors propagate.
+ */
+export function scienceOrNull<T>(fn: () => T): T | null {
   try {
     const value = fn();
     return typeof value === 'number' && !Number.isFinite(value) ? null : value;

@@ -12,9 +12,7 @@ export { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS as TAG_DESCRIPTIONS };
 
 export type QuantityKey = keyof TargetPlanQuantities;
 
-/** Labels of every quantity, in the plan's order. */
-
-
+/** The severity of a science flag, as the page says it. */
 export const SEVERITY_LABELS: Readonly<Record<FlagSeverity, string>> = {
   info: 'Note',
   caution: 'Caution',

@@ -1,8 +1,9 @@
 /**
  * Colours of Spincycle's charts: the colour-blind-safe qualitative palette of Okabe & Ito
- * (2008), "Color Universal Design" (DESIGN.md → Look), and the neutral colours of axes and
- * text for the light and dark schemes.
+ * (2008), "Color Universal Design" (DESIGN.md → Look), the colour of each gyrochronology
+ * relation, and the neutral colours of axes and text for the light and dark schemes.
  */
+import type { GyroRelationId } from '@spincycle/shared/science/gyrochronology';
 
 /** Okabe & Ito (2008) palette without its black, which disappears on the dark scheme. */
 export const OKABE_ITO = {
@@ -15,16 +16,13 @@ export const OKABE_ITO = {
   reddishPurple: '#CC79A7',
 } as const;
 
-/** The order in which series take colours (most distinct pairs first). */
-export const SERIES_COLOURS: readonly string[] = [
-  OKABE_ITO.blue,
-  OKABE_ITO.orange,
-  OKABE_ITO.bluishGreen,
-  OKABE_ITO.reddishPurple,
-  OKABE_ITO.vermillion,
-  OKABE_ITO.skyBlue,
-  OKABE_ITO.yellow,
-];
+/** One colour per gyrochronology relation, the same in every chart that draws relations. */
+export const RELATION_COLOURS: Readonly<Record<GyroRelationId, string>> = {
+  barnes2007: OKABE_ITO.blue,
+  mamajekHillenbrand2008: OKABE_ITO.orange,
+  angus2015: OKABE_ITO.bluishGreen,
+  angus2019: OKABE_ITO.reddishPurple,
+};
 
 /** `#RRGGBB` with an alpha, as `rgba()`. */
 export function withAlpha(hex: string, alpha: number): string {

@@ -1,4 +1,4 @@
-import { AbstractControl, FormGroup, ValidationErrors } from '@angular/forms';
+import { AbstractControl, FormGroup } from '@angular/forms';
 
 /**
  * Puts the server's `fieldErrors` on the matching controls (error key `server`) so that each
@@ -22,10 +22,7 @@ export function applyServerFieldErrors(form: FormGroup, fieldErrors: Record<stri
 
 /** The sentence to show under a field for its first error. */
 export function controlErrorMessage(control: AbstractControl): string {
-  return errorMessage(control.errors);
-}
-
-export function errorMessage(errors: ValidationErrors | null): string {
+  const errors = control.errors;
   if (!errors) return '';
   if (typeof errors['server'] === 'string') return errors['server'];
   if (typeof errors['schema'] === 'string') return errors['schema'];

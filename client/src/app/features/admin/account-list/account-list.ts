@@ -28,7 +28,7 @@ import type { AccountSummary, UpdateAccountInput } from '@spincycle/shared/accou
 import { ROLE_LABELS, ROLES, type Role } from '@spincycle/shared/accounts/roles';
 import { debounceTime, distinctUntilChanged, map } from 'rxjs';
 import { SessionAuth } from '../../../core/auth/session-auth';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { confirmAction } from '../../../ui/confirm-dialog/confirm-dialog';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { AccountApi, AccountPage } from '../account-api';
@@ -123,10 +123,7 @@ export default class AccountList {
   /** Announced politely after each change. */
   protected readonly announcement = signal('');
 
-  protected readonly error = computed(() => {
-    const error = this.accounts.error();
-    return error ? `The accounts could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly error = computed(() => loadErrorText(this.accounts.error(), 'The accounts could not be loaded.'));
   protected readonly empty = computed(() => this.accounts.hasValue() && this.page().total === 0);
   protected readonly emptyText = computed(() =>
     this.search() || this.role() ? 'No account matches these filters.' : 'There are no accounts yet.',

@@ -17,7 +17,7 @@ import { Router, RouterLink } from '@angular/router';
 import { cycleInputSchema, type CycleInput } from '@spincycle/shared/cycles/cycle-schemas';
 import type { CycleSummary } from '@spincycle/shared/facility/facility-types';
 import { map } from 'rxjs';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
@@ -142,13 +142,9 @@ export default class CycleForm {
   protected readonly loadError = computed(() => {
     const id = this.cycleId();
     if (id !== null && !(Number.isInteger(id) && id > 0)) return 'There is no cycle at this address.';
-    const error = this.cycle.error();
-    return error ? `The cycle could not be loaded. ${readApiError(error).message}` : null;
+    return loadErrorText(this.cycle.error(), 'The cycle could not be loaded.');
   });
-  protected readonly nodesLoadError = computed(() => {
-    const error = this.nodes.error();
-    return error ? `The nodes could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly nodesLoadError = computed(() => loadErrorText(this.nodes.error(), 'The nodes could not be loaded.'));
   protected readonly ready = computed(() => this.isNew() || this.cycle.hasValue());
 
   constructor() {

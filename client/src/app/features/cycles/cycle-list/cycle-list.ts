@@ -18,7 +18,7 @@ import {
 } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import type { CallStatus, CycleSummary } from '@spincycle/shared/facility/facility-types';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../ui/table/sort-rows';
 import { CycleAdminApi } from '../cycle-admin-api';
@@ -84,9 +84,6 @@ export default class CycleList {
 
   private readonly list = computed(() => (this.cycles.hasValue() ? this.cycles.value() : []));
   protected readonly rows = computed(() => sortRows(this.list(), this.sort(), cycleValue));
-  protected readonly error = computed(() => {
-    const error = this.cycles.error();
-    return error ? `The cycles could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly error = computed(() => loadErrorText(this.cycles.error(), 'The cycles could not be loaded.'));
   protected readonly empty = computed(() => this.cycles.hasValue() && this.list().length === 0);
 }

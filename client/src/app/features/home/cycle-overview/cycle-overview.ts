@@ -2,7 +2,7 @@ import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatCard, MatCardContent, MatCardHeader, MatCardSubtitle, MatCardTitle } from '@angular/material/card';
 import { MatChip, MatChipSet } from '@angular/material/chips';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText } from '../../../core/http/api-error-message';
 import { Clock } from '../../../core/time/clock';
 import { describeCountdown } from '../../../ui/time/countdown';
 import { LoadStatus } from '../../../ui/load-status/load-status';
@@ -34,10 +34,7 @@ export class CycleOverview {
       .filter((cycle) => cycle.status === 'upcoming')
       .sort((a, b) => a.callOpensAt.localeCompare(b.callOpensAt)),
   );
-  protected readonly error = computed(() => {
-    const error = this.cycles.error();
-    return error ? `The cycles could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly error = computed(() => loadErrorText(this.cycles.error(), 'The cycles could not be loaded.'));
   protected readonly noneOpen = computed(() => this.cycles.hasValue() && this.open().length === 0);
 
   protected countdown(iso: string): string {

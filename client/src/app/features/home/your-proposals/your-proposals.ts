@@ -2,7 +2,7 @@ import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { RouterLink } from '@angular/router';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText } from '../../../core/http/api-error-message';
 import { Clock } from '../../../core/time/clock';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { describeCountdown } from '../../../ui/time/countdown';
@@ -107,10 +107,7 @@ export class YourProposals {
       })
       .slice(0, HOME_PROPOSAL_COUNT);
   });
-  protected readonly error = computed(() => {
-    const error = this.proposals.error();
-    return error ? `Your proposals could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly error = computed(() => loadErrorText(this.proposals.error(), 'Your proposals could not be loaded.'));
   protected readonly empty = computed(() => this.proposals.hasValue() && this.all().length === 0);
 
   protected countdown(iso: string): string {

@@ -15,7 +15,7 @@ import {
   MatTable,
 } from '@angular/material/table';
 import type { Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../ui/table/sort-rows';
 import { CoordinatePipe } from '../../../ui/units/coordinate-pipe';
@@ -119,14 +119,8 @@ export default class NetworkPage {
     return sortRows(rows, this.siteSort(), (row, column) => (column === 'nodes' ? row.nodeCount : siteValue(row, column)));
   });
 
-  protected readonly nodesError = computed(() => {
-    const error = this.nodes.error();
-    return error ? `The nodes could not be loaded. ${readApiError(error).message}` : null;
-  });
-  protected readonly sitesError = computed(() => {
-    const error = this.sites.error();
-    return error ? `The sites could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly nodesError = computed(() => loadErrorText(this.nodes.error(), 'The nodes could not be loaded.'));
+  protected readonly sitesError = computed(() => loadErrorText(this.sites.error(), 'The sites could not be loaded.'));
   protected readonly nodesEmpty = computed(() => this.nodes.hasValue() && this.nodeList().length === 0);
   protected readonly sitesEmpty = computed(() => this.sites.hasValue() && this.siteList().length === 0);
 }

@@ -5,9 +5,9 @@ import type { ChartData } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import { ColorScheme } from '../../../core/layout/color-scheme';
 import { logTickLabel } from '../../../ui/charts/chart-format';
-import { chartTheme, withAlpha } from '../../../ui/charts/chart-palette';
+import { chartTheme, RELATION_COLOURS, withAlpha } from '../../../ui/charts/chart-palette';
 import { provideSpincycleCharts } from '../../../ui/charts/chart-setup';
-import { type CurveDataset, curveChartOptions, RELATION_COLOURS, starDatasets } from '../curve-chart-options';
+import { type CurveDataset, curveChartOptions, starDatasets } from '../curve-chart-options';
 import { type CurvePoint, GYROCHRONE_AGE_RANGE_MYR, type GyrochroneSeries } from '../gyro-curves';
 import { formatValue } from '../plan-display';
 

@@ -3,9 +3,9 @@ import { colourLabel } from '@spincycle/shared/science/colour-sequence';
 import type { ChartData } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import { ColorScheme } from '../../../core/layout/color-scheme';
-import { chartTheme } from '../../../ui/charts/chart-palette';
+import { chartTheme, RELATION_COLOURS } from '../../../ui/charts/chart-palette';
 import { provideSpincycleCharts } from '../../../ui/charts/chart-setup';
-import { type CurveDataset, curveChartOptions, RELATION_COLOURS, starDatasets } from '../curve-chart-options';
+import { type CurveDataset, curveChartOptions, starDatasets } from '../curve-chart-options';
 import type { CurvePoint, PeriodColourSeries } from '../gyro-curves';
 import { formatValue } from '../plan-display';
 

@@ -41,7 +41,7 @@ import { parseRaDec } from '@spincycle/shared/sky/ra-dec-parser';
 import { SkyInputError } from '@spincycle/shared/sky/sky-input-error';
 import type { NightDarkReport, TargetWindowsReport } from '@spincycle/shared/sky/sky-windows-report';
 import { catchError, debounceTime, distinctUntilChanged, map, of, pairwise, startWith, switchMap, type Observable } from 'rxjs';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { SkyWindowChart } from '../../../ui/charts/sky-window-chart/sky-window-chart';
 import { formatMinorCurrency } from '../../../ui/units/format-units';
@@ -185,10 +185,7 @@ export default class TargetPlanner {
   );
   private readonly nodeById = computed(() => new Map(this.activeNodes().map((node) => [node.id, node])));
   protected readonly selectedNode = computed(() => this.nodeById().get(this.live().nodeId ?? -1) ?? null);
-  protected readonly nodesError = computed(() => {
-    const error = this.nodes.error();
-    return error ? `The nodes could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly nodesError = computed(() => loadErrorText(this.nodes.error(), 'The nodes could not be loaded.'));
   protected readonly nodesEmpty = computed(() => this.nodes.hasValue() && this.activeNodes().length === 0);
   protected readonly loading = computed(() => this.nodes.isLoading() || this.cycles.isLoading());
 
@@ -197,10 +194,7 @@ export default class TargetPlanner {
       .slice()
       .sort((a, b) => STATUS_ORDER[a.status] - STATUS_ORDER[b.status] || a.campaignStart.localeCompare(b.campaignStart)),
   );
-  protected readonly cyclesError = computed(() => {
-    const error = this.cycles.error();
-    return error ? `The cycles could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly cyclesError = computed(() => loadErrorText(this.cycles.error(), 'The cycles could not be loaded.'));
 
   // ---- hints -------------------------------------------------------------------------------
 

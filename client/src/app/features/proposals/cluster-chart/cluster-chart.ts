@@ -2,21 +2,13 @@ import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, LOCALE_ID, output } from '@angular/core';
 import type { TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { TargetRow } from '@spincycle/shared/proposals/target-schemas';
-import type { GyroRelationId } from '@spincycle/shared/science/gyrochronology';
 import type { ActiveElement, ChartData, ChartDataset, ChartOptions, PointStyle } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import { ColorScheme } from '../../../core/layout/color-scheme';
-import { chartTheme, OKABE_ITO, withAlpha } from '../../../ui/charts/chart-palette';
+import { chartTheme, OKABE_ITO, RELATION_COLOURS, withAlpha } from '../../../ui/charts/chart-palette';
 import { provideSpincycleCharts } from '../../../ui/charts/chart-setup';
-import { ChartPoint, ClusterTargetPoint, clusterSeries, TargetFeasibility } from './cluster-curves';
-
-/** One colour per relation (Okabe & Ito 2008), as the target planner uses them. */
-const RELATION_COLOURS: Record<GyroRelationId, string> = {
-  barnes2007: OKABE_ITO.blue,
-  mamajekHillenbrand2008: OKABE_ITO.orange,
-  angus2015: OKABE_ITO.bluishGreen,
-  angus2019: OKABE_ITO.reddishPurple,
-};
+import type { CurvePoint } from '../../planner/gyro-curves';
+import { ClusterTargetPoint, clusterSeries, TargetFeasibility } from './cluster-curves';
 
 /** Feasibility is told by marker shape as well as colour, so it survives any colour vision and print. */
 const FEASIBILITY_STYLE: Record<TargetFeasibility, { label: string; pointStyle: PointStyle; colour: (emphasis: string) => string }> = {
@@ -28,7 +20,7 @@ const FEASIBILITY_STYLE: Record<TargetFeasibility, { label: string; pointStyle: 
 const FEASIBILITY_ORDER: TargetFeasibility[] = ['feasible', 'partly', 'infeasible', 'unplanned'];
 
 type ClusterChartType = 'line';
-type Dataset = ChartDataset<ClusterChartType, ChartPoint[]>;
+type Dataset = ChartDataset<ClusterChartType, CurvePoint[]>;
 
 /** What a click on a target point asks for. */
 export interface ClusterPointSelection {
@@ -101,7 +93,7 @@ export class ClusterChart {
       : '';
   });
 
-  protected readonly data = computed<ChartData<ClusterChartType, ChartPoint[]>>(() => {
+  protected readonly data = computed<ChartData<ClusterChartType, CurvePoint[]>>(() => {
     const series = this.series();
     if (!series) return { datasets: [] };
     const theme = chartTheme(this.scheme.isDark());

@@ -7,21 +7,9 @@
 import type { TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { TargetRow } from '@spincycle/shared/proposals/target-schemas';
 import { type TargetColourSystem, colourLabel, convertColour, deredden } from '@spincycle/shared/science/colour-sequence';
-import {
-  type GyroRelationId,
-  GYRO_RELATION_INFO,
-  GYRO_RELATIONS,
-  SUPPORTED_COLOUR_DOMAIN,
-  periodFromAge,
-  predictPeriod,
-} from '@spincycle/shared/science/gyrochronology';
-import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
+import { type GyroRelationId, predictPeriod } from '@spincycle/shared/science/gyrochronology';
 import { defaultRelationFor } from '@spincycle/shared/science/target-plan';
-
-export interface ChartPoint {
-  x: number;
-  y: number;
-}
+import { type CurvePoint, periodColourSeries, scienceOrNull } from '../../planner/gyro-curves';
 
 /** How a target's plans stand across the nodes it was planned on. */
 export type TargetFeasibility = 'feasible' | 'partly' | 'infeasible' | 'unplanned';
@@ -29,13 +17,12 @@ export type TargetFeasibility = 'feasible' | 'partly' | 'infeasible' | 'unplanne
 export interface ClusterCurve {
   relation: GyroRelationId;
   label: string;
-  citation: string;
   /** The relation a target plan uses by default for this colour system. */
   isDefault: boolean;
-  points: ChartPoint[];
+  points: CurvePoint[];
 }
 
-export interface ClusterTargetPoint extends ChartPoint {
+export interface ClusterTargetPoint extends CurvePoint {
   targetId: number;
   name: string;
   feasibility: TargetFeasibility;
@@ -52,14 +39,11 @@ export interface ClusterSeries {
   ageUncertaintyMyr: number;
   defaultRelation: GyroRelationId;
   curves: ClusterCurve[];
-  band: { low: ChartPoint[]; high: ChartPoint[] } | null;
+  band: { low: CurvePoint[]; high: CurvePoint[] } | null;
   points: ClusterTargetPoint[];
   /** Targets that cannot be placed (colour outside the sequence), by name. */
   unplaced: string[];
 }
-
-/** Colour samples per curve. */
-const SAMPLES = 121;
 
 /**
  * The age every target shares, or null: the chart needs at least two targets, all with the
@@ -90,33 +74,18 @@ export function clusterSeries(targets: readonly TargetRow[], plans: readonly Tar
   const ageUncertaintyMyr = uncertainties.size === 1 ? [...uncertainties][0] : 0;
   const defaultRelation = defaultRelationFor(system);
 
-  const domain = SUPPORTED_COLOUR_DOMAIN[system];
-  const start = domain.minExclusive ? domain.min + 1e-3 : domain.min;
-  const colours = Array.from({ length: SAMPLES }, (_, i) => start + ((domain.max - start) * i) / (SAMPLES - 1));
-
-  const curves: ClusterCurve[] = [];
-  for (const relation of GYRO_RELATIONS) {
-    const info = GYRO_RELATION_INFO[relation];
-    const points: ChartPoint[] = [];
-    for (const x of colours) {
-      const relationColour = safe(() => (info.colourSystem === system ? x : convertColour(x, system, info.colourSystem)));
-      if (relationColour === null) continue;
-      if (relationColour < info.calibratedColour.min || relationColour > info.calibratedColour.max) continue;
-      const period = safe(() => periodFromAge(relation, relationColour, ageMyr));
-      if (period !== null) points.push({ x, y: period });
-    }
-    if (points.length >= 2) {
-      curves.push({ relation, label: info.label, citation: info.citation, isDefault: relation === defaultRelation, points });
-    }
-  }
+  // The curves are the planner's period–colour curves at the shared age (the default relation selected).
+  const curves: ClusterCurve[] = periodColourSeries({ system, ageMyr, relation: defaultRelation, star: null }).curves.map(
+    (curve) => ({ relation: curve.relation, label: curve.label, isDefault: curve.selected, points: curve.points }),
+  );
 
   let band: ClusterSeries['band'] = null;
   const defaultCurve = curves.find((c) => c.isDefault);
   if (defaultCurve) {
-    const low: ChartPoint[] = [];
-    const high: ChartPoint[] = [];
+    const low: CurvePoint[] = [];
+    const high: CurvePoint[] = [];
     for (const { x } of defaultCurve.points) {
-      const range = safe(
+      const range = scienceOrNull(
         () =>
           predictPeriod({ relation: defaultRelation, colour: { value: x, system }, ageMyr, ageUncertaintyMyr: ageUncertaintyMyr || undefined })
             .rangeDays,
@@ -136,13 +105,13 @@ export function clusterSeries(targets: readonly TargetRow[], plans: readonly Tar
   const unplaced: string[] = [];
   for (const target of targets) {
     const targetPlans = plansByTarget.get(target.id) ?? [];
-    const x = safe(() => {
+    const x = scienceOrNull(() => {
       const intrinsic = deredden({ value: target.colour, system: target.colourSystem }, target.reddeningEbv ?? 0);
       return intrinsic.system === system ? intrinsic.value : convertColour(intrinsic.value, intrinsic.system, system);
     });
     const y =
       targetPlans[0]?.periodDays ??
-      safe(
+      scienceOrNull(
         () =>
           predictPeriod({
             relation: defaultRelationFor(target.colourSystem),
@@ -176,15 +145,4 @@ export function clusterSeries(targets: readonly TargetRow[], plans: readonly Tar
     points,
     unplaced,
   };
-}
-
-/** Runs a science-core call, turning its input errors (outside a relation or the sequence) into null. */
-function safe<T>(fn: () => T): T | null {
-  try {
-    const value = fn();
-    return typeof value === 'number' && !Number.isFinite(value) ? null : value;
-  } catch (error) {
-    if (isScienceInputError(error)) return null;
-    throw error;
-  }
 }

@@ -9,7 +9,7 @@ import { MatInput } from '@angular/material/input';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatOption, MatSelect } from '@angular/material/select';
 import { createProposalSchema, type Proposal } from '@spincycle/shared/proposals/proposal-schemas';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { LoadStatus } from '../../../ui/load-status/load-status';
@@ -107,10 +107,7 @@ export class NewProposalDialog {
       .sort((a, b) => a.callClosesAt.localeCompare(b.callClosesAt)),
   );
   protected readonly noneOpen = computed(() => this.cycles.hasValue() && this.openCycles().length === 0);
-  protected readonly cyclesError = computed(() => {
-    const error = this.cycles.error();
-    return error ? `The cycles could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly cyclesError = computed(() => loadErrorText(this.cycles.error(), 'The cycles could not be loaded.'));
 
   protected readonly errorOf = controlErrorMessage;
   protected readonly creating = signal(false);

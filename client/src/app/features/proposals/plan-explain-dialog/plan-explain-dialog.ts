@@ -2,13 +2,13 @@ import { ChangeDetectionStrategy, Component, computed, inject, LOCALE_ID } from 
 import { MatButton } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle } from '@angular/material/dialog';
 import { MatIcon } from '@angular/material/icon';
+import { MatProgressBar } from '@angular/material/progress-bar';
 import type { TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { Explained, SourceTag } from '@spincycle/shared/science/explained';
-import { MatProgressBar } from '@angular/material/progress-bar';
-import { readApiError } from '../../../core/http/api-error-message';
-import { PlanApi } from '../plan-api';
 import { QUANTITY_LABELS, SOURCE_TAG_LABELS } from '@spincycle/shared/science/quantity-labels';
-
+import { loadErrorText } from '../../../core/http/api-error-message';
+import { formatMinorCurrency } from '../../../ui/units/format-units';
+import { PlanApi } from '../plan-api';
 
 /** `periodDays` → `Period days` for a quantity without a label. */
 function humanize(key: string): string {
@@ -37,9 +37,7 @@ export function explainRows(quantities: Record<string, Explained<number | null>>
     let value = q.value === null ? '—' : format.format(q.value);
     let unit = q.unit === '1' ? '' : q.unit;
     if (key === 'feeMinor' && q.value !== null) {
-      const money = new Intl.NumberFormat(locale, { style: 'currency', currency: currency.toUpperCase() });
-      const digits = money.resolvedOptions().maximumFractionDigits ?? 2;
-      value = money.format(q.value / 10 ** digits);
+      value = formatMinorCurrency(q.value, currency, locale);
       unit = '';
     }
     return { key, label: (QUANTITY_LABELS as Record<string, string>)[key] ?? humanize(key), value, unit, why: q.why, source: q.source, tag: q.tag, tagLabel: SOURCE_TAG_LABELS[q.tag] ?? q.tag };
@@ -68,10 +66,7 @@ export class PlanExplainDialog {
     const explanation = this.explanation.hasValue() ? this.explanation.value() : undefined;
     return explanation ? explainRows(explanation.quantities, this.locale, explanation.currency) : [];
   });
-  protected readonly loadError = computed(() => {
-    const error = this.explanation.error();
-    return error ? `The numbers could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly loadError = computed(() => loadErrorText(this.explanation.error(), 'The numbers could not be loaded.'));
 }
 
 /** What the plans table passes to the side panel. */

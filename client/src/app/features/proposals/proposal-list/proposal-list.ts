@@ -19,7 +19,7 @@ import {
 import { Router, RouterLink } from '@angular/router';
 import type { Proposal, ProposalSummary } from '@spincycle/shared/proposals/proposal-schemas';
 import { SessionAuth } from '../../../core/auth/session-auth';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText } from '../../../core/http/api-error-message';
 import { Clock } from '../../../core/time/clock';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../ui/table/sort-rows';
@@ -89,10 +89,7 @@ export default class ProposalList {
 
   private readonly list = computed(() => (this.proposals.hasValue() ? this.proposals.value() : []));
   protected readonly rows = computed(() => sortRows(this.list(), this.sort(), summaryValue));
-  protected readonly error = computed(() => {
-    const error = this.proposals.error();
-    return error ? `Your proposals could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly error = computed(() => loadErrorText(this.proposals.error(), 'Your proposals could not be loaded.'));
   protected readonly empty = computed(() => this.proposals.hasValue() && this.list().length === 0);
 
   /** "in 12 days" / "3 days ago" for a call's closing. */

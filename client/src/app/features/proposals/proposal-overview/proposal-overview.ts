@@ -9,15 +9,12 @@ import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/for
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatOption, MatSelect } from '@angular/material/select';
-import { createProposalSchema, updateProposalSchema } from '@spincycle/shared/proposals/proposal-schemas';
+import { ABSTRACT_MAX_LENGTH, createProposalSchema, updateProposalSchema } from '@spincycle/shared/proposals/proposal-schemas';
 import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
 import { map } from 'rxjs';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { OverviewValues, overviewOf, ProposalStore } from '../proposal-store';
-
-/** Longest abstract the API takes (updateProposalSchema). */
-export const ABSTRACT_MAX_LENGTH = 4000;
 
 /**
  * The overview tab: title, abstract, category and requested nodes, saved automatically a

@@ -27,8 +27,8 @@ import {
 import { MatTooltip } from '@angular/material/tooltip';
 import type { PlanTableQuantity, ProposalPlans as ProposalPlansBody, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
-import { debounceTime, map, startWith } from 'rxjs';
-import { readApiError } from '../../../core/http/api-error-message';
+import { debounceTime, map } from 'rxjs';
+import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../ui/table/sort-rows';
 import { MinorCurrencyPipe } from '../../../ui/units/minor-currency-pipe';
@@ -89,7 +89,6 @@ function planValue(row: TargetPlanRow, column: string): SortValue {
     case 'usableNights': return row.usableNights;
     case 'nodeHours': return row.nodeHours;
     case 'fee': return row.feeMinor;
-    case 'feasible': return row.feasible ? 1 : 0;
     default: return null;
   }
 }
@@ -180,7 +179,7 @@ export default class ProposalPlans {
     ),
     { initialValue: '' },
   );
-  private readonly infeasibleOnly = toSignal(this.onlyInfeasible.valueChanges.pipe(startWith(false)), { initialValue: false });
+  private readonly infeasibleOnly = toSignal(this.onlyInfeasible.valueChanges, { initialValue: false });
 
   protected readonly allRows = computed(() => this.body()?.plans ?? []);
   protected readonly filtered = computed(() => {
@@ -217,10 +216,7 @@ export default class ProposalPlans {
   /** The cluster chart is drawn only for a target list that shares one age. */
   protected readonly showCluster = computed(() => sharedAgeMyr(this.targetRows()) !== null);
 
-  protected readonly error = computed(() => {
-    const error = this.plans.error();
-    return error ? `The target plans could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly error = computed(() => loadErrorText(this.plans.error(), 'The target plans could not be loaded.'));
   protected readonly empty = computed(() => this.body() !== null && this.allRows().length === 0 && !this.computing());
 
   protected readonly isInfeasible = (_index: number, row: TargetPlanRow) => !row.feasible;

@@ -7,7 +7,7 @@ import { MatProgressBar } from '@angular/material/progress-bar';
 import { Router, RouterLink } from '@angular/router';
 import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
 import { Observable } from 'rxjs';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { Clock } from '../../../core/time/clock';
 import { confirmAction } from '../../../ui/confirm-dialog/confirm-dialog';
 import { LoadStatus } from '../../../ui/load-status/load-status';
@@ -64,10 +64,7 @@ export default class ProposalSubmit {
   protected readonly actionError = signal<string | null>(null);
   protected readonly announcement = signal('');
 
-  protected readonly readinessError = computed(() => {
-    const error = this.readiness.error();
-    return error ? `The readiness check could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly readinessError = computed(() => loadErrorText(this.readiness.error(), 'The readiness check could not be loaded.'));
 
   protected summaryUrl(id: number): string {
     return this.api.summaryPdfUrl(id);

@@ -2,7 +2,7 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { MatButton } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle } from '@angular/material/dialog';
 import { MatButtonToggle, MatButtonToggleGroup } from '@angular/material/button-toggle';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { SkyWindowChart } from '../../../ui/charts/sky-window-chart/sky-window-chart';
 import { PlanApi } from '../plan-api';
@@ -93,8 +93,5 @@ export class SkyWindowDialog {
   }));
   protected readonly heading = computed(() => `${this.data.targetName} from node ${this.nodeCode()}`);
   protected readonly planVerdict = computed(() => this.data.verdicts?.[this.nodeId()] ?? null);
-  protected readonly error = computed(() => {
-    const error = this.report.error();
-    return error ? `The sky window could not be computed. ${readApiError(error).message}` : null;
-  });
+  protected readonly error = computed(() => loadErrorText(this.report.error(), 'The sky window could not be computed.'));
 }

@@ -25,7 +25,7 @@ import {
 import { MatTooltip } from '@angular/material/tooltip';
 import { MAX_TARGETS_PER_PROPOSAL, TARGET_CSV_COLUMNS, type TargetRow } from '@spincycle/shared/proposals/target-schemas';
 import { debounceTime, map } from 'rxjs';
-import { readApiError } from '../../../core/http/api-error-message';
+import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { confirmAction } from '../../../ui/confirm-dialog/confirm-dialog';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../ui/table/sort-rows';
@@ -150,10 +150,7 @@ export default class TargetList {
     return sort.direction ? sortRows(rows, sort, targetValue) : sortRows(rows, { active: 'position', direction: 'asc' }, targetValue);
   });
 
-  protected readonly error = computed(() => {
-    const error = this.targets.error();
-    return error ? `The targets could not be loaded. ${readApiError(error).message}` : null;
-  });
+  protected readonly error = computed(() => loadErrorText(this.targets.error(), 'The targets could not be loaded.'));
   protected readonly empty = computed(() => this.targets.hasValue() && this.rows().length === 0);
   protected readonly announcement = signal('');
 

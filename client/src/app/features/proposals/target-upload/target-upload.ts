@@ -39,16 +39,6 @@ function rowErrorsOf(error: unknown): CsvRowError[] {
 }
 
 /**
- * Rows stored by an upload. The shared contract names them `added`; the first API draft said
- * `imported`, read too so that either server answers correctly.
- */
-function addedOf(result: TargetUploadResult): number {
-  const legacy = (result as { imported?: unknown }).imported;
-  if (typeof result.added === 'number') return result.added;
-  return typeof legacy === 'number' ? legacy : result.targets.length;
-}
-
-/**
  * Uploads a target-list CSV (replacing or appending), with a determinate progress bar, and
  * lists every row the server refused, so that the whole file can be fixed in one pass.
  */
@@ -84,7 +74,6 @@ export class TargetUpload {
   readonly proposalId = input.required<number>();
   /** Targets in the list now (replacing a non-empty list asks first). */
   readonly existingCount = input(0);
-  readonly disabled = input(false);
   /** Emitted after a list was stored. */
   readonly uploaded = output<TargetUploadResult>();
 
@@ -132,7 +121,7 @@ export class TargetUpload {
             this.progress.set(event.total ? Math.round((100 * event.loaded) / event.total) : 0);
           } else if (event.type === HttpEventType.Response && event.body) {
             this.progress.set(null);
-            this.outcome.set({ kind: 'imported', added: addedOf(event.body), removed: event.body.removed ?? 0, mode });
+            this.outcome.set({ kind: 'imported', added: event.body.added, removed: event.body.removed, mode });
             this.uploaded.emit(event.body);
             // Stored: clear the chosen file so that it is not sent twice by mistake.
             this.file.set(null);
