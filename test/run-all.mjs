@@ -57,11 +57,12 @@ async function main() {
   const t0 = performance.now();
   mkdirSync(resultsDir, { recursive: true });
   await step('dependencies', () => ensureDependencies());
-  await step('Debian packages for the tests (chromium, python3-astropy)', () =>
+  await step('Debian packages for the tests (chromium, python3-astropy, python3-scipy)', () =>
     ensureDebianPackages(
       [
         { name: 'chromium', present: fileExists('/usr/bin/chromium') },
         { name: 'python3-astropy', present: pythonModule('astropy') },
+        { name: 'python3-scipy', present: pythonModule('scipy') },
       ],
       (m) => console.log(`  ${m}`),
     ),

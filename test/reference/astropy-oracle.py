@@ -7,6 +7,12 @@ the Baluev false-alarm probability of given powers (astropy's own implementation
 _statistics.false_alarm_probability(method='baluev') with fmax = the grid's last frequency),
 and the best-fit model at a few times.
 
+Request kind "pointwise" ({"kind": "pointwise", "cases": [...]}, used by the check values of
+SCIENCE.md section 8): for each case the same LombScargle's exact ('slow') power at explicit
+frequencies, and, when asked, LombScargle.false_alarm_probability(method='baluev') with
+astropy's own frequency limits (autofrequency with the given samples_per_peak and
+maximum_frequency), returned beside those limits.
+
 Astropy's Baluev FAP imports scipy.special.gammaln. When scipy is not installed (Debian's
 python3-astropy only recommends it), a stand-in built on math.lgamma is put in its place:
 the same function to double precision, and the rest of astropy's code runs unchanged.
@@ -70,8 +76,28 @@ def run_case(case):
     return out
 
 
+def run_pointwise_case(case):
+    t = np.asarray(case["t"], dtype=float)
+    y = np.asarray(case["y"], dtype=float)
+    dy = None if case.get("dy") is None else np.asarray(case["dy"], dtype=float)
+    ls = LombScargle(t, y, dy, fit_mean=True, center_data=True, normalization="standard")
+    out = {"power": ls.power(np.asarray(case["frequencies"], dtype=float), method="slow").tolist()}
+    fap = case.get("fap")
+    if fap:
+        limits = {"samples_per_peak": fap["samplesPerPeak"], "maximum_frequency": fap["maximumFrequency"]}
+        out["fapPowers"] = [float(z) for z in fap["powers"]]
+        out["fap"] = np.atleast_1d(ls.false_alarm_probability(np.asarray(out["fapPowers"]), method="baluev", **limits)).tolist()
+        out["fapFrequencyLimits"] = [float(f) for f in ls.autofrequency(return_freq_limits=True, **limits)]
+    return out
+
+
 def main():
     request = json.load(sys.stdin)
+    if request.get("kind") == "pointwise":
+        import astropy
+
+        json.dump({"astropyVersion": astropy.__version__, "cases": [run_pointwise_case(c) for c in request["cases"]]}, sys.stdout)
+        return
     if request.get("timing"):
         # Warm-up, then the best of `repeat` runs of method='fast', timed inside python.
         answers = []

@@ -34,3 +34,29 @@ export function runAstropyOracle<T>(request: unknown, pythonArgs: string[] = [SC
   }
   return JSON.parse(r.stdout) as T;
 }
+
+/** A series for the "pointwise" request of astropy-oracle.py (no frequency grid). */
+export interface PointwiseCase {
+  t: number[];
+  y: number[];
+  dy: number[] | null;
+  /** Frequencies (d⁻¹) at which astropy's exact power is wanted. */
+  frequencies: number[];
+  /** Powers whose Baluev false-alarm probability is wanted, with astropy's own frequency limits. */
+  fap?: { powers: number[]; samplesPerPeak: number; maximumFrequency: number };
+}
+
+export interface PointwiseAnswer {
+  /** LombScargle(t, y, dy, fit_mean=True, center_data=True, normalization='standard').power(f, method='slow'). */
+  power: number[];
+  fapPowers?: number[];
+  /** LombScargle.false_alarm_probability(z, method='baluev', samples_per_peak, maximum_frequency). */
+  fap?: number[];
+  /** [fmin, fmax] of LombScargle.autofrequency with the same limits: the fmax the FAP used. */
+  fapFrequencyLimits?: [number, number];
+}
+
+/** Runs astropy's Lomb–Scargle at explicit frequencies (request kind "pointwise" of astropy-oracle.py). */
+export function runAstropyPointwise(cases: PointwiseCase[]): { astropyVersion: string; cases: PointwiseAnswer[] } {
+  return runAstropyOracle({ kind: 'pointwise', cases });
+}

@@ -13,11 +13,11 @@ const node: NodeSpec = {
 };
 const target = { colour: { value: 0.9, system: 'BV' as const }, ageMyr: 600, ageUncertaintyMyr: 60, magnitude: { value: 12, band: 'V' as const } };
 
-function windowsFor(raDeg: number, decDeg: number) {
+function windowsFor(raDeg: number, decDeg: number, campaign = { firstNight: '2027-01-01', lastNight: '2027-06-29' }) {
   const result = computeSkyWindows({
     site,
     limits: skyLimitsForNode(node),
-    campaign: { firstNight: '2027-01-01', lastNight: '2027-06-29' },
+    campaign,
     targets: [{ name: 'Star T-1', raDeg, decDeg }],
   });
   return result.targets[0];
@@ -55,5 +55,65 @@ describe('computeNodeTargetPlan', () => {
     const short = computeNodeTargetPlan({ ...target, magnitude: { value: 14, band: 'V' } }, node, site, windowsFor(130, 20), { exposureSeconds: 5 });
     expect(short.plan.flags.map((f) => f.code)).toContain('precisionGoalNotReached');
     expect(short.suggestions.find((s) => s.kind === 'longer_exposure')?.message).toMatch(/up to \d+ s/);
+  });
+});
+
+describe('computeNodeTargetPlan: season, phase coverage and moonlight from the sky windows', () => {
+  it('season: a baseline longer than the observing season is not feasible in one season, and a multi-season plan is offered', () => {
+    // A slow rotator with a long requested precision → a baseline of many months; the target
+    // (RA 8.7 h) is observable from January to early June only.
+    const slow = { ...target, periodDays: 60, periodUncertaintyDays: 6 };
+    const r = computeNodeTargetPlan(slow, node, site, windowsFor(130, 20), { baselineCycles: 4, maxBaselineDays: 400 });
+    expect(r.plan.quantities.baselineDays.value).toBeGreaterThan(r.season.longestSeasonDays);
+    expect(r.season.fitsOneSeason).toBe(false);
+    expect(r.feasible).toBe(false);
+    expect(r.reasons.join(' ')).toMatch(/season/);
+    expect(r.suggestions.map((x) => x.kind)).toContain('multi_season');
+  });
+
+  it('season: an ordinary baseline inside the season fits (must not trigger)', () => {
+    const r = computeNodeTargetPlan(target, node, site, windowsFor(130, 20));
+    expect(r.season.fitsOneSeason).toBe(true);
+    expect(r.suggestions.map((x) => x.kind)).not.toContain('multi_season');
+  });
+
+  it('phase coverage: a period of 1.00 d seen from one site keeps its phase every night → not feasible from here, other longitudes asked for', () => {
+    const dayLocked = { ...target, periodDays: 1.0, periodUncertaintyDays: 0.002 };
+    const r = computeNodeTargetPlan(dayLocked, node, site, windowsFor(130, 20));
+    expect(r.phase.commensurate?.n).toBe(1);
+    expect(r.feasible).toBe(false);
+    expect(r.reasons.join(' ')).toMatch(/1(\.0+)? ?d|beat/);
+    expect(r.suggestions.map((x) => x.kind)).toContain('other_longitude');
+  });
+
+  it('phase coverage: a 1.06 d period (beat period ≈ 18 d) needs more nights than 3 cycles to drift through its phases: the baseline is lengthened', () => {
+    const nearDay = { ...target, periodDays: 1.06, periodUncertaintyDays: 0.005 };
+    const short = computeNodeTargetPlan(nearDay, node, site, windowsFor(130, 20), { sky: { medianMagPerArcsec2: 21.5, worstMagPerArcsec2: 21.5, usableNights: 1, source: 'test' }, baselineCycles: 3 });
+    expect(short.plan.flags.map((f) => f.code)).toContain('baselineForPhaseCoverage');
+    expect(short.plan.quantities.baselineDays.value).toBeGreaterThan(Math.ceil(3 * short.plan.quantities.longestPeriodDays.value));
+    expect(short.phase.action).toBe('ok');
+  });
+
+  it('phase coverage: a 6.5 d period is not day-locked (must not trigger)', () => {
+    const r = computeNodeTargetPlan({ ...target, periodDays: 6.5, periodUncertaintyDays: 0.5 }, node, site, windowsFor(130, 20));
+    expect(r.phase.commensurate).toBeNull();
+    expect(r.suggestions.map((x) => x.kind)).not.toContain('other_longitude');
+  });
+
+  it('moonlight: a target near the ecliptic through full-moon weeks gets a brighter median sky than the dark site value, and a noisier visit', () => {
+    const moonlit = computeNodeTargetPlan(target, node, site, windowsFor(130, 20));
+    const q = moonlit.plan.quantities;
+    expect(q.skyBrightnessMagPerArcsec2.value).toBeLessThan(site.skyBrightnessMagPerArcsec2);
+    expect(q.worstSkyBrightnessMagPerArcsec2.value).toBeLessThan(q.skyBrightnessMagPerArcsec2.value);
+    const dark = computeNodeTargetPlan(target, node, site, windowsFor(130, 20), {
+      sky: { medianMagPerArcsec2: site.skyBrightnessMagPerArcsec2, worstMagPerArcsec2: site.skyBrightnessMagPerArcsec2, usableNights: 100, source: 'test' },
+    });
+    expect(dark.plan.precision.components.skyPpm).toBeLessThan(moonlit.plan.precision.components.skyPpm);
+  });
+
+  it('moonlight: with no usable night the site dark sky is assumed and said so (must not invent a Moon)', () => {
+    const r = computeNodeTargetPlan(target, node, site, windowsFor(130, -75));
+    expect(r.plan.quantities.skyBrightnessMagPerArcsec2.value).toBe(site.skyBrightnessMagPerArcsec2);
+    expect(r.plan.quantities.skyBrightnessMagPerArcsec2.why).toMatch(/dark sky/);
   });
 });

@@ -5,9 +5,13 @@
  * Pure; used by the server's plan worker and by the client's target planner.
  */
 import type { NodeSpec, SiteSpec } from '../facility/facility-types';
-import { computeTargetPlan, type TargetPlan, type TargetPlanOptions, type TargetPlanTarget } from '../science/target-plan';
+import { DEFAULT_EXTINCTION_MAG_PER_AIRMASS } from '../science/photometric-bands';
+import { computeTargetPlan, type PlanSkyConditions, type TargetPlan, type TargetPlanOptions, type TargetPlanTarget } from '../science/target-plan';
 import { assessCadence, type CadenceAssessment, type CadenceRequirement } from '../sky/cadence-assessment';
+import { nightlySkyBrightness } from '../sky/moon-sky-brightness';
 import type { TargetWindows } from '../sky/sky-types';
+import { assessSeason, type SeasonAssessment } from './observing-season';
+import { assessPhaseCoverage, type PhaseCoverageAssessment } from './phase-coverage';
 
 /**
  * The cadence requirement a plan puts on the sky window. The cadence asked of the sky is the
@@ -28,7 +32,7 @@ export function requirementFromPlan(plan: TargetPlan): CadenceRequirement {
 }
 
 /** What a person can change to make an infeasible plan work. */
-export type SuggestionKind = 'other_node' | 'longer_exposure' | 'more_visits_per_night' | 'fewer_samples';
+export type SuggestionKind = 'other_node' | 'longer_exposure' | 'more_visits_per_night' | 'fewer_samples' | 'multi_season' | 'other_longitude' | 'explicit_period';
 
 export interface PlanSuggestion {
   kind: SuggestionKind;
@@ -38,6 +42,10 @@ export interface PlanSuggestion {
 export interface NodeTargetPlan {
   plan: TargetPlan;
   sky: CadenceAssessment;
+  /** Does the baseline fit in one observing season of the target at this site? */
+  season: SeasonAssessment;
+  /** Phase coverage of the plausible periods by the nights this site gives (day-locked periods). */
+  phase: PhaseCoverageAssessment;
   /** The plan's own science is executable and the sky window carries its cadence. */
   feasible: boolean;
   /** Every reason the plan cannot be executed as it stands (science blocks and sky window). */
@@ -52,9 +60,36 @@ export interface NodeTargetPlan {
 export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, node: Pick<NodeSpec, 'weatherLossFraction' | 'maxExposureSeconds'>): NodeTargetPlan {
   const req = requirementFromPlan(plan);
   const sky = assessCadence(windows, req, node.weatherLossFraction);
+  const q = plan.quantities;
+  const season = assessSeason(windows, q.baselineDays.value);
+  const phase = assessPhaseCoverage(
+    windows,
+    { baselineDays: q.baselineDays.value, visitsPerNight: req.visitsPerNight, nightStepDays: Math.max(1, Math.round(q.nightStepDays.value)), visitHours: req.visitHours },
+    { low: q.shortestPeriodDays.value, high: q.longestPeriodDays.value },
+  );
   const reasons = [...plan.flags.filter((f) => f.severity === 'blocking').map((f) => f.message), ...sky.reasons];
   const suggestions: PlanSuggestion[] = [];
-  const q = plan.quantities;
+  if (plan.flags.some((f) => f.code === 'noExpectedPeriod' && f.severity === 'blocking')) {
+    suggestions.push({ kind: 'explicit_period', message: "Enter the star's expected period (from the literature or a previous season) to plan it." });
+  }
+  if (!season.fitsOneSeason && season.reason) {
+    reasons.push(season.reason);
+    if (season.multiSeason) {
+      suggestions.push({
+        kind: 'multi_season',
+        message: `A multi-season plan: ${season.multiSeason.seasons} seasons of about ${Math.round(season.multiSeason.perSeasonBaselineDays)} d each (it spans several cycles; propose each season in its own cycle).`,
+      });
+    }
+  }
+  // Day-locked periods the baseline cannot unlock from this site block the plan; other
+  // sampling gaps are a caution in the suggestions (the scheduler's timing varies them).
+  const phaseBlocks = phase.action === 'otherLongitude' || (phase.action === 'lengthenBaseline' && phase.commensurate !== null);
+  if (phase.reason && phaseBlocks) reasons.push(phase.reason);
+  if (phase.action === 'otherLongitude') {
+    suggestions.push({ kind: 'other_longitude', message: 'Add nodes at other longitudes: their nights sample the phases this site always misses.' });
+  } else if (phase.reason && phase.action !== 'ok' && !phaseBlocks) {
+    suggestions.push({ kind: 'fewer_samples', message: phase.reason });
+  }
   if (plan.flags.some((f) => f.code === 'saturatesAtMinExposure')) {
     suggestions.push({ kind: 'other_node', message: 'The star saturates here even at the shortest exposure: a smaller aperture or a redder band avoids it.' });
   }
@@ -86,10 +121,33 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
     }
     suggestions.push({ kind: 'other_node', message: 'Another node of the network may see this target longer in the campaign.' });
   }
-  return { plan, sky, feasible: plan.feasible && sky.fits, reasons, suggestions };
+  return { plan, sky, season, phase, feasible: plan.feasible && sky.fits && season.fitsOneSeason && !phaseBlocks, reasons, suggestions };
 }
 
-/** Convenience: plan and combine in one call. */
+/**
+ * Sky brightness on the nights the target is observable from the node's site: the
+ * Krisciunas & Schaefer (1991) moonlight model on each usable night (sky/moon-sky-brightness.ts),
+ * summarised as the median (used for the precision) and the brightest.
+ */
+export function skyConditionsFor(windows: TargetWindows, node: NodeSpec, site: SiteSpec, options: TargetPlanOptions = {}): PlanSkyConditions | undefined {
+  const k = options.photometry?.extinctionMagPerAirmass ?? DEFAULT_EXTINCTION_MAG_PER_AIRMASS[node.band];
+  const sky = nightlySkyBrightness(windows, site.skyBrightnessMagPerArcsec2, k, { minTargetAltitudeDeg: node.altitudeLimitDeg });
+  if (sky.usableNights === 0) return undefined;
+  return {
+    medianMagPerArcsec2: sky.medianMagPerArcsec2,
+    worstMagPerArcsec2: sky.worstMagPerArcsec2,
+    usableNights: sky.usableNights,
+    source: 'Krisciunas & Schaefer (1991), PASP 103, 1033 (from memory), on the Moon of each usable night',
+  };
+}
+
+/**
+ * The plan of a target on a node against its sky windows from the node's site: the precision
+ * uses the moonlit sky of the nights the target is observable; when a day-locked period needs
+ * a longer baseline to cover its phases and the season has room, the plan is recomputed with
+ * that baseline; then the season, the phase coverage and the nights that carry the cadence are
+ * checked (see combinePlanWithSky).
+ */
 export function computeNodeTargetPlan(
   target: TargetPlanTarget,
   node: NodeSpec,
@@ -97,5 +155,23 @@ export function computeNodeTargetPlan(
   windows: TargetWindows,
   options: TargetPlanOptions = {},
 ): NodeTargetPlan {
-  return combinePlanWithSky(computeTargetPlan(target, node, site, options), windows, node);
+  const withSky: TargetPlanOptions = { ...options, sky: options.sky ?? skyConditionsFor(windows, node, site, options) };
+  const first = combinePlanWithSky(computeTargetPlan(target, node, site, withSky), windows, node);
+  const need = first.phase.requiredBaselineDays;
+  if (
+    first.phase.action === 'lengthenBaseline' &&
+    first.phase.commensurate !== null &&
+    need !== null &&
+    need > first.plan.quantities.baselineDays.value &&
+    need <= first.season.longestSeasonDays
+  ) {
+    const longer = combinePlanWithSky(computeTargetPlan(target, node, site, { ...withSky, minBaselineDays: Math.ceil(need) }), windows, node);
+    longer.plan.flags.push({
+      code: 'baselineForPhaseCoverage',
+      severity: 'info',
+      message: `the baseline is lengthened to ${Math.ceil(need)} d so that periods near ${first.phase.commensurate.n === 1 ? '1 d' : `1/${first.phase.commensurate.n} d`} drift through every phase from this site`,
+    });
+    return longer;
+  }
+  return first;
 }

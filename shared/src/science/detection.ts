@@ -1,63 +1,303 @@
 /**
- * Detecting a period in a campaign: visits needed at a false-alarm probability, the
- * detectability of a given campaign, and the period precision a baseline gives
- * (SCIENCE.md §6).
+ * Detecting a period in a campaign (SCIENCE.md §6): the detection threshold at a false-alarm
+ * probability over the searched band, the probability that a sinusoid's peak clears it
+ * (completeness), the noise of a night when the systematic floor is correlated within the
+ * night, and the period precision a baseline gives.
+ *
+ * The model, in one place:
+ * - The periodogram is analysed on nightly means (several visits of one night averaged), so
+ *   that the floor — the same comparison stars and flat field all night — counts once per
+ *   night: σ_night² = σ_white²/k + σ_floor² for k visits in the night [common practice, no
+ *   single source; SCIENCE.md §6].
+ * - For a sinusoid of semi-amplitude A in n nightly means of noise σ_night, 2z (z the power
+ *   in the normalisation where noise alone gives z ~ Exp(1)) is non-central χ² with 2 degrees
+ *   of freedom and non-centrality λ = n·A²/(2σ_night²) [derived from the periodogram
+ *   definition, SCIENCE.md §6]. The period is detected when z clears the threshold z0:
+ *   Pd = Q1(√λ, √(2·z0)) (Marcum Q-function).
+ * - z0 is the power whose false-alarm probability over the searched band is p, by Baluev
+ *   (2008), MNRAS 385, 1279, eq. 6 in its large-N form: FAP(z) = 1 − (1 − e^(−z))·exp(−W·√z·e^(−z)),
+ *   W = fmax·sqrt(4π·var(t)), var(t) = T²/12 for visits spread evenly over a baseline T.
+ *   This is the same false-alarm probability the product's periodogram reports (see
+ *   lomb-scargle/false-alarm.ts), so the plan and the analysis agree on what "detected" means.
  */
+import { baluevGamma, logGamma } from './lomb-scargle/false-alarm';
 import { requireInRange, requireNonNegative, requirePositive } from './science-input-error';
 
 export const DETECTION_SOURCE =
-  "z ≈ N·A²/(4σ²) and z0 ≈ ln(M/p) [derived from the periodogram definition, SCIENCE.md §6]; M ≈ T·fmax independent frequencies";
+  'Pd = P(Z > Z0), λ = n·A²/(2σ²): the sinusoid’s χ² is non-central with 2 degrees of freedom, the residual central with n − 3 (a non-central F tail; Marcum Q1 as n → ∞) [derived here, SCIENCE.md §6]; Z0 from Baluev (2008), MNRAS 385, 1279, eq. 6';
+export const THRESHOLD_SOURCE =
+  'Baluev (2008), MNRAS 385, 1279, eq. 6, large-N form: FAP(z) = 1 − (1 − e^(−z))·exp(−W·√z·e^(−z)), W = fmax·sqrt(4π·var t)';
+export const MARCUM_SOURCE =
+  'Marcum Q1 as a Poisson mixture of χ² tails: Q1(a, b) = Σj Pois(j; a²/2)·P(Pois(b²/2) ≤ j) (Johnson, Kotz & Balakrishnan (1995), Continuous Univariate Distributions vol. 2, ch. 29, from memory)';
+export const NIGHTLY_NOISE_SOURCE =
+  'σ_night² = σ_white²/k + σ_floor²: the floor is correlated within a night (common practice, no single source; SCIENCE.md §6)';
 export const PERIOD_PRECISION_SOURCE =
   'Montgomery & O\'Donoghue (1999), DSSN 13, 28; Kovács (1981) form (from memory): σf = sqrt(6/N)·σ/(π·A·T), σP = P²·σf';
 
-/** Effective number of independent frequencies searched, M ≈ T·fmax (at least 1). */
-export function independentFrequencyCount(baselineDays: number, maxFrequencyPerDay: number): number {
-  return Math.max(1, requirePositive(baselineDays, 'baselineDays') * requirePositive(maxFrequencyPerDay, 'maxFrequencyPerDay'));
+/** Completeness levels every plan reports the price of (the proposal's own level is added). */
+export const COMPLETENESS_LEVELS = [0.5, 0.9, 0.99] as const;
+
+/**
+ * Marcum Q-function of order 1, Q1(a, b) = P(X > b²) for X non-central χ² with 2 degrees of
+ * freedom and non-centrality a² — the probability that a sinusoid of "signal-to-noise" a in
+ * Gaussian noise gives a periodogram power above b²/2. Computed as the Poisson mixture
+ * Σj Pois(j; a²/2)·P(Pois(b²/2) ≤ j) (all terms positive; {@link MARCUM_SOURCE}), summed over
+ * ±12σ of the mixing Poisson. Identities: Q1(0, b) = exp(−b²/2), Q1(a, 0) = 1.
+ */
+export function marcumQ1(a: number, b: number): number {
+  const mu = 0.5 * requireNonNegative(a, 'a') ** 2;
+  const nu = 0.5 * requireNonNegative(b, 'b') ** 2;
+  if (nu === 0) return 1;
+  if (mu === 0) return Math.exp(-nu);
+  const spread = 12 * Math.sqrt(mu) + 12;
+  const jMin = Math.max(0, Math.floor(mu - spread));
+  const jMax = Math.ceil(mu + spread);
+  // Poisson CDF of ν at jMin, summed from where its terms matter; q runs one term ahead.
+  const iStart = Math.max(0, Math.floor(nu - 12 * Math.sqrt(nu) - 12));
+  let cdf = 0;
+  let q: number;
+  if (iStart <= jMin) {
+    q = poissonTerm(iStart, nu);
+    for (let i = iStart; i <= jMin; i++) {
+      cdf += q;
+      q *= nu / (i + 1);
+    }
+  } else {
+    q = poissonTerm(jMin + 1, nu);
+  }
+  let p = poissonTerm(jMin, mu);
+  let sum = 0;
+  for (let j = jMin; j <= jMax; j++) {
+    sum += p * Math.min(1, cdf);
+    p *= mu / (j + 1);
+    cdf += q;
+    // A term that underflowed is recomputed in logarithms (the recurrence would stay at 0).
+    q = q > 0 ? (q * nu) / (j + 2) : poissonTerm(j + 2, nu);
+  }
+  return Math.min(1, Math.max(0, sum));
 }
 
-/** Detection threshold on the (psd-normalised) peak power, z0 = ln(M/p). */
-export function detectionThresholdPower(independentFrequencies: number, falseAlarmProbability: number): number {
-  const m = Math.max(1, requirePositive(independentFrequencies, 'independentFrequencies'));
-  const p = requireInRange(falseAlarmProbability, 'falseAlarmProbability', 0, 1, true);
-  return Math.log(m / p);
+/** Pois(j; m) = e^(−m)·m^j/j!, evaluated in logarithms so that large m and j do not underflow. */
+function poissonTerm(j: number, m: number): number {
+  return Math.exp(-m + j * Math.log(m) - logGamma(j + 1));
 }
 
 /**
- * Visits needed to detect a sinusoid of semi-amplitude A in noise σ (same units) at
- * false-alarm probability p over M independent frequencies: N ≥ 4σ²·ln(M/p)/A² [derived,
- * SCIENCE.md §6], rounded up; at least 4 (the periodogram fits 3 parameters).
+ * Effective number of independent frequencies of a search up to fmax over a baseline T with
+ * visits spread evenly: Baluev's W = fmax·sqrt(4π·var t) with var t = T²/12, i.e.
+ * fmax·T·sqrt(π/3) (at least 1).
  */
-export function visitsForDetection(input: {
-  semiAmplitudePpm: number;
-  sigmaPpm: number;
-  independentFrequencies: number;
-  falseAlarmProbability: number;
-}): number {
-  const a = requirePositive(input.semiAmplitudePpm, 'semiAmplitudePpm');
-  const s = requirePositive(input.sigmaPpm, 'sigmaPpm');
-  const z0 = detectionThresholdPower(input.independentFrequencies, input.falseAlarmProbability);
-  return Math.max(4, Math.ceil((4 * s * s * z0) / (a * a) - 1e-9));
+export function effectiveFrequencyCount(baselineDays: number, maxFrequencyPerDay: number): number {
+  const t = requirePositive(baselineDays, 'baselineDays');
+  const f = requirePositive(maxFrequencyPerDay, 'maxFrequencyPerDay');
+  return Math.max(1, f * t * Math.sqrt(Math.PI / 3));
 }
 
-/**
- * Expected false-alarm probability of the signal's peak for a campaign: the expected peak
- * power z = N·A²/(4σ²) [derived], and FAP = 1 − (1 − e^(−z))^M (M independent frequencies).
- * Falls as N grows: more visits never make a signal less detectable.
- */
-export function expectedFalseAlarmProbability(input: {
-  visits: number;
-  semiAmplitudePpm: number;
-  sigmaPpm: number;
-  independentFrequencies: number;
-}): number {
-  const n = requireNonNegative(input.visits, 'visits');
-  const a = requireNonNegative(input.semiAmplitudePpm, 'semiAmplitudePpm');
-  const s = requirePositive(input.sigmaPpm, 'sigmaPpm');
-  const m = Math.max(1, requirePositive(input.independentFrequencies, 'independentFrequencies'));
-  const z = (n * a * a) / (4 * s * s);
+/** False-alarm probability of power z over W effective frequencies ({@link THRESHOLD_SOURCE}). */
+export function falseAlarmOfPower(power: number, effectiveFrequencies: number): number {
+  const z = Math.max(0, power);
   const single = Math.exp(-z);
-  if (single >= 1) return 1;
-  return Math.min(1, Math.max(0, -Math.expm1(m * Math.log1p(-single))));
+  const tau = effectiveFrequencies * Math.sqrt(z) * single;
+  return Math.min(1, Math.max(0, -Math.expm1(-tau) + single * Math.exp(-tau)));
+}
+
+/**
+ * Detection threshold z0: the power whose false-alarm probability over the searched band is
+ * p ({@link THRESHOLD_SOURCE}); FAP(z) falls monotonically for z ≥ ½, so a bisection finds it.
+ */
+export function detectionThresholdPower(effectiveFrequencies: number, falseAlarmProbability: number): number {
+  const w = Math.max(1, requirePositive(effectiveFrequencies, 'effectiveFrequencies'));
+  const p = requireInRange(falseAlarmProbability, 'falseAlarmProbability', 0, 1, true);
+  let lo = 0.5;
+  let hi = Math.log(w / p) + 0.5 * Math.log(Math.log(w / p) + 1) + 5;
+  if (falseAlarmOfPower(lo, w) <= p) return lo;
+  while (falseAlarmOfPower(hi, w) > p) hi *= 2;
+  for (let i = 0; i < 60 && hi - lo > 1e-10 * hi; i++) {
+    const mid = 0.5 * (lo + hi);
+    if (falseAlarmOfPower(mid, w) > p) lo = mid;
+    else hi = mid;
+  }
+  return hi;
+}
+
+/** Large-N detection probability Q1(√λ, √(2·z0)) (SCIENCE.md §6); see {@link detectionProbability} for finite N. */
+export function marcumDetectionProbability(noncentrality: number, thresholdPower: number): number {
+  return marcumQ1(Math.sqrt(requireNonNegative(noncentrality, 'noncentrality')), Math.sqrt(2 * requireNonNegative(thresholdPower, 'thresholdPower')));
+}
+
+/**
+ * The detection threshold of a search, as the product's periodogram applies it: the
+ * standard-normalised power Z0 (fraction of the weighted variance a sinusoid explains) whose
+ * Baluev (2008) false-alarm probability, for `points` values spread evenly over the baseline,
+ * equals p — the same formula as lomb-scargle/false-alarm.ts (astropy's), with var t = T²/12.
+ */
+export interface DetectionThreshold {
+  /** Z0, standard normalisation (0–1). */
+  power: number;
+  /** Values in the analysed series (nightly means or visits). */
+  points: number;
+  /** Baluev's W = fmax·sqrt(4π·var t). */
+  effectiveFrequencies: number;
+  falseAlarmProbability: number;
+}
+
+/** Z0 for `points` values over `baselineDays`, searched up to fmax, at false-alarm probability p. */
+export function detectionThreshold(points: number, baselineDays: number, maxFrequencyPerDay: number, falseAlarmProbability: number): DetectionThreshold {
+  const n = requirePositive(points, 'points');
+  if (n < 4) return { power: 1, points: n, effectiveFrequencies: effectiveFrequencyCount(baselineDays, maxFrequencyPerDay), falseAlarmProbability };
+  const p = requireInRange(falseAlarmProbability, 'falseAlarmProbability', 0, 1, true);
+  const t = requirePositive(baselineDays, 'baselineDays');
+  const fmax = requirePositive(maxFrequencyPerDay, 'maxFrequencyPerDay');
+  // Baluev's FAP (lomb-scargle/false-alarm.ts) with its constants hoisted out of the search.
+  const count = Math.round(n);
+  const nh = count - 1;
+  const w = fmax * t * Math.sqrt(Math.PI / 3);
+  const gw = baluevGamma(nh) * w;
+  const lnP = Math.log(p);
+  /** ln FAP(z) − ln p: decreasing in z. */
+  const h = (z: number) => {
+    const l = Math.log1p(-z);
+    const single = Math.exp(0.5 * (count - 3) * l);
+    const tau = gw * Math.exp(0.5 * (count - 4) * l) * Math.sqrt(0.5 * nh * z);
+    return Math.log(-Math.expm1(-tau) + single * Math.exp(-tau)) - lnP;
+  };
+  // Bracket from the large-N guess z0 ≈ ln(W/p) + 2, Z ≈ 1 − e^(−2·z0/(N−3)); then regula
+  // falsi with the Illinois modification (common practice, no source).
+  let lo = 0;
+  let hLo = -lnP;
+  let hi = Math.min(1 - 1e-12, -Math.expm1((-2 * (Math.log(Math.max(1, w) / p) + 2)) / (count - 3)));
+  let hHi = h(hi);
+  while (hHi > 0 && hi < 1 - 1e-12) {
+    lo = hi;
+    hLo = hHi;
+    hi = 1 - (1 - hi) / 4;
+    hHi = h(hi);
+  }
+  if (!Number.isFinite(hHi)) {
+    // FAP underflowed at hi: fall back to bisection on the sign.
+    for (let i = 0; i < 60 && hi - lo > 1e-12; i++) {
+      const mid = 0.5 * (lo + hi);
+      if (h(mid) > 0) lo = mid;
+      else hi = mid;
+    }
+    return { power: hi, points: n, effectiveFrequencies: Math.max(1, w), falseAlarmProbability: p };
+  }
+  let side = 0;
+  for (let i = 0; i < 100 && hi - lo > 1e-11; i++) {
+    const x = (lo * hHi - hi * hLo) / (hHi - hLo);
+    const hx = h(x);
+    if (Math.abs(hx) < 1e-11) {
+      hi = x;
+      break;
+    }
+    if (hx > 0) {
+      lo = x;
+      hLo = hx;
+      if (side === -1) hHi /= 2;
+      side = -1;
+    } else {
+      hi = x;
+      hHi = hx;
+      if (side === 1) hLo /= 2;
+      side = 1;
+    }
+  }
+  return { power: hi, points: n, effectiveFrequencies: Math.max(1, w), falseAlarmProbability: p };
+}
+
+/**
+ * Probability that a sinusoid of non-centrality λ = n·A²/(2σ²) in n values of Gaussian noise
+ * gives a standard-normalised power above Z0 at its own frequency. With the variance
+ * estimated from the data, Z = X/(X + Y), X non-central χ² with 2 degrees of freedom (λ), Y
+ * central χ² with m = n − 3 (the residual of the 3-parameter fit) — a non-central F tail:
+ *   Pd = Σj Pois(j; λ/2) · P(NB(m/2, Z0) ≤ j),
+ * NB the negative binomial, from the Poisson mixture of the non-central χ² and
+ * I_x(a, b) = x^a·Σ_{i<b} (a)_i/i!·(1 − x)^i for whole b [derived here; the mixture from
+ * Johnson, Kotz & Balakrishnan (1995), ch. 30, from memory]. As n → ∞ it becomes Marcum's
+ * Q1(√λ, √(2·z0)) with z0 = (m/2)·Z0/(1 − Z0) — the large-N form of SCIENCE.md §6 — which
+ * overstates the completeness of campaigns with few, precise nightly means.
+ */
+export function detectionProbability(noncentrality: number, threshold: DetectionThreshold): number {
+  const lam = requireNonNegative(noncentrality, 'noncentrality');
+  const z = threshold.power;
+  if (threshold.points < 4 || z >= 1) return 0;
+  if (z <= 0) return 1;
+  const a = 0.5 * (threshold.points - 3);
+  const mu = 0.5 * lam;
+  // ±9σ of the mixing Poisson (plus a margin for small means) leaves out < 1e-15 of its weight.
+  const spread = 9 * Math.sqrt(mu) + 10;
+  const jMin = Math.max(0, Math.floor(mu - spread));
+  const jMax = Math.ceil(mu + spread);
+  // Negative binomial NB(i; a, z) = Γ(a+i)/(Γ(a)·i!)·z^i·(1−z)^a, cumulated up to jMin.
+  const logNb = (i: number) => logGamma(a + i) - logGamma(a) - logGamma(i + 1) + i * Math.log(z) + a * Math.log1p(-z);
+  let nb = Math.exp(logNb(0));
+  let cdf = 0;
+  for (let i = 0; i <= jMin; i++) {
+    cdf += nb;
+    nb = nb > 0 ? (nb * (a + i) * z) / (i + 1) : Math.exp(logNb(i + 1));
+  }
+  let pois = poissonTerm(jMin, mu);
+  let sum = 0;
+  for (let j = jMin; j <= jMax; j++) {
+    sum += pois * Math.min(1, cdf);
+    pois *= mu / (j + 1);
+    cdf += nb;
+    nb = nb > 0 ? (nb * (a + j + 1) * z) / (j + 2) : Math.exp(logNb(j + 2));
+  }
+  return Math.min(1, Math.max(0, sum));
+}
+
+/**
+ * The non-centrality λ at which the detection probability is `completeness`: the inverse of
+ * {@link detectionProbability} in λ (it increases with λ), by bisection.
+ */
+export function noncentralityForCompleteness(completeness: number, threshold: DetectionThreshold): number {
+  const c = requireInRange(completeness, 'completeness', 0, 1, true);
+  if (detectionProbability(0, threshold) >= c) return 0;
+  if (threshold.points < 4 || threshold.power >= 1) return Infinity;
+  // Bracket, then regula falsi with the Illinois modification (common practice, no source):
+  // Pd(λ) is smooth and increasing, so a handful of evaluations reach 1e-9 in λ.
+  let lo = 0;
+  let fLo = detectionProbability(lo, threshold) - c;
+  let hi = 16;
+  let fHi = detectionProbability(hi, threshold) - c;
+  while (fHi < 0) {
+    lo = hi;
+    fLo = fHi;
+    hi *= 2;
+    if (hi > 1e9) return Infinity;
+    fHi = detectionProbability(hi, threshold) - c;
+  }
+  let side = 0;
+  for (let i = 0; i < 100 && hi - lo > 1e-9 * hi; i++) {
+    const x = (lo * fHi - hi * fLo) / (fHi - fLo);
+    const fx = detectionProbability(x, threshold) - c;
+    if (Math.abs(fx) < 1e-12) return x;
+    if (fx < 0) {
+      lo = x;
+      fLo = fx;
+      if (side === -1) fHi /= 2;
+      side = -1;
+    } else {
+      hi = x;
+      fHi = fx;
+      if (side === 1) fLo /= 2;
+      side = 1;
+    }
+  }
+  return hi;
+}
+
+/** Noise of one night's mean of k visits: σ_night² = σ_white²/k + σ_floor² ({@link NIGHTLY_NOISE_SOURCE}). */
+export function nightlySigmaPpm(whiteSigmaPpm: number, floorSigmaPpm: number, visitsPerNight: number): number {
+  const k = requirePositive(visitsPerNight, 'visitsPerNight');
+  return Math.sqrt(requireNonNegative(whiteSigmaPpm, 'whiteSigmaPpm') ** 2 / k + requireNonNegative(floorSigmaPpm, 'floorSigmaPpm') ** 2);
+}
+
+/** λ of a campaign of n nights with nightly noise σ_night: n·A²/(2σ_night²). */
+export function campaignNoncentrality(nights: number, semiAmplitudePpm: number, nightlySigma: number): number {
+  const s = requirePositive(nightlySigma, 'nightlySigmaPpm');
+  return (requireNonNegative(nights, 'nights') * requireNonNegative(semiAmplitudePpm, 'semiAmplitudePpm') ** 2) / (2 * s * s);
 }
 
 /** Frequency and period precision of a sinusoid fit (Montgomery & O'Donoghue 1999). */

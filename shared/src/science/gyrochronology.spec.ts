@@ -1,14 +1,19 @@
 import fc from 'fast-check';
 import {
   type GyroRelationId,
+  AGE_OF_UNIVERSE_MYR,
   GYRO_RELATIONS,
   GYRO_RELATION_INFO,
+  INTRINSIC_SCATTER,
   ageFromPeriod,
   barnesAgeUncertainty,
+  convergenceAgeMyr,
   estimateAge,
   periodFromAge,
   predictPeriod,
+  weakenedBrakingRossby,
 } from './gyrochronology';
+import { fmt } from './explained';
 import { ScienceInputError } from './science-input-error';
 
 describe('gyrochronology check values (SCIENCE.md §8)', () => {
@@ -74,7 +79,7 @@ describe('predictPeriod', () => {
     expect(narrow.rangeDays.high).toBeGreaterThan(narrow.periodDays);
     expect(wide.rangeDays.low).toBeLessThan(narrow.rangeDays.low);
     expect(wide.rangeDays.high).toBeGreaterThan(narrow.rangeDays.high);
-    expect(wide.contributions.map((c) => c.parameter)).toEqual(['ageMyr', 'a', 'b', 'n']);
+    expect(wide.contributions.map((c) => c.parameter)).toEqual(['ageMyr', 'a', 'b', 'n', 'intrinsicScatter']);
   });
 
   it('is asymmetric for Angus 2015, whose coefficients have asymmetric errors', () => {
@@ -94,7 +99,7 @@ describe('predictPeriod', () => {
     expect(predictPeriod(input)).toEqual(predictPeriod(input));
   });
 
-  it('cautions about weakened braking past Ro ≈ 2 (van Saders et al. 2016) and names the τ scale', () => {
+  it('cautions about weakened braking past Ro ≈ Ro☉ (van Saders et al. 2016) and names the τ scale', () => {
     const sun = predictPeriod({ relation: 'barnes2007', colour: { value: 0.65, system: 'BV' }, ageMyr: 6000 });
     const f = sun.flags.find((x) => x.code === 'weakenedBraking');
     expect(f?.source).toMatch(/van Saders et al. \(2016\), Nature 529, 181/);
@@ -103,13 +108,12 @@ describe('predictPeriod', () => {
     expect(young.flags.some((x) => x.code === 'weakenedBraking')).toBe(false);
   });
 
-  it('flags colours and ages outside the calibrated range instead of extrapolating silently', () => {
-    const p = predictPeriod({ relation: 'mamajekHillenbrand2008', colour: { value: 1.2, system: 'BV' }, ageMyr: 50 });
-    expect(p.flags.map((f) => f.code)).toEqual(expect.arrayContaining(['colourOutsideCalibration', 'ageOutsideCalibration']));
-    const a19 = predictPeriod({ relation: 'angus2019', colour: { value: 1.0, system: 'BPRP' }, ageMyr: 200 });
-    expect(a19.flags.map((f) => f.code)).toContain('ageOutsideCalibration');
-    const m = predictPeriod({ relation: 'angus2019', colour: { value: 3.0, system: 'BPRP' }, ageMyr: 2000 });
-    expect(m.flags.map((f) => f.code)).toEqual(expect.arrayContaining(['colourOutsideCalibration', 'angus2019LinearBranch']));
+  it('cautions (and still gives a number) for ages below the calibrated range (Angus et al. 2019: scatter large below 250 Myr)', () => {
+    const young = predictPeriod({ relation: 'angus2019', colour: { value: 1.0, system: 'BPRP' }, ageMyr: 200 });
+    expect(young.flags.find((f) => f.code === 'ageOutsideCalibration')?.severity).toBe('caution');
+    expect(young.noResult).toBeNull();
+    const inside = predictPeriod({ relation: 'angus2019', colour: { value: 1.0, system: 'BPRP' }, ageMyr: 300 });
+    expect(inside.flags.map((f) => f.code)).not.toContain('ageOutsideCalibration');
   });
 
   it('converts the colour through the dwarf sequence when the relation takes the other system', () => {
@@ -174,5 +178,188 @@ describe('bad input', () => {
         },
       ),
     );
+  });
+});
+
+/** The blocking flags of a result with a given code. */
+const blocking = (r: { flags: { code: string; severity: string; message: string }[] }, code: string) =>
+  r.flags.filter((f) => f.code === code && f.severity === 'blocking');
+
+describe('no number where the relation has none (calibration ranges)', () => {
+  const sun = { relation: 'barnes2007' as const, colour: { value: 0.65, system: 'BV' as const } };
+
+  it('predictPeriod: an age above the age of the universe, 13 787 Myr (Planck Collaboration 2020, A&A 641, A6, from memory), gives no period', () => {
+    const old = predictPeriod({ ...sun, ageMyr: 14000 });
+    expect(old.noResult?.code).toBe('ageBeyondUniverse');
+    expect(old.noResult?.reason).toMatch(/14000 Myr exceeds the age of the universe, 13787 Myr/);
+    expect(blocking(old, 'noExpectedPeriod')).toHaveLength(1);
+    expect(blocking(old, 'noExpectedPeriod')[0].message).toMatch(/14000/);
+    const ok = predictPeriod({ ...sun, ageMyr: 13000 });
+    expect(ok.noResult).toBeNull();
+    expect(ok.flags.some((f) => f.severity === 'blocking')).toBe(false);
+    expect(ok.flags.find((f) => f.code === 'ageOutsideCalibration')?.severity).toBe('caution');
+    expect(AGE_OF_UNIVERSE_MYR).toBe(13787);
+  });
+
+  it('estimateAge: a period whose Barnes (2007) age exceeds the age of the universe (Planck Collaboration 2020, from memory) gives no age', () => {
+    const slow = estimateAge({ ...sun, periodDays: 50 });
+    expect(slow.ageMyr).toBeGreaterThan(AGE_OF_UNIVERSE_MYR);
+    expect(slow.noResult?.code).toBe('ageBeyondUniverse');
+    expect(blocking(slow, 'noGyroAge')[0].message).toContain(`${fmt(slow.ageMyr, 4)} Myr exceeds the age of the universe`);
+    const ok = estimateAge({ ...sun, periodDays: 40 });
+    expect(ok.ageMyr).toBeLessThan(AGE_OF_UNIVERSE_MYR);
+    expect(ok.noResult).toBeNull();
+  });
+
+  it('estimateAge: a period below the slow sequence (Ro ≤ 0.1 on the Noyes scale, Wright et al. 2011 saturation, from memory) gives no age, on any τ scale', () => {
+    const k2 = { relation: 'barnes2007' as const, colour: { value: 0.884, system: 'BV' as const } };
+    const fast = estimateAge({ ...k2, periodDays: 1.5 });
+    expect(fast.rossby?.rossby).toBeLessThan(0.1);
+    expect(fast.noResult?.code).toBe('belowSlowSequence');
+    expect(blocking(fast, 'noGyroAge')[0].message).toMatch(/period 1.5 d gives Ro 0.069/);
+    // Ro 0.101 on the Wright et al. (2018) scale is 0.090 on the Noyes scale: still saturated.
+    const fastW18 = estimateAge({ ...k2, periodDays: 1.5, turnoverScale: 'wright2018' });
+    expect(fastW18.rossby?.rossby).toBeGreaterThan(0.1);
+    expect(fastW18.noResult?.code).toBe('belowSlowSequence');
+    const slowEnough = estimateAge({ ...k2, periodDays: 5 });
+    expect(slowEnough.noResult).toBeNull();
+  });
+
+  it('colours outside a relation\'s calibrated range give no result (Mamajek & Hillenbrand 2008: 0.5 < (B−V)0 < 0.9)', () => {
+    const red = predictPeriod({ relation: 'mamajekHillenbrand2008', colour: { value: 1.2, system: 'BV' }, ageMyr: 1000 });
+    expect(red.noResult?.code).toBe('colourOutsideCalibration');
+    expect(red.noResult?.reason).toMatch(/B−V 1.2 is outside the calibrated range of Mamajek & Hillenbrand \(2008\)/);
+    expect(blocking(red, 'noExpectedPeriod')).not.toHaveLength(0);
+    expect(estimateAge({ relation: 'mamajekHillenbrand2008', colour: { value: 1.2, system: 'BV' }, periodDays: 20 }).noResult?.code).toBe('colourOutsideCalibration');
+    const inside = predictPeriod({ relation: 'mamajekHillenbrand2008', colour: { value: 0.7, system: 'BV' }, ageMyr: 1000 });
+    expect(inside.noResult).toBeNull();
+  });
+
+  it('the M-dwarf linear branch of Angus et al. (2019), BP−RP ≥ 2.7, outside its calibrated 0.56–2.7, gives no result', () => {
+    const m = predictPeriod({ relation: 'angus2019', colour: { value: 3.0, system: 'BPRP' }, ageMyr: 2000 });
+    expect(m.noResult?.code).toBe('angus2019LinearBranch');
+    expect(m.noResult?.reason).toMatch(/BP−RP 3 falls on the M-dwarf linear branch/);
+    const inside = predictPeriod({ relation: 'angus2019', colour: { value: 2.6, system: 'BPRP' }, ageMyr: 2000 });
+    expect(inside.noResult).toBeNull();
+  });
+
+  it('F stars above the Kraft break ≈ 6200 K (Kraft 1967, ApJ 150, 551, from memory; Teff from Pecaut & Mamajek 2013) give no result', () => {
+    const hot = predictPeriod({ relation: 'angus2019', colour: { value: 0.6, system: 'BPRP' }, ageMyr: 2000 });
+    expect(hot.noResult?.code).toBe('aboveKraftBreak');
+    expect(hot.noResult?.reason).toMatch(/Teff ≈ 6505 K on the dwarf sequence, above the Kraft break ≈ 6200 K/);
+    const hotAge = estimateAge({ relation: 'barnes2007', colour: { value: 0.47, system: 'BV' }, periodDays: 5 });
+    expect(hotAge.noResult).not.toBeNull();
+    expect(hotAge.flags.filter((f) => f.code === 'noGyroAge').map((f) => f.message).join()).toMatch(/Kraft break/);
+    const cool = predictPeriod({ relation: 'angus2019', colour: { value: 0.75, system: 'BPRP' }, ageMyr: 2000 });
+    expect(cool.noResult).toBeNull();
+    expect(estimateAge({ relation: 'barnes2007', colour: { value: 0.55, system: 'BV' }, periodDays: 5 }).noResult).toBeNull();
+  });
+
+  it('B−V relations give no result from (B−V)0 1.42 (M0V, Pecaut & Mamajek 2013 Table 5: B−V nearly flat from M0V to M3V)', () => {
+    const m1 = predictPeriod({ relation: 'barnes2007', colour: { value: 1.45, system: 'BV' }, ageMyr: 2000 });
+    expect(m1.noResult?.code).toBe('bvDoesNotTrackMass');
+    expect(m1.noResult?.reason).toMatch(/\(B−V\)0 1.45 is at or above 1.42/);
+    const k7 = predictPeriod({ relation: 'barnes2007', colour: { value: 1.38, system: 'BV' }, ageMyr: 2000 });
+    expect(k7.noResult).toBeNull();
+    // The BP−RP relation keeps working there.
+    expect(predictPeriod({ relation: 'angus2019', colour: { value: 1.45, system: 'BV' }, ageMyr: 2000 }).noResult).toBeNull();
+  });
+});
+
+describe('convergence onto the slow sequence (Barnes 2003, ApJ 586, 464; Curtis et al. 2020, from memory)', () => {
+  it('cautions mayNotHaveConverged for a K5 dwarf younger than its convergence age, and not when older', () => {
+    const k5 = { relation: 'barnes2007' as const, colour: { value: 1.15, system: 'BV' as const } };
+    expect(convergenceAgeMyr(4440)).toBeCloseTo(583, 0);
+    const young = predictPeriod({ ...k5, ageMyr: 500 });
+    const f = young.flags.find((x) => x.code === 'mayNotHaveConverged');
+    expect(f?.severity).toBe('caution');
+    expect(f?.message).toMatch(/age 500 Myr is below ≈ 580 Myr/);
+    expect(young.noResult).toBeNull();
+    expect(predictPeriod({ ...k5, ageMyr: 800 }).flags.map((x) => x.code)).not.toContain('mayNotHaveConverged');
+    const youngAge = estimateAge({ ...k5, periodDays: predictPeriod({ ...k5, ageMyr: 400 }).periodDays });
+    expect(youngAge.flags.map((x) => x.code)).toContain('mayNotHaveConverged');
+  });
+
+  it('applies to K and M dwarfs only: a G2V dwarf at 120 Myr gets no convergence caution', () => {
+    expect(convergenceAgeMyr(5770)).toBeNull();
+    const g = predictPeriod({ relation: 'barnes2007', colour: { value: 0.65, system: 'BV' }, ageMyr: 120 });
+    expect(g.flags.map((x) => x.code)).not.toContain('mayNotHaveConverged');
+  });
+
+  it('converges later for cooler stars, and no later than 2 Gyr', () => {
+    const ages = [5200, 4800, 4400, 4000, 3600, 3200].map((t) => convergenceAgeMyr(t) as number);
+    for (let i = 1; i < ages.length; i++) expect(ages[i]).toBeGreaterThanOrEqual(ages[i - 1]);
+    expect(ages[ages.length - 1]).toBe(2000);
+  });
+});
+
+describe('weakened braking on the τ scale in use (van Saders et al. 2016, Nature 529, 181: Ro_crit ≈ Ro☉, from memory)', () => {
+  const g2 = { relation: 'barnes2007' as const, colour: { value: 0.65, system: 'BV' as const } };
+
+  it('states the threshold as ≈ the solar Ro of each scale: 2.18 Noyes, 1.80 Wright 2011, 2.43 Wright 2018 [derived]', () => {
+    expect(weakenedBrakingRossby('noyes1984')).toBeCloseTo(26.09 / 11.99, 2);
+    expect(weakenedBrakingRossby('wright2011')).toBeCloseTo(26.09 / 14.45, 2);
+    expect(weakenedBrakingRossby('wright2018')).toBeCloseTo(26.09 / 10 ** (0.64 + 0.25 * 1.56), 6);
+  });
+
+  it('fires on the Wright et al. (2011) scale at Ro 1.93 > 1.80 (a fixed 2 would not) and names the scale and threshold', () => {
+    const p = predictPeriod({ ...g2, ageMyr: 5000, turnoverScale: 'wright2011' });
+    expect(p.rossby?.rossby).toBeGreaterThan(1.8);
+    expect(p.rossby?.rossby).toBeLessThan(2);
+    expect(p.flags.find((f) => f.code === 'weakenedBraking')?.message).toMatch(/^Ro 1.9\d? exceeds ≈ 1.8 on the Wright et al. \(2011\) τ scale \(≈ the solar value\)/);
+  });
+
+  it('does not fire on the Wright et al. (2018) scale at Ro 2.16 < 2.43 (a fixed 2 would)', () => {
+    const p = predictPeriod({ ...g2, ageMyr: 3500, turnoverScale: 'wright2018' });
+    expect(p.rossby?.rossby).toBeGreaterThan(2);
+    expect(p.flags.map((f) => f.code)).not.toContain('weakenedBraking');
+  });
+
+  it('honours an explicit weakenedBrakingRossby and says it was given', () => {
+    const high = predictPeriod({ ...g2, ageMyr: 6000, weakenedBrakingRossby: 3 });
+    expect(high.flags.map((f) => f.code)).not.toContain('weakenedBraking');
+    const low = predictPeriod({ ...g2, ageMyr: 3000, weakenedBrakingRossby: 1.5 });
+    expect(low.flags.find((f) => f.code === 'weakenedBraking')?.message).toMatch(/exceeds the given 1.5 on the Noyes et al. \(1984\) τ scale/);
+  });
+});
+
+describe('intrinsic scatter in every range', () => {
+  it('Angus et al. (2019) at the solar colour and age, with no age error, has a non-zero range (scatter 5 %, from memory)', () => {
+    const p = predictPeriod({ relation: 'angus2019', colour: { value: 0.82, system: 'BPRP' }, ageMyr: 4570 });
+    expect(p.periodDays).toBeCloseTo(26.02, 2); // SCIENCE.md §8 #4: the scatter leaves the central value alone
+    expect(p.contributions.find((c) => c.parameter === 'cA')?.upperLn).toBeCloseTo(0, 9);
+    expect(p.contributions.find((c) => c.parameter === 'intrinsicScatter')).toEqual({ parameter: 'intrinsicScatter', lowerLn: 0.05, upperLn: 0.05 });
+    expect(Math.log(p.rangeDays.high / p.periodDays)).toBeCloseTo(0.05, 9);
+    expect(Math.log(p.periodDays / p.rangeDays.low)).toBeCloseTo(0.05, 9);
+  });
+
+  it.each(GYRO_RELATIONS)('%s: the period range is at least the published/adopted scatter wide (INTRINSIC_SCATTER source)', (relation) => {
+    const system = GYRO_RELATION_INFO[relation].colourSystem;
+    const colour = { value: system === 'BV' ? 0.7 : 0.9, system };
+    const p = predictPeriod({ relation, colour, ageMyr: 2000 });
+    const s = INTRINSIC_SCATTER[relation].lnPeriod;
+    expect(s).toBeGreaterThan(0);
+    expect(Math.log(p.rangeDays.high / p.periodDays)).toBeGreaterThanOrEqual(s - 1e-12);
+    expect(Math.log(p.periodDays / p.rangeDays.low)).toBeGreaterThanOrEqual(s - 1e-12);
+    const a = estimateAge({ relation, colour, periodDays: p.periodDays });
+    expect(a.contributions.map((c) => c.parameter)).toContain('intrinsicScatter');
+    expect(a.rangeMyr.high).toBeGreaterThan(a.ageMyr);
+    expect(a.rangeMyr.low).toBeLessThan(a.ageMyr);
+  });
+
+  it('Mamajek & Hillenbrand (2008): 0.05 dex in age (from memory) is 0.05·ln 10 in ln age and n times that in ln P', () => {
+    const a = estimateAge({ relation: 'mamajekHillenbrand2008', colour: { value: 0.7, system: 'BV' }, periodDays: 15 });
+    expect(a.contributions.find((c) => c.parameter === 'intrinsicScatter')?.upperLn).toBeCloseTo(0.05 * Math.LN10, 12);
+    expect(INTRINSIC_SCATTER.mamajekHillenbrand2008.lnPeriod).toBeCloseTo(0.566 * 0.05 * Math.LN10, 12);
+  });
+
+  it('Barnes (2007): fractionalUncertainty stays eq. 16 (SCIENCE.md §8 #5) while the range adds the scatter on top', () => {
+    const a = estimateAge({ relation: 'barnes2007', colour: { value: 0.642, system: 'BV' }, periodDays: 26.09 });
+    expect(a.fractionalUncertainty).toBeCloseTo(0.168, 3);
+    expect(a.fractionalUncertainty).toBe(barnesAgeUncertainty(a.ageMyr, 26.09, 0.642));
+    const eq16Only = Math.log(1 + a.fractionalUncertainty);
+    const scatter = 0.05 / 0.5189;
+    expect(Math.log(a.rangeMyr.high / a.ageMyr)).toBeCloseTo(Math.hypot(eq16Only, scatter), 12);
+    expect(a.rangeMyr.high).toBeGreaterThan(a.ageMyr * (1 + a.fractionalUncertainty));
   });
 });

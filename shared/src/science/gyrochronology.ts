@@ -10,7 +10,15 @@
  * are added in quadrature into the upper 1σ, the decreases into the lower 1σ; a range of k σ
  * is P·exp(−k·σ₋) … P·exp(+k·σ₊). This is first-order propagation that keeps each term's
  * non-linearity and asymmetry, and ignores correlations between coefficients, which the
- * papers do not publish (Spincycle's choice, no source).
+ * papers do not publish (Spincycle's choice, no source). Every range also carries the
+ * relation's intrinsic scatter ({@link INTRINSIC_SCATTER}) as one more term, so no range has
+ * zero width.
+ *
+ * "No number where the relation has none": outside a relation's calibrated colours, above the
+ * Kraft break, where B−V no longer tracks mass, for periods below the slow-rotator sequence and
+ * for ages above the age of the universe, the result carries `noResult` and a blocking flag;
+ * its numbers are still computed but must not be shown. Ages outside the calibrated ages
+ * (below the age of the universe) and stars that may not have converged stay cautions.
  */
 import {
   type ResolvedColour,
@@ -18,12 +26,22 @@ import {
   TARGET_COLOUR_SYSTEMS,
   colourLabel,
   convertColour,
+  dwarfSequenceAt,
+  DWARF_SEQUENCE,
   resolveColour,
+  sequenceValue,
   DWARF_SEQUENCE_SOURCE,
 } from './colour-sequence';
 import { type ScienceFlag, flag, fmt } from './explained';
 import { ScienceInputError, requireFinite, requireNonNegative, requireOneOf, requirePositive } from './science-input-error';
-import { type RossbyNumber, type TurnoverScale, TURNOVER_SCALES, turnoverTimeForColour } from './turnover-time';
+import {
+  type RossbyNumber,
+  type TurnoverScale,
+  TURNOVER_SCALES,
+  TURNOVER_SCALE_INFO,
+  solarRossby,
+  turnoverTimeForColour,
+} from './turnover-time';
 
 export const GYRO_RELATIONS = ['barnes2007', 'mamajekHillenbrand2008', 'angus2015', 'angus2019'] as const;
 export type GyroRelationId = (typeof GYRO_RELATIONS)[number];
@@ -133,7 +151,7 @@ export const GYRO_RELATION_INFO: Readonly<Record<GyroRelationId, GyroRelationInf
     citation: 'Angus et al. (2019), AJ 158, 173',
     formula: 'log10 P = cA·log10(t/yr) + Σ ck·log10(BP−RP)^k',
     colourSystem: 'BPRP',
-    calibratedColour: { min: 0.56, max: 2.7, note: '0.56 < (BP−RP)0 < 2.7 (SCIENCE.md §1)' },
+    calibratedColour: { min: 0.56, max: 2.7, note: '0.56 < (BP−RP)0 < 2.7 (SCIENCE.md §1); the M-dwarf linear branch from 2.7 rests on few stars' },
     calibratedAgeMyr: { min: 250, max: 10000, note: 'scatter is large below 250 Myr (SCIENCE.md §1)' },
   },
 };
@@ -152,9 +170,129 @@ export const SUPPORTED_COLOUR_DOMAIN: Readonly<Record<TargetColourSystem, { min:
 /** The Rossby number reported with a gyrochronology result (its τ flags are in the result's flags). */
 export type GyroRossby = Omit<RossbyNumber, 'flags'>;
 
-/** Default critical Rossby number for the weakened-braking caution (van Saders et al. 2016, Nature 529, 181). */
-export const WEAKENED_BRAKING_ROSSBY = 2;
 const VAN_SADERS = 'van Saders et al. (2016), Nature 529, 181';
+
+/**
+ * Critical Rossby number of weakened magnetic braking as a multiple of the solar Rossby number
+ * on the same τ scale: van Saders et al. (2016), Nature 529, 181 find Ro_crit ≈ 2.16 on their
+ * scale, on which the Sun has Ro ≈ 2.16, i.e. Ro_crit ≈ Ro☉ (from memory). Stating it as a
+ * multiple of Ro☉ makes the threshold mean the same on every τ scale.
+ */
+export const WEAKENED_BRAKING_SOLAR_MULTIPLE = 1;
+
+/**
+ * Default critical Rossby number of the weakened-braking caution on one τ scale:
+ * {@link WEAKENED_BRAKING_SOLAR_MULTIPLE}·Ro☉(scale), Ro☉ = 26.09 d / τ☉ (see
+ * `solarRossby`): ≈ 2.18 on the Noyes (1984) scale, 2.03 Cranmer & Saar (2011), 1.80
+ * Wright et al. (2011), 2.43 Wright et al. (2018) [derived].
+ */
+export function weakenedBrakingRossby(scale: TurnoverScale): number {
+  return WEAKENED_BRAKING_SOLAR_MULTIPLE * solarRossby(requireOneOf(scale, 'turnoverScale', TURNOVER_SCALES));
+}
+
+/**
+ * Age of the universe, Myr: 13.787 Gyr, Planck Collaboration (2020), A&A 641, A6 (from memory).
+ * No star is older: a relation that needs a larger age has no answer.
+ */
+export const AGE_OF_UNIVERSE_MYR = 13787;
+const AGE_OF_UNIVERSE_SOURCE = 'Planck Collaboration (2020), A&A 641, A6 (from memory)';
+
+/**
+ * The Kraft break, K: stars hotter than ≈ 6200 K have thin convective envelopes and do not spin
+ * down as the relations assume (Kraft (1967), ApJ 150, 551 — from memory). Teff comes from the
+ * dwarf sequence: (B−V)0 0.525, (BP−RP)0 0.688 at 6200 K.
+ */
+export const KRAFT_BREAK_TEFF_K = 6200;
+const KRAFT_SOURCE = 'Kraft (1967), ApJ 150, 551 (from memory)';
+
+/**
+ * (B−V)0 at and above which B−V no longer tracks mass, so a B−V relation cannot place the star:
+ * 1.42, the M0V row of the dwarf sequence (SCIENCE.md §4). From M0V to M3V, B−V rises by 0.11
+ * mag (1.42 → 1.53) while the mass falls from 0.585 to 0.36 M☉ (BP−RP 1.84 → 2.50), against
+ * 0.19 mag for 0.06 M☉ from K5V to K7V: a 0.02-mag colour error spans ≈ 0.04 M☉ there, and
+ * B−V relations are not calibrated on M dwarfs. The lower end of the brief's 1.4–1.5 window
+ * is taken because the flattening starts at M0V [derived from the table].
+ */
+export const BV_MASS_TRACKING_LIMIT = 1.42;
+
+/**
+ * A measured period is below the slow-rotator sequence (fast rotator: still on the
+ * saturated / C sequence of Barnes (2003), ApJ 586, 464, or a tidally locked binary) when its
+ * Rossby number, expressed on the Noyes (1984) scale through Ro/Ro☉, is at or below 0.1 —
+ * saturation of activity at Ro ≈ 0.1, Wright et al. (2011), ApJ 743, 48 (from memory; 0.13 on
+ * their τ scale), the same value the amplitude model saturates at. Chosen rather than "shorter
+ * than the relation's period at its youngest calibrated age" because that criterion would
+ * turn every young but converged star into no result, whereas ages below the calibration are
+ * only a caution (Spincycle's choice).
+ */
+export const FAST_ROTATOR_NOYES_ROSSBY = 0.1;
+const FAST_ROTATOR_SOURCE = 'Wright et al. (2011), ApJ 743, 48 (saturation at Ro ≈ 0.1, from memory); Barnes (2003), ApJ 586, 464';
+
+/**
+ * Convergence onto the slow sequence, for K and M dwarfs (Teff < 5300 K, K0V): age (Myr) below
+ * which a star may still be a fast or intermediate rotator, interpolated linearly in log age
+ * against Teff between these anchors and held at the coolest one. Spincycle's rule built on
+ * results recalled, not re-read (from memory): the slow (I) sequence reaches later spectral
+ * types as clusters age — G and early K dwarfs by ≈ 100–150 Myr, mid-K by ≈ 300 Myr, late K
+ * by ≈ 600 Myr (Barnes (2003), ApJ 586, 464) — and the spin-down of K dwarfs stalls for
+ * several hundred Myr, so late K dwarfs follow the relations only from ≈ 1 Gyr (Curtis et al.
+ * (2020), ApJ 904, 140); early M dwarfs take ≈ 2 Gyr. G dwarfs converge before every
+ * relation's youngest calibrated age, which has its own caution.
+ */
+export const CONVERGENCE_AGE_ANCHORS: readonly { teffK: number; ageMyr: number }[] = [
+  { teffK: 5300, ageMyr: 150 },
+  { teffK: 4870, ageMyr: 300 },
+  { teffK: 4090, ageMyr: 1000 },
+  { teffK: 3430, ageMyr: 2000 },
+];
+const CONVERGENCE_SOURCE = 'Barnes (2003), ApJ 586, 464; Curtis et al. (2020), ApJ 904, 140 (both from memory); interpolation is Spincycle\'s rule';
+
+/** Convergence age (Myr) at an effective temperature, or null above 5300 K (see {@link CONVERGENCE_AGE_ANCHORS}). */
+export function convergenceAgeMyr(teffK: number): number | null {
+  const t = requirePositive(teffK, 'teffK');
+  const a = CONVERGENCE_AGE_ANCHORS;
+  if (t >= a[0].teffK) return null;
+  for (let i = 0; i < a.length - 1; i++) {
+    if (t >= a[i + 1].teffK) {
+      const f = (a[i].teffK - t) / (a[i].teffK - a[i + 1].teffK);
+      return 10 ** (Math.log10(a[i].ageMyr) + f * (Math.log10(a[i + 1].ageMyr) - Math.log10(a[i].ageMyr)));
+    }
+  }
+  return a[a.length - 1].ageMyr;
+}
+
+/**
+ * Intrinsic scatter of each relation, 1σ in ln P at fixed colour and age, added in quadrature
+ * to every period range (and, divided by the age exponent, to every age range). No range has
+ * zero width.
+ */
+export const INTRINSIC_SCATTER: Readonly<Record<GyroRelationId, { lnPeriod: number; source: string }>> = {
+  // Spread of the I sequence about the relation at fixed colour, a few per cent in period;
+  // Barnes (2007), ApJ 669, 1167 (from memory: value not re-read; 5 % adopted).
+  barnes2007: { lnPeriod: 0.05, source: 'Barnes (2007), ApJ 669, 1167: few-per-cent width of the I sequence (from memory); 5 % adopted' },
+  // Mamajek & Hillenbrand (2008), ApJ 687, 1264: ≈ 0.05 dex in age for well-measured solar-type
+  // stars (from memory, SCIENCE.md §1) → ln P scatter n·0.05·ln 10 = 0.566 × 0.1151 = 0.0652 [derived].
+  mamajekHillenbrand2008: {
+    lnPeriod: 0.566 * 0.05 * Math.LN10,
+    source: 'Mamajek & Hillenbrand (2008), ApJ 687, 1264: ≈ 0.05 dex in age (from memory), × n = 0.566 in ln P',
+  },
+  // Angus et al. (2015), MNRAS 450, 1787 find that no single relation fits all their subsets and
+  // give no single scatter value (from memory); 10 % in period adopted (Spincycle's choice).
+  angus2015: { lnPeriod: 0.1, source: "Angus et al. (2015), MNRAS 450, 1787 gives no single scatter (from memory); 10 % adopted, Spincycle's choice" },
+  // Angus et al. (2019), AJ 158, 173: their variance model is zero for FGK dwarfs in the
+  // calibrated range (read in the authors' code accompanying the paper); 5 % in period adopted for
+  // the width of the slow sequence at fixed colour (from memory).
+  angus2019: {
+    lnPeriod: 0.05,
+    source: "Angus et al. (2019), AJ 158, 173: variance model zero for FGK dwarfs; 5 % adopted for the slow-sequence width (from memory)",
+  },
+};
+
+/** Why a relation gives no number: `code` names the cause, `reason` says it in plain language with the number that triggered it. */
+export interface NoResult {
+  code: string;
+  reason: string;
+}
 
 /** Forward relation for one colour (in the relation's own system, intrinsic) and age. */
 export function periodFromAge(relation: GyroRelationId, relationColour: number, ageMyr: number): number {
@@ -270,7 +408,10 @@ export interface PeriodPredictionInput {
   rangeSigma?: number;
   /** τ scale of the Rossby number used for the weakened-braking caution (default Noyes 1984). */
   turnoverScale?: TurnoverScale;
-  /** Critical Rossby number for the caution (default 2). */
+  /**
+   * Critical Rossby number for the caution, on `turnoverScale` (default: the solar Rossby number
+   * on that scale, see {@link weakenedBrakingRossby}).
+   */
   weakenedBrakingRossby?: number;
 }
 
@@ -278,8 +419,9 @@ export interface PeriodPrediction {
   relation: GyroRelationId;
   relationLabel: string;
   source: string;
+  /** Central period, days. Computed always, but not to be shown when `noResult` is set. */
   periodDays: number;
-  /** P·exp(−k·σ₋) … P·exp(+k·σ₊) with k = `sigma`. */
+  /** P·exp(−k·σ₋) … P·exp(+k·σ₊) with k = `sigma`; includes the relation's intrinsic scatter. */
   rangeDays: { low: number; high: number; sigma: number };
   /** 1σ of ln P below and above. */
   lnPeriodSigma: { lower: number; upper: number };
@@ -291,6 +433,12 @@ export interface PeriodPrediction {
   relationColour: RelationColour;
   /** Ro of the central period; null when the colour is outside the dwarf sequence needed for τ. */
   rossby: GyroRossby | null;
+  /**
+   * Set when the relation has no period for this star (colour outside its calibration, above
+   * the Kraft break, B−V no longer tracking mass, age above the age of the universe): callers
+   * must show no number then. A blocking `noExpectedPeriod` flag says the same.
+   */
+  noResult: NoResult | null;
   flags: ScienceFlag[];
 }
 
@@ -305,7 +453,7 @@ export function predictPeriod(input: PeriodPredictionInput): PeriodPrediction {
   const ageSigma = input.ageUncertaintyMyr === undefined ? 0 : requireNonNegative(input.ageUncertaintyMyr, 'ageUncertaintyMyr');
   const k = input.rangeSigma === undefined ? 1 : requirePositive(input.rangeSigma, 'rangeSigma');
   const scale = requireOneOf(input.turnoverScale ?? 'noyes1984', 'turnoverScale', TURNOVER_SCALES);
-  const roCrit = input.weakenedBrakingRossby === undefined ? WEAKENED_BRAKING_ROSSBY : requirePositive(input.weakenedBrakingRossby, 'weakenedBrakingRossby');
+  const roCrit = criticalRossby(input.weakenedBrakingRossby, scale);
 
   const { colour, relationColour, flags } = colourForRelation(relation, input.colour, input.reddeningEbvMag);
   const x = relationColour.value;
@@ -328,13 +476,17 @@ export function predictPeriod(input: PeriodPredictionInput): PeriodPrediction {
     contributions.push(contribution('ageMyr', lnP0, evaluate({ t: ageMyr + ageSigma }), evaluate({ t: low })));
   }
   contributions.push(...coefficientContributions(relation, x, lnP0, evaluate, flags));
+  contributions.push(scatterContribution(relation, 1));
 
   const lower = quadrature(contributions.map((c) => c.lowerLn));
   const upper = quadrature(contributions.map((c) => c.upperLn));
   const periodDays = Math.exp(lnP0);
 
-  flags.push(...calibrationFlags(relation, x, ageMyr));
+  const causes = colourNoResults(relation, x, colour);
+  if (ageMyr > AGE_OF_UNIVERSE_MYR) causes.push(ageBeyondUniverse(`the given age ${fmt(ageMyr, 4)} Myr`));
+  flags.push(...calibrationFlags(relation, x, ageMyr, colour));
   const rossby = rossbyWithFlags(colour, scale, periodDays, roCrit, flags, 'magnetic braking weakens there, so the period may be shorter than predicted');
+  const noResult = noResultWithFlags(causes, 'noExpectedPeriod', 'no expected period', flags);
 
   return {
     relation,
@@ -350,6 +502,7 @@ export function predictPeriod(input: PeriodPredictionInput): PeriodPrediction {
     colour,
     relationColour,
     rossby,
+    noResult,
     flags,
   };
 }
@@ -371,9 +524,14 @@ export interface AgeEstimate {
   relation: GyroRelationId;
   relationLabel: string;
   source: string;
+  /** Central age, Myr. Computed always, but not to be shown when `noResult` is set. */
   ageMyr: number;
+  /** t·exp(−k·σ₋) … t·exp(+k·σ₊); includes the relation's intrinsic scatter. */
   rangeMyr: { low: number; high: number; sigma: number };
-  /** 1σ fractional uncertainty (mean of the two sides for asymmetric ranges). */
+  /**
+   * 1σ fractional uncertainty (mean of the two sides for asymmetric ranges). For Barnes (2007)
+   * this is his eq. 16 alone, as published; the range adds the intrinsic scatter on top.
+   */
   fractionalUncertainty: number;
   uncertaintySource: string;
   contributions: UncertaintyContribution[];
@@ -381,6 +539,13 @@ export interface AgeEstimate {
   colour: ResolvedColour;
   relationColour: RelationColour;
   rossby: GyroRossby | null;
+  /**
+   * Set when the relation has no age for this star (colour outside its calibration, above the
+   * Kraft break, B−V no longer tracking mass, a period below the slow sequence, or an age above
+   * the age of the universe): callers must show no number then. A blocking `noGyroAge` flag
+   * says the same.
+   */
+  noResult: NoResult | null;
   flags: ScienceFlag[];
 }
 
@@ -396,7 +561,7 @@ export function estimateAge(input: AgeEstimateInput): AgeEstimate {
   const pSigma = input.periodUncertaintyDays === undefined ? 0 : requireNonNegative(input.periodUncertaintyDays, 'periodUncertaintyDays');
   const k = input.rangeSigma === undefined ? 1 : requirePositive(input.rangeSigma, 'rangeSigma');
   const scale = requireOneOf(input.turnoverScale ?? 'noyes1984', 'turnoverScale', TURNOVER_SCALES);
-  const roCrit = input.weakenedBrakingRossby === undefined ? WEAKENED_BRAKING_ROSSBY : requirePositive(input.weakenedBrakingRossby, 'weakenedBrakingRossby');
+  const roCrit = criticalRossby(input.weakenedBrakingRossby, scale);
 
   const { colour, relationColour, flags } = colourForRelation(relation, input.colour, input.reddeningEbvMag);
   const x = relationColour.value;
@@ -414,10 +579,14 @@ export function estimateAge(input: AgeEstimateInput): AgeEstimate {
     if (pSigma > 0) {
       flags.push(flag('periodUncertaintyNotUsed', 'info', 'Barnes (2007) eq. 16 already contains a period term; the given period uncertainty is not added', source));
     }
-    // Symmetric fractional error δt/t: range t·(1 ± k·δt/t), kept non-negative.
-    const contributions = [{ parameter: 'eq. 16', lowerLn: -Math.log(Math.max(1 - rel, 1e-3)), upperLn: Math.log(1 + rel) }];
-    const range = { low: ageMyr * Math.max(1 - k * rel, 0), high: ageMyr * (1 + k * rel), sigma: k };
-    return finishAge(relation, info, ageMyr, range, rel, source, contributions, periodDays, colour, relationColour, flags, scale, roCrit);
+    // Eq. 16's symmetric δt/t as ln-age terms (t·(1 ± δt/t) at 1σ), plus the intrinsic scatter
+    // in quadrature: the range only; `fractionalUncertainty` stays eq. 16 as published.
+    const contributions = [
+      { parameter: 'eq. 16', lowerLn: -Math.log(Math.max(1 - rel, 1e-3)), upperLn: Math.log(1 + rel) },
+      scatterContribution(relation, BARNES_FORM_COEFFICIENTS.barnes2007.n.value),
+    ];
+    const range = lnRange(ageMyr, contributions, k);
+    return finishAge(relation, info, ageMyr, range, rel, `${source}; range adds the intrinsic scatter (${INTRINSIC_SCATTER.barnes2007.source})`, contributions, periodDays, colour, relationColour, flags, scale, roCrit);
   }
   const contributions: UncertaintyContribution[] = [];
   if (pSigma > 0) {
@@ -425,11 +594,12 @@ export function estimateAge(input: AgeEstimateInput): AgeEstimate {
     contributions.push(contribution('periodDays', lnT0, evaluate({ p: periodDays + pSigma }), evaluate({ p: low })));
   }
   contributions.push(...coefficientContributions(relation, x, lnT0, evaluate, flags));
+  contributions.push(scatterContribution(relation, relation === 'angus2019' ? ANGUS_2019.cA.value : BARNES_FORM_COEFFICIENTS[relation].n.value));
   const lower = quadrature(contributions.map((c) => c.lowerLn));
   const upper = quadrature(contributions.map((c) => c.upperLn));
   const rel = (Math.expm1(upper) - Math.expm1(-lower)) / 2;
-  const range = { low: ageMyr * Math.exp(-k * lower), high: ageMyr * Math.exp(k * upper), sigma: k };
-  const source = `${info.citation} coefficient uncertainties; ${PROPAGATION_METHOD}`;
+  const range = lnRange(ageMyr, contributions, k);
+  const source = `${info.citation} coefficient uncertainties and intrinsic scatter (${INTRINSIC_SCATTER[relation].source}); ${PROPAGATION_METHOD}`;
   return finishAge(relation, info, ageMyr, range, rel, source, contributions, periodDays, colour, relationColour, flags, scale, roCrit);
 }
 
@@ -446,10 +616,24 @@ function finishAge(
   relationColour: RelationColour,
   flags: ScienceFlag[],
   scale: TurnoverScale,
-  roCrit: number,
+  roCrit: { value: number; given: boolean },
 ): AgeEstimate {
-  flags.push(...calibrationFlags(relation, relationColour.value, ageMyr));
+  const causes = colourNoResults(relation, relationColour.value, colour);
+  flags.push(...calibrationFlags(relation, relationColour.value, ageMyr, colour));
   const rossby = rossbyWithFlags(colour, scale, periodDays, roCrit, flags, 'braking weakens there, so the star may be older than this age');
+  if (rossby) {
+    const roNoyes = (rossby.rossby * solarRossby('noyes1984')) / solarRossby(scale);
+    if (roNoyes <= FAST_ROTATOR_NOYES_ROSSBY) {
+      const onScale = FAST_ROTATOR_NOYES_ROSSBY * (solarRossby(scale) / solarRossby('noyes1984'));
+      causes.push({
+        code: 'belowSlowSequence',
+        reason: `period ${fmt(periodDays)} d gives Ro ${fmt(rossby.rossby)} on the ${rossby.scaleLabel} τ scale, at or below the saturation value ≈ ${fmt(onScale, 2)} there (Ro 0.1 on the Noyes (1984) scale): a fast rotator below the slow-rotator sequence (young, or a tidally locked binary), where period does not measure age`,
+        source: FAST_ROTATOR_SOURCE,
+      });
+    }
+  }
+  if (ageMyr > AGE_OF_UNIVERSE_MYR) causes.push(ageBeyondUniverse(`the relation's age ${fmt(ageMyr, 4)} Myr`));
+  const noResult = noResultWithFlags(causes, 'noGyroAge', 'no gyrochronological age', flags);
   return {
     relation,
     relationLabel: info.label,
@@ -463,6 +647,7 @@ function finishAge(
     colour,
     relationColour,
     rossby,
+    noResult,
     flags,
   };
 }
@@ -516,28 +701,119 @@ function colourForRelation(
   return { colour, relationColour: { value, system, origin: `${DWARF_SEQUENCE_SOURCE} from ${colourLabel(observed.system)} ${fmt(v)}` }, flags };
 }
 
-function calibrationFlags(relation: GyroRelationId, x: number, ageMyr: number): ScienceFlag[] {
+/** A cause of "no result", before it becomes a flag. */
+interface NoResultCause extends NoResult {
+  source: string;
+}
+
+/**
+ * Colour causes of "no result" (Spincycle's policy: outside a relation's calibrated colours the
+ * relation gives no number, rather than an extrapolated one with a caution):
+ * - outside the relation's `calibratedColour` (for Angus 2019 including its M-dwarf linear
+ *   branch from BP−RP 2.7, outside the 0.56–2.7 polynomial it calibrated);
+ * - hotter than the Kraft break ({@link KRAFT_BREAK_TEFF_K});
+ * - a B−V relation at (B−V)0 ≥ {@link BV_MASS_TRACKING_LIMIT}, where B−V no longer tracks mass.
+ */
+function colourNoResults(relation: GyroRelationId, x: number, colour: ResolvedColour): NoResultCause[] {
+  const info = GYRO_RELATION_INFO[relation];
+  const out: NoResultCause[] = [];
+  const cr = info.calibratedColour;
+  const label = `${colourLabel(info.colourSystem)} ${fmt(x)}`;
+  if (relation === 'angus2019' && x >= ANGUS_2019.linearBranchFromBpRp) {
+    out.push({
+      code: 'angus2019LinearBranch',
+      reason: `${label} falls on the M-dwarf linear branch of ${info.label} (BP−RP ≥ 2.7), outside its calibrated polynomial (${cr.note}); the branch does not join the polynomial at 2.7`,
+      source: info.citation,
+    });
+  } else if (x < cr.min || x > cr.max) {
+    out.push({ code: 'colourOutsideCalibration', reason: `${label} is outside the calibrated range of ${info.label}: ${cr.note}`, source: info.citation });
+  }
+  const teff = teffOf(colour);
+  if (teff === 'hotter' || (typeof teff === 'number' && teff > KRAFT_BREAK_TEFF_K)) {
+    const t = teff === 'hotter' ? `hotter than the dwarf sequence's first row (${DWARF_HOTTEST_TEFF_K} K)` : `Teff ≈ ${fmt(teff, 4)} K on the dwarf sequence`;
+    out.push({
+      code: 'aboveKraftBreak',
+      reason: `${colourLabel(colour.intrinsic.system)} ${fmt(colour.intrinsic.value)} is ${t}, above the Kraft break ≈ ${KRAFT_BREAK_TEFF_K} K: such stars have thin convective envelopes and do not spin down as gyrochronology assumes`,
+      source: `${KRAFT_SOURCE}; Teff: ${DWARF_SEQUENCE_SOURCE}`,
+    });
+  }
+  if (info.colourSystem === 'BV' && x >= BV_MASS_TRACKING_LIMIT) {
+    out.push({
+      code: 'bvDoesNotTrackMass',
+      reason: `(B−V)0 ${fmt(x)} is at or above ${BV_MASS_TRACKING_LIMIT} (M0V), where B−V stays nearly flat (1.42–1.53 from M0V to M3V) while the mass falls from 0.585 to 0.36 M☉: ${info.label} cannot place the star; use a BP−RP relation`,
+      source: DWARF_SEQUENCE_SOURCE,
+    });
+  }
+  return out;
+}
+
+const DWARF_HOTTEST_TEFF_K = DWARF_SEQUENCE[0].teffK;
+
+/** Teff of the target on the dwarf sequence; 'hotter' when bluer than its first row, null when redder than its last. */
+function teffOf(colour: ResolvedColour): number | 'hotter' | null {
+  if (colour.sequence) return colour.sequence.teffK;
+  const hot = sequenceValue(dwarfSequenceAt('teffK', DWARF_HOTTEST_TEFF_K), colour.intrinsic.system);
+  return colour.intrinsic.value < hot ? 'hotter' : null;
+}
+
+function ageBeyondUniverse(what: string): NoResultCause {
+  return {
+    code: 'ageBeyondUniverse',
+    reason: `${what} exceeds the age of the universe, ${fmt(AGE_OF_UNIVERSE_MYR, 5)} Myr`,
+    source: AGE_OF_UNIVERSE_SOURCE,
+  };
+}
+
+/** One blocking flag per cause; the first cause becomes the result's `noResult`. */
+function noResultWithFlags(causes: NoResultCause[], flagCode: string, what: string, flags: ScienceFlag[]): NoResult | null {
+  for (const c of causes) flags.push(flag(flagCode, 'blocking', `${what}: ${c.reason}`, c.source));
+  return causes.length === 0 ? null : { code: causes[0].code, reason: causes[0].reason };
+}
+
+/**
+ * Cautions that keep the number: an age outside the calibrated ages (but not above the age of
+ * the universe, which is a no-result cause), and a K or M dwarf younger than its convergence
+ * age ({@link convergenceAgeMyr}).
+ */
+function calibrationFlags(relation: GyroRelationId, x: number, ageMyr: number, colour: ResolvedColour): ScienceFlag[] {
   const info = GYRO_RELATION_INFO[relation];
   const out: ScienceFlag[] = [];
-  const cr = info.calibratedColour;
-  if (x < cr.min || x > cr.max) {
-    out.push(flag('colourOutsideCalibration', 'caution', `${colourLabel(info.colourSystem)} ${fmt(x)} is outside the calibrated range of ${info.label}: ${cr.note}`, info.citation));
+  const ar = info.calibratedAgeMyr;
+  if ((ageMyr < ar.min || ageMyr > ar.max) && ageMyr <= AGE_OF_UNIVERSE_MYR) {
+    out.push(flag('ageOutsideCalibration', 'caution', `age ${fmt(ageMyr)} Myr is outside the calibrated range of ${info.label}: ${ar.note}`, info.citation));
   }
-  if (relation === 'angus2019' && x >= ANGUS_2019.linearBranchFromBpRp) {
+  const teff = teffOf(colour);
+  const tConv = typeof teff === 'number' ? convergenceAgeMyr(teff) : null;
+  if (typeof teff === 'number' && tConv !== null && ageMyr < tConv) {
     out.push(
       flag(
-        'angus2019LinearBranch',
+        'mayNotHaveConverged',
         'caution',
-        'BP−RP ≥ 2.7 uses the M-dwarf linear branch, which does not join the polynomial at 2.7 and rests on few stars',
-        info.citation,
+        `age ${fmt(ageMyr)} Myr is below ≈ ${fmt(tConv, 2)} Myr, when a dwarf of Teff ≈ ${fmt(teff, 4)} K joins the slow-rotator sequence: it may still rotate faster than ${info.label} gives`,
+        CONVERGENCE_SOURCE,
       ),
     );
   }
-  const ar = info.calibratedAgeMyr;
-  if (ageMyr < ar.min || ageMyr > ar.max) {
-    out.push(flag('ageOutsideCalibration', 'caution', `age ${fmt(ageMyr)} Myr is outside the calibrated range of ${info.label}: ${ar.note}`, info.citation));
-  }
   return out;
+}
+
+/** The intrinsic-scatter term in ln(result): σ_lnP for periods, σ_lnP / exponent for ages. */
+function scatterContribution(relation: GyroRelationId, ageExponent: number): UncertaintyContribution {
+  const s = INTRINSIC_SCATTER[relation].lnPeriod / ageExponent;
+  return { parameter: 'intrinsicScatter', lowerLn: s, upperLn: s };
+}
+
+/** t·exp(∓k·σ) from contributions added in quadrature. */
+function lnRange(value: number, contributions: UncertaintyContribution[], k: number): { low: number; high: number; sigma: number } {
+  const lower = quadrature(contributions.map((c) => c.lowerLn));
+  const upper = quadrature(contributions.map((c) => c.upperLn));
+  return { low: value * Math.exp(-k * lower), high: value * Math.exp(k * upper), sigma: k };
+}
+
+/** The caller's critical Rossby number, or the solar value on the scale in use. */
+function criticalRossby(given: number | undefined, scale: TurnoverScale): { value: number; given: boolean } {
+  if (given === undefined) return { value: weakenedBrakingRossby(scale), given: false };
+  return { value: requirePositive(given, 'weakenedBrakingRossby'), given: true };
 }
 
 /**
@@ -609,7 +885,7 @@ function rossbyWithFlags(
   colour: ResolvedColour,
   scale: TurnoverScale,
   periodDays: number,
-  roCrit: number,
+  roCrit: { value: number; given: boolean },
   flags: ScienceFlag[],
   consequence: string,
 ): GyroRossby | null {
@@ -618,8 +894,11 @@ function rossbyWithFlags(
     const { flags: tauFlags, ...tauRest } = tau;
     const rossby: GyroRossby = { ...tauRest, rossby: periodDays / tau.tauDays, periodDays };
     flags.push(...tauFlags);
-    if (rossby.rossby > roCrit) {
-      flags.push(flag('weakenedBraking', 'caution', `Ro = ${fmt(rossby.rossby)} (${tau.scaleLabel} τ) exceeds ≈ ${roCrit}: ${consequence}`, VAN_SADERS));
+    if (rossby.rossby > roCrit.value) {
+      const what = roCrit.given
+        ? `the given ${fmt(roCrit.value)} on the ${tau.scaleLabel} τ scale`
+        : `≈ ${fmt(roCrit.value)} on the ${tau.scaleLabel} τ scale (≈ the solar value)`;
+      flags.push(flag('weakenedBraking', 'caution', `Ro ${fmt(rossby.rossby)} exceeds ${what}: ${consequence}`, VAN_SADERS));
     }
     return rossby;
   } catch (err) {

@@ -1,6 +1,10 @@
 import fc from 'fast-check';
+import { resolveColour } from './colour-sequence';
+import { periodFromAge } from './gyrochronology';
+import { TURNOVER_SCALES, solarRossby, turnoverTimeForColour } from './turnover-time';
 import {
   DEFAULT_AMPLITUDE_MODEL,
+  amplitudeRossby,
   PPM_PER_MMAG,
   RPER_PER_SEMI_AMPLITUDE,
   amplitudeExponent,
@@ -79,5 +83,44 @@ describe('amplitude conversions', () => {
   it('rejects negative amplitudes and unknown measures', () => {
     expect(() => convertAmplitude(-1, { measure: 'rms', unit: 'ppm' }, { measure: 'rms', unit: 'mmag' })).toThrow(/amplitude: must not be negative/);
     expect(() => convertAmplitude(1, { measure: 'p2p' as never, unit: 'ppm' }, { measure: 'rms', unit: 'mmag' })).toThrow(/from.measure/);
+  });
+});
+
+describe('amplitudeRossby (Ro on the anchors\' Noyes 1984 scale via Ro/Ro☉ [derived])', () => {
+  it('is the identity on the Noyes scale and Ro·Ro☉,Noyes/Ro☉,scale on the others', () => {
+    expect(amplitudeRossby(1.3, 'noyes1984')).toBe(1.3);
+    expect(amplitudeRossby(1.3, 'wright2018')).toBeCloseTo((1.3 * solarRossby('noyes1984')) / solarRossby('wright2018'), 12);
+    // The Sun on every scale lands on the solar anchor Ro 2.18 of SCIENCE.md §3.
+    for (const s of TURNOVER_SCALES) expect(amplitudeRossby(solarRossby(s), s)).toBeCloseTo(2.18, 2);
+  });
+
+  it('rejects a bad Rossby number or scale', () => {
+    expect(() => amplitudeRossby(0, 'noyes1984')).toThrow(/rossby: must be positive/);
+    expect(() => amplitudeRossby(1, 'barnes' as never)).toThrow(/turnoverScale/);
+  });
+
+  /** R_per of one star (Barnes 2007 period) on each τ scale, raw Ro and rescaled Ro. */
+  const amplitudes = (bv: number, ageMyr: number) => {
+    const colour = resolveColour({ value: bv, system: 'BV' }, 0);
+    const p = periodFromAge('barnes2007', bv, ageMyr);
+    return TURNOVER_SCALES.map((s) => {
+      const ro = p / turnoverTimeForColour(colour, s).tauDays;
+      return { raw: spotAmplitude(ro).rperPpm, rescaled: spotAmplitude(amplitudeRossby(ro, s)).rperPpm };
+    });
+  };
+  const spread = (v: number[]) => (Math.max(...v) - Math.min(...v)) / Math.max(...v);
+
+  it('G2V at 4.57 Gyr (Barnes 2007 period): the same amplitude within 1 % on all four τ scales (raw Ro: 29 %)', () => {
+    const a = amplitudes(0.65, 4570);
+    expect(spread(a.map((x) => x.rescaled))).toBeLessThan(0.01);
+    expect(spread(a.map((x) => x.raw))).toBeGreaterThan(0.25);
+  });
+
+  it('K2V at 1 Gyr (Barnes 2007 period): within 30 % of the largest on all four τ scales, closer than with raw Ro', () => {
+    const a = amplitudes(0.884, 1000);
+    // What remains (Noyes 1930 ppm vs Wright 2011 1357 ppm) is the scales' different colour
+    // dependence between G2V and K2V, which a solar normalisation cannot remove.
+    expect(spread(a.map((x) => x.rescaled))).toBeLessThan(0.3);
+    expect(spread(a.map((x) => x.rescaled))).toBeLessThan(spread(a.map((x) => x.raw)));
   });
 });

@@ -12,6 +12,7 @@
  *   (1.163 for the defaults) [derived].
  */
 import { requireFinite, requireNonNegative, requireOneOf, requirePositive, ScienceInputError } from './science-input-error';
+import { type TurnoverScale, TURNOVER_SCALE_INFO, TURNOVER_SCALES, solarRossby } from './turnover-time';
 
 /** Coefficients of the two-part amplitude model. */
 export interface AmplitudeModelCoefficients {
@@ -84,6 +85,34 @@ function spotAmplitudeOf(ro: number, model: AmplitudeModelCoefficients): SpotAmp
   const exponent = amplitudeExponent(model);
   if (ro <= model.saturationRossby) return { rperPpm: model.saturatedRperPpm, regime: 'saturated', exponent, model };
   return { rperPpm: model.anchorRperPpm * (ro / model.anchorRossby) ** -exponent, regime: 'unsaturated', exponent, model };
+}
+
+/**
+ * The τ scale the amplitude model's anchors are stated on: the saturation at Ro ≤ 0.1 and the
+ * solar anchor at Ro ≈ 2.18 are Noyes et al. (1984), ApJ 279, 763 Rossby numbers (SCIENCE.md §3).
+ */
+export const AMPLITUDE_ANCHOR_SCALE: TurnoverScale = 'noyes1984';
+
+/**
+ * A Rossby number on any τ scale expressed on the amplitude model's (Noyes 1984) scale through
+ * the solar Rossby number of each: Ro·(Ro☉,Noyes / Ro☉,scale), i.e. the same Ro/Ro☉ [derived].
+ * Pass the result to {@link spotAmplitude}: the model's anchors hold on the Noyes scale only,
+ * and a raw Ro from another scale would move the amplitude by the ratio of the scales' τ.
+ */
+export function amplitudeRossby(rossby: number, scale: TurnoverScale): number {
+  const ro = requirePositive(rossby, 'rossby');
+  requireOneOf(scale, 'turnoverScale', TURNOVER_SCALES);
+  return (ro * solarRossby(AMPLITUDE_ANCHOR_SCALE)) / solarRossby(scale);
+}
+
+/** One line for the interface: how {@link amplitudeRossby} rescaled a Rossby number. */
+export function amplitudeRossbyWhy(scale: TurnoverScale): string {
+  if (scale === AMPLITUDE_ANCHOR_SCALE) return `Ro on the ${TURNOVER_SCALE_INFO[scale].label} scale, the amplitude anchors' own`;
+  return `Ro on the ${TURNOVER_SCALE_INFO[scale].label} scale × Ro☉ ${fmtRo(solarRossby(AMPLITUDE_ANCHOR_SCALE))} (${TURNOVER_SCALE_INFO[AMPLITUDE_ANCHOR_SCALE].label}) / Ro☉ ${fmtRo(solarRossby(scale))} (${TURNOVER_SCALE_INFO[scale].label}): the same Ro/Ro☉ on the anchors' scale`;
+}
+
+function fmtRo(v: number): string {
+  return v.toFixed(2);
 }
 
 // ---------------------------------------------------------------------------------------

@@ -33,14 +33,17 @@ describe('computeTargetPlan', () => {
     expect(q.shortestPeriodDays.value).toBeLessThan(q.periodDays.value);
     expect(q.longestPeriodDays.value).toBeGreaterThan(q.periodDays.value);
     expect(q.baselineDays.value).toBeGreaterThanOrEqual(3 * q.longestPeriodDays.value);
-    expect(q.visits.value).toBeGreaterThanOrEqual(Math.max(q.visitsForDetection.value, q.visitsForCadence.value));
+    expect(q.visits.value).toBeGreaterThanOrEqual(q.visitsForCadence.value);
+    expect(q.visits.value).toBe(q.visitsPerNight.value * q.visitNights.value);
     const k = q.exposuresPerVisit.value;
     expect(q.visitSeconds.value).toBeCloseTo(k * q.exposureSeconds.value + (k - 1) * PLAN_DEFAULTS.readoutSeconds + NODE.overheadSeconds, 9);
     expect(q.nodeHoursClear.value).toBeCloseTo((q.visits.value * q.visitSeconds.value) / 3600, 9);
     expect(q.nodeHours.value).toBeGreaterThanOrEqual(q.nodeHoursClear.value / (1 - NODE.weatherLossFraction) - 1e-9);
     expect(Number.isInteger(q.feeMinor.value)).toBe(true);
     expect(q.feeMinor.value).toBe(Math.round(q.nodeHours.value * NODE.rateMinorPerHour));
-    expect(q.expectedFalseAlarmProbability.value).toBeLessThanOrEqual(0.01);
+    expect(q.completeness.value).toBeGreaterThanOrEqual(0.9 - 1e-9);
+    expect(q.visitsForCompleteness50.value).toBeLessThanOrEqual(q.visitsForCompleteness90.value);
+    expect(q.visitsForCompleteness90.value).toBeLessThanOrEqual(q.visitsForCompleteness99.value);
     // Samples per cycle of the shortest plausible period ≥ 10.
     expect((q.visitsPerNight.value * q.shortestPeriodDays.value) / q.nightStepDays.value).toBeGreaterThanOrEqual(10);
   });

@@ -3,46 +3,50 @@
  * amplitude, per-visit precision and exposure, cadence, baseline, visits, node-hours and fee
  * — each number with its unit, a "why" line and the source of its formula.
  *
- * Order of the computation (each step uses only the steps above it):
- *  1. period and its plausible range from colour and age (gyrochronology);
- *  2. τc, Rossby number, and the spot amplitude at the longest plausible period (the
- *     smallest amplitude in the range: sizing for it is conservative);
- *  3. magnitude in the node's band, airmass at the planning altitude;
- *  4. cadence from the shortest plausible period (samples per cycle; several visits per
- *     night under ≈ 2 d);
- *  5. baseline for the coherence rule (cycles of the longest plausible period);
- *  6. per-visit precision goal: the σ at which the cadence's own visits already reach the
- *     detection threshold (or the caller's value), and the shortest exposure reaching it
- *     without saturating (or the caller's fixed exposure, flagged when it saturates);
- *  7. visits for detection; baseline for the requested period precision (σP solved for T);
- *  8. visits = the larger of detection and cadence, spread over the visit nights;
- *  9. node-hours = visits × (exposure + overhead) / (1 − weather loss); fee at the node's rate.
+ * The plan is sized so that the period is recovered with a stated probability (the
+ * completeness, default 90 %): the campaign it prescribes, analysed with the product's own
+ * periodogram over the search band it states (nightly means, Baluev false-alarm probability
+ * at the plan's level), finds the period in that fraction of trials. A simulation checks it
+ * (target-plan-recovery.spec.ts).
+ *
+ * Steps (target-plan-steps.ts; each uses only the steps above it):
+ *  1–2. colour de-reddened, τ scale, period and its plausible range (gyrochronology, or the
+ *       proposer's period where no relation gives one);
+ *  3.   τc, Rossby number and the spot amplitude at the longest plausible period (the smallest
+ *       amplitude in the range: sizing for it is conservative), on the amplitude model's scale;
+ *  4.   magnitude in the node's band, airmass, sky brightness (the Moon on the nights the sky
+ *       windows give, else the site's dark sky), the exposure and exposures per visit;
+ *  5.   cadence from the shortest plausible period;
+ *  6.   baseline: cycles rule, requested period precision, caller's minimum;
+ *  7.   visits for the completeness over nightly means (the systematic floor is correlated
+ *       within a night), the price of 50 %, 90 % and 99 %;
+ *  8.   node-hours = visits × visit length / (1 − weather loss); fee at the node's rate.
+ * The sky check (season, phase coverage, nights that carry the cadence) is in
+ * planning/node-target-plan.ts.
  */
 import type { NodeBand, NodeSpec, SiteSpec } from '../facility/facility-types';
 import { type TargetColourSystem, TARGET_COLOUR_SYSTEMS, colourLabel, DWARF_SEQUENCE_SOURCE, REDDENING_RATIOS } from './colour-sequence';
 import {
+  COMPLETENESS_LEVELS,
   DETECTION_SOURCE,
+  MARCUM_SOURCE,
+  NIGHTLY_NOISE_SOURCE,
   PERIOD_PRECISION_SOURCE,
-  baselineForPeriodPrecision,
-  detectionThresholdPower,
-  expectedFalseAlarmProbability,
-  independentFrequencyCount,
+  THRESHOLD_SOURCE,
+  type DetectionThreshold,
+  detectionThreshold,
+  nightlySigmaPpm,
+  noncentralityForCompleteness,
   periodPrecision,
-  visitsForDetection,
 } from './detection';
 import { type Explained, type ScienceFlag, explained, flag, fmt } from './explained';
-import { type GyroRelationId, GYRO_RELATIONS, GYRO_RELATION_INFO, PROPAGATION_METHOD, predictPeriod } from './gyrochronology';
+import { type GyroRelationId, GYRO_RELATIONS, GYRO_RELATION_INFO, PROPAGATION_METHOD } from './gyrochronology';
+import { BALUEV_SOURCE } from './lomb-scargle/false-alarm';
 import { BAND_ZERO_POINTS, EXTINCTION_SOURCE, convertMagnitude } from './photometric-bands';
 import { ScienceInputError, requireInRange, requireInteger, requireOneOf, requirePositive } from './science-input-error';
-import {
-  type AmplitudeModelCoefficients,
-  AMPLITUDE_MODEL_SOURCE,
-  RPER_PER_SEMI_AMPLITUDE,
-  amplitudeModel,
-  amplitudeExponent,
-  spotAmplitude,
-} from './spot-amplitude';
-import { type TurnoverScale, TURNOVER_SCALES, TURNOVER_SCALE_INFO, turnoverTimeForColour } from './turnover-time';
+import { type AmplitudeModelCoefficients, AMPLITUDE_MODEL_SOURCE, RPER_PER_SEMI_AMPLITUDE, amplitudeExponent } from './spot-amplitude';
+import { amplitudeStep, baselineStep, cadenceStep, periodStep, sizeVisits, visitNightCount, type VisitSizing } from './target-plan-steps';
+import { type TurnoverScale, TURNOVER_SCALES, TURNOVER_SCALE_INFO } from './turnover-time';
 import {
   type ExposureChoice,
   type PhotometryOptions,
@@ -72,6 +76,24 @@ export interface TargetPlanTarget {
   magnitude: { value: number; band: NodeBand };
   /** Requested 1σ precision of the measured period, days (optional). */
   periodPrecisionDays?: number;
+  /**
+   * Expected rotation period supplied by the proposer, days: used instead of the relation's
+   * (needed where no relation gives one — fast rotators, colours or ages outside calibration).
+   */
+  periodDays?: number;
+  /** 1σ of the proposer's period, days (default 10 % of it). */
+  periodUncertaintyDays?: number;
+}
+
+/** Sky brightness over the nights a target is observable from the node's site (from its sky windows). */
+export interface PlanSkyConditions {
+  /** Median sky brightness in the node's band on the usable nights, Moon included, mag/arcsec². */
+  medianMagPerArcsec2: number;
+  /** Brightest sky on a usable night, mag/arcsec². */
+  worstMagPerArcsec2: number;
+  usableNights: number;
+  /** Model behind the numbers (e.g. Krisciunas & Schaefer 1991). */
+  source: string;
 }
 
 /** Choices of the plan; every field has a documented default. */
@@ -79,20 +101,27 @@ export interface TargetPlanOptions {
   /** Gyrochronology relation. Default: Angus et al. (2019) for BP−RP colours, Barnes (2007) for B−V. */
   relation?: GyroRelationId;
   /**
-   * τ scale of the Rossby number. Default Noyes (1984): the amplitude model's anchors are
-   * Noyes Rossby numbers (solar Ro ≈ 2.18).
+   * τ scale of the Rossby number. Default: Noyes (1984) for F–K dwarfs, Wright et al. (2018)
+   * for M dwarfs (better calibrated there). The amplitude model reads Ro/Ro☉ on the scale in
+   * use, so the amplitude does not depend on the choice.
    */
   turnoverScale?: TurnoverScale;
-  /** False-alarm probability of the detection (default 0.01). */
+  /** False-alarm probability at which a peak counts as detected (default 0.01). */
   falseAlarmProbability?: number;
+  /** Probability that the plan recovers the period, 0.5–0.99 (default 0.9). */
+  completeness?: number;
   /** Samples per cycle of the shortest plausible period (default 10; SCIENCE.md §6: 8–10). */
   samplesPerCycle?: number;
   /** Cycles of the longest plausible period the baseline covers (default 3; SCIENCE.md §6). */
   baselineCycles?: number;
+  /** Shortest baseline, days (e.g. to reach a beat period; default none). */
+  minBaselineDays?: number;
+  /** Longest baseline the visit sizing may stretch to when the floor limits a night, days (default 180). */
+  maxBaselineDays?: number;
   /** Width of the plausible period range in σ (default 1). */
   periodRangeSigma?: number;
   amplitudeModel?: Partial<AmplitudeModelCoefficients>;
-  /** Per-visit precision goal, ppm; default: the σ at which the cadence's visits just reach detection. */
+  /** Per-visit precision goal, ppm; default: the σ at which the cadence's visits just reach the completeness. */
   perVisitPrecisionPpm?: number;
   /**
    * Fixed exposure time, seconds, within the node's [minExposureSeconds, maxExposureSeconds].
@@ -120,9 +149,13 @@ export interface TargetPlanOptions {
   minVisitsPerNightShortPeriod?: number;
   /** The search covers periods down to this fraction of the shortest plausible period (default 0.5: the P/2 harmonic of two spot groups). */
   searchPeriodFraction?: number;
+  /** The search covers periods up to this multiple of the longest plausible period, at most the baseline (default 2). */
+  searchLongPeriodFactor?: number;
   /** Baselines longer than this many cycles of the nominal period get a spot-coherence caution (default 10). */
   coherenceCycles?: number;
   weakenedBrakingRossby?: number;
+  /** Sky brightness on the nights the target is observable (from the sky windows); default: the site's dark sky. */
+  sky?: PlanSkyConditions;
   photometry?: PhotometryOptions;
 }
 
@@ -140,6 +173,8 @@ export interface TargetPlanQuantities {
   semiAmplitudePpm: Explained;
   magnitudeInNodeBand: Explained;
   airmass: Explained;
+  skyBrightnessMagPerArcsec2: Explained;
+  worstSkyBrightnessMagPerArcsec2: Explained;
   starPhotonRatePerSecond: Explained;
   saturationLimitSeconds: Explained;
   perVisitPrecisionGoalPpm: Explained;
@@ -147,24 +182,40 @@ export interface TargetPlanQuantities {
   exposuresPerVisit: Explained;
   perVisitPrecisionPpm: Explained;
   perVisitPrecisionMmag: Explained;
+  nightlyPrecisionPpm: Explained;
   sampleIntervalDays: Explained;
   nightStepDays: Explained;
   visitsPerNight: Explained;
   baselineForCyclesDays: Explained;
   baselineForPrecisionDays: Explained<number | null>;
   baselineDays: Explained;
+  visitNights: Explained;
+  searchMinFrequencyPerDay: Explained;
   searchMaxFrequencyPerDay: Explained;
   independentFrequencies: Explained;
   detectionThresholdPower: Explained;
+  requestedCompleteness: Explained;
+  completeness: Explained;
   visitsForDetection: Explained;
   visitsForCadence: Explained;
+  visitsForCompleteness50: Explained;
+  visitsForCompleteness90: Explained;
+  visitsForCompleteness99: Explained;
   visits: Explained;
-  expectedFalseAlarmProbability: Explained;
   expectedPeriodPrecisionDays: Explained;
   visitSeconds: Explained;
   nodeHoursClear: Explained;
   nodeHours: Explained;
   feeMinor: Explained;
+}
+
+/** How the plan's campaign is to be analysed: the same band and false-alarm level it was sized with. */
+export interface PlanAnalysis {
+  /** Periodogram of nightly means (several visits of a night averaged) or of single visits. */
+  series: 'nightlyMeans' | 'visits';
+  minFrequencyPerDay: number;
+  maxFrequencyPerDay: number;
+  falseAlarmProbability: number;
 }
 
 export interface TargetPlan {
@@ -180,25 +231,31 @@ export interface TargetPlan {
   quantities: TargetPlanQuantities;
   /** Noise terms of one exposure at the chosen exposure time (a visit may stack several: see exposuresPerVisit). */
   precision: VisitPrecision;
+  analysis: PlanAnalysis;
   flags: ScienceFlag[];
 }
 
 /**
  * Version of the plan model: raise it whenever a change makes the same inputs give different
  * numbers, so that stored plans (the server keeps them per proposal) are marked out of date.
- * 2: exposures stacked per visit; 3: suggestions name what is possible (exposure, other node).
+ * 2: exposures stacked per visit; 3: suggestions name what is possible (exposure, other node);
+ * 4: sized for completeness over nightly means, Baluev threshold, intrinsic scatter, amplitude
+ * on any τ scale, moonlit sky, season and phase coverage, Osborn scintillation by default.
  */
-export const TARGET_PLAN_MODEL_VERSION = 3;
+export const TARGET_PLAN_MODEL_VERSION = 4;
 
 export const PLAN_DEFAULTS = {
   falseAlarmProbability: 0.01,
+  completeness: 0.9,
   samplesPerCycle: 10,
   baselineCycles: 3,
+  maxBaselineDays: 180,
   periodRangeSigma: 1,
   observableHoursPerNight: 6,
   aliasPeriodDays: 2,
   minVisitsPerNightShortPeriod: 3,
   searchPeriodFraction: 0.5,
+  searchLongPeriodFactor: 2,
   coherenceCycles: 10,
   planningAltitudeDeg: 45,
   readoutSeconds: 5,
@@ -232,10 +289,13 @@ export function computeTargetPlan(
   const system = prefixed('target', () => requireOneOf(target.colour?.system, 'colour.system', TARGET_COLOUR_SYSTEMS));
   const o = resolveOptions(options, system, node);
   const flags: ScienceFlag[] = [];
+  if (target.periodDays !== undefined) prefixed('target', () => requireInRange(target.periodDays, 'periodDays', 0.05, 1000));
+  if (target.periodUncertaintyDays !== undefined) prefixed('target', () => requireInRange(target.periodUncertaintyDays, 'periodUncertaintyDays', 0, 1000));
+  if (target.periodPrecisionDays !== undefined) prefixed('target', () => requirePositive(target.periodPrecisionDays, 'periodPrecisionDays'));
 
-  // 1. Period and its plausible range.
-  const prediction = prefixed('target', () =>
-    predictPeriod({
+  // 1–2. Colour, τ scale, period and its plausible range.
+  const period = prefixed('target', () =>
+    periodStep({
       relation: o.relation,
       colour: target.colour,
       reddeningEbvMag: target.reddeningEbvMag,
@@ -244,219 +304,162 @@ export function computeTargetPlan(
       rangeSigma: o.periodRangeSigma,
       turnoverScale: o.turnoverScale,
       weakenedBrakingRossby: o.weakenedBrakingRossby,
+      explicitPeriodDays: target.periodDays,
+      explicitPeriodUncertaintyDays: target.periodUncertaintyDays,
     }),
   );
-  flags.push(...prediction.flags.filter((f) => f.code !== 'rossbyUnavailable'));
+  for (const f of period.flags) {
+    if (f.code === 'noExpectedPeriod' && f.severity === 'blocking') {
+      flags.push(flag('noExpectedPeriod', 'blocking', `no expected period: ${f.message}. Give the star's expected period to plan it`, f.source));
+    } else flags.push(f);
+  }
+  const prediction = period.prediction;
   const relInfo = GYRO_RELATION_INFO[o.relation];
-  const P = prediction.periodDays;
-  const pMin = prediction.rangeDays.low;
-  const pMax = prediction.rangeDays.high;
-  const colour = prediction.colour;
+  const P = period.periodDays;
+  const pMin = period.shortestPeriodDays;
+  const pMax = period.longestPeriodDays;
+  const colour = period.colour;
 
-  // 2. τc, Ro, amplitude.
-  const tau = prefixed('target', () => turnoverTimeForColour(colour, o.turnoverScale));
-  const tauInfo = TURNOVER_SCALE_INFO[o.turnoverScale];
-  const ro = P / tau.tauDays;
-  const roMax = pMax / tau.tauDays;
-  const model = prefixed('options', () => amplitudeModel(o.amplitudeModel));
-  const ampNominal = spotAmplitude(ro, model);
-  const ampUsed = spotAmplitude(roMax, model);
-  const semiAmplitudePpm = ampUsed.rperPpm / RPER_PER_SEMI_AMPLITUDE;
+  // 3. τc, Ro, amplitude.
+  const amp = prefixed('target', () => amplitudeStep(period, o.amplitudeModel));
+  const tau = amp.tau;
+  const tauInfo = TURNOVER_SCALE_INFO[period.turnoverScale];
+  const model = amp.model;
+  const semiAmplitudePpm = amp.semiAmplitudePpm;
 
-  // 3. Magnitude in the node's band; airmass.
+  // 4. Magnitude in the node's band, airmass, sky, exposure.
   const mag = prefixed('target', () => convertMagnitude(target.magnitude, node.band, colour));
   const airmass = airmassKastenYoung(o.planningAltitudeDeg);
-  const setup = prefixed('target', () => photometrySetup(node, site, mag.magnitude, airmass, o.photometry));
+  const skyMag = o.sky ? o.sky.medianMagPerArcsec2 : site.skyBrightnessMagPerArcsec2;
+  const setup = prefixed('target', () => photometrySetup(node, { ...site, skyBrightnessMagPerArcsec2: skyMag }, mag.magnitude, airmass, o.photometry));
 
-  // 4. Cadence from the shortest plausible period.
-  const s = o.samplesPerCycle;
-  const sampleInterval = pMin / s;
-  let visitsPerNight: number;
-  let nightStep: number;
-  let cadenceWhy: string;
-  if (sampleInterval >= 1) {
-    visitsPerNight = 1;
-    nightStep = Math.floor(sampleInterval);
-    cadenceWhy =
-      nightStep === 1
-        ? `one visit per night gives ≥ ${s} samples per ${fmt(pMin)}-d cycle`
-        : `one visit every ${nightStep} nights gives ≥ ${s} samples per ${fmt(pMin)}-d cycle`;
-  } else {
-    nightStep = 1;
-    visitsPerNight = Math.ceil(s / pMin - 1e-9);
-    cadenceWhy = `${visitsPerNight} visits per night give ≥ ${s} samples per ${fmt(pMin)}-d cycle`;
-    if (pMin < o.aliasPeriodDays && visitsPerNight < o.minVisitsPerNightShortPeriod) {
-      visitsPerNight = o.minVisitsPerNightShortPeriod;
-      cadenceWhy = `${visitsPerNight} visits per night spread over the night break the 1 d⁻¹ aliases of periods under ${o.aliasPeriodDays} d`;
-    }
-  }
-
-  // 5. Baseline for the coherence rule.
-  const baselineCycles = o.baselineCycles * pMax;
-  const visitNights = (T: number) => Math.floor(T / nightStep) + 1;
-  const cadenceVisits = (T: number) => visitsPerNight * visitNights(T);
-
-  // 6. Precision goal and exposure.
+  // 5. Cadence from the shortest plausible period.
+  const cad = cadenceStep(pMin, o.samplesPerCycle, o.aliasPeriodDays, o.minVisitsPerNightShortPeriod);
   const fmax = 1 / (o.searchPeriodFraction * pMin);
-  const m0 = independentFrequencyCount(baselineCycles, fmax);
-  const z00 = detectionThresholdPower(m0, o.falseAlarmProbability);
-  const nCad0 = cadenceVisits(Math.ceil(baselineCycles));
-  const goalPpm = o.perVisitPrecisionPpm ?? semiAmplitudePpm * Math.sqrt(nCad0 / (4 * z00));
+
+  // 4b. Precision goal: the per-visit σ at which the cadence's own nights reach the completeness.
+  const floorPpm = visitPrecisionAt(setup, node.minExposureSeconds).components.floorPpm;
+  const cyclesBaseline = Math.max(Math.ceil(o.baselineCycles * pMax - 1e-9), o.minBaselineDays ?? 0);
+  const series: 'nightlyMeans' | 'visits' = pMin < o.aliasPeriodDays ? 'visits' : 'nightlyMeans';
+  const nCad0 = visitNightCount(cyclesBaseline, cad.nightStepDays);
+  const goalPoints = series === 'nightlyMeans' ? nCad0 : nCad0 * cad.visitsPerNight;
+  const goalLambda = noncentralityForCompleteness(o.completeness, detectionThreshold(goalPoints, cyclesBaseline, fmax, o.falseAlarmProbability));
+  const seriesNeeded2 = Number.isFinite(goalLambda) ? (goalPoints * semiAmplitudePpm ** 2) / (2 * goalLambda) : 0;
+  // Nightly means: σ_night² = σ_white²/k + floor²; single visits: σ² = σ_white² + floor².
+  const whiteNeeded2 = series === 'nightlyMeans' ? cad.visitsPerNight * (seriesNeeded2 - floorPpm ** 2) : seriesNeeded2 - floorPpm ** 2;
+  const goalPpm = o.perVisitPrecisionPpm ?? (whiteNeeded2 > 0 ? Math.sqrt(whiteNeeded2 + floorPpm ** 2) : floorPpm * 1.001);
   const goalWhy =
     o.perVisitPrecisionPpm !== undefined
       ? 'requested per-visit precision'
-      : `the σ at which the ${nCad0} visits of the cadence alone reach the detection threshold: A·sqrt(N/(4·z0))`;
+      : whiteNeeded2 > 0
+        ? `the σ at which the cadence's ${cad.visitsPerNight} visit(s) on ${nCad0} nights reach ${fmt(o.completeness * 100)} % completeness`
+        : `the cadence's ${nCad0} nights cannot reach the completeness above the floor of ${fmt(floorPpm)} ppm: as precise as the node allows`;
   const automatic = chooseExposureFromSetup(setup, node, goalPpm);
   const exposure = o.exposureSeconds === undefined ? automatic : fixedExposure(setup, automatic, o.exposureSeconds, goalPpm);
-  // 6b. Exposures per visit. A single exposure capped by saturation (bright stars) or by the
-  // node's longest exposure (faint ones) may miss the goal; stacking k exposures in one visit
-  // averages the photon, sky, read and scintillation noise down by √k (independent between
-  // exposures) but not the systematic floor (the same comparison stars, the same flat field):
-  // σ_visit² = (σ₁² − floor²)/k + floor² (Spincycle's model; common practice, no source).
-  const singlePpm = exposure.precision.totalPpm;
-  const floorPpm = exposure.precision.components.floorPpm;
-  // A fixed exposure is the user's decision; only the automatic one is stacked automatically.
-  const stackable = o.exposureSeconds === undefined && (exposure.limitedBy === 'saturation' || exposure.limitedBy === 'maxExposure');
-  const maxStack = Math.max(1, Math.floor((o.maxVisitSeconds - node.overheadSeconds + o.readoutSeconds) / (exposure.exposureSeconds + o.readoutSeconds)));
-  // Node time for detection ∝ σ_visit²(k) × visit length(k); its minimum over k is the most
-  // stacking worth doing, and reaching the goal needs no more than k_goal.
-  const randomVar = Math.max(0, singlePpm ** 2 - floorPpm ** 2);
-  const stackTime = (k: number) =>
-    (randomVar / k + floorPpm ** 2) * (k * exposure.exposureSeconds + (k - 1) * o.readoutSeconds + node.overheadSeconds);
-  let exposuresPerVisit = 1;
-  let stackWhy = 'one exposure per visit reaches the goal';
-  if (o.exposuresPerVisit !== undefined) {
-    exposuresPerVisit = o.exposuresPerVisit;
-    stackWhy = 'chosen by the user';
-  } else if (!exposure.reachesTarget && stackable && !exposure.saturatesAtMinExposure) {
-    let kBest = 1;
-    for (let k = 2; k <= maxStack; k++) if (stackTime(k) < stackTime(kBest)) kBest = k;
-    const kGoal = goalPpm > floorPpm * 1.001 ? Math.ceil(randomVar / (goalPpm ** 2 - floorPpm ** 2) - 1e-9) : Infinity;
-    exposuresPerVisit = Math.max(1, Math.min(kBest, kGoal));
-    stackWhy =
-      exposuresPerVisit === kGoal
-        ? `${exposuresPerVisit} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${exposure.limitedBy}) reach the goal of ${fmt(goalPpm)} ppm`
-        : exposuresPerVisit === 1
-          ? 'stacking would not save node time here'
-          : `${exposuresPerVisit} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${exposure.limitedBy}) need the least node time for the detection (more would mostly average down what the floor keeps)`;
-  } else if (!exposure.reachesTarget) {
-    stackWhy = 'one exposure per visit (stacking does not help here)';
-  }
-  const sigmaPpm = Math.sqrt(randomVar / exposuresPerVisit + floorPpm ** 2);
+  const stack = exposuresPerVisitStep(exposure, node, o, goalPpm);
+  const sigmaPpm = stack.sigmaPpm;
+  const whitePpm = Math.sqrt(Math.max(0, sigmaPpm ** 2 - floorPpm ** 2));
   const reachesGoal = sigmaPpm <= goalPpm * (1 + 1e-9);
-  if (exposure.saturatesAtMinExposure) {
-    flags.push(
-      flag(
-        'saturatesAtMinExposure',
-        'blocking',
-        `the star saturates even at the shortest exposure (${node.minExposureSeconds} s; saturation after ${fmt(exposure.saturationLimitSeconds)} s): defocus or a fainter band is needed`,
-        'Gaussian PSF peak pixel against the node saturationE',
-      ),
-    );
-  } else if (o.exposureSeconds !== undefined && exposure.precision.saturated) {
-    // Same style as the flag above: the chosen exposure fills the peak pixel past saturationE.
-    flags.push(
-      flag(
-        'saturatesAtChosenExposure',
-        'blocking',
-        `the star saturates at the chosen exposure of ${fmt(exposure.exposureSeconds)} s (saturation after ${fmt(exposure.saturationLimitSeconds)} s): choose a shorter exposure or the automatic one (${fmt(automatic.exposureSeconds)} s)`,
-        'Gaussian PSF peak pixel against the node saturationE',
-      ),
-    );
-  } else if (!reachesGoal) {
-    flags.push(
-      flag(
-        'precisionGoalNotReached',
-        'info',
-        o.exposureSeconds === undefined
-          ? `the precision goal ${fmt(goalPpm)} ppm is not reached (best ${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s, limited by ${exposure.limitedBy}): more visits make up for it`
-          : `the precision goal ${fmt(goalPpm)} ppm is not reached at the chosen exposure (${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s): more visits make up for it`,
-      ),
-    );
-  }
+  flags.push(...exposureFlags(exposure, automatic, node, o, goalPpm, sigmaPpm, reachesGoal));
 
-  // 7. Visits for detection; baseline for the requested period precision.
-  const detectionVisits = (T: number) => {
-    const m = independentFrequencyCount(T, fmax);
-    const z0 = detectionThresholdPower(m, o.falseAlarmProbability);
-    const n = visitsForDetection({ semiAmplitudePpm, sigmaPpm, independentFrequencies: m, falseAlarmProbability: o.falseAlarmProbability });
-    return { m, z0, n };
-  };
-  const visitsAt = (T: number) => Math.max(detectionVisits(T).n, cadenceVisits(T));
-  let baselineForPrecision: number | null = null;
-  let baseline = Math.ceil(baselineCycles - 1e-9);
-  const sigmaP = target.periodPrecisionDays;
-  if (sigmaP !== undefined) {
-    prefixed('target', () => requirePositive(sigmaP, 'periodPrecisionDays'));
-    const tPrec = (T: number) =>
-      baselineForPeriodPrecision({ visits: visitsAt(T), sigmaPpm, semiAmplitudePpm, periodDays: pMax, periodPrecisionDays: sigmaP });
-    if (tPrec(baseline) > baseline) {
-      // T − T_prec(N(T)) increases with T (N grows with T, T_prec falls): bisect for the root.
-      let lo = baseline;
-      let hi = baseline * 2;
-      while (tPrec(hi) > hi && hi < 1e6) hi *= 2;
-      if (hi >= 1e6) {
-        throw new ScienceInputError('target.periodPrecisionDays', `${sigmaP} d cannot be reached within a million days of baseline`);
-      }
-      for (let i = 0; i < 60 && hi - lo > 1e-3; i++) {
-        const mid = 0.5 * (lo + hi);
-        if (tPrec(mid) > mid) lo = mid;
-        else hi = mid;
-      }
-      baselineForPrecision = hi;
-      baseline = Math.ceil(hi - 1e-9);
-    } else {
-      baselineForPrecision = tPrec(baseline);
-    }
-  }
+  // 6. Baseline: cycles rule, period precision, caller's minimum.
+  const bl = prefixed('target', () =>
+    baselineStep({
+      longestPeriodDays: pMax,
+      baselineCycles: o.baselineCycles,
+      periodPrecisionDays: target.periodPrecisionDays,
+      semiAmplitudePpm,
+      nightlySigmaPpm: nightlySigmaPpm(whitePpm, floorPpm, cad.visitsPerNight),
+      nightStepDays: cad.nightStepDays,
+      minBaselineDays: o.minBaselineDays,
+    }),
+  );
 
-  // 8. Visits: detection or cadence, whichever needs more, spread over the visit nights.
-  const det = detectionVisits(baseline);
-  const nCad = cadenceVisits(baseline);
-  let visits = nCad;
-  let visitsWhy = `the cadence needs ${nCad} visits (${visitsPerNight} per night on ${visitNights(baseline)} nights); detection needs ${det.n}`;
-  if (det.n > nCad) {
-    // Spread the detection's visits over every night of the baseline: up to
-    // ceil(N / nights) per night, so that the cadence is kept and no visit is wasted.
-    if (nightStep > 1) nightStep = 1;
-    const nights = visitNights(baseline);
-    visitsPerNight = Math.max(visitsPerNight, Math.ceil(det.n / nights - 1e-9));
-    visits = det.n;
-    visitsWhy = `detection needs ${det.n} visits, more than the cadence's ${nCad}: up to ${visitsPerNight} per night on ${nights} nights (${fmt(det.n / nights)} on average)`;
-    flags.push(
-      flag(
-        'detectionDrivesVisits',
-        'info',
-        `detection at FAP ${o.falseAlarmProbability} needs more visits than the cadence; visits within a night count fully only if the node's errors are white`,
-        DETECTION_SOURCE,
-      ),
-    );
-  }
-  const visitSeconds = exposuresPerVisit * exposure.exposureSeconds + (exposuresPerVisit - 1) * o.readoutSeconds + node.overheadSeconds;
-  const nightSeconds = o.observableHoursPerNight * 3600;
-  if (visitsPerNight * visitSeconds > nightSeconds) {
+  // 7. Visits for the completeness over nightly means; the price of other completeness levels.
+  const visitSeconds = stack.exposuresPerVisit * exposure.exposureSeconds + (stack.exposuresPerVisit - 1) * o.readoutSeconds + node.overheadSeconds;
+  const maxVisitsPerNight = Math.max(1, Math.floor((o.observableHoursPerNight * 3600) / visitSeconds));
+  const thresholdCache = new Map<string, DetectionThreshold>();
+  const sizingFor = (completeness: number, detail = false): VisitSizing =>
+    sizeVisits({
+      detail,
+      thresholdCache,
+      semiAmplitudePpm,
+      whitePpm,
+      floorPpm,
+      completeness,
+      falseAlarmProbability: o.falseAlarmProbability,
+      maxFrequencyPerDay: fmax,
+      series,
+      baselineDays: bl.baselineDays,
+      visitsPerNight: cad.visitsPerNight,
+      nightStepDays: cad.nightStepDays,
+      maxVisitsPerNight,
+      maxBaselineDays: Math.max(o.maxBaselineDays, bl.baselineDays),
+    });
+  const sz = sizingFor(o.completeness, true);
+  const atLevel = (c: number) => (Math.abs(c - o.completeness) < 1e-12 ? sz : sizingFor(c));
+  const levels = COMPLETENESS_LEVELS.map(atLevel);
+  const detectionOnly = sizeVisits({
+    detail: false,
+    thresholdCache,
+    semiAmplitudePpm,
+    whitePpm,
+    floorPpm,
+    completeness: o.completeness,
+    falseAlarmProbability: o.falseAlarmProbability,
+    maxFrequencyPerDay: fmax,
+    series,
+    baselineDays: sz.baselineDays,
+    visitsPerNight: 1,
+    nightStepDays: cad.nightStepDays,
+    maxVisitsPerNight,
+    maxBaselineDays: sz.baselineDays,
+  });
+  const baseline = sz.baselineDays;
+  const visitsPerNight = sz.visitsPerNight;
+  const nightStep = sz.nightStepDays;
+  const visits = sz.visits;
+  const nCad = cad.visitsPerNight * visitNightCount(baseline, cad.nightStepDays);
+  if (cad.visitsPerNight * visitSeconds > o.observableHoursPerNight * 3600) {
     flags.push(
       flag(
         'nightlyVisitsDoNotFit',
         'blocking',
-        `${visitsPerNight} visits of ${fmt(visitSeconds)} s do not fit in ${o.observableHoursPerNight} observable hours per night`,
+        `${cad.visitsPerNight} visits of ${fmt(visitSeconds)} s do not fit in ${o.observableHoursPerNight} observable hours per night`,
+      ),
+    );
+  }
+  if (sz.drivenBy === 'unreachable') {
+    flags.push(
+      flag(
+        'amplitudeBelowFloor',
+        'blocking',
+        `the expected semi-amplitude of ${fmt(semiAmplitudePpm)} ppm is below the ${fmt(sz.amplitudeLimitPpm)} ppm that ${maxVisitsPerNight} visits a night over ${sz.nights} nights (${baseline} d) detect with ${fmt(o.completeness * 100)} % completeness; the node's systematic floor of ${fmt(floorPpm)} ppm does not average down within a night, so no number of visits a night goes below ${fmt(sz.floorAmplitudeLimitPpm)} ppm`,
+        NIGHTLY_NOISE_SOURCE,
+      ),
+    );
+  } else if (sz.drivenBy !== 'cadence') {
+    flags.push(
+      flag(
+        'detectionDrivesVisits',
+        'info',
+        sz.drivenBy === 'baseline'
+          ? `${fmt(o.completeness * 100)} % completeness needs more nights than the cadence's baseline: the baseline grows to ${baseline} d, since the floor correlated within a night limits what more visits a night give`
+          : `${fmt(o.completeness * 100)} % completeness needs more visits than the cadence: ${visitsPerNight} per night on ${sz.nights} nights`,
+        DETECTION_SOURCE,
       ),
     );
   }
   if (baseline > o.coherenceCycles * P) {
     flags.push(
-      flag(
-        'baselineBeyondSpotCoherence',
-        'caution',
-        `the baseline spans ${fmt(baseline / P)} cycles: spots evolve, so the signal may lose coherence over it`,
-        RULE,
-      ),
+      flag('baselineBeyondSpotCoherence', 'caution', `the baseline spans ${fmt(baseline / P)} cycles: spots evolve, so the signal may lose coherence over it`, RULE),
     );
   }
-  const expectedSigmaP = periodPrecision({ visits, sigmaPpm, semiAmplitudePpm, baselineDays: baseline, periodDays: pMax });
-  const expectedFap = expectedFalseAlarmProbability({ visits, semiAmplitudePpm, sigmaPpm, independentFrequencies: det.m });
+  const longestSearched = Math.min(baseline, o.searchLongPeriodFactor * pMax);
+  const fmin = 1 / longestSearched;
+  const expectedSigmaP = periodPrecision({ visits: series === 'nightlyMeans' ? sz.nights : sz.visits, sigmaPpm: sz.seriesSigmaPpm, semiAmplitudePpm, baselineDays: baseline, periodDays: pMax });
 
-  // 9. Hours and fee.
+  // 8. Hours and fee.
   const hoursClear = (visits * visitSeconds) / 3600;
   const hours = Math.ceil(hoursClear / (1 - node.weatherLossFraction) / HOURS_STEP - 1e-9) * HOURS_STEP;
   const fee = Math.round(hours * node.rateMinorPerHour);
@@ -464,6 +467,14 @@ export function computeTargetPlan(
   const cl = colourLabel(colour.intrinsic.system);
   const rl = colourLabel(prediction.relationColour.system);
   const bandZp = BAND_ZERO_POINTS[node.band];
+  const pct = (c: number) => `${fmt(c * 100)} %`;
+  const levelWhy = (c: number, s: VisitSizing) =>
+    s.drivenBy === 'unreachable'
+      ? `${pct(c)} completeness is out of reach: the floor limits it even at ${s.visitsPerNight} visits a night over ${s.baselineDays} d`
+      : `${pct(c)} completeness: ${s.visitsPerNight} visit(s) a night on ${s.nights} nights over ${s.baselineDays} d`;
+  const periodWhy = period.explicit
+    ? `the proposer's period (${relInfo.label} gives ${period.noExpectedPeriod === null && !prediction.noResult ? `${fmt(prediction.periodDays)} d` : 'none'})`
+    : `${relInfo.label} at ${rl} ${fmt(prediction.relationColour.value)} and ${fmt(prediction.ageMyr)} Myr`;
   const q: TargetPlanQuantities = {
     intrinsicColourMag: explained(
       colour.intrinsic.value,
@@ -481,24 +492,39 @@ export function computeTargetPlan(
       prediction.relationColour.system === colour.intrinsic.system ? 'the target colour' : DWARF_SEQUENCE_SOURCE,
       'paper',
     ),
-    periodDays: explained(P, 'd', `${relInfo.label} at ${rl} ${fmt(prediction.relationColour.value)} and ${fmt(prediction.ageMyr)} Myr`, relInfo.citation, 'paper'),
+    periodDays: explained(P, 'd', periodWhy, period.explicit ? "the proposer's value" : relInfo.citation, period.explicit ? 'choice' : 'paper'),
     shortestPeriodDays: explained(
       pMin,
       'd',
-      `−${o.periodRangeSigma}σ of the period from the age uncertainty (${fmt(prediction.ageUncertaintyMyr)} Myr) and the relation's coefficients`,
+      period.explicit
+        ? `−${o.periodRangeSigma}σ of the proposer's period`
+        : `−${o.periodRangeSigma}σ of the period from the age uncertainty (${fmt(prediction.ageUncertaintyMyr)} Myr), the relation's coefficients and its intrinsic scatter`,
       PROPAGATION_METHOD,
       'choice',
     ),
     longestPeriodDays: explained(pMax, 'd', `+${o.periodRangeSigma}σ of the period (same propagation)`, PROPAGATION_METHOD, 'choice'),
-    turnoverTimeDays: explained(tau.tauDays, 'd', `${tauInfo.label} τc at ${inputName(tau.inputQuantity)} ${fmt(tau.inputValue)} (${tau.inputOrigin})`, tauInfo.citation, 'paper'),
-    rossbyNumber: explained(ro, '1', `P/τc on the ${tauInfo.label} scale`, `Ro = P/τc; τc: ${tauInfo.citation}`, 'derived'),
-    rossbyNumberAtLongestPeriod: explained(roMax, '1', `longest plausible period over τc (${tauInfo.label} scale): sets the smallest amplitude`, `Ro = P/τc; τc: ${tauInfo.citation}`, 'derived'),
+    turnoverTimeDays: explained(
+      tau.tauDays,
+      'd',
+      `${tauInfo.label} τc at ${inputName(tau.inputQuantity)} ${fmt(tau.inputValue)} (${tau.inputOrigin}); scale ${period.turnoverScaleWhy}`,
+      tauInfo.citation,
+      'paper',
+    ),
+    rossbyNumber: explained(amp.rossby, '1', `P/τc on the ${tauInfo.label} scale`, `Ro = P/τc; τc: ${tauInfo.citation}`, 'derived'),
+    rossbyNumberAtLongestPeriod: explained(
+      amp.rossbyAtLongestPeriod,
+      '1',
+      `longest plausible period over τc (${tauInfo.label} scale): sets the smallest amplitude`,
+      `Ro = P/τc; τc: ${tauInfo.citation}`,
+      'derived',
+    ),
     amplitudeRperPpm: explained(
-      ampUsed.rperPpm,
+      amp.used.rperPpm,
       'ppm',
-      ampUsed.regime === 'saturated'
-        ? `saturated (Ro ${fmt(roMax)} ≤ ${model.saturationRossby})`
-        : `${fmt(model.anchorRperPpm)} ppm·(Ro/${model.anchorRossby})^−${fmt(amplitudeExponent(model), 4)} at the longest plausible period (Ro ${fmt(roMax)}); ${fmt(ampNominal.rperPpm)} ppm at the nominal period`,
+      (amp.used.regime === 'saturated'
+        ? `saturated (Ro ${fmt(amp.anchorRossby)} ≤ ${model.saturationRossby} on the anchors' scale)`
+        : `${fmt(model.anchorRperPpm)} ppm·(Ro/${model.anchorRossby})^−${fmt(amplitudeExponent(model), 4)} at the longest plausible period (Ro ${fmt(amp.anchorRossby)} on the anchors' Noyes scale); ${fmt(amp.nominal.rperPpm)} ppm at the nominal period`) +
+        (period.turnoverScale === 'noyes1984' ? '' : ` — Ro moved from the ${tauInfo.label} scale as Ro/Ro☉ on that scale`),
       AMPLITUDE_MODEL_SOURCE,
       'derived',
     ),
@@ -513,6 +539,12 @@ export function computeTargetPlan(
       mag.fromBand === mag.band ? 'paper' : 'memory',
     ),
     airmass: explained(airmass, '1', `planning altitude ${fmt(o.planningAltitudeDeg)}° (sky windows give the real range)`, 'Kasten & Young (1989), Appl. Opt. 28, 4735 (from memory)', 'memory'),
+    skyBrightnessMagPerArcsec2: o.sky
+      ? explained(o.sky.medianMagPerArcsec2, 'mag/arcsec²', `median sky with the Moon over the ${o.sky.usableNights} nights the target is observable (site's dark sky ${fmt(site.skyBrightnessMagPerArcsec2)})`, o.sky.source, 'memory')
+      : explained(site.skyBrightnessMagPerArcsec2, 'mag/arcsec²', "the site's dark sky: no sky windows given, so the Moon is not counted", "the site's own value", 'facility'),
+    worstSkyBrightnessMagPerArcsec2: o.sky
+      ? explained(o.sky.worstMagPerArcsec2, 'mag/arcsec²', 'brightest sky on a night the target is observable (a visit then is noisier than planned)', o.sky.source, 'memory')
+      : explained(site.skyBrightnessMagPerArcsec2, 'mag/arcsec²', "the site's dark sky: no sky windows given", "the site's own value", 'facility'),
     starPhotonRatePerSecond: explained(
       setup.starRateE,
       'e⁻/s',
@@ -546,71 +578,119 @@ export function computeTargetPlan(
             'CCD equation (Howell 2006; Merline & Howell 1995, from memory) + scintillation + floor, solved for t',
             'memory',
           ),
-    exposuresPerVisit: explained(exposuresPerVisit, '1', stackWhy, 'σ_visit² = (σ₁² − floor²)/k + floor² (common practice, no source)', o.exposuresPerVisit !== undefined ? 'choice' : 'practice'),
+    exposuresPerVisit: explained(stack.exposuresPerVisit, '1', stack.why, 'σ_visit² = (σ₁² − floor²)/k + floor² (common practice, no source)', o.exposuresPerVisit !== undefined ? 'choice' : 'practice'),
     perVisitPrecisionPpm: explained(
       sigmaPpm,
       'ppm',
-      `${exposuresPerVisit > 1 ? `${exposuresPerVisit} exposures of ` : ''}photon ${fmt(exposure.precision.components.photonPpm)}, sky ${fmt(exposure.precision.components.skyPpm)}, read ${fmt(exposure.precision.components.readPpm)}, scintillation ${fmt(exposure.precision.components.scintillationPpm)} (${node.scintillationModel}), floor ${fmt(exposure.precision.components.floorPpm)} ppm in quadrature`,
+      `${stack.exposuresPerVisit > 1 ? `${stack.exposuresPerVisit} exposures of ` : ''}photon ${fmt(exposure.precision.components.photonPpm)}, sky ${fmt(exposure.precision.components.skyPpm)}, read ${fmt(exposure.precision.components.readPpm)}, scintillation ${fmt(exposure.precision.components.scintillationPpm)} (${node.scintillationModel === 'young1967' ? 'Young 1967, uncorrected' : 'Osborn et al. 2015'}), floor ${fmt(floorPpm)} ppm in quadrature`,
       'CCD equation, Howell (2006), Handbook of CCD Astronomy (from memory); ' +
         (node.scintillationModel === 'young1967' ? 'Young (1967), AJ 72, 747' : 'Osborn et al. (2015), MNRAS 452, 1707') +
         ' (from memory)',
       'memory',
     ),
     perVisitPrecisionMmag: explained(MAG_PER_RELATIVE_FLUX * sigmaPpm * 1e-3, 'mmag', `σ(mag) = ${fmt(MAG_PER_RELATIVE_FLUX, 5)}·σ(flux)/flux`, 'Howell (2006), Handbook of CCD Astronomy', 'memory'),
-    sampleIntervalDays: explained(sampleInterval, 'd', `shortest plausible period ${fmt(pMin)} d / ${s} samples per cycle`, RULE, 'practice'),
+    nightlyPrecisionPpm: explained(
+      nightlySigmaPpm(whitePpm, floorPpm, visitsPerNight),
+      'ppm',
+      `mean of ${visitsPerNight} visit(s): sqrt(${fmt(whitePpm)}²/${visitsPerNight} + ${fmt(floorPpm)}²) — the floor does not average down within a night${series === 'visits' ? '; short periods are analysed on single visits' : ''}`,
+      NIGHTLY_NOISE_SOURCE,
+      'practice',
+    ),
+    sampleIntervalDays: explained(cad.sampleIntervalDays, 'd', `shortest plausible period ${fmt(pMin)} d / ${cad.samplesPerCycle} samples per cycle`, RULE, 'practice'),
     nightStepDays: explained(nightStep, 'd', nightStep === 1 ? 'visits every night' : `a visit night every ${nightStep} nights`, RULE, 'practice'),
     visitsPerNight: explained(
       visitsPerNight,
       '1',
-      visits > nCad ? `at most ${visitsPerNight} per night to fit the detection's ${visits} visits; ${cadenceWhy}` : cadenceWhy,
+      visitsPerNight > cad.visitsPerNight ? `${visitsPerNight} per night for ${pct(o.completeness)} completeness; ${cad.why}` : cad.why,
       RULE,
       'practice',
     ),
-    baselineForCyclesDays: explained(baselineCycles, 'd', `${o.baselineCycles} cycles of the longest plausible period ${fmt(pMax)} d`, RULE, 'practice'),
+    baselineForCyclesDays: explained(bl.forCyclesDays, 'd', `${o.baselineCycles} cycles of the longest plausible period ${fmt(pMax)} d`, RULE, 'practice'),
     baselineForPrecisionDays: explained(
-      baselineForPrecision,
+      bl.forPrecisionDays,
       'd',
-      sigmaP === undefined
+      target.periodPrecisionDays === undefined
         ? 'no period precision requested'
-        : `σP = ${sigmaP} d at the longest plausible period: T = P²·sqrt(6/N)·σ/(π·A·σP), N growing with T`,
+        : `σP = ${target.periodPrecisionDays} d at the longest plausible period: T = P²·sqrt(6/n)·σ_night/(π·A·σP), nights n growing with T`,
       PERIOD_PRECISION_SOURCE,
       'memory',
     ),
     baselineDays: explained(
       baseline,
       'd',
-      baselineForPrecision !== null && baselineForPrecision > baselineCycles
-        ? 'set by the requested period precision (whole days)'
-        : 'set by the cycles rule (whole days)',
+      sz.drivenBy === 'baseline' || sz.drivenBy === 'unreachable'
+        ? `stretched for ${pct(o.completeness)} completeness: more nights, since the floor limits each night (whole days)`
+        : bl.setBy === 'precision'
+          ? 'set by the requested period precision (whole days)'
+          : bl.setBy === 'minimum'
+            ? 'set by the minimum baseline asked for (whole days)'
+            : 'set by the cycles rule (whole days)',
       RULE,
       'practice',
     ),
+    visitNights: explained(sz.nights, '1', `a visit night every ${nightStep} night(s) over ${baseline} d, first night included (clear nights; weather adds calendar time)`, RULE, 'practice'),
+    searchMinFrequencyPerDay: explained(
+      fmin,
+      'd⁻¹',
+      `periods up to ${fmt(longestSearched)} d: ${longestSearched < o.searchLongPeriodFactor * pMax ? 'the baseline' : `${o.searchLongPeriodFactor} × the longest plausible period`}`,
+      CHOICE,
+      'choice',
+    ),
     searchMaxFrequencyPerDay: explained(fmax, 'd⁻¹', `periods down to ${o.searchPeriodFraction} × the shortest plausible period (the P/2 harmonic of two spot groups)`, CHOICE, 'choice'),
-    independentFrequencies: explained(det.m, '1', `T·fmax = ${baseline} d × ${fmt(fmax)} d⁻¹`, DETECTION_SOURCE, 'derived'),
-    detectionThresholdPower: explained(det.z0, '1', `ln(M/p) with p = ${o.falseAlarmProbability}`, DETECTION_SOURCE, 'derived'),
+    independentFrequencies: explained(sz.threshold.effectiveFrequencies, '1', `Baluev's W = fmax·sqrt(4π·var t) = ${fmt(fmax)} d⁻¹ × ${baseline} d × sqrt(π/3), visits spread over the baseline`, THRESHOLD_SOURCE, 'derived'),
+    detectionThresholdPower: explained(
+      sz.threshold.power,
+      '1',
+      `the periodogram power (standard normalisation) whose false-alarm probability is ${o.falseAlarmProbability} for ${sz.threshold.points} ${series === 'nightlyMeans' ? 'nightly means' : 'visits'} searched up to ${fmt(fmax)} d⁻¹`,
+      BALUEV_SOURCE,
+      'derived',
+    ),
+    requestedCompleteness: explained(o.completeness, '1', 'chance of recovering the period that the plan is sized for', "the proposal's setting", 'choice'),
+    completeness: explained(
+      sz.completeness,
+      '1',
+      `probability that the period's peak clears the threshold, with λ = ${sz.threshold.points}·A²/(2σ²) = ${fmt(sz.noncentrality)}${Number.isFinite(sz.noncentralityRequired) ? ` (${fmt(sz.noncentralityRequired)} needed for ${pct(o.completeness)})` : ''}`,
+      `${DETECTION_SOURCE}; ${MARCUM_SOURCE}`,
+      'derived',
+    ),
     visitsForDetection: explained(
-      det.n,
+      detectionOnly.visits,
       '1',
-      `4σ²·ln(M/p)/A² with σ ${fmt(sigmaPpm)} ppm and A ${fmt(semiAmplitudePpm)} ppm`,
+      detectionOnly.drivenBy === 'unreachable'
+        ? `${pct(o.completeness)} completeness is out of reach on this node (see the flags)`
+        : `fewest visits for ${pct(o.completeness)} completeness on the cadence's nights, ignoring its samples per cycle`,
       DETECTION_SOURCE,
       'derived',
     ),
-    visitsForCadence: explained(nCad, '1', `visits per night × visit nights over ${baseline} d`, RULE, 'practice'),
-    visits: explained(visits, '1', visitsWhy, DETECTION_SOURCE, 'derived'),
-    expectedFalseAlarmProbability: explained(
-      expectedFap,
+    visitsForCadence: explained(nCad, '1', `the cadence's ${cad.visitsPerNight} visit(s) per night on ${visitNightCount(baseline, cad.nightStepDays)} nights over ${baseline} d`, RULE, 'practice'),
+    visitsForCompleteness50: explained(levels[0].visits, '1', levelWhy(0.5, levels[0]), DETECTION_SOURCE, 'derived'),
+    visitsForCompleteness90: explained(levels[1].visits, '1', levelWhy(0.9, levels[1]), DETECTION_SOURCE, 'derived'),
+    visitsForCompleteness99: explained(levels[2].visits, '1', levelWhy(0.99, levels[2]), DETECTION_SOURCE, 'derived'),
+    visits: explained(
+      visits,
       '1',
-      `expected FAP of the signal's peak with these visits: 1 − (1 − e^(−N·A²/4σ²))^M`,
+      sz.drivenBy === 'cadence'
+        ? `the cadence's ${nCad} visits already give ${pct(sz.completeness)} completeness`
+        : `${visitsPerNight} per night on ${sz.nights} nights for ${pct(o.completeness)} completeness (the cadence alone: ${nCad})`,
       DETECTION_SOURCE,
       'derived',
     ),
-    expectedPeriodPrecisionDays: explained(expectedSigmaP.sigmaPeriodDays, 'd', `σP at the longest plausible period with ${visits} visits over ${baseline} d`, PERIOD_PRECISION_SOURCE, 'memory'),
+    expectedPeriodPrecisionDays: explained(
+      expectedSigmaP.sigmaPeriodDays,
+      'd',
+      `σP at the longest plausible period from ${sz.nights} nightly means over ${baseline} d`,
+      PERIOD_PRECISION_SOURCE,
+      'memory',
+    ),
     visitSeconds: explained(
       visitSeconds,
       's',
-      exposuresPerVisit > 1
-        ? `${exposuresPerVisit} × ${fmt(exposure.exposureSeconds)} s exposures + ${exposuresPerVisit - 1} × ${o.readoutSeconds} s readout + overhead ${node.overheadSeconds} s`
-        : `exposure ${fmt(exposure.exposureSeconds)} s + overhead ${node.overheadSeconds} s`, "the node's overhead per visit", 'facility'),
+      stack.exposuresPerVisit > 1
+        ? `${stack.exposuresPerVisit} × ${fmt(exposure.exposureSeconds)} s exposures + ${stack.exposuresPerVisit - 1} × ${o.readoutSeconds} s readout + overhead ${node.overheadSeconds} s`
+        : `exposure ${fmt(exposure.exposureSeconds)} s + overhead ${node.overheadSeconds} s`,
+      "the node's overhead per visit",
+      'facility',
+    ),
     nodeHoursClear: explained(hoursClear, 'h', `${visits} visits × ${fmt(visitSeconds)} s`, 'definition of node-hours', 'practice'),
     nodeHours: explained(
       hours,
@@ -625,21 +705,121 @@ export function computeTargetPlan(
     targetName: target.name ?? null,
     relation: o.relation,
     relationLabel: relInfo.label,
-    turnoverScale: o.turnoverScale,
+    turnoverScale: period.turnoverScale,
     turnoverScaleLabel: tauInfo.label,
     nodeBand: node.band,
     currency: node.currency,
     feasible: !flags.some((f) => f.severity === 'blocking'),
     quantities: q,
     precision: exposure.precision,
+    analysis: {
+      series,
+      minFrequencyPerDay: fmin,
+      maxFrequencyPerDay: fmax,
+      falseAlarmProbability: o.falseAlarmProbability,
+    },
     flags,
   };
 }
 
+interface StackChoice {
+  exposuresPerVisit: number;
+  sigmaPpm: number;
+  why: string;
+}
+
+/**
+ * Step 4c: exposures per visit. A single exposure capped by saturation (bright stars) or by
+ * the node's longest exposure (faint ones) may miss the goal; stacking k exposures in one
+ * visit averages the photon, sky, read and scintillation noise down by √k (independent
+ * between exposures) but not the systematic floor (the same comparison stars, the same flat
+ * field): σ_visit² = (σ₁² − floor²)/k + floor² (Spincycle's model; common practice, no source).
+ */
+function exposuresPerVisitStep(exposure: ExposureChoice, node: NodeSpec, o: ResolvedOptions, goalPpm: number): StackChoice {
+  const singlePpm = exposure.precision.totalPpm;
+  const floorPpm = exposure.precision.components.floorPpm;
+  // A fixed exposure is the user's decision; only the automatic one is stacked automatically.
+  const stackable = o.exposureSeconds === undefined && (exposure.limitedBy === 'saturation' || exposure.limitedBy === 'maxExposure');
+  const maxStack = Math.max(1, Math.floor((o.maxVisitSeconds - node.overheadSeconds + o.readoutSeconds) / (exposure.exposureSeconds + o.readoutSeconds)));
+  // Node time for detection ∝ σ_visit²(k) × visit length(k); its minimum over k is the most
+  // stacking worth doing, and reaching the goal needs no more than k_goal.
+  const randomVar = Math.max(0, singlePpm ** 2 - floorPpm ** 2);
+  const stackTime = (k: number) => (randomVar / k + floorPpm ** 2) * (k * exposure.exposureSeconds + (k - 1) * o.readoutSeconds + node.overheadSeconds);
+  let k = 1;
+  let why = 'one exposure per visit reaches the goal';
+  if (o.exposuresPerVisit !== undefined) {
+    k = o.exposuresPerVisit;
+    why = 'chosen by the user';
+  } else if (!exposure.reachesTarget && stackable && !exposure.saturatesAtMinExposure) {
+    let kBest = 1;
+    for (let j = 2; j <= maxStack; j++) if (stackTime(j) < stackTime(kBest)) kBest = j;
+    const kGoal = goalPpm > floorPpm * 1.001 ? Math.ceil(randomVar / (goalPpm ** 2 - floorPpm ** 2) - 1e-9) : Infinity;
+    k = Math.max(1, Math.min(kBest, kGoal));
+    why =
+      k === kGoal
+        ? `${k} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${exposure.limitedBy}) reach the goal of ${fmt(goalPpm)} ppm`
+        : k === 1
+          ? 'stacking would not save node time here'
+          : `${k} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${exposure.limitedBy}) need the least node time for the detection (more would mostly average down what the floor keeps)`;
+  } else if (!exposure.reachesTarget) {
+    why = 'one exposure per visit (stacking does not help here)';
+  }
+  return { exposuresPerVisit: k, sigmaPpm: Math.sqrt(randomVar / k + floorPpm ** 2), why };
+}
+
+/** Flags of the exposure step: saturation, and a goal not reached. */
+function exposureFlags(
+  exposure: ExposureChoice,
+  automatic: ExposureChoice,
+  node: NodeSpec,
+  o: ResolvedOptions,
+  goalPpm: number,
+  sigmaPpm: number,
+  reachesGoal: boolean,
+): ScienceFlag[] {
+  if (exposure.saturatesAtMinExposure) {
+    return [
+      flag(
+        'saturatesAtMinExposure',
+        'blocking',
+        `the star saturates even at the shortest exposure (${node.minExposureSeconds} s; saturation after ${fmt(exposure.saturationLimitSeconds)} s): defocus or a fainter band is needed`,
+        'Gaussian PSF peak pixel against the node saturationE',
+      ),
+    ];
+  }
+  if (o.exposureSeconds !== undefined && exposure.precision.saturated) {
+    return [
+      flag(
+        'saturatesAtChosenExposure',
+        'blocking',
+        `the star saturates at the chosen exposure of ${fmt(exposure.exposureSeconds)} s (saturation after ${fmt(exposure.saturationLimitSeconds)} s): choose a shorter exposure or the automatic one (${fmt(automatic.exposureSeconds)} s)`,
+        'Gaussian PSF peak pixel against the node saturationE',
+      ),
+    ];
+  }
+  if (!reachesGoal) {
+    return [
+      flag(
+        'precisionGoalNotReached',
+        'info',
+        o.exposureSeconds === undefined
+          ? `the precision goal ${fmt(goalPpm)} ppm is not reached (best ${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s, limited by ${exposure.limitedBy}): more visits make up for it`
+          : `the precision goal ${fmt(goalPpm)} ppm is not reached at the chosen exposure (${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s): more visits make up for it`,
+      ),
+    ];
+  }
+  return [];
+}
+
 interface ResolvedOptions {
   relation: GyroRelationId;
-  turnoverScale: TurnoverScale;
+  turnoverScale: TurnoverScale | undefined;
   falseAlarmProbability: number;
+  completeness: number;
+  minBaselineDays: number | undefined;
+  maxBaselineDays: number;
+  searchLongPeriodFactor: number;
+  sky: PlanSkyConditions | undefined;
   samplesPerCycle: number;
   baselineCycles: number;
   periodRangeSigma: number;
@@ -663,7 +843,12 @@ function resolveOptions(options: TargetPlanOptions, system: TargetColourSystem, 
   const o = options ?? {};
   return prefixed('options', () => ({
     relation: requireOneOf(o.relation ?? defaultRelationFor(system), 'relation', GYRO_RELATIONS),
-    turnoverScale: requireOneOf(o.turnoverScale ?? 'noyes1984', 'turnoverScale', TURNOVER_SCALES),
+    turnoverScale: o.turnoverScale === undefined ? undefined : requireOneOf(o.turnoverScale, 'turnoverScale', TURNOVER_SCALES),
+    completeness: requireInRange(o.completeness ?? PLAN_DEFAULTS.completeness, 'completeness', 0.5, 0.99),
+    minBaselineDays: o.minBaselineDays === undefined ? undefined : requireInRange(o.minBaselineDays, 'minBaselineDays', 1, 3650),
+    maxBaselineDays: requireInRange(o.maxBaselineDays ?? PLAN_DEFAULTS.maxBaselineDays, 'maxBaselineDays', 1, 3650),
+    searchLongPeriodFactor: requireInRange(o.searchLongPeriodFactor ?? PLAN_DEFAULTS.searchLongPeriodFactor, 'searchLongPeriodFactor', 1, 100),
+    sky: o.sky === undefined ? undefined : validateSky(o.sky),
     falseAlarmProbability: requireInRange(o.falseAlarmProbability ?? PLAN_DEFAULTS.falseAlarmProbability, 'falseAlarmProbability', 0, 0.5, true),
     samplesPerCycle: requireInRange(o.samplesPerCycle ?? PLAN_DEFAULTS.samplesPerCycle, 'samplesPerCycle', 2, 100),
     baselineCycles: requireInRange(o.baselineCycles ?? PLAN_DEFAULTS.baselineCycles, 'baselineCycles', 1, 100),
@@ -691,6 +876,13 @@ function resolveOptions(options: TargetPlanOptions, system: TargetColourSystem, 
     weakenedBrakingRossby: o.weakenedBrakingRossby,
     photometry: o.photometry ?? {},
   }));
+}
+
+function validateSky(sky: PlanSkyConditions): PlanSkyConditions {
+  requireInRange(sky?.medianMagPerArcsec2, 'sky.medianMagPerArcsec2', 10, 25);
+  requireInRange(sky.worstMagPerArcsec2, 'sky.worstMagPerArcsec2', 10, 25);
+  requireInteger(sky.usableNights, 'sky.usableNights', 0);
+  return sky;
 }
 
 /**
@@ -723,7 +915,7 @@ function prefixed<T>(prefix: string, fn: () => T): T {
     if (!(err instanceof ScienceInputError)) throw err;
     const f = err.field;
     if (/^(node|site|target|options)[.[]/.test(f)) throw err;
-    const full = /^(photometry|amplitudeModel)[.[]/.test(f) ? `options.${f}` : `${prefix}.${f}`;
+    const full = /^(photometry|amplitudeModel|sky)[.[]/.test(f) ? `options.${f}` : `${prefix}.${f}`;
     throw new ScienceInputError(full, err.reason);
   }
 }

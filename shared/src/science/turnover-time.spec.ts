@@ -1,6 +1,8 @@
 import { resolveColour } from './colour-sequence';
 import {
+  defaultTurnoverScaleFor,
   rossbyNumber,
+  solarRossby,
   turnoverTimeCranmerSaar2011,
   turnoverTimeForColour,
   turnoverTimeNoyes1984,
@@ -65,5 +67,40 @@ describe('rossbyNumber', () => {
 
   it('rejects a non-positive period', () => {
     expect(() => rossbyNumber({ periodDays: 0, colour: { value: 0.65, system: 'BV' } })).toThrow(/periodDays: must be positive/);
+  });
+});
+
+describe('solarRossby', () => {
+  it('is 26.09 d over τ☉ on each scale [derived]: Noyes 2.18 (SCIENCE.md §3), Cranmer & Saar 2.03, Wright 2011 1.81, Wright 2018 2.43', () => {
+    expect(solarRossby('noyes1984')).toBeCloseTo(26.09 / turnoverTimeNoyes1984(0.65), 12);
+    expect(solarRossby('noyes1984')).toBeCloseTo(2.18, 2);
+    expect(solarRossby('cranmerSaar2011')).toBeCloseTo(26.09 / 12.875, 3);
+    expect(solarRossby('wright2011')).toBeCloseTo(26.09 / 14.45, 2);
+    expect(solarRossby('wright2018')).toBeCloseTo(26.09 / turnoverTimeWright2018(1.56), 12);
+  });
+
+  it('rejects an unknown scale', () => {
+    expect(() => solarRossby('skumanich' as never)).toThrow(/turnoverScale: must be one of/);
+  });
+});
+
+describe('defaultTurnoverScaleFor (Wright et al. 2018 for M dwarfs, Noyes et al. 1984 otherwise; Teff < 3900 K on Pecaut & Mamajek 2013)', () => {
+  it('chooses Wright et al. (2018) for an M dwarf in BP−RP, B−V or V−Ks, and says why', () => {
+    const m = defaultTurnoverScaleFor(resolveColour({ value: 2.5, system: 'BPRP' }, 0));
+    expect(m.scale).toBe('wright2018');
+    expect(m.why).toMatch(/Noyes et al. \(1984\) τ is calibrated on F–K stars; M dwarfs use Wright et al. \(2018\), calibrated to V−Ks 7.0/);
+    expect(defaultTurnoverScaleFor(resolveColour({ value: 1.45, system: 'BV' }, 0)).scale).toBe('wright2018');
+    expect(defaultTurnoverScaleFor(resolveColour({ value: 6.5, system: 'VKs' }, 0)).scale).toBe('wright2018');
+  });
+
+  it('keeps Noyes et al. (1984) for F–K dwarfs, including a K7V just above 3900 K', () => {
+    expect(defaultTurnoverScaleFor(resolveColour({ value: 1.1, system: 'BPRP' }, 0)).scale).toBe('noyes1984');
+    expect(defaultTurnoverScaleFor(resolveColour({ value: 1.38, system: 'BV' }, 0)).scale).toBe('noyes1984');
+    expect(defaultTurnoverScaleFor(resolveColour({ value: 0.42, system: 'BV' }, 0)).scale).toBe('noyes1984');
+  });
+
+  it('uses the de-reddened colour: observed BP−RP 1.95 with E(B−V) 0.2 is a K dwarf (1.95 − 1.339 × 0.2 = 1.68)', () => {
+    expect(defaultTurnoverScaleFor(resolveColour({ value: 1.95, system: 'BPRP' }, 0)).scale).toBe('wright2018');
+    expect(defaultTurnoverScaleFor(resolveColour({ value: 1.95, system: 'BPRP' }, 0.2)).scale).toBe('noyes1984');
   });
 });

@@ -7,12 +7,14 @@ import {
   type ColourSystem,
   type ResolvedColour,
   colourLabel,
+  dwarfSequenceAt,
   requireSequence,
   resolveColour,
+  sequenceValue,
   DWARF_SEQUENCE_SOURCE,
 } from './colour-sequence';
 import { type ScienceFlag, flag, fmt } from './explained';
-import { requireOneOf, requirePositive } from './science-input-error';
+import { ScienceInputError, requireFinite, requireOneOf, requirePositive } from './science-input-error';
 
 export const TURNOVER_SCALES = ['noyes1984', 'cranmerSaar2011', 'wright2011', 'wright2018'] as const;
 export type TurnoverScale = (typeof TURNOVER_SCALES)[number];
@@ -184,4 +186,72 @@ export function rossbyNumber(
 
 function inputLabel(q: TurnoverScaleInfo['input']): string {
   return { bvMag: 'B−V', teffK: 'Teff', massSolar: 'mass', vKsMag: 'V−Ks' }[q];
+}
+
+/**
+ * The Sun's inputs to each τ scale: B−V 0.65 and V−Ks 1.56 (the G2V row of the dwarf sequence,
+ * Pecaut & Mamajek (2013), ApJS 208, 9, Table 5: 0.650 and 1.564, the latter rounded), Teff
+ * 5772 K (nominal solar value, Prša et al. (2016), AJ 152, 41 — from memory), mass 1 M☉.
+ */
+export const SOLAR_TURNOVER_INPUTS: Readonly<Record<TurnoverScaleInfo['input'], number>> = {
+  bvMag: 0.65,
+  teffK: 5772,
+  massSolar: 1,
+  vKsMag: 1.56,
+};
+
+/**
+ * Solar rotation period used for the solar Rossby number, days: 26.09 d, Barnes (2007)'s solar
+ * calibration (ApJ 669, 1167; SCIENCE.md §8 #1), the same value that gives the amplitude
+ * model's solar anchor Ro ≈ 2.18 on the Noyes scale (SCIENCE.md §3). The sidereal equatorial
+ * period 25.4 d would lower every Ro☉ by 2.6 %; ratios Ro/Ro☉ do not depend on this choice.
+ */
+export const SOLAR_ROTATION_PERIOD_DAYS = 26.09;
+
+/** τc of the Sun on one scale, days (the scale's formula at {@link SOLAR_TURNOVER_INPUTS}). */
+export function solarTurnoverTime(scale: TurnoverScale): number {
+  requireOneOf(scale, 'turnoverScale', TURNOVER_SCALES);
+  return turnoverTimeOf(scale, SOLAR_TURNOVER_INPUTS[TURNOVER_SCALE_INFO[scale].input]);
+}
+
+/**
+ * The Sun's Rossby number on one τ scale, Ro☉ = 26.09 d / τ☉ [derived]: ≈ 2.18 (Noyes 1984),
+ * 2.03 (Cranmer & Saar 2011), 1.81 (Wright et al. 2011), 2.43 (Wright et al. 2018). Rossby
+ * numbers on different scales are comparable only as Ro/Ro☉ on the same scale.
+ */
+export function solarRossby(scale: TurnoverScale): number {
+  return SOLAR_ROTATION_PERIOD_DAYS / solarTurnoverTime(scale);
+}
+
+/**
+ * Effective temperature below which a dwarf is treated as an M dwarf, K: 3900 K, between the
+ * K7V (4090 K) and M0V (3850 K) rows of the dwarf sequence (the K/M boundary; common practice,
+ * no source).
+ */
+export const M_DWARF_TEFF_K = 3900;
+
+/**
+ * The τ scale best calibrated for a target: Wright et al. (2018), calibrated on V−Ks 1.1–7.0,
+ * for M dwarfs (Teff < 3900 K on the dwarf sequence: (B−V)0 ≥ 1.40, (BP−RP)0 ≥ 1.81,
+ * (V−Ks)0 ≥ 3.59); Noyes et al. (1984), calibrated on F–K stars, otherwise. Colours redder
+ * than the sequence's last row count as M dwarfs, bluer than its first row as not.
+ */
+export function defaultTurnoverScaleFor(colour: ResolvedColour): { scale: TurnoverScale; why: string } {
+  const system = colour?.intrinsic?.system;
+  if (system !== 'BV' && system !== 'BPRP' && system !== 'VKs') {
+    throw new ScienceInputError('colour.system', `must be one of BV, BPRP, VKs (got ${String(system)})`);
+  }
+  const threshold = sequenceValue(dwarfSequenceAt('teffK', M_DWARF_TEFF_K), system);
+  const value = requireFinite(colour.intrinsic.value, 'colour.value');
+  const label = `${colourLabel(system)} ${fmt(value)}`;
+  if (value >= threshold) {
+    return {
+      scale: 'wright2018',
+      why: `${label} is an M dwarf (Teff < ${M_DWARF_TEFF_K} K on the dwarf sequence): Noyes et al. (1984) τ is calibrated on F–K stars; M dwarfs use Wright et al. (2018), calibrated to V−Ks 7.0`,
+    };
+  }
+  return {
+    scale: 'noyes1984',
+    why: `${label} is an F–K dwarf (Teff ≥ ${M_DWARF_TEFF_K} K on the dwarf sequence): Noyes et al. (1984) τ, calibrated on F–K stars, the default for B−V inputs`,
+  };
 }

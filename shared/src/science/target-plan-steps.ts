@@ -1,0 +1,400 @@
+/**
+ * The steps of a target plan as separate, pure functions (computeTargetPlan in target-plan.ts
+ * chains them and explains every number). Each step takes only what the steps before it
+ * produced, so each can be tested on its own:
+ *
+ *   colour → period → amplitude → precision (exposure, stacking) → cadence → baseline →
+ *   visits (completeness) → hours and fee; the sky check against the site's windows follows
+ *   in planning/node-target-plan.ts.
+ */
+import { type ResolvedColour, resolveColour } from './colour-sequence';
+import {
+  type DetectionThreshold,
+  baselineForPeriodPrecision,
+  detectionProbability,
+  detectionThreshold,
+  noncentralityForCompleteness,
+} from './detection';
+import { type ScienceFlag, flag, fmt } from './explained';
+import { type GyroRelationId, type PeriodPrediction, predictPeriod } from './gyrochronology';
+import { ScienceInputError } from './science-input-error';
+import { type AmplitudeModelCoefficients, type SpotAmplitude, RPER_PER_SEMI_AMPLITUDE, amplitudeModel, amplitudeRossby, spotAmplitude } from './spot-amplitude';
+import { type TurnoverScale, type TurnoverTime, defaultTurnoverScaleFor, turnoverTimeForColour } from './turnover-time';
+
+// ---------------------------------------------------------------------------------------
+// 1–2. Colour and period.
+
+export interface PeriodStepInput {
+  relation: GyroRelationId;
+  colour: { value: number; system: 'BV' | 'BPRP' };
+  reddeningEbvMag?: number;
+  ageMyr: number;
+  ageUncertaintyMyr?: number;
+  rangeSigma: number;
+  /** τ scale chosen by the caller; default: the one better calibrated for the star's type. */
+  turnoverScale?: TurnoverScale;
+  weakenedBrakingRossby?: number;
+  /** Period supplied by the proposer (overrides the relation), days. */
+  explicitPeriodDays?: number;
+  explicitPeriodUncertaintyDays?: number;
+}
+
+export interface PeriodStep {
+  colour: ResolvedColour;
+  turnoverScale: TurnoverScale;
+  turnoverScaleWhy: string;
+  prediction: PeriodPrediction;
+  periodDays: number;
+  shortestPeriodDays: number;
+  longestPeriodDays: number;
+  /** True when the proposer's period is used instead of the relation's. */
+  explicit: boolean;
+  /** Why the relation gives no period (null when it does, or when an explicit one is used). */
+  noExpectedPeriod: string | null;
+  flags: ScienceFlag[];
+}
+
+/**
+ * Fractional 1σ of a proposer's period when they give none: spots at different latitudes
+ * and their evolution make measured periods of one star differ by several per cent
+ * (Spincycle's choice, no source).
+ */
+export const EXPLICIT_PERIOD_DEFAULT_FRACTION = 0.1;
+
+/** Step 1–2: the colour de-reddened, the τ scale, and the period with its plausible range. */
+export function periodStep(input: PeriodStepInput): PeriodStep {
+  const colour = resolveColour(input.colour, input.reddeningEbvMag);
+  const scaleChoice = input.turnoverScale
+    ? { scale: input.turnoverScale, why: 'chosen by the user' }
+    : defaultTurnoverScaleFor(colour);
+  const prediction = predictPeriod({
+    relation: input.relation,
+    colour: input.colour,
+    reddeningEbvMag: input.reddeningEbvMag,
+    ageMyr: input.ageMyr,
+    ageUncertaintyMyr: input.ageUncertaintyMyr,
+    rangeSigma: input.rangeSigma,
+    turnoverScale: scaleChoice.scale,
+    weakenedBrakingRossby: input.weakenedBrakingRossby,
+  });
+  const flags = prediction.flags.filter((f) => f.code !== 'rossbyUnavailable');
+  if (input.explicitPeriodDays !== undefined) {
+    const p = input.explicitPeriodDays;
+    if (!(Number.isFinite(p) && p > 0)) throw new ScienceInputError('periodDays', `must be a positive number of days (got ${p})`);
+    const sigma = input.explicitPeriodUncertaintyDays ?? EXPLICIT_PERIOD_DEFAULT_FRACTION * p;
+    if (!(Number.isFinite(sigma) && sigma >= 0)) throw new ScienceInputError('periodUncertaintyDays', `must not be negative (got ${sigma})`);
+    const k = input.rangeSigma;
+    // The relation's own verdict becomes information: the proposer's period replaces it.
+    const kept = flags.map((f) => (f.code === 'noExpectedPeriod' ? { ...f, severity: 'info' as const } : f));
+    kept.push(flag('explicitPeriod', 'info', `the proposer's period ${fmt(p)} ± ${fmt(sigma)} d is used instead of ${prediction.relationLabel}`));
+    return {
+      colour,
+      turnoverScale: scaleChoice.scale,
+      turnoverScaleWhy: scaleChoice.why,
+      prediction,
+      periodDays: p,
+      shortestPeriodDays: Math.max(0.1 * p, p - k * sigma),
+      longestPeriodDays: p + k * sigma,
+      explicit: true,
+      noExpectedPeriod: null,
+      flags: kept,
+    };
+  }
+  return {
+    colour,
+    turnoverScale: scaleChoice.scale,
+    turnoverScaleWhy: scaleChoice.why,
+    prediction,
+    periodDays: prediction.periodDays,
+    shortestPeriodDays: prediction.rangeDays.low,
+    longestPeriodDays: prediction.rangeDays.high,
+    explicit: false,
+    noExpectedPeriod: prediction.noResult ? prediction.noResult.reason : null,
+    flags,
+  };
+}
+
+// ---------------------------------------------------------------------------------------
+// 3. Amplitude.
+
+export interface AmplitudeStep {
+  model: AmplitudeModelCoefficients;
+  tau: TurnoverTime;
+  rossby: number;
+  rossbyAtLongestPeriod: number;
+  /** Ro at the longest period moved to the amplitude model's anchor scale (Ro/Ro☉ on the same scale). */
+  anchorRossby: number;
+  nominal: SpotAmplitude;
+  /** Amplitude at the longest plausible period: the smallest in the range, which sizing uses. */
+  used: SpotAmplitude;
+  semiAmplitudePpm: number;
+}
+
+/** Step 3: τc, Rossby number and the spot amplitude at the longest plausible period. */
+export function amplitudeStep(period: PeriodStep, overrides: Partial<AmplitudeModelCoefficients>): AmplitudeStep {
+  const tau = turnoverTimeForColour(period.colour, period.turnoverScale);
+  const model = amplitudeModel(overrides);
+  const rossby = period.periodDays / tau.tauDays;
+  const roMax = period.longestPeriodDays / tau.tauDays;
+  const nominal = spotAmplitude(amplitudeRossby(rossby, period.turnoverScale), model);
+  const anchorRossby = amplitudeRossby(roMax, period.turnoverScale);
+  const used = spotAmplitude(anchorRossby, model);
+  return { model, tau, rossby, rossbyAtLongestPeriod: roMax, anchorRossby, nominal, used, semiAmplitudePpm: used.rperPpm / RPER_PER_SEMI_AMPLITUDE };
+}
+
+// ---------------------------------------------------------------------------------------
+// 5. Cadence.
+
+export interface CadenceStep {
+  samplesPerCycle: number;
+  sampleIntervalDays: number;
+  visitsPerNight: number;
+  nightStepDays: number;
+  why: string;
+}
+
+/** Step 5: visits per night and night step for ≥ s samples per cycle of the shortest period. */
+export function cadenceStep(shortestPeriodDays: number, samplesPerCycle: number, aliasPeriodDays: number, minVisitsPerNightShortPeriod: number): CadenceStep {
+  const pMin = shortestPeriodDays;
+  const s = samplesPerCycle;
+  const sampleIntervalDays = pMin / s;
+  if (sampleIntervalDays >= 1) {
+    const nightStepDays = Math.floor(sampleIntervalDays);
+    return {
+      samplesPerCycle: s,
+      sampleIntervalDays,
+      visitsPerNight: 1,
+      nightStepDays,
+      why:
+        nightStepDays === 1
+          ? `one visit per night gives ≥ ${s} samples per ${fmt(pMin)}-d cycle`
+          : `one visit every ${nightStepDays} nights gives ≥ ${s} samples per ${fmt(pMin)}-d cycle`,
+    };
+  }
+  let visitsPerNight = Math.ceil(s / pMin - 1e-9);
+  let why = `${visitsPerNight} visits per night give ≥ ${s} samples per ${fmt(pMin)}-d cycle`;
+  if (pMin < aliasPeriodDays && visitsPerNight < minVisitsPerNightShortPeriod) {
+    visitsPerNight = minVisitsPerNightShortPeriod;
+    why = `${visitsPerNight} visits per night spread over the night break the 1 d⁻¹ aliases of periods under ${aliasPeriodDays} d`;
+  }
+  return { samplesPerCycle: s, sampleIntervalDays, visitsPerNight, nightStepDays: 1, why };
+}
+
+/** Visit nights in a baseline of T days with a visit night every s nights (first night included). */
+export function visitNightCount(baselineDays: number, nightStepDays: number): number {
+  return Math.floor(baselineDays / nightStepDays + 1e-9) + 1;
+}
+
+// ---------------------------------------------------------------------------------------
+// 6. Baseline.
+
+export interface BaselineStep {
+  /** Cycles rule: baselineCycles × the longest plausible period, days. */
+  forCyclesDays: number;
+  /** For the requested period precision (null when none is asked). */
+  forPrecisionDays: number | null;
+  /** Longest of the rules and the caller's minimum, whole days. */
+  baselineDays: number;
+  setBy: 'cycles' | 'precision' | 'minimum';
+}
+
+/**
+ * Step 6: the baseline from the cycles rule, the requested period precision (σP formula with
+ * the nightly means of the cadence, solved for T with the night count growing with T) and the
+ * caller's minimum (e.g. to reach a beat period).
+ */
+export function baselineStep(input: {
+  longestPeriodDays: number;
+  baselineCycles: number;
+  periodPrecisionDays?: number;
+  semiAmplitudePpm: number;
+  nightlySigmaPpm: number;
+  nightStepDays: number;
+  minBaselineDays?: number;
+}): BaselineStep {
+  const forCyclesDays = input.baselineCycles * input.longestPeriodDays;
+  let baselineDays = Math.ceil(forCyclesDays - 1e-9);
+  let setBy: BaselineStep['setBy'] = 'cycles';
+  let forPrecisionDays: number | null = null;
+  const sigmaP = input.periodPrecisionDays;
+  if (sigmaP !== undefined) {
+    const tPrec = (T: number) =>
+      baselineForPeriodPrecision({
+        visits: visitNightCount(T, input.nightStepDays),
+        sigmaPpm: input.nightlySigmaPpm,
+        semiAmplitudePpm: input.semiAmplitudePpm,
+        periodDays: input.longestPeriodDays,
+        periodPrecisionDays: sigmaP,
+      });
+    if (tPrec(baselineDays) > baselineDays) {
+      // T − T_prec(n(T)) increases with T (n grows with T, T_prec falls): bisect for the root.
+      let lo = baselineDays;
+      let hi = baselineDays * 2;
+      while (tPrec(hi) > hi && hi < 1e6) hi *= 2;
+      if (hi >= 1e6) throw new ScienceInputError('periodPrecisionDays', `${sigmaP} d cannot be reached within a million days of baseline`);
+      for (let i = 0; i < 60 && hi - lo > 1e-3; i++) {
+        const mid = 0.5 * (lo + hi);
+        if (tPrec(mid) > mid) lo = mid;
+        else hi = mid;
+      }
+      forPrecisionDays = hi;
+      baselineDays = Math.ceil(hi - 1e-9);
+      setBy = 'precision';
+    } else {
+      forPrecisionDays = tPrec(baselineDays);
+    }
+  }
+  if (input.minBaselineDays !== undefined && input.minBaselineDays > baselineDays) {
+    baselineDays = Math.ceil(input.minBaselineDays - 1e-9);
+    setBy = 'minimum';
+  }
+  return { forCyclesDays, forPrecisionDays, baselineDays, setBy };
+}
+
+// ---------------------------------------------------------------------------------------
+// 7. Visits for the requested completeness.
+
+export interface VisitSizingInput {
+  semiAmplitudePpm: number;
+  /** Per-visit noise that averages down within a night (photon, sky, read, scintillation), ppm. */
+  whitePpm: number;
+  /** Per-visit systematic floor, correlated within a night, ppm. */
+  floorPpm: number;
+  completeness: number;
+  falseAlarmProbability: number;
+  maxFrequencyPerDay: number;
+  /** The series the periodogram will analyse: nightly means, or single visits (short periods). */
+  series: 'nightlyMeans' | 'visits';
+  baselineDays: number;
+  visitsPerNight: number;
+  nightStepDays: number;
+  /** Most visits that fit in a night. */
+  maxVisitsPerNight: number;
+  /** Longest baseline the sizing may stretch to, days. */
+  maxBaselineDays: number;
+  /** Also compute λ required and, when unreachable, the amplitude limits (a few inversions; default true). */
+  detail?: boolean;
+  /** Thresholds already computed for the same search (key `points:T`), shared between sizings of one plan. */
+  thresholdCache?: Map<string, DetectionThreshold>;
+}
+
+export interface VisitSizing {
+  baselineDays: number;
+  nightStepDays: number;
+  visitsPerNight: number;
+  nights: number;
+  visits: number;
+  threshold: DetectionThreshold;
+  noncentralityRequired: number;
+  noncentrality: number;
+  /** Noise of one value of the analysed series (a nightly mean, or a visit), ppm. */
+  seriesSigmaPpm: number;
+  /** Detection probability the campaign delivers. */
+  completeness: number;
+  /** What set the visits: the cadence alone, more visits per night, a longer baseline, or nothing reaches it. */
+  drivenBy: 'cadence' | 'visitsPerNight' | 'baseline' | 'unreachable';
+  /** Smallest semi-amplitude the completeness reaches with the most visits per night over the longest baseline, ppm (NaN unless `detail`). */
+  amplitudeLimitPpm: number;
+  /** The same with unlimited visits per night: what the floor alone allows, ppm (NaN unless `detail`). */
+  floorAmplitudeLimitPpm: number;
+}
+
+/**
+ * Step 7: the campaign that recovers the period with the requested completeness.
+ * Nightly means carry σ_night² = σ_white²/k + σ_floor² (detection.ts): more visits in a night
+ * stop helping once the floor dominates (k ≈ σ_white²/σ_floor²), then only more nights do.
+ * Remedies when the cadence alone falls short, cheapest in node time first: every night
+ * instead of every s-th, with up to that useful k; then a longer baseline up to
+ * `maxBaselineDays`; then more visits per night up to what fits; beyond that the amplitude is
+ * below what the floor allows and the plan says so. For short periods the series is single
+ * visits (nightly means would average the signal away) and the floor counts per visit.
+ */
+export function sizeVisits(input: VisitSizingInput): VisitSizing {
+  const A = input.semiAmplitudePpm;
+  const w2 = input.whitePpm ** 2;
+  const f2 = input.floorPpm ** 2;
+  const c = input.completeness;
+  const nightly = input.series === 'nightlyMeans';
+  const thresholds = input.thresholdCache ?? new Map<string, DetectionThreshold>();
+  const thresholdFor = (points: number, T: number) => {
+    const key = `${points}:${T}`;
+    let th = thresholds.get(key);
+    if (!th) {
+      th = detectionThreshold(points, T, input.maxFrequencyPerDay, input.falseAlarmProbability);
+      thresholds.set(key, th);
+    }
+    return th;
+  };
+  const evaluate = (T: number, s: number, k: number) => {
+    const n = visitNightCount(T, s);
+    const points = nightly ? n : n * k;
+    const sigma = nightly ? Math.sqrt(w2 / k + f2) : Math.sqrt(w2 + f2);
+    const lam = (points * A * A) / (2 * sigma * sigma);
+    const th = thresholdFor(points, T);
+    return { n, points, sigma, lam, th, pd: detectionProbability(lam, th) };
+  };
+  const ok = (T: number, s: number, k: number) => evaluate(T, s, k).pd >= c;
+  /** Smallest whole k in [lo, hi] with ok, or null (ok is monotone in k). */
+  const smallestK = (T: number, s: number, lo: number, hi: number): number | null => {
+    if (!ok(T, s, hi)) return null;
+    while (hi - lo > 0) {
+      const mid = Math.floor((lo + hi) / 2);
+      if (ok(T, s, mid)) hi = mid;
+      else lo = mid + 1;
+    }
+    return hi;
+  };
+  const T0 = input.baselineDays;
+  const k0 = input.visitsPerNight;
+  const kMax = Math.max(k0, input.maxVisitsPerNight);
+  const kUseful = f2 > 0 ? Math.max(k0, Math.min(kMax, Math.ceil(w2 / f2))) : kMax;
+  const tMax = Math.max(T0, Math.ceil(input.maxBaselineDays));
+  const detail = input.detail ?? true;
+  const result = (T: number, s: number, k: number, drivenBy: VisitSizing['drivenBy']): VisitSizing => {
+    const e = evaluate(T, s, k);
+    if (!detail) {
+      return { baselineDays: T, nightStepDays: s, visitsPerNight: k, nights: e.n, visits: e.n * k, threshold: e.th, noncentralityRequired: Number.NaN,
+        noncentrality: e.lam, seriesSigmaPpm: e.sigma, completeness: e.pd, drivenBy, amplitudeLimitPpm: Number.NaN, floorAmplitudeLimitPpm: Number.NaN };
+    }
+    const limitAt = (sigma: number) => {
+      const nMax = visitNightCount(tMax, 1);
+      const points = nightly ? nMax : nMax * kMax;
+      return Math.sqrt((2 * noncentralityForCompleteness(c, thresholdFor(points, tMax)) * sigma * sigma) / points);
+    };
+    return {
+      baselineDays: T,
+      nightStepDays: s,
+      visitsPerNight: k,
+      nights: e.n,
+      visits: e.n * k,
+      threshold: e.th,
+      noncentralityRequired: drivenBy === 'cadence' ? Number.NaN : noncentralityForCompleteness(c, e.th),
+      noncentrality: e.lam,
+      seriesSigmaPpm: e.sigma,
+      completeness: e.pd,
+      drivenBy,
+      amplitudeLimitPpm: drivenBy === 'unreachable' ? limitAt(nightly ? Math.sqrt(w2 / kMax + f2) : Math.sqrt(w2 + f2)) : Number.NaN,
+      floorAmplitudeLimitPpm: drivenBy === 'unreachable' ? limitAt(Math.sqrt(f2)) : Number.NaN,
+    };
+  };
+  // 1. The cadence as it stands.
+  if (ok(T0, input.nightStepDays, k0)) return result(T0, input.nightStepDays, k0, 'cadence');
+  // 2. Every night, up to the useful visits per night.
+  const kEvery = smallestK(T0, 1, k0, kUseful);
+  if (kEvery !== null) return result(T0, 1, kEvery, 'visitsPerNight');
+  // 3. A longer baseline at the useful visits per night (ok rises with T).
+  if (tMax > T0 && ok(tMax, 1, kUseful)) {
+    let lo = T0;
+    let hi = tMax;
+    while (hi - lo > 1) {
+      const mid = Math.floor((lo + hi) / 2);
+      if (ok(mid, 1, kUseful)) hi = mid;
+      else lo = mid;
+    }
+    return result(hi, 1, smallestK(hi, 1, k0, kUseful) ?? kUseful, 'baseline');
+  }
+  // 4. The longest baseline, more visits per night up to what fits.
+  const kLong = kUseful < kMax ? smallestK(tMax, 1, kUseful + 1, kMax) : null;
+  if (kLong !== null) return result(tMax, 1, kLong, 'visitsPerNight');
+  return result(tMax, 1, kMax, 'unreachable');
+}
