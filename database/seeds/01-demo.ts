@@ -33,13 +33,13 @@ export async function seed(knex: Knex): Promise<void> {
         {
           ...common, code: 'KRG-50', name: 'Kestrel 50', site_id: siteId.KRG, aperture_m: 0.5, obstruction_fraction: 0.4, throughput: 0.55, band: 'V',
           read_noise_e: 9, saturation_e: 80000, pixel_scale_arcsec: 0.8, seeing_fwhm_arcsec: 1.6, systematic_floor_mmag: 1.0,
-          scintillation_model: 'young1967', overhead_seconds: 45, min_exposure_seconds: 2, max_exposure_seconds: 300,
+          scintillation_model: 'osborn2015', overhead_seconds: 45, min_exposure_seconds: 2, max_exposure_seconds: 300,
           altitude_limit_deg: 25, weather_loss_fraction: 0.3, rate_minor_per_hour: 4500,
         },
         {
           ...common, code: 'VHM-40', name: 'Vindelholm 40', site_id: siteId.VHM, aperture_m: 0.4, obstruction_fraction: 0.45, throughput: 0.5, band: 'R',
           read_noise_e: 11, saturation_e: 60000, pixel_scale_arcsec: 1.1, seeing_fwhm_arcsec: 2.2, systematic_floor_mmag: 1.5,
-          scintillation_model: 'young1967', overhead_seconds: 60, min_exposure_seconds: 2, max_exposure_seconds: 240,
+          scintillation_model: 'osborn2015', overhead_seconds: 60, min_exposure_seconds: 2, max_exposure_seconds: 240,
           altitude_limit_deg: 30, weather_loss_fraction: 0.45, rate_minor_per_hour: 3000,
         },
         {

@@ -56,7 +56,10 @@ function lanternMembers(count = 60): TargetValues[] {
       ageMyr: LANTERN.ageMyr,
       ageUncertaintyMyr: LANTERN.ageErrMyr,
       periodPrecisionDays: i % 10 === 4 ? 0.1 : null,
-      notes: i % 15 === 0 ? 'photometric binary candidate' : '',
+      // The reddest member: a fast-rotating M dwarf whose period no relation gives at this age.
+      periodDays: i === count - 1 ? 0.87 : null,
+      periodUncertaintyDays: i === count - 1 ? 0.05 : null,
+      notes: i === count - 1 ? 'fast-rotating M dwarf; expected period from a survey light curve' : i % 15 === 0 ? 'photometric binary candidate' : '',
     };
   });
 }
@@ -71,7 +74,7 @@ const PLANET_HOSTS: TargetValues[] = [
   ['Star F-6', 209.55, 8.2, 11.4, 'G', 1.61, 'BPRP', 3800, 1200, 'K dwarf; flares seen'],
   ['Star F-7', 247.08, -51.3, 8.3, 'V', 0.58, 'BV', 1200, 300, 'young host'],
   ['Star F-8', 284.9, 33.75, 10.8, 'G', 1.35, 'BPRP', 6100, 2000, ''],
-  ['Star F-9', 312.44, -4.02, 12.1, 'G', 2.05, 'BPRP', 2700, 900, 'early M dwarf host'],
+  ['Star F-9', 312.44, -4.02, 12.1, 'G', 2.05, 'BPRP', 2700, 900, 'early M dwarf host; expected period from an earlier season'],
   ['Star F-10', 351.2, -63.7, 9.4, 'V', 0.79, 'BV', 4100, 800, ''],
 ].map(([name, raDeg, decDeg, magnitude, band, colour, system, ageMyr, ageErr, notes]) => ({
   name: name as string,
@@ -86,6 +89,9 @@ const PLANET_HOSTS: TargetValues[] = [
   ageMyr: ageMyr as number,
   ageUncertaintyMyr: ageErr as number,
   periodPrecisionDays: null,
+  // The early M dwarf host: an expected period of its own (from an earlier season), used instead of the relation's.
+  periodDays: name === 'Star F-9' ? 41.5 : null,
+  periodUncertaintyDays: name === 'Star F-9' ? 4 : null,
   notes: notes as string,
 }));
 
@@ -101,6 +107,8 @@ const YOUNG_K_DWARFS: TargetValues[] = [0, 1, 2, 3].map((i) => ({
   ageMyr: 120,
   ageUncertaintyMyr: 30,
   periodPrecisionDays: null,
+  periodDays: null,
+  periodUncertaintyDays: null,
   notes: '',
 }));
 
@@ -116,6 +124,8 @@ const WIDE_BINARIES: TargetValues[] = [0, 1, 2, 3, 4].map((i) => ({
   ageMyr: 2200,
   ageUncertaintyMyr: 600,
   periodPrecisionDays: i === 0 ? 0.5 : null,
+  periodDays: null,
+  periodUncertaintyDays: null,
   notes: 'common proper-motion pair',
 }));
 
@@ -164,9 +174,11 @@ async function seedProposals(knex: Knex): Promise<void> {
     nodes: string[];
     targets: TargetValues[];
     coInvestigators?: { id: number; email: string }[];
+    /** Default 0.9 (the column's default). */
+    completeness?: number;
   }): Promise<number> => {
     const [{ id }] = await knex('proposals')
-      .insert({ cycle_id: cycle.id, pi_account_id: input.pi.id, title: input.title, abstract: input.abstract, category: input.category })
+      .insert({ cycle_id: cycle.id, pi_account_id: input.pi.id, title: input.title, abstract: input.abstract, category: input.category, completeness: input.completeness })
       .returning('id');
     await insertPiMember(knex, id, input.pi);
     for (const c of input.coInvestigators ?? []) {
@@ -232,6 +244,8 @@ async function seedProposals(knex: Knex): Promise<void> {
     category: 'Methods and calibration',
     nodes: ['KRG-50'],
     targets: YOUNG_K_DWARFS,
+    // A pilot: fewer visits, at a lower chance of recovering each period.
+    completeness: 0.8,
   });
 
   await createProposal({

@@ -1,7 +1,8 @@
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { seededRandom } from '../science/seeded-random';
 import { runCli } from './run-cli';
 
 /** Runs the CLI in-process and captures its output. */
@@ -13,6 +14,26 @@ async function cli(...argv: string[]) {
 }
 
 const BIN = join(__dirname, '..', '..', 'bin', 'spincycle.mjs');
+const REPO = join(__dirname, '..', '..', '..');
+
+/** Splits a documented command line into arguments (double quotes group words). */
+function shellWords(line: string): string[] {
+  return [...line.matchAll(/"([^"]*)"|(\S+)/g)].map((m) => m[1] ?? m[2]);
+}
+
+/**
+ * The `console` blocks of a Markdown file whose command (after `$ `) starts with `prefix`:
+ * the CLI arguments after `prefix` and the documented output (the block's other lines).
+ */
+function documentedExamples(file: string, prefix: string): { argv: string[]; output: string }[] {
+  const text = readFileSync(join(REPO, file), 'utf8');
+  const out: { argv: string[]; output: string }[] = [];
+  for (const block of text.matchAll(/```console\n([\s\S]*?)```/g)) {
+    const [first, ...rest] = block[1].split('\n');
+    if (first.startsWith(`$ ${prefix}`)) out.push({ argv: shellWords(first.slice(2 + prefix.length)), output: rest.join('\n') });
+  }
+  return out;
+}
 
 describe('spincycle CLI', () => {
   let dir = '';
@@ -59,6 +80,19 @@ describe('spincycle CLI', () => {
       expect(r.stdout).toBe('');
     });
 
+    it('prints periodDays null with the reason when the relation has none (age above the age of the universe, Planck Collaboration 2020), exit 0', async () => {
+      const r = await cli('period', '--bv', '0.642', '--age', '15000', '--relation', 'barnes2007');
+      expect(r.code).toBe(0);
+      expect(r.json.periodDays).toBeNull();
+      expect(r.json.reason).toMatch(/15000 Myr exceeds the age of the universe/);
+      expect(r.json.noResult.code).toBe('ageBeyondUniverse');
+      expect(r.json.rangeDays).toBeUndefined();
+      expect(r.json.flags.find((f: { code: string }) => f.code === 'noExpectedPeriod').severity).toBe('blocking');
+      const ok = await cli('period', '--bv', '0.642', '--age', '13000', '--relation', 'barnes2007');
+      expect(typeof ok.json.periodDays).toBe('number');
+      expect(ok.json.noResult).toBeNull();
+    });
+
     it('reports a missing option and an unknown option as usage errors, exit 2', async () => {
       expect((await cli('period', '--bv', '0.642')).stderr).toMatch(/^error: missing --age/);
       const r = await cli('period', '--bv', '0.642', '--age', '100', '--colour', 'red');
@@ -73,6 +107,17 @@ describe('spincycle CLI', () => {
       expect(r.code).toBe(0);
       expect(r.json.ageMyr).toBeCloseTo(4565, 0);
       expect(r.json.fractionalUncertainty).toBeCloseTo(0.168, 3);
+    });
+
+    it('prints ageMyr null with the reason for a period below the slow sequence (Ro ≤ 0.1, Wright et al. 2011), exit 0', async () => {
+      const r = await cli('age', '--bv', '0.884', '--period', '1.5');
+      expect(r.code).toBe(0);
+      expect(r.json.ageMyr).toBeNull();
+      expect(r.json.reason).toMatch(/period 1.5 d gives Ro 0.069/);
+      expect(r.json.rangeMyr).toBeUndefined();
+      expect(r.json.fractionalUncertainty).toBeUndefined();
+      const ok = await cli('age', '--bv', '0.884', '--period', '5');
+      expect(typeof ok.json.ageMyr).toBe('number');
     });
 
     it('rejects a colour outside all relations, exit 2', async () => {
@@ -98,6 +143,58 @@ describe('spincycle CLI', () => {
       const r = await cli('plan', '--bv', '0.9', '--age', '2000', '--mag', '12', '--node', nodeFile);
       expect(r.code).toBe(0);
       expect(r.json).toMatchObject({ nodeBand: 'R', currency: 'usd', relation: 'barnes2007' });
+    });
+
+    // docs/command-line.md, section "`plan`", the `--summary` example: its output is pasted
+    // whole, so the documented numbers (quantities, analysis, flags) must be today's.
+    it('prints exactly the --summary example of docs/command-line.md', async () => {
+      const [example] = documentedExamples('docs/command-line.md', 'spincycle ').filter((e) => e.argv[0] === 'plan' && e.argv.includes('--summary'));
+      expect(example.argv).toEqual(expect.arrayContaining(['plan', '--summary']));
+      const r = await cli(...example.argv);
+      expect(r.code).toBe(0);
+      const documented = JSON.parse(example.output);
+      expect(documented.quantities).toEqual(r.json.quantities);
+      expect(documented.analysis).toEqual(r.json.analysis);
+      expect(documented).toEqual(r.json);
+      for (const key of ['completeness', 'visitsForCompleteness50', 'visitsForCompleteness90', 'visitsForCompleteness99', 'searchMinFrequencyPerDay', 'searchMaxFrequencyPerDay']) {
+        expect(typeof documented.quantities[key]).toBe('string');
+      }
+    });
+
+    // README.md, section "Command line": the plan example is trimmed with …; every
+    // "quantity": "value" pair it shows must be today's.
+    it('prints the numbers of the README plan example', async () => {
+      const [example] = documentedExamples('README.md', 'npm run -s cli -- ').filter((e) => e.argv[0] === 'plan');
+      const r = await cli(...example.argv);
+      expect(r.code).toBe(0);
+      const shown = [...example.output.matchAll(/"(\w+)": "([^"]*)"/g)].filter(([, key]) => key in r.json.quantities);
+      expect(shown.length).toBeGreaterThanOrEqual(8);
+      for (const [, key, value] of shown) expect(`${key}: ${r.json.quantities[key]}`).toBe(`${key}: ${value}`);
+      expect(example.output).toContain(`"feasible": ${r.json.feasible}`);
+      // The analysis band, shown to three significant figures.
+      const analysis = /"analysis": (\{[^}]*\})/.exec(example.output);
+      expect(analysis).not.toBeNull();
+      const shownAnalysis = JSON.parse((analysis as RegExpExecArray)[1]);
+      expect(shownAnalysis).toEqual({
+        series: r.json.analysis.series,
+        minFrequencyPerDay: Number(r.json.analysis.minFrequencyPerDay.toPrecision(3)),
+        maxFrequencyPerDay: Number(r.json.analysis.maxFrequencyPerDay.toPrecision(3)),
+        falseAlarmProbability: r.json.analysis.falseAlarmProbability,
+      });
+    });
+
+    it('summarises completeness, the visits for 50/90/99 % and the analysis band', async () => {
+      const r = await cli('plan', '--bprp', '1.1', '--age', '800', '--mag', '11.5', '--band', 'G', '--completeness', '0.5', '--summary');
+      expect(r.code).toBe(0);
+      expect(r.json.quantities.requestedCompleteness).toBe('0.5');
+      for (const key of ['completeness', 'visitsForCompleteness50', 'visitsForCompleteness90', 'visitsForCompleteness99']) expect(r.json.quantities[key]).toMatch(/^\d/);
+      expect(r.json.analysis).toEqual({
+        series: expect.stringMatching(/^(nightlyMeans|visits)$/),
+        minFrequencyPerDay: expect.any(Number),
+        maxFrequencyPerDay: expect.any(Number),
+        falseAlarmProbability: 0.01,
+      });
+      expect(r.json.precision).toBeUndefined();
     });
 
     it('names the node field of a bad node file, exit 2', async () => {
@@ -139,6 +236,109 @@ describe('spincycle CLI', () => {
       writeFileSync(file, '1,10\n2,11\n3,x\n4,12\n');
       const r = await cli('periodogram', file);
       expect(r.stderr).toMatch(/^error: series\[2\]\.value: line 3: "x" is not a number/);
+    });
+  });
+
+  describe('periodogram --plan', () => {
+    const PERIOD = 9.3;
+    /** 3 visits a night on 50 nights, relative flux: a 4000-ppm sinusoid (or none), 3000 ppm white noise, 800 ppm per night. */
+    function campaignCsv(name: string, seed: number, semiAmplitude: number, withErrors = true): string {
+      const rng = seededRandom(seed);
+      const rows = [withErrors ? 'mjd,flux,err' : 'mjd,flux'];
+      for (let night = 0; night < 50; night++) {
+        const offset = rng.normal(0, 8e-4);
+        for (let j = 0; j < 3; j++) {
+          const t = 61000 + night + (j - 1) * 0.08 + rng.uniform(-0.02, 0.02);
+          const y = 1 + semiAmplitude * Math.sin((2 * Math.PI * t) / PERIOD) + offset + rng.normal(0, 3e-3);
+          rows.push(withErrors ? `${t.toFixed(5)},${y.toFixed(6)},0.003` : `${t.toFixed(5)},${y.toFixed(6)}`);
+        }
+      }
+      const file = join(dir, name);
+      writeFileSync(file, rows.join('\n'));
+      return file;
+    }
+    let planFile = '';
+    let analysis: { series: string; minFrequencyPerDay: number; maxFrequencyPerDay: number; falseAlarmProbability: number };
+    beforeAll(async () => {
+      const r = await cli('plan', '--bprp', '1.0', '--age', '600', '--age-error', '80', '--mag', '11', '--summary');
+      expect(r.code).toBe(0);
+      analysis = r.json.analysis;
+      planFile = join(dir, 'plan.json');
+      writeFileSync(planFile, r.stdout);
+    });
+
+    it('searches the plan\'s band on nightly means and says whether the peak clears the plan\'s false-alarm level', async () => {
+      expect(analysis.minFrequencyPerDay).toBeLessThan(1 / PERIOD);
+      expect(analysis.maxFrequencyPerDay).toBeGreaterThan(1 / PERIOD);
+      const r = await cli('periodogram', campaignCsv('signal.csv', 7, 4e-3), '--plan', planFile, '--kind', 'flux');
+      expect(r.code).toBe(0);
+      expect(r.json.search).toEqual({ minFrequencyPerDay: analysis.minFrequencyPerDay, maxFrequencyPerDay: analysis.maxFrequencyPerDay, from: 'plan' });
+      expect(r.json.grid.maxFrequencyPerDay).toBeCloseTo(analysis.maxFrequencyPerDay, 12);
+      expect(r.json.series).toEqual({ analysed: analysis.series, from: 'plan', points: 150, nights: 50, nightSigma: 'errors' });
+      expect(r.json.pointCount).toBe(analysis.series === 'nightlyMeans' ? 50 : 150);
+      expect(r.json.best.periodDays).toBeCloseTo(PERIOD, 0);
+      expect(r.json.detection).toEqual({
+        falseAlarmProbabilityLevel: analysis.falseAlarmProbability,
+        from: 'plan',
+        bestFalseAlarmProbability: r.json.best.falseAlarmProbability,
+        detected: true,
+      });
+      expect(r.json.notes).toBeUndefined();
+    });
+
+    it('does not claim a detection in pure noise', async () => {
+      const r = await cli('periodogram', campaignCsv('noise.csv', 11, 0), '--plan', planFile, '--kind', 'flux');
+      expect(r.code).toBe(0);
+      expect(r.json.detection.detected).toBe(false);
+      expect(r.json.best.falseAlarmProbability).toBeGreaterThan(analysis.falseAlarmProbability);
+    });
+
+    it('lets --fmin/--fmax override the plan\'s band, with a note', async () => {
+      const r = await cli('periodogram', campaignCsv('signal2.csv', 7, 4e-3), '--plan', planFile, '--fmax', '2', '--kind', 'flux');
+      expect(r.code).toBe(0);
+      expect(r.json.search.from).toBe('options');
+      expect(r.json.search.minFrequencyPerDay).toBe(analysis.minFrequencyPerDay);
+      expect(r.json.search.maxFrequencyPerDay).toBeCloseTo(2, 2);
+      expect(r.json.notes).toEqual([expect.stringMatching(/^--fmax overrides the plan's band .* only comparable over the same band$/)]);
+      // The wider band makes the same peak less significant.
+      const inBand = await cli('periodogram', join(dir, 'signal2.csv'), '--plan', planFile, '--kind', 'flux');
+      expect(r.json.best.falseAlarmProbability).toBeGreaterThan(inBand.json.best.falseAlarmProbability);
+    });
+
+    it('reports the default band when there is no plan, and --nightly-means from the scatter', async () => {
+      const file = campaignCsv('noerr.csv', 3, 4e-3, false);
+      const r = await cli('periodogram', file, '--kind', 'flux', '--top', '1');
+      expect(r.json.search).toEqual({ minFrequencyPerDay: r.json.grid.minFrequencyPerDay, maxFrequencyPerDay: r.json.grid.maxFrequencyPerDay, from: 'default' });
+      expect(r.json.search.minFrequencyPerDay).toBeCloseTo(r.json.grid.stepPerDay / 2, 15);
+      expect(r.json.search.maxFrequencyPerDay).toBeCloseTo((5 * 150) / (2 * r.json.baselineDays), 1);
+      expect(r.json.series).toEqual({ analysed: 'visits', from: 'default', points: 150 });
+      expect(r.json.detection).toBeUndefined();
+      const n = await cli('periodogram', file, '--kind', 'flux', '--nightly-means', '--fmax', '0.4', '--fap', '0.001');
+      expect(n.json.series).toMatchObject({ analysed: 'nightlyMeans', from: 'options', nights: 50, nightSigma: 'scatter' });
+      expect(n.json.series.withinNightRms).toBeCloseTo(3e-3, 3);
+      expect(n.json.search.from).toBe('options');
+      expect(n.json.detection).toMatchObject({ falseAlarmProbabilityLevel: 0.001, from: 'options', detected: true });
+    });
+
+    it('names the plan field or option that is wrong, exit 2', async () => {
+      const file = campaignCsv('e.csv', 5, 4e-3);
+      const noAnalysis = join(dir, 'no-analysis.json');
+      writeFileSync(noAnalysis, JSON.stringify({ quantities: {} }));
+      let r = await cli('periodogram', file, '--plan', noAnalysis);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toMatch(/^error: plan\.analysis: .*has no "analysis" object/);
+      const badBand = join(dir, 'bad-band.json');
+      writeFileSync(badBand, JSON.stringify({ analysis: { ...analysis, maxFrequencyPerDay: 0 } }));
+      r = await cli('periodogram', file, '--plan', badBand);
+      expect(r.stderr).toMatch(/^error: plan\.analysis\.maxFrequencyPerDay: must be a frequency above minFrequencyPerDay/);
+      r = await cli('periodogram', file, '--plan', join(dir, 'missing.json'));
+      expect(r.stderr).toMatch(/^error: plan: cannot read .*missing\.json: ENOENT/);
+      r = await cli('periodogram', file, '--fap', '2');
+      expect(r.code).toBe(2);
+      expect(r.stderr).toBe('error: falseAlarmProbability: must be within (0, 1) (got 2)\n');
+      r = await cli('periodogram', file, '--nightly-means', '--single-visits');
+      expect(r.code).toBe(2);
+      expect(r.stderr).toMatch(/^error: give either --nightly-means or --single-visits/);
     });
   });
 

@@ -68,3 +68,75 @@ export function parseLightCurveCsv(text: string): CsvLightCurve {
     columns: { time: name(ti, 'column 1') as string, value: name(vi, 'column 2') as string, error: name(ei, 'column 3') },
   };
 }
+
+/** A light curve averaged per night, and how the nights were formed. */
+export interface NightlyMeansCurve extends LightCurve {
+  /** Points read, nights formed. */
+  pointCount: number;
+  nightCount: number;
+  /** Where σ_night comes from. */
+  sigma: 'errors' | 'scatter' | 'none';
+  /** Pooled within-night rms of single points when σ_night comes from the scatter, else null. */
+  withinNightRms: number | null;
+}
+
+/**
+ * Averages the points of each night: night = floor(t + 0.5) with t in days (for MJD the
+ * nights then split at 12:00 UTC; JD splits at 0:00 UTC, so convert JD to MJD first).
+ * Each night gives one point: the plain mean of its times and of its values (every visit
+ * counts equally, as the plan assumes) and σ_night:
+ * - with errors: sqrt(Σσᵢ²)/k, the error of the mean of k points;
+ * - without: s/sqrt(k), s the pooled within-night rms (pooled variance over the nights with
+ *   two or more points, Σ(k − 1) degrees of freedom); when no night has two points, no
+ *   uncertainties (every night weighs the same).
+ * Neither sees noise that is correlated within a night (a systematic floor): σ_night is then
+ * too small, but the same for every night of k points, so only the weights between nights of
+ * different k are affected.
+ */
+export function nightlyMeans(lc: LightCurve): NightlyMeansCurve {
+  const n = lc.timeDays.length;
+  const nights = new Map<number, number[]>();
+  for (let i = 0; i < n; i++) {
+    const night = Math.floor(lc.timeDays[i] + 0.5);
+    const list = nights.get(night);
+    if (list) list.push(i);
+    else nights.set(night, [i]);
+  }
+  const keys = [...nights.keys()].sort((a, b) => a - b);
+  const errors = lc.uncertainties;
+  const t: number[] = [];
+  const y: number[] = [];
+  const e: number[] = [];
+  let pooledSs = 0;
+  let pooledDof = 0;
+  const sizes: number[] = [];
+  for (const key of keys) {
+    const idx = nights.get(key) as number[];
+    const k = idx.length;
+    let st = 0;
+    let sy = 0;
+    let se2 = 0;
+    for (const i of idx) {
+      st += lc.timeDays[i];
+      sy += lc.values[i];
+      if (errors) se2 += errors[i] ** 2;
+    }
+    const mean = sy / k;
+    for (const i of idx) pooledSs += (lc.values[i] - mean) ** 2;
+    pooledDof += k - 1;
+    t.push(st / k);
+    y.push(mean);
+    sizes.push(k);
+    if (errors) e.push(Math.sqrt(se2) / k);
+  }
+  let sigma: NightlyMeansCurve['sigma'] = errors ? 'errors' : 'none';
+  let withinNightRms: number | null = null;
+  let uncertainties: number[] | undefined = errors ? e : undefined;
+  if (!errors && pooledDof > 0 && pooledSs > 0) {
+    const s = Math.sqrt(pooledSs / pooledDof);
+    sigma = 'scatter';
+    withinNightRms = s;
+    uncertainties = sizes.map((k) => s / Math.sqrt(k));
+  }
+  return { timeDays: t, values: y, uncertainties, pointCount: n, nightCount: keys.length, sigma, withinNightRms };
+}

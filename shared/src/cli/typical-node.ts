@@ -16,7 +16,7 @@ export const TYPICAL_NODE: NodeSpec = {
   pixelScaleArcsec: 0.75,
   seeingFwhmArcsec: 2,
   systematicFloorMmag: 1,
-  scintillationModel: 'young1967',
+  scintillationModel: 'osborn2015',
   overheadSeconds: 45,
   minExposureSeconds: 2,
   maxExposureSeconds: 300,

@@ -33,6 +33,8 @@ export interface TargetPlanRow {
   perVisitPrecisionPpm: number;
   exposureSeconds: number;
   visits: number;
+  /** Probability that the plan recovers the period (0–1); null for plans stored before it was part of the row. */
+  completeness: number | null;
   visitsPerNight: number;
   cadenceDays: number;
   baselineDays: number;
@@ -58,6 +60,7 @@ export const PLAN_TABLE_QUANTITIES = [
   'exposureSeconds',
   'exposuresPerVisit',
   'visits',
+  'completeness',
   'visitsPerNight',
   'sampleIntervalDays',
   'nightStepDays',

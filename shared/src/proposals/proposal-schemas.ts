@@ -12,6 +12,22 @@ export const createProposalSchema = z.object({
 });
 export type CreateProposalInput = z.infer<typeof createProposalSchema>;
 
+/** Default probability that a target plan recovers the period (a new proposal's completeness). */
+export const DEFAULT_COMPLETENESS = 0.9;
+/** Range of a proposal's completeness (the plans' probability of recovering each period). */
+export const COMPLETENESS_RANGE = { min: 0.5, max: 0.99 } as const;
+
+const completenessMessage = 'completeness must be between 50 % and 99 %';
+
+/**
+ * Completeness of a proposal's plans: the probability (0.5–0.99) that each plan recovers the
+ * period; higher costs more visits. The API carries the fraction, the form shows percent.
+ */
+export const completenessSchema = z
+  .number({ message: completenessMessage })
+  .min(COMPLETENESS_RANGE.min, { message: completenessMessage })
+  .max(COMPLETENESS_RANGE.max, { message: completenessMessage });
+
 /**
  * PATCH /api/proposals/:id (autosave). `version` is the one the editor last read: a
  * different current version means someone else saved in between → 409 `version_conflict`.
@@ -22,6 +38,8 @@ export const updateProposalSchema = z.object({
   abstract: z.string().max(ABSTRACT_MAX_LENGTH, { message: `at most ${ABSTRACT_MAX_LENGTH} characters` }).optional(),
   category: z.string().trim().max(80).nullable().optional(),
   nodeIds: z.array(z.number().int().positive()).max(20).optional(),
+  /** Probability that each plan recovers the period (0.5–0.99); changing it queues the plans again. */
+  completeness: completenessSchema.optional(),
 });
 export type UpdateProposalInput = z.infer<typeof updateProposalSchema>;
 
@@ -81,6 +99,8 @@ export interface Proposal {
   state: ProposalState;
   version: number;
   nodeIds: number[];
+  /** Probability (0.5–0.99) that each target plan recovers the period; default 0.9. */
+  completeness: number;
   team: ProposalMember[];
   justification: JustificationFile | null;
   targetCount: number;

@@ -23,7 +23,18 @@ export const targetInputSchema = z.object({
   ageMyr: finite('age').pipe(z.number().gt(0, { message: 'age must be positive' }).max(14000, { message: 'age must be at most 14000 Myr' })),
   ageUncertaintyMyr: finite('age uncertainty').pipe(z.number().min(0, { message: 'age uncertainty must not be negative' })).nullable().default(null),
   periodPrecisionDays: finite('period precision').pipe(z.number().gt(0, { message: 'period precision must be positive' })).nullable().default(null),
+  /**
+   * Expected rotation period, days, given by the proposer for a star without an expected
+   * period from a gyrochronology relation (fast rotators, colours beyond a relation's range,
+   * ages above the age of the universe); when given, the plan uses it instead of the relation's.
+   */
+  periodDays: finite('period').pipe(z.number().min(0.05, { message: 'period must be within 0.05…1000 d' }).max(1000, { message: 'period must be within 0.05…1000 d' })).nullable().default(null),
+  /** 1σ uncertainty of `periodDays`, days; only with a period. */
+  periodUncertaintyDays: finite('period uncertainty').pipe(z.number().min(0, { message: 'period uncertainty must not be negative' })).nullable().default(null),
   notes: z.string().max(500, { message: 'notes: at most 500 characters' }).default(''),
+}).refine((t) => t.periodUncertaintyDays === null || t.periodDays !== null, {
+  message: 'period uncertainty needs a period',
+  path: ['periodUncertaintyDays'],
 });
 export type TargetInput = z.input<typeof targetInputSchema>;
 export type TargetValues = z.output<typeof targetInputSchema>;
@@ -39,8 +50,8 @@ export interface TargetRow extends TargetValues {
 }
 
 /**
- * Columns of the target-list CSV, in order (header names are case-insensitive; the first
- * five are required). `ra` accepts degrees, `12.5h` or sexagesimal hours (`12:30:00`); `dec`
+ * Columns of the target-list CSV, in order (header names are case-insensitive; `name`, `ra`,
+ * `dec`, `magnitude`, `band`, `colour`, `colour_system` and `age_myr` are required). `ra` accepts degrees, `12.5h` or sexagesimal hours (`12:30:00`); `dec`
  * degrees or sexagesimal degrees (`-05:20:30`).
  */
 export const TARGET_CSV_COLUMNS = [
@@ -55,8 +66,24 @@ export const TARGET_CSV_COLUMNS = [
   { name: 'age_myr', required: true, help: 'age, Myr' },
   { name: 'age_err_myr', required: false, help: '1σ age uncertainty, Myr' },
   { name: 'period_precision_d', required: false, help: 'requested 1σ period precision, days' },
+  {
+    name: 'period',
+    required: false,
+    help: 'expected rotation period, days (also read as period_d): only for stars without an expected period from their colour and age (fast rotators, M dwarfs beyond the relations)',
+  },
+  { name: 'period_error', required: false, help: '1σ uncertainty of the expected period, days (also read as period_err_d); needs a period' },
   { name: 'notes', required: false, help: 'free text' },
 ] as const;
+
+/**
+ * Other header names read as a column of TARGET_CSV_COLUMNS (after lower-casing and turning
+ * spaces and hyphens into underscores): the unit-suffixed spelling of the other columns.
+ */
+export const TARGET_CSV_HEADER_ALIASES: Readonly<Record<string, (typeof TARGET_CSV_COLUMNS)[number]['name']>> = {
+  period_d: 'period',
+  period_err_d: 'period_error',
+  period_error_d: 'period_error',
+};
 
 /**
  * One problem of an uploaded list: row 1 is the first data row after the header; row 0 is the

@@ -310,7 +310,7 @@ export function computeTargetPlan(
   );
   for (const f of period.flags) {
     if (f.code === 'noExpectedPeriod' && f.severity === 'blocking') {
-      flags.push(flag('noExpectedPeriod', 'blocking', `no expected period: ${f.message}. Give the star's expected period to plan it`, f.source));
+      flags.push(flag('noExpectedPeriod', 'blocking', `${f.message.replace(/\.$/, '')}: give the star's expected period to plan it`, f.source));
     } else flags.push(f);
   }
   const prediction = period.prediction;

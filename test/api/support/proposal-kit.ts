@@ -103,18 +103,23 @@ export function target(overrides: Partial<TargetInput> = {}): TargetInput {
     ageMyr: 650,
     ageUncertaintyMyr: 60,
     periodPrecisionDays: null,
+    periodDays: null,
+    periodUncertaintyDays: null,
     notes: '',
     ...overrides,
   };
 }
 
 /** The CSV header of the target list. */
-export const CSV_HEADER = 'name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,notes';
+export const CSV_HEADER = 'name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,period,period_error,notes';
 
 /** A valid CSV data line. */
-export function csvLine(name: string, overrides: Partial<Record<'ra' | 'dec' | 'magnitude' | 'band' | 'colour' | 'colour_system' | 'age', string>> = {}): string {
-  const o = { ra: '163.2', dec: '31.6', magnitude: '12.1', band: 'V', colour: '1.1', colour_system: 'BPRP', age: '650', ...overrides };
-  return `${name},${o.ra},${o.dec},${o.magnitude},${o.band},${o.colour},${o.colour_system},,${o.age},60,,`;
+export function csvLine(
+  name: string,
+  overrides: Partial<Record<'ra' | 'dec' | 'magnitude' | 'band' | 'colour' | 'colour_system' | 'age' | 'period' | 'period_error', string>> = {},
+): string {
+  const o = { ra: '163.2', dec: '31.6', magnitude: '12.1', band: 'V', colour: '1.1', colour_system: 'BPRP', age: '650', period: '', period_error: '', ...overrides };
+  return `${name},${o.ra},${o.dec},${o.magnitude},${o.band},${o.colour},${o.colour_system},,${o.age},60,,${o.period},${o.period_error},`;
 }
 
 /** A multipart upload of one file, with the CSRF header like the client sends it. */

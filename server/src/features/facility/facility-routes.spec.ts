@@ -48,6 +48,27 @@ describe('facility read routes', () => {
     });
   });
 
+  it('a node stored without a scintillation model gets Osborn et al. (2015), the default', async () => {
+    const db = h.created.ctx.db;
+    const [{ id }] = await db('nodes')
+      .insert({
+        code: `${tag}D`, name: 'Test default', site_id: siteId, aperture_m: 0.3, obstruction_fraction: 0.4, throughput: 0.5, band: 'R', read_noise_e: 10,
+        dark_current_e_per_s: 0.02, gain_e_per_adu: 1.2, saturation_e: 60000, pixel_scale_arcsec: 1, seeing_fwhm_arcsec: 2, systematic_floor_mmag: 1,
+        overhead_seconds: 60, min_exposure_seconds: 1, max_exposure_seconds: 300, altitude_limit_deg: 30, weather_loss_fraction: 0.3,
+        rate_minor_per_hour: 2000, currency: 'eur',
+      })
+      .returning('id');
+    try {
+      const { browser } = await signedIn(h);
+      const node = (await browser.get('/api/nodes')).body.find((n: { id: number }) => n.id === id);
+      expect(node).toMatchObject({ code: `${tag}D`, scintillationModel: 'osborn2015' });
+      // The uncorrected Young (1967) formula stays allowed (the node above uses it); others are refused.
+      await expect(db('nodes').where({ id }).update({ scintillation_model: 'kolmogorov' })).rejects.toThrow(/nodes_scintillation_check/);
+    } finally {
+      await db('nodes').where({ id }).del();
+    }
+  });
+
   it('GET /api/cycles returns the call status and the node capacity', async () => {
     const { browser } = await signedIn(h);
     const res = await browser.get('/api/cycles');

@@ -20,15 +20,18 @@ const south: TelescopeNode = {
 };
 const target = (id: number, name: string, decDeg: number): StoredTarget => ({
   id, position: id, version: 1, name, raDeg: 90, decDeg, magnitude: 12, magnitudeBand: 'V', colour: 1.0, colourSystem: 'BPRP',
-  reddeningEbv: null, ageMyr: 500, ageUncertaintyMyr: 50, periodPrecisionDays: null, notes: '', updatedAt: '2030-01-01T00:00:00Z',
+  reddeningEbv: null, ageMyr: 500, ageUncertaintyMyr: 50, periodPrecisionDays: null, periodDays: null, periodUncertaintyDays: null, notes: '',
+  updatedAt: '2030-01-01T00:00:00Z',
 });
+const campaign = { firstNight: '2030-11-01', lastNight: '2031-02-28' };
 
 describe('computePlanRows', () => {
   it('names the requested node where an infeasible target works, and says so when none does', async () => {
     const inputs: PlanInputs = {
-      campaign: { firstNight: '2030-11-01', lastNight: '2031-02-28' },
+      campaign,
       nodes: [north, south],
       targets: [target(1, 'Star S-75', -75), target(2, 'Star N+85', 85), { ...target(3, 'Star B-1', 0), magnitude: 2.5 }],
+      completeness: 0.9,
     };
     const progress: number[] = [];
     const rows = await computePlanRows(inputs, (done) => void progress.push(done));
@@ -46,5 +49,29 @@ describe('computePlanRows', () => {
       expect(row(3, n).feasible).toBe(false);
       expect(row(3, n).suggestions.find((s) => s.kind === 'other_node')?.message).toMatch(/^None of the requested nodes/);
     }
+  });
+
+  it('passes the proposer’s expected period to the plan, where it replaces the relation’s', async () => {
+    const mDwarf = { ...target(4, 'Star M-9', 20), colour: 3.0, magnitude: 13 };
+    const withPeriod = { ...mDwarf, id: 5, name: 'Star M-10', periodDays: 0.8, periodUncertaintyDays: 0.05 };
+    const rows = await computePlanRows({ campaign, nodes: [north], targets: [mDwarf, withPeriod], completeness: 0.9 });
+    const fromRelation = rows.find((r) => r.targetId === 4)!.result!;
+    const given = rows.find((r) => r.targetId === 5)!.result!;
+    expect(fromRelation.periodDays).not.toBeCloseTo(0.8, 2);
+    expect(given.periodDays).toBeCloseTo(0.8, 6);
+    // The plausible range around the given period comes from its uncertainty, not the relation's.
+    expect(given.shortestPeriodDays).toBeLessThan(0.8);
+    expect(given.longestPeriodDays).toBeGreaterThan(0.8);
+    expect(given.longestPeriodDays).toBeLessThan(1);
+  });
+
+  it('passes the proposal’s completeness to every plan: a higher completeness needs at least as many visits', async () => {
+    const targets = [target(7, 'Star C-1', 20), { ...target(8, 'Star C-2', 20), colour: 2.0, magnitude: 14 }];
+    const visits = async (completeness: number) =>
+      (await computePlanRows({ campaign, nodes: [north], targets, completeness })).map((r) => r.result!.visits);
+    const low = await visits(0.6);
+    const high = await visits(0.99);
+    for (let i = 0; i < targets.length; i++) expect(high[i]).toBeGreaterThanOrEqual(low[i]);
+    expect(high.some((v, i) => v > low[i])).toBe(true);
   });
 });

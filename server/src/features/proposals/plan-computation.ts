@@ -1,9 +1,9 @@
 import type { TelescopeNode } from '@spincycle/shared/facility/facility-types';
-import { combinePlanWithSky, type NodeTargetPlan } from '@spincycle/shared/planning/node-target-plan';
+import { computeNodeTargetPlan, type NodeTargetPlan } from '@spincycle/shared/planning/node-target-plan';
 import { PLAN_TABLE_QUANTITIES } from '@spincycle/shared/proposals/plan-types';
 import type { Explained } from '@spincycle/shared/science/explained';
 import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
-import { computeTargetPlan, type TargetPlanTarget } from '@spincycle/shared/science/target-plan';
+import type { TargetPlanTarget } from '@spincycle/shared/science/target-plan';
 import { computeSkyWindows, SkyInputError, skyLimitsForNode, type SkyWindowsResult, type TargetWindows } from '@spincycle/shared/sky/index';
 import type { PlanRowInsert, StoredPlanResult } from './plan-repository';
 import type { PlanInputs } from './plan-inputs';
@@ -19,6 +19,9 @@ export function toPlanTarget(t: StoredTarget): TargetPlanTarget {
     ageUncertaintyMyr: t.ageUncertaintyMyr ?? undefined,
     magnitude: { value: t.magnitude, band: t.magnitudeBand },
     periodPrecisionDays: t.periodPrecisionDays ?? undefined,
+    // The proposer's expected period, for stars no relation gives one; replaces the relation's.
+    periodDays: t.periodDays ?? undefined,
+    periodUncertaintyDays: t.periodUncertaintyDays ?? undefined,
   };
 }
 
@@ -49,6 +52,7 @@ function toPlanResult(combined: NodeTargetPlan, windows: TargetWindows): StoredP
     perVisitPrecisionPpm: q.perVisitPrecisionPpm.value,
     exposureSeconds: q.exposureSeconds.value,
     visits: q.visits.value,
+    completeness: q.completeness.value,
     visitsPerNight: q.visitsPerNight.value,
     // Nights between visit nights as the plan schedules them (1 = every night).
     cadenceDays: q.nightStepDays.value,
@@ -73,12 +77,12 @@ const isInputError = (err: unknown): err is { field: string; reason: string } =>
 
 /**
  * Every plan of the inputs: per node one sky-window computation for all targets, then per
- * target and node the science plan combined with its window. A target whose input the science
+ * target and node the plan against its windows, at the proposal's completeness. A target whose input the science
  * core refuses becomes an error row (the job itself succeeds). `onTargetDone` is called after
  * each target with the count so far (for progress).
  */
 export async function computePlanRows(inputs: PlanInputs, onTargetDone?: (done: number) => Promise<void> | void): Promise<PlanRowInsert[]> {
-  const { nodes, targets, campaign } = inputs;
+  const { nodes, targets, campaign, completeness } = inputs;
   const windowsByNode = nodes.map((node) => {
     if (!targets.length) return { node, windows: null, error: null };
     try {
@@ -99,7 +103,7 @@ export async function computePlanRows(inputs: PlanInputs, onTargetDone?: (done: 
         continue;
       }
       try {
-        const combined = combinePlanWithSky(computeTargetPlan(planTarget, node, node.site), windows.targets[i], node);
+        const combined = computeNodeTargetPlan(planTarget, node, node.site, windows.targets[i], { completeness });
         targetRows.push({ targetId: target.id, nodeId: node.id, result: toPlanResult(combined, windows.targets[i]) });
       } catch (err) {
         if (!isInputError(err)) throw err;

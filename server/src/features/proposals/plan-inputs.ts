@@ -4,7 +4,7 @@ import type { TelescopeNode } from '@spincycle/shared/facility/facility-types';
 import { inParallel } from '../../db/in-parallel';
 import { findCycleById, type StoredCycle } from '../cycles/cycle-repository';
 import { listNodes } from '../facility/facility-repository';
-import { findProposalById, listProposalNodeIds } from './proposal-repository';
+import { findProposalById, listProposalNodeIds, type StoredProposal } from './proposal-repository';
 import { TARGET_PLAN_MODEL_VERSION } from '@spincycle/shared/science/target-plan';
 import { listTargets, type StoredTarget } from './target-repository';
 
@@ -21,26 +21,34 @@ export interface PlanInputs {
   nodes: TelescopeNode[];
   /** In list order. */
   targets: StoredTarget[];
+  /** The proposal's probability that each plan recovers the period (0.5–0.99). */
+  completeness: number;
 }
 
 /** Loads the inputs of a proposal's plans, or undefined when the proposal no longer exists. */
 export async function loadPlanInputs(db: Knex, proposalId: number): Promise<PlanInputs | undefined> {
   const proposal = await findProposalById(db, proposalId);
   if (!proposal) return undefined;
-  return loadPlanInputsOf(db, proposalId, (await findCycleById(db, proposal.cycleId))!);
+  return loadPlanInputsOf(db, proposal, (await findCycleById(db, proposal.cycleId))!);
 }
 
-/** The inputs of the plans of a proposal whose cycle is already at hand (e.g. from accessProposal). */
-export async function loadPlanInputsOf(db: Knex, proposalId: number, cycle: Pick<StoredCycle, 'campaignStart' | 'campaignEnd'>): Promise<PlanInputs> {
+/** The inputs of the plans of a proposal whose row and cycle are already at hand (e.g. from accessProposal). */
+export async function loadPlanInputsOf(
+  db: Knex,
+  proposal: Pick<StoredProposal, 'id' | 'completeness'>,
+  cycle: Pick<StoredCycle, 'campaignStart' | 'campaignEnd'>,
+): Promise<PlanInputs> {
+  const proposalId = proposal.id;
   const [nodeIds, targets] = await inParallel(db, [() => listProposalNodeIds(db, proposalId), () => listTargets(db, proposalId)] as const);
   const nodes = nodeIds.length ? await listNodes(db, nodeIds) : [];
-  return { campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, nodes, targets };
+  return { campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, nodes, targets, completeness: proposal.completeness };
 }
 
 /**
- * SHA-256 of what the plans depend on: the campaign, each requested node's instrument and
- * site, and each target's science values (not its name, notes or position, which change no
- * number). Stored with the plans; a different hash now means the plans are stale.
+ * SHA-256 of what the plans depend on: the campaign, the proposal's completeness, each
+ * requested node's instrument and site, and each target's science values including an expected
+ * period of its own (not its name, notes or position, which change no number). Stored with the
+ * plans; a different hash now means the plans are stale.
  */
 export function planInputsHash(inputs: PlanInputs): string {
   const nodes = [...inputs.nodes]
@@ -52,8 +60,22 @@ export function planInputsHash(inputs: PlanInputs): string {
     }));
   const targets = [...inputs.targets]
     .sort((a, b) => a.id - b.id)
-    .map((t) => [t.id, t.raDeg, t.decDeg, t.magnitude, t.magnitudeBand, t.colour, t.colourSystem, t.reddeningEbv, t.ageMyr, t.ageUncertaintyMyr, t.periodPrecisionDays]);
+    .map((t) => [
+      t.id,
+      t.raDeg,
+      t.decDeg,
+      t.magnitude,
+      t.magnitudeBand,
+      t.colour,
+      t.colourSystem,
+      t.reddeningEbv,
+      t.ageMyr,
+      t.ageUncertaintyMyr,
+      t.periodPrecisionDays,
+      t.periodDays,
+      t.periodUncertaintyDays,
+    ]);
   return createHash('sha256')
-    .update(JSON.stringify({ v: PLAN_MODEL_VERSION, campaign: inputs.campaign, nodes, targets }))
+    .update(JSON.stringify({ v: PLAN_MODEL_VERSION, campaign: inputs.campaign, completeness: inputs.completeness, nodes, targets }))
     .digest('hex');
 }

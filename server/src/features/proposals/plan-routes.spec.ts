@@ -105,6 +105,45 @@ describe('plan service called in-process', () => {
     expect((await browser.get(`/api/proposals/${proposal.id}/plans`)).body.run.current).toBe(true);
   });
 
+  it('a completeness change marks the plans stale and queues a run, like a target change; the next computation makes them current', async () => {
+    const { browser, proposal } = await draftWithTargets(['Star P-c']);
+    await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
+    expect((await browser.get(`/api/proposals/${proposal.id}/plans`)).body.run).toMatchObject({ state: 'idle', current: true });
+    const enqueue = jest.spyOn(h.created.ctx.planQueue, 'enqueue');
+    try {
+      const { version } = (await browser.get(`/api/proposals/${proposal.id}`)).body;
+      const res = await browser.patch(`/api/proposals/${proposal.id}`, { version, completeness: 0.75 });
+      expect(res.status).toBe(200);
+      expect(enqueue).toHaveBeenCalledWith(proposal.id);
+      expect((await browser.get(`/api/proposals/${proposal.id}/plans`)).body.run).toMatchObject({ state: 'queued', current: false });
+      // A refused completeness queues nothing.
+      enqueue.mockClear();
+      expect((await browser.patch(`/api/proposals/${proposal.id}`, { version: res.body.version, completeness: 0.3 })).status).toBe(400);
+      expect(enqueue).not.toHaveBeenCalled();
+    } finally {
+      enqueue.mockRestore();
+    }
+    await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
+    expect((await browser.get(`/api/proposals/${proposal.id}/plans`)).body.run).toMatchObject({ state: 'idle', current: true });
+  });
+
+  it('an expected period given for a target marks the plans stale; the next run plans with it', async () => {
+    const { browser, proposal } = await draftWithTargets(['Star P-m']);
+    await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
+    const [t] = (await browser.get(`/api/proposals/${proposal.id}/targets`)).body;
+    const put = await browser.put(`/api/proposals/${proposal.id}/targets/${t.id}`, {
+      version: t.version,
+      target: target({ name: 'Star P-m', periodDays: 0.8, periodUncertaintyDays: 0.05 }),
+    });
+    expect(put.status).toBe(200);
+    expect((await browser.get(`/api/proposals/${proposal.id}/plans`)).body.run).toMatchObject({ state: 'queued', current: false });
+    const result = await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
+    expect(result).toMatchObject({ targets: 1, errors: 0 });
+    const after = (await browser.get(`/api/proposals/${proposal.id}/plans`)).body;
+    expect(after.run).toMatchObject({ state: 'idle', current: true });
+    for (const plan of after.plans) expect(plan.periodDays).toBeCloseTo(0.8, 6);
+  });
+
   it('POST /plans/recompute queues a run (202 with the status)', async () => {
     const { browser, proposal } = await draftWithTargets(['Star P-5']);
     await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
@@ -156,7 +195,7 @@ describe('the plan job through pg-boss', () => {
       const count = PROGRESS_EVERY_TARGETS * 2 + 5;
       const { browser, proposal } = await proposerWithDraft(app, net.cycleId, 'Queued plans');
       expect((await browser.patch(`/api/proposals/${proposal.id}`, { version: 1, nodeIds: net.nodeIds })).status).toBe(200);
-      const lines = Array.from({ length: count }, (_, i) => `Star Q-${i + 1},${(150 + i * 0.3).toFixed(2)},${(20 + (i % 30)).toFixed(1)},${(10 + (i % 6)).toFixed(1)},V,${(0.7 + (i % 15) * 0.12).toFixed(2)},BPRP,,650,60,,`);
+      const lines = Array.from({ length: count }, (_, i) => `Star Q-${i + 1},${(150 + i * 0.3).toFixed(2)},${(20 + (i % 30)).toFixed(1)},${(10 + (i % 6)).toFixed(1)},V,${(0.7 + (i % 15) * 0.12).toFixed(2)},BPRP,,650,60,,,,`);
       const up = await uploadFile(browser, 'post', `/api/proposals/${proposal.id}/targets/upload`, [CSV_HEADER, ...lines].join('\n'), 'q.csv');
       expect(up.status).toBe(200);
 

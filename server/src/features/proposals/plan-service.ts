@@ -1,10 +1,9 @@
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
-import { combinePlanWithSky, requirementFromPlan } from '@spincycle/shared/planning/node-target-plan';
+import { computeNodeTargetPlan, requirementFromPlan } from '@spincycle/shared/planning/node-target-plan';
 import type { PlanExplanation, PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
 import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
-import { computeTargetPlan } from '@spincycle/shared/science/target-plan';
 import { SkyInputError, toSkyWindowsReport, type SkyWindowsReport } from '@spincycle/shared/sky/index';
 import type { AppContext } from '../../app-context';
 import { inParallel } from '../../db/in-parallel';
@@ -112,7 +111,7 @@ function toRunStatus(run: StoredPlanRun | undefined, currentHash: string): PlanR
 /** The run status of a proposal reached through accessProposal (for readiness and the proposal page). */
 export async function planRunStatusOf(db: Knex, access: Pick<ProposalAccess, 'proposal' | 'cycle'>): Promise<PlanRunStatus> {
   const id = access.proposal.id;
-  const [run, inputs] = await inParallel(db, [() => findPlanRun(db, id), () => loadPlanInputsOf(db, id, access.cycle)] as const);
+  const [run, inputs] = await inParallel(db, [() => findPlanRun(db, id), () => loadPlanInputsOf(db, access.proposal, access.cycle)] as const);
   return toRunStatus(run, planInputsHash(inputs));
 }
 
@@ -150,7 +149,7 @@ export async function getPlanExplanation(ctx: AppContext, viewer: SessionUser, i
  * report carries the assessment of the plan's cadence against the windows.
  */
 export async function getTargetSky(ctx: AppContext, viewer: SessionUser, id: number, targetId: number, nodeId: number): Promise<SkyWindowsReport> {
-  const { cycle } = await accessProposal(ctx.db, viewer, id);
+  const { cycle, proposal } = await accessProposal(ctx.db, viewer, id);
   const target = await findTarget(ctx.db, id, targetId);
   if (!target) throw new AppError('target_not_found', `No target ${targetId} in proposal ${id}`, 404);
   if (!(await listCycleNodes(ctx.db, cycle.id)).some((n) => n.nodeId === nodeId)) {
@@ -160,7 +159,7 @@ export async function getTargetSky(ctx: AppContext, viewer: SessionUser, id: num
   const result = nodeSkyWindows(node, { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, [target]);
   let requirement: ReturnType<typeof requirementFromPlan> | undefined;
   try {
-    const plan = combinePlanWithSky(computeTargetPlan(toPlanTarget(target), node, node.site), result.targets[0], node);
+    const plan = computeNodeTargetPlan(toPlanTarget(target), node, node.site, result.targets[0], { completeness: proposal.completeness });
     requirement = requirementFromPlan(plan.plan);
   } catch (err) {
     // Without a plan the windows are still worth showing; the plan's error is on the plans page.

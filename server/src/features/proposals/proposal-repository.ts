@@ -11,6 +11,7 @@ interface ProposalRow {
   category: string | null;
   state: ProposalState;
   version: number;
+  completeness: number;
   submitted_at: Date | null;
   created_at: Date;
   updated_at: Date;
@@ -26,6 +27,8 @@ export interface StoredProposal {
   category: string | null;
   state: ProposalState;
   version: number;
+  /** Probability (0.5–0.99) that each target plan recovers the period. */
+  completeness: number;
   submittedAt: string | null;
   createdAt: string;
   updatedAt: string;
@@ -41,6 +44,7 @@ function toProposal(r: ProposalRow): StoredProposal {
     category: r.category,
     state: r.state,
     version: r.version,
+    completeness: r.completeness,
     submittedAt: r.submitted_at?.toISOString() ?? null,
     createdAt: r.created_at.toISOString(),
     updatedAt: r.updated_at.toISOString(),
@@ -48,8 +52,10 @@ function toProposal(r: ProposalRow): StoredProposal {
 }
 
 /** Inserts a draft (version 1); returns its id. */
-export async function insertProposal(db: Knex, input: { cycleId: number; piAccountId: number; title: string }): Promise<number> {
-  const [row] = await db('proposals').insert({ cycle_id: input.cycleId, pi_account_id: input.piAccountId, title: input.title }).returning('id');
+export async function insertProposal(db: Knex, input: { cycleId: number; piAccountId: number; title: string; completeness?: number }): Promise<number> {
+  const [row] = await db('proposals')
+    .insert({ cycle_id: input.cycleId, pi_account_id: input.piAccountId, title: input.title, completeness: input.completeness })
+    .returning('id');
   return row.id;
 }
 
@@ -65,12 +71,13 @@ export async function findProposalById(db: Knex, id: number, options: { forUpdat
 export async function updateProposalFields(
   db: Knex,
   id: number,
-  fields: { title?: string; abstract?: string; category?: string | null },
+  fields: { title?: string; abstract?: string; category?: string | null; completeness?: number },
 ): Promise<void> {
   const columns: Record<string, unknown> = { version: db.raw('version + 1'), updated_at: db.fn.now() };
   if (fields.title !== undefined) columns.title = fields.title;
   if (fields.abstract !== undefined) columns.abstract = fields.abstract;
   if (fields.category !== undefined) columns.category = fields.category;
+  if (fields.completeness !== undefined) columns.completeness = fields.completeness;
   await db('proposals').where({ id }).update(columns);
 }
 

@@ -27,6 +27,7 @@ describe('POST /api/proposals', () => {
       justification: null,
       targetCount: 0,
       request: [],
+      completeness: 0.9,
       myRole: 'pi',
       editable: true,
       submittedAt: null,
@@ -157,6 +158,26 @@ describe('PATCH /api/proposals/:id (autosave)', () => {
     expect(body.status).toBe(400);
     expect(Object.keys(body.body.fieldErrors).sort()).toEqual(['title', 'version']);
     expect((await browser.get(`/api/proposals/${proposal.id}`)).body.version).toBe(1);
+  });
+
+  it('saves the completeness (a new version) and answers it with the proposal', async () => {
+    const { browser, proposal } = await proposerWithDraft(h, net.cycleId, 'Completeness');
+    const res = await browser.patch(`/api/proposals/${proposal.id}`, { version: 1, completeness: 0.95 });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ completeness: 0.95, version: 2 });
+    expect((await browser.get(`/api/proposals/${proposal.id}`)).body.completeness).toBe(0.95);
+    // The same value again changes nothing.
+    expect((await browser.patch(`/api/proposals/${proposal.id}`, { version: 2, completeness: 0.95 })).body.version).toBe(2);
+  });
+
+  it.each([0.3, 0.995, 1, -0.9, '0.9', null])('refuses completeness %p with 400 naming completeness, and writes nothing', async (value) => {
+    const { browser, proposal } = await proposerWithDraft(h, net.cycleId, 'Bad completeness');
+    const res = await browser.patch(`/api/proposals/${proposal.id}`, { version: 1, title: 'Renamed too', completeness: value });
+    expect(res.status).toBe(400);
+    expect(res.body.code).toBeDefined();
+    expect(Object.keys(res.body.fieldErrors)).toEqual(['completeness']);
+    expect(res.body.fieldErrors.completeness).toEqual(['completeness must be between 50 % and 99 %']);
+    expect((await browser.get(`/api/proposals/${proposal.id}`)).body).toMatchObject({ title: 'Bad completeness', completeness: 0.9, version: 1 });
   });
 });
 

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
 import { callStatusAt } from '@spincycle/shared/facility/facility-types';
-import type { CreateProposalInput, Proposal, ProposalSummary, UpdateProposalInput } from '@spincycle/shared/proposals/proposal-schemas';
+import { DEFAULT_COMPLETENESS, type CreateProposalInput, type Proposal, type ProposalSummary, type UpdateProposalInput } from '@spincycle/shared/proposals/proposal-schemas';
 import type { AppContext } from '../../app-context';
 import { inParallel } from '../../db/in-parallel';
 import { AppError, invalidField } from '../../http/app-error';
@@ -50,6 +50,7 @@ export async function assembleProposal(ctx: AppContext, db: Knex, access: Propos
     state: proposal.state,
     version: proposal.version,
     nodeIds,
+    completeness: proposal.completeness,
     team: team.map(({ proposalId: _p, ...member }) => member),
     justification,
     targetCount,
@@ -80,9 +81,14 @@ export async function createProposal(ctx: AppContext, viewer: SessionUser, input
     throw new AppError('call_not_open', `The call for ${cycle.code} is not open: it ${when}`, 422, { cycleId: [`the call ${when}`] });
   }
   const id = await ctx.db.transaction(async (trx) => {
-    const proposalId = await insertProposal(trx, { cycleId: cycle.id, piAccountId: viewer.id, title: input.title });
+    const proposalId = await insertProposal(trx, { cycleId: cycle.id, piAccountId: viewer.id, title: input.title, completeness: DEFAULT_COMPLETENESS });
     await insertPiMember(trx, proposalId, viewer);
-    const emptyHash = planInputsHash({ campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, nodes: [], targets: [] });
+    const emptyHash = planInputsHash({
+      campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd },
+      nodes: [],
+      targets: [],
+      completeness: DEFAULT_COMPLETENESS,
+    });
     await insertIdlePlanRun(trx, proposalId, emptyHash);
     return proposalId;
   });
@@ -93,10 +99,11 @@ export async function createProposal(ctx: AppContext, viewer: SessionUser, input
  * PATCH /api/proposals/:id (team members; the editor's autosave). The body names the version
  * the editor last read; if someone else on the team saved since, nothing is written and the
  * answer is 409 `version_conflict` with the time of their save: never a silent overwrite.
- * Requested nodes must take part in the cycle; changing them queues the plans again.
+ * Requested nodes must take part in the cycle; changing them or the completeness queues the
+ * plans again (in the same transaction, like a target change).
  */
 export async function updateProposal(ctx: AppContext, viewer: SessionUser, id: number, input: UpdateProposalInput): Promise<Proposal> {
-  let nodesChanged = false;
+  let plansChanged = false;
   await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });
     requireEditable(access, ctx.now());
@@ -113,6 +120,7 @@ export async function updateProposal(ctx: AppContext, viewer: SessionUser, id: n
       throw invalidField('category', `choose one of the cycle's categories: ${cycle.categories.join('; ')}`);
     }
     let nodeIds: number[] | undefined;
+    let nodesChanged = false;
     if (input.nodeIds !== undefined) {
       nodeIds = [...new Set(input.nodeIds)].sort((a, b) => a - b);
       const offered = new Set((await listCycleNodes(trx, cycle.id)).map((n) => n.nodeId));
@@ -123,19 +131,25 @@ export async function updateProposal(ctx: AppContext, viewer: SessionUser, id: n
       const current = await listProposalNodeIds(trx, id);
       nodesChanged = current.join(',') !== nodeIds.join(',');
     }
+    const completenessChanged = input.completeness !== undefined && input.completeness !== proposal.completeness;
     const fieldsChanged =
       (input.title !== undefined && input.title !== proposal.title) ||
       (input.abstract !== undefined && input.abstract !== proposal.abstract) ||
-      (input.category !== undefined && input.category !== proposal.category);
+      (input.category !== undefined && input.category !== proposal.category) ||
+      completenessChanged;
     // An autosave that changes nothing keeps the version, so that it cannot cause a conflict.
     if (!fieldsChanged && !nodesChanged) return;
-    await updateProposalFields(trx, id, { title: input.title, abstract: input.abstract, category: input.category });
-    if (nodesChanged) {
-      await replaceProposalNodes(trx, id, nodeIds!);
-      await markPlansRequested(trx, [id]);
-    }
+    await updateProposalFields(trx, id, {
+      title: input.title,
+      abstract: input.abstract,
+      category: input.category,
+      completeness: completenessChanged ? input.completeness : undefined,
+    });
+    if (nodesChanged) await replaceProposalNodes(trx, id, nodeIds!);
+    plansChanged = nodesChanged || completenessChanged;
+    if (plansChanged) await markPlansRequested(trx, [id]);
   });
-  if (nodesChanged) await queuePlanComputations(ctx, [id]);
+  if (plansChanged) await queuePlanComputations(ctx, [id]);
   return getProposal(ctx, viewer, id);
 }
 

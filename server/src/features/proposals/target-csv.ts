@@ -6,7 +6,14 @@
  */
 import { parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
-import { MAX_TARGETS_PER_PROPOSAL, TARGET_CSV_COLUMNS, targetInputSchema, type CsvRowError, type TargetValues } from '@spincycle/shared/proposals/target-schemas';
+import {
+  MAX_TARGETS_PER_PROPOSAL,
+  TARGET_CSV_COLUMNS,
+  TARGET_CSV_HEADER_ALIASES,
+  targetInputSchema,
+  type CsvRowError,
+  type TargetValues,
+} from '@spincycle/shared/proposals/target-schemas';
 import { parseDec, parseRa, SkyInputError } from '@spincycle/shared/sky/index';
 import { AppError } from '../../http/app-error';
 
@@ -27,6 +34,8 @@ const COLUMN_OF_FIELD: Record<keyof TargetValues, ColumnName> = {
   ageMyr: 'age_myr',
   ageUncertaintyMyr: 'age_err_myr',
   periodPrecisionDays: 'period_precision_d',
+  periodDays: 'period',
+  periodUncertaintyDays: 'period_error',
   notes: 'notes',
 };
 
@@ -77,7 +86,11 @@ function detectDelimiter(text: string): string {
   return counts[0].n > 0 ? counts[0].d : ',';
 }
 
-const normalizeHeader = (h: string) => h.trim().toLowerCase().replace(/[\s-]+/g, '_');
+/** A header cell as a column name: case, spaces and hyphens do not matter; aliases name their column. */
+const normalizeHeader = (h: string) => {
+  const name = h.trim().toLowerCase().replace(/[\s-]+/g, '_');
+  return TARGET_CSV_HEADER_ALIASES[name] ?? name;
+};
 
 const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 
@@ -214,6 +227,8 @@ function readRow(row: number, cell: (c: ColumnName) => string): { values?: Targe
   number('age_myr', 'ageMyr', true);
   number('age_err_myr', 'ageUncertaintyMyr', false);
   number('period_precision_d', 'periodPrecisionDays', false);
+  number('period', 'periodDays', false);
+  number('period_error', 'periodUncertaintyDays', false);
   candidate.notes = cell('notes');
 
   const parsed = targetInputSchema.safeParse(candidate);
@@ -255,6 +270,8 @@ export function writeTargetCsv(targets: TargetValues[]): string {
     t.ageMyr,
     t.ageUncertaintyMyr ?? '',
     t.periodPrecisionDays ?? '',
+    t.periodDays ?? '',
+    t.periodUncertaintyDays ?? '',
     escapeFormulaCell(t.notes),
   ]);
   return stringify([COLUMN_NAMES, ...rows], { record_delimiter: 'windows' });
@@ -262,16 +279,18 @@ export function writeTargetCsv(targets: TargetValues[]): string {
 
 /**
  * The downloadable example: invented stars covering both colour systems, decimal and
- * sexagesimal positions, and the optional columns both used and left empty.
+ * sexagesimal positions, and the optional columns both used and left empty (one M dwarf with
+ * an expected period of its own).
  */
 export const EXAMPLE_TARGET_CSV = [
-  'name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,notes',
-  'Lantern 12,163.41,31.72,11.8,V,0.82,BPRP,0.02,650,60,,cluster member; G dwarf',
-  'Lantern 27,10:53:12.5,+31:18:40,13.6,G,1.45,BPRP,0.02,650,60,0.1,K dwarf; period precision requested',
-  'Lantern 41,10h54m02s,+32d05m11s,15.1,G,2.31,BPRP,,650,60,,early M dwarf',
-  'Star F-3,84.125,-12.5,9.7,V,0.64,BV,,2400,400,,field G dwarf',
-  'Star F-8,05:41:30,-12:02:15,10.9,V,0.95,BV,0.05,4100,900,0.5,field K dwarf with a known planet candidate',
-  'Star F-11,201.7,-47.25,12.4,R,1.12,BV,,1200,,,southern field star; no age uncertainty given',
-  'Star F-14,18.5h,+5:30:00,8.9,V,0.58,BV,,3000,500,,bright: check saturation on the larger nodes',
-  'Star F-19,277.4,62.8,11.1,G,1.05,BPRP,0.01,800,150,,',
+  'name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,period,period_error,notes',
+  'Lantern 12,163.41,31.72,11.8,V,0.82,BPRP,0.02,650,60,,,,cluster member; G dwarf',
+  'Lantern 27,10:53:12.5,+31:18:40,13.6,G,1.45,BPRP,0.02,650,60,0.1,,,K dwarf; period precision requested',
+  'Lantern 41,10h54m02s,+32d05m11s,15.1,G,2.31,BPRP,,650,60,,,,early M dwarf',
+  'Lantern 58,10:51:40,+31:02:10,16.2,G,3.05,BPRP,,650,60,,0.62,0.05,fast-rotating M dwarf beyond the relations: expected period given',
+  'Star F-3,84.125,-12.5,9.7,V,0.64,BV,,2400,400,,,,field G dwarf',
+  'Star F-8,05:41:30,-12:02:15,10.9,V,0.95,BV,0.05,4100,900,0.5,,,field K dwarf with a known planet candidate',
+  'Star F-11,201.7,-47.25,12.4,R,1.12,BV,,1200,,,,,southern field star; no age uncertainty given',
+  'Star F-14,18.5h,+5:30:00,8.9,V,0.58,BV,,3000,500,,,,bright: check saturation on the larger nodes',
+  'Star F-19,277.4,62.8,11.1,G,1.05,BPRP,0.01,800,150,,,,',
 ].join('\r\n') + '\r\n';

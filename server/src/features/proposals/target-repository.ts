@@ -18,6 +18,8 @@ interface TargetDbRow {
   age_myr: number;
   age_uncertainty_myr: number | null;
   period_precision_days: number | null;
+  period_days: number | null;
+  period_uncertainty_days: number | null;
   notes: string;
   version: number;
   updated_at: Date;
@@ -44,6 +46,8 @@ function toTarget(r: TargetDbRow): StoredTarget {
     ageMyr: r.age_myr,
     ageUncertaintyMyr: r.age_uncertainty_myr,
     periodPrecisionDays: r.period_precision_days,
+    periodDays: r.period_days,
+    periodUncertaintyDays: r.period_uncertainty_days,
     notes: r.notes,
     updatedAt: r.updated_at.toISOString(),
   };
@@ -67,6 +71,8 @@ function columnsOf(v: TargetValues) {
     age_myr: v.ageMyr,
     age_uncertainty_myr: v.ageUncertaintyMyr,
     period_precision_days: v.periodPrecisionDays,
+    period_days: v.periodDays,
+    period_uncertainty_days: v.periodUncertaintyDays,
     notes: v.notes,
   };
 }

@@ -86,6 +86,44 @@ describe('targets: one row at a time', () => {
     expect(rename.status).toBe(409);
     expect(rename.body.fieldErrors['target.name']).toBeDefined();
   });
+
+  it('stores an expected period and its uncertainty (null when not given), and edits them', async () => {
+    const { browser, proposal } = await draftWithTwoTargets();
+    const res = await browser.post(`/api/proposals/${proposal.id}/targets`, target({ name: 'Star E-M', colour: 3.1, periodDays: 0.62, periodUncertaintyDays: 0.05 }));
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ name: 'Star E-M', periodDays: 0.62, periodUncertaintyDays: 0.05 });
+    // Omitted fields default to null.
+    const { periodDays: _p, periodUncertaintyDays: _u, ...withoutPeriod } = target({ name: 'Star E-N' });
+    const plain = await browser.post(`/api/proposals/${proposal.id}/targets`, withoutPeriod);
+    expect(plain.status).toBe(201);
+    expect(plain.body).toMatchObject({ periodDays: null, periodUncertaintyDays: null });
+    const edited = await browser.put(`/api/proposals/${proposal.id}/targets/${res.body.id}`, { version: 1, target: target({ name: 'Star E-M', periodDays: 35, periodUncertaintyDays: null }) });
+    expect(edited.status).toBe(200);
+    expect(edited.body).toMatchObject({ periodDays: 35, periodUncertaintyDays: null, version: 2 });
+    expect((await browser.get(`/api/proposals/${proposal.id}/targets`)).body.find((t: { id: number }) => t.id === res.body.id)).toMatchObject({ periodDays: 35 });
+  });
+
+  it('refuses a period out of range, a negative uncertainty and an uncertainty without a period (400 naming the field), writing nothing', async () => {
+    const { browser, proposal } = await draftWithTwoTargets();
+    const cases: [Partial<Parameters<typeof target>[0]>, string, string][] = [
+      [{ periodDays: 0 }, 'periodDays', 'period must be within 0.05…1000 d'],
+      [{ periodDays: 1500 }, 'periodDays', 'period must be within 0.05…1000 d'],
+      [{ periodDays: 2, periodUncertaintyDays: -0.1 }, 'periodUncertaintyDays', 'period uncertainty must not be negative'],
+      [{ periodUncertaintyDays: 0.1 }, 'periodUncertaintyDays', 'period uncertainty needs a period'],
+      [{ periodDays: 'fast' as never }, 'periodDays', 'period must be a number'],
+    ];
+    for (const [overrides, field, message] of cases) {
+      const res = await browser.post(`/api/proposals/${proposal.id}/targets`, target(overrides));
+      expect(res.status).toBe(400);
+      expect(res.body.fieldErrors).toEqual({ [field]: [message] });
+    }
+    const [first] = (await browser.get(`/api/proposals/${proposal.id}/targets`)).body;
+    const put = await browser.put(`/api/proposals/${proposal.id}/targets/${first.id}`, { version: 1, target: target({ name: first.name, periodDays: -3 }) });
+    expect(put.status).toBe(400);
+    expect(put.body.fieldErrors['target.periodDays']).toEqual(['period must be within 0.05…1000 d']);
+    expect(await countRows(h, 'targets', { proposal_id: proposal.id })).toBe(2);
+    expect((await browser.get(`/api/proposals/${proposal.id}/targets`)).body[0]).toMatchObject({ version: 1, periodDays: null });
+  });
 });
 
 describe('POST /api/proposals/:id/targets/upload', () => {
@@ -130,11 +168,58 @@ describe('POST /api/proposals/:id/targets/upload', () => {
     expect(example.headers['content-disposition']).toMatch(/^attachment; filename="?spincycle-target-list-example.csv"?$/);
     const res = await upload(browser, proposal.id, example.text, 'example.csv');
     expect(res.status).toBe(200);
-    expect(res.body.added).toBe(8);
+    expect(res.body.added).toBe(9);
     const systems = new Set(res.body.targets.map((t: { colourSystem: string }) => t.colourSystem));
     expect(systems).toEqual(new Set(['BV', 'BPRP']));
     expect(res.body.targets.some((t: { reddeningEbv: number | null }) => t.reddeningEbv === null)).toBe(true);
     expect(res.body.targets.some((t: { periodPrecisionDays: number | null }) => t.periodPrecisionDays !== null)).toBe(true);
+    expect(res.body.targets.filter((t: { periodDays: number | null }) => t.periodDays !== null)).toEqual([
+      expect.objectContaining({ name: 'Lantern 58', periodDays: 0.62, periodUncertaintyDays: 0.05 }),
+    ]);
+  });
+
+  it('reads the period and period_error columns (also spelled period_d / period_err_d); empty cells are null', async () => {
+    const { browser, proposal } = await draftWithTwoTargets();
+    const res = await upload(browser, proposal.id, [CSV_HEADER, csvLine('Star V-1', { colour: '3.2', period: '0.45', period_error: '0.02' }), csvLine('Star V-2')].join('\n'));
+    expect(res.status).toBe(200);
+    expect(res.body.targets.map((t: { name: string; periodDays: number | null; periodUncertaintyDays: number | null }) => [t.name, t.periodDays, t.periodUncertaintyDays])).toEqual([
+      ['Star V-1', 0.45, 0.02],
+      ['Star V-2', null, null],
+    ]);
+    const aliased = CSV_HEADER.replace(',period,period_error,', ',Period D,period-err-d,');
+    const again = await upload(browser, proposal.id, [aliased, csvLine('Star V-3', { period: '12.5', period_error: '' })].join('\n'), 'aliased.csv', 'append');
+    expect(again.status).toBe(200);
+    expect(again.body.targets[2]).toMatchObject({ name: 'Star V-3', periodDays: 12.5, periodUncertaintyDays: null });
+    // A list without the new columns still reads (they are optional).
+    const old = 'name,ra,dec,magnitude,band,colour,colour_system,age_myr\nStar V-4,10,10,11,V,0.8,BV,900';
+    const oldRes = await upload(browser, proposal.id, old, 'old.csv', 'append');
+    expect(oldRes.status).toBe(200);
+    expect(oldRes.body.targets[3]).toMatchObject({ name: 'Star V-4', periodDays: null, periodUncertaintyDays: null });
+  });
+
+  it('a bad period row → 400 naming the row and the column; nothing written', async () => {
+    const { browser, proposal } = await draftWithTwoTargets();
+    const before = (await browser.get(`/api/proposals/${proposal.id}/targets`)).body;
+    const csv = [
+      CSV_HEADER,
+      csvLine('Star W-1', { period: '2.5' }),
+      csvLine('Star W-2', { period: '1200' }),
+      csvLine('Star W-3', { period: 'fast' }),
+      csvLine('Star W-4', { period_error: '0.3' }),
+      csvLine('Star W-5', { period: '3', period_error: '-1' }),
+    ].join('\n');
+    const res = await upload(browser, proposal.id, csv);
+    expect(res.status).toBe(400);
+    expect(res.body.code).toBe('invalid_target_list');
+    expect(res.body.message).toBe('row 2, period: period must be within 0.05…1000 d (got 1200) (and 3 more problems; nothing was saved)');
+    expect(res.body.rows).toEqual([
+      { row: 2, field: 'period', message: 'period must be within 0.05…1000 d (got 1200)' },
+      { row: 3, field: 'period', message: '"fast" is not a number' },
+      { row: 4, field: 'period_error', message: 'period uncertainty needs a period (got 0.3)' },
+      { row: 5, field: 'period_error', message: 'period uncertainty must not be negative (got -1)' },
+    ]);
+    expect(Object.keys(res.body.fieldErrors).sort()).toEqual(['rows.2.period', 'rows.3.period', 'rows.4.period_error', 'rows.5.period_error']);
+    expect((await browser.get(`/api/proposals/${proposal.id}/targets`)).body).toEqual(before);
   });
 
   /** Each malformed file: status, code, where the first problem is reported and what it says. */
@@ -235,8 +320,8 @@ describe('GET /api/proposals/:id/targets.csv', () => {
     const rows: string[][] = parse(res.text);
     expect(rows[0].join(',')).toBe(CSV_HEADER);
     expect(rows[1][0]).toBe("'=cmd|' /C calc'!A0");
-    expect(rows[1][11]).toBe("'=cmd|' /C calc'!A0");
-    expect(rows[2]).toEqual(['Star Plain', '163.2', '-5.25', '12.1', 'V', '1.1', 'BPRP', '', '650', '60', '', "'@SUM(1+1)"]);
+    expect(rows[1][13]).toBe("'=cmd|' /C calc'!A0");
+    expect(rows[2]).toEqual(['Star Plain', '163.2', '-5.25', '12.1', 'V', '1.1', 'BPRP', '', '650', '60', '', '', '', "'@SUM(1+1)"]);
     // The raw text: the negative declination is written as a bare number, not quoted or escaped.
     expect(res.text).toContain('Star Plain,163.2,-5.25,');
   });
@@ -244,6 +329,7 @@ describe('GET /api/proposals/:id/targets.csv', () => {
   it('round-trips: an exported list uploads again to the same values', async () => {
     const { browser, proposal } = await draftWithTwoTargets();
     await upload(browser, proposal.id, fixture('bom-crlf-valid.csv'));
+    expect((await browser.post(`/api/proposals/${proposal.id}/targets`, target({ name: 'Star R-M', colour: 3.0, periodDays: 0.71, periodUncertaintyDays: 0.04 }))).status).toBe(201);
     const before = (await browser.get(`/api/proposals/${proposal.id}/targets`)).body;
     const csv = (await browser.get(`/api/proposals/${proposal.id}/targets.csv`)).text;
     const again = await upload(browser, proposal.id, csv, 'export.csv');

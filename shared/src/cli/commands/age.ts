@@ -1,5 +1,5 @@
 /** `spincycle age`: gyrochronological age from colour and rotation period. */
-import { estimateAge, type GyroRelationId, type TurnoverScale } from '../../science/index';
+import { estimateAge, type AgeEstimate, type GyroRelationId, type TurnoverScale } from '../../science/index';
 import { defaultRelationFor } from '../../science/target-plan';
 import { type CliCommand, COLOUR_OPTIONS, colourOption, numberOption, parseCommandArgs, relationOption } from '../cli-command';
 
@@ -20,6 +20,11 @@ Options:
   --tau-scale NAME      τ scale of the Rossby number (default noyes1984)
   -h, --help            this text
 
+When the relation has no age for the star (colour outside its calibration, above the
+Kraft break, a period below the slow-rotator sequence, an age above the age of the
+universe…), "ageMyr" is null, "reason" says why, and the range is left out; the exit
+code stays 0.
+
 Example:
   spincycle age --bv 0.642 --period 26.09 --relation barnes2007
 `;
@@ -37,7 +42,7 @@ export const command: CliCommand = {
       'tau-scale': { type: 'string' },
     });
     const colour = colourOption(values);
-    return estimateAge({
+    return withoutHiddenAge(estimateAge({
       relation: (relationOption(values.relation) ?? defaultRelationFor(colour.system)) as GyroRelationId,
       colour,
       reddeningEbvMag: numberOption(values.ebv, 'ebv', 'reddeningEbvMag'),
@@ -45,6 +50,28 @@ export const command: CliCommand = {
       periodUncertaintyDays: numberOption(values['period-error'], 'period-error', 'periodUncertaintyDays'),
       rangeSigma: numberOption(values.sigma, 'sigma', 'rangeSigma'),
       turnoverScale: values['tau-scale'] as TurnoverScale | undefined,
-    });
+    }));
   },
 };
+
+/**
+ * The estimate as printed: when the relation has no age (`noResult`), the age and the numbers
+ * derived from it (range, fractional uncertainty, contributions) give way to `ageMyr: null` and
+ * the reason. The Rossby number stays: it comes from the measured period, not from the age.
+ */
+function withoutHiddenAge(a: AgeEstimate) {
+  if (!a.noResult) return a;
+  return {
+    relation: a.relation,
+    relationLabel: a.relationLabel,
+    source: a.source,
+    ageMyr: null,
+    reason: a.noResult.reason,
+    noResult: a.noResult,
+    periodDays: a.periodDays,
+    colour: a.colour,
+    relationColour: a.relationColour,
+    rossby: a.rossby,
+    flags: a.flags,
+  };
+}

@@ -1,5 +1,5 @@
 /** `spincycle period`: rotation period from colour and age by a gyrochronology relation. */
-import { predictPeriod, type GyroRelationId, type TurnoverScale } from '../../science/index';
+import { predictPeriod, type GyroRelationId, type PeriodPrediction, type TurnoverScale } from '../../science/index';
 import { defaultRelationFor } from '../../science/target-plan';
 import { type CliCommand, COLOUR_OPTIONS, colourOption, numberOption, parseCommandArgs, relationOption } from '../cli-command';
 
@@ -20,6 +20,10 @@ Options:
                       wright2011 | wright2018
   -h, --help          this text
 
+When the relation has no period for the star (colour outside its calibration, above the
+Kraft break, age above the age of the universe…), "periodDays" is null, "reason" says why,
+and the range is left out; the exit code stays 0.
+
 Example:
   spincycle period --bv 0.642 --age 4566 --age-error 500 --relation barnes2007
 `;
@@ -37,7 +41,7 @@ export const command: CliCommand = {
       'tau-scale': { type: 'string' },
     });
     const colour = colourOption(values);
-    return predictPeriod({
+    return withoutHiddenPeriod(predictPeriod({
       relation: (relationOption(values.relation) ?? defaultRelationFor(colour.system)) as GyroRelationId,
       colour,
       reddeningEbvMag: numberOption(values.ebv, 'ebv', 'reddeningEbvMag'),
@@ -45,6 +49,28 @@ export const command: CliCommand = {
       ageUncertaintyMyr: numberOption(values['age-error'], 'age-error', 'ageUncertaintyMyr'),
       rangeSigma: numberOption(values.sigma, 'sigma', 'rangeSigma'),
       turnoverScale: values['tau-scale'] as TurnoverScale | undefined,
-    });
+    }));
   },
 };
+
+/**
+ * The prediction as printed: when the relation has no period (`noResult`), the period and
+ * every number derived from it (range, ln σ, contributions, Rossby number) give way to
+ * `periodDays: null` and the reason.
+ */
+function withoutHiddenPeriod(p: PeriodPrediction) {
+  if (!p.noResult) return p;
+  return {
+    relation: p.relation,
+    relationLabel: p.relationLabel,
+    source: p.source,
+    periodDays: null,
+    reason: p.noResult.reason,
+    noResult: p.noResult,
+    ageMyr: p.ageMyr,
+    ageUncertaintyMyr: p.ageUncertaintyMyr,
+    colour: p.colour,
+    relationColour: p.relationColour,
+    flags: p.flags,
+  };
+}

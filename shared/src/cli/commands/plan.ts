@@ -26,6 +26,7 @@ Plan options:
                            (default angus2019 for --bprp, barnes2007 for --bv)
   --tau-scale NAME         noyes1984 (default) | cranmerSaar2011 | wright2011 | wright2018
   --fap P                  false-alarm probability of the detection (default 0.01)
+  --completeness C         chance of recovering the period, 0.5–0.99 (default 0.9)
   --samples-per-cycle N    samples per cycle of the shortest plausible period (default 10)
   --cycles N               cycles of the longest plausible period in the baseline (default 3)
   --precision-ppm S        per-visit precision goal, ppm (default: derived from the cadence)
@@ -34,8 +35,12 @@ Node and site (default: a typical 0.5 m node in V at a 2000 m site):
   --node FILE.json         NodeSpec fields (merged over the default), or {"node": {...}, "site": {...}}
   --site FILE.json         SiteSpec fields (merged over the default)
 Output:
-  --summary                only "value unit" per quantity, and the flags (default: every
-                           quantity with its value, unit, why, source and tag)
+  --summary                only "value unit" per quantity (4 significant figures), the
+                           analysis and the flags (default: every quantity with its value,
+                           unit, why, source and tag)
+
+The plan's "analysis" (series, search band, false-alarm level) is how the campaign must be
+analysed for the plan's completeness to hold: "spincycle periodogram --plan FILE" reads it.
   -h, --help               this text
 
 Example:
@@ -78,6 +83,7 @@ export const command: CliCommand = {
       'period-precision': { type: 'string' },
       'tau-scale': { type: 'string' },
       fap: { type: 'string' },
+      completeness: { type: 'string' },
       'samples-per-cycle': { type: 'string' },
       cycles: { type: 'string' },
       'precision-ppm': { type: 'string' },
@@ -118,6 +124,7 @@ export const command: CliCommand = {
         relation: relationOption(values.relation) as GyroRelationId | undefined,
         turnoverScale: values['tau-scale'] as TurnoverScale | undefined,
         falseAlarmProbability: numberOption(values.fap, 'fap', 'options.falseAlarmProbability'),
+        completeness: numberOption(values.completeness, 'completeness', 'options.completeness'),
         samplesPerCycle: numberOption(values['samples-per-cycle'], 'samples-per-cycle', 'options.samplesPerCycle'),
         baselineCycles: numberOption(values.cycles, 'cycles', 'options.baselineCycles'),
         perVisitPrecisionPpm: numberOption(values['precision-ppm'], 'precision-ppm', 'options.perVisitPrecisionPpm'),
@@ -125,6 +132,7 @@ export const command: CliCommand = {
       },
     );
     if (!values.summary) return plan;
+    // Everything but the noise terms of one exposure; `analysis` stays exact (periodogram --plan reads it).
     const { quantities, precision: _precision, flags, ...head } = plan;
     return {
       ...head,

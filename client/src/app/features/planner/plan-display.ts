@@ -1,12 +1,14 @@
 /**
- * How the planner shows a `TargetPlan`: human labels of the 36 quantities, the source tags
- * as words, number formatting that never prints NaN, and the compact key rows.
+ * How the planner shows a `TargetPlan`: human labels of its quantities, the source tags as
+ * words, number formatting that never prints NaN, the compact key rows, the price of other
+ * completeness levels and the search band the analysis must use.
  */
 import type { SourceTag, Explained, FlagSeverity } from '@spincycle/shared/science/explained';
+import type { ScienceFlag } from '@spincycle/shared/science/explained';
 import type { TargetPlan, TargetPlanQuantities } from '@spincycle/shared/science/target-plan';
 import { MAG_PER_RELATIVE_FLUX } from '@spincycle/shared/science/visit-precision';
 import { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS, SOURCE_TAG_LABELS } from '@spincycle/shared/science/quantity-labels';
-import { formatMinorCurrency } from '../../ui/units/format-units';
+import { formatMinorCurrency, formatPercent } from '../../ui/units/format-units';
 
 export { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS as TAG_DESCRIPTIONS };
 
@@ -58,11 +60,18 @@ const COUNTS: ReadonlySet<QuantityKey> = new Set<QuantityKey>([
   'visits',
   'visitsForDetection',
   'visitsForCadence',
+  'visitsForCompleteness50',
+  'visitsForCompleteness90',
+  'visitsForCompleteness99',
   'visitsPerNight',
+  'visitNights',
   'independentFrequencies',
   'baselineDays',
   'nightStepDays',
 ]);
+
+/** Probabilities held as 0–1, shown as percentages (`90 %`). */
+const PERCENTS: ReadonlySet<QuantityKey> = new Set<QuantityKey>(['requestedCompleteness', 'completeness']);
 
 /** One quantity of the plan, formatted. */
 export interface QuantityRow {
@@ -81,26 +90,51 @@ export interface QuantityRow {
 /** Formats one explained quantity (the fee as money from minor units). */
 export function quantityRow(plan: TargetPlan, key: QuantityKey, locale: string): QuantityRow {
   const q: Explained<number | null> = plan.quantities[key];
+  const percent = PERCENTS.has(key);
   const value =
     key === 'feeMinor' && q.value !== null && Number.isFinite(q.value)
       ? formatMinorCurrency(q.value, plan.currency, locale)
-      : formatValue(q.value, locale, { integer: COUNTS.has(key) });
-  return {
+      : percent
+        ? formatPercent(q.value, locale)
+        : formatValue(q.value, locale, { integer: COUNTS.has(key) });
+  const row: QuantityRow = {
     key,
     label: QUANTITY_LABELS[key],
     value,
-    unit: key === 'feeMinor' ? '' : displayUnit(q.unit),
+    unit: key === 'feeMinor' || percent ? '' : displayUnit(q.unit),
     alternative: null,
     why: q.why,
     source: q.source,
     tag: q.tag,
     tagLabel: SOURCE_TAG_LABELS[q.tag],
   };
+  const noPeriod = key === 'periodDays' ? noExpectedPeriodFlag(plan) : null;
+  if (noPeriod) {
+    // The relation's number exists but means nothing here (gyrochronology.ts: "must not be shown").
+    row.value = 'No expected period';
+    row.unit = '';
+    row.why = noExpectedPeriodReason(noPeriod);
+    row.source = noPeriod.source ?? row.source;
+  }
+  return row;
 }
 
-/** Every quantity of the plan, in the plan's order. */
+/** Every quantity of the plan, in the plan's order (only those with a label: a plan stored by an older model may lack some). */
 export function allQuantityRows(plan: TargetPlan, locale: string): QuantityRow[] {
-  return (Object.keys(plan.quantities) as QuantityKey[]).map((key) => quantityRow(plan, key, locale));
+  return (Object.keys(plan.quantities) as QuantityKey[]).filter((key) => key in QUANTITY_LABELS).map((key) => quantityRow(plan, key, locale));
+}
+
+/** The blocking flag saying that no relation gives the star a period (the proposer must give one), or null. */
+export function noExpectedPeriodFlag(plan: TargetPlan): ScienceFlag | null {
+  return plan.flags.find((flag) => flag.code === 'noExpectedPeriod' && flag.severity === 'blocking') ?? null;
+}
+
+/** Why there is no expected period, as a sentence without the repeated "no expected period:" lead-in. */
+export function noExpectedPeriodReason(flag: ScienceFlag): string {
+  const reason = flag.message.replace(/^(\s*no expected period\s*:\s*)+/i, '').trim();
+  if (!reason) return 'No relation gives this star a period: enter its expected period to plan it.';
+  const capital = reason[0].toUpperCase() + reason.slice(1);
+  return /[.!?]$/.test(capital) ? capital : `${capital}.`;
 }
 
 /** ppm → mmag for small relative-flux variations: σ(mag) = 2.5/ln 10 · σ(flux)/flux (Howell 2006). */
@@ -119,8 +153,10 @@ export function keyRows(plan: TargetPlan, locale: string): QuantityRow[] {
   const f = (v: number) => formatValue(v, locale);
 
   const period = row('periodDays');
-  period.alternative = `plausible ${f(q.shortestPeriodDays.value)}–${f(q.longestPeriodDays.value)} d`;
-  period.why = `${q.periodDays.why}; range: ${q.shortestPeriodDays.why}`;
+  if (!noExpectedPeriodFlag(plan)) {
+    period.alternative = `plausible ${f(q.shortestPeriodDays.value)}–${f(q.longestPeriodDays.value)} d`;
+    period.why = `${q.periodDays.why}; range: ${q.shortestPeriodDays.why}`;
+  }
 
   const rossby = row('rossbyNumber');
   rossby.label = `Rossby number, ${plan.turnoverScaleLabel} τ scale`;
@@ -137,17 +173,76 @@ export function keyRows(plan: TargetPlan, locale: string): QuantityRow[] {
   cadence.label = 'Cadence (sample interval)';
   cadence.alternative = q.nightStepDays.why;
 
-  return [
-    period,
-    rossby,
-    amplitude,
-    precision,
-    row('exposureSeconds'),
-    row('visits'),
-    row('visitsPerNight'),
-    cadence,
-    row('baselineDays'),
-    row('nodeHours'),
-    row('feeMinor'),
-  ];
+  const rows = [period, rossby, amplitude, precision, row('exposureSeconds'), row('visits')];
+  if (q.completeness) {
+    const completeness = row('completeness');
+    completeness.label = 'Completeness';
+    if (q.requestedCompleteness) completeness.alternative = `asked for ${formatPercent(q.requestedCompleteness.value, locale)}`;
+    rows.push(completeness);
+  }
+  rows.push(row('visitsPerNight'));
+  if (q.visitNights) rows.push(row('visitNights'));
+  rows.push(cadence, row('baselineDays'));
+  if (q.skyBrightnessMagPerArcsec2) rows.push(row('skyBrightnessMagPerArcsec2'));
+  if (q.worstSkyBrightnessMagPerArcsec2) rows.push(row('worstSkyBrightnessMagPerArcsec2'));
+  rows.push(row('nodeHours'), row('feeMinor'));
+  return rows;
+}
+
+/** One line of the "price of certainty": what another completeness level would cost. */
+export interface CompletenessPrice {
+  key: 'visitsForCompleteness50' | 'visitsForCompleteness90' | 'visitsForCompleteness99';
+  completeness: string;
+  visits: string;
+  /** Node-hours scaled from the plan's in proportion to the visits (weather loss included). */
+  nodeHours: string;
+  why: string;
+  /** The level the plan is sized for. */
+  current: boolean;
+}
+
+const PRICE_LEVELS = [
+  ['visitsForCompleteness50', 0.5],
+  ['visitsForCompleteness90', 0.9],
+  ['visitsForCompleteness99', 0.99],
+] as const;
+
+/**
+ * Visits (and node-hours, which scale with the visits at a fixed visit length) for 50 %, 90 %
+ * and 99 % completeness; empty for a plan that does not carry them.
+ */
+export function completenessPrices(plan: TargetPlan, locale: string): CompletenessPrice[] {
+  const q = plan.quantities;
+  const visits = q.visits.value;
+  const requested = q.requestedCompleteness?.value;
+  return PRICE_LEVELS.filter(([key]) => q[key] !== undefined).map(([key, level]) => {
+    const n = q[key].value;
+    const hours = visits > 0 && Number.isFinite(n) ? (q.nodeHours.value * n) / visits : Number.NaN;
+    return {
+      key,
+      completeness: formatPercent(level, locale),
+      visits: formatValue(n, locale, { integer: true }),
+      nodeHours: formatValue(hours, locale),
+      why: q[key].why,
+      current: requested !== undefined && Math.abs(requested - level) < 1e-9,
+    };
+  });
+}
+
+/**
+ * How the campaign must be analysed, in a sentence: the period range and false-alarm
+ * probability the plan was sized with (periods 1/fmax to 1/fmin), so that the analysis
+ * searches the same band. Null when the plan does not say (or has no expected period).
+ */
+export function searchBandSentence(plan: TargetPlan, locale: string): string | null {
+  const analysis = plan.analysis;
+  if (!analysis || noExpectedPeriodFlag(plan)) return null;
+  const { minFrequencyPerDay: fmin, maxFrequencyPerDay: fmax } = analysis;
+  if (!(fmin > 0 && fmax > fmin && Number.isFinite(fmax))) return null;
+  const f = (v: number) => formatValue(v, locale);
+  const series = analysis.series === 'nightlyMeans' ? ', after averaging the visits of each night' : ', using every visit on its own';
+  return (
+    `Search the light curve for periods between ${f(1 / fmax)} and ${f(1 / fmin)} d at false-alarm probability ` +
+    `${formatValue(analysis.falseAlarmProbability, locale)}${series}: the plan's visits were sized for that search.`
+  );
 }

@@ -3,12 +3,14 @@
  * load, the translation of the form's value into the science core's input, and the mapping of
  * the core's `ScienceInputError.field` back to the control that shows it. Range checks are
  * the science core's (one validation source); the form only checks that required numbers are
- * there.
+ * there, and the completeness range, which the form shows in percent where the core speaks in
+ * fractions (its message would read "within [0.5, 0.99]" under a field asking for 50–99).
  */
 import { FormControl, FormGroup } from '@angular/forms';
 import type { NodeBand } from '@spincycle/shared/facility/facility-types';
 import type { TargetColourSystem } from '@spincycle/shared/science/colour-sequence';
 import type { GyroRelationId } from '@spincycle/shared/science/gyrochronology';
+import { COMPLETENESS_RANGE, DEFAULT_COMPLETENESS } from '@spincycle/shared/proposals/proposal-schemas';
 import type { TargetPlanOptions, TargetPlanTarget } from '@spincycle/shared/science/target-plan';
 
 export type ExposureMode = 'auto' | 'fixed';
@@ -17,7 +19,8 @@ export type RelationChoice = GyroRelationId | 'default';
 
 /**
  * Defaults: a K dwarf (BP−RP 1.10, about K2V) of an 800 ± 100 Myr cluster at G = 11.5, the
- * kind of star a gyrochronology campaign calibrates on; FAP 1 % (the core's default).
+ * kind of star a gyrochronology campaign calibrates on; FAP 1 % and 90 % completeness (the
+ * core's defaults).
  */
 export const PLANNER_DEFAULTS = {
   starName: 'Star A-17',
@@ -29,7 +32,16 @@ export const PLANNER_DEFAULTS = {
   band: 'G' as NodeBand,
   exposureSeconds: 30,
   falseAlarmProbability: 0.01,
+  completenessPercent: Math.round(DEFAULT_COMPLETENESS * 100),
 } as const;
+
+/** The completeness field's range, percent (a proposal's range: 50–99 %). */
+export const COMPLETENESS_PERCENT_RANGE = {
+  min: Math.round(COMPLETENESS_RANGE.min * 100),
+  max: Math.round(COMPLETENESS_RANGE.max * 100),
+} as const;
+
+const COMPLETENESS_MESSAGE = `Enter a completeness between ${COMPLETENESS_PERCENT_RANGE.min} % and ${COMPLETENESS_PERCENT_RANGE.max} %`;
 
 /** Debounce of the live recomputation, ms. */
 export const RECOMPUTE_DEBOUNCE_MS = 150;
@@ -45,11 +57,16 @@ export function createPlannerForm() {
     ageUncertaintyMyr: new FormControl<number | null>(d.ageUncertaintyMyr),
     magnitude: new FormControl<number | null>(d.magnitude),
     band: new FormControl<NodeBand>(d.band, { nonNullable: true }),
+    /** The proposer's expected period, days (optional; needed where no relation gives one). */
+    periodDays: new FormControl<number | null>(null),
+    periodUncertaintyDays: new FormControl<number | null>(null),
     nodeId: new FormControl<number | null>(null),
     exposureMode: new FormControl<ExposureMode>('auto', { nonNullable: true }),
     exposureSeconds: new FormControl<number | null>(d.exposureSeconds),
     relation: new FormControl<RelationChoice>('default', { nonNullable: true }),
     falseAlarmProbability: new FormControl<number | null>(d.falseAlarmProbability),
+    /** Probability that the plan recovers the period, percent (the core takes the fraction). */
+    completenessPercent: new FormControl<number | null>(d.completenessPercent),
     ra: new FormControl('', { nonNullable: true }),
     dec: new FormControl('', { nonNullable: true }),
     cycleId: new FormControl<number | null>(null),
@@ -68,13 +85,22 @@ const REQUIRED: readonly [PlannerField, string][] = [
   ['ageMyr', 'Enter the age'],
   ['magnitude', 'Enter the magnitude'],
   ['falseAlarmProbability', 'Enter the false-alarm probability'],
+  ['completenessPercent', COMPLETENESS_MESSAGE],
 ];
 
-/** Required numbers that are missing (an empty number field reads as null). */
+/**
+ * Required numbers that are missing (an empty number field reads as null), and a completeness
+ * outside 50–99 %.
+ */
 export function missingFields(value: PlannerValue): FieldErrors {
   const errors: FieldErrors = {};
   for (const [field, message] of REQUIRED) if (value[field] === null) errors[field] = message;
   if (value.exposureMode === 'fixed' && value.exposureSeconds === null) errors.exposureSeconds = 'Enter the exposure or choose automatic';
+  const c = value.completenessPercent;
+  if (c !== null && !(Number.isFinite(c) && c >= COMPLETENESS_PERCENT_RANGE.min && c <= COMPLETENESS_PERCENT_RANGE.max)) {
+    errors.completenessPercent = `${COMPLETENESS_MESSAGE} (got ${c} %)`;
+  }
+  if (value.periodDays === null && value.periodUncertaintyDays !== null) errors.periodDays = 'Enter the period as well, or clear its uncertainty';
   return errors;
 }
 
@@ -88,7 +114,12 @@ export function toPlanInput(value: PlannerValue): { target: TargetPlanTarget; op
   };
   if (value.reddeningEbv !== null) target.reddeningEbvMag = value.reddeningEbv;
   if (value.ageUncertaintyMyr !== null) target.ageUncertaintyMyr = value.ageUncertaintyMyr;
-  const options: TargetPlanOptions = { falseAlarmProbability: value.falseAlarmProbability ?? Number.NaN };
+  if (value.periodDays !== null) target.periodDays = value.periodDays;
+  if (value.periodUncertaintyDays !== null) target.periodUncertaintyDays = value.periodUncertaintyDays;
+  const options: TargetPlanOptions = {
+    falseAlarmProbability: value.falseAlarmProbability ?? Number.NaN,
+    completeness: (value.completenessPercent ?? Number.NaN) / 100,
+  };
   if (value.relation !== 'default') options.relation = value.relation;
   if (value.exposureMode === 'fixed') options.exposureSeconds = value.exposureSeconds ?? Number.NaN;
   return { target, options };
@@ -101,8 +132,11 @@ const SCIENCE_FIELDS: readonly [RegExp, PlannerField][] = [
   [/^target\.ageMyr$/, 'ageMyr'],
   [/^target\.ageUncertaintyMyr$/, 'ageUncertaintyMyr'],
   [/^target\.magnitude(\.|$)/, 'magnitude'],
+  [/^target\.periodDays$/, 'periodDays'],
+  [/^target\.periodUncertaintyDays$/, 'periodUncertaintyDays'],
   [/^options\.exposureSeconds$/, 'exposureSeconds'],
   [/^options\.falseAlarmProbability$/, 'falseAlarmProbability'],
+  [/^options\.completeness$/, 'completenessPercent'],
   [/^options\.relation$/, 'relation'],
   [/^(node|site)(\.|$)/, 'nodeId'],
 ];

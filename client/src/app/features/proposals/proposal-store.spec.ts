@@ -16,9 +16,10 @@ describe('ProposalStore', () => {
   afterEach(() => backend.verify());
 
   it('changedFields: only what differs, node ids compared as a set', () => {
-    const base = { title: 'A', abstract: 'x', category: null, nodeIds: [1, 2] };
+    const base = { title: 'A', abstract: 'x', category: null, nodeIds: [1, 2], completeness: 0.9 };
     expect(changedFields(base, { ...base, nodeIds: [2, 1] })).toEqual({});
     expect(changedFields(base, { ...base, abstract: 'y', category: 'Open clusters' })).toEqual({ abstract: 'y', category: 'Open clusters' });
+    expect(changedFields(base, { ...base, completeness: 0.95 })).toEqual({ completeness: 0.95 });
   });
 
   it('leaving the editor while an edit waits for its debounce sends it at once', async () => {
@@ -29,7 +30,7 @@ describe('ProposalStore', () => {
     backend.expectOne('/api/proposals/5').flush(testProposal());
     await Promise.resolve();
     store.rebase(testProposal());
-    store.edit({ title: 'Spin-down of the Lantern cluster', abstract: 'Typed just before leaving.', category: 'Open clusters', nodeIds: [1] });
+    store.edit({ title: 'Spin-down of the Lantern cluster', abstract: 'Typed just before leaving.', category: 'Open clusters', nodeIds: [1], completeness: 0.9 });
     backend.expectNone((req) => req.method === 'PATCH');
 
     injector.destroy();
@@ -45,14 +46,51 @@ describe('ProposalStore', () => {
     backend.expectOne('/api/proposals/5').flush(testProposal());
     await Promise.resolve();
     store.rebase(testProposal());
-    store.edit({ title: '  ', abstract: 'Rotation periods of forty K dwarfs.', category: 'Open clusters', nodeIds: [1] });
+    store.edit({ title: '  ', abstract: 'Rotation periods of forty K dwarfs.', category: 'Open clusters', nodeIds: [1], completeness: 0.9 });
     store.flush();
     backend.expectNone((req) => req.method === 'PATCH');
     expect(store.saveState()).toBe('error');
     expect(store.saveError()?.message).toBe('Give the proposal a title to save it.');
 
-    store.edit({ title: '  ', abstract: 'Changed.', category: 'Open clusters', nodeIds: [1] });
+    store.edit({ title: '  ', abstract: 'Changed.', category: 'Open clusters', nodeIds: [1], completeness: 0.9 });
     store.flush();
     expect(backend.expectOne((req) => req.method === 'PATCH').request.body).toEqual({ version: 3, abstract: 'Changed.' });
+  });
+
+  it('a completeness out of range or empty is held back (and said so) while the other changes save', async () => {
+    const store = TestBed.runInInjectionContext(() => new ProposalStore());
+    store.id.set(5);
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal());
+    await Promise.resolve();
+    store.rebase(testProposal());
+    const values = { title: 'Spin-down of the Lantern cluster', abstract: 'Rotation periods of forty K dwarfs.', category: 'Open clusters', nodeIds: [1] };
+    for (const completeness of [0.3, 1, null]) {
+      store.edit({ ...values, completeness });
+      store.flush();
+      backend.expectNone((req) => req.method === 'PATCH');
+      expect(store.saveState()).toBe('error');
+      expect(store.saveError()?.message).toBe('Completeness must be between 50 % and 99 % to save it.');
+    }
+
+    store.edit({ ...values, abstract: 'Changed.', completeness: 0.3 });
+    store.flush();
+    expect(backend.expectOne((req) => req.method === 'PATCH').request.body).toEqual({ version: 3, abstract: 'Changed.' });
+  });
+
+  it('a valid completeness is sent as the fraction with the version read', async () => {
+    const store = TestBed.runInInjectionContext(() => new ProposalStore());
+    store.id.set(5);
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal());
+    await Promise.resolve();
+    store.rebase(testProposal());
+    store.edit({ title: 'Spin-down of the Lantern cluster', abstract: 'Rotation periods of forty K dwarfs.', category: 'Open clusters', nodeIds: [1], completeness: 0.95 });
+    store.flush();
+    const patch = backend.expectOne((req) => req.method === 'PATCH');
+    expect(patch.request.body).toEqual({ version: 3, completeness: 0.95 });
+    patch.flush(testProposal({ completeness: 0.95, version: 4 }));
+    expect(store.saveState()).toBe('saved');
+    expect(store.proposal()?.completeness).toBe(0.95);
   });
 });

@@ -1,7 +1,7 @@
 import { HttpErrorResponse } from '@angular/common/http';
 import { computed, DestroyRef, inject, Injectable, signal } from '@angular/core';
 import { isEditableState } from '@spincycle/shared/proposals/proposal-states';
-import type { Proposal, UpdateProposalInput } from '@spincycle/shared/proposals/proposal-schemas';
+import { completenessSchema, type Proposal, type UpdateProposalInput } from '@spincycle/shared/proposals/proposal-schemas';
 import { readApiError } from '../../core/http/api-error-message';
 import { ProposalApi } from './proposal-api';
 
@@ -14,13 +14,21 @@ export interface OverviewValues {
   abstract: string;
   category: string | null;
   nodeIds: number[];
+  /** Probability that each plan recovers the period, as a fraction; null while the field is empty. */
+  completeness: number | null;
 }
 
 export type SaveState = 'idle' | 'pending' | 'saving' | 'saved' | 'error' | 'conflict';
 
 /** The values of the overview as stored on the server. */
 export function overviewOf(proposal: Proposal): OverviewValues {
-  return { title: proposal.title, abstract: proposal.abstract, category: proposal.category, nodeIds: [...proposal.nodeIds] };
+  return {
+    title: proposal.title,
+    abstract: proposal.abstract,
+    category: proposal.category,
+    nodeIds: [...proposal.nodeIds],
+    completeness: proposal.completeness,
+  };
 }
 
 /** The fields of `next` that differ from `base` (node ids compared as sets). */
@@ -32,6 +40,7 @@ export function changedFields(base: OverviewValues, next: OverviewValues): Parti
   const a = [...base.nodeIds].sort((x, y) => x - y).join(',');
   const b = [...next.nodeIds].sort((x, y) => x - y).join(',');
   if (a !== b) changes.nodeIds = [...next.nodeIds];
+  if (next.completeness !== base.completeness) changes.completeness = next.completeness;
   return changes;
 }
 
@@ -132,13 +141,27 @@ export class ProposalStore {
     const draft = this.draft();
     const id = this.id();
     if (!draft || id === null || !this.base || this.conflict() || this.inFlight) return;
-    const changes = changedFields(this.base.values, draft);
-    // The title is required: an emptied title waits (the form says why) while the rest saves.
-    const blankTitle = changes.title !== undefined && changes.title.trim() === '';
-    if (blankTitle) delete changes.title;
-    if (Object.keys(changes).length === 0) {
-      if (blankTitle) {
-        this.saveError.set({ message: 'Give the proposal a title to save it.' });
+    const { completeness, ...changes } = changedFields(this.base.values, draft);
+    // A field the server would refuse waits (the form says why) while the rest saves: an
+    // emptied title (required), a completeness that is empty or out of range.
+    const held: string[] = [];
+    if (changes.title !== undefined && changes.title.trim() === '') {
+      delete changes.title;
+      held.push('Give the proposal a title to save it.');
+    }
+    const input: UpdateProposalInput = { version: this.base.version, ...changes };
+    if (completeness !== undefined) {
+      const checked = completenessSchema.safeParse(completeness);
+      if (checked.success) input.completeness = checked.data;
+      else {
+        const message = checked.error.issues[0].message;
+        held.push(`${message.charAt(0).toUpperCase()}${message.slice(1)} to save it.`);
+      }
+    }
+    const sent: Partial<OverviewValues> = { ...changes, ...(input.completeness !== undefined ? { completeness: input.completeness } : {}) };
+    if (Object.keys(sent).length === 0) {
+      if (held.length) {
+        this.saveError.set({ message: held.join(' ') });
         this.saveState.set('error');
       } else {
         this.draft.set(null);
@@ -146,15 +169,14 @@ export class ProposalStore {
       }
       return;
     }
-    const input: UpdateProposalInput = { version: this.base.version, ...changes };
     this.inFlight = true;
     this.saveState.set('saving');
     this.saveError.set(null);
     this.api.update(id, input).subscribe({
-      next: (saved) => {
+      next: (stored) => {
         this.inFlight = false;
-        this.base = { values: { ...this.base!.values, ...changes }, version: saved.version };
-        this.replace(saved);
+        this.base = { values: { ...this.base!.values, ...sent }, version: stored.version };
+        this.replace(stored);
         this.savedAt.set(new Date());
         const latest = this.draft();
         if (latest && Object.keys(changedFields(this.base.values, latest)).length > 0) {

@@ -1,4 +1,4 @@
-import { formatLatitude, formatLongitude, formatMinorCurrency } from './format-units';
+import { formatLatitude, formatLongitude, formatMinorCurrency, formatPercent } from './format-units';
 
 describe('format-units', () => {
   it('formatLatitude: hemisphere letter from the sign, magnitude with 3 decimals', () => {
@@ -17,5 +17,15 @@ describe('format-units', () => {
     expect(formatMinorCurrency(720000, 'jpy', 'en-US')).toBe('¥720,000');
     // Intl separates the code with a no-break space.
     expect(formatMinorCurrency(12345, 'kwd', 'en-US')).toBe('KWD\u00a012.345');
+  });
+
+  it('formatPercent: whole percent with a space, never a certain 100 % below 1, em dash when not finite', () => {
+    expect(formatPercent(0.9, 'en-US')).toBe('90 %');
+    expect(formatPercent(0.904, 'en-US')).toBe('90 %');
+    expect(formatPercent(0.9996, 'en-US')).toBe('99.9 %');
+    expect(formatPercent(0.0092, 'en-US')).toBe('0.92 %');
+    expect(formatPercent(1, 'en-US')).toBe('100 %');
+    expect(formatPercent(Number.NaN, 'en-US')).toBe('—');
+    expect(formatPercent(null, 'en-US')).toBe('—');
   });
 });

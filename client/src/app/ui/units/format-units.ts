@@ -27,3 +27,21 @@ export function formatMinorCurrency(amountMinor: number, currency: string, local
   const digits = format.resolvedOptions().maximumFractionDigits ?? 2;
   return format.format(amountMinor / 10 ** digits);
 }
+
+/**
+ * A probability (0–1) as a percentage with a space before the sign, `90 %`: whole percent,
+ * one decimal above 99 % (cut, not rounded, so 0.9996 never reads as a certain 100 %) and two
+ * significant figures below 10 %. An em dash for anything not finite.
+ */
+export function formatPercent(fraction: number | null | undefined, locale: string): string {
+  if (fraction === null || fraction === undefined || !Number.isFinite(fraction)) return '—';
+  let percent = fraction * 100;
+  let options: Intl.NumberFormatOptions = { maximumFractionDigits: 0 };
+  if (percent > 99 && percent < 100) {
+    percent = Math.floor(percent * 10) / 10;
+    options = { maximumFractionDigits: 1 };
+  } else if (percent > 0 && percent < 10) {
+    options = { maximumSignificantDigits: 2 };
+  }
+  return `${new Intl.NumberFormat(locale, options).format(percent)} %`;
+}

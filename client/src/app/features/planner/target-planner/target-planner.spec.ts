@@ -84,7 +84,7 @@ const DEFAULT_TARGET: TargetPlanTarget = {
   ageUncertaintyMyr: PLANNER_DEFAULTS.ageUncertaintyMyr,
   magnitude: { value: PLANNER_DEFAULTS.magnitude, band: PLANNER_DEFAULTS.band },
 };
-const DEFAULT_OPTIONS = { falseAlarmProbability: PLANNER_DEFAULTS.falseAlarmProbability };
+const DEFAULT_OPTIONS = { falseAlarmProbability: PLANNER_DEFAULTS.falseAlarmProbability, completeness: PLANNER_DEFAULTS.completenessPercent / 100 };
 
 describe('TargetPlanner', () => {
   let fixture: ComponentFixture<TargetPlanner>;
@@ -154,7 +154,21 @@ describe('TargetPlanner', () => {
     const headline = q('[data-testid=headline]')!;
     expect(headline.getAttribute('aria-live')).toBe('polite');
     expect(headline.textContent).toContain(plan.feasible ? 'Feasible on N1' : 'Not feasible on N1');
-    // All 36 numbers, and both gyrochronology charts.
+    // Completeness beside the visits, as a percentage; the price of other levels; the search band.
+    expect(keyValue('completeness')).toBe(`${Math.round(q0.completeness.value * 100)} %`);
+    expect(q('[data-key=completeness] .why')?.textContent).toContain(q0.completeness.why.slice(0, 20));
+    expect(q('[data-key=completeness] .alt')?.textContent).toContain('asked for 90 %');
+    const prices = q('[data-testid=completeness-prices]')!;
+    expect(prices.querySelectorAll('tbody tr')).toHaveLength(3);
+    expect(prices.querySelector('tr.current th')?.textContent).toContain('90 %');
+    expect(prices.querySelector('[data-key=visitsForCompleteness99] td')?.textContent).toBe(formatValue(q0.visitsForCompleteness99.value, 'en-US', { integer: true }));
+    expect(q('[data-testid=search-band]')?.textContent).toContain(
+      `Search the light curve for periods between ${formatValue(1 / plan.analysis.maxFrequencyPerDay, 'en-US')} and ${formatValue(1 / plan.analysis.minFrequencyPerDay, 'en-US')} d at false-alarm probability 0.01`,
+    );
+    expect(q('[data-key=skyBrightnessMagPerArcsec2] .num')?.textContent).toBe('21.6');
+    // No period fields while the relation gives a period.
+    expect(q('[data-testid=period-input]')).toBeNull();
+    // Every number, and both gyrochronology charts.
     expect(host().querySelectorAll('[data-testid=all-numbers] tbody tr')).toHaveLength(Object.keys(q0).length);
     expect(q('app-gyrochrone-chart canvas')?.getAttribute('aria-label')).toContain('Expected rotation period against age');
     expect(q('app-period-colour-chart canvas')?.getAttribute('aria-label')).toContain('against intrinsic colour');
@@ -192,6 +206,51 @@ describe('TargetPlanner', () => {
     await settle();
     expect(q('[data-testid=colour-error]')?.textContent).toContain('Enter the colour index');
     expect(text()).not.toMatch(/NaN|Infinity/);
+  });
+
+  it('completeness: 95 % plans for it; 30 % is refused under the field with the range in percent', async () => {
+    await load();
+    await type('completeness-input', '95');
+    await settle();
+    const plan95 = computeTargetPlan(DEFAULT_TARGET, N1, SITE, { ...DEFAULT_OPTIONS, completeness: 0.95 });
+    expect(q('[data-key=completeness] .alt')?.textContent).toContain('asked for 95 %');
+    expect(keyValue('visits')).toBe(formatValue(plan95.quantities.visits.value, 'en-US', { integer: true }));
+
+    await type('completeness-input', '30');
+    await settle();
+    expect(q('[data-testid=completeness-error]')?.textContent).toContain('Enter a completeness between 50 % and 99 % (got 30 %)');
+    expect(q('[data-testid=completeness-input]')?.getAttribute('aria-invalid')).toBe('true');
+    expect(q('[data-testid=headline]')?.textContent).toContain('Completeness: Enter a completeness between 50 % and 99 %');
+    expect(q('[data-testid=key-rows]')).toBeNull();
+  });
+
+  it('no expected period: the period row says so with the reason, the period field is offered and the proposer’s period is used', async () => {
+    await load();
+    await type('age-input', '14000');
+    await settle();
+    expect(keyValue('periodDays')).toBe('No expected period');
+    expect(q('[data-key=periodDays] .alt')).toBeNull();
+    expect(q('[data-key=periodDays] .why')?.textContent).toContain('The given age 14000 Myr exceeds the age of the universe');
+    expect(q('[data-testid=headline]')?.textContent).toContain('Not feasible on N1');
+    expect(q('[data-testid=headline]')?.textContent).toContain('No expected period.');
+    expect(q('[data-testid=search-band]')).toBeNull();
+    expect(q('[data-testid=completeness-prices]')).toBeNull();
+    expect(q('[data-testid=period-needed]')?.textContent).toContain('No relation gives this star a period');
+    expect(q('[data-testid=period-input]')).not.toBeNull();
+    expect(text()).not.toMatch(/NaN|Infinity/);
+
+    await type('period-input', '30');
+    await settle();
+    const given = computeTargetPlan({ ...DEFAULT_TARGET, ageMyr: 14000, periodDays: 30 }, N1, SITE, DEFAULT_OPTIONS);
+    expect(keyValue('periodDays')).toBe('30');
+    expect(q('[data-key=periodDays] .why')?.textContent).toContain(given.quantities.periodDays.why.slice(0, 20));
+    // The field stays while it holds a value; the notice that a period is needed goes.
+    expect(q('[data-testid=period-input]')).not.toBeNull();
+    expect(q('[data-testid=period-needed]')).toBeNull();
+
+    await type('period-input', '0.01');
+    await settle();
+    expect(q('[data-testid=period-error]')?.textContent).toMatch(/^\s*Must be within/);
   });
 
   it('a fixed exposure outside the node range is refused under the exposure field', async () => {
@@ -297,19 +356,23 @@ describe('TargetPlanner', () => {
 
     const charts = host().querySelectorAll('app-sky-window-chart');
     expect(charts).toHaveLength(2);
+    const windows = targetWindowsFromReport(response.nodes[0].report.targets[0]);
     const plan = computeTargetPlan(DEFAULT_TARGET, N1, SITE, DEFAULT_OPTIONS);
-    const expected = combinePlanWithSky(plan, targetWindowsFromReport(response.nodes[0].report.targets[0]), N1).sky.verdict;
+    const expected = combinePlanWithSky(plan, windows, N1).sky.verdict;
     expect(charts[0].querySelector('[data-testid=sky-verdict]')?.textContent).toContain(expected);
     expect(charts[0].querySelectorAll('[data-testid=sky-window-table] tbody tr')).toHaveLength(response.nodes[0].report.nights.length);
     expect(q('[data-testid=headline]')?.textContent).toContain('Sky window from Hollin Moor');
     expect(q('.results mat-progress-bar')).toBeNull();
+    // The sky assumed is the site's dark sky, and the row says so.
+    expect(q('[data-key=skyBrightnessMagPerArcsec2] .why')?.textContent).toContain("the site's dark sky");
+    expect(q('[data-key=worstSkyBrightnessMagPerArcsec2]')).not.toBeNull();
 
     // A younger star asks for another cadence: the verdict follows the plan, without asking the server again.
     await type('age-input', '150');
     await settle();
     backend.expectNone('/api/sky-windows');
     const younger = computeTargetPlan({ ...DEFAULT_TARGET, ageMyr: 150 }, N1, SITE, DEFAULT_OPTIONS);
-    const verdict = combinePlanWithSky(younger, targetWindowsFromReport(response.nodes[0].report.targets[0]), N1).sky.verdict;
+    const verdict = combinePlanWithSky(younger, windows, N1).sky.verdict;
     expect(verdict).not.toBe(expected);
     expect(host().querySelector('app-sky-window-chart [data-testid=sky-verdict]')?.textContent).toContain(verdict);
   });

@@ -44,12 +44,23 @@ import { catchError, debounceTime, distinctUntilChanged, map, of, pairwise, star
 import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { SkyWindowChart } from '../../../ui/charts/sky-window-chart/sky-window-chart';
-import { formatMinorCurrency } from '../../../ui/units/format-units';
+import { formatMinorCurrency, formatPercent } from '../../../ui/units/format-units';
 import { GyrochroneChart } from '../gyrochrone-chart/gyrochrone-chart';
 import { gyrochroneSeries, periodColourSeries, type StarMarker } from '../gyro-curves';
 import { PeriodColourChart } from '../period-colour-chart/period-colour-chart';
-import { allQuantityRows, formatValue, keyRows, SEVERITY_LABELS, TAG_DESCRIPTIONS } from '../plan-display';
 import {
+  allQuantityRows,
+  completenessPrices,
+  formatValue,
+  keyRows,
+  noExpectedPeriodFlag,
+  noExpectedPeriodReason,
+  searchBandSentence,
+  SEVERITY_LABELS,
+  TAG_DESCRIPTIONS,
+} from '../plan-display';
+import {
+  COMPLETENESS_PERCENT_RANGE,
   controlForScienceField,
   controlForSkyField,
   createPlannerForm,
@@ -105,11 +116,14 @@ const FIELD_LABELS: Readonly<Record<PlannerField, string>> = {
   ageUncertaintyMyr: 'Age uncertainty',
   magnitude: 'Magnitude',
   band: 'Band',
+  periodDays: 'Period',
+  periodUncertaintyDays: 'Period uncertainty',
   nodeId: 'Node',
   exposureMode: 'Exposure',
   exposureSeconds: 'Exposure',
   relation: 'Relation',
   falseAlarmProbability: 'False-alarm probability',
+  completenessPercent: 'Completeness',
   ra: 'Right ascension',
   dec: 'Declination',
   cycleId: 'Cycle',
@@ -171,6 +185,7 @@ export default class TargetPlanner {
   protected readonly starTypes = DWARF_SEQUENCE.map((row) => row.spectralType);
   protected readonly tagDescriptions = TAG_DESCRIPTIONS;
   protected readonly severityLabels = SEVERITY_LABELS;
+  protected readonly completenessRange = COMPLETENESS_PERCENT_RANGE;
 
   private readonly value$: Observable<PlannerValue> = this.form.valueChanges.pipe(map(() => this.form.getRawValue()));
   /** The form's value as typed (for hints and toggles). */
@@ -240,9 +255,34 @@ export default class TargetPlanner {
     }
   });
 
+  /**
+   * The plan the results show, under the site's dark sky: the sky-window report the browser
+   * receives does not carry the Moon's altitude, so the moonlit sky of the proposal's plans
+   * cannot be recomputed here (the sky row's why line says so).
+   */
   protected readonly plan = computed(() => {
     const state = this.planState();
     return state.kind === 'ok' ? state.plan : null;
+  });
+
+  /** The blocking "no expected period" flag of the plan: the proposer must give the period. */
+  protected readonly noPeriod = computed(() => {
+    const plan = this.plan();
+    return plan ? noExpectedPeriodFlag(plan) : null;
+  });
+  /** The period fields are offered when the plan needs them, and stay while they hold a value. */
+  protected readonly showPeriodFields = computed(() => {
+    const v = this.live();
+    return this.noPeriod() !== null || v.periodDays !== null || v.periodUncertaintyDays !== null || !!this.fieldErrors().periodDays;
+  });
+
+  protected readonly prices = computed(() => {
+    const plan = this.plan();
+    return plan && !this.noPeriod() ? completenessPrices(plan, this.locale) : [];
+  });
+  protected readonly searchBand = computed(() => {
+    const plan = this.plan();
+    return plan ? searchBandSentence(plan, this.locale) : null;
   });
 
   protected readonly keyRows = computed(() => {
@@ -261,7 +301,8 @@ export default class TargetPlanner {
   /** The star on the charts: the plan's period range at the typed age ± 1σ. */
   private readonly star = computed<StarMarker | null>(() => {
     const state = this.planState();
-    if (state.kind !== 'ok') return null;
+    // Without an expected period there is no point to mark (the relation's number must not be shown).
+    if (state.kind !== 'ok' || this.noPeriod()) return null;
     const q = state.plan.quantities;
     const age = state.target.ageMyr;
     const sigma = state.target.ageUncertaintyMyr ?? 0;
@@ -424,15 +465,27 @@ export default class TargetPlanner {
     const f = (v: number) => formatValue(v, this.locale);
     const skyPanel = this.skyPanels().find((panel) => panel.nodeId === node.id && panel.feasible !== null) ?? null;
     const feasible = skyPanel ? skyPanel.feasible === true : plan.feasible;
+    const noPeriod = this.noPeriod();
+    if (noPeriod) {
+      // The visits and hours follow from a period the relation cannot give: they are not stated.
+      return {
+        tone: 'infeasible' as const,
+        title: `Not feasible on ${node.code}`,
+        detail: `No expected period. ${noExpectedPeriodReason(noPeriod)}`,
+        reason: 'Enter its expected period in the Period field under Star.',
+        sky: null,
+      };
+    }
     const blocking = plan.flags.find((flag) => flag.severity === 'blocking');
     const reason = blocking ? sentence(blocking.message) : skyPanel && !skyPanel.feasible ? sentence(`Sky window: ${skyPanel.reasons[0] ?? 'the cadence does not fit'}`) : null;
     const fee = formatMinorCurrency(q.feeMinor.value, plan.currency, this.locale);
+    const completeness = q.completeness ? ` for ${formatPercent(q.completeness.value, this.locale)} completeness` : '';
     return {
       tone: feasible ? ('feasible' as const) : ('infeasible' as const),
       title: feasible ? `Feasible on ${node.code}` : `Not feasible on ${node.code}`,
       detail:
         `Expected period ${f(q.periodDays.value)} d (plausible ${f(q.shortestPeriodDays.value)}–${f(q.longestPeriodDays.value)} d); ` +
-        `${formatValue(q.visits.value, this.locale, { integer: true })} visits over ${formatValue(q.baselineDays.value, this.locale, { integer: true })} d; ` +
+        `${formatValue(q.visits.value, this.locale, { integer: true })} visits over ${formatValue(q.baselineDays.value, this.locale, { integer: true })} d${completeness}; ` +
         `${f(q.nodeHours.value)} node-hours, ${fee}.`,
       reason,
       sky: skyPanel

@@ -18,6 +18,37 @@ describe('explainRows', () => {
     expect(rows[2]).toEqual(expect.objectContaining({ value: '€194.00', unit: '' }));
     expect(rows[3]).toEqual(expect.objectContaining({ unit: '', tagLabel: 'our choice' }));
   });
+
+  it('completeness asked for and delivered read as percentages; counts in full', () => {
+    const rows = explainRows(
+      {
+        visits: { value: 37268, unit: '1', why: 'Visits.', source: 'Spincycle', tag: 'derived' },
+        requestedCompleteness: { value: 0.9, unit: '1', why: 'Asked for.', source: "the proposal's setting", tag: 'choice' },
+        completeness: { value: 0.9040003, unit: '1', why: 'Delivered.', source: 'Marcum', tag: 'derived' },
+        visitsForCompleteness99: { value: 294, unit: '1', why: 'At 99 %.', source: 'Spincycle', tag: 'derived' },
+      },
+      'en-US',
+      'eur',
+    );
+    expect(rows.map((r) => [r.label, r.value, r.unit])).toEqual([
+      ['Completeness asked for', '90 %', ''],
+      ['Completeness delivered', '90 %', ''],
+      ['Visits for 99 % completeness', '294', ''],
+      ['Visits', '37,268', ''],
+    ]);
+  });
+
+  it('a blocking "no expected period" flag: the period reads as such, with the reason', () => {
+    const rows = explainRows(
+      { periodDays: { value: 74.4, unit: 'd', why: 'Relation.', source: 'Angus et al. (2019)', tag: 'paper' } },
+      'en-US',
+      'eur',
+      [{ code: 'noExpectedPeriod', severity: 'blocking', message: 'no expected period: no expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr' }],
+    );
+    expect(rows[0]).toEqual(
+      expect.objectContaining({ value: 'No expected period', unit: '', why: 'No expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr.' }),
+    );
+  });
 });
 
 describe('PlanExplainDialog', () => {

@@ -69,6 +69,47 @@ describe('ProposalOverview', () => {
     await fixture.whenStable();
   });
 
+  it('completeness: shows the stored fraction in percent with its hint; a new value is autosaved as the fraction', async () => {
+    const completeness = await loader.getHarness(MatInputHarness.with({ selector: '[data-testid=completeness]' }));
+    expect(await completeness.getValue()).toBe('90');
+    const field = fixture.nativeElement.querySelector('.completeness') as HTMLElement;
+    expect(field.textContent).toContain('Completeness');
+    expect(field.textContent).toContain('%');
+    expect(field.textContent).toContain('Chance that the plan recovers each period; higher costs more visits');
+    await completeness.setValue('95');
+    await pause();
+    const patch = backend.expectOne(isPatch);
+    expect(patch.request.body).toEqual({ version: 3, completeness: 0.95 });
+    patch.flush(testProposal({ completeness: 0.95, version: 4 }));
+    await fixture.whenStable();
+    expect(status()).toMatch(/Saved \d\d:\d\d$/);
+    expect(await completeness.getValue()).toBe('95');
+  });
+
+  it('completeness out of range: the field says why (the shared message) and nothing is sent', async () => {
+    const completeness = await loader.getHarness(MatInputHarness.with({ selector: '[data-testid=completeness]' }));
+    await completeness.setValue('30');
+    await completeness.blur();
+    await pause();
+    backend.expectNone(isPatch);
+    expect(fixture.nativeElement.querySelector('[data-testid=error-completeness]')?.textContent).toContain('completeness must be between 50 % and 99 %');
+    expect(status()).toContain('Completeness must be between 50 % and 99 % to save it.');
+  });
+
+  it('a 400 naming completeness shows the server message under the field', async () => {
+    const completeness = await loader.getHarness(MatInputHarness.with({ selector: '[data-testid=completeness]' }));
+    await completeness.setValue('80');
+    await pause();
+    backend
+      .expectOne(isPatch)
+      .flush(
+        { code: 'invalid_input', message: 'Check the highlighted fields', fieldErrors: { completeness: ['completeness refused by the server'] } },
+        { status: 400, statusText: 'Bad Request' },
+      );
+    await fixture.whenStable();
+    expect(fixture.nativeElement.querySelector('[data-testid=error-completeness]')?.textContent).toContain('completeness refused by the server');
+  });
+
   it('409: shows the banner with the server message, keeps the typed text and sends nothing more', async () => {
     const typed = 'A new abstract that someone else did not see.';
     await (await abstract()).setValue(typed);

@@ -1,24 +1,46 @@
 import { DatePipe, DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
-import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { AbstractControl, FormControl, FormGroup, ReactiveFormsModule, ValidationErrors } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { MatCheckbox, MatCheckboxChange } from '@angular/material/checkbox';
 import { MatExpansionPanel, MatExpansionPanelHeader, MatExpansionPanelTitle } from '@angular/material/expansion';
-import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatError, MatFormField, MatHint, MatLabel, MatSuffix } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatOption, MatSelect } from '@angular/material/select';
-import { ABSTRACT_MAX_LENGTH, createProposalSchema, updateProposalSchema } from '@spincycle/shared/proposals/proposal-schemas';
+import {
+  ABSTRACT_MAX_LENGTH,
+  COMPLETENESS_RANGE,
+  completenessSchema,
+  createProposalSchema,
+  updateProposalSchema,
+} from '@spincycle/shared/proposals/proposal-schemas';
 import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
 import { map } from 'rxjs';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { OverviewValues, overviewOf, ProposalStore } from '../proposal-store';
 
+/** The form shows the completeness in percent; the API carries the fraction. */
+export function completenessToPercent(fraction: number | null): number | null {
+  return fraction === null ? null : Number((fraction * 100).toFixed(2));
+}
+
+/** Percent typed in the form → the API's fraction (null while the field is empty). */
+export function completenessFromPercent(percent: number | null): number | null {
+  return percent === null || !Number.isFinite(percent) ? null : Number((percent / 100).toFixed(4));
+}
+
+/** The shared completeness schema applied to the percent the form holds (same message as the server). */
+function completenessPercentValidator(control: AbstractControl<number | null>): ValidationErrors | null {
+  const result = completenessSchema.safeParse(completenessFromPercent(control.value));
+  return result.success ? null : { schema: result.error.issues[0]?.message ?? 'Check this value' };
+}
+
 /**
- * The overview tab: title, abstract, category and requested nodes, saved automatically a
- * moment after typing stops. A 409 stops autosave and shows a banner that keeps what was
+ * The overview tab: title, abstract, category, completeness and requested nodes, saved
+ * automatically a moment after typing stops. A 409 stops autosave and shows a banner that keeps what was
  * typed until the person chooses to reload.
  */
 @Component({
@@ -40,6 +62,7 @@ import { OverviewValues, overviewOf, ProposalStore } from '../proposal-store';
     MatLabel,
     MatOption,
     MatSelect,
+    MatSuffix,
     ReactiveFormsModule,
   ],
   templateUrl: './proposal-overview.html',
@@ -49,6 +72,8 @@ export default class ProposalOverview {
   protected readonly store = inject(ProposalStore);
   protected readonly proposal = this.store.proposal;
   protected readonly abstractMax = ABSTRACT_MAX_LENGTH;
+  protected readonly completenessMinPercent = COMPLETENESS_RANGE.min * 100;
+  protected readonly completenessMaxPercent = COMPLETENESS_RANGE.max * 100;
   protected readonly errorOf = controlErrorMessage;
 
   protected readonly form = new FormGroup({
@@ -56,6 +81,8 @@ export default class ProposalOverview {
     abstract: new FormControl('', { nonNullable: true, validators: [zodValidator(updateProposalSchema.shape.abstract)] }),
     category: new FormControl<string | null>(null),
     nodeIds: new FormControl<number[]>([], { nonNullable: true }),
+    /** Percent (50–99). */
+    completeness: new FormControl<number | null>(null, { validators: [completenessPercentValidator] }),
   });
 
   protected readonly abstractLength = toSignal(this.form.controls.abstract.valueChanges.pipe(map((v) => v.length)), {
@@ -138,12 +165,12 @@ export default class ProposalOverview {
 
   private fill(values: OverviewValues): void {
     this.filling = true;
-    this.form.setValue({ ...values, nodeIds: [...values.nodeIds] });
+    this.form.setValue({ ...values, nodeIds: [...values.nodeIds], completeness: completenessToPercent(values.completeness) });
     this.filling = false;
   }
 
   private values(): OverviewValues {
     const v = this.form.getRawValue();
-    return { title: v.title, abstract: v.abstract, category: v.category, nodeIds: v.nodeIds };
+    return { title: v.title, abstract: v.abstract, category: v.category, nodeIds: v.nodeIds, completeness: completenessFromPercent(v.completeness) };
   }
 }

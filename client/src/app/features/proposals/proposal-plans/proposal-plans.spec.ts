@@ -4,10 +4,10 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { MatDialog } from '@angular/material/dialog';
 import { provideRouter } from '@angular/router';
-import type { PlanRunStatus, ProposalPlans as PlansBody } from '@spincycle/shared/proposals/plan-types';
+import type { PlanRunStatus, ProposalPlans as PlansBody, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import { ProposalStore } from '../proposal-store';
 import { testPlanRow, testProposal, testTarget } from '../testing/fixtures';
-import ProposalPlans, { PLAN_POLL_MS } from './proposal-plans';
+import ProposalPlans, { PLAN_POLL_MS, rowCompleteness } from './proposal-plans';
 
 function run(overrides: Partial<PlanRunStatus> = {}): PlanRunStatus {
   return { state: 'idle', total: 4, done: 4, startedAt: null, finishedAt: null, error: null, current: true, ...overrides };
@@ -57,10 +57,13 @@ describe('ProposalPlans', () => {
       backend.expectOne(PLANS_URL).flush(
         body({
           plans: [
-            testPlanRow(1, 1),
+            { ...testPlanRow(1, 1), completeness: 0.904 } as TargetPlanRow,
             testPlanRow(2, 1, {
               feasible: false,
-              reasons: ['Only 12 clear nights carry the cadence; 30 are needed.'],
+              reasons: [
+                'Only 12 clear nights carry the cadence; 30 are needed.',
+                "no expected period: no expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr. Give the star's expected period to plan it",
+              ],
               suggestions: [{ kind: 'other_node', message: 'Another node of the network may see this target longer in the campaign.' }],
             }),
           ],
@@ -81,6 +84,18 @@ describe('ProposalPlans', () => {
       expect(details).toHaveLength(1);
       expect(details[0].textContent).toContain('Only 12 clear nights carry the cadence; 30 are needed.');
       expect(details[0].textContent).toContain('Another node of the network may see this target longer in the campaign.');
+      // Reasons read as sentences, a repeated lead-in said once.
+      expect(details[0].textContent).toContain(
+        "No expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr. Give the star's expected period to plan it.",
+      );
+      expect(details[0].textContent).not.toMatch(/no expected period: no expected period/i);
+    });
+
+    it('shows the completeness of each plan as a percentage, a dash where the row does not carry it', () => {
+      const headers = Array.from(el().querySelectorAll('[data-testid=plans-table] th')).map((th) => th.textContent?.trim());
+      expect(headers.indexOf('Completeness')).toBe(headers.indexOf('Visits') + 1);
+      const cells = Array.from(el().querySelectorAll('[data-testid=completeness-cell]')).map((td) => td.textContent?.trim());
+      expect(cells).toEqual(['90 %', '—']);
     });
 
     it('shows the request per node with its total and the fee caution', () => {
@@ -192,5 +207,12 @@ describe('ProposalPlans', () => {
     jest.advanceTimersByTime(5 * PLAN_POLL_MS);
     TestBed.tick();
     backend.expectNone(PLANS_URL);
+  });
+});
+
+describe('rowCompleteness', () => {
+  it('reads the fraction when the row carries it, null otherwise', () => {
+    expect(rowCompleteness({ ...testPlanRow(1, 1), completeness: 0.95 } as TargetPlanRow)).toBe(0.95);
+    expect(rowCompleteness(testPlanRow(1, 1))).toBeNull();
   });
 });

@@ -31,6 +31,8 @@ import { debounceTime, map } from 'rxjs';
 import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../ui/table/sort-rows';
+import { reasonSentence } from '../../../ui/text/reason-sentence';
+import { FractionPercentPipe } from '../../../ui/units/fraction-percent-pipe';
 import { MinorCurrencyPipe } from '../../../ui/units/minor-currency-pipe';
 import { ClusterChart, ClusterPointSelection } from '../cluster-chart/cluster-chart';
 import { sharedAgeMyr } from '../cluster-chart/cluster-curves';
@@ -51,6 +53,7 @@ const COLUMNS = [
   'precision',
   'exposure',
   'visits',
+  'completeness',
   'visitsPerNight',
   'cadence',
   'baseline',
@@ -67,6 +70,7 @@ export const CELL_QUANTITY: Readonly<Record<string, string>> = {
   precision: 'perVisitPrecisionPpm',
   exposure: 'exposureSeconds',
   visits: 'visits',
+  completeness: 'completeness',
   visitsPerNight: 'visitsPerNight',
   cadence: 'nightStepDays',
   baseline: 'baselineDays',
@@ -83,6 +87,7 @@ function planValue(row: TargetPlanRow, column: string): SortValue {
     case 'precision': return row.perVisitPrecisionPpm;
     case 'exposure': return row.exposureSeconds;
     case 'visits': return row.visits;
+    case 'completeness': return rowCompleteness(row);
     case 'visitsPerNight': return row.visitsPerNight;
     case 'cadence': return row.cadenceDays;
     case 'baseline': return row.baselineDays;
@@ -91,6 +96,15 @@ function planValue(row: TargetPlanRow, column: string): SortValue {
     case 'fee': return row.feeMinor;
     default: return null;
   }
+}
+
+/**
+ * The chance that a row's plan recovers the period (0–1), or null for a row that does not
+ * carry it (plans stored before the completeness was part of the row).
+ */
+export function rowCompleteness(row: TargetPlanRow): number | null {
+  const value = (row as TargetPlanRow & { completeness?: number | null }).completeness;
+  return typeof value === 'number' && Number.isFinite(value) ? value : null;
 }
 
 /** Fee totals per currency (nodes may charge in different currencies). */
@@ -111,6 +125,7 @@ export function feeTotals(request: readonly NodeRequest[]): { currency: string; 
   imports: [
     ClusterChart,
     DecimalPipe,
+    FractionPercentPipe,
     LoadStatus,
     MatButton,
     MatCell,
@@ -220,6 +235,8 @@ export default class ProposalPlans {
   protected readonly empty = computed(() => this.body() !== null && this.allRows().length === 0 && !this.computing());
 
   protected readonly isInfeasible = (_index: number, row: TargetPlanRow) => !row.feasible;
+  protected readonly completenessOf = rowCompleteness;
+  protected readonly reasonSentence = reasonSentence;
 
   constructor() {
     // Poll while the computation runs: each answer re-runs this effect, which schedules the
@@ -270,7 +287,8 @@ export default class ProposalPlans {
 
   protected why(row: TargetPlanRow, column: string): string {
     const key = CELL_QUANTITY[column];
-    return (key && row.why[key as PlanTableQuantity]) || '';
+    // The why lines travel by quantity key; a key the row does not carry gives no tooltip.
+    return (key && (row.why as Partial<Record<PlanTableQuantity | string, string>>)[key]) || '';
   }
 
   protected explain(row: TargetPlanRow): void {

@@ -66,6 +66,9 @@ function coordinateValidator(parse: (text: string) => number): ValidatorFn {
 
 const optionalNumber = () => new FormControl<number | null>(null);
 
+/** When a proposer should give a period of their own (shown under the field and in the table's header tooltip). */
+export const EXPECTED_PERIOD_HINT = 'Only for stars without an expected period from their colour and age (fast rotators, M dwarfs beyond the relations)';
+
 /**
  * Adds or edits one target. RA and Dec are typed as text in any of the forms the shared
  * parser reads (degrees, hours, sexagesimal); the whole row is checked with the shared
@@ -102,6 +105,7 @@ export class TargetDialog {
   protected readonly colourSystems = TARGET_COLOUR_SYSTEMS;
   protected readonly colourSystemLabels = COLOUR_SYSTEM_LABELS;
   protected readonly errorOf = controlErrorMessage;
+  protected readonly periodHint = EXPECTED_PERIOD_HINT;
   protected readonly editing = !!this.data.target;
 
   protected readonly form = new FormGroup({
@@ -116,6 +120,8 @@ export class TargetDialog {
     ageMyr: new FormControl<number | null>(null, { validators: [zodValidator(targetInputSchema.shape.ageMyr)] }),
     ageUncertaintyMyr: optionalNumber(),
     periodPrecisionDays: optionalNumber(),
+    periodDays: optionalNumber(),
+    periodUncertaintyDays: optionalNumber(),
     notes: new FormControl('', { nonNullable: true, validators: [zodValidator(targetInputSchema.shape.notes)] }),
   });
 
@@ -155,6 +161,8 @@ export class TargetDialog {
         ageMyr: target.ageMyr,
         ageUncertaintyMyr: target.ageUncertaintyMyr,
         periodPrecisionDays: target.periodPrecisionDays,
+        periodDays: target.periodDays,
+        periodUncertaintyDays: target.periodUncertaintyDays,
         notes: target.notes,
       });
     }
@@ -218,6 +226,8 @@ export class TargetDialog {
       ageMyr: v.ageMyr,
       ageUncertaintyMyr: v.ageUncertaintyMyr,
       periodPrecisionDays: v.periodPrecisionDays,
+      periodDays: v.periodDays,
+      periodUncertaintyDays: v.periodUncertaintyDays,
       notes: v.notes,
     });
     if (!parsed.success) {

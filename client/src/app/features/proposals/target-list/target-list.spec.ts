@@ -39,7 +39,9 @@ describe('TargetList', () => {
     root = TestbedHarnessEnvironment.documentRootLoader(fixture);
     TestBed.tick();
     backend.expectOne('/api/proposals/5').flush(testProposal());
-    backend.expectOne('/api/proposals/5/targets').flush([testTarget(1), testTarget(2, { name: 'Lantern 2', raDeg: 187.5, decDeg: -5.341667 })]);
+    backend
+      .expectOne('/api/proposals/5/targets')
+      .flush([testTarget(1), testTarget(2, { name: 'Lantern 2', raDeg: 187.5, decDeg: -5.341667, periodDays: 0.62, periodUncertaintyDays: 0.05 })]);
     await fixture.whenStable();
   });
 
@@ -57,6 +59,12 @@ describe('TargetList', () => {
     expect(columns['name'].text).toEqual(['Lantern 1', 'Lantern 2']);
     expect(columns['ra'].text).toEqual(['03:47:00.0', '12:30:00.0']);
     expect(columns['dec'].text).toEqual(['+24:07:00', '−05:20:30']);
+    expect(columns['period'].text).toEqual(['—', '0.62']);
+    expect(columns['periodErr'].text).toEqual(['—', '0.05']);
+    const headers = await (await (await loader.getHarness(MatTableHarness)).getHeaderRows())[0].getCellTextByColumnName();
+    expect(headers['period']).toBe('Period (d)');
+    expect(headers['periodErr']).toBe('± period uncertainty (d)');
+    expect(fixture.nativeElement.textContent).toContain('period_error');
     const hrefs = Array.from(fixture.nativeElement.querySelectorAll('a[download]')).map((a) => (a as HTMLAnchorElement).getAttribute('href'));
     expect(hrefs).toEqual(['/api/proposals/5/targets.csv', '/api/target-lists/example.csv']);
     expect(fixture.nativeElement.textContent).toContain('colour_system');
@@ -145,6 +153,8 @@ describe('TargetList', () => {
       ageMyr: 650,
       ageUncertaintyMyr: null,
       periodPrecisionDays: null,
+      periodDays: null,
+      periodUncertaintyDays: null,
       notes: '',
     });
     post.flush(testTarget(9, { name: 'Lantern 9' }), { status: 201, statusText: 'Created' });
@@ -155,6 +165,64 @@ describe('TargetList', () => {
     await fixture.whenStable();
     const columns = await (await loader.getHarness(MatTableHarness)).getCellTextByColumnName();
     expect(columns['name'].text).toEqual(['Lantern 1', 'Lantern 2', 'Lantern 9']);
+  });
+
+  it('add a target with an expected period: the dialog shows the hint and posts the period and its uncertainty', async () => {
+    await (await loader.getHarness(MatButtonHarness.with({ text: /Add a target/ }))).click();
+    const set = async (name: string, value: string) =>
+      (await root.getHarness(MatInputHarness.with({ selector: `[formControlName=${name}]` }))).setValue(value);
+    const period = await root.getHarness(MatFormFieldHarness.with({ floatingLabelText: 'Period (d)' }));
+    expect(await period.getTextHints()).toEqual([
+      'Only for stars without an expected period from their colour and age (fast rotators, M dwarfs beyond the relations)',
+    ]);
+    await root.getHarness(MatFormFieldHarness.with({ floatingLabelText: '± (d)' }));
+    await set('name', 'Lantern M');
+    await set('ra', '163.2');
+    await set('dec', '31.6');
+    await set('magnitude', '16.2');
+    await set('colour', '3.05');
+    await set('ageMyr', '650');
+    await set('periodDays', '0.62');
+    await set('periodUncertaintyDays', '0.05');
+    await (await root.getHarness(MatButtonHarness.with({ text: 'Add target' }))).click();
+    const post = backend.expectOne((r) => r.method === 'POST' && r.url === '/api/proposals/5/targets');
+    expect(post.request.body).toMatchObject({ name: 'Lantern M', colour: 3.05, periodDays: 0.62, periodUncertaintyDays: 0.05 });
+    post.flush(testTarget(10, { name: 'Lantern M', periodDays: 0.62, periodUncertaintyDays: 0.05 }), { status: 201, statusText: 'Created' });
+    await new Promise((resolve) => setTimeout(resolve));
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal({ targetCount: 3 }));
+    await fixture.whenStable();
+  });
+
+  it('edit a target: the dialog is filled with its expected period and uncertainty', async () => {
+    await (await loader.getHarness(MatButtonHarness.with({ selector: '[aria-label="Edit Lantern 2"]' }))).click();
+    const value = async (name: string) => (await root.getHarness(MatInputHarness.with({ selector: `[formControlName=${name}]` }))).getValue();
+    expect(await value('periodDays')).toBe('0.62');
+    expect(await value('periodUncertaintyDays')).toBe('0.05');
+    await (await root.getHarness(MatButtonHarness.with({ text: 'Cancel' }))).click();
+  });
+
+  it('add a target: a period out of range or an uncertainty without a period is refused on its field, nothing sent', async () => {
+    await (await loader.getHarness(MatButtonHarness.with({ text: /Add a target/ }))).click();
+    const set = async (name: string, value: string) =>
+      (await root.getHarness(MatInputHarness.with({ selector: `[formControlName=${name}]` }))).setValue(value);
+    await set('name', 'Lantern X');
+    await set('ra', '163.2');
+    await set('dec', '31.6');
+    await set('magnitude', '12');
+    await set('colour', '1');
+    await set('ageMyr', '650');
+    await set('periodUncertaintyDays', '0.1');
+    await (await root.getHarness(MatButtonHarness.with({ text: 'Add target' }))).click();
+    backend.expectNone((r) => r.method === 'POST');
+    const uncertainty = await root.getHarness(MatFormFieldHarness.with({ floatingLabelText: '± (d)' }));
+    expect(await uncertainty.getTextErrors()).toEqual(['period uncertainty needs a period']);
+
+    await set('periodDays', '1500');
+    await (await root.getHarness(MatButtonHarness.with({ text: 'Add target' }))).click();
+    backend.expectNone((r) => r.method === 'POST');
+    const period = await root.getHarness(MatFormFieldHarness.with({ floatingLabelText: 'Period (d)' }));
+    expect(await period.getTextErrors()).toEqual(['period must be within 0.05…1000 d']);
   });
 
   it('add a target: an unreadable declination is refused with the parser reason, nothing sent', async () => {

@@ -32,7 +32,7 @@ import { sortRows, SortValue } from '../../../ui/table/sort-rows';
 import { ProposalStore } from '../proposal-store';
 import { formatDecDms, formatRaHms } from '@spincycle/shared/proposals/sexagesimal';
 import { EXAMPLE_TARGET_LIST_URL, TargetApi, TargetUploadResult } from '../target-api';
-import { TargetDialog, TargetDialogData, TargetDialogResult } from '../target-dialog/target-dialog';
+import { EXPECTED_PERIOD_HINT, TargetDialog, TargetDialogData, TargetDialogResult } from '../target-dialog/target-dialog';
 import { TargetUpload } from '../target-upload/target-upload';
 
 const COLUMNS = [
@@ -47,6 +47,8 @@ const COLUMNS = [
   'age',
   'ageErr',
   'precision',
+  'period',
+  'periodErr',
   'notes',
   'actions',
 ] as const;
@@ -64,6 +66,8 @@ function targetValue(row: TargetRow, column: string): SortValue {
     case 'age': return row.ageMyr;
     case 'ageErr': return row.ageUncertaintyMyr;
     case 'precision': return row.periodPrecisionDays;
+    case 'period': return row.periodDays;
+    case 'periodErr': return row.periodUncertaintyDays;
     case 'notes': return row.notes;
     case 'position': return row.position;
     default: return null;
@@ -123,6 +127,7 @@ export default class TargetList {
     const id = this.store.id();
     return id === null ? null : this.api.exportUrl(id);
   });
+  protected readonly periodHint = EXPECTED_PERIOD_HINT;
   protected readonly ra = formatRaHms;
   protected readonly dec = formatDecDms;
 
