@@ -17,7 +17,7 @@ afterAll(async () => {
 
 const TARGET_PLAN_ROW_KEYS = [
   'targetId', 'targetName', 'nodeId', 'nodeCode', 'feasible', 'reasons', 'suggestions', 'skyVerdict', 'periodDays', 'shortestPeriodDays',
-  'longestPeriodDays', 'amplitudePpm', 'perVisitPrecisionPpm', 'exposureSeconds', 'visits', 'visitsPerNight', 'cadenceDays', 'baselineDays',
+  'longestPeriodDays', 'amplitudePpm', 'perVisitPrecisionPpm', 'exposureSeconds', 'visits', 'completeness', 'visitsPerNight', 'cadenceDays', 'baselineDays',
   'usableNights', 'nodeHours', 'feeMinor', 'currency', 'why', 'flags', 'relationLabel',
 ].sort();
 

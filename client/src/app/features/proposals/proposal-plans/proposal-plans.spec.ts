@@ -59,6 +59,7 @@ describe('ProposalPlans', () => {
           plans: [
             { ...testPlanRow(1, 1), completeness: 0.904 } as TargetPlanRow,
             testPlanRow(2, 1, {
+              completeness: null,
               feasible: false,
               reasons: [
                 'Only 12 clear nights carry the cadence; 30 are needed.',
@@ -213,6 +214,6 @@ describe('ProposalPlans', () => {
 describe('rowCompleteness', () => {
   it('reads the fraction when the row carries it, null otherwise', () => {
     expect(rowCompleteness({ ...testPlanRow(1, 1), completeness: 0.95 } as TargetPlanRow)).toBe(0.95);
-    expect(rowCompleteness(testPlanRow(1, 1))).toBeNull();
+    expect(rowCompleteness({ ...testPlanRow(1, 1), completeness: null })).toBeNull();
   });
 });
