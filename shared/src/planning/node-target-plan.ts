@@ -125,11 +125,28 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
 }
 
 /**
+ * Whether the windows carry the Moon's altitude on every usable night. Windows rebuilt from a
+ * sky-window report written before the report carried `moonAltitudeDeg` have NaN there
+ * (see planning/sky-report-adapter.ts).
+ */
+function hasMoonAltitude(windows: TargetWindows): boolean {
+  const hours = windows.usableHoursByNight;
+  const moonAlt = windows.moonAltitudeDegByNight;
+  for (let i = 0; i < hours.length; i++) {
+    if (hours[i] > 0 && Number.isNaN(moonAlt[i])) return false;
+  }
+  return true;
+}
+
+/**
  * Sky brightness on the nights the target is observable from the node's site: the
  * Krisciunas & Schaefer (1991) moonlight model on each usable night (sky/moon-sky-brightness.ts),
- * summarised as the median (used for the precision) and the brightest.
+ * summarised as the median (used for the precision) and the brightest. Undefined (the plan then
+ * takes the site's dark sky) when no night is usable, or when the windows do not carry the
+ * Moon's altitude (see {@link hasMoonAltitude}).
  */
 export function skyConditionsFor(windows: TargetWindows, node: NodeSpec, site: SiteSpec, options: TargetPlanOptions = {}): PlanSkyConditions | undefined {
+  if (!hasMoonAltitude(windows)) return undefined;
   const k = options.photometry?.extinctionMagPerAirmass ?? DEFAULT_EXTINCTION_MAG_PER_AIRMASS[node.band];
   const sky = nightlySkyBrightness(windows, site.skyBrightnessMagPerArcsec2, k, { minTargetAltitudeDeg: node.altitudeLimitDeg });
   if (sky.usableNights === 0) return undefined;
@@ -156,7 +173,14 @@ export function computeNodeTargetPlan(
   options: TargetPlanOptions = {},
 ): NodeTargetPlan {
   const withSky: TargetPlanOptions = { ...options, sky: options.sky ?? skyConditionsFor(windows, node, site, options) };
-  const first = combinePlanWithSky(computeTargetPlan(target, node, site, withSky), windows, node);
+  // Why: without the Moon's altitude the plan falls back to the site's dark sky, and its sky
+  // rows must not say that no windows were given (they were, from an older report).
+  const noMoon = options.sky === undefined && !hasMoonAltitude(windows);
+  const planFor = (planOptions: TargetPlanOptions): TargetPlan => {
+    const plan = computeTargetPlan(target, node, site, planOptions);
+    return noMoon ? withMoonNotCounted(plan) : plan;
+  };
+  const first = combinePlanWithSky(planFor(withSky), windows, node);
   const need = first.phase.requiredBaselineDays;
   if (
     first.phase.action === 'lengthenBaseline' &&
@@ -165,7 +189,7 @@ export function computeNodeTargetPlan(
     need > first.plan.quantities.baselineDays.value &&
     need <= first.season.longestSeasonDays
   ) {
-    const longer = combinePlanWithSky(computeTargetPlan(target, node, site, { ...withSky, minBaselineDays: Math.ceil(need) }), windows, node);
+    const longer = combinePlanWithSky(planFor({ ...withSky, minBaselineDays: Math.ceil(need) }), windows, node);
     longer.plan.flags.push({
       code: 'baselineForPhaseCoverage',
       severity: 'info',
@@ -174,4 +198,21 @@ export function computeNodeTargetPlan(
     return longer;
   }
   return first;
+}
+
+/**
+ * The plan's sky rows when the windows lack the Moon's altitude: the value stays the site's
+ * dark sky, and the why line says the Moon could not be counted.
+ */
+function withMoonNotCounted(plan: TargetPlan): TargetPlan {
+  const q = plan.quantities;
+  q.skyBrightnessMagPerArcsec2 = {
+    ...q.skyBrightnessMagPerArcsec2,
+    why: "the site's dark sky: the sky windows do not carry the Moon's altitude, so the Moon could not be counted",
+  };
+  q.worstSkyBrightnessMagPerArcsec2 = {
+    ...q.worstSkyBrightnessMagPerArcsec2,
+    why: "the site's dark sky: the Moon could not be counted (the sky windows do not carry its altitude)",
+  };
+  return plan;
 }

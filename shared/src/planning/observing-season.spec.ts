@@ -1,37 +1,11 @@
 import { SkyInputError } from '../sky/sky-input-error';
 import { computeSkyWindows } from '../sky/sky-windows';
-import { MAX_INTERVALS_PER_NIGHT, type SkySite, type TargetWindows } from '../sky/sky-types';
+import type { SkySite, TargetWindows } from '../sky/sky-types';
+import { syntheticWindows } from '../sky/testing/synthetic-windows';
 import { DEFAULT_MAX_GAP_NIGHTS, assessSeason, observingSeasons } from './observing-season';
 
 /** Synthetic windows with only the usable hours per night set (nights from 2025-01-01). */
-function windowsOfHours(hours: number[]): TargetWindows {
-  const count = hours.length;
-  return {
-    targetIndex: 0,
-    name: 'synthetic',
-    raDeg: 0,
-    decDeg: 0,
-    nightDates: hours.map((_, n) => new Date(Date.UTC(2025, 0, 1 + n)).toISOString().slice(0, 10)),
-    usableHoursByNight: Float64Array.from(hours),
-    altitudeAtMidDarkDegByNight: new Float64Array(count),
-    moonSeparationDegByNight: new Float64Array(count),
-    moonAltitudeDegByNight: new Float64Array(count),
-    moonIlluminationByNight: new Float64Array(count),
-    moonExcludedByNight: new Uint8Array(count),
-    intervalCountByNight: new Uint8Array(count),
-    intervalsUtcMs: new Float64Array(count * MAX_INTERVALS_PER_NIGHT * 2),
-    summary: {
-      firstUsableNight: null,
-      lastUsableNight: null,
-      usableNights: 0,
-      totalNights: count,
-      totalUsableHours: 0,
-      maxNightlyUsableHours: 0,
-      longestGapNights: null,
-      visibility: 'rises-and-sets',
-    },
-  };
-}
+const windowsOfHours = (hours: number[]): TargetWindows => syntheticWindows({ usableHours: hours });
 
 const run = (length: number, h = 4) => Array.from({ length }, () => h);
 

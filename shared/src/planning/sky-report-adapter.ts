@@ -1,13 +1,16 @@
 /**
  * Turns the plain-JSON sky windows of one target (`TargetWindowsReport`, what
  * POST /api/sky-windows returns) back into the typed-array `TargetWindows` that
- * `assessCadence` and `combinePlanWithSky` read, so that a client can check the plan it is
- * editing against the windows without asking the server again.
+ * `assessCadence`, `combinePlanWithSky` and `computeNodeTargetPlan` read, so that a client can
+ * plan against the windows without asking the server again.
  *
  * Fidelity: the report rounds interval edges to whole seconds (`toIsoUtc`) and usable hours
  * to 0.001 h; a night's visit capacity can therefore differ from the server's only when an
- * interval is within a second of holding one more visit. The report does not carry the
- * Moon's altitude: `moonAltitudeDegByNight` is NaN throughout (`assessCadence` does not read it).
+ * interval is within a second of holding one more visit. The Moon's altitude comes back to
+ * 0.01°, its separation to 0.1° and its illumination to 0.001, enough for the moonlit sky of
+ * `computeNodeTargetPlan`. A report written before it carried `moonAltitudeDeg` gives NaN there;
+ * `computeNodeTargetPlan` then plans under the site's dark sky and says the Moon could not be
+ * counted (`assessCadence` does not read the Moon's altitude).
  */
 import { SkyInputError } from '../sky/sky-input-error';
 import { MAX_INTERVALS_PER_NIGHT, type TargetWindows } from '../sky/sky-types';
@@ -28,7 +31,7 @@ export function targetWindowsFromReport(report: TargetWindowsReport, targetIndex
   const usable = new Float64Array(count);
   const altitude = new Float64Array(count);
   const moonSeparation = new Float64Array(count);
-  const moonAltitude = new Float64Array(count).fill(Number.NaN);
+  const moonAltitude = new Float64Array(count);
   const moonIllumination = new Float64Array(count);
   const moonExcluded = new Uint8Array(count);
   const intervalCount = new Uint8Array(count);
@@ -41,6 +44,8 @@ export function targetWindowsFromReport(report: TargetWindowsReport, targetIndex
     usable[n] = night.usableHours;
     altitude[n] = night.altitudeAtMidDarkDeg;
     moonSeparation[n] = night.moonSeparationDeg;
+    // Older reports do not carry it (and JSON turns a non-finite number into null).
+    moonAltitude[n] = typeof night.moonAltitudeDeg === 'number' ? night.moonAltitudeDeg : Number.NaN;
     moonIllumination[n] = night.moonIllumination;
     moonExcluded[n] = night.moonExcluded ? 1 : 0;
     const list = night.intervals.slice(0, MAX_INTERVALS_PER_NIGHT);

@@ -1,60 +1,24 @@
 import { SkyInputError } from '../sky/sky-input-error';
 import { MS_PER_DAY, MS_PER_HOUR } from '../sky/local-nights';
-import { computeSkyWindows, summarizeTargetWindows } from '../sky/sky-windows';
+import { computeSkyWindows } from '../sky/sky-windows';
 import { MAX_INTERVALS_PER_NIGHT, type SkySite, type TargetWindows } from '../sky/sky-types';
+import { SYNTHETIC_FIRST_NIGHT_UTC_MS, syntheticWindows } from '../sky/testing/synthetic-windows';
 import { defaultVisitEpochUtcMs, planVisitTimes, type VisitRequest } from './visit-times';
 
-const EPOCH = Date.UTC(2025, 0, 1);
+const EPOCH = SYNTHETIC_FIRST_NIGHT_UTC_MS;
 
 /**
  * Synthetic windows: night n has the given intervals, in hours after 0h UTC of night n's date
  * (2025-01-01 + n), e.g. [[20, 28]] for 20h–04h UTC.
  */
 function windowsOf(nights: Array<Array<[number, number]>>, moonExcluded: number[] = []): TargetWindows {
-  const count = nights.length;
-  const intervals = new Float64Array(count * MAX_INTERVALS_PER_NIGHT * 2);
-  const intervalCount = new Uint8Array(count);
-  const usable = new Float64Array(count);
-  const moon = new Uint8Array(count);
-  nights.forEach((list, n) => {
-    list.forEach(([from, to], k) => {
-      intervals[(n * MAX_INTERVALS_PER_NIGHT + k) * 2] = EPOCH + n * MS_PER_DAY + from * MS_PER_HOUR;
-      intervals[(n * MAX_INTERVALS_PER_NIGHT + k) * 2 + 1] = EPOCH + n * MS_PER_DAY + to * MS_PER_HOUR;
-      usable[n] += to - from;
-    });
-    intervalCount[n] = list.length;
+  const at = (n: number, hours: number) => EPOCH + n * MS_PER_DAY + hours * MS_PER_HOUR;
+  return syntheticWindows({
+    usableHours: nights.map((list) => list.reduce((sum, [from, to]) => sum + (to - from), 0)),
+    intervalsUtcMs: nights.map((list, n) => list.map(([from, to]): [number, number] => [at(n, from), at(n, to)])),
+    moonExcludedNights: moonExcluded,
+    summarize: true,
   });
-  for (const n of moonExcluded) {
-    moon[n] = 1;
-    usable[n] = 0;
-  }
-  const w: TargetWindows = {
-    targetIndex: 0,
-    name: 'synthetic',
-    raDeg: 0,
-    decDeg: 0,
-    nightDates: nights.map((_, n) => new Date(EPOCH + n * MS_PER_DAY).toISOString().slice(0, 10)),
-    usableHoursByNight: usable,
-    altitudeAtMidDarkDegByNight: new Float64Array(count),
-    moonSeparationDegByNight: new Float64Array(count),
-    moonAltitudeDegByNight: new Float64Array(count),
-    moonIlluminationByNight: new Float64Array(count),
-    moonExcludedByNight: moon,
-    intervalCountByNight: intervalCount,
-    intervalsUtcMs: intervals,
-    summary: {
-      firstUsableNight: null,
-      lastUsableNight: null,
-      usableNights: 0,
-      totalNights: count,
-      totalUsableHours: 0,
-      maxNightlyUsableHours: 0,
-      longestGapNights: null,
-      visibility: 'rises-and-sets',
-    },
-  };
-  summarizeTargetWindows(w, 0);
-  return w;
 }
 
 const nightly = (count: number, interval: [number, number] = [20, 28]) => Array.from({ length: count }, () => [interval]);

@@ -218,33 +218,54 @@ export function detectionThreshold(points: number, baselineDays: number, maxFreq
  * overstates the completeness of campaigns with few, precise nightly means.
  */
 export function detectionProbability(noncentrality: number, threshold: DetectionThreshold): number {
-  const lam = requireNonNegative(noncentrality, 'noncentrality');
+  return evaluateDetection(requireNonNegative(noncentrality, 'noncentrality'), threshold);
+}
+
+/** ln NB(i; a, z) = ln[Γ(a+i)/(Γ(a)·i!)·z^i·(1−z)^a] (only where the recurrence underflowed). */
+function logNegativeBinomial(i: number, a: number, z: number): number {
+  return logGamma(a + i) - logGamma(a) - logGamma(i + 1) + i * Math.log(z) + a * Math.log1p(-z);
+}
+
+/** dPd/dλ of the last {@link evaluateDetection} call (a scratch value: no allocation per call). */
+let lastSlope = 0;
+
+/**
+ * Pd and, in `lastSlope`, its derivative in λ: dPd/dμ = Σj Pois(j; μ)·NB(j + 1), since
+ * dPois(j; μ)/dμ = Pois(j − 1; μ) − Pois(j; μ) (μ = λ/2).
+ */
+function evaluateDetection(lam: number, threshold: DetectionThreshold): number {
+  lastSlope = 0;
   const z = threshold.power;
   if (threshold.points < 4 || z >= 1) return 0;
   if (z <= 0) return 1;
   const a = 0.5 * (threshold.points - 3);
   const mu = 0.5 * lam;
-  // ±9σ of the mixing Poisson (plus a margin for small means) leaves out < 1e-15 of its weight.
-  const spread = 9 * Math.sqrt(mu) + 10;
+  // ±8σ of the mixing Poisson (plus a margin for small means) leaves out < 1e-14 of its weight.
+  const spread = 8 * Math.sqrt(mu) + 8;
   const jMin = Math.max(0, Math.floor(mu - spread));
   const jMax = Math.ceil(mu + spread);
   // Negative binomial NB(i; a, z) = Γ(a+i)/(Γ(a)·i!)·z^i·(1−z)^a, cumulated up to jMin.
-  const logNb = (i: number) => logGamma(a + i) - logGamma(a) - logGamma(i + 1) + i * Math.log(z) + a * Math.log1p(-z);
-  let nb = Math.exp(logNb(0));
+  let nb = Math.exp(a * Math.log1p(-z));
   let cdf = 0;
+  let underflowed = nb === 0;
   for (let i = 0; i <= jMin; i++) {
     cdf += nb;
-    nb = nb > 0 ? (nb * (a + i) * z) / (i + 1) : Math.exp(logNb(i + 1));
+    nb = underflowed ? Math.exp(logNegativeBinomial(i + 1, a, z)) : (nb * (a + i) * z) / (i + 1);
+    if (underflowed && nb > 0) underflowed = false;
   }
-  let pois = poissonTerm(jMin, mu);
+  let pois = jMin === 0 ? Math.exp(-mu) : poissonTerm(jMin, mu);
   let sum = 0;
+  let slope = 0;
   for (let j = jMin; j <= jMax; j++) {
-    sum += pois * Math.min(1, cdf);
+    sum += pois * (cdf < 1 ? cdf : 1);
+    slope += pois * nb;
     pois *= mu / (j + 1);
     cdf += nb;
-    nb = nb > 0 ? (nb * (a + j + 1) * z) / (j + 2) : Math.exp(logNb(j + 2));
+    nb = underflowed ? Math.exp(logNegativeBinomial(j + 2, a, z)) : (nb * (a + j + 1) * z) / (j + 2);
+    if (underflowed && nb > 0) underflowed = false;
   }
-  return Math.min(1, Math.max(0, sum));
+  lastSlope = 0.5 * slope;
+  return sum < 0 ? 0 : sum > 1 ? 1 : sum;
 }
 
 /**
@@ -253,39 +274,70 @@ export function detectionProbability(noncentrality: number, threshold: Detection
  */
 export function noncentralityForCompleteness(completeness: number, threshold: DetectionThreshold): number {
   const c = requireInRange(completeness, 'completeness', 0, 1, true);
-  if (detectionProbability(0, threshold) >= c) return 0;
+  // Plans ask the same threshold for the same level several times (goal, sizing, limits).
+  let memo = INVERSIONS.get(threshold);
+  if (!memo) {
+    memo = new Map();
+    INVERSIONS.set(threshold, memo);
+  }
+  const known = memo.get(c);
+  if (known !== undefined) return known;
+  const lam = invertDetection(c, threshold);
+  memo.set(c, lam);
+  return lam;
+}
+
+const INVERSIONS = new WeakMap<DetectionThreshold, Map<number, number>>();
+
+function invertDetection(c: number, threshold: DetectionThreshold): number {
+  if (evaluateDetection(0, threshold) >= c) return 0;
   if (threshold.points < 4 || threshold.power >= 1) return Infinity;
-  // Bracket, then regula falsi with the Illinois modification (common practice, no source):
-  // Pd(λ) is smooth and increasing, so a handful of evaluations reach 1e-9 in λ.
+  // Safeguarded Newton from the large-N guess (√λ ≈ √(2·z0) + Φ⁻¹(c), SCIENCE.md §6) with the
+  // analytic slope; a step that leaves the bracket is replaced by bisection (common practice).
+  const m = threshold.points - 3;
+  const z0 = (0.5 * m * threshold.power) / (1 - threshold.power);
+  let x = (Math.sqrt(2 * z0) + normalQuantile(c)) ** 2;
+  if (!(x > 0)) x = 1;
   let lo = 0;
-  let fLo = detectionProbability(lo, threshold) - c;
-  let hi = 16;
-  let fHi = detectionProbability(hi, threshold) - c;
-  while (fHi < 0) {
-    lo = hi;
-    fLo = fHi;
-    hi *= 2;
-    if (hi > 1e9) return Infinity;
-    fHi = detectionProbability(hi, threshold) - c;
+  let hi = Infinity;
+  for (let i = 0; i < 100; i++) {
+    const f = evaluateDetection(x, threshold) - c;
+    const slope = lastSlope;
+    if (Math.abs(f) < 1e-10) return x;
+    if (f < 0) lo = x;
+    else hi = x;
+    let next = slope > 0 ? x - f / slope : Number.NaN;
+    if (!(next > lo && next < hi)) next = Number.isFinite(hi) ? 0.5 * (lo + hi) : Math.max(2 * x, x + 8);
+    if (Number.isFinite(hi) && hi - lo < 1e-9 * hi) return hi;
+    if (next > 1e9) return Infinity;
+    x = next;
   }
-  let side = 0;
-  for (let i = 0; i < 100 && hi - lo > 1e-9 * hi; i++) {
-    const x = (lo * fHi - hi * fLo) / (fHi - fLo);
-    const fx = detectionProbability(x, threshold) - c;
-    if (Math.abs(fx) < 1e-12) return x;
-    if (fx < 0) {
-      lo = x;
-      fLo = fx;
-      if (side === -1) fHi /= 2;
-      side = -1;
-    } else {
-      hi = x;
-      fHi = fx;
-      if (side === 1) fLo /= 2;
-      side = 1;
-    }
+  return x;
+}
+
+/**
+ * Φ⁻¹(p), the standard normal quantile: Acklam's rational approximation (relative error
+ * ≈ 1e-9; common practice, no source). Used only for starting values.
+ */
+export function normalQuantile(p: number): number {
+  if (p <= 0) return -Infinity;
+  if (p >= 1) return Infinity;
+  const a = [-39.69683028665376, 220.9460984245205, -275.9285104469687, 138.357751867269, -30.66479806614716, 2.506628277459239];
+  const b = [-54.47609879822406, 161.5858368580409, -155.6989798598866, 66.80131188771972, -13.28068155288572];
+  const c = [-0.007784894002430293, -0.3223964580411365, -2.400758277161838, -2.549732539343734, 4.374664141464968, 2.938163982698783];
+  const d = [0.007784695709041462, 0.3224671290700398, 2.445134137142996, 3.754408661907416];
+  const low = 0.02425;
+  if (p < low) {
+    const q = Math.sqrt(-2 * Math.log(p));
+    return (((((c[0] * q + c[1]) * q + c[2]) * q + c[3]) * q + c[4]) * q + c[5]) / ((((d[0] * q + d[1]) * q + d[2]) * q + d[3]) * q + 1);
   }
-  return hi;
+  if (p > 1 - low) {
+    const q = Math.sqrt(-2 * Math.log1p(-p));
+    return -(((((c[0] * q + c[1]) * q + c[2]) * q + c[3]) * q + c[4]) * q + c[5]) / ((((d[0] * q + d[1]) * q + d[2]) * q + d[3]) * q + 1);
+  }
+  const q = p - 0.5;
+  const r = q * q;
+  return ((((((a[0] * r + a[1]) * r + a[2]) * r + a[3]) * r + a[4]) * r + a[5]) * q) / (((((b[0] * r + b[1]) * r + b[2]) * r + b[3]) * r + b[4]) * r + 1);
 }
 
 /** Noise of one night's mean of k visits: σ_night² = σ_white²/k + σ_floor² ({@link NIGHTLY_NOISE_SOURCE}). */

@@ -42,7 +42,6 @@ export const QUANTITY_LABELS: Readonly<Record<keyof TargetPlanQuantities, string
   detectionThresholdPower: 'Detection threshold power z0',
   requestedCompleteness: 'Completeness asked for',
   completeness: 'Completeness delivered',
-  visitsForDetection: 'Visits for detection alone',
   visitsForCadence: 'Visits for the cadence',
   visitsForCompleteness50: 'Visits for 50 % completeness',
   visitsForCompleteness90: 'Visits for 90 % completeness',

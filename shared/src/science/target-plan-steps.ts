@@ -274,8 +274,8 @@ export interface VisitSizingInput {
   maxBaselineDays: number;
   /** Also compute λ required and, when unreachable, the amplitude limits (a few inversions; default true). */
   detail?: boolean;
-  /** Thresholds already computed for the same search (key `points:T`), shared between sizings of one plan. */
-  thresholdCache?: Map<string, DetectionThreshold>;
+  /** Thresholds already computed for the same search (key points·4096 + T), shared between sizings of one plan. */
+  thresholdCache?: Map<number, DetectionThreshold>;
 }
 
 export interface VisitSizing {
@@ -315,9 +315,9 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
   const f2 = input.floorPpm ** 2;
   const c = input.completeness;
   const nightly = input.series === 'nightlyMeans';
-  const thresholds = input.thresholdCache ?? new Map<string, DetectionThreshold>();
+  const thresholds = input.thresholdCache ?? new Map<number, DetectionThreshold>();
   const thresholdFor = (points: number, T: number) => {
-    const key = `${points}:${T}`;
+    const key = points * 4096 + T;
     let th = thresholds.get(key);
     if (!th) {
       th = detectionThreshold(points, T, input.maxFrequencyPerDay, input.falseAlarmProbability);
@@ -333,9 +333,25 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
     const th = thresholdFor(points, T);
     return { n, points, sigma, lam, th, pd: detectionProbability(lam, th) };
   };
-  const ok = (T: number, s: number, k: number) => evaluate(T, s, k).pd >= c;
+  const ok = (T: number, s: number, k: number) => {
+    const n = visitNightCount(T, s);
+    const points = nightly ? n : n * k;
+    const var1 = nightly ? w2 / k + f2 : w2 + f2;
+    return detectionProbability((points * A * A) / (2 * var1), thresholdFor(points, T)) >= c;
+  };
   /** Smallest whole k in [lo, hi] with ok, or null (ok is monotone in k). */
   const smallestK = (T: number, s: number, lo: number, hi: number): number | null => {
+    if (nightly) {
+      // The threshold does not depend on k: λ needed once, then k in closed form from
+      // n·A²/(2·(w²/k + f²)) ≥ λ.
+      const n = visitNightCount(T, s);
+      const allowed = (n * A * A) / (2 * noncentralityForCompleteness(c, thresholdFor(n, T))) - f2;
+      if (!(allowed > 0)) return null;
+      const k = Math.max(lo, w2 === 0 ? 1 : Math.ceil(w2 / allowed - 1e-9));
+      if (k > hi) return null;
+      // Guard the rounding at the boundary with the direct check.
+      return ok(T, s, k) ? k : k + 1 <= hi ? k + 1 : null;
+    }
     if (!ok(T, s, hi)) return null;
     while (hi - lo > 0) {
       const mid = Math.floor((lo + hi) / 2);
@@ -356,10 +372,13 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
       return { baselineDays: T, nightStepDays: s, visitsPerNight: k, nights: e.n, visits: e.n * k, threshold: e.th, noncentralityRequired: Number.NaN,
         noncentrality: e.lam, seriesSigmaPpm: e.sigma, completeness: e.pd, drivenBy, amplitudeLimitPpm: Number.NaN, floorAmplitudeLimitPpm: Number.NaN };
     }
+    // Both limits share the longest campaign's threshold, hence one inversion.
+    let lamMax: number | undefined;
     const limitAt = (sigma: number) => {
       const nMax = visitNightCount(tMax, 1);
       const points = nightly ? nMax : nMax * kMax;
-      return Math.sqrt((2 * noncentralityForCompleteness(c, thresholdFor(points, tMax)) * sigma * sigma) / points);
+      lamMax ??= noncentralityForCompleteness(c, thresholdFor(points, tMax));
+      return Math.sqrt((2 * lamMax * sigma * sigma) / points);
     };
     return {
       baselineDays: T,
@@ -368,7 +387,7 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
       nights: e.n,
       visits: e.n * k,
       threshold: e.th,
-      noncentralityRequired: drivenBy === 'cadence' ? Number.NaN : noncentralityForCompleteness(c, e.th),
+      noncentralityRequired: drivenBy === 'unreachable' || drivenBy === 'cadence' ? Number.NaN : noncentralityForCompleteness(c, e.th),
       noncentrality: e.lam,
       seriesSigmaPpm: e.sigma,
       completeness: e.pd,
@@ -379,6 +398,8 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
   };
   // 1. The cadence as it stands.
   if (ok(T0, input.nightStepDays, k0)) return result(T0, input.nightStepDays, k0, 'cadence');
+  // Nothing reaches it: the longest baseline with the most visits a night falls short.
+  if (!ok(tMax, 1, kMax)) return result(tMax, 1, kMax, 'unreachable');
   // 2. Every night, up to the useful visits per night.
   const kEvery = smallestK(T0, 1, k0, kUseful);
   if (kEvery !== null) return result(T0, 1, kEvery, 'visitsPerNight');
@@ -394,7 +415,6 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
     return result(hi, 1, smallestK(hi, 1, k0, kUseful) ?? kUseful, 'baseline');
   }
   // 4. The longest baseline, more visits per night up to what fits.
-  const kLong = kUseful < kMax ? smallestK(tMax, 1, kUseful + 1, kMax) : null;
-  if (kLong !== null) return result(tMax, 1, kLong, 'visitsPerNight');
-  return result(tMax, 1, kMax, 'unreachable');
+  const kLong = kUseful < kMax ? smallestK(tMax, 1, kUseful + 1, kMax) : kMax;
+  return result(tMax, 1, kLong ?? kMax, 'visitsPerNight');
 }

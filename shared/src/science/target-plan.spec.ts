@@ -139,7 +139,7 @@ describe('computeTargetPlan', () => {
       const short = computeTargetPlan(STAR, NODE, SITE, { exposureSeconds: 5 });
       const long = computeTargetPlan(STAR, NODE, SITE, { exposureSeconds: 60 });
       expect(long.quantities.perVisitPrecisionPpm.value).toBeLessThan(short.quantities.perVisitPrecisionPpm.value);
-      expect(long.quantities.visitsForDetection.value).toBeLessThanOrEqual(short.quantities.visitsForDetection.value);
+      expect(long.quantities.visitsForCompleteness90.value).toBeLessThanOrEqual(short.quantities.visitsForCompleteness90.value);
     });
 
     it.each([1, 301, Number.NaN])('rejects %p s outside the node range, naming options.exposureSeconds', (exposureSeconds) => {

@@ -196,7 +196,6 @@ export interface TargetPlanQuantities {
   detectionThresholdPower: Explained;
   requestedCompleteness: Explained;
   completeness: Explained;
-  visitsForDetection: Explained;
   visitsForCadence: Explained;
   visitsForCompleteness50: Explained;
   visitsForCompleteness90: Explained;
@@ -378,7 +377,7 @@ export function computeTargetPlan(
   // 7. Visits for the completeness over nightly means; the price of other completeness levels.
   const visitSeconds = stack.exposuresPerVisit * exposure.exposureSeconds + (stack.exposuresPerVisit - 1) * o.readoutSeconds + node.overheadSeconds;
   const maxVisitsPerNight = Math.max(1, Math.floor((o.observableHoursPerNight * 3600) / visitSeconds));
-  const thresholdCache = new Map<string, DetectionThreshold>();
+  const thresholdCache = new Map<number, DetectionThreshold>();
   const sizingFor = (completeness: number, detail = false): VisitSizing =>
     sizeVisits({
       detail,
@@ -397,24 +396,16 @@ export function computeTargetPlan(
       maxBaselineDays: Math.max(o.maxBaselineDays, bl.baselineDays),
     });
   const sz = sizingFor(o.completeness, true);
-  const atLevel = (c: number) => (Math.abs(c - o.completeness) < 1e-12 ? sz : sizingFor(c));
+  // A level the cadence already delivers costs the cadence's visits; a level above one that
+  // nothing reaches is out of reach too (same longest campaign).
+  const atLevel = (c: number) =>
+    Math.abs(c - o.completeness) < 1e-12 ||
+    (sz.drivenBy === 'cadence' && sz.completeness >= c) ||
+    (sz.drivenBy === 'unreachable' && c > o.completeness)
+      ? sz
+      : sizingFor(c);
   const levels = COMPLETENESS_LEVELS.map(atLevel);
-  const detectionOnly = sizeVisits({
-    detail: false,
-    thresholdCache,
-    semiAmplitudePpm,
-    whitePpm,
-    floorPpm,
-    completeness: o.completeness,
-    falseAlarmProbability: o.falseAlarmProbability,
-    maxFrequencyPerDay: fmax,
-    series,
-    baselineDays: sz.baselineDays,
-    visitsPerNight: 1,
-    nightStepDays: cad.nightStepDays,
-    maxVisitsPerNight,
-    maxBaselineDays: sz.baselineDays,
-  });
+
   const baseline = sz.baselineDays;
   const visitsPerNight = sz.visitsPerNight;
   const nightStep = sz.nightStepDays;
@@ -651,15 +642,6 @@ export function computeTargetPlan(
       '1',
       `probability that the period's peak clears the threshold, with λ = ${sz.threshold.points}·A²/(2σ²) = ${fmt(sz.noncentrality)}${Number.isFinite(sz.noncentralityRequired) ? ` (${fmt(sz.noncentralityRequired)} needed for ${pct(o.completeness)})` : ''}`,
       `${DETECTION_SOURCE}; ${MARCUM_SOURCE}`,
-      'derived',
-    ),
-    visitsForDetection: explained(
-      detectionOnly.visits,
-      '1',
-      detectionOnly.drivenBy === 'unreachable'
-        ? `${pct(o.completeness)} completeness is out of reach on this node (see the flags)`
-        : `fewest visits for ${pct(o.completeness)} completeness on the cadence's nights, ignoring its samples per cycle`,
-      DETECTION_SOURCE,
       'derived',
     ),
     visitsForCadence: explained(nCad, '1', `the cadence's ${cad.visitsPerNight} visit(s) per night on ${visitNightCount(baseline, cad.nightStepDays)} nights over ${baseline} d`, RULE, 'practice'),

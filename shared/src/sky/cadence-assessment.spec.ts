@@ -1,54 +1,30 @@
 import { assessCadence, nightVisitCapacity, type CadenceRequirement } from './cadence-assessment';
 import { SkyInputError } from './sky-input-error';
-import { computeSkyWindows, summarizeTargetWindows } from './sky-windows';
-import { MAX_INTERVALS_PER_NIGHT, type TargetWindows } from './sky-types';
+import { computeSkyWindows } from './sky-windows';
+import type { TargetWindows } from './sky-types';
+import { syntheticWindows } from './testing/synthetic-windows';
 
 const HOUR = 3_600_000;
 
-/** Synthetic windows: night n has one interval of `hours[n]` (or several, given as arrays). */
+/**
+ * Synthetic windows: night n has one interval of `hours[n]` (or several, given as arrays), from
+ * n × 24 h after the Unix epoch, 2 h apart.
+ */
 function windowsOf(hours: Array<number | number[]>): TargetWindows {
-  const count = hours.length;
-  const intervals = new Float64Array(count * MAX_INTERVALS_PER_NIGHT * 2);
-  const intervalCount = new Uint8Array(count);
-  const usable = new Float64Array(count);
-  hours.forEach((h, n) => {
-    const list = Array.isArray(h) ? h : h > 0 ? [h] : [];
+  const lists = hours.map((h) => (Array.isArray(h) ? h : h > 0 ? [h] : []));
+  const intervals = lists.map((list, n) => {
     let t = n * 24 * HOUR;
-    list.forEach((len, k) => {
-      intervals[(n * MAX_INTERVALS_PER_NIGHT + k) * 2] = t;
-      intervals[(n * MAX_INTERVALS_PER_NIGHT + k) * 2 + 1] = t + len * HOUR;
+    return list.map((len): [number, number] => {
+      const interval: [number, number] = [t, t + len * HOUR];
       t += len * HOUR + 2 * HOUR;
-      usable[n] += len;
+      return interval;
     });
-    intervalCount[n] = list.length;
   });
-  const w: TargetWindows = {
-    targetIndex: 0,
-    name: 'synthetic',
-    raDeg: 0,
-    decDeg: 0,
-    nightDates: hours.map((_, n) => new Date(Date.UTC(2025, 0, 1 + n)).toISOString().slice(0, 10)),
-    usableHoursByNight: usable,
-    altitudeAtMidDarkDegByNight: new Float64Array(count),
-    moonSeparationDegByNight: new Float64Array(count),
-    moonAltitudeDegByNight: new Float64Array(count),
-    moonIlluminationByNight: new Float64Array(count),
-    moonExcludedByNight: new Uint8Array(count),
-    intervalCountByNight: intervalCount,
+  return syntheticWindows({
+    usableHours: lists.map((list) => list.reduce((sum, len) => sum + len, 0)),
     intervalsUtcMs: intervals,
-    summary: {
-      firstUsableNight: null,
-      lastUsableNight: null,
-      usableNights: 0,
-      totalNights: count,
-      totalUsableHours: 0,
-      maxNightlyUsableHours: 0,
-      longestGapNights: null,
-      visibility: 'rises-and-sets',
-    },
-  };
-  summarizeTargetWindows(w, 0);
-  return w;
+    summarize: true,
+  });
 }
 
 const every = (n: number, h: number) => Array.from({ length: n }, () => h);

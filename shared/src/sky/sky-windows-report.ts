@@ -28,6 +28,11 @@ export interface TargetNightReport {
   intervals: { startUtc: string; endUtc: string }[];
   altitudeAtMidDarkDeg: number;
   moonSeparationDeg: number;
+  /**
+   * The Moon's altitude at the instant of `moonSeparationDeg`, degrees (what the moonlit sky of
+   * the plan needs). Absent from reports written before it was added: read it as unknown.
+   */
+  moonAltitudeDeg?: number;
   moonIllumination: number;
   /** Present (true) only on nights excluded by the Moon-separation minimum. */
   moonExcluded?: true;
@@ -65,7 +70,7 @@ export interface SkyWindowsReportOptions {
 const round = (x: number, digits: number): number => Number(x.toFixed(digits));
 const iso = (ms: number | null): string | null => (ms === null ? null : toIsoUtc(ms));
 
-/** Turns a result into plain JSON: hours to 0.001 h, altitudes to 0.01°, separations to 0.1°. */
+/** Turns a result into plain JSON: hours to 0.001 h, altitudes (target and Moon) to 0.01°, separations to 0.1°. */
 export function toSkyWindowsReport(result: SkyWindowsResult, options: SkyWindowsReportOptions = {}): SkyWindowsReport {
   const includeNights = options.includeNights ?? true;
   return {
@@ -101,6 +106,7 @@ export function toSkyWindowsReport(result: SkyWindowsResult, options: SkyWindows
           intervals: tn.intervals.map((i) => ({ startUtc: toIsoUtc(i.startUtcMs), endUtc: toIsoUtc(i.endUtcMs) })),
           altitudeAtMidDarkDeg: round(tn.altitudeAtMidDarkDeg, 2),
           moonSeparationDeg: round(tn.moonSeparationDeg, 1),
+          moonAltitudeDeg: round(tn.moonAltitudeDeg, 2),
           moonIllumination: round(tn.moonIllumination, 3),
           ...(tn.moonExcluded ? { moonExcluded: true as const } : {}),
         }));

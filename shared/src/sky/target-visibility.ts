@@ -288,25 +288,48 @@ export function computeTargetNights(
     usable[n] = hours;
   }
 
+  return targetWindowsOver(target, targetIndex, nightDates, {
+    usableHours: usable,
+    altitudeDeg: altitude,
+    moonSeparationDeg: moonSeparation,
+    moonAltitudeDeg: moonAltitude,
+    moonIllumination,
+    moonExcluded,
+    intervalCount,
+    intervalsUtcMs: intervals,
+  });
+}
+
+/**
+ * One target's windows over per-night arrays of one target (`arrays.usableHours.length`
+ * nights; the arrays are used as they are, not copied), with an empty summary for
+ * `summarizeTargetWindows` (sky-windows.ts) to fill in.
+ */
+export function targetWindowsOver(
+  target: SkyTarget,
+  targetIndex: number,
+  nightDates: readonly string[],
+  arrays: TargetNightStorage,
+): TargetWindows {
   return {
     targetIndex,
     name: target.name ?? null,
     raDeg: target.raDeg,
     decDeg: target.decDeg,
     nightDates,
-    usableHoursByNight: usable,
-    altitudeAtMidDarkDegByNight: altitude,
-    moonSeparationDegByNight: moonSeparation,
-    moonAltitudeDegByNight: moonAltitude,
-    moonIlluminationByNight: moonIllumination,
-    moonExcludedByNight: moonExcluded,
-    intervalCountByNight: intervalCount,
-    intervalsUtcMs: intervals,
+    usableHoursByNight: arrays.usableHours,
+    altitudeAtMidDarkDegByNight: arrays.altitudeDeg,
+    moonSeparationDegByNight: arrays.moonSeparationDeg,
+    moonAltitudeDegByNight: arrays.moonAltitudeDeg,
+    moonIlluminationByNight: arrays.moonIllumination,
+    moonExcludedByNight: arrays.moonExcluded,
+    intervalCountByNight: arrays.intervalCount,
+    intervalsUtcMs: arrays.intervalsUtcMs,
     summary: {
       firstUsableNight: null,
       lastUsableNight: null,
       usableNights: 0,
-      totalNights: count,
+      totalNights: arrays.usableHours.length,
       totalUsableHours: 0,
       maxNightlyUsableHours: 0,
       longestGapNights: null,

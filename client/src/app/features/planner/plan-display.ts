@@ -58,7 +58,6 @@ function superscript(n: number): string {
 /** Quantities that are counts (shown without decimals). */
 const COUNTS: ReadonlySet<QuantityKey> = new Set<QuantityKey>([
   'visits',
-  'visitsForDetection',
   'visitsForCadence',
   'visitsForCompleteness50',
   'visitsForCompleteness90',
