@@ -19,6 +19,7 @@ import {
   type SkyBrightnessInput,
 } from '../../shared/src/sky/moon-sky-brightness';
 import type { TargetWindows } from '../../shared/src/sky/sky-types';
+import { syntheticMoonWindows, type SyntheticMoonNight } from '../../shared/src/sky/testing/synthetic-windows';
 import { PYTHON, runAstropyOracle } from './astropy-oracle';
 
 /** Krisciunas & Schaefer (1991), PASP 103, 1033, as written in SCIENCE.md §6b [memory: verify]. */
@@ -83,13 +84,7 @@ interface Case {
   z: number;
   k: number;
 }
-interface Night {
-  hours: number;
-  alt: number;
-  moonAlt: number;
-  sep: number;
-  light: number;
-}
+type Night = SyntheticMoonNight;
 interface Answer {
   cases: Array<{ moonNl: number; skyMag: number }>;
   campaign: { byNight: Array<number | null>; median: number; worst: number; darkest: number };
@@ -122,35 +117,8 @@ function campaignNights(): Night[] {
   return nights;
 }
 
-function toWindows(nights: Night[]): TargetWindows {
-  const n = nights.length;
-  const col = (f: (x: Night) => number) => Float64Array.from(nights, f);
-  return {
-    targetIndex: 0,
-    name: 'reference',
-    raDeg: 0,
-    decDeg: 0,
-    nightDates: nights.map((_, i) => `night-${i}`),
-    usableHoursByNight: col((x) => x.hours),
-    altitudeAtMidDarkDegByNight: col((x) => x.alt),
-    moonSeparationDegByNight: col((x) => x.sep),
-    moonAltitudeDegByNight: col((x) => x.moonAlt),
-    moonIlluminationByNight: col((x) => x.light),
-    moonExcludedByNight: new Uint8Array(n),
-    intervalCountByNight: new Uint8Array(n),
-    intervalsUtcMs: new Float64Array(n * 6),
-    summary: {
-      firstUsableNight: null,
-      lastUsableNight: null,
-      usableNights: 0,
-      totalNights: n,
-      totalUsableHours: 0,
-      maxNightlyUsableHours: 0,
-      longestGapNights: null,
-      visibility: 'rises-and-sets',
-    },
-  };
-}
+const toWindows = (nights: Night[]): TargetWindows =>
+  syntheticMoonWindows(nights, { name: 'reference', nightDates: nights.map((_, i) => `night-${i}`) });
 
 const toInput = (c: Case): SkyBrightnessInput => ({
   darkSkyZenithMagPerArcsec2: c.dark,

@@ -4,7 +4,7 @@ import { assessCadence, type CadenceAssessment } from '../sky/cadence-assessment
 import { SkyInputError } from '../sky/sky-input-error';
 import { computeSkyWindows } from '../sky/sky-windows';
 import { skyLimitsForNode, toSkyWindowsReport } from '../sky/sky-windows-report';
-import { combinePlanWithSky, requirementFromPlan } from './node-target-plan';
+import { combinePlanWithSky, computeNodeTargetPlan, requirementFromPlan } from './node-target-plan';
 import { targetWindowsFromReport } from './sky-report-adapter';
 
 // An invented southern node (behaviour checks, not reference numbers).
@@ -52,6 +52,7 @@ describe('targetWindowsFromReport', () => {
         expect(back.intervalCountByNight[n]).toBe(original.intervalCountByNight[n]);
         expect(back.moonExcludedByNight[n]).toBe(original.moonExcludedByNight[n]);
         expect(back.moonIlluminationByNight[n]).toBeCloseTo(original.moonIlluminationByNight[n], 3);
+        expect(Math.abs(back.moonAltitudeDegByNight[n] - original.moonAltitudeDegByNight[n])).toBeLessThanOrEqual(0.005);
       }
       // Interval edges survive to the second.
       for (let k = 0; k < original.intervalsUtcMs.length; k++) {
@@ -90,6 +91,43 @@ describe('targetWindowsFromReport', () => {
     const report = toSkyWindowsReport(result, { requirement, weatherLossFraction: node.weatherLossFraction });
     const back = targetWindowsFromReport(report.targets[0]);
     expectSameAssessment(assessCadence(back, requirement, node.weatherLossFraction), report.targets[0].assessment);
+  });
+
+  it('carries the Moon’s altitude per night, rounded to 0.01°, so the plan gets the same moonlit sky as from the typed windows', () => {
+    const result = computed(200, -35);
+    const report = JSON.parse(JSON.stringify(toSkyWindowsReport(result)));
+    const night = report.targets[0].nights[5];
+    expect(night.moonAltitudeDeg).toBe(Number(result.targets[0].moonAltitudeDegByNight[5].toFixed(2)));
+    const back = targetWindowsFromReport(report.targets[0]);
+    const direct = computeNodeTargetPlan(target, node, site, result.targets[0]).plan.quantities;
+    const fromReport = computeNodeTargetPlan(target, node, site, back).plan.quantities;
+    // The moonlit model, not the site's dark sky.
+    expect(fromReport.skyBrightnessMagPerArcsec2.why).toMatch(/^median sky with the Moon over the \d+ nights/);
+    expect(fromReport.skyBrightnessMagPerArcsec2.value).toBeLessThan(site.skyBrightnessMagPerArcsec2);
+    // The report's rounding moves the median sky by less than 0.005 mag (the page shows 0.1 mag).
+    // One night near full Moon moves more: the illumination's 0.001 step is a phase angle of up
+    // to ~2.6° there (α = acos(2f − 1) is steep at f = 1), a few hundredths of a magnitude.
+    expect(fromReport.skyBrightnessMagPerArcsec2.value).toBeCloseTo(direct.skyBrightnessMagPerArcsec2.value, 2);
+    expect(fromReport.worstSkyBrightnessMagPerArcsec2.value).toBeCloseTo(direct.worstSkyBrightnessMagPerArcsec2.value, 1);
+    expect(fromReport.visits.value).toBe(direct.visits.value);
+    expect(fromReport.baselineDays.value).toBe(direct.baselineDays.value);
+  });
+
+  it('an older report without the Moon’s altitude: NaN in the windows, and the plan takes the site’s dark sky and says the Moon could not be counted', () => {
+    const report = toSkyWindowsReport(computed(200, -35));
+    const old = { ...report.targets[0], nights: report.targets[0].nights!.map(({ moonAltitudeDeg: _dropped, ...night }) => night) };
+    expect(old.nights.some((night) => 'moonAltitudeDeg' in night)).toBe(false);
+    const back = targetWindowsFromReport(old);
+    expect(Array.from(back.moonAltitudeDegByNight).every(Number.isNaN)).toBe(true);
+    const combined = computeNodeTargetPlan(target, node, site, back);
+    const sky = combined.plan.quantities.skyBrightnessMagPerArcsec2;
+    expect(sky.value).toBe(site.skyBrightnessMagPerArcsec2);
+    expect(sky.why).toMatch(/the Moon could not be counted/);
+    expect(combined.plan.quantities.worstSkyBrightnessMagPerArcsec2.why).toMatch(/the Moon could not be counted/);
+    // The rest of the plan is the dark-sky plan checked against the same windows.
+    const dark = computeTargetPlan(target, node, site);
+    expect(combined.plan.quantities.exposureSeconds.value).toBe(dark.quantities.exposureSeconds.value);
+    expect(combined.sky).toEqual(combinePlanWithSky(dark, back, node).sky);
   });
 
   it('refuses a report without its per-night list, naming the field', () => {

@@ -240,8 +240,8 @@ function evaluateDetection(lam: number, threshold: DetectionThreshold): number {
   if (z <= 0) return 1;
   const a = 0.5 * (threshold.points - 3);
   const mu = 0.5 * lam;
-  // ±8σ of the mixing Poisson (plus a margin for small means) leaves out < 1e-14 of its weight.
-  const spread = 8 * Math.sqrt(mu) + 8;
+  // ±7σ of the mixing Poisson (plus a margin for small means) leaves out < 1e-11 of its weight.
+  const spread = 7 * Math.sqrt(mu) + 6;
   const jMin = Math.max(0, Math.floor(mu - spread));
   const jMax = Math.ceil(mu + spread);
   // Negative binomial NB(i; a, z) = Γ(a+i)/(Γ(a)·i!)·z^i·(1−z)^a, cumulated up to jMin.

@@ -19,6 +19,7 @@ import {
   vMagPerArcsec2ToNanolamberts,
 } from './moon-sky-brightness';
 import type { TargetWindows } from './sky-types';
+import { syntheticMoonWindows, type SyntheticMoonNight } from './testing/synthetic-windows';
 
 /** 0.4·ln 10: 10^(−0.4·m) = exp(−A·m) (exact identity). */
 const A = 0.4 * Math.LN10;
@@ -264,35 +265,7 @@ describe('skyBrightnessMagPerArcsec2', () => {
 // ---------------------------------------------------------------------------------------
 
 /** A TargetWindows built by hand: only the arrays nightlySkyBrightness reads are meaningful. */
-function handWindows(nights: Array<{ hours: number; alt: number; moonAlt: number; sep: number; light: number }>): TargetWindows {
-  const n = nights.length;
-  const col = (f: (x: (typeof nights)[number]) => number) => Float64Array.from(nights, f);
-  return {
-    targetIndex: 0,
-    name: 'hand-built',
-    raDeg: 0,
-    decDeg: 0,
-    nightDates: nights.map((_, i) => `2025-01-${String(i + 1).padStart(2, '0')}`),
-    usableHoursByNight: col((x) => x.hours),
-    altitudeAtMidDarkDegByNight: col((x) => x.alt),
-    moonSeparationDegByNight: col((x) => x.sep),
-    moonAltitudeDegByNight: col((x) => x.moonAlt),
-    moonIlluminationByNight: col((x) => x.light),
-    moonExcludedByNight: new Uint8Array(n),
-    intervalCountByNight: new Uint8Array(n),
-    intervalsUtcMs: new Float64Array(n * 6),
-    summary: {
-      firstUsableNight: null,
-      lastUsableNight: null,
-      usableNights: 0,
-      totalNights: n,
-      totalUsableHours: 0,
-      maxNightlyUsableHours: 0,
-      longestGapNights: null,
-      visibility: 'rises-and-sets',
-    },
-  };
-}
+const handWindows = (nights: SyntheticMoonNight[]): TargetWindows => syntheticMoonWindows(nights, { name: 'hand-built' });
 
 describe('nightlySkyBrightness', () => {
   const dark = 21.5;

@@ -1,4 +1,4 @@
-import { Horizon, Observer } from 'astronomy-engine';
+import { Body, Equator, Horizon, Observer } from 'astronomy-engine';
 import { signedIn, startHarness, type Harness } from '../../../../test/support/api-harness';
 
 let h: Harness;
@@ -59,6 +59,28 @@ describe('POST /api/sky-windows', () => {
     // astronomy-engine works in of-date coordinates; at this precision (0.1°) J2000 is close enough.
     const hor = Horizon(mid, observer, 232.5 / 15, -60, 'normal');
     expect(night.altitudeAtMidDarkDeg).toBeCloseTo(hor.altitude, 0);
+  });
+
+  it('gives each target night the Moon’s altitude (what the planner’s moonlit sky needs), at the middle of the longest usable interval', async () => {
+    const { browser } = await signedIn(h);
+    const res = await browser.post('/api/sky-windows', { cycleId, nodeIds: [nodeId], targets: [{ name: 'Star S-1', ra: '15:30:00', dec: '-60:00:00' }] });
+    expect(res.status).toBe(200);
+    const nights: { intervals: { startUtc: string; endUtc: string }[]; moonAltitudeDeg: number }[] = res.body.nodes[0].report.targets[0].nights;
+    expect(nights).toHaveLength(30);
+    const observer = new Observer(-29.25, -70.73, 2300);
+    for (const night of nights) {
+      expect(typeof night.moonAltitudeDeg).toBe('number');
+      expect(night.moonAltitudeDeg).toBeGreaterThanOrEqual(-90);
+      expect(night.moonAltitudeDeg).toBeLessThanOrEqual(90);
+      // Rounded like the other altitudes of the report (0.01°).
+      expect(Number(night.moonAltitudeDeg.toFixed(2))).toBe(night.moonAltitudeDeg);
+    }
+    // Cross-check one night with astronomy-engine (topocentric Moon, no refraction).
+    const night = nights[12];
+    const longest = night.intervals.reduce((a, b) => (Date.parse(b.endUtc) - Date.parse(b.startUtc) > Date.parse(a.endUtc) - Date.parse(a.startUtc) ? b : a));
+    const mid = new Date((Date.parse(longest.startUtc) + Date.parse(longest.endUtc)) / 2);
+    const moon = Equator(Body.Moon, mid, observer, true, true);
+    expect(Math.abs(Horizon(mid, observer, moon.ra, moon.dec).altitude - night.moonAltitudeDeg)).toBeLessThan(0.1);
   });
 
   it('reports every bad coordinate by row and field, and computes nothing', async () => {

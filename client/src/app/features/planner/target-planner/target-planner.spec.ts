@@ -6,7 +6,7 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MatButtonToggleHarness } from '@angular/material/button-toggle/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import type { CycleSummary, Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
-import { combinePlanWithSky } from '@spincycle/shared/planning/node-target-plan';
+import { computeNodeTargetPlan } from '@spincycle/shared/planning/node-target-plan';
 import { targetWindowsFromReport } from '@spincycle/shared/planning/sky-report-adapter';
 import type { SkyWindowsResponse } from '@spincycle/shared/planning/sky-windows-request';
 import { computeTargetPlan, type TargetPlanTarget } from '@spincycle/shared/science/target-plan';
@@ -127,6 +127,26 @@ describe('TargetPlanner', () => {
   }
 
   const keyValue = (key: string) => q(`[data-key=${key}] .value .num`)?.textContent?.trim();
+
+  /** The response of POST /api/sky-windows for N1 and N2, computed by the shared core as the server does. */
+  function skyResponse(): SkyWindowsResponse {
+    const report = (n: TelescopeNode) =>
+      toSkyWindowsReport(
+        computeSkyWindows({
+          site: SITE,
+          limits: skyLimitsForNode(n),
+          campaign: { firstNight: CYCLE.campaignStart, lastNight: CYCLE.campaignEnd },
+          targets: [{ name: 'Star A-17', raDeg: 101.25, decDeg: -16.7 }],
+        }),
+      );
+    // Through JSON, as the browser receives it.
+    return JSON.parse(
+      JSON.stringify({
+        cycle: { id: 7, code: 'C7', campaignStart: CYCLE.campaignStart, campaignEnd: CYCLE.campaignEnd },
+        nodes: [N1, N2].map((n) => ({ nodeId: n.id, nodeCode: n.code, nodeName: n.name, siteName: SITE.name, weatherLossFraction: n.weatherLossFraction, report: report(n) })),
+      }),
+    );
+  }
 
   it('while loading: a progress bar', async () => {
     expect(host().querySelectorAll('mat-progress-bar')).toHaveLength(1);
@@ -337,19 +357,7 @@ describe('TargetPlanner', () => {
     });
     expect(q('.results mat-progress-bar')).not.toBeNull();
 
-    const report = (n: TelescopeNode) =>
-      toSkyWindowsReport(
-        computeSkyWindows({
-          site: SITE,
-          limits: skyLimitsForNode(n),
-          campaign: { firstNight: CYCLE.campaignStart, lastNight: CYCLE.campaignEnd },
-          targets: [{ name: 'Star A-17', raDeg: 101.25, decDeg: -16.7 }],
-        }),
-      );
-    const response: SkyWindowsResponse = {
-      cycle: { id: 7, code: 'C7', campaignStart: CYCLE.campaignStart, campaignEnd: CYCLE.campaignEnd },
-      nodes: [N1, N2].map((n) => ({ nodeId: n.id, nodeCode: n.code, nodeName: n.name, siteName: SITE.name, weatherLossFraction: n.weatherLossFraction, report: report(n) })),
-    };
+    const response = skyResponse();
     for (const stale of requests.slice(0, -1)) expect(stale.cancelled).toBe(true);
     request.flush(response);
     await fixture.whenStable();
@@ -357,24 +365,70 @@ describe('TargetPlanner', () => {
     const charts = host().querySelectorAll('app-sky-window-chart');
     expect(charts).toHaveLength(2);
     const windows = targetWindowsFromReport(response.nodes[0].report.targets[0]);
-    const plan = computeTargetPlan(DEFAULT_TARGET, N1, SITE, DEFAULT_OPTIONS);
-    const expected = combinePlanWithSky(plan, windows, N1).sky.verdict;
+    const expected = computeNodeTargetPlan(DEFAULT_TARGET, N1, SITE, windows, DEFAULT_OPTIONS).sky.verdict;
     expect(charts[0].querySelector('[data-testid=sky-verdict]')?.textContent).toContain(expected);
     expect(charts[0].querySelectorAll('[data-testid=sky-window-table] tbody tr')).toHaveLength(response.nodes[0].report.nights.length);
     expect(q('[data-testid=headline]')?.textContent).toContain('Sky window from Hollin Moor');
     expect(q('.results mat-progress-bar')).toBeNull();
-    // The sky assumed is the site's dark sky, and the row says so.
-    expect(q('[data-key=skyBrightnessMagPerArcsec2] .why')?.textContent).toContain("the site's dark sky");
     expect(q('[data-key=worstSkyBrightnessMagPerArcsec2]')).not.toBeNull();
 
     // A younger star asks for another cadence: the verdict follows the plan, without asking the server again.
     await type('age-input', '150');
     await settle();
     backend.expectNone('/api/sky-windows');
-    const younger = computeTargetPlan({ ...DEFAULT_TARGET, ageMyr: 150 }, N1, SITE, DEFAULT_OPTIONS);
-    const verdict = combinePlanWithSky(younger, windows, N1).sky.verdict;
+    const verdict = computeNodeTargetPlan({ ...DEFAULT_TARGET, ageMyr: 150 }, N1, SITE, windows, DEFAULT_OPTIONS).sky.verdict;
     expect(verdict).not.toBe(expected);
     expect(host().querySelector('app-sky-window-chart [data-testid=sky-verdict]')?.textContent).toContain(verdict);
+  });
+
+  it('with the sky windows loaded: the plan is the proposal’s (moonlit sky of the usable nights), not the site’s dark sky', async () => {
+    await load();
+    await type('ra-input', '6h45m');
+    await type('dec-input', '-16.7');
+    await settle();
+    // Before the windows arrive: the site's dark sky, and the row says so.
+    expect(q('[data-key=skyBrightnessMagPerArcsec2] .num')?.textContent).toBe(formatValue(SITE.skyBrightnessMagPerArcsec2, 'en-US'));
+    expect(q('[data-key=skyBrightnessMagPerArcsec2] .why')?.textContent).toContain("the site's dark sky");
+
+    const response = skyResponse();
+    backend.expectOne('/api/sky-windows').flush(response);
+    await fixture.whenStable();
+
+    const windows = targetWindowsFromReport(response.nodes[0].report.targets[0]);
+    const onSky = computeNodeTargetPlan(DEFAULT_TARGET, N1, SITE, windows, DEFAULT_OPTIONS);
+    const sky = onSky.plan.quantities.skyBrightnessMagPerArcsec2;
+    // The campaign has full Moons: the moonlit median is brighter than the dark sky.
+    expect(sky.value).toBeLessThan(SITE.skyBrightnessMagPerArcsec2);
+    expect(q('[data-key=skyBrightnessMagPerArcsec2] .num')?.textContent).toBe(formatValue(sky.value, 'en-US'));
+    const why = q('[data-key=skyBrightnessMagPerArcsec2] .why')?.textContent ?? '';
+    expect(why).toContain(`median sky with the Moon over the ${windows.usableHoursByNight.filter((h) => h > 0).length} nights the target is observable`);
+    expect(why).not.toContain('no sky windows given');
+    expect(q('[data-key=skyBrightnessMagPerArcsec2] .source')?.textContent).toContain('Krisciunas & Schaefer (1991)');
+    expect(q('[data-key=worstSkyBrightnessMagPerArcsec2] .num')?.textContent).toBe(formatValue(onSky.plan.quantities.worstSkyBrightnessMagPerArcsec2.value, 'en-US'));
+    // The headline and key rows give the proposal's numbers.
+    const qs = onSky.plan.quantities;
+    expect(keyValue('visits')).toBe(formatValue(qs.visits.value, 'en-US', { integer: true }));
+    expect(q('[data-testid=headline]')?.textContent).toContain(`${formatValue(qs.visits.value, 'en-US', { integer: true })} visits over ${formatValue(qs.baselineDays.value, 'en-US', { integer: true })} d`);
+    expect(q('[data-testid=headline]')?.textContent).toContain(onSky.feasible ? 'Feasible on N1' : 'Not feasible on N1');
+    expect(text()).not.toMatch(/NaN|Infinity|undefined/);
+  });
+
+  it('a sky-window report without the Moon’s altitude (older server): the plan keeps the site’s dark sky and says the Moon could not be counted', async () => {
+    await load();
+    await type('ra-input', '6h45m');
+    await type('dec-input', '-16.7');
+    await settle();
+    const response = skyResponse();
+    for (const entry of response.nodes) {
+      for (const t of entry.report.targets) t.nights = t.nights?.map(({ moonAltitudeDeg: _absent, ...night }) => night);
+    }
+    backend.expectOne('/api/sky-windows').flush(response);
+    await fixture.whenStable();
+    expect(host().querySelectorAll('app-sky-window-chart')).toHaveLength(2);
+    expect(q('[data-key=skyBrightnessMagPerArcsec2] .num')?.textContent).toBe(formatValue(SITE.skyBrightnessMagPerArcsec2, 'en-US'));
+    expect(q('[data-key=skyBrightnessMagPerArcsec2] .why')?.textContent).toContain('the Moon could not be counted');
+    expect(q('[data-testid=headline]')?.textContent).toContain('Sky window from Hollin Moor');
+    expect(text()).not.toMatch(/NaN|Infinity|undefined/);
   });
 
   it('a 400 from the sky windows puts its field errors under RA/Dec', async () => {

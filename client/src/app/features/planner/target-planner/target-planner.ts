@@ -15,7 +15,7 @@ import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatSelect } from '@angular/material/select';
 import { type CycleSummary, NODE_BANDS, type TelescopeNode } from '@spincycle/shared/facility/facility-types';
 import type { ApiErrorBody } from '@spincycle/shared/http/api-error';
-import { combinePlanWithSky, type PlanSuggestion } from '@spincycle/shared/planning/node-target-plan';
+import { computeNodeTargetPlan, type NodeTargetPlan, type PlanSuggestion } from '@spincycle/shared/planning/node-target-plan';
 import { targetWindowsFromReport } from '@spincycle/shared/planning/sky-report-adapter';
 import type { SkyWindowsRequest, SkyWindowsResponse } from '@spincycle/shared/planning/sky-windows-request';
 import {
@@ -92,6 +92,9 @@ type SkyState =
   | { kind: 'loading'; nodeCount: number }
   | { kind: 'error'; error: ApiErrorBody }
   | { kind: 'done'; response: SkyWindowsResponse };
+
+/** One node's plan against its sky windows, or why there is none. */
+type NodePlanState = { kind: 'ok'; combined: NodeTargetPlan } | { kind: 'error'; note: string };
 
 /** One node's sky-window chart with the plan's verdict on it. */
 interface SkyPanel {
@@ -256,13 +259,16 @@ export default class TargetPlanner {
   });
 
   /**
-   * The plan the results show, under the site's dark sky: the sky-window report the browser
-   * receives does not carry the Moon's altitude, so the moonlit sky of the proposal's plans
-   * cannot be recomputed here (the sky row's why line says so).
+   * The plan the results show. Once the sky windows of the chosen node are loaded, it is the
+   * proposal's plan (`computeNodeTargetPlan`: the moonlit sky of the usable nights, a baseline
+   * lengthened for day-locked periods); until then, the plan under the site's dark sky (the sky
+   * row's why line says which).
    */
   protected readonly plan = computed(() => {
     const state = this.planState();
-    return state.kind === 'ok' ? state.plan : null;
+    if (state.kind !== 'ok') return null;
+    const onSky = this.nodePlans().get(state.node.id);
+    return onSky?.kind === 'ok' ? onSky.combined.plan : state.plan;
   });
 
   /** The blocking "no expected period" flag of the plan: the proposer must give the period. */
@@ -393,10 +399,35 @@ export default class TargetPlanner {
     return onFields ? 'The sky window could not be computed: see the highlighted fields.' : `The sky window could not be computed. ${state.error.message}`;
   });
 
+  /**
+   * The plan on every node whose sky windows are loaded, as the proposal's plans tab computes it
+   * on the server (`computeNodeTargetPlan` on the same windows, rebuilt from the report).
+   */
+  private readonly nodePlans = computed(() => {
+    const plans = new Map<number, NodePlanState>();
+    const state = this.sky();
+    const planState = this.planState();
+    if (state.kind !== 'done' || planState.kind !== 'ok') return plans;
+    for (const entry of state.response.nodes) {
+      const target = entry.report.targets[0];
+      const node = this.nodeById().get(entry.nodeId);
+      if (!target?.nights || !node) continue;
+      try {
+        const windows = targetWindowsFromReport(target);
+        plans.set(node.id, { kind: 'ok', combined: computeNodeTargetPlan(planState.target, node, node.site, windows, planState.options) });
+      } catch (error) {
+        if (!isScienceInputError(error) && !(error instanceof SkyInputError)) throw error;
+        plans.set(node.id, { kind: 'error', note: `No plan on this node with these inputs: ${sentence(error.message)}` });
+      }
+    }
+    return plans;
+  });
+
   protected readonly skyPanels = computed<SkyPanel[]>(() => {
     const state = this.sky();
     if (state.kind !== 'done') return [];
     const planState = this.planState();
+    const nodePlans = this.nodePlans();
     const panels: SkyPanel[] = [];
     for (const entry of state.response.nodes) {
       const target = entry.report.targets[0];
@@ -412,19 +443,14 @@ export default class TargetPlanner {
         suggestions: [],
         note: null,
       };
-      const node = this.nodeById().get(entry.nodeId);
-      if (planState.kind === 'ok' && node && target.nights) {
-        try {
-          const plan = node.id === planState.node.id ? planState.plan : computeTargetPlan(planState.target, node, node.site, planState.options);
-          const combined = combinePlanWithSky(plan, targetWindowsFromReport(target), node);
-          panel.assessment = combined.sky;
-          panel.feasible = combined.feasible;
-          panel.reasons = combined.reasons;
-          panel.suggestions = combined.suggestions;
-        } catch (error) {
-          if (!isScienceInputError(error) && !(error instanceof SkyInputError)) throw error;
-          panel.note = `No plan on this node with these inputs: ${sentence(error.message)}`;
-        }
+      const onSky = nodePlans.get(entry.nodeId);
+      if (onSky?.kind === 'ok') {
+        panel.assessment = onSky.combined.sky;
+        panel.feasible = onSky.combined.feasible;
+        panel.reasons = onSky.combined.reasons;
+        panel.suggestions = onSky.combined.suggestions;
+      } else if (onSky?.kind === 'error') {
+        panel.note = onSky.note;
       } else if (planState.kind !== 'ok') {
         panel.note = 'The verdict needs a valid plan: fix the inputs above.';
       }
@@ -460,7 +486,8 @@ export default class TargetPlanner {
     const state = this.planState();
     if (state.kind === 'waiting') return null;
     if (state.kind === 'invalid') return { tone: 'invalid' as const, title: 'No plan yet', detail: state.message, reason: null, sky: null };
-    const { plan, node } = state;
+    const { node } = state;
+    const plan = this.plan() ?? state.plan;
     const q = plan.quantities;
     const f = (v: number) => formatValue(v, this.locale);
     const skyPanel = this.skyPanels().find((panel) => panel.nodeId === node.id && panel.feasible !== null) ?? null;
