@@ -221,6 +221,17 @@ export function detectionProbability(noncentrality: number, threshold: Detection
   return evaluateDetection(requireNonNegative(noncentrality, 'noncentrality'), threshold);
 }
 
+/** 1/j for j = 0…n (index 0 unused), grown on demand: the sums multiply instead of dividing. */
+let RECIPROCALS = new Float64Array(0);
+function reciprocals(n: number): Float64Array {
+  if (RECIPROCALS.length <= n) {
+    const next = new Float64Array(Math.max(n + 1, 2 * RECIPROCALS.length, 256));
+    for (let j = 1; j < next.length; j++) next[j] = 1 / j;
+    RECIPROCALS = next;
+  }
+  return RECIPROCALS;
+}
+
 /** ln NB(i; a, z) = ln[Γ(a+i)/(Γ(a)·i!)·z^i·(1−z)^a] (only where the recurrence underflowed). */
 function logNegativeBinomial(i: number, a: number, z: number): number {
   return logGamma(a + i) - logGamma(a) - logGamma(i + 1) + i * Math.log(z) + a * Math.log1p(-z);
@@ -248,9 +259,10 @@ function evaluateDetection(lam: number, threshold: DetectionThreshold): number {
   let nb = Math.exp(a * Math.log1p(-z));
   let cdf = 0;
   let underflowed = nb === 0;
+  const inv = reciprocals(jMax + 2);
   for (let i = 0; i <= jMin; i++) {
     cdf += nb;
-    nb = underflowed ? Math.exp(logNegativeBinomial(i + 1, a, z)) : (nb * (a + i) * z) / (i + 1);
+    nb = underflowed ? Math.exp(logNegativeBinomial(i + 1, a, z)) : nb * (a + i) * z * inv[i + 1];
     if (underflowed && nb > 0) underflowed = false;
   }
   let pois = jMin === 0 ? Math.exp(-mu) : poissonTerm(jMin, mu);
@@ -259,9 +271,9 @@ function evaluateDetection(lam: number, threshold: DetectionThreshold): number {
   for (let j = jMin; j <= jMax; j++) {
     sum += pois * (cdf < 1 ? cdf : 1);
     slope += pois * nb;
-    pois *= mu / (j + 1);
+    pois *= mu * inv[j + 1];
     cdf += nb;
-    nb = underflowed ? Math.exp(logNegativeBinomial(j + 2, a, z)) : (nb * (a + j + 1) * z) / (j + 2);
+    nb = underflowed ? Math.exp(logNegativeBinomial(j + 2, a, z)) : nb * (a + j + 1) * z * inv[j + 2];
     if (underflowed && nb > 0) underflowed = false;
   }
   lastSlope = 0.5 * slope;

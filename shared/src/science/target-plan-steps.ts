@@ -272,7 +272,7 @@ export interface VisitSizingInput {
   maxVisitsPerNight: number;
   /** Longest baseline the sizing may stretch to, days. */
   maxBaselineDays: number;
-  /** Also compute λ required and, when unreachable, the amplitude limits (a few inversions; default true). */
+  /** When unreachable, also compute the amplitude limits (an inversion; default true). */
   detail?: boolean;
   /** Thresholds already computed for the same search (key points·4096 + T), shared between sizings of one plan. */
   thresholdCache?: Map<number, DetectionThreshold>;
@@ -285,7 +285,6 @@ export interface VisitSizing {
   nights: number;
   visits: number;
   threshold: DetectionThreshold;
-  noncentralityRequired: number;
   noncentrality: number;
   /** Noise of one value of the analysed series (a nightly mean, or a visit), ppm. */
   seriesSigmaPpm: number;
@@ -341,8 +340,8 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
   };
   /** Smallest whole k in [lo, hi] with ok, or null (ok is monotone in k). */
   const smallestK = (T: number, s: number, lo: number, hi: number): number | null => {
-    if (nightly) {
-      // The threshold does not depend on k: λ needed once, then k in closed form from
+    if (nightly && hi - lo > 16) {
+      // Wide range: the threshold does not depend on k, so λ needed once, then k in closed form from
       // n·A²/(2·(w²/k + f²)) ≥ λ.
       const n = visitNightCount(T, s);
       const allowed = (n * A * A) / (2 * noncentralityForCompleteness(c, thresholdFor(n, T))) - f2;
@@ -369,7 +368,7 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
   const result = (T: number, s: number, k: number, drivenBy: VisitSizing['drivenBy']): VisitSizing => {
     const e = evaluate(T, s, k);
     if (!detail) {
-      return { baselineDays: T, nightStepDays: s, visitsPerNight: k, nights: e.n, visits: e.n * k, threshold: e.th, noncentralityRequired: Number.NaN,
+      return { baselineDays: T, nightStepDays: s, visitsPerNight: k, nights: e.n, visits: e.n * k, threshold: e.th,
         noncentrality: e.lam, seriesSigmaPpm: e.sigma, completeness: e.pd, drivenBy, amplitudeLimitPpm: Number.NaN, floorAmplitudeLimitPpm: Number.NaN };
     }
     // Both limits share the longest campaign's threshold, hence one inversion.
@@ -387,7 +386,6 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
       nights: e.n,
       visits: e.n * k,
       threshold: e.th,
-      noncentralityRequired: drivenBy === 'unreachable' || drivenBy === 'cadence' ? Number.NaN : noncentralityForCompleteness(c, e.th),
       noncentrality: e.lam,
       seriesSigmaPpm: e.sigma,
       completeness: e.pd,

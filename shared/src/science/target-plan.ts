@@ -342,7 +342,11 @@ export function computeTargetPlan(
   const series: 'nightlyMeans' | 'visits' = pMin < o.aliasPeriodDays ? 'visits' : 'nightlyMeans';
   const nCad0 = visitNightCount(cyclesBaseline, cad.nightStepDays);
   const goalPoints = series === 'nightlyMeans' ? nCad0 : nCad0 * cad.visitsPerNight;
-  const goalLambda = noncentralityForCompleteness(o.completeness, detectionThreshold(goalPoints, cyclesBaseline, fmax, o.falseAlarmProbability));
+  // Thresholds of this plan's search, shared by the goal and every sizing (key points·4096 + T).
+  const thresholdCache = new Map<number, DetectionThreshold>();
+  const goalThreshold = detectionThreshold(goalPoints, cyclesBaseline, fmax, o.falseAlarmProbability);
+  thresholdCache.set(goalPoints * 4096 + cyclesBaseline, goalThreshold);
+  const goalLambda = noncentralityForCompleteness(o.completeness, goalThreshold);
   const seriesNeeded2 = Number.isFinite(goalLambda) ? (goalPoints * semiAmplitudePpm ** 2) / (2 * goalLambda) : 0;
   // Nightly means: σ_night² = σ_white²/k + floor²; single visits: σ² = σ_white² + floor².
   const whiteNeeded2 = series === 'nightlyMeans' ? cad.visitsPerNight * (seriesNeeded2 - floorPpm ** 2) : seriesNeeded2 - floorPpm ** 2;
@@ -377,7 +381,6 @@ export function computeTargetPlan(
   // 7. Visits for the completeness over nightly means; the price of other completeness levels.
   const visitSeconds = stack.exposuresPerVisit * exposure.exposureSeconds + (stack.exposuresPerVisit - 1) * o.readoutSeconds + node.overheadSeconds;
   const maxVisitsPerNight = Math.max(1, Math.floor((o.observableHoursPerNight * 3600) / visitSeconds));
-  const thresholdCache = new Map<number, DetectionThreshold>();
   const sizingFor = (completeness: number, detail = false): VisitSizing =>
     sizeVisits({
       detail,
@@ -640,7 +643,7 @@ export function computeTargetPlan(
     completeness: explained(
       sz.completeness,
       '1',
-      `probability that the period's peak clears the threshold, with λ = ${sz.threshold.points}·A²/(2σ²) = ${fmt(sz.noncentrality)}${Number.isFinite(sz.noncentralityRequired) ? ` (${fmt(sz.noncentralityRequired)} needed for ${pct(o.completeness)})` : ''}`,
+      `probability that the period's peak clears the threshold, with λ = ${sz.threshold.points}·A²/(2σ²) = ${fmt(sz.noncentrality)}`,
       `${DETECTION_SOURCE}; ${MARCUM_SOURCE}`,
       'derived',
     ),
