@@ -1,4 +1,5 @@
-import { createServer, type Server } from 'node:http';
+import { createHash, randomBytes, timingSafeEqual } from 'node:crypto';
+import { createServer, type Server, type ServerResponse } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { simpleParser } from 'mailparser';
 import { SMTPServer } from 'smtp-server';
@@ -19,6 +20,8 @@ export interface FakeMessage {
 export interface MailFake {
   smtpPort: number;
   httpPort: number | null;
+  /** The mailbox page with its access token (`http://127.0.0.1:<port>/?token=…`), or null without `httpPort`. */
+  mailboxUrl: string | null;
   messages(): FakeMessage[];
   /** Resolves with the first message (received now or later) that matches. */
   waitFor(match: (m: FakeMessage) => boolean, timeoutMs?: number): Promise<FakeMessage>;
@@ -28,12 +31,39 @@ export interface MailFake {
 
 const MAX_KEPT = 500;
 
+const LOOPBACK = new Set(['127.0.0.1', '::1']);
+
+/** Headers of every mailbox answer: no scripts, no framing, no referer (reset links carry tokens), no caching. */
+function securityHeaders(res: ServerResponse): void {
+  res.setHeader('Content-Security-Policy', "default-src 'none'; style-src 'unsafe-inline'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'");
+  res.setHeader('Referrer-Policy', 'no-referrer');
+  res.setHeader('X-Content-Type-Options', 'nosniff');
+  res.setHeader('Cache-Control', 'no-store');
+}
+
+/** Constant-time comparison of the given token with the mailbox's own (hashes make the lengths equal). */
+function sameToken(given: string | null, expected: string): boolean {
+  if (!given) return false;
+  const digest = (s: string) => createHash('sha256').update(s).digest();
+  return timingSafeEqual(digest(given), digest(expected));
+}
+
 /**
  * A local SMTP server standing in for a mail relay: accepts everything on loopback, keeps
  * the last messages in memory, and (with `httpPort`) serves a page and a JSON list of them.
+ *
+ * The mailbox holds password-reset and invitation links, so it is guarded: it listens on
+ * loopback only (another address is refused), on its own origin (never proxied through the
+ * app), and answers 403 unless the request carries `?token=` with the access token, random
+ * per start unless `token` is given (`npm start` prints the URL with it).
  */
-export async function startMailFake(options: { smtpPort?: number; httpPort?: number | null; host?: string } = {}): Promise<MailFake> {
+export async function startMailFake(
+  options: { smtpPort?: number; httpPort?: number | null; host?: string; token?: string } = {},
+): Promise<MailFake> {
   const host = options.host ?? '127.0.0.1';
+  if (!LOOPBACK.has(host)) throw new Error(`the mail fake listens on loopback only (127.0.0.1 or ::1), not ${host}`);
+  const token = options.token ?? randomBytes(24).toString('base64url');
+  if (token.length < 16) throw new Error('the mailbox token must have at least 16 characters');
   const messages: FakeMessage[] = [];
   const waiters: { match: (m: FakeMessage) => boolean; resolve: (m: FakeMessage) => void }[] = [];
   let nextId = 1;
@@ -80,6 +110,17 @@ export async function startMailFake(options: { smtpPort?: number; httpPort?: num
   if (options.httpPort !== undefined && options.httpPort !== null) {
     http = createServer((req, res) => {
       const url = new URL(req.url ?? '/', 'http://fake');
+      securityHeaders(res);
+      if (req.method !== 'GET' && req.method !== 'HEAD') {
+        res.writeHead(405, { 'content-type': 'text/plain', allow: 'GET, HEAD' });
+        res.end('method not allowed');
+        return;
+      }
+      if (!sameToken(url.searchParams.get('token'), token)) {
+        res.writeHead(403, { 'content-type': 'text/plain' });
+        res.end('forbidden: open the mailbox with the URL that npm start printed (it carries ?token=)');
+        return;
+      }
       if (url.pathname === '/api/messages') {
         res.writeHead(200, { 'content-type': 'application/json' });
         res.end(JSON.stringify([...messages].reverse()));
@@ -99,9 +140,11 @@ export async function startMailFake(options: { smtpPort?: number; httpPort?: num
     });
   }
 
+  const httpPort = http ? (http.address() as AddressInfo).port : null;
   return {
     smtpPort,
-    httpPort: http ? (http.address() as AddressInfo).port : null,
+    httpPort,
+    mailboxUrl: httpPort === null ? null : `http://${host.includes(':') ? `[${host}]` : host}:${httpPort}/?token=${encodeURIComponent(token)}`,
     messages: () => [...messages],
     waitFor(match, timeoutMs = 5000) {
       const found = messages.find(match);

@@ -8,7 +8,7 @@ function linkify(text: string): string {
   return escapeHtml(text).replace(/https?:\/\/[^\s<]+/g, (url) => `<a href="${url}">${url}</a>`);
 }
 
-/** The development mailbox: newest first, optionally for one recipient. No scripts (the app's CSP forbids them). */
+/** The development mailbox: newest first, optionally for one recipient. No scripts (the fake's CSP forbids them). */
 export function renderMailboxPage(messages: FakeMessage[], to?: string): string {
   const shown = to ? messages.filter((m) => m.to.some((r) => r.toLowerCase() === to.toLowerCase())) : messages;
   const items = shown
@@ -24,6 +24,7 @@ export function renderMailboxPage(messages: FakeMessage[], to?: string): string 
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><title>Development mailbox · Spincycle</title>
 <meta name="viewport" content="width=device-width, initial-scale=1">
+<meta name="referrer" content="no-referrer">
 <style>
  body{font-family:'IBM Plex Sans',system-ui,sans-serif;margin:0;background:#f4f5f8;color:#1b1c22}
  main{max-width:60rem;margin:0 auto;padding:1.5rem}

@@ -1,5 +1,6 @@
 // `npm start`: everything from a fresh machine to a running app, idempotent and quick the
 // second time. Ctrl-C stops what it started (PostgreSQL included, if this run started it).
+import { randomBytes } from 'node:crypto';
 import { bringUpCluster } from '../../database/cluster.mjs';
 import { ensureClientBuild, ensureDependencies, readDemoAccounts, setUpDatabase, startTs, step, waitForHttp } from './setup.mjs';
 
@@ -10,7 +11,10 @@ const env = {
   SMTP_PORT: process.env.SMTP_PORT ?? '2525',
   MAIL_FAKE_HTTP_PORT: process.env.MAIL_FAKE_HTTP_PORT ?? '4399',
 };
-env.MAILBOX_URL = process.env.MAILBOX_URL ?? `http://127.0.0.1:${env.MAIL_FAKE_HTTP_PORT}`;
+// The development mailbox (fakes/mail) shows reset links: it listens on 127.0.0.1 only, on its own
+// port, and answers only with this token, new at every start and given to the fakes alone.
+const mailboxToken = process.env.MAILBOX_TOKEN || randomBytes(24).toString('base64url');
+const mailboxUrl = `http://127.0.0.1:${env.MAIL_FAKE_HTTP_PORT}/?token=${mailboxToken}`;
 const url = `http://${env.HOST}:${env.PORT}`;
 
 const children = [];
@@ -46,9 +50,9 @@ async function main() {
     if (!ensureClientBuild()) console.log('  unchanged since the last build');
   });
   await step('local fakes (SMTP)', async () => {
-    const fakes = startTs('fakes/run.ts', env, { name: 'fakes' });
+    const fakes = startTs('fakes/run.ts', { ...env, MAILBOX_TOKEN: mailboxToken }, { name: 'fakes' });
     children.push(fakes);
-    await waitForHttp(env.MAILBOX_URL, 20_000, fakes);
+    await waitForHttp(`http://127.0.0.1:${env.MAIL_FAKE_HTTP_PORT}/`, 20_000, fakes);
   });
   await step('web server', async () => {
     const server = startTs('server/src/server.ts', env, { name: 'web server' });
@@ -75,7 +79,7 @@ async function main() {
   const width = Math.max(...demo.accounts.map((a) => a.email.length));
   console.log(`
 Spincycle is running at ${url}   (ready in ${((performance.now() - t0) / 1000).toFixed(1)} s)
-Development mailbox: ${url}/dev/mailbox
+Development mailbox (this machine only): ${mailboxUrl}
 Demo accounts (password for all: ${demo.password}):
 ${demo.accounts.map((a) => `  ${a.email.padEnd(width)}  ${a.roles.join(', ')}`).join('\n')}
 Press Ctrl-C to stop.`);

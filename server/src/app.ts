@@ -6,7 +6,6 @@ import express, { type Express } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
 import pg from 'pg';
-import { pinoHttp } from 'pino-http';
 import type { AppContext } from './app-context';
 import { loadConfig, type Config, type ConfigOverrides } from './config';
 import { createDb } from './db/knex';
@@ -19,8 +18,9 @@ import { createHealthRoutes } from './features/health/health-routes';
 import { createInvitationRoutes, createProposalRoutes, createTargetListRoutes } from './features/proposals/proposal-routes';
 import { createSkyWindowsRoutes } from './features/sky-windows/sky-windows-routes';
 import { createCsrf } from './http/csrf';
-import { createDevMailboxRoutes } from './http/dev-mailbox';
 import { apiNotFound, errorHandler } from './http/error-handler';
+import { createRequestLogger } from './http/request-logger';
+import { endSessionsOlderThan, storeSignedInSessionsOnly } from './http/session-lifetime';
 import { createPgBossPlanQueue } from './jobs/plan-queue';
 import { createLogger } from './logger';
 import { createSmtpMailer } from './mail/mailer';
@@ -56,13 +56,15 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   });
   const PgStore = connectPgSimple(session);
   const store = new PgStore({ pool: sessionPool, tableName: 'sessions', pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 });
+  storeSignedInSessionsOnly(store, ctx.now);
 
   const passport = createPassport(ctx);
-  const csrf = createCsrf(production);
+  const csrf = createCsrf({ secureCookies: production, secret: config.sessionSecret });
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
-  app.use(pinoHttp({ logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
+  // Only a configured proxy may set the client address (X-Forwarded-For); the login limiter keys on it.
+  app.set('trust proxy', config.TRUST_PROXY);
+  app.use(createRequestLogger(logger));
   app.use(helmet());
   app.use(express.json({ limit: '1mb' }));
   app.use(
@@ -78,6 +80,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   );
   // After express-session, which reads its own cookie.
   app.use(cookieParser());
+  app.use(endSessionsOlderThan(config.SESSION_ABSOLUTE_HOURS, ctx.now));
   app.use(passport.initialize());
   app.use(passport.session());
 
@@ -94,8 +97,6 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   api.use('/', createFacilityRoutes(ctx));
   app.use('/api', api);
   app.use('/api', apiNotFound);
-
-  if (config.MAILBOX_URL) app.use('/dev/mailbox', createDevMailboxRoutes(config.MAILBOX_URL));
 
   const clientDir = config.CLIENT_DIST ?? path.resolve(__dirname, '../../dist/client/browser');
   if (existsSync(path.join(clientDir, 'index.html'))) {

@@ -4,7 +4,7 @@ import path from 'node:path';
 import PDFDocument from 'pdfkit';
 import type { Browser } from 'playwright-core';
 import { axeViolations, describeViolations, launchBrowser, newPage, screenshot, screenshotOf } from './support/browser';
-import { BASE_URL, E2E_MAIL_HTTP_PORT } from './support/e2e-env';
+import { BASE_URL, e2eMailboxUrl } from './support/e2e-env';
 import { signIn } from './support/session';
 
 let browser: Browser;
@@ -123,7 +123,7 @@ describe('a proposer’s journey', () => {
 
       // The receipt, in the development mailbox.
       const mailbox = await context.newPage();
-      await mailbox.goto(`http://127.0.0.1:${E2E_MAIL_HTTP_PORT}/?to=proposer@halcyon.example`);
+      await mailbox.goto(e2eMailboxUrl('proposer@halcyon.example'));
       await mailbox.getByRole('heading', { name: new RegExp(title.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')) }).first().waitFor();
       const receipt = await mailbox.locator('article').first().innerText();
       expect(receipt).toMatch(/KRG-50/);

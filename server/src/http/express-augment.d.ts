@@ -11,6 +11,8 @@ declare global {
 declare module 'express-session' {
   interface SessionData {
     csrfToken?: string;
+    /** When the session was first stored (epoch ms): the start of its absolute lifetime. */
+    createdAt?: number;
   }
 }
 

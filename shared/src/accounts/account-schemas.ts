@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { safeText } from '../http/text';
 import { ROLES, type Role } from './roles';
 
 export type { Role };
@@ -10,7 +11,32 @@ const email = z.string().trim().toLowerCase().pipe(z.email({ message: 'Enter a v
 const password = z
   .string()
   .min(PASSWORD_MIN_LENGTH, { message: `Use at least ${PASSWORD_MIN_LENGTH} characters` })
-  .max(200, { message: 'Use at most 200 characters' });
+  .max(200, { message: 'Use at most 200 characters' })
+  .refine((p) => !p.includes('\u0000'), { message: 'The password must not contain NUL characters' });
+
+/** Message when a password contains the address or its local part. */
+export const PASSWORD_CONTAINS_EMAIL_MESSAGE = 'Do not use your e-mail address (or the part before the @) in the password';
+
+/**
+ * True when the password is the e-mail address or contains its local part (from 3 characters
+ * on), ignoring case: such a password is the first guess of anyone who knows the address.
+ * The server also refuses passwords of a common-password list (not shipped to the browser).
+ */
+export function passwordContainsEmail(password: string, emailAddress: string): boolean {
+  const p = password.toLowerCase();
+  const e = emailAddress.trim().toLowerCase();
+  if (!e) return false;
+  if (p === e || p.includes(e)) return true;
+  const local = e.split('@')[0] ?? '';
+  return local.length >= 3 && p.includes(local);
+}
+
+/** Opaque link tokens (reset, invitation): URL-safe base64 as mailed. */
+export const linkTokenSchema = z
+  .string()
+  .min(20, { message: 'The link is incomplete' })
+  .max(200)
+  .regex(/^[A-Za-z0-9_-]+$/, { message: 'The link is damaged: copy the whole link from the mail' });
 
 /** POST /api/auth/sign-in */
 export const signInSchema = z.object({
@@ -20,13 +46,29 @@ export const signInSchema = z.object({
 export type SignInInput = z.infer<typeof signInSchema>;
 
 /** POST /api/auth/sign-up: self-registration always creates a proposer. */
-export const signUpSchema = z.object({
-  email,
-  password,
-  displayName: z.string().trim().min(1, { message: 'Enter your name' }).max(120),
-  affiliation: z.string().trim().max(200).default(''),
-});
+export const signUpSchema = z
+  .object({
+    email,
+    password,
+    displayName: safeText(z.string().trim().min(1, { message: 'Enter your name' }).max(120)),
+    affiliation: safeText(z.string().trim().max(200)).default(''),
+  })
+  .superRefine((v, ctx) => {
+    if (passwordContainsEmail(v.password, v.email)) ctx.addIssue({ code: 'custom', path: ['password'], message: PASSWORD_CONTAINS_EMAIL_MESSAGE });
+  });
 export type SignUpInput = z.input<typeof signUpSchema>;
+
+/**
+ * Answer of POST /api/auth/sign-up (202), the same whether or not the address has an account
+ * already, so that the form cannot be used to find out who has one: the mail tells the rest
+ * (a welcome for a new account; a note with the way to reset the password for an existing one).
+ */
+export interface SignUpAccepted {
+  message: string;
+}
+
+/** The message of SignUpAccepted. */
+export const SIGN_UP_ACCEPTED_MESSAGE = 'Thank you. Check your inbox: we have sent you an e-mail about your account.';
 
 /** POST /api/auth/password-reset: always answers 202 so that it does not reveal which e-mails exist. */
 export const passwordResetRequestSchema = z.object({ email });
@@ -34,7 +76,7 @@ export type PasswordResetRequestInput = z.infer<typeof passwordResetRequestSchem
 
 /** POST /api/auth/password-reset/confirm */
 export const passwordResetConfirmSchema = z.object({
-  token: z.string().min(20, { message: 'The reset link is incomplete' }).max(200),
+  token: linkTokenSchema,
   password,
 });
 export type PasswordResetConfirmInput = z.infer<typeof passwordResetConfirmSchema>;
@@ -66,9 +108,9 @@ export interface AccountSummary extends SessionUser {
 
 /** GET /api/admin/accounts query string. */
 export const listAccountsQuerySchema = z.object({
-  search: z.string().trim().max(200).optional(),
+  search: safeText(z.string().trim().max(200)).optional(),
   role: z.enum(ROLES).optional(),
-  page: z.coerce.number().int().min(1).default(1),
+  page: z.coerce.number().int().min(1).max(1_000_000).default(1),
   pageSize: z.coerce.number().int().min(1).max(200).default(25),
 });
 export type ListAccountsQuery = z.infer<typeof listAccountsQuerySchema>;

@@ -1,4 +1,6 @@
 import { z } from 'zod';
+import { idSchema } from '../http/ids';
+import { safeText } from '../http/text';
 import type { SkyWindowsReport } from '../sky/sky-windows-report';
 
 /** Most targets one sky-windows request may carry (the client sends longer lists in chunks). */
@@ -9,15 +11,15 @@ export const SKY_WINDOWS_MAX_TARGETS_WITH_NIGHTS = 50;
 
 /** One row of a sky-windows request: RA/Dec as typed (degrees, `12.5h`, sexagesimal). */
 export const skyWindowsTargetSchema = z.object({
-  name: z.string().trim().max(80).optional(),
-  ra: z.union([z.number(), z.string().trim().min(1, { message: 'is empty' }).max(40)]),
-  dec: z.union([z.number(), z.string().trim().min(1, { message: 'is empty' }).max(40)]),
+  name: safeText(z.string().trim().max(80)).optional(),
+  ra: z.union([z.number(), safeText(z.string().trim().min(1, { message: 'is empty' }).max(40))]),
+  dec: z.union([z.number(), safeText(z.string().trim().min(1, { message: 'is empty' }).max(40))]),
 });
 
 /** POST /api/sky-windows */
 export const skyWindowsRequestSchema = z.object({
-  cycleId: z.number().int().positive(),
-  nodeIds: z.array(z.number().int().positive()).min(1, { message: 'choose at least one node' }).max(10),
+  cycleId: idSchema,
+  nodeIds: z.array(idSchema).min(1, { message: 'choose at least one node' }).max(10),
   targets: z.array(skyWindowsTargetSchema).min(1, { message: 'give at least one target' }).max(SKY_WINDOWS_MAX_TARGETS, {
     message: `at most ${SKY_WINDOWS_MAX_TARGETS} targets per request`,
   }),

@@ -1,5 +1,8 @@
 import { z } from 'zod';
 import type { CycleSummary } from '../facility/facility-types';
+import { linkTokenSchema } from '../accounts/account-schemas';
+import { idSchema, versionSchema } from '../http/ids';
+import { safeMultiLineText, safeText } from '../http/text';
 import type { ProposalState } from './proposal-states';
 
 /** Longest abstract, characters. */
@@ -7,8 +10,8 @@ export const ABSTRACT_MAX_LENGTH = 4000;
 
 /** POST /api/proposals: a new draft in an open cycle; the creator becomes its PI. */
 export const createProposalSchema = z.object({
-  cycleId: z.number().int().positive(),
-  title: z.string().trim().min(1, { message: 'give the proposal a title' }).max(200),
+  cycleId: idSchema,
+  title: safeText(z.string().trim().min(1, { message: 'give the proposal a title' }).max(200)),
 });
 export type CreateProposalInput = z.infer<typeof createProposalSchema>;
 
@@ -33,11 +36,11 @@ export const completenessSchema = z
  * different current version means someone else saved in between → 409 `version_conflict`.
  */
 export const updateProposalSchema = z.object({
-  version: z.number().int().positive(),
-  title: z.string().trim().min(1, { message: 'give the proposal a title' }).max(200).optional(),
-  abstract: z.string().max(ABSTRACT_MAX_LENGTH, { message: `at most ${ABSTRACT_MAX_LENGTH} characters` }).optional(),
-  category: z.string().trim().max(80).nullable().optional(),
-  nodeIds: z.array(z.number().int().positive()).max(20).optional(),
+  version: versionSchema,
+  title: safeText(z.string().trim().min(1, { message: 'give the proposal a title' }).max(200)).optional(),
+  abstract: safeMultiLineText(z.string().max(ABSTRACT_MAX_LENGTH, { message: `at most ${ABSTRACT_MAX_LENGTH} characters` })).optional(),
+  category: safeText(z.string().trim().max(80)).nullable().optional(),
+  nodeIds: z.array(idSchema).max(20).optional(),
   /** Probability that each plan recovers the period (0.5–0.99); changing it queues the plans again. */
   completeness: completenessSchema.optional(),
 });
@@ -50,7 +53,12 @@ export const inviteMemberSchema = z.object({
 export type InviteMemberInput = z.infer<typeof inviteMemberSchema>;
 
 /** POST /api/invitations/accept */
-export const acceptInvitationSchema = z.object({ token: z.string().min(20).max(200) });
+export const acceptInvitationSchema = z.object({ token: linkTokenSchema });
+
+/** Days an invitation link stays valid after it was (last) sent. */
+export const INVITATION_VALID_DAYS = 14;
+/** Minutes between two invitation mails to the same address for the same proposal. */
+export const INVITATION_RESEND_MINUTES = 10;
 
 /** Answer of POST /api/invitations/accept: the proposal the account has joined. */
 export interface InvitationAccepted {

@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { NODE_BANDS } from '../facility/facility-types';
+import { versionSchema } from '../http/ids';
+import { safeMultiLineText, safeText } from '../http/text';
 import { TARGET_COLOUR_SYSTEMS } from '../science/colour-sequence';
 
 /** Most targets one proposal may hold (and one CSV may carry). */
@@ -12,7 +14,7 @@ const finite = (label: string) => z.number({ message: `${label} must be a number
  * CSV reader turns sexagesimal text into degrees before this schema runs).
  */
 export const targetInputSchema = z.object({
-  name: z.string().trim().min(1, { message: 'give the target a name' }).max(80),
+  name: safeText(z.string().trim().min(1, { message: 'give the target a name' }).max(80)),
   raDeg: finite('ra').pipe(z.number().min(0, { message: 'ra must be within 0…360°' }).lt(360, { message: 'ra must be within 0…360°' })),
   decDeg: finite('dec').pipe(z.number().min(-90, { message: 'dec must be within −90…90°' }).max(90, { message: 'dec must be within −90…90°' })),
   magnitude: finite('magnitude').pipe(z.number().min(-2, { message: 'magnitude must be within −2…22' }).max(22, { message: 'magnitude must be within −2…22' })),
@@ -31,7 +33,7 @@ export const targetInputSchema = z.object({
   periodDays: finite('period').pipe(z.number().min(0.05, { message: 'period must be within 0.05…1000 d' }).max(1000, { message: 'period must be within 0.05…1000 d' })).nullable().default(null),
   /** 1σ uncertainty of `periodDays`, days; only with a period. */
   periodUncertaintyDays: finite('period uncertainty').pipe(z.number().min(0, { message: 'period uncertainty must not be negative' })).nullable().default(null),
-  notes: z.string().max(500, { message: 'notes: at most 500 characters' }).default(''),
+  notes: safeMultiLineText(z.string().max(500, { message: 'notes: at most 500 characters' })).default(''),
 }).refine((t) => t.periodUncertaintyDays === null || t.periodDays !== null, {
   message: 'period uncertainty needs a period',
   path: ['periodUncertaintyDays'],
@@ -40,7 +42,7 @@ export type TargetInput = z.input<typeof targetInputSchema>;
 export type TargetValues = z.output<typeof targetInputSchema>;
 
 /** PUT /api/proposals/:id/targets/:targetId carries the row's version. */
-export const targetUpdateSchema = z.object({ version: z.number().int().positive(), target: targetInputSchema });
+export const targetUpdateSchema = z.object({ version: versionSchema, target: targetInputSchema });
 
 /** A stored target. */
 export interface TargetRow extends TargetValues {

@@ -1,4 +1,5 @@
 import { spawn, type ChildProcess } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import { BASE_URL, E2E_DB, E2E_MAIL_HTTP_PORT, E2E_PORT, E2E_SMTP_PORT } from './e2e-env';
 
@@ -24,6 +25,8 @@ async function waitFor(url: string, child: ChildProcess, name: string): Promise<
  * `npm test` to have run once (or `tsx database/setup.ts spincycle_e2e --seed`).
  */
 export default async function globalSetup(): Promise<void> {
+  // The mailbox answers only with this token; the test workers (started after this) read it.
+  process.env.SPINCYCLE_E2E_MAILBOX_TOKEN ||= randomBytes(24).toString('base64url');
   const env = {
     ...process.env,
     NODE_ENV: 'development',
@@ -31,7 +34,7 @@ export default async function globalSetup(): Promise<void> {
     PGDATABASE: E2E_DB,
     SMTP_PORT: String(E2E_SMTP_PORT),
     MAIL_FAKE_HTTP_PORT: String(E2E_MAIL_HTTP_PORT),
-    MAILBOX_URL: `http://127.0.0.1:${E2E_MAIL_HTTP_PORT}`,
+    MAILBOX_TOKEN: process.env.SPINCYCLE_E2E_MAILBOX_TOKEN,
     LOG_LEVEL: 'warn',
     LOGIN_RATE_LIMIT: '50',
   };

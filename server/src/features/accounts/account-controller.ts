@@ -1,7 +1,7 @@
 import type { Request, Response } from 'express';
 import { listAccountsQuerySchema, updateAccountSchema } from '@spincycle/shared/accounts/account-schemas';
 import type { AppContext } from '../../app-context';
-import { idParamSchema } from '../../http/params';
+import { idParamSchema } from '@spincycle/shared/http/ids';
 import { listAccountsPage, updateAccount } from './account-service';
 
 export function createAccountController(ctx: AppContext) {

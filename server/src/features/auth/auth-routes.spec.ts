@@ -96,16 +96,28 @@ describe('POST /api/auth/sign-out', () => {
 });
 
 describe('POST /api/auth/sign-up', () => {
-  it('creates a proposer (only), signs them in, and refuses the same address twice with 409 on email', async () => {
+  it('answers 202 without a session, creates a proposer (only) and mails a welcome; the same address again gets the same answer and a notice mail', async () => {
     const email = `new-${Date.now()}@test.example`;
     const b = new Browser(h);
     const res = await b.post('/api/auth/sign-up', { email, password: 'long enough password', displayName: 'New Person', affiliation: 'Somewhere' });
-    expect(res.status).toBe(201);
-    expect(res.body.user).toMatchObject({ email, displayName: 'New Person', roles: ['proposer'] });
-    expect((await b.get('/api/auth/session')).body.user.email).toBe(email);
-    const again = await new Browser(h).post('/api/auth/sign-up', { email: email.toUpperCase(), password: 'long enough password', displayName: 'Copy' });
-    expect(again.status).toBe(409);
-    expect(again.body.fieldErrors.email).toBeDefined();
+    expect(res.status).toBe(202);
+    expect(res.body).toEqual({ message: expect.stringContaining('Check your inbox') });
+    expect((await b.get('/api/auth/session')).body.user).toBeNull();
+    const welcome = await h.mail.waitFor((m) => m.to.includes(email));
+    expect(welcome.subject).toMatch(/welcome/i);
+    const signedInAs = (await new Browser(h).signIn(email, 'long enough password').then((x) => x.get('/api/auth/session'))).body.user;
+    expect(signedInAs).toMatchObject({ email, displayName: 'New Person', roles: ['proposer'] });
+
+    h.mail.clear();
+    const again = await new Browser(h).post('/api/auth/sign-up', { email: email.toUpperCase(), password: 'another long password', displayName: 'Copy' });
+    expect(again.status).toBe(202);
+    expect(again.body).toEqual(res.body);
+    const notice = await h.mail.waitFor((m) => m.to.includes(email));
+    expect(notice.subject).toMatch(/tried to sign up/i);
+    expect(notice.text).toContain('http://spincycle.test/forgot-password');
+    // The existing account is untouched.
+    expect((await new Browser(h).post('/api/auth/sign-in', { email, password: 'another long password' })).status).toBe(401);
+    expect((await new Browser(h).post('/api/auth/sign-in', { email, password: 'long enough password' })).status).toBe(200);
   });
 
   it('with a short password and no name answers 400 with both fields', async () => {
@@ -118,8 +130,10 @@ describe('POST /api/auth/sign-up', () => {
   it('ignores a roles field: self-registration cannot grant itself roles', async () => {
     const email = `sneaky-${Date.now()}@test.example`;
     const res = await new Browser(h).post('/api/auth/sign-up', { email, password: 'long enough password', displayName: 'Sneaky', roles: ['administrator'] });
-    expect(res.status).toBe(201);
-    expect(res.body.user.roles).toEqual(['proposer']);
+    expect(res.status).toBe(202);
+    await h.mail.waitFor((m) => m.to.includes(email));
+    const b = await new Browser(h).signIn(email, 'long enough password');
+    expect((await b.get('/api/auth/session')).body.user.roles).toEqual(['proposer']);
   });
 });
 

@@ -15,6 +15,7 @@ import {
   toSessionUser,
 } from '../accounts/account-repository';
 import { hashLinkToken, newLinkToken } from './link-token';
+import { requireAcceptablePassword } from './password-policy';
 import { dummyPasswordHash, hashPassword, verifyPassword } from './password-hash';
 
 /** 401 `invalid_credentials`: the same answer for an unknown address and a wrong password. */
@@ -40,28 +41,72 @@ export async function noteSignIn(ctx: AppContext, accountId: number): Promise<vo
   await recordSignIn(ctx.db, accountId);
 }
 
-/** Self-registration: always a proposer; other roles come from an administrator. */
-export async function signUp(ctx: AppContext, input: Required<SignUpInput>): Promise<SessionUser> {
-  const taken = () =>
-    new AppError('email_taken', 'An account with this e-mail address exists already', 409, {
-      email: ['An account with this e-mail address exists already'],
-    });
-  if (await findAccountByEmail(ctx.db, input.email)) throw taken();
+/** The page where someone who forgot their password asks for a reset link. */
+const forgotPasswordUrl = (ctx: AppContext) => `${ctx.config.publicUrl}/forgot-password`;
+
+/**
+ * Self-registration, run after the request has been answered (202, the same answer whatever
+ * happens here, so that sign-up does not reveal which addresses have an account). A new address
+ * gets a proposer account and a welcome mail; an address with an account already gets a mail
+ * saying that someone tried to sign up with it and how to reset the password; its account is not
+ * touched. The password is hashed in both cases so that the work done is alike.
+ */
+export async function signUp(ctx: AppContext, input: Required<SignUpInput>): Promise<void> {
+  const existing = await findAccountByEmail(ctx.db, input.email);
   const passwordHash = await hashPassword(input.password);
+  if (existing) {
+    await sendAccountExistsMail(ctx, existing.email, existing.displayName);
+    return;
+  }
   try {
-    const id = await ctx.db.transaction((trx) =>
+    await ctx.db.transaction((trx) =>
       insertAccount(trx, { email: input.email, displayName: input.displayName, affiliation: input.affiliation, passwordHash, roles: ['proposer'] }),
     );
-    return (await loadSessionUser(ctx, id))!;
   } catch (err) {
-    if (isUniqueViolation(err)) throw taken();
+    // Two sign-ups for one address at once: the other one created it.
+    if (isUniqueViolation(err)) {
+      await sendAccountExistsMail(ctx, input.email, input.displayName);
+      return;
+    }
     throw err;
   }
+  await ctx.mailer.send({
+    to: input.email,
+    subject: 'Welcome to Spincycle',
+    text: [
+      `Hello ${input.displayName},`,
+      '',
+      'Your Spincycle account is ready. It can write proposals; reviewer, manager and billing roles are added by an administrator.',
+      '',
+      `Sign in with this e-mail address and the password you chose: ${ctx.config.publicUrl}/sign-in`,
+      '',
+      `If you did not create this account, someone else used your address: reset the password at ${forgotPasswordUrl(ctx)} and tell an administrator.`,
+    ].join('\n'),
+  });
+}
+
+async function sendAccountExistsMail(ctx: AppContext, to: string, displayName: string): Promise<void> {
+  await ctx.mailer.send({
+    to,
+    subject: 'Someone tried to sign up to Spincycle with your address',
+    text: [
+      `Hello ${displayName},`,
+      '',
+      'Someone (hopefully you) tried to create a Spincycle account with this e-mail address, which already has an account.',
+      'No new account was created and your password has not changed.',
+      '',
+      `To sign in, use your existing password: ${ctx.config.publicUrl}/sign-in`,
+      `If you have forgotten it, ask for a reset link here: ${forgotPasswordUrl(ctx)}`,
+      '',
+      'If this was not you, you can ignore this message.',
+    ].join('\n'),
+  });
 }
 
 /**
  * Sends a single-use, expiring reset link when the address belongs to an enabled account.
- * Says nothing either way to the caller, so the form cannot be used to probe for accounts.
+ * The controller answers before calling this (see auth-controller), so the caller learns
+ * nothing either way, not even from the time the answer takes.
  */
 export async function requestPasswordReset(ctx: AppContext, email: string): Promise<void> {
   const account = await findAccountByEmail(ctx.db, email);
@@ -70,24 +115,20 @@ export async function requestPasswordReset(ctx: AppContext, email: string): Prom
   const minutes = ctx.config.RESET_TOKEN_MINUTES;
   await insertResetToken(ctx.db, account.id, hashLinkToken(token), new Date(Date.now() + minutes * 60_000));
   const link = `${ctx.config.publicUrl}/reset-password?token=${token}`;
-  try {
-    await ctx.mailer.send({
-      to: account.email,
-      subject: 'Reset your Spincycle password',
-      text: [
-        `Hello ${account.displayName},`,
-        '',
-        'Someone (hopefully you) asked to reset the password of your Spincycle account.',
-        `Open this link within ${minutes} minutes to choose a new password. It works once.`,
-        '',
-        link,
-        '',
-        'If you did not ask for this, ignore this message: your password stays as it is.',
-      ].join('\n'),
-    });
-  } catch (err) {
-    ctx.logger.error({ err, accountId: account.id }, 'password reset mail could not be sent');
-  }
+  await ctx.mailer.send({
+    to: account.email,
+    subject: 'Reset your Spincycle password',
+    text: [
+      `Hello ${account.displayName},`,
+      '',
+      'Someone (hopefully you) asked to reset the password of your Spincycle account.',
+      `Open this link within ${minutes} minutes to choose a new password. It works once.`,
+      '',
+      link,
+      '',
+      'If you did not ask for this, ignore this message: your password stays as it is.',
+    ].join('\n'),
+  });
 }
 
 /** Sets a new password with a valid link, ends the account's other sessions and spends its other links. */
@@ -100,6 +141,9 @@ export async function confirmPasswordReset(ctx: AppContext, input: PasswordReset
         token: ['expired, used or unknown'],
       });
     }
+    // The token is spent only if the whole transaction commits: a refused password leaves it usable.
+    const account = await findAccountById(trx, accountId);
+    if (account) requireAcceptablePassword(input.password, account.email);
     await setPasswordHash(trx, accountId, passwordHash);
     await spendResetTokensOf(trx, accountId);
     await deleteSessionsOf(trx, accountId);

@@ -1,6 +1,6 @@
 import type { Request, Response } from 'express';
 import type { AppContext } from '../../app-context';
-import { idParamSchema } from '../../http/params';
+import { idParamSchema } from '@spincycle/shared/http/ids';
 import { downloadJustification, uploadJustification } from './justification-service';
 
 /** Handlers of /api/proposals/:id/justification (upload and download). */

@@ -48,7 +48,8 @@ describe('PUT/GET /api/proposals/:id/justification', () => {
     expect(fake.body).toMatchObject({ code: 'not_a_pdf', message: expect.stringContaining('“justification.pdf” is not a PDF') });
     const truncated = tinyPdf().subarray(0, 60);
     expect((await uploadFile(browser, 'put', `/api/proposals/${proposal.id}/justification`, truncated, 'cut.pdf')).body.code).toBe('not_a_pdf');
-    expect((await browser.get(`/api/proposals/${proposal.id}`)).body.justification.filename).toBe('notes.txt');
+    // Stored under the type found in the content: the extension follows (see cleanFilename).
+    expect((await browser.get(`/api/proposals/${proposal.id}`)).body.justification.filename).toBe('notes.pdf');
   });
 
   it('refuses a file over 10 MB with 413 file_too_large in the API error shape; nothing stored', async () => {
@@ -80,7 +81,8 @@ describe('looksLikePdf and cleanFilename', () => {
 
   it('cleanFilename drops paths and control characters and never returns an empty name', () => {
     expect(cleanFilename('C:\\Users\\x\\plan.pdf')).toBe('plan.pdf');
-    expect(cleanFilename('../../etc/passwd')).toBe('passwd');
+    // The stored name always carries the extension of the type found in the content.
+    expect(cleanFilename('../../etc/passwd')).toBe('passwd.pdf');
     expect(cleanFilename('a\u0000b\n"c".pdf')).toBe('abc.pdf');
     expect(cleanFilename('')).toBe('justification.pdf');
   });

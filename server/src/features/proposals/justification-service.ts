@@ -17,12 +17,31 @@ export function looksLikePdf(content: Buffer): boolean {
   return content.subarray(Math.max(0, content.length - 1024)).toString('latin1').includes('%%EOF');
 }
 
-/** A file name safe to store and send back: no path, no control characters, at most 200 characters. */
-export function cleanFilename(name: string | undefined): string {
+/** The last path segment of an uploaded name without controls, quotes and invisible format characters (as named in messages). */
+export function visibleFilename(name: string | undefined): string {
   const base = (name ?? '').split(/[\\/]/).pop() ?? '';
-  // eslint-disable-next-line no-control-regex
-  const clean = base.replace(/[\u0000-\u001f\u007f"]/g, '').trim().slice(0, 200);
-  return clean || 'justification.pdf';
+  return (
+    base
+      .normalize('NFC')
+      // Controls (C0, DEL, C1), quotes, and Unicode format characters (Cf: bidi controls, zero-width characters, BOM…).
+      // eslint-disable-next-line no-control-regex
+      .replace(/[\u0000-\u001f\u007f-\u009f"]|\p{Cf}/gu, '')
+      .trim()
+      .slice(0, 200)
+  );
+}
+
+/**
+ * A file name safe to store and send back, for a file whose content is a PDF: no path, no
+ * control characters, no bidirectional embedding/override/isolate characters (which can make
+ * `report\u202Efdp.exe` display as `reportexe.pdf`), no zero-width or other invisible format
+ * characters, no quotes, at most 200 characters, and always ending in `.pdf` (the type the
+ * content was found to be): any other extension is replaced, so the name never suggests a type
+ * the bytes are not.
+ */
+export function cleanFilename(name: string | undefined): string {
+  const stem = visibleFilename(name).replace(/\.[^.]{0,10}$/, '').replace(/[.\s]+$/, '').slice(0, 196);
+  return `${stem || 'justification'}.pdf`;
 }
 
 /**
@@ -39,12 +58,13 @@ export async function uploadJustification(
   // Membership first: someone outside the team learns nothing, not even about their upload.
   await accessProposal(ctx.db, viewer, id);
   const file = requireUploadedFile(upload, 'file');
-  const filename = cleanFilename(file.originalname);
   if (!looksLikePdf(file.buffer)) {
-    throw new AppError('not_a_pdf', `“${filename}” is not a PDF: export the justification as PDF and upload that file`, 415, {
-      file: [`“${filename}” is not a PDF`],
+    const shown = visibleFilename(file.originalname) || 'the file';
+    throw new AppError('not_a_pdf', `“${shown}” is not a PDF: export the justification as PDF and upload that file`, 415, {
+      file: [`“${shown}” is not a PDF`],
     });
   }
+  const filename = cleanFilename(file.originalname);
   const sha256 = createHash('sha256').update(file.buffer).digest('hex');
   await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });

@@ -1,7 +1,7 @@
 import type { Request, Response } from 'express';
 import { acceptInvitationSchema, inviteMemberSchema } from '@spincycle/shared/proposals/proposal-schemas';
 import type { AppContext } from '../../app-context';
-import { idParamSchema, memberParamsSchema } from '../../http/params';
+import { idParamSchema, memberParamsSchema } from '@spincycle/shared/http/ids';
 import { acceptInvitation, inviteMember, removeMember } from './member-service';
 
 /** Handlers of the team routes and of /api/invitations/accept. */

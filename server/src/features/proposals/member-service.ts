@@ -1,17 +1,23 @@
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
-import type { InvitationAccepted, InviteMemberInput, ProposalMember } from '@spincycle/shared/proposals/proposal-schemas';
+import {
+  INVITATION_RESEND_MINUTES,
+  INVITATION_VALID_DAYS,
+  type InvitationAccepted,
+  type InviteMemberInput,
+  type ProposalMember,
+} from '@spincycle/shared/proposals/proposal-schemas';
 import type { AppContext } from '../../app-context';
 import { AppError } from '../../http/app-error';
 import { findAccountByEmail } from '../accounts/account-repository';
 import { hashLinkToken, newLinkToken } from '../auth/link-token';
 import { accessProposal, requireEditable, requirePi } from './proposal-access';
+import { findPendingInvitation, lastInvitationMailAt, recordInvitationMail } from './invitation-repository';
 import { invitationMail } from './proposal-mail';
 import {
   acceptInvitationRow,
   deleteMemberRow,
   deletePendingInvitationsTo,
   findActiveRole,
-  findInvitationByTokenHash,
   findMemberByEmail,
   findMemberById,
   insertInvitation,
@@ -24,8 +30,10 @@ import {
  * co-investigator by e-mail. The link carries a random token of which only the SHA-256 is
  * stored. Someone with an account gets `/invitations/<token>`; someone without one gets
  * `/sign-up?invite=<token>` (the client signs them up, then accepts). Inviting a pending
- * address again sends a fresh link (the old one stops working). Answers the team row and
- * whether it is new.
+ * address again sends a fresh link (the old one stops working), but at most one mail per
+ * address and proposal every INVITATION_RESEND_MINUTES (429 `invitation_throttled`, also
+ * across withdrawing and inviting again), so that the form cannot be used to flood a mailbox.
+ * A link works once and for INVITATION_VALID_DAYS. Answers the team row and whether it is new.
  */
 export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: number, input: InviteMemberInput): Promise<{ member: ProposalMember; created: boolean }> {
   const token = newLinkToken();
@@ -38,6 +46,14 @@ export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: num
     if (existing?.active) throw already();
     const account = await findAccountByEmail(trx, input.email);
     if (account && (await findActiveRole(trx, id, account.id))) throw already();
+    const now = ctx.now();
+    const last = await lastInvitationMailAt(trx, id, input.email);
+    if (last && now.getTime() - last.getTime() < INVITATION_RESEND_MINUTES * 60_000) {
+      const waitMinutes = Math.max(1, Math.ceil((last.getTime() + INVITATION_RESEND_MINUTES * 60_000 - now.getTime()) / 60_000));
+      const message = `An invitation was sent to ${input.email} less than ${INVITATION_RESEND_MINUTES} minutes ago. Wait ${waitMinutes} minute${waitMinutes === 1 ? '' : 's'} before sending another.`;
+      throw new AppError('invitation_throttled', message, 429, { email: [message] });
+    }
+    await recordInvitationMail(trx, { proposalId: id, email: input.email, sentBy: viewer.id, sentAt: now });
     let rowId: number;
     if (existing) {
       await renewInvitation(trx, existing.id, hashLinkToken(token), viewer.id);
@@ -61,14 +77,20 @@ export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: num
 /**
  * POST /api/invitations/accept: the signed-in account joins the team as a co-investigator.
  * The link is the credential: the account's address need not be the invited one (people
- * have several). The token works once; an account already on the team gets 409.
+ * have several). The token works once and for INVITATION_VALID_DAYS after it was sent (400
+ * `invitation_expired` after that); an account already on the team gets 409.
  */
 export async function acceptInvitation(ctx: AppContext, viewer: SessionUser, token: string): Promise<InvitationAccepted> {
   return ctx.db.transaction(async (trx) => {
-    const invitation = await findInvitationByTokenHash(trx, hashLinkToken(token));
+    const invitation = await findPendingInvitation(trx, hashLinkToken(token));
     if (!invitation) {
       throw new AppError('invalid_invitation', 'This invitation link is not valid: it was used already, or the PI withdrew it. Ask the PI for a new one.', 400, {
         token: ['used, withdrawn or unknown'],
+      });
+    }
+    if (ctx.now().getTime() - invitation.invitedAt.getTime() > INVITATION_VALID_DAYS * 86_400_000) {
+      throw new AppError('invitation_expired', `This invitation link has expired: links work for ${INVITATION_VALID_DAYS} days. Ask the PI to invite you again.`, 400, {
+        token: ['expired'],
       });
     }
     if (await findActiveRole(trx, invitation.proposalId, viewer.id)) {

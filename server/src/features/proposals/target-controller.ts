@@ -1,7 +1,7 @@
 import type { Request, Response } from 'express';
 import { targetInputSchema, targetUpdateSchema, targetUploadQuerySchema } from '@spincycle/shared/proposals/target-schemas';
 import type { AppContext } from '../../app-context';
-import { idParamSchema, targetParamsSchema } from '../../http/params';
+import { idParamSchema, targetParamsSchema } from '@spincycle/shared/http/ids';
 import { EXAMPLE_TARGET_CSV } from './target-csv';
 import { addTarget, deleteTarget, exportTargetsCsv, listProposalTargets, updateTarget, uploadTargets } from './target-service';
 

@@ -14,6 +14,7 @@ import {
   type CsvRowError,
   type TargetValues,
 } from '@spincycle/shared/proposals/target-schemas';
+import { stripControlCharacters } from '@spincycle/shared/http/text';
 import { parseDec, parseRa, SkyInputError } from '@spincycle/shared/sky/index';
 import { AppError } from '../../http/app-error';
 
@@ -256,10 +257,21 @@ export function escapeFormulaCell(text: string): string {
   return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
 }
 
-/** Writes targets in the upload's columns (RA/Dec in degrees), text cells escaped. */
+/**
+ * A stored text as written to a cell: without control and direction-override characters (the
+ * API refuses them, but rows stored before it did may hold them), then formula-escaped. Notes
+ * keep their tabs and line breaks, which the CSV quoting carries.
+ */
+function textCell(text: string, multiLine = false): string {
+  // eslint-disable-next-line no-control-regex
+  const clean = multiLine ? text.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f\u202a-\u202e\u2066-\u2069]/gu, '') : stripControlCharacters(text);
+  return escapeFormulaCell(clean);
+}
+
+/** Writes targets in the upload's columns (RA/Dec in degrees), text cells cleaned and escaped. */
 export function writeTargetCsv(targets: TargetValues[]): string {
   const rows = targets.map((t) => [
-    escapeFormulaCell(t.name),
+    textCell(t.name),
     t.raDeg,
     t.decDeg,
     t.magnitude,
@@ -272,7 +284,7 @@ export function writeTargetCsv(targets: TargetValues[]): string {
     t.periodPrecisionDays ?? '',
     t.periodDays ?? '',
     t.periodUncertaintyDays ?? '',
-    escapeFormulaCell(t.notes),
+    textCell(t.notes, true),
   ]);
   return stringify([COLUMN_NAMES, ...rows], { record_delimiter: 'windows' });
 }

@@ -68,18 +68,6 @@ describe('SessionAuth', () => {
     expect(auth.user()).toBeNull();
   });
 
-  it('signUp: posts the new account and signs it in from the 201 answer', async () => {
-    const input = { email: 'ivo.marsh@example.org', password: 'long enough pw', displayName: 'Ivo Marsh', affiliation: '' };
-    const result = firstValueFrom(auth.signUp(input));
-    const req = http.expectOne('/api/auth/sign-up');
-    expect(req.request.method).toBe('POST');
-    expect(req.request.body).toEqual(input);
-    req.flush({ user: { ...REVIEWER, id: 8, roles: ['proposer'] } }, { status: 201, statusText: 'Created' });
-    await result;
-    expect(auth.user()?.id).toBe(8);
-    expect(auth.hasRole('proposer')).toBe(true);
-  });
-
   it('signOut: posts and clears the user on 204', async () => {
     const loaded = auth.load();
     http.expectOne('/api/auth/session').flush({ user: REVIEWER });

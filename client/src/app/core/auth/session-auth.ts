@@ -7,7 +7,6 @@ import type {
   PasswordResetRequestInput,
   SessionUser,
   SignInInput,
-  SignUpInput,
 } from '@spincycle/shared/accounts/account-schemas';
 import { hasAnyRole, type Role } from '@spincycle/shared/accounts/roles';
 
@@ -53,14 +52,6 @@ export class SessionAuth {
 
   signIn(input: SignInInput): Observable<SessionUser> {
     return this.http.post<SignedInResponse>(`${AUTH_API_PREFIX}sign-in`, input).pipe(
-      map(({ user }) => user),
-      tap((user) => this.current.set(user)),
-    );
-  }
-
-  /** Creates a proposer account; the server signs the new account in (201 `{ user }`). */
-  signUp(input: SignUpInput): Observable<SessionUser> {
-    return this.http.post<SignedInResponse>(`${AUTH_API_PREFIX}sign-up`, input).pipe(
       map(({ user }) => user),
       tap((user) => this.current.set(user)),
     );

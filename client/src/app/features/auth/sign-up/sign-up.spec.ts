@@ -7,8 +7,8 @@ import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatFormFieldHarness } from '@angular/material/form-field/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
 import { provideRouter, Router } from '@angular/router';
-import { PASSWORD_MIN_LENGTH } from '@spincycle/shared/accounts/account-schemas';
-import { testUser } from '../../../../testing/session';
+import { PASSWORD_MIN_LENGTH, SIGN_UP_ACCEPTED_MESSAGE } from '@spincycle/shared/accounts/account-schemas';
+import { SessionAuth } from '../../../core/auth/session-auth';
 import SignUp from './sign-up';
 
 describe('SignUp', () => {
@@ -91,17 +91,22 @@ describe('SignUp', () => {
     expect(await password.getTextErrors()).toEqual([`Use at least ${PASSWORD_MIN_LENGTH} characters`]);
   });
 
-  it('accepted: posts the account and goes home signed in', async () => {
+  it('accepted: posts the account, shows "check your inbox" with a sign-in link, stays signed out', async () => {
     await fill(VALID);
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Create account' }))).click();
     const req = backend.expectOne('/api/auth/sign-up');
     expect(req.request.body).toEqual(VALID);
-    req.flush({ user: testUser(['proposer']) }, { status: 201, statusText: 'Created' });
+    req.flush({ message: SIGN_UP_ACCEPTED_MESSAGE }, { status: 202, statusText: 'Accepted' });
     await fixture.whenStable();
-    expect(navigateByUrl).toHaveBeenCalledWith('/');
+    const panel = fixture.nativeElement.querySelector('[data-testid=sign-up-accepted]') as HTMLElement;
+    expect(panel.textContent).toContain(SIGN_UP_ACCEPTED_MESSAGE);
+    expect(panel.querySelector('a')?.getAttribute('href')).toBe('/sign-in');
+    expect(fixture.nativeElement.querySelector('form')).toBeNull();
+    expect(TestBed.inject(SessionAuth).signedIn()).toBe(false);
+    expect(navigateByUrl).not.toHaveBeenCalled();
   });
 
-  it('with ?invite=: says so, and after sign-up goes to the invitation page that accepts it', async () => {
+  it('with ?invite=: says so, and after sign-up the sign-in link continues to the invitation page', async () => {
     fixture.componentRef.setInput('invite', 'k3X9-lantern-invite-token-0042');
     await fixture.whenStable();
     expect(fixture.nativeElement.querySelector('[data-testid=invite-note]').textContent).toContain(
@@ -114,8 +119,9 @@ describe('SignUp', () => {
 
     await fill(VALID);
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Create account' }))).click();
-    backend.expectOne('/api/auth/sign-up').flush({ user: testUser(['proposer']) }, { status: 201, statusText: 'Created' });
+    backend.expectOne('/api/auth/sign-up').flush({ message: SIGN_UP_ACCEPTED_MESSAGE }, { status: 202, statusText: 'Accepted' });
     await fixture.whenStable();
-    expect(navigateByUrl).toHaveBeenCalledWith('/invitations/k3X9-lantern-invite-token-0042');
+    const next = fixture.nativeElement.querySelector('[data-testid=sign-up-accepted] a') as HTMLAnchorElement;
+    expect(next.getAttribute('href')).toBe('/sign-in?returnUrl=%2Finvitations%2Fk3X9-lantern-invite-token-0042');
   });
 });

@@ -6,12 +6,12 @@ import { MatError, MatFormField, MatHint, MatLabel, MatSuffix } from '@angular/m
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatProgressBar } from '@angular/material/progress-bar';
-import { Router, RouterLink } from '@angular/router';
+import { RouterLink } from '@angular/router';
 import { PASSWORD_MIN_LENGTH, signUpSchema } from '@spincycle/shared/accounts/account-schemas';
-import { SessionAuth } from '../../../core/auth/session-auth';
 import { readApiError } from '../../../core/http/api-error-message';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
+import { SignUpApi } from '../sign-up-api';
 
 /** The page that accepts an invitation once the account exists (see features/invitations). */
 export function invitationPath(token: string): string {
@@ -19,9 +19,11 @@ export function invitationPath(token: string): string {
 }
 
 /**
- * Self-registration: the server creates a proposer account and signs it in. With
- * `?invite=<token>` (the link mailed to an invitee without an account) the new account then
- * goes to the invitation page, which accepts it and opens the proposal.
+ * Self-registration: the server answers "check your inbox" (202) whether or not the address
+ * has an account, so that the form does not reveal who has one, and mails a welcome (new
+ * account, a proposer) or a note on how to reset the password (existing account). The page then
+ * offers to sign in. With `?invite=<token>` (the link mailed to an invitee without an account)
+ * signing in continues to the invitation page, which accepts it and opens the proposal.
  */
 @Component({
   selector: 'app-sign-up',
@@ -45,8 +47,7 @@ export function invitationPath(token: string): string {
   styleUrl: '../auth-page.scss',
 })
 export default class SignUp {
-  private readonly auth = inject(SessionAuth);
-  private readonly router = inject(Router);
+  private readonly api = inject(SignUpApi);
 
   /** Query parameter `invite`: a proposal-team invitation to accept after signing up. */
   readonly invite = input<string>();
@@ -59,6 +60,8 @@ export default class SignUp {
   protected readonly passwordMinLength = PASSWORD_MIN_LENGTH;
   protected readonly submitting = signal(false);
   protected readonly serverError = signal<string | null>(null);
+  /** The server's "check your inbox" message once the form has been accepted. */
+  protected readonly accepted = signal<string | null>(null);
   protected readonly showPassword = signal(false);
   protected readonly errorOf = controlErrorMessage;
 
@@ -77,11 +80,11 @@ export default class SignUp {
     }
     this.submitting.set(true);
     this.serverError.set(null);
-    this.auth.signUp(this.form.getRawValue()).subscribe({
-      next: () => {
+    this.api.signUp(this.form.getRawValue()).subscribe({
+      next: ({ message }) => {
         this.submitting.set(false);
-        const token = this.inviteToken();
-        void this.router.navigateByUrl(token ? invitationPath(token) : '/');
+        this.form.controls.password.reset('');
+        this.accepted.set(message);
       },
       error: (error: unknown) => {
         const body = readApiError(error);
