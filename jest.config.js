@@ -24,6 +24,7 @@ module.exports = {
     nodeProject('server', ['<rootDir>/server', '<rootDir>/test/api', '<rootDir>/fakes', '<rootDir>/database'], {
       setupFiles: ['<rootDir>/test/support/server-env.ts'],
       globalSetup: '<rootDir>/test/support/server-global-setup.ts',
+      globalTeardown: '<rootDir>/test/support/server-global-teardown.ts',
     }),
     {
       displayName: 'client',

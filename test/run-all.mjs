@@ -2,12 +2,17 @@
 // type checks, shared (science core), reference (outside oracles), server (API against the
 // real PostgreSQL), client (Angular unit tests) and browser (Debian's chromium). Ends with
 // one line `N passed, N failed` summed over all suites; exits non-zero on any failure.
-import { spawnSync } from 'node:child_process';
+//
+// It uses the test cluster (`.data/pg-test`, port 54339, fsync off), never the development
+// cluster of `npm start`, so both can run at once. Ctrl-C (SIGINT) or SIGTERM stops the running
+// command's whole process group (jest, its workers, the browser suite's servers) and then the
+// test cluster (unless another run, such as a `npx jest` beside it, still holds a lease on it).
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { bringUpCluster } from '../database/cluster.mjs';
+import { bringUpCluster, clusterEnv } from '../database/cluster.mjs';
 import { ensureDebianPackages, fileExists, pythonModule } from '../server/scripts/debian-packages.mjs';
-import { ensureClientBuild, ensureDependencies, projectDir, setUpDatabase, step } from '../server/scripts/setup.mjs';
+import { stopChild } from '../server/scripts/processes.cjs';
+import { ensureClientBuild, ensureDependencies, projectDir, runCommand, runningCommands, setUpDatabase, step } from '../server/scripts/setup.mjs';
 
 const TEST_DB = process.env.SPINCYCLE_TEST_DB ?? 'spincycle_test';
 const E2E_DB = process.env.SPINCYCLE_E2E_DB ?? 'spincycle_e2e';
@@ -17,29 +22,66 @@ const bin = (name) => join(projectDir, 'node_modules', '.bin', name);
 /** @type {{ suite: string, passed: number, failed: number, seconds: number, note?: string }[]} */
 const rows = [];
 
+/** The test cluster's handle once this run has brought it up (`release()` gives our lease back). */
+let cluster;
+let interrupted = false;
+let firstSignalAt = 0;
+
+async function onSignal(signal) {
+  if (interrupted) {
+    // Ctrl-C in a terminal reaches us twice at once (from the terminal and forwarded by npm):
+    // only a second Ctrl-C a moment later means "no more waiting for the suites to wind down".
+    if (Date.now() - firstSignalAt < 1000) return;
+    for (const c of runningCommands) {
+      try {
+        process.kill(-c.pid, 'SIGKILL');
+      } catch {
+        // gone
+      }
+    }
+    return;
+  }
+  interrupted = true;
+  firstSignalAt = Date.now();
+  console.error(`\n${signal}: stopping the running suite…`);
+  // The browser suite's plan worker may finish a running job: allow it the worker's own grace.
+  await Promise.all([...runningCommands].map((c) => stopChild(c, { group: true, graceMs: 30_000 })));
+  if (cluster?.release()) console.error('test cluster stopped');
+  process.exit(signal === 'SIGINT' ? 130 : 143);
+}
+process.on('SIGINT', () => void onSignal('SIGINT'));
+process.on('SIGTERM', () => void onSignal('SIGTERM'));
+
+/** Resolves never once interrupted: the signal handler ends the process. */
+const unlessInterrupted = async (promise) => {
+  const result = await promise;
+  if (interrupted) await new Promise(() => {});
+  return result;
+};
+
 function record(suite, passed, failed, seconds, note) {
   rows.push({ suite, passed, failed, seconds, note });
 }
 
-function typeCheck(label, project) {
+async function typeCheck(label, project) {
   const t0 = performance.now();
   console.log(`\n── ${label} (tsc --noEmit -p ${project})`);
-  const r = spawnSync(bin('tsc'), ['--noEmit', '-p', project], { cwd: projectDir, stdio: 'inherit' });
+  const r = await unlessInterrupted(runCommand(bin('tsc'), ['--noEmit', '-p', project]));
   const ok = r.status === 0;
   if (ok) console.log('   no type errors');
   record(label, ok ? 1 : 0, ok ? 0 : 1, (performance.now() - t0) / 1000);
 }
 
-function jestSuite(project, extraArgs = []) {
+async function jestSuite(project, extraArgs = []) {
   const t0 = performance.now();
   const out = join(resultsDir, `${project}.json`);
   rmSync(out, { force: true });
   console.log(`\n── ${project} suite (jest --selectProjects ${project})`);
-  const r = spawnSync(bin('jest'), ['--selectProjects', project, '--json', `--outputFile=${out}`, '--ci', ...extraArgs], {
-    cwd: projectDir,
-    stdio: 'inherit',
-    env: { ...process.env, SPINCYCLE_TEST_DB: TEST_DB, SPINCYCLE_E2E_DB: E2E_DB, FORCE_COLOR: process.env.FORCE_COLOR ?? '1' },
-  });
+  const r = await unlessInterrupted(
+    runCommand(bin('jest'), ['--selectProjects', project, '--json', `--outputFile=${out}`, '--ci', ...extraArgs], {
+      env: { ...process.env, SPINCYCLE_TEST_DB: TEST_DB, SPINCYCLE_E2E_DB: E2E_DB, FORCE_COLOR: process.env.FORCE_COLOR ?? '1' },
+    }),
+  );
   const seconds = (performance.now() - t0) / 1000;
   if (!existsSync(out)) {
     record(project, 0, 1, seconds, `jest exited with ${r.status} before reporting`);
@@ -67,21 +109,29 @@ async function main() {
       (m) => console.log(`  ${m}`),
     ),
   );
-  // Durability off only if this run starts the cluster (a running `npm start` keeps its own).
-  const cluster = await step('PostgreSQL', () => bringUpCluster({ fast: true, log: (m) => console.log(`  ${m}`) }));
+  // The test cluster (its own folder and port, durability off), never the one `npm start` uses.
+  await step('PostgreSQL (test cluster)', () => {
+    // A lease: a jest run beside us never stops the cluster while we use it, and the last run
+    // to leave stops it.
+    cluster = bringUpCluster({ profile: 'test', lease: `${process.pid}-npm-test`, log: (m) => console.log(`  ${m}`) });
+  });
+  if (interrupted) await new Promise(() => {});
+  // Every child from here on (database set-up, jest and what its global set-ups start) reaches
+  // the test cluster through these variables.
+  Object.assign(process.env, clusterEnv(cluster.settings));
   try {
-    await step(`databases ${TEST_DB} (empty) and ${E2E_DB} (demo data), fresh`, () => {
+    await step(`databases ${TEST_DB} (empty) and ${E2E_DB} (demo data), fresh`, async () => {
       cluster.ensureDatabase(TEST_DB, { fresh: true });
-      setUpDatabase(TEST_DB);
+      await unlessInterrupted(setUpDatabase(TEST_DB));
       cluster.ensureDatabase(E2E_DB, { fresh: true });
-      setUpDatabase(E2E_DB, '--seed');
+      await unlessInterrupted(setUpDatabase(E2E_DB, '--seed'));
     });
 
     let built = true;
-    await step('client production build', () => {
+    await step('client production build', async () => {
       const t = performance.now();
       try {
-        if (!ensureClientBuild()) console.log('  unchanged since the last build');
+        if (!(await unlessInterrupted(ensureClientBuild()))) console.log('  unchanged since the last build');
         record('client build', 1, 0, (performance.now() - t) / 1000);
       } catch (err) {
         console.error(`  ${err.message}`);
@@ -90,17 +140,17 @@ async function main() {
       }
     });
 
-    typeCheck('types: server, shared, database, tests', 'tsconfig.json');
-    typeCheck('types: client app', 'client/tsconfig.app.json');
-    typeCheck('types: client tests', 'client/tsconfig.spec.json');
-    jestSuite('shared');
-    jestSuite('reference');
-    jestSuite('server');
-    jestSuite('client');
-    if (built) jestSuite('browser', ['--runInBand']);
+    await typeCheck('types: server, shared, database, tests', 'tsconfig.json');
+    await typeCheck('types: client app', 'client/tsconfig.app.json');
+    await typeCheck('types: client tests', 'client/tsconfig.spec.json');
+    await jestSuite('shared');
+    await jestSuite('reference');
+    await jestSuite('server');
+    await jestSuite('client');
+    if (built) await jestSuite('browser', ['--runInBand']);
     else record('browser', 0, 1, 0, 'not run: the client build failed');
   } finally {
-    cluster.stop();
+    if (cluster.release()) console.log('test cluster stopped');
   }
 
   const passed = rows.reduce((s, r) => s + r.passed, 0);
@@ -117,6 +167,7 @@ async function main() {
 }
 
 main().catch((err) => {
+  if (interrupted) return;
   console.error(`\nnpm test could not run: ${err.stack ?? err.message}`);
   const passed = rows.reduce((s, r) => s + r.passed, 0);
   const failed = rows.reduce((s, r) => s + r.failed, 0) + 1;

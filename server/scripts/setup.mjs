@@ -1,6 +1,6 @@
 // Set-up steps shared by `npm start` (server/scripts/start.mjs) and `npm test`
 // (test/run-all.mjs). Plain Node with no dependencies: it runs before `npm ci`.
-import { spawn, spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join, relative, resolve } from 'node:path';
@@ -8,6 +8,30 @@ import { fileURLToPath } from 'node:url';
 
 export const projectDir = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
 const bin = (name) => join(projectDir, 'node_modules', '.bin', name);
+
+/** Short-lived commands running right now (npm ci, tsx database/setup.ts, ng build, jest, tsc). */
+export const runningCommands = new Set();
+
+/**
+ * Runs a command to its end without blocking the event loop (so that a Ctrl-C handler can run
+ * meanwhile and stop it). Each runs in its own process group (`detached`), which the handler
+ * signals as a whole (jest's workers and the browser suite's servers included). Resolves to
+ * { status, signal }.
+ */
+export function runCommand(cmd, args, options = {}) {
+  return new Promise((resolve, reject) => {
+    const child = spawn(cmd, args, { cwd: projectDir, stdio: ['ignore', 'inherit', 'inherit'], detached: true, ...options });
+    runningCommands.add(child);
+    child.once('error', (err) => {
+      runningCommands.delete(child);
+      reject(err);
+    });
+    child.once('exit', (status, signal) => {
+      runningCommands.delete(child);
+      resolve({ status, signal });
+    });
+  });
+}
 
 /** Prints a step with its duration. */
 export async function step(label, fn) {
@@ -21,13 +45,13 @@ export async function step(label, fn) {
 const sha256 = (data) => createHash('sha256').update(data).digest('hex');
 
 /** `npm ci` when node_modules is missing or was installed from another package-lock.json. */
-export function ensureDependencies() {
+export async function ensureDependencies() {
   const lock = join(projectDir, 'package-lock.json');
   const stamp = join(projectDir, 'node_modules', '.spincycle-lock-hash');
   const want = sha256(readFileSync(lock));
   if (existsSync(stamp) && readFileSync(stamp, 'utf8') === want && existsSync(bin('tsx'))) return false;
   console.log('  installing dependencies with npm ci (first run on this machine, or package-lock.json changed)');
-  const r = spawnSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: projectDir, stdio: 'inherit' });
+  const r = await runCommand('npm', ['ci', '--no-audit', '--no-fund']);
   if (r.status !== 0) throw new Error('npm ci failed');
   writeFileSync(stamp, want);
   return true;
@@ -62,13 +86,11 @@ function clientSourceHash() {
 export const clientDist = join(projectDir, 'dist', 'client', 'browser');
 
 /** Production build of the Angular client, skipped when its sources did not change. */
-export function ensureClientBuild({ force = false } = {}) {
+export async function ensureClientBuild({ force = false } = {}) {
   const stamp = join(projectDir, 'dist', 'client', '.source-hash');
   const want = clientSourceHash();
   if (!force && existsSync(stamp) && readFileSync(stamp, 'utf8') === want && existsSync(join(clientDist, 'index.html'))) return false;
-  const r = spawnSync(bin('ng'), ['build', '--configuration', 'production'], {
-    cwd: projectDir,
-    stdio: ['ignore', 'inherit', 'inherit'],
+  const r = await runCommand(bin('ng'), ['build', '--configuration', 'production'], {
     env: { ...process.env, NG_CLI_ANALYTICS: 'false', NG_FORCE_TTY: 'false' },
   });
   if (r.status !== 0) throw new Error('the client build failed (see above)');
@@ -77,30 +99,39 @@ export function ensureClientBuild({ force = false } = {}) {
   return true;
 }
 
-/** Migrations (and demo data) for one database, through tsx. */
-export function setUpDatabase(database, seedFlag) {
+/** Migrations (and demo data) for one database, through tsx; `env` points it at a cluster. */
+export async function setUpDatabase(database, seedFlag, env = {}) {
   const args = [join(projectDir, 'database', 'setup.ts'), database];
   if (seedFlag) args.push(seedFlag);
-  const r = spawnSync(bin('tsx'), args, { cwd: projectDir, stdio: 'inherit' });
+  const r = await runCommand(bin('tsx'), args, { env: { ...process.env, ...env } });
   if (r.status !== 0) throw new Error(`setting up database ${database} failed`);
 }
 
-/** Starts a TypeScript entry point with tsx as a child process that shares our terminal. */
-export function startTs(entry, env, { name, quiet = false } = {}) {
+/**
+ * Starts a TypeScript entry point with tsx as a child process that shares our terminal; with
+ * `ipc`, it also gets a message channel (the plan worker reports ready through it). `onExit` is
+ * attached at once, so that an early exit is never missed.
+ */
+export function startTs(entry, env, { name, quiet = false, ipc = false, onExit } = {}) {
   const child = spawn(process.execPath, ['--import', 'tsx', join(projectDir, entry)], {
     cwd: projectDir,
     env: { ...process.env, ...env },
-    stdio: ['ignore', quiet ? 'ignore' : 'inherit', 'inherit'],
+    stdio: ['ignore', quiet ? 'ignore' : 'inherit', 'inherit', ...(ipc ? ['ipc'] : [])],
   });
   child.name = name ?? entry;
+  if (onExit) child.once('exit', (code, signal) => onExit(child, code, signal));
   return child;
 }
 
-/** Waits until an HTTP URL answers (any status), or fails after `timeoutMs`. */
+/**
+ * Waits until an HTTP URL answers (any status), or fails after `timeoutMs`. Only for a port
+ * checked free just before the child started (the mail fake); the web server is checked by
+ * its instance id (waitForOwnServer in processes.cjs).
+ */
 export async function waitForHttp(url, timeoutMs = 30_000, child) {
   const until = Date.now() + timeoutMs;
   while (Date.now() < until) {
-    if (child && child.exitCode !== null) throw new Error(`${child.name} exited with code ${child.exitCode}`);
+    if (child && (child.exitCode !== null || child.signalCode !== null)) throw new Error(`${child.name} exited with ${child.signalCode ?? `code ${child.exitCode}`}`);
     try {
       await fetch(url);
       return;

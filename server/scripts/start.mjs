@@ -1,8 +1,12 @@
 // `npm start`: everything from a fresh machine to a running app, idempotent and quick the
-// second time. Ctrl-C stops what it started (PostgreSQL included, if this run started it).
-import { randomBytes } from 'node:crypto';
-import { bringUpCluster } from '../../database/cluster.mjs';
-import { ensureClientBuild, ensureDependencies, readDemoAccounts, setUpDatabase, startTs, step, waitForHttp } from './setup.mjs';
+// second time. It uses the development cluster (durable, port 54329), never the test one, so
+// `npm test` may run beside it. Ctrl-C stops what it started: the web server and the fakes, the
+// plan worker once its running job has finished (or stopped cleanly), then PostgreSQL if this
+// run started it. A second Ctrl-C stops at once.
+import { randomBytes, randomUUID } from 'node:crypto';
+import { bringUpCluster, clusterEnv } from '../../database/cluster.mjs';
+import { assertPortFree, stopChild, waitForOwnServer, waitForReadyMessage } from './processes.cjs';
+import { ensureClientBuild, ensureDependencies, readDemoAccounts, runningCommands, setUpDatabase, startTs, step, waitForHttp } from './setup.mjs';
 
 const env = {
   PORT: process.env.PORT ?? '4300',
@@ -17,63 +21,98 @@ const mailboxToken = process.env.MAILBOX_TOKEN || randomBytes(24).toString('base
 const mailboxUrl = `http://127.0.0.1:${env.MAIL_FAKE_HTTP_PORT}/?token=${mailboxToken}`;
 const url = `http://${env.HOST}:${env.PORT}`;
 
+/** How long each child may take to stop after SIGTERM before it is killed. */
+const GRACE_MS = { 'plan worker': 30_000 };
+const DEFAULT_GRACE_MS = 6000;
+
 const children = [];
 let cluster;
 let stopping = false;
 
-function stopAll(code = 0) {
+/** Starts a child and watches it from its first moment: an exit we did not ask for stops everything. */
+function startChild(entry, childEnv, name, options = {}) {
+  const child = startTs(entry, childEnv, {
+    name,
+    ...options,
+    onExit: (c, code, signal) => {
+      if (!stopping) {
+        console.error(`${c.name} exited (${signal ?? `code ${code}`}); stopping everything`);
+        void stopAll(1);
+      }
+    },
+  });
+  children.push(child);
+  return child;
+}
+
+async function stopAll(code = 0) {
   if (stopping) return;
   stopping = true;
   console.log('\nstopping Spincycle…');
-  for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
-  const wait = children.map((c) => (c.exitCode === null ? new Promise((r) => c.once('exit', r)) : null)).filter(Boolean);
-  Promise.race([Promise.all(wait), new Promise((r) => setTimeout(r, 6000))]).then(() => {
-    if (cluster?.started) {
-      cluster.stop();
-      console.log('PostgreSQL stopped');
-    }
-    process.exit(code);
-  });
+  for (const c of runningCommands) stopChild(c, { group: true, graceMs: 5000 });
+  const running = children.filter((c) => c.exitCode === null && c.signalCode === null);
+  if (running.some((c) => c.name === 'plan worker')) console.log('  the plan worker finishes its running job first (Ctrl-C again to stop at once)');
+  await Promise.all(running.map((c) => stopChild(c, { graceMs: GRACE_MS[c.name] ?? DEFAULT_GRACE_MS })));
+  while (runningCommands.size) await new Promise((r) => setTimeout(r, 100));
+  if (cluster?.started) {
+    cluster.stop();
+    console.log('PostgreSQL stopped');
+  }
+  process.exit(code);
 }
-process.on('SIGINT', () => stopAll(0));
-process.on('SIGTERM', () => stopAll(0));
+
+let firstSignalAt = 0;
+function onSignal() {
+  if (!stopping) {
+    firstSignalAt = Date.now();
+    return void stopAll(0);
+  }
+  // Ctrl-C in a terminal reaches us twice at once (from the terminal and forwarded by npm): only
+  // a second Ctrl-C a moment later means "no more waiting".
+  if (Date.now() - firstSignalAt < 1000) return;
+  for (const c of [...children, ...runningCommands]) if (c.exitCode === null && c.signalCode === null) c.kill('SIGKILL');
+}
+process.on('SIGINT', onSignal);
+process.on('SIGTERM', onSignal);
 
 async function main() {
   const t0 = performance.now();
   await step('dependencies', () => ensureDependencies());
-  cluster = await step('PostgreSQL', () => bringUpCluster({ log: (m) => console.log(`  ${m}`) }));
-  await step(`database ${env.PGDATABASE}: migrations and demo data`, () => {
+  await step('ports', async () => {
+    await assertPortFree(Number(env.PORT), { host: env.HOST, what: 'the web server', envName: 'PORT' });
+    await assertPortFree(Number(env.SMTP_PORT), { what: 'the SMTP fake', envName: 'SMTP_PORT' });
+    await assertPortFree(Number(env.MAIL_FAKE_HTTP_PORT), { what: 'the development mailbox', envName: 'MAIL_FAKE_HTTP_PORT' });
+  });
+  await step('PostgreSQL', () => {
+    cluster = bringUpCluster({ profile: 'dev', log: (m) => console.log(`  ${m}`) });
+  });
+  if (stopping) return;
+  Object.assign(env, clusterEnv(cluster.settings));
+  await step(`database ${env.PGDATABASE}: migrations and demo data`, async () => {
     cluster.ensureDatabase(env.PGDATABASE);
-    setUpDatabase(env.PGDATABASE, '--seed-if-empty');
+    await setUpDatabase(env.PGDATABASE, '--seed-if-empty', env);
   });
-  await step('client build', () => {
-    if (!ensureClientBuild()) console.log('  unchanged since the last build');
+  if (stopping) return;
+  await step('client build', async () => {
+    if (!(await ensureClientBuild())) console.log('  unchanged since the last build');
   });
+  if (stopping) return;
   await step('local fakes (SMTP)', async () => {
-    const fakes = startTs('fakes/run.ts', { ...env, MAILBOX_TOKEN: mailboxToken }, { name: 'fakes' });
-    children.push(fakes);
+    const fakes = startChild('fakes/run.ts', { ...env, MAILBOX_TOKEN: mailboxToken }, 'fakes');
     await waitForHttp(`http://127.0.0.1:${env.MAIL_FAKE_HTTP_PORT}/`, 20_000, fakes);
   });
   await step('web server', async () => {
-    const server = startTs('server/src/server.ts', env, { name: 'web server' });
-    children.push(server);
-    await waitForHttp(`${url}/api/health`, 30_000, server);
+    const instanceId = randomUUID();
+    const server = startChild('server/src/server.ts', { ...env, SPINCYCLE_INSTANCE_ID: instanceId }, 'web server');
+    await waitForOwnServer(`${url}/api/health`, instanceId, { timeoutMs: 30_000, child: server, name: 'web server' });
   });
   await step('plan worker', async () => {
-    // Computes target plans from the queue in PostgreSQL (pg-boss); it has no HTTP port.
-    const worker = startTs('server/src/worker.ts', env, { name: 'plan worker' });
-    children.push(worker);
-    await new Promise((resolve) => setTimeout(resolve, 300));
-    if (worker.exitCode !== null) throw new Error(`the plan worker exited with code ${worker.exitCode}`);
+    // Computes target plans from the queue in PostgreSQL (pg-boss); it has no HTTP port and
+    // reports ready over its IPC channel once it works the queue.
+    const instanceId = randomUUID();
+    const worker = startChild('server/src/worker.ts', { ...env, SPINCYCLE_INSTANCE_ID: instanceId }, 'plan worker', { ipc: true });
+    await waitForReadyMessage(worker, instanceId, { timeoutMs: 30_000, name: 'the plan worker' });
   });
-  for (const c of children) {
-    c.on('exit', (code) => {
-      if (!stopping) {
-        console.error(`${c.name} exited (code ${code}); stopping everything`);
-        stopAll(1);
-      }
-    });
-  }
 
   const demo = readDemoAccounts();
   const width = Math.max(...demo.accounts.map((a) => a.email.length));
@@ -86,6 +125,7 @@ Press Ctrl-C to stop.`);
 }
 
 main().catch((err) => {
+  if (stopping) return;
   console.error(`\nnpm start failed: ${err.message}`);
-  stopAll(1);
+  void stopAll(1);
 });

@@ -1,14 +1,16 @@
 import { createApp } from './app';
+import { instanceId } from './features/health/instance-id';
 
 /** Starts the HTTP server; SIGINT/SIGTERM close it gracefully (in-flight requests finish). */
 const { app, ctx, close } = createApp();
 const { config, logger } = ctx;
 
 const server = app.listen(config.PORT, config.HOST, () => {
-  logger.info({ url: config.publicUrl }, `Spincycle listening on http://${config.HOST}:${config.PORT}`);
+  logger.info({ url: config.publicUrl, instanceId }, `Spincycle listening on http://${config.HOST}:${config.PORT}`);
 });
-server.on('error', (err) => {
-  logger.fatal({ err }, 'could not listen');
+server.on('error', (err: NodeJS.ErrnoException) => {
+  const hint = err.code === 'EADDRINUSE' ? `: port ${config.PORT} is in use (find the process with \`ss -ltnp 'sport = :${config.PORT}'\`, or set PORT)` : '';
+  logger.fatal({ err }, `could not listen on ${config.HOST}:${config.PORT}${hint}`);
   process.exit(1);
 });
 

@@ -1,12 +1,16 @@
 import { loadConfig } from './config';
 import { createDb } from './db/knex';
+import { instanceId } from './features/health/instance-id';
 import { startPlanWorker } from './jobs/plan-worker';
 import { createLogger } from './logger';
 
 /**
  * The background worker process: computes target plans from the pg-boss queue in the
  * application's database. Started by `npm start` beside the web server; any number may run,
- * on any machine that reaches the database. SIGINT/SIGTERM let a running job finish first.
+ * on any machine that reaches the database. SIGINT/SIGTERM let a running job finish first
+ * (pg-boss graceful stop, up to 20 s; a job cut off then is queued again at the next start).
+ * Started with an IPC channel (by `npm start` or the browser suite), it reports
+ * `{ type: 'ready', instanceId }` once it works the queue, and stops when its launcher goes away.
  */
 const config = loadConfig();
 const logger = createLogger(config).child({ process: 'worker' });
@@ -27,6 +31,11 @@ async function main(): Promise<void> {
   };
   process.on('SIGINT', () => shutdown('SIGINT'));
   process.on('SIGTERM', () => shutdown('SIGTERM'));
+  if (process.send) {
+    // The launcher's channel closes when it exits, even killed: do not run on without it.
+    process.on('disconnect', () => shutdown('launcher gone'));
+    process.send({ type: 'ready', instanceId });
+  }
 }
 
 process.on('unhandledRejection', (err) => logger.error({ err }, 'unhandled promise rejection'));

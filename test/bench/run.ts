@@ -2,6 +2,7 @@
  * `npm run bench`: runs every `*.bench.ts` in this folder (or those named on the command
  * line) and prints their figures. Benchmarks print measurements; they never assert a time.
  * Each file default-exports `async function (): Promise<void>` that prints its own lines.
+ * `npm run bench -- api`: API latency under load (api.bench.ts, autocannon against a server of its own).
  */
 import { readdirSync } from 'node:fs';
 import { join } from 'node:path';

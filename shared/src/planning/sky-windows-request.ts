@@ -9,6 +9,27 @@ export const SKY_WINDOWS_MAX_TARGETS = 500;
 /** Most targets per request when per-night detail is asked for (it is ~36 kB per target and node). */
 export const SKY_WINDOWS_MAX_TARGETS_WITH_NIGHTS = 50;
 
+/**
+ * The work of a request in target-node-nights (targets × nodes × nights of the campaign): the
+ * windows are computed per target, per night, from each node's site.
+ */
+export function skyWindowsCost(targets: number, nodes: number, nights: number): number {
+  return targets * nodes * nights;
+}
+
+/**
+ * Largest request computed on the web process's request thread (≈ 50 targets on one node over
+ * a 40-night campaign, a few milliseconds): anything larger is computed on a worker thread, so
+ * that the web process keeps answering other requests meanwhile.
+ */
+export const SKY_WINDOWS_MAX_INLINE_COST = 2_000;
+
+/**
+ * Largest request accepted at all: a full list (500 targets) on two nodes over the longest
+ * campaign (366 nights). Larger requests get 400 with their numbers; split them by node.
+ */
+export const SKY_WINDOWS_MAX_COST = SKY_WINDOWS_MAX_TARGETS * 2 * 366;
+
 /** One row of a sky-windows request: RA/Dec as typed (degrees, `12.5h`, sexagesimal). */
 export const skyWindowsTargetSchema = z.object({
   name: safeText(z.string().trim().max(80)).optional(),

@@ -1,5 +1,6 @@
 import request from 'supertest';
 import { startHarness } from '../../../../test/support/api-harness';
+import { instanceId } from './instance-id';
 
 describe('GET /api/health', () => {
   it('reports ok with the database reachable', async () => {
@@ -7,9 +8,50 @@ describe('GET /api/health', () => {
     try {
       const res = await request(h.created.app).get('/api/health');
       expect(res.status).toBe(200);
-      expect(res.body).toMatchObject({ status: 'ok', database: 'reachable' });
+      expect(res.body).toMatchObject({ status: 'ok', database: 'reachable', instanceId });
     } finally {
       await h.close();
+    }
+  });
+
+  it('reports the per-process instance id, also when degraded', async () => {
+    expect(instanceId).toMatch(/\S{8,}/);
+    const h = await startHarness({ PGPORT: 1 });
+    try {
+      const res = await request(h.created.app).get('/api/health');
+      expect(res.body.instanceId).toBe(instanceId);
+    } finally {
+      await h.close();
+    }
+  });
+
+  it('takes the instance id the launcher passed in SPINCYCLE_INSTANCE_ID', () => {
+    const before = process.env.SPINCYCLE_INSTANCE_ID;
+    process.env.SPINCYCLE_INSTANCE_ID = 'launcher-given-id-123';
+    try {
+      jest.isolateModules(() => {
+        const fresh = require('./instance-id') as typeof import('./instance-id');
+        expect(fresh.instanceId).toBe('launcher-given-id-123');
+      });
+    } finally {
+      if (before === undefined) delete process.env.SPINCYCLE_INSTANCE_ID;
+      else process.env.SPINCYCLE_INSTANCE_ID = before;
+    }
+  });
+
+  it('makes a random id when no launcher passed one', () => {
+    const before = process.env.SPINCYCLE_INSTANCE_ID;
+    delete process.env.SPINCYCLE_INSTANCE_ID;
+    try {
+      const ids = new Set<string>();
+      for (let i = 0; i < 2; i++) {
+        jest.isolateModules(() => {
+          ids.add((require('./instance-id') as typeof import('./instance-id')).instanceId);
+        });
+      }
+      expect(ids.size).toBe(2);
+    } finally {
+      if (before !== undefined) process.env.SPINCYCLE_INSTANCE_ID = before;
     }
   });
 

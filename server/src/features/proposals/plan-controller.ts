@@ -1,14 +1,24 @@
 import type { Request, Response } from 'express';
 import type { AppContext } from '../../app-context';
 import { idParamSchema, nodeIdQuerySchema, targetParamsSchema } from '../../http/params';
-import { getPlanExplanation, getProposalPlans, getTargetSky, recomputeProposalPlans } from './plan-service';
+import { planListQuerySchema } from '@spincycle/shared/proposals/plan-types';
+import { getPlanExplanation, getPlanMarkers, getPlanRunStatus, getProposalPlans, getTargetSky, recomputeProposalPlans } from './plan-service';
 
-/** Handlers of the plan routes (plans, recompute, sky windows of a target). */
+/** Handlers of the plan routes (plans, run status, recompute, sky windows of a target). */
 export function createPlanController(ctx: AppContext) {
   return {
     async plans(req: Request, res: Response) {
       const { id } = idParamSchema.parse(req.params);
-      res.json(await getProposalPlans(ctx, req.user!, id));
+      const query = planListQuerySchema.parse(req.query);
+      res.json(await getProposalPlans(ctx, req.user!, id, query));
+    },
+    async status(req: Request, res: Response) {
+      const { id } = idParamSchema.parse(req.params);
+      res.json(await getPlanRunStatus(ctx, req.user!, id));
+    },
+    async markers(req: Request, res: Response) {
+      const { id } = idParamSchema.parse(req.params);
+      res.json(await getPlanMarkers(ctx, req.user!, id));
     },
     async recompute(req: Request, res: Response) {
       const { id } = idParamSchema.parse(req.params);

@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
+import { inParallel } from '../../db/in-parallel';
 import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
-import type { PlanExplanation, PlanRunStatus, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import type { PlanExplanation, PlanListQuery, PlanMarker, PlanRunStatus, PlanSortKey, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 
 /** The computed part of a plan row, stored as `target_plans.result` (with every explained number). */
 export type StoredPlanResult = Omit<TargetPlanRow, 'targetId' | 'targetName' | 'nodeId' | 'nodeCode'> & Pick<PlanExplanation, 'quantities'>;
@@ -20,10 +21,19 @@ interface PlanRunRow {
   finished_at: Date | null;
   error: string | null;
   inputs_hash: string | null;
+  inputs_version: number;
+  current_hash: string | null;
+  current_hash_model: string | null;
 }
 
 export interface StoredPlanRun extends Omit<PlanRunStatus, 'current'> {
+  /** Hash of the inputs the stored plans were computed from. */
   inputsHash: string | null;
+  /** Raised (by triggers) in the transaction of every change of the plans' inputs. */
+  inputsVersion: number;
+  /** Cached hash of today's inputs at `inputsVersion`, computed with model `currentHashModel`; null when not known. */
+  currentHash: string | null;
+  currentHashModel: string | null;
 }
 
 function toRun(r: PlanRunRow): StoredPlanRun {
@@ -35,6 +45,9 @@ function toRun(r: PlanRunRow): StoredPlanRun {
     finishedAt: r.finished_at?.toISOString() ?? null,
     error: r.error,
     inputsHash: r.inputs_hash,
+    inputsVersion: r.inputs_version,
+    currentHash: r.current_hash,
+    currentHashModel: r.current_hash_model,
   };
 }
 
@@ -42,6 +55,16 @@ function toRun(r: PlanRunRow): StoredPlanRun {
 export async function findPlanRun(db: Knex, proposalId: number): Promise<StoredPlanRun | undefined> {
   const row: PlanRunRow | undefined = await db('plan_runs').where({ proposal_id: proposalId }).first();
   return row ? toRun(row) : undefined;
+}
+
+/**
+ * Caches the hash of today's inputs, unless they changed since `inputsVersion` was read (the
+ * version is read before the inputs, so a change committed in between also raises it).
+ */
+export async function storeCurrentInputsHash(db: Knex, proposalId: number, input: { hash: string; model: string; inputsVersion: number }): Promise<void> {
+  await db('plan_runs')
+    .where({ proposal_id: proposalId, inputs_version: input.inputsVersion })
+    .update({ current_hash: input.hash, current_hash_model: input.model });
 }
 
 /** The run of a new proposal: idle, its (empty) plans current for `inputsHash`. */
@@ -111,6 +134,8 @@ export async function replaceTargetPlans(db: Knex, proposalId: number, inputsHas
     currency: r.result ? r.result.currency : null,
     // pg would send a JS array as a PostgreSQL array: json values go as JSON text.
     result: r.result ? JSON.stringify(r.result) : null,
+    // The row of the plans table, read by the list (the explained numbers stay in `result`).
+    summary: r.result ? JSON.stringify(toPlanSummary(r.result)) : null,
     error: r.error ?? null,
     computed_at: db.fn.now(),
   }));
@@ -119,16 +144,108 @@ export async function replaceTargetPlans(db: Knex, proposalId: number, inputsHas
   for (let i = 0; i < records.length; i += 100) await db('target_plans').insert(records.slice(i, i + 100));
 }
 
+/** What the plans table shows of a plan: everything but the explained quantities. */
+export type StoredPlanSummary = Omit<StoredPlanResult, 'quantities'>;
+
+/** The summary stored beside a result (`target_plans.summary`). */
+export function toPlanSummary(result: StoredPlanResult): StoredPlanSummary {
+  const { quantities: _quantities, ...summary } = result;
+  return summary;
+}
+
 interface StoredPlanDbRow {
   target_id: number;
   node_id: number;
   target_name: string;
   node_code: string;
-  result: Omit<StoredPlanResult, 'quantities'> | null;
+  summary: StoredPlanSummary | null;
   error: string | null;
 }
 
-/** Stored plans of the proposal, in list order then node code. */
+const toPlanRow = (r: StoredPlanDbRow & { summary: StoredPlanSummary }): TargetPlanRow => ({
+  targetId: r.target_id,
+  targetName: r.target_name,
+  nodeId: r.node_id,
+  nodeCode: r.node_code,
+  ...r.summary,
+});
+
+/** SQL of each sort key (numbers of the summary as float8); ties go in list order, then node code. */
+const SORT_SQL: Record<PlanSortKey, string> = {
+  target: 't.position',
+  node: 'n.code',
+  period: "(tp.summary->>'periodDays')::float8",
+  amplitude: "(tp.summary->>'amplitudePpm')::float8",
+  precision: "(tp.summary->>'perVisitPrecisionPpm')::float8",
+  exposure: "(tp.summary->>'exposureSeconds')::float8",
+  visits: "(tp.summary->>'visits')::float8",
+  completeness: "(tp.summary->>'completeness')::float8",
+  visitsPerNight: "(tp.summary->>'visitsPerNight')::float8",
+  cadence: "(tp.summary->>'cadenceDays')::float8",
+  baseline: "(tp.summary->>'baselineDays')::float8",
+  usableNights: "(tp.summary->>'usableNights')::float8",
+  nodeHours: 'tp.node_hours',
+  fee: 'tp.fee_minor',
+};
+
+/** One page of a proposal's stored plans (not errors), filtered and sorted, with the number matching. */
+export async function listPlanPage(db: Knex, proposalId: number, query: PlanListQuery): Promise<{ plans: TargetPlanRow[]; matched: number }> {
+  const descending = query.sort.startsWith('-');
+  const key = (descending ? query.sort.slice(1) : query.sort) as PlanSortKey;
+  const q = db('target_plans as tp')
+    .join('targets as t', 't.id', 'tp.target_id')
+    .join('nodes as n', 'n.id', 'tp.node_id')
+    .where('tp.proposal_id', proposalId)
+    .whereNotNull('tp.summary');
+  if (query.feasible !== undefined) q.where('tp.feasible', query.feasible);
+  if (query.nodeId !== undefined) q.where('tp.node_id', query.nodeId);
+  const text = query.q;
+  if (text) {
+    // strpos, not LIKE: the text needs no escaping of % and _.
+    q.where((w) => w.whereRaw('strpos(lower(t.name), lower(?)) > 0', [text]).orWhereRaw('strpos(lower(n.code), lower(?)) > 0', [text]));
+  }
+  const rows: (StoredPlanDbRow & { summary: StoredPlanSummary; matched: string | number })[] = await q
+    .orderByRaw(`${SORT_SQL[key]} ${descending ? 'DESC' : 'ASC'} NULLS LAST, t.position, t.id, n.code`)
+    .limit(query.pageSize)
+    .offset((query.page - 1) * query.pageSize)
+    .select('tp.target_id', 'tp.node_id', 't.name as target_name', 'n.code as node_code', 'tp.summary', db.raw('count(*) OVER () AS matched'));
+  // A page past the end has no row to carry the count: count separately then (rare).
+  let matched = rows.length ? Number(rows[0].matched) : 0;
+  if (!rows.length && query.page > 1) {
+    const [{ n }] = await q.clone().clearSelect().clearOrder().clear('limit').clear('offset').count<{ n: string }[]>({ n: '*' });
+    matched = Number(n);
+  }
+  return { plans: rows.map(toPlanRow), matched };
+}
+
+/** Counts of a proposal's stored plans (whatever the filter), and its error rows (on one node, if given). */
+export async function planCountsAndErrors(
+  db: Knex,
+  proposalId: number,
+  nodeId?: number,
+): Promise<{ counts: { plans: number; infeasible: number }; errors: { targetId: number; nodeId: number; message: string }[] }> {
+  const [totals, errorRows] = await inParallel(db, [
+    () =>
+      db('target_plans')
+        .where({ proposal_id: proposalId })
+        .first(db.raw('count(*) FILTER (WHERE summary IS NOT NULL) AS plans'), db.raw('count(*) FILTER (WHERE NOT feasible) AS infeasible')) as Promise<{ plans: string; infeasible: string }>,
+    () => {
+      const q = db('target_plans as tp')
+        .join('targets as t', 't.id', 'tp.target_id')
+        .join('nodes as n', 'n.id', 'tp.node_id')
+        .where('tp.proposal_id', proposalId)
+        .whereNotNull('tp.error');
+      if (nodeId !== undefined) q.where('tp.node_id', nodeId);
+      return q.orderBy(['t.position', 't.id', 'n.code']).select('tp.target_id', 'tp.node_id', 'tp.error') as Promise<{ target_id: number; node_id: number; error: string }[]>;
+    },
+  ] as const);
+  return {
+    counts: { plans: Number(totals.plans), infeasible: Number(totals.infeasible) },
+    errors: errorRows.map((r) => ({ targetId: r.target_id, nodeId: r.node_id, message: r.error })),
+  };
+}
+
+/** Every stored plan of the proposal, in list order then node code (the summary PDF). */
 export async function listStoredPlans(
   db: Knex,
   proposalId: number,
@@ -141,11 +258,11 @@ export async function listStoredPlans(
     .orderBy('t.id')
     .orderBy('n.code')
     // The explained numbers (~90 % of each result) stay in the database: the side panel asks for them.
-    .select('tp.target_id', 'tp.node_id', 't.name as target_name', 'n.code as node_code', db.raw("(tp.result::jsonb - 'quantities') AS result"), 'tp.error');
+    .select('tp.target_id', 'tp.node_id', 't.name as target_name', 'n.code as node_code', 'tp.summary', 'tp.error');
   const plans: TargetPlanRow[] = [];
   const errors: { targetId: number; nodeId: number; message: string }[] = [];
   for (const r of rows) {
-    if (r.result) plans.push({ targetId: r.target_id, targetName: r.target_name, nodeId: r.node_id, nodeCode: r.node_code, ...r.result });
+    if (r.summary) plans.push(toPlanRow({ ...r, summary: r.summary }));
     else errors.push({ targetId: r.target_id, nodeId: r.node_id, message: r.error ?? 'not computed' });
   }
   return { plans, errors };
@@ -207,4 +324,19 @@ export async function nodeRequestTotals(db: Knex, proposalId: number): Promise<N
 export async function countPlanErrors(db: Knex, proposalId: number): Promise<number> {
   const [{ n }] = await db('target_plans').where({ proposal_id: proposalId }).whereNotNull('error').count<{ n: number }[]>({ n: '*' });
   return n;
+}
+
+/** Every stored plan of a proposal as a chart marker (target, node, feasible, period), unpaged. */
+export async function listPlanMarkers(db: Knex, proposalId: number): Promise<PlanMarker[]> {
+  const rows = (await db('target_plans')
+    .where({ proposal_id: proposalId })
+    .whereNotNull('summary')
+    .orderBy([{ column: 'target_id' }, { column: 'node_id' }])
+    .select('target_id', 'node_id', 'feasible', db.raw("(summary->>'periodDays')::float8 AS period_days"))) as {
+    target_id: number;
+    node_id: number;
+    feasible: boolean;
+    period_days: number | null;
+  }[];
+  return rows.map((r) => ({ targetId: r.target_id, nodeId: r.node_id, feasible: r.feasible, periodDays: r.period_days }));
 }

@@ -200,16 +200,23 @@ describe('the plan job through pg-boss', () => {
       expect(up.status).toBe(200);
 
       const seen = new Set<string>();
-      let plans: { run: { state: string; done: number; total: number; current: boolean }; plans: unknown[] } | undefined;
+      let run: { state: string; done: number; total: number; current: boolean } | undefined;
       const until = Date.now() + 30_000;
+      // As the plans tab does: the small status while the run is in progress, the list once at the end.
       while (Date.now() < until) {
-        plans = (await browser.get(`/api/proposals/${proposal.id}/plans`)).body;
-        seen.add(plans!.run.state);
-        if (plans!.run.state === 'idle' && plans!.run.current) break;
+        run = (await browser.get(`/api/proposals/${proposal.id}/plans/status`)).body;
+        seen.add(run!.state);
+        if (run!.state === 'idle' && run!.current) break;
         await new Promise((r) => setTimeout(r, 100));
       }
-      expect(plans!.run).toMatchObject({ state: 'idle', current: true, total: count, done: count });
-      expect(plans!.plans).toHaveLength(count * 3);
+      expect(run).toMatchObject({ state: 'idle', current: true, total: count, done: count });
+      const plans = (await browser.get(`/api/proposals/${proposal.id}/plans?pageSize=200`)).body;
+      expect(plans.run).toEqual(run);
+      expect(plans.plans).toHaveLength(count * 3);
+      expect(plans.matched).toBe(count * 3);
+      // The worker stored each row's summary beside its explained result.
+      const stored = await app.created.ctx.db('target_plans').where({ proposal_id: proposal.id }).whereNull('summary').count<{ n: string }[]>({ n: '*' });
+      expect(Number(stored[0].n)).toBe(0);
       expect(seen.has('queued') || seen.has('running')).toBe(true);
 
       // pg-boss recorded a completed job for this proposal.

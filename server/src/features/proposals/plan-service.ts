@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import type { Logger } from 'pino';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
 import { computeNodeTargetPlan, requirementFromPlan } from '@spincycle/shared/planning/node-target-plan';
-import type { PlanExplanation, PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
+import type { PlanExplanation, PlanListQuery, PlanMarker, PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
 import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
 import { SkyInputError, toSkyWindowsReport, type SkyWindowsReport } from '@spincycle/shared/sky/index';
 import type { AppContext } from '../../app-context';
@@ -11,16 +11,19 @@ import { AppError, invalidField } from '../../http/app-error';
 import { listCycleNodes } from '../cycles/cycle-repository';
 import { listNodes } from '../facility/facility-repository';
 import { computePlanRows, nodeSkyWindows, toPlanTarget } from './plan-computation';
-import { loadPlanInputs, loadPlanInputsOf, planInputsHash } from './plan-inputs';
+import { loadPlanInputs, loadPlanInputsOf, PLAN_MODEL_VERSION, planInputsHash } from './plan-inputs';
 import {
   failPlanRun,
   findPlanRun,
   findPlanExplanation,
   finishPlanRun,
-  listStoredPlans,
+  listPlanPage,
   markPlansRequested,
+  listPlanMarkers,
+  planCountsAndErrors,
   replaceTargetPlans,
   startPlanRun,
+  storeCurrentInputsHash,
   updatePlanProgress,
   type StoredPlanRun,
 } from './plan-repository';
@@ -70,14 +73,18 @@ export async function computeAndStoreProposalPlans(db: Knex, proposalId: number,
   const written = await db.transaction(async (trx) => {
     // Lock the proposal: edits wait for this write, so the hash check below sees a settled state.
     if (!(await findProposalById(trx, proposalId, { forUpdate: true }))) return false;
+    // Read before the inputs: a change committed after this raises it, and the cache stays empty.
+    const inputsVersion = (await findPlanRun(trx, proposalId))?.inputsVersion;
     const now = await loadPlanInputs(trx, proposalId);
     const existing = new Set(now!.targets.map((t) => t.id));
     const requested = new Set(now!.nodes.map((n) => n.id));
     // Targets deleted (or nodes dropped) while computing have no row to hang a plan on.
     const kept = rows.filter((r) => existing.has(r.targetId) && requested.has(r.nodeId));
     await replaceTargetPlans(trx, proposalId, inputsHash, kept);
-    const changed = planInputsHash(now!) !== inputsHash;
+    const currentHash = planInputsHash(now!);
+    const changed = currentHash !== inputsHash;
     await finishPlanRun(trx, proposalId, { inputsHash, total, state: changed ? 'queued' : 'idle' });
+    if (inputsVersion !== undefined) await storeCurrentInputsHash(trx, proposalId, { hash: currentHash, model: String(PLAN_MODEL_VERSION), inputsVersion });
     return true;
   });
   const writeMs = performance.now() - t1;
@@ -104,22 +111,51 @@ export async function runPlanJob(db: Knex, proposalId: number, logger: Logger): 
 /** The run status as the API shows it; `current` compares the stored plans' inputs with today's. */
 function toRunStatus(run: StoredPlanRun | undefined, currentHash: string): PlanRunStatus {
   if (!run) return { state: 'idle', total: 0, done: 0, startedAt: null, finishedAt: null, error: null, current: false };
-  const { inputsHash, ...rest } = run;
+  const { inputsHash, inputsVersion: _v, currentHash: _h, currentHashModel: _m, ...rest } = run;
   return { ...rest, current: inputsHash === currentHash };
 }
 
-/** The run status of a proposal reached through accessProposal (for readiness and the proposal page). */
-export async function planRunStatusOf(db: Knex, access: Pick<ProposalAccess, 'proposal' | 'cycle'>): Promise<PlanRunStatus> {
-  const id = access.proposal.id;
-  const [run, inputs] = await inParallel(db, [() => findPlanRun(db, id), () => loadPlanInputsOf(db, access.proposal, access.cycle)] as const);
-  return toRunStatus(run, planInputsHash(inputs));
+/**
+ * The hash of today's inputs: the one cached in `plan_runs` while no change raised its
+ * version (triggers raise it in the transaction of every change of targets, requested nodes,
+ * completeness, campaign, node or site), else computed from the inputs and cached for the
+ * next request. Only the first request after a change loads every target.
+ */
+async function currentInputsHash(db: Knex, access: Pick<ProposalAccess, 'proposal' | 'cycle'>, run: StoredPlanRun | undefined): Promise<string> {
+  const model = String(PLAN_MODEL_VERSION);
+  if (run?.currentHash && run.currentHashModel === model) return run.currentHash;
+  // `run` was read before the inputs: storeCurrentInputsHash skips the write if they changed since.
+  const hash = planInputsHash(await loadPlanInputsOf(db, access.proposal, access.cycle));
+  if (run) await storeCurrentInputsHash(db, access.proposal.id, { hash, model, inputsVersion: run.inputsVersion });
+  return hash;
 }
 
-/** GET /api/proposals/:id/plans (team members). */
-export async function getProposalPlans(ctx: AppContext, viewer: SessionUser, id: number): Promise<ProposalPlans> {
+/** The run status of a proposal reached through accessProposal (for readiness, the proposal page and the plans tab). */
+export async function planRunStatusOf(db: Knex, access: Pick<ProposalAccess, 'proposal' | 'cycle'>): Promise<PlanRunStatus> {
+  const run = await findPlanRun(db, access.proposal.id);
+  return toRunStatus(run, await currentInputsHash(db, access, run));
+}
+
+/** GET /api/proposals/:id/plans/status (team members): the run alone, polled while it is in progress. */
+export async function getPlanRunStatus(ctx: AppContext, viewer: SessionUser, id: number): Promise<PlanRunStatus> {
+  return planRunStatusOf(ctx.db, await accessProposal(ctx.db, viewer, id));
+}
+
+/** GET /api/proposals/:id/plans?page=&pageSize=&feasible=&nodeId=&q=&sort= (team members): one page of the plans. */
+export async function getProposalPlans(ctx: AppContext, viewer: SessionUser, id: number, query: PlanListQuery): Promise<ProposalPlans> {
   const access = await accessProposal(ctx.db, viewer, id);
-  const [run, stored] = await Promise.all([planRunStatusOf(ctx.db, access), listStoredPlans(ctx.db, id)]);
-  return { run, ...stored };
+  const [run, page, totals] = await inParallel(ctx.db, [
+    () => planRunStatusOf(ctx.db, access),
+    () => listPlanPage(ctx.db, id, query),
+    () => planCountsAndErrors(ctx.db, id, query.nodeId),
+  ] as const);
+  return { run, plans: page.plans, page: query.page, pageSize: query.pageSize, matched: page.matched, counts: totals.counts, errors: totals.errors };
+}
+
+/** GET /api/proposals/:id/plans/markers (team members): every plan as a chart marker, unpaged. */
+export async function getPlanMarkers(ctx: AppContext, viewer: SessionUser, id: number): Promise<PlanMarker[]> {
+  await accessProposal(ctx.db, viewer, id);
+  return listPlanMarkers(ctx.db, id);
 }
 
 /** POST /api/proposals/:id/plans/recompute (team members, editable proposals): 202 with the run status. */

@@ -1,8 +1,11 @@
+import type { RequestHandler } from 'express';
 import type { Knex } from 'knex';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
 import { callStatusAt } from '@spincycle/shared/facility/facility-types';
 import type { MemberRole } from '@spincycle/shared/proposals/proposal-schemas';
 import { isEditableState, PROPOSAL_STATE_LABELS } from '@spincycle/shared/proposals/proposal-states';
+import { idParamSchema } from '@spincycle/shared/http/ids';
+import type { AppContext } from '../../app-context';
 import { AppError } from '../../http/app-error';
 import { findCycleById, type StoredCycle } from '../cycles/cycle-repository';
 import { formatUtc } from '../cycles/cycle-service';
@@ -61,4 +64,26 @@ export function requireEditable(access: ProposalAccess, now: Date): void {
   if (status === 'upcoming') {
     throw new AppError('not_editable', `The call for ${cycle.code} opens at ${formatUtc(cycle.callOpensAt)}; the proposal can be changed once it is open`, 409);
   }
+}
+
+/**
+ * Middleware for the upload routes (justification PDF, target CSV), placed before the
+ * multipart parser: the proposal must exist, the viewer must be on its team and it must be
+ * editable, or the request is refused before a byte of the body is read. Why: the parser
+ * buffers the file in memory (up to its limit) before the handler runs, so without this check
+ * anyone signed in could make the server hold ten megabytes per request for a proposal they
+ * cannot touch. A refused request closes its connection, so the client stops sending a body
+ * that nobody reads. The services check again inside their transactions.
+ */
+export function requireEditableProposalBeforeUpload(ctx: AppContext): RequestHandler {
+  return async (req, res, next) => {
+    try {
+      const { id } = idParamSchema.parse(req.params);
+      requireEditable(await accessProposal(ctx.db, req.user!, id), ctx.now());
+    } catch (err) {
+      res.setHeader('Connection', 'close');
+      throw err;
+    }
+    next();
+  };
 }

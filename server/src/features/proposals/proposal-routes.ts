@@ -5,6 +5,7 @@ import { JUSTIFICATION_MAX_BYTES, singleFileUpload, TARGET_CSV_MAX_BYTES } from 
 import { createJustificationController } from './justification-controller';
 import { createMemberController } from './member-controller';
 import { createPlanController } from './plan-controller';
+import { requireEditableProposalBeforeUpload } from './proposal-access';
 import { createProposalController } from './proposal-controller';
 import { createSubmissionController } from './submission-controller';
 import { createTargetController } from './target-controller';
@@ -24,6 +25,8 @@ export function createProposalRoutes(ctx: AppContext): Router {
   const submission = createSubmissionController(ctx);
   const pdfUpload = singleFileUpload({ field: 'file', maxBytes: JUSTIFICATION_MAX_BYTES, tooLargeMessage: 'The justification PDF is larger than 10 MB' });
   const csvUpload = singleFileUpload({ field: 'file', maxBytes: TARGET_CSV_MAX_BYTES, tooLargeMessage: 'The target list is larger than 5 MB' });
+  // Who may upload is settled before the multipart body is read (proposal-access.ts).
+  const uploadAccess = requireEditableProposalBeforeUpload(ctx);
 
   const router = Router();
   router.use(requireSignedIn);
@@ -36,12 +39,12 @@ export function createProposalRoutes(ctx: AppContext): Router {
   router.post('/:id/members', members.invite);
   router.delete('/:id/members/:memberId', members.remove);
 
-  router.put('/:id/justification', pdfUpload, justification.upload);
+  router.put('/:id/justification', uploadAccess, pdfUpload, justification.upload);
   router.get('/:id/justification', justification.download);
 
   router.get('/:id/targets', targets.list);
   router.post('/:id/targets', targets.add);
-  router.post('/:id/targets/upload', csvUpload, targets.upload);
+  router.post('/:id/targets/upload', uploadAccess, csvUpload, targets.upload);
   router.get('/:id/targets.csv', targets.exportCsv);
   router.put('/:id/targets/:targetId', targets.update);
   router.delete('/:id/targets/:targetId', targets.remove);
@@ -49,6 +52,8 @@ export function createProposalRoutes(ctx: AppContext): Router {
   router.get('/:id/targets/:targetId/plan', plans.explanation);
 
   router.get('/:id/plans', plans.plans);
+  router.get('/:id/plans/status', plans.status);
+  router.get('/:id/plans/markers', plans.markers);
   router.post('/:id/plans/recompute', plans.recompute);
 
   router.get('/:id/readiness', submission.readiness);

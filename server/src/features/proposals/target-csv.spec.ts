@@ -1,5 +1,5 @@
 import { AppError } from '../../http/app-error';
-import { decodeCsvText, escapeFormulaCell, EXAMPLE_TARGET_CSV, readTargetCsv, writeTargetCsv } from './target-csv';
+import { decodeCsvText, escapeFormulaCell, EXAMPLE_TARGET_CSV, readTargetCsv, readTargetCsvStream, writeTargetCsv } from './target-csv';
 
 const HEADER = 'name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,period,period_error,notes';
 
@@ -40,8 +40,35 @@ describe('readTargetCsv', () => {
   it('refuses a file without rows, with too many rows, or without its required columns', () => {
     expect(() => readTargetCsv('  \n ')).toThrow(AppError);
     expect(() => readTargetCsv(`${HEADER}\n`)).toThrow(/header row but no targets/);
-    expect(() => readTargetCsv([HEADER, 'a,1,1,1,V,1,BV,,1,,,,,', 'b,1,1,1,V,1,BV,,1,,,,,'].join('\n'), 1)).toThrow(/The list has 2 targets; a proposal holds at most 1/);
+    expect(() => readTargetCsv([HEADER, 'a,1,1,1,V,1,BV,,1,,,,,', 'b,1,1,1,V,1,BV,,1,,,,,'].join('\n'), 1)).toThrow(/The list has more than 1 targets; a proposal holds at most 1/);
     expect(() => readTargetCsv('name,ra,dec\nx,1,1')).toThrow(/missing required columns magnitude, band, colour, colour_system, age_myr/);
+  });
+});
+
+describe('readTargetCsvStream', () => {
+  it('reads a list like readTargetCsv: the example, a semicolon file, every row problem', async () => {
+    expect(await readTargetCsvStream(EXAMPLE_TARGET_CSV)).toEqual(readTargetCsv(EXAMPLE_TARGET_CSV));
+    const semicolons = [HEADER.replace(/,/g, ';'), 'Star S-1;10;-10;11;V;0.7;BV;;900;;;;;', 'Star S-2;10;100;11;V;0.7;BV;;900;;;;;'].join('\r\n');
+    expect(await readTargetCsvStream(semicolons)).toEqual(readTargetCsv(semicolons));
+    // Many rows: several parser chunks and yields.
+    const many = [HEADER, ...Array.from({ length: 1500 }, (_, i) => `Star M-${i + 1},${(i * 0.2) % 360},${i % 2 ? '' : '-'}12.5,11,V,0.7,BV,,900,,,,,${'n'.repeat(i % 300)}`)].join('\n');
+    const streamed = await readTargetCsvStream(many);
+    expect(streamed.rows).toHaveLength(1500);
+    expect(streamed).toEqual(readTargetCsv(many));
+  });
+
+  it('stops at the row after the limit with 400 too_many_targets naming the limit, without parsing the rest of the file', async () => {
+    // 300 kB of rows, then an unclosed quote: parsing that far would report the quote instead.
+    const rows = Array.from({ length: 4000 }, (_, i) => `Star R-${i + 1},1,1,1,V,1,BV,,1,,,,,padding padding padding padding`);
+    const text = [HEADER, ...rows, '"never closed,1,1'].join('\n');
+    await expect(readTargetCsvStream(text, 2)).rejects.toMatchObject({ status: 400, code: 'too_many_targets', message: 'The list has more than 2 targets; a proposal holds at most 2' });
+    await expect(readTargetCsvStream(text, 10_000)).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/^row 4001, columns: cannot be read: a quoted value is never closed/) });
+  });
+
+  it('refuses an empty file, a header without rows and an unreadable header like readTargetCsv', async () => {
+    await expect(readTargetCsvStream('  \n ')).rejects.toMatchObject({ code: 'empty_target_list' });
+    await expect(readTargetCsvStream(`${HEADER}\n,,,\n`)).rejects.toThrow(/header row but no targets/);
+    await expect(readTargetCsvStream('name,ra,dec\nx,1,1')).rejects.toThrow(/missing required columns magnitude, band, colour, colour_system, age_myr/);
   });
 });
 

@@ -4,6 +4,8 @@
  * and column, so that a list can be fixed in one pass. The writer escapes text cells that a
  * spreadsheet would run as a formula.
  */
+import { Readable } from 'node:stream';
+import { parse as parseStream } from 'csv-parse';
 import { parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
 import {
@@ -81,7 +83,8 @@ export function decodeCsvText(buffer: Buffer, filename: string): string {
 
 /** The delimiter of the header line: comma, or semicolon / tab as some spreadsheets export. */
 function detectDelimiter(text: string): string {
-  const firstLine = text.split(/\r?\n/).find((l) => l.trim() !== '') ?? '';
+  // Only the start of the text: splitting a whole large file into lines would hold the event loop.
+  const firstLine = text.slice(0, 64 * 1024).split(/\r?\n/).find((l) => l.trim() !== '') ?? '';
   const counts = [',', ';', '\t'].map((d) => ({ d, n: firstLine.split(d).length - 1 }));
   counts.sort((a, b) => b.n - a.n);
   return counts[0].n > 0 ? counts[0].d : ',';
@@ -111,74 +114,160 @@ export function rowErrorsToAppError(errors: CsvRowError[]): AppError {
   return new AppError('invalid_target_list', label(sorted[0]) + more, 400, fieldErrors, { rows: sorted });
 }
 
+/** Longest stretch of reading a list without a yield to the event loop, in milliseconds. */
+const MAX_MS_BETWEEN_YIELDS = 5;
 /**
- * Reads a target list. File-level problems (empty, header only, missing or unknown columns,
- * too many rows, unreadable quoting) throw an AppError at once; row problems are collected
- * in `errors` (the caller adds its own, e.g. names already in the proposal, and refuses the
- * whole file if any). Row 1 is the first data row; lines that are empty or hold only
- * delimiters are skipped and not counted.
+ * Characters handed to the streaming parser at a time: it parses a chunk in one go, at about
+ * 1 ms per kilobyte for long rows, so a chunk must stay small for the yields to come often.
  */
-export function readTargetCsv(text: string, maxRows = MAX_TARGETS_PER_PROPOSAL): ReadTargetList {
-  if (text.trim() === '') throw new AppError('empty_target_list', 'The file is empty: the list needs a header row and at least one target', 400, { file: ['the file is empty'] });
-  let records: string[][];
-  try {
-    records = parse(text, { delimiter: detectDelimiter(text), relax_column_count: true, skip_empty_lines: true, trim: true, bom: true });
-  } catch (err) {
-    const e = err as { code?: string; records?: number; message?: string };
-    if (typeof e.code !== 'string' || typeof e.records !== 'number') throw err;
-    const row = e.records;
-    const why = e.code === 'CSV_QUOTE_NOT_CLOSED' ? 'a quoted value is never closed' : (e.message ?? 'unreadable').replace(/^[^:]*:\s*/, '');
-    if (row === 0) throw headerError(`the header row cannot be read: ${why}`);
-    throw rowErrorsToAppError([{ row, field: 'columns', message: `cannot be read: ${why}` }]);
-  }
-  records = records.filter((r) => r.some((cell) => cell !== ''));
-  if (records.length === 0) throw new AppError('empty_target_list', 'The file is empty: the list needs a header row and at least one target', 400, { file: ['the file is empty'] });
+const PARSE_CHUNK_CHARS = 4 * 1024;
 
-  // Header.
-  const header = records[0].map(normalizeHeader);
-  const known = new Set<string>(COLUMN_NAMES);
-  if (!header.some((h) => known.has(h))) {
-    throw headerError(`the first row must name the columns (${COLUMN_NAMES.join(', ')}); it reads ${records[0].slice(0, 4).map((c) => JSON.stringify(c)).join(', ')}`);
-  }
-  const unknown = header.filter((h) => !known.has(h));
-  const missing = REQUIRED.filter((c) => !header.includes(c));
-  const repeated = header.filter((h, i) => header.indexOf(h) !== i);
-  const problems: string[] = [];
-  if (missing.length) problems.push(`missing required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')}`);
-  if (unknown.length) problems.push(`unknown column${unknown.length > 1 ? 's' : ''} ${unknown.map((u) => JSON.stringify(u)).join(', ')} (the columns are ${COLUMN_NAMES.join(', ')})`);
-  if (repeated.length) problems.push(`column${repeated.length > 1 ? 's' : ''} ${[...new Set(repeated)].join(', ')} listed twice`);
-  if (problems.length) throw headerError(problems.join('; '));
+const emptyList = () => new AppError('empty_target_list', 'The file is empty: the list needs a header row and at least one target', 400, { file: ['the file is empty'] });
 
-  const data = records.slice(1);
-  if (data.length === 0) throw new AppError('empty_target_list', 'The file has a header row but no targets', 400, { file: ['no target rows after the header'] });
-  if (data.length > maxRows) {
-    throw new AppError('too_many_targets', `The list has ${data.length} targets; a proposal holds at most ${maxRows}`, 413, { file: [`at most ${maxRows} targets`] });
+/** 400 `too_many_targets` as soon as the row after the limit is read (the rest of the file is not parsed). */
+const tooManyRows = (maxRows: number) =>
+  new AppError('too_many_targets', `The list has more than ${maxRows} targets; a proposal holds at most ${maxRows}`, 400, { file: [`at most ${maxRows} targets`] });
+
+/** csv-parse's error (unclosed quote, bad quoting) as the file's 400, naming the row. */
+function parseErrorToAppError(err: unknown): unknown {
+  const e = err as { code?: string; records?: number; message?: string };
+  if (typeof e.code !== 'string' || typeof e.records !== 'number') return err;
+  const row = e.records;
+  const why = e.code === 'CSV_QUOTE_NOT_CLOSED' ? 'a quoted value is never closed' : (e.message ?? 'unreadable').replace(/^[^:]*:\s*/, '');
+  if (row === 0) return headerError(`the header row cannot be read: ${why}`);
+  return rowErrorsToAppError([{ row, field: 'columns', message: `cannot be read: ${why}` }]);
+}
+
+const parseOptions = (text: string) => ({ delimiter: detectDelimiter(text), relax_column_count: true, skip_empty_lines: true, trim: true, bom: true });
+
+/**
+ * Takes the parsed records one at a time: the header first, then the data rows. Rows that
+ * hold only delimiters are skipped and not counted; the row after `maxRows` throws at once.
+ */
+class TargetListCollector {
+  private header: string[] | undefined;
+  private index = new Map<ColumnName, number>();
+  private readonly firstRowOfName = new Map<string, number>();
+  private dataRows = 0;
+  readonly errors: CsvRowError[] = [];
+  readonly rows: ReadTargetRow[] = [];
+
+  constructor(private readonly maxRows: number) {}
+
+  /** Adds one record; false when it was skipped (empty). */
+  add(record: string[]): boolean {
+    if (!record.some((cell) => cell !== '')) return false;
+    if (!this.header) {
+      this.readHeader(record);
+      return true;
+    }
+    const row = ++this.dataRows;
+    if (row > this.maxRows) throw tooManyRows(this.maxRows);
+    this.readData(row, record);
+    return true;
   }
 
-  const index = new Map(header.map((h, i) => [h as ColumnName, i]));
-  const errors: CsvRowError[] = [];
-  const rows: ReadTargetRow[] = [];
-  const firstRowOfName = new Map<string, number>();
-  data.forEach((cells, i) => {
-    const row = i + 1;
+  finish(): ReadTargetList {
+    if (!this.header) throw emptyList();
+    if (this.dataRows === 0) throw new AppError('empty_target_list', 'The file has a header row but no targets', 400, { file: ['no target rows after the header'] });
+    return { rows: this.rows, errors: this.errors };
+  }
+
+  private readHeader(record: string[]): void {
+    const header = record.map(normalizeHeader);
+    const known = new Set<string>(COLUMN_NAMES);
+    if (!header.some((h) => known.has(h))) {
+      throw headerError(`the first row must name the columns (${COLUMN_NAMES.join(', ')}); it reads ${record.slice(0, 4).map((c) => JSON.stringify(c)).join(', ')}`);
+    }
+    const unknown = header.filter((h) => !known.has(h));
+    const missing = REQUIRED.filter((c) => !header.includes(c));
+    const repeated = header.filter((h, i) => header.indexOf(h) !== i);
+    const problems: string[] = [];
+    if (missing.length) problems.push(`missing required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')}`);
+    if (unknown.length) problems.push(`unknown column${unknown.length > 1 ? 's' : ''} ${unknown.map((u) => JSON.stringify(u)).join(', ')} (the columns are ${COLUMN_NAMES.join(', ')})`);
+    if (repeated.length) problems.push(`column${repeated.length > 1 ? 's' : ''} ${[...new Set(repeated)].join(', ')} listed twice`);
+    if (problems.length) throw headerError(problems.join('; '));
+    this.header = header;
+    this.index = new Map(header.map((h, i) => [h as ColumnName, i]));
+  }
+
+  private readData(row: number, cells: string[]): void {
+    const header = this.header!;
     if (cells.length !== header.length) {
-      errors.push({ row, field: 'columns', message: `has ${cells.length} values but the header names ${header.length} columns` });
+      this.errors.push({ row, field: 'columns', message: `has ${cells.length} values but the header names ${header.length} columns` });
       return;
     }
-    const result = readRow(row, (c) => (index.has(c) ? cells[index.get(c)!] : ''));
-    errors.push(...result.errors);
+    const result = readRow(row, (c) => (this.index.has(c) ? cells[this.index.get(c)!] : ''));
+    this.errors.push(...result.errors);
     if (result.values) {
       const key = result.values.name.toLowerCase();
-      const first = firstRowOfName.get(key);
+      const first = this.firstRowOfName.get(key);
       if (first !== undefined) {
-        errors.push({ row, field: 'name', message: `“${result.values.name}” is listed twice (also on row ${first})` });
+        this.errors.push({ row, field: 'name', message: `“${result.values.name}” is listed twice (also on row ${first})` });
         return;
       }
-      firstRowOfName.set(key, row);
-      if (!result.errors.length) rows.push({ row, values: result.values });
+      this.firstRowOfName.set(key, row);
+      if (!result.errors.length) this.rows.push({ row, values: result.values });
     }
-  });
-  return { rows, errors };
+  }
+}
+
+/**
+ * Reads a target list at once, on the calling thread (for small texts: tests, the command
+ * line, benchmarks; uploads go through `readTargetCsvStream`). File-level problems (empty,
+ * header only, missing or unknown columns, too many rows, unreadable quoting) throw an
+ * AppError at once; row problems are collected in `errors` (the caller adds its own, e.g.
+ * names already in the proposal, and refuses the whole file if any). Row 1 is the first data
+ * row; lines that are empty or hold only delimiters are skipped and not counted.
+ */
+export function readTargetCsv(text: string, maxRows = MAX_TARGETS_PER_PROPOSAL): ReadTargetList {
+  if (text.trim() === '') throw emptyList();
+  let records: string[][];
+  try {
+    records = parse(text, parseOptions(text));
+  } catch (err) {
+    throw parseErrorToAppError(err);
+  }
+  const collector = new TargetListCollector(maxRows);
+  for (const record of records) collector.add(record);
+  return collector.finish();
+}
+
+/**
+ * Reads an uploaded target list like `readTargetCsv`, without holding the event loop: the
+ * text goes through csv-parse's streaming parser in 4 kB chunks, the records are taken from
+ * its async iterator and checked as they come, with a yield to the event loop (setImmediate,
+ * so that waiting requests are served) after at most MAX_MS_BETWEEN_YIELDS of work. Parsing stops at the row
+ * after `maxRows` (400 `too_many_targets` naming the limit): a large file is never parsed whole.
+ */
+export async function readTargetCsvStream(text: string, maxRows = MAX_TARGETS_PER_PROPOSAL): Promise<ReadTargetList> {
+  if (text.trim() === '') throw emptyList();
+  const parser = parseStream(parseOptions(text));
+  const source = Readable.from(textChunks(text), { objectMode: false });
+  source.pipe(parser);
+  const collector = new TargetListCollector(maxRows);
+  let lastYield = performance.now();
+  try {
+    for await (const record of parser as AsyncIterable<string[]>) {
+      collector.add(record);
+      // The async iterator alone resolves promises (microtasks): other requests would still wait.
+      if (performance.now() - lastYield >= MAX_MS_BETWEEN_YIELDS) {
+        await new Promise<void>((resolve) => setImmediate(resolve));
+        lastYield = performance.now();
+      }
+    }
+  } catch (err) {
+    throw parseErrorToAppError(err);
+  } finally {
+    source.unpipe(parser);
+    source.destroy();
+    parser.destroy();
+  }
+  return collector.finish();
+}
+
+function* textChunks(text: string): Generator<string> {
+  for (let i = 0; i < text.length; i += PARSE_CHUNK_CHARS) yield text.slice(i, i + PARSE_CHUNK_CHARS);
 }
 
 /** Checks one data row; `values` is set when the name at least could be read (for duplicate checks). */

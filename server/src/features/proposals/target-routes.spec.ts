@@ -268,12 +268,12 @@ describe('POST /api/proposals/:id/targets/upload', () => {
     expect(await countRows(h, 'plan_runs', { proposal_id: proposal.id, state: 'queued' })).toBe(plansBefore);
   });
 
-  it(`refuses more than ${MAX_TARGETS_PER_PROPOSAL} rows with 413 naming the limit, before reading the rows; nothing written`, async () => {
+  it(`refuses more than ${MAX_TARGETS_PER_PROPOSAL} rows with 400 naming the limit, stopping at the row after it; nothing written`, async () => {
     const { browser, proposal } = await draftWithTwoTargets();
     const lines = Array.from({ length: MAX_TARGETS_PER_PROPOSAL + 1 }, (_, i) => csvLine(`Star G-${i + 1}`));
     const res = await upload(browser, proposal.id, [CSV_HEADER, ...lines].join('\n'));
-    expect(res.status).toBe(413);
-    expect(res.body).toMatchObject({ code: 'too_many_targets', message: `The list has ${MAX_TARGETS_PER_PROPOSAL + 1} targets; a proposal holds at most ${MAX_TARGETS_PER_PROPOSAL}` });
+    expect(res.status).toBe(400);
+    expect(res.body).toMatchObject({ code: 'too_many_targets', message: `The list has more than ${MAX_TARGETS_PER_PROPOSAL} targets; a proposal holds at most ${MAX_TARGETS_PER_PROPOSAL}` });
     expect(await countRows(h, 'targets', { proposal_id: proposal.id })).toBe(2);
     // In append mode the rows already in the list count too.
     const fits = Array.from({ length: MAX_TARGETS_PER_PROPOSAL - 1 }, (_, i) => csvLine(`Star G-${i + 1}`));

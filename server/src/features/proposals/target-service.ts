@@ -18,7 +18,7 @@ import { markPlansRequested } from './plan-repository';
 import { queuePlanComputations } from './plan-requests';
 import { accessProposal, requireEditable } from './proposal-access';
 import { touchProposal } from './proposal-repository';
-import { decodeCsvText, readTargetCsv, rowErrorsToAppError, writeTargetCsv } from './target-csv';
+import { decodeCsvText, readTargetCsvStream, rowErrorsToAppError, writeTargetCsv } from './target-csv';
 import {
   deleteAllTargets,
   deleteTargetRow,
@@ -127,7 +127,8 @@ export async function uploadTargets(
   await accessProposal(ctx.db, viewer, id);
   const mode = readMode();
   const file = requireUploadedFile(upload, 'file');
-  const list = readTargetCsv(decodeCsvText(file.buffer, file.originalname || 'the file'));
+  // Streamed, stopping at the row limit: a large file neither holds the event loop nor is parsed whole.
+  const list = await readTargetCsvStream(decodeCsvText(file.buffer, file.originalname || 'the file'));
   const result = await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });
     requireEditable(access, ctx.now());

@@ -7,7 +7,7 @@ import { computeCycleSkyWindows } from './sky-windows-service';
 export function createSkyWindowsController(ctx: AppContext) {
   return {
     async compute(req: Request, res: Response) {
-      res.json(await computeCycleSkyWindows(ctx, skyWindowsRequestSchema.parse(req.body)));
+      res.json(await computeCycleSkyWindows(ctx, req.user!, skyWindowsRequestSchema.parse(req.body)));
     },
   };
 }

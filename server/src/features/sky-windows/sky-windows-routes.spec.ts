@@ -1,9 +1,16 @@
 import { Body, Equator, Horizon, Observer } from 'astronomy-engine';
+import { SKY_WINDOWS_MAX_COST } from '@spincycle/shared/planning/sky-windows-request';
+import { skyLimitsForNode } from '@spincycle/shared/sky/index';
 import { signedIn, startHarness, type Harness } from '../../../../test/support/api-harness';
+import { computeSkyWindowsJob } from './sky-windows-compute';
+import { closeSkyWindowsPool, skyWindowsPoolStats } from './sky-windows-pool';
 
 let h: Harness;
 let cycleId: number;
+let upcomingCycleId: number;
+let yearCycleId: number;
 let nodeId: number;
+let otherNodeIds: number[];
 let siteId: number;
 const tag = `W${Date.now().toString(36).toUpperCase()}`;
 
@@ -21,14 +28,29 @@ beforeAll(async () => {
       weather_loss_fraction: 0.2, rate_minor_per_hour: 5000, currency: 'eur',
     })
     .returning('id');
+  const twin = await db('nodes').where({ id: nodeId }).first();
+  delete twin.id;
+  delete twin.created_at;
+  delete twin.updated_at;
+  otherNodeIds = (await db('nodes').insert([{ ...twin, code: `${tag}N2`, name: 'Window 60 B' }, { ...twin, code: `${tag}N3`, name: 'Window 60 C' }]).returning('id')).map((r: { id: number }) => r.id);
+  // Call open now (proposers see it), campaign in June 2030.
   [{ id: cycleId }] = await db('cycles')
-    .insert({ code: `${tag}C`, title: 'Window cycle', call_opens_at: new Date('2030-01-01'), call_closes_at: new Date('2030-02-01'), campaign_start: '2030-06-01', campaign_end: '2030-06-30' })
+    .insert({ code: `${tag}C`, title: 'Window cycle', call_opens_at: new Date(Date.now() - 86400_000), call_closes_at: new Date('2030-02-01'), campaign_start: '2030-06-01', campaign_end: '2030-06-30' })
+    .returning('id');
+  // Not announced yet: its call opens in 2031.
+  [{ id: upcomingCycleId }] = await db('cycles')
+    .insert({ code: `${tag}U`, title: 'Unannounced cycle', call_opens_at: new Date('2031-01-01'), call_closes_at: new Date('2031-02-01'), campaign_start: '2031-06-01', campaign_end: '2031-06-30' })
+    .returning('id');
+  // Open call, the longest campaign (366 nights).
+  [{ id: yearCycleId }] = await db('cycles')
+    .insert({ code: `${tag}Y`, title: 'Year cycle', call_opens_at: new Date(Date.now() - 86400_000), call_closes_at: new Date('2030-02-01'), campaign_start: '2030-03-01', campaign_end: '2031-03-01' })
     .returning('id');
 });
 afterAll(async () => {
   const db = h.created.ctx.db;
-  await db('cycles').where({ id: cycleId }).del();
-  await db('nodes').where({ id: nodeId }).del();
+  await closeSkyWindowsPool();
+  await db('cycles').whereIn('id', [cycleId, upcomingCycleId, yearCycleId]).del();
+  await db('nodes').whereIn('id', [nodeId, ...otherNodeIds]).del();
   await db('sites').where({ id: siteId }).del();
   await h.close();
 });
@@ -99,7 +121,7 @@ describe('POST /api/sky-windows', () => {
   it('validates the request: unknown cycle or node, empty lists, too many targets with nights', async () => {
     const { browser } = await signedIn(h);
     const one = [{ ra: 1, dec: 1 }];
-    expect((await browser.post('/api/sky-windows', { cycleId: 99999999, nodeIds: [nodeId], targets: one })).body.fieldErrors.cycleId).toBeDefined();
+    expect((await browser.post('/api/sky-windows', { cycleId: 99999999, nodeIds: [nodeId], targets: one })).body).toEqual({ code: 'cycle_not_found', message: 'No cycle 99999999' });
     expect((await browser.post('/api/sky-windows', { cycleId, nodeIds: [99999999], targets: one })).body.fieldErrors.nodeIds).toBeDefined();
     expect((await browser.post('/api/sky-windows', { cycleId, nodeIds: [], targets: [] })).body.fieldErrors).toEqual(
       expect.objectContaining({ nodeIds: expect.any(Array), targets: expect.any(Array) }),
@@ -109,5 +131,50 @@ describe('POST /api/sky-windows', () => {
     expect(res.status).toBe(400);
     expect(res.body.fieldErrors.includeNights).toBeDefined();
     expect((await browser.post('/api/sky-windows', { cycleId, nodeIds: [nodeId], targets: many, includeNights: false })).status).toBe(200);
+  });
+
+  it('applies the cycle visibility rule of GET /api/cycles/:id: a proposer gets the same 404 for an unannounced cycle; a facility manager gets its windows', async () => {
+    const { browser: proposer } = await signedIn(h);
+    const body = { cycleId: upcomingCycleId, nodeIds: [nodeId], targets: [{ ra: 10, dec: -40 }] };
+    const cycle = await proposer.get(`/api/cycles/${upcomingCycleId}`);
+    const windows = await proposer.post('/api/sky-windows', body);
+    expect(cycle.status).toBe(404);
+    expect(windows.status).toBe(404);
+    expect(windows.body).toEqual(cycle.body);
+    expect(JSON.stringify(windows.body)).not.toContain(`${tag}U`);
+    const { browser: manager } = await signedIn(h, ['facility_manager']);
+    const seen = await manager.post('/api/sky-windows', body);
+    expect(seen.status).toBe(200);
+    expect(seen.body.cycle.code).toBe(`${tag}U`);
+  });
+
+  it('refuses a request above the cost limit with 400 naming targets × nodes × nights and the limit; computes nothing', async () => {
+    const { browser } = await signedIn(h);
+    const targets = Array.from({ length: 500 }, (_, i) => ({ ra: (i * 0.7) % 360, dec: -30 }));
+    const res = await browser.post('/api/sky-windows', { cycleId: yearCycleId, nodeIds: [nodeId, ...otherNodeIds], targets, includeNights: false });
+    expect(res.status).toBe(400);
+    expect(res.body.code).toBe('sky_windows_too_large');
+    expect(res.body.message).toBe(
+      `The request asks for 500 targets × 3 nodes × 366 nights = 549,000 target-nights; at most ${SKY_WINDOWS_MAX_COST.toLocaleString('en-US')} per request: send fewer targets or nodes at a time`,
+    );
+    expect(res.body.fieldErrors.targets).toEqual([res.body.message]);
+  });
+
+  it('computes a request above the inline limit on a worker thread, with the same numbers as on the request thread', async () => {
+    const { browser } = await signedIn(h);
+    const targets = Array.from({ length: 40 }, (_, i) => ({ name: `Star T-${i + 1}`, ra: i * 9, dec: -70 + i * 3 }));
+    const before = skyWindowsPoolStats().completedJobs;
+    const res = await browser.post('/api/sky-windows', { cycleId: yearCycleId, nodeIds: [nodeId], targets });
+    expect(res.status).toBe(200);
+    expect(skyWindowsPoolStats().completedJobs).toBe(before + 1);
+    const node = await h.created.ctx.db('nodes').where({ id: nodeId }).first();
+    const [expected] = computeSkyWindowsJob({
+      campaign: { firstNight: '2030-03-01', lastNight: '2031-03-01' },
+      targets: targets.map((t) => ({ name: t.name, raDeg: t.ra, decDeg: t.dec })),
+      includeNights: true,
+      nodes: [{ site: { latitudeDeg: -29.25, longitudeDeg: -70.73, elevationM: 2300, timeZone: 'America/Santiago' }, limits: skyLimitsForNode({ altitudeLimitDeg: node.altitude_limit_deg, sunAltitudeLimitDeg: node.sun_altitude_limit_deg }) }],
+    });
+    expect(res.body.nodes[0].report.nights).toHaveLength(366);
+    expect(res.body.nodes[0].report.targets).toEqual(JSON.parse(JSON.stringify(expected.targets)));
   });
 });

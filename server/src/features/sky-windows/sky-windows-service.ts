@@ -1,11 +1,19 @@
-import type { SkyWindowsResponse } from '@spincycle/shared/planning/sky-windows-request';
-import type { skyWindowsRequestSchema } from '@spincycle/shared/planning/sky-windows-request';
-import { computeSkyWindows, parseRaDec, SkyInputError, skyLimitsForNode, toSkyWindowsReport } from '@spincycle/shared/sky/index';
+import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
+import {
+  SKY_WINDOWS_MAX_COST,
+  SKY_WINDOWS_MAX_INLINE_COST,
+  skyWindowsCost,
+  type skyWindowsRequestSchema,
+  type SkyWindowsResponse,
+} from '@spincycle/shared/planning/sky-windows-request';
+import { parseRaDec, SkyInputError, skyLimitsForNode } from '@spincycle/shared/sky/index';
 import type { z } from 'zod';
 import type { AppContext } from '../../app-context';
 import { AppError, invalidField } from '../../http/app-error';
-import { findCycleById } from '../cycles/cycle-repository';
+import { getCycleFor } from '../cycles/cycle-service';
 import { listNodes } from '../facility/facility-repository';
+import { computeSkyWindowsJob, type SkyWindowsJob } from './sky-windows-compute';
+import { computeSkyWindowsOffThread } from './sky-windows-pool';
 
 type Input = z.output<typeof skyWindowsRequestSchema>;
 
@@ -14,14 +22,23 @@ function apiField(field: string): string {
   return field.replace(/\[(\d+)\]/g, '.$1').replace(/\.(ra|dec)Deg$/, '.$1');
 }
 
+const fmt = (n: number) => n.toLocaleString('en-US');
+
+/** Nights of a campaign, first and last included (local dates `YYYY-MM-DD`). */
+function campaignNights(campaignStart: string, campaignEnd: string): number {
+  return Math.round((Date.parse(campaignEnd) - Date.parse(campaignStart)) / 86400_000) + 1;
+}
+
 /**
  * Sky windows of a list of targets from the sites of the chosen nodes over a cycle's
- * campaign, each node with its own altitude and Sun limits. Every bad coordinate is reported
- * at once, by row (1-based, as people count rows).
+ * campaign, each node with its own altitude and Sun limits. The cycle is looked up under the
+ * visibility rule of GET /api/cycles/:id (a hidden or unknown cycle is the same 404). Every bad
+ * coordinate is reported at once, by row (1-based, as people count rows). Small requests are
+ * computed on the request thread, larger ones on a worker thread (SKY_WINDOWS_MAX_INLINE_COST),
+ * and requests above SKY_WINDOWS_MAX_COST are refused with their numbers.
  */
-export async function computeCycleSkyWindows(ctx: AppContext, input: Input): Promise<SkyWindowsResponse> {
-  const cycle = await findCycleById(ctx.db, input.cycleId);
-  if (!cycle) throw invalidField('cycleId', `no cycle ${input.cycleId}`);
+export async function computeCycleSkyWindows(ctx: AppContext, viewer: SessionUser, input: Input): Promise<SkyWindowsResponse> {
+  const cycle = await getCycleFor(ctx, viewer, input.cycleId);
   const nodes = await listNodes(ctx.db, input.nodeIds);
   const missing = input.nodeIds.filter((id) => !nodes.some((n) => n.id === id));
   if (missing.length) throw invalidField('nodeIds', `no node ${missing.join(', ')}`);
@@ -42,24 +59,35 @@ export async function computeCycleSkyWindows(ctx: AppContext, input: Input): Pro
   }
   const valid = targets as { name: string | null; raDeg: number; decDeg: number }[];
 
+  const nights = campaignNights(cycle.campaignStart, cycle.campaignEnd);
+  const cost = skyWindowsCost(valid.length, nodes.length, nights);
+  if (cost > SKY_WINDOWS_MAX_COST) {
+    const message =
+      `The request asks for ${fmt(valid.length)} targets × ${fmt(nodes.length)} nodes × ${fmt(nights)} nights = ${fmt(cost)} target-nights; ` +
+      `at most ${fmt(SKY_WINDOWS_MAX_COST)} per request: send fewer targets or nodes at a time`;
+    throw new AppError('sky_windows_too_large', message, 400, { targets: [message] });
+  }
+
+  const job: SkyWindowsJob = {
+    campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd },
+    targets: valid.map((t) => ({ name: t.name ?? undefined, raDeg: t.raDeg, decDeg: t.decDeg })),
+    includeNights: input.includeNights,
+    nodes: nodes.map((node) => ({ site: node.site, limits: skyLimitsForNode(node) })),
+  };
+  // Why: a large request computed here would hold the event loop (seconds for a full list over
+  // a long campaign), and with it every other request of the web process.
+  const reports = cost <= SKY_WINDOWS_MAX_INLINE_COST ? computeSkyWindowsJob(job) : await computeSkyWindowsOffThread(job);
+
   return {
     cycle: { id: cycle.id, code: cycle.code, campaignStart: cycle.campaignStart, campaignEnd: cycle.campaignEnd },
-    nodes: nodes.map((node) => {
-      const result = computeSkyWindows({
-        site: node.site,
-        limits: skyLimitsForNode(node),
-        campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd },
-        targets: valid.map((t) => ({ name: t.name ?? undefined, raDeg: t.raDeg, decDeg: t.decDeg })),
-      });
-      return {
-        nodeId: node.id,
-        nodeCode: node.code,
-        nodeName: node.name,
-        siteName: node.site.name,
-        weatherLossFraction: node.weatherLossFraction,
-        report: toSkyWindowsReport(result, { includeNights: input.includeNights }),
-      };
-    }),
+    nodes: nodes.map((node, i) => ({
+      nodeId: node.id,
+      nodeCode: node.code,
+      nodeName: node.name,
+      siteName: node.site.name,
+      weatherLossFraction: node.weatherLossFraction,
+      report: reports[i],
+    })),
   };
 }
 

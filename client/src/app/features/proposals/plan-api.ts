@@ -1,6 +1,6 @@
 import { HttpClient, httpResource } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
-import type { PlanExplanation, PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
+import type { PlanExplanation, PlanListParams, PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
 import type { SkyWindowsReport } from '@spincycle/shared/sky/sky-windows-report';
 import { Observable } from 'rxjs';
 
@@ -16,12 +16,20 @@ export interface SkyWindowQuery {
 export class PlanApi {
   private readonly http = inject(HttpClient);
 
-  /** GET /api/proposals/:id/plans: the stored plans and the state of their computation. */
-  plansResource(proposalId: () => number | null) {
+  /** GET /api/proposals/:id/plans?page=…: one page of the stored plans (paged, filtered and sorted on the server) and the run. */
+  plansResource(query: () => { proposalId: number; params: PlanListParams } | null) {
     return httpResource<ProposalPlans>(() => {
-      const id = proposalId();
-      return id === null ? undefined : `/api/proposals/${id}/plans`;
+      const q = query();
+      if (q === null) return undefined;
+      const params: Record<string, string | number | boolean> = {};
+      for (const [key, value] of Object.entries(q.params)) if (value !== undefined && value !== '') params[key] = value;
+      return { url: `/api/proposals/${q.proposalId}/plans`, params };
     });
+  }
+
+  /** GET /api/proposals/:id/plans/status: the run alone (polled while it is in progress). */
+  status(proposalId: number): Observable<PlanRunStatus> {
+    return this.http.get<PlanRunStatus>(`/api/proposals/${proposalId}/plans/status`);
   }
 
   /** POST /api/proposals/:id/plans/recompute → the queued run. */

@@ -1,4 +1,4 @@
-import { provideHttpClient } from '@angular/common/http';
+import { HttpRequest, provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
@@ -14,10 +14,23 @@ function run(overrides: Partial<PlanRunStatus> = {}): PlanRunStatus {
 }
 
 function body(overrides: Partial<PlansBody> = {}): PlansBody {
-  return { run: run(), plans: [], errors: [], ...overrides };
+  const plans = overrides.plans ?? [];
+  return {
+    run: run(),
+    plans,
+    page: 1,
+    pageSize: 25,
+    matched: plans.length,
+    counts: { plans: plans.length, infeasible: plans.filter((p) => !p.feasible).length },
+    errors: [],
+    ...overrides,
+  };
 }
 
 const PLANS_URL = '/api/proposals/5/plans';
+const STATUS_URL = '/api/proposals/5/plans/status';
+/** Any request of the plans list, whatever its query. */
+const plansList = (req: HttpRequest<unknown>) => req.url === PLANS_URL;
 
 describe('ProposalPlans', () => {
   let fixture: ComponentFixture<ProposalPlans>;
@@ -54,7 +67,7 @@ describe('ProposalPlans', () => {
   describe('with a computed set of plans', () => {
     beforeEach(async () => {
       setUp();
-      backend.expectOne(PLANS_URL).flush(
+      backend.expectOne(plansList).flush(
         body({
           plans: [
             { ...testPlanRow(1, 1), completeness: 0.904 } as TargetPlanRow,
@@ -126,7 +139,7 @@ describe('ProposalPlans', () => {
 
   it('opened after a run already finished (e.g. right after an upload): fetches the request per node again', async () => {
     setUp();
-    backend.expectOne(PLANS_URL).flush(body({ run: run({ finishedAt: '2030-01-01T10:00:00Z' }), plans: [testPlanRow(1, 1)] }));
+    backend.expectOne(plansList).flush(body({ run: run({ finishedAt: '2030-01-01T10:00:00Z' }), plans: [testPlanRow(1, 1)] }));
     backend.expectOne('/api/proposals/5/targets').flush([testTarget(1)]);
     await Promise.resolve();
     TestBed.tick();
@@ -135,7 +148,7 @@ describe('ProposalPlans', () => {
 
   it('targets of different ages: no cluster chart', async () => {
     setUp();
-    backend.expectOne(PLANS_URL).flush(body({ plans: [testPlanRow(1, 1), testPlanRow(2, 1)] }));
+    backend.expectOne(plansList).flush(body({ plans: [testPlanRow(1, 1), testPlanRow(2, 1)] }));
     backend.expectOne('/api/proposals/5/targets').flush([testTarget(1), testTarget(2, { ageMyr: 120 })]);
     await fixture.whenStable();
     expect(el().querySelector('[data-testid=plans-table]')).not.toBeNull();
@@ -144,7 +157,7 @@ describe('ProposalPlans', () => {
 
   it('out of date: says so, and Recompute posts and starts following the run', async () => {
     setUp();
-    backend.expectOne(PLANS_URL).flush(body({ run: run({ current: false }), plans: [testPlanRow(1, 1)] }));
+    backend.expectOne(plansList).flush(body({ run: run({ current: false }), plans: [testPlanRow(1, 1)] }));
     backend.expectOne('/api/proposals/5/targets').flush([testTarget(1)]);
     await fixture.whenStable();
     const stale = el().querySelector('[data-testid=plans-stale]') as HTMLElement;
@@ -158,14 +171,20 @@ describe('ProposalPlans', () => {
     expect(el().querySelector('[data-testid=plan-progress]')?.textContent).toContain('0 of 1 done');
     jest.advanceTimersByTime(PLAN_POLL_MS);
     TestBed.tick();
-    backend.expectOne(PLANS_URL).flush(body({ plans: [testPlanRow(1, 1)] }));
+    backend.expectNone(plansList);
+    backend.expectOne(STATUS_URL).flush(run({ state: 'idle', done: 1, total: 1, current: true }));
+    TestBed.tick();
+    backend.expectOne(plansList).flush(body({ plans: [testPlanRow(1, 1)] }));
+    await Promise.resolve();
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal());
   });
 
-  it('while the plans are computed: a determinate bar, a poll every second, and no poll once idle or after leaving', async () => {
+  it('while the plans are computed: a determinate bar, the status polled every second, the list fetched once at the end, then no poll', async () => {
     jest.useFakeTimers();
     setUp();
     backend.expectOne('/api/proposals/5/targets').flush([testTarget(1), testTarget(2)]);
-    backend.expectOne(PLANS_URL).flush(body({ run: run({ state: 'running', done: 1, total: 4, current: false }) }));
+    backend.expectOne(plansList).flush(body({ run: run({ state: 'running', done: 1, total: 4, current: false }) }));
     await Promise.resolve();
     TestBed.tick();
 
@@ -173,41 +192,103 @@ describe('ProposalPlans', () => {
     expect(el().querySelector('[data-testid=plan-progress]')?.textContent).toContain('1 of 4 done');
     expect(bar()?.getAttribute('aria-valuenow')).toBe('25');
 
-    backend.expectNone(PLANS_URL);
+    backend.expectNone(STATUS_URL);
     jest.advanceTimersByTime(PLAN_POLL_MS - 1);
     TestBed.tick();
-    backend.expectNone(PLANS_URL);
+    backend.expectNone(STATUS_URL);
     jest.advanceTimersByTime(1);
     TestBed.tick();
-    backend.expectOne(PLANS_URL).flush(body({ run: run({ state: 'running', done: 3, total: 4, current: false }) }));
-    await Promise.resolve();
+    backend.expectOne(STATUS_URL).flush(run({ state: 'running', done: 3, total: 4, current: false }));
     TestBed.tick();
+    // The list is not asked for while the run is in progress: only its status.
+    backend.expectNone(plansList);
     expect(bar()?.getAttribute('aria-valuenow')).toBe('75');
+
+    // A failed poll is tried again after the same pause.
+    jest.advanceTimersByTime(PLAN_POLL_MS);
+    TestBed.tick();
+    backend.expectOne(STATUS_URL).flush({ code: 'x', message: 'down' }, { status: 503, statusText: 'Unavailable' });
+    TestBed.tick();
+    backend.expectNone(plansList);
 
     jest.advanceTimersByTime(PLAN_POLL_MS);
     TestBed.tick();
-    backend.expectOne(PLANS_URL).flush(body({ plans: [testPlanRow(1, 1), testPlanRow(2, 1)] }));
+    backend.expectOne(STATUS_URL).flush(run({ state: 'idle', done: 4, total: 4, finishedAt: '2030-01-01T10:00:00Z' }));
+    TestBed.tick();
+    // The run ended: the list once, with the plans.
+    backend.expectOne(plansList).flush(body({ run: run({ finishedAt: '2030-01-01T10:00:00Z' }), plans: [testPlanRow(1, 1), testPlanRow(2, 1)] }));
     await Promise.resolve();
     TestBed.tick();
     expect(el().querySelector('[data-testid=plan-progress]')).toBeNull();
-    // The run ended: the request per node is fetched again, and polling stops.
+    expect(el().querySelectorAll('[data-testid=plans-table] tbody tr.mat-mdc-row:not(.detail-row)')).toHaveLength(2);
+    // The request per node is fetched again, and polling stops.
     backend.expectOne('/api/proposals/5').flush(testProposal());
     jest.advanceTimersByTime(5 * PLAN_POLL_MS);
     TestBed.tick();
-    backend.expectNone(PLANS_URL);
+    backend.expectNone(STATUS_URL);
+    backend.expectNone(plansList);
+  });
+
+  it('pages on the server: the paginator shows the match count and asks for the page; sort and filter go back to page 1', async () => {
+    setUp();
+    const first = backend.expectOne(plansList);
+    expect(first.request.params.get('page')).toBe('1');
+    expect(first.request.params.get('pageSize')).toBe('25');
+    expect(first.request.params.has('sort')).toBe(false);
+    const rows = Array.from({ length: 25 }, (_, i) => testPlanRow(i + 1, 1));
+    first.flush(body({ plans: rows, matched: 60, counts: { plans: 60, infeasible: 7 } }));
+    backend.expectOne('/api/proposals/5/targets').flush([testTarget(1)]);
+    await fixture.whenStable();
+    expect(el().querySelector('.mat-mdc-paginator-range-label')?.textContent?.trim()).toBe('1 – 25 of 60');
+    expect(el().textContent).toContain('Only infeasible (7)');
+
+    (el().querySelector('button.mat-mdc-paginator-navigation-next') as HTMLButtonElement).click();
+    TestBed.tick();
+    const second = backend.expectOne(plansList);
+    expect(second.request.params.get('page')).toBe('2');
+    expect(second.request.params.get('pageSize')).toBe('25');
+    second.flush(body({ plans: rows.slice(0, 10), page: 2, matched: 60, counts: { plans: 60, infeasible: 7 } }));
+    await fixture.whenStable();
+    expect(el().querySelector('.mat-mdc-paginator-range-label')?.textContent?.trim()).toBe('26 – 50 of 60');
+
+    // Sorting by node-hours, descending: back to page 1, sorted by the server.
+    const header = Array.from(el().querySelectorAll('[data-testid=plans-table] th')).find((th) => th.textContent?.includes('Node-hours')) as HTMLElement;
+    (header.querySelector('.mat-sort-header-container') as HTMLElement ?? header).click();
+    TestBed.tick();
+    let sorted = backend.expectOne(plansList);
+    expect(sorted.request.params.get('sort')).toBe('nodeHours');
+    expect(sorted.request.params.get('page')).toBe('1');
+    sorted.flush(body({ plans: rows, matched: 60, counts: { plans: 60, infeasible: 7 } }));
+    await fixture.whenStable();
+    (header.querySelector('.mat-sort-header-container') as HTMLElement ?? header).click();
+    TestBed.tick();
+    sorted = backend.expectOne(plansList);
+    expect(sorted.request.params.get('sort')).toBe('-nodeHours');
+    sorted.flush(body({ plans: rows, matched: 60, counts: { plans: 60, infeasible: 7 } }));
+    await fixture.whenStable();
+
+    // Only infeasible: the server filters.
+    (el().querySelector('mat-slide-toggle button') as HTMLButtonElement).click();
+    TestBed.tick();
+    const infeasible = backend.expectOne(plansList);
+    expect(infeasible.request.params.get('feasible')).toBe('false');
+    expect(infeasible.request.params.get('page')).toBe('1');
+    infeasible.flush(body({ plans: rows.slice(0, 7), matched: 7, counts: { plans: 60, infeasible: 7 } }));
+    await fixture.whenStable();
+    expect(el().querySelector('.mat-mdc-paginator-range-label')?.textContent?.trim()).toBe('1 – 7 of 7');
   });
 
   it('leaving the tab while the plans are computed stops the polling', async () => {
     jest.useFakeTimers();
     setUp();
     backend.expectOne('/api/proposals/5/targets').flush([]);
-    backend.expectOne(PLANS_URL).flush(body({ run: run({ state: 'queued', done: 0, total: 4, current: false }) }));
+    backend.expectOne(plansList).flush(body({ run: run({ state: 'queued', done: 0, total: 4, current: false }) }));
     await Promise.resolve();
     TestBed.tick();
     fixture.destroy();
     jest.advanceTimersByTime(5 * PLAN_POLL_MS);
     TestBed.tick();
-    backend.expectNone(PLANS_URL);
+    backend.expectNone(plansList);
   });
 });
 

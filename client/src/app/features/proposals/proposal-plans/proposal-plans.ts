@@ -25,12 +25,11 @@ import {
   MatTable,
 } from '@angular/material/table';
 import { MatTooltip } from '@angular/material/tooltip';
-import type { PlanTableQuantity, ProposalPlans as ProposalPlansBody, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import type { PlanListParams, PlanRunStatus, PlanTableQuantity, ProposalPlans as ProposalPlansBody, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
 import { debounceTime, map } from 'rxjs';
 import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
-import { sortRows, SortValue } from '../../../ui/table/sort-rows';
 import { reasonSentence } from '../../../ui/text/reason-sentence';
 import { FractionPercentPipe } from '../../../ui/units/fraction-percent-pipe';
 import { MinorCurrencyPipe } from '../../../ui/units/minor-currency-pipe';
@@ -42,7 +41,7 @@ import { ProposalStore } from '../proposal-store';
 import { SkyWindowDialog, SkyWindowDialogData } from '../sky-window-dialog/sky-window-dialog';
 import { TargetApi } from '../target-api';
 
-/** How often the plans are asked for while they are being computed. */
+/** How often the run's status is asked for while the plans are being computed. */
 export const PLAN_POLL_MS = 1000;
 
 const COLUMNS = [
@@ -78,24 +77,18 @@ export const CELL_QUANTITY: Readonly<Record<string, string>> = {
   fee: 'feeMinor',
 };
 
-function planValue(row: TargetPlanRow, column: string): SortValue {
-  switch (column) {
-    case 'target': return row.targetName;
-    case 'node': return row.nodeCode;
-    case 'period': return row.periodDays;
-    case 'amplitude': return row.amplitudePpm;
-    case 'precision': return row.perVisitPrecisionPpm;
-    case 'exposure': return row.exposureSeconds;
-    case 'visits': return row.visits;
-    case 'completeness': return rowCompleteness(row);
-    case 'visitsPerNight': return row.visitsPerNight;
-    case 'cadence': return row.cadenceDays;
-    case 'baseline': return row.baselineDays;
-    case 'usableNights': return row.usableNights;
-    case 'nodeHours': return row.nodeHours;
-    case 'fee': return row.feeMinor;
-    default: return null;
-  }
+/** A run still in progress (the status is polled until it ends). */
+const inProgress = (run: PlanRunStatus | null | undefined) => run?.state === 'queued' || run?.state === 'running';
+
+/** The list query of the table's state: the column ids are the server's sort keys. */
+export function planListParams(state: { pageIndex: number; pageSize: number; sort: Sort; text: string; infeasibleOnly: boolean }): PlanListParams {
+  return {
+    page: state.pageIndex + 1,
+    pageSize: state.pageSize,
+    sort: state.sort.direction && state.sort.active ? `${state.sort.direction === 'desc' ? '-' : ''}${state.sort.active}` : undefined,
+    q: state.text || undefined,
+    feasible: state.infeasibleOnly ? false : undefined,
+  };
 }
 
 /**
@@ -116,7 +109,8 @@ export function feeTotals(request: readonly NodeRequest[]): { currency: string; 
 
 /**
  * The plans tab: the target plans of every target on every requested node, the request per
- * node, the computation's progress (polled every second while it runs), and for a coeval
+ * node, the computation's progress (its status polled every second while it runs, the list
+ * fetched again once it ends), one page at a time from the server, and for a coeval
  * target list the cluster chart. Each row explains its numbers and opens its sky window.
  */
 @Component({
@@ -161,28 +155,7 @@ export default class ProposalPlans {
   private readonly snackBar = inject(MatSnackBar);
   protected readonly store = inject(ProposalStore);
 
-  protected readonly plans = this.planApi.plansResource(() => this.store.id());
   protected readonly targets = inject(TargetApi).listResource(() => this.store.id());
-
-  /** The last plans received; kept while a poll is on its way or after a failed poll. */
-  protected readonly body = linkedSignal<ProposalPlansBody | undefined, ProposalPlansBody | null>({
-    source: () => (this.plans.hasValue() ? this.plans.value() : undefined),
-    computation: (next, previous) => next ?? previous?.value ?? null,
-  });
-  protected readonly run = computed(() => this.body()?.run ?? null);
-  protected readonly computing = computed(() => {
-    const state = this.run()?.state;
-    return state === 'queued' || state === 'running';
-  });
-  protected readonly percentDone = computed(() => {
-    const run = this.run();
-    return run && run.total > 0 ? Math.round((100 * run.done) / run.total) : 0;
-  });
-  protected readonly recomputing = signal(false);
-
-  protected readonly columns = COLUMNS;
-  protected readonly detailColumns = ['detail'];
-  protected readonly cellQuantity = CELL_QUANTITY;
 
   protected readonly sort = signal<Sort>({ active: '', direction: '' });
   protected readonly filterControl = new FormControl('', { nonNullable: true });
@@ -195,28 +168,49 @@ export default class ProposalPlans {
     { initialValue: '' },
   );
   private readonly infeasibleOnly = toSignal(this.onlyInfeasible.valueChanges, { initialValue: false });
-
-  protected readonly allRows = computed(() => this.body()?.plans ?? []);
-  protected readonly filtered = computed(() => {
-    const text = this.filterText();
-    const infeasibleOnly = this.infeasibleOnly();
-    const rows = this.allRows().filter(
-      (row) =>
-        (!infeasibleOnly || !row.feasible) &&
-        (!text || row.targetName.toLowerCase().includes(text) || row.nodeCode.toLowerCase().includes(text)),
-    );
-    return sortRows(rows, this.sort(), planValue);
-  });
   protected readonly pageSize = signal(25);
+  /** Back to the first page whenever the filter or the sort changes. */
   protected readonly pageIndex = linkedSignal({
     source: () => ({ text: this.filterText(), infeasible: this.infeasibleOnly(), sort: this.sort() }),
     computation: () => 0,
   });
-  protected readonly pageRows = computed(() => {
-    const start = this.pageIndex() * this.pageSize();
-    return this.filtered().slice(start, start + this.pageSize());
+
+  /** Paged, filtered and sorted on the server: one request per page. */
+  protected readonly plans = this.planApi.plansResource(() => {
+    const proposalId = this.store.id();
+    if (proposalId === null) return null;
+    const params = planListParams({
+      pageIndex: this.pageIndex(),
+      pageSize: this.pageSize(),
+      sort: this.sort(),
+      text: this.filterText(),
+      infeasibleOnly: this.infeasibleOnly(),
+    });
+    return { proposalId, params };
   });
-  protected readonly infeasibleCount = computed(() => this.allRows().filter((row) => !row.feasible).length);
+
+  /** The last page received; kept while the next one is on its way or after a failed request. */
+  protected readonly body = linkedSignal<ProposalPlansBody | undefined, ProposalPlansBody | null>({
+    source: () => (this.plans.hasValue() ? this.plans.value() : undefined),
+    computation: (next, previous) => next ?? previous?.value ?? null,
+  });
+  /** The run: from the list, then from each poll of the status while it is in progress. */
+  protected readonly run = linkedSignal<PlanRunStatus | null>(() => this.body()?.run ?? null);
+  protected readonly computing = computed(() => inProgress(this.run()));
+  protected readonly percentDone = computed(() => {
+    const run = this.run();
+    return run && run.total > 0 ? Math.round((100 * run.done) / run.total) : 0;
+  });
+  protected readonly recomputing = signal(false);
+
+  protected readonly columns = COLUMNS;
+  protected readonly detailColumns = ['detail'];
+  protected readonly cellQuantity = CELL_QUANTITY;
+
+  protected readonly pageRows = computed(() => this.body()?.plans ?? []);
+  protected readonly matched = computed(() => this.body()?.matched ?? 0);
+  protected readonly planCount = computed(() => this.body()?.counts.plans ?? 0);
+  protected readonly infeasibleCount = computed(() => this.body()?.counts.infeasible ?? 0);
 
   protected readonly request = computed(() => this.store.proposal()?.request ?? []);
   protected readonly capacity = computed(() => {
@@ -232,20 +226,36 @@ export default class ProposalPlans {
   protected readonly showCluster = computed(() => sharedAgeMyr(this.targetRows()) !== null);
 
   protected readonly error = computed(() => loadErrorText(this.plans.error(), 'The target plans could not be loaded.'));
-  protected readonly empty = computed(() => this.body() !== null && this.allRows().length === 0 && !this.computing());
+  protected readonly empty = computed(() => this.body() !== null && this.planCount() === 0 && !this.computing());
 
   protected readonly isInfeasible = (_index: number, row: TargetPlanRow) => !row.feasible;
   protected readonly completenessOf = rowCompleteness;
   protected readonly reasonSentence = reasonSentence;
 
   constructor() {
-    // Poll while the computation runs: each answer re-runs this effect, which schedules the
-    // next request. The cleanup clears the timer when the answer changes or the tab closes.
+    // While a run is in progress, poll its status (a few hundred bytes) every second: each
+    // answer sets the run, which re-runs this effect and schedules the next request. When the
+    // run ends, the list is fetched once. The cleanup cancels the timer or the request when the
+    // run changes otherwise (recompute, a new page) or the tab closes.
     effect((onCleanup) => {
-      if (!this.computing()) return;
-      this.body();
-      const timer = setTimeout(() => this.plans.reload(), PLAN_POLL_MS);
-      onCleanup(() => clearTimeout(timer));
+      const run = this.run();
+      const proposalId = this.store.id();
+      if (!inProgress(run) || proposalId === null) return;
+      let request: { unsubscribe(): void } | undefined;
+      const timer = setTimeout(() => {
+        request = this.planApi.status(proposalId).subscribe({
+          next: (status) => {
+            this.run.set(status);
+            if (!inProgress(status)) this.plans.reload();
+          },
+          // A failed poll is tried again after the same pause.
+          error: () => this.run.set({ ...run! }),
+        });
+      }, PLAN_POLL_MS);
+      onCleanup(() => {
+        clearTimeout(timer);
+        request?.unsubscribe();
+      });
     });
     // The proposal's request per node comes from the stored plans: fetch it again whenever a
     // computation has finished since it was loaded (also one that finished before this tab
@@ -253,7 +263,7 @@ export default class ProposalPlans {
     let seenFinishedAt: string | null | undefined;
     let wasComputing = false;
     effect(() => {
-      const run = this.body()?.run;
+      const run = this.run();
       const computing = this.computing();
       if (run && !computing) {
         const ended = wasComputing || (run.finishedAt !== null && run.finishedAt !== seenFinishedAt);
@@ -276,7 +286,7 @@ export default class ProposalPlans {
     this.planApi.recompute(id).subscribe({
       next: (run) => {
         this.recomputing.set(false);
-        this.body.update((body) => (body ? { ...body, run } : { run, plans: [], errors: [] }));
+        this.run.set(run);
       },
       error: (error: unknown) => {
         this.recomputing.set(false);
@@ -314,7 +324,7 @@ export default class ProposalPlans {
   private openSkyWindowFor(targetId: number, nodeId: number | undefined): void {
     const proposalId = this.store.id();
     if (proposalId === null) return;
-    const rows = this.allRows().filter((row) => row.targetId === targetId);
+    const rows = this.pageRows().filter((row) => row.targetId === targetId);
     const target = this.targetRows().find((t) => t.id === targetId);
     const nodes = rows.length
       ? rows.map((row) => ({ nodeId: row.nodeId, nodeCode: row.nodeCode }))
