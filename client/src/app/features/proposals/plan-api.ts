@@ -1,6 +1,6 @@
 import { HttpClient, httpResource } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
-import type { PlanExplanation, PlanListParams, PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
+import type { PlanExplanation, PlanListParams, PlanMarker, PlanRunStatus, ProposalPlans } from '@spincycle/shared/proposals/plan-types';
 import type { SkyWindowsReport } from '@spincycle/shared/sky/sky-windows-report';
 import { Observable } from 'rxjs';
 
@@ -24,6 +24,14 @@ export class PlanApi {
       const params: Record<string, string | number | boolean> = {};
       for (const [key, value] of Object.entries(q.params)) if (value !== undefined && value !== '') params[key] = value;
       return { url: `/api/proposals/${q.proposalId}/plans`, params };
+    });
+  }
+
+  /** GET /api/proposals/:id/plans/markers: every plan reduced to target, node, feasibility and period (the cluster chart). */
+  markersResource(proposalId: () => number | null) {
+    return httpResource<PlanMarker[]>(() => {
+      const id = proposalId();
+      return id === null ? undefined : `/api/proposals/${id}/plans/markers`;
     });
   }
 

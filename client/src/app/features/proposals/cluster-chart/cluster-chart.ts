@@ -1,6 +1,6 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, LOCALE_ID, output } from '@angular/core';
-import type { TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import type { PlanMarker } from '@spincycle/shared/proposals/plan-types';
 import type { TargetRow } from '@spincycle/shared/proposals/target-schemas';
 import type { ActiveElement, ChartData, ChartDataset, ChartOptions, PointStyle } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
@@ -44,7 +44,7 @@ export interface ClusterPointSelection {
 })
 export class ClusterChart {
   readonly targets = input.required<readonly TargetRow[]>();
-  readonly plans = input.required<readonly TargetPlanRow[]>();
+  readonly plans = input.required<readonly PlanMarker[]>();
   readonly pointSelected = output<ClusterPointSelection>();
 
   private readonly locale = inject(LOCALE_ID);

@@ -4,7 +4,7 @@
  * the colours it is calibrated for, the ±1σ band of the default relation, and each target at
  * its intrinsic colour and planned period. Pure; computed with the shared science core.
  */
-import type { TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import type { PlanMarker } from '@spincycle/shared/proposals/plan-types';
 import type { TargetRow } from '@spincycle/shared/proposals/target-schemas';
 import { type TargetColourSystem, colourLabel, convertColour, deredden } from '@spincycle/shared/science/colour-sequence';
 import { type GyroRelationId, predictPeriod } from '@spincycle/shared/science/gyrochronology';
@@ -56,7 +56,7 @@ export function sharedAgeMyr(targets: readonly Pick<TargetRow, 'ageMyr'>[]): num
 }
 
 /** Feasible on every planned node, on some, on none, or not planned. */
-export function feasibilityOf(plans: readonly Pick<TargetPlanRow, 'feasible'>[]): TargetFeasibility {
+export function feasibilityOf(plans: readonly Pick<PlanMarker, 'feasible'>[]): TargetFeasibility {
   if (plans.length === 0) return 'unplanned';
   const feasible = plans.filter((p) => p.feasible).length;
   if (feasible === plans.length) return 'feasible';
@@ -64,7 +64,7 @@ export function feasibilityOf(plans: readonly Pick<TargetPlanRow, 'feasible'>[])
 }
 
 /** The series of the chart, or null when the targets do not share one age. */
-export function clusterSeries(targets: readonly TargetRow[], plans: readonly TargetPlanRow[]): ClusterSeries | null {
+export function clusterSeries(targets: readonly TargetRow[], plans: readonly PlanMarker[]): ClusterSeries | null {
   const ageMyr = sharedAgeMyr(targets);
   if (ageMyr === null) return null;
 
@@ -98,7 +98,7 @@ export function clusterSeries(targets: readonly TargetRow[], plans: readonly Tar
     band = low.length >= 2 ? { low, high } : null;
   }
 
-  const plansByTarget = new Map<number, TargetPlanRow[]>();
+  const plansByTarget = new Map<number, PlanMarker[]>();
   for (const plan of plans) plansByTarget.set(plan.targetId, [...(plansByTarget.get(plan.targetId) ?? []), plan]);
 
   const points: ClusterTargetPoint[] = [];

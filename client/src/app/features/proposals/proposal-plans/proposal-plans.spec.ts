@@ -1,4 +1,5 @@
-import { HttpRequest, provideHttpClient } from '@angular/common/http';
+import { type HttpInterceptorFn, HttpRequest, HttpResponse, provideHttpClient, withInterceptors } from '@angular/common/http';
+import { of } from 'rxjs';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
@@ -28,6 +29,14 @@ function body(overrides: Partial<PlansBody> = {}): PlansBody {
 }
 
 const PLANS_URL = '/api/proposals/5/plans';
+const MARKERS_URL = '/api/proposals/5/plans/markers';
+/** The cluster chart's markers (every plan, unpaged) are answered here, and counted. */
+let markerCalls = 0;
+const markersStub: HttpInterceptorFn = (req, next) => {
+  if (req.url !== MARKERS_URL) return next(req);
+  markerCalls++;
+  return of(new HttpResponse({ status: 200, body: [{ targetId: 1, nodeId: 1, feasible: true, periodDays: 10.2 }] }));
+};
 const STATUS_URL = '/api/proposals/5/plans/status';
 /** Any request of the plans list, whatever its query. */
 const plansList = (req: HttpRequest<unknown>) => req.url === PLANS_URL;
@@ -38,13 +47,14 @@ describe('ProposalPlans', () => {
   let dialogOpen: jest.Mock;
 
   function setUp(): void {
+    markerCalls = 0;
     dialogOpen = jest.fn();
     TestBed.configureTestingModule({
       imports: [ProposalPlans],
       providers: [
         ProposalStore,
         provideRouter([]),
-        provideHttpClient(),
+        provideHttpClient(withInterceptors([markersStub])),
         provideHttpClientTesting(),
         { provide: MatDialog, useValue: { open: dialogOpen } },
         { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
@@ -130,7 +140,8 @@ describe('ProposalPlans', () => {
       );
     });
 
-    it('a target list of one age gets the cluster chart', () => {
+    it('a target list of one age gets the cluster chart, from every plan (the markers), not from the list page', () => {
+      expect(markerCalls).toBe(1);
       expect(el().querySelector('[data-testid=cluster-chart]')).not.toBeNull();
       expect(el().querySelector('[data-testid=cluster-summary]')?.textContent).toContain('2 targets of one age, 650 Myr');
       expect(el().querySelector('canvas')?.getAttribute('aria-label')).toContain('expected rotation period in days against Intrinsic colour (B−V)₀ (mag) at 650 Myr');
@@ -221,6 +232,8 @@ describe('ProposalPlans', () => {
     TestBed.tick();
     expect(el().querySelector('[data-testid=plan-progress]')).toBeNull();
     expect(el().querySelectorAll('[data-testid=plans-table] tbody tr.mat-mdc-row:not(.detail-row)')).toHaveLength(2);
+    // The chart's markers are fetched again with the list (once at the start, once at the end).
+    expect(markerCalls).toBe(2);
     // The request per node is fetched again, and polling stops.
     backend.expectOne('/api/proposals/5').flush(testProposal());
     jest.advanceTimersByTime(5 * PLAN_POLL_MS);

@@ -189,6 +189,10 @@ export default class ProposalPlans {
     return { proposalId, params };
   });
 
+  /** Every plan as a marker for the cluster chart (the list itself is paged). */
+  protected readonly markers = this.planApi.markersResource(() => this.store.id());
+  protected readonly markerRows = computed(() => (this.markers.hasValue() ? this.markers.value() : []));
+
   /** The last page received; kept while the next one is on its way or after a failed request. */
   protected readonly body = linkedSignal<ProposalPlansBody | undefined, ProposalPlansBody | null>({
     source: () => (this.plans.hasValue() ? this.plans.value() : undefined),
@@ -246,7 +250,10 @@ export default class ProposalPlans {
         request = this.planApi.status(proposalId).subscribe({
           next: (status) => {
             this.run.set(status);
-            if (!inProgress(status)) this.plans.reload();
+            if (!inProgress(status)) {
+              this.plans.reload();
+              this.markers.reload();
+            }
           },
           // A failed poll is tried again after the same pause.
           error: () => this.run.set({ ...run! }),
