@@ -25,7 +25,7 @@ import {
   MatTable,
 } from '@angular/material/table';
 import { MatTooltip } from '@angular/material/tooltip';
-import type { PlanListParams, PlanRunStatus, PlanTableQuantity, ProposalPlans as ProposalPlansBody, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import { PLAN_SORT_KEYS, type PlanListParams, type PlanRunStatus, type PlanTableQuantity, type ProposalPlans as ProposalPlansBody, type TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
 import { debounceTime, map } from 'rxjs';
 import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
@@ -44,23 +44,8 @@ import { TargetApi } from '../target-api';
 /** How often the run's status is asked for while the plans are being computed. */
 export const PLAN_POLL_MS = 1000;
 
-const COLUMNS = [
-  'target',
-  'node',
-  'period',
-  'amplitude',
-  'precision',
-  'exposure',
-  'visits',
-  'completeness',
-  'visitsPerNight',
-  'cadence',
-  'baseline',
-  'usableNights',
-  'nodeHours',
-  'fee',
-  'actions',
-] as const;
+/** The table's columns: every sortable one, in the order the server sorts by, then the actions. */
+const COLUMNS = [...PLAN_SORT_KEYS, 'actions'] as const;
 
 /** The quantity whose "why" a cell's tooltip shows. */
 export const CELL_QUANTITY: Readonly<Record<string, string>> = {
