@@ -6,18 +6,14 @@
  * loopback, against a server of its own on the test database. Prints p50/p95/p99 and errors;
  * target: p95 ≤ 50 ms with 0 errors. Creates throw-away rows and deletes them at the end.
  */
-import { execFileSync } from 'node:child_process';
 import type { AddressInfo } from 'node:net';
-import path from 'node:path';
 import autocannon from 'autocannon';
-import { setUpDatabase } from '../../database/setup';
 import { createApp } from '../../server/src/app';
-import { insertAccount } from '../../server/src/features/accounts/account-repository';
 import { hashPassword } from '../../server/src/features/auth/password-hash';
 import { computeAndStoreProposalPlans } from '../../server/src/features/proposals/plan-service';
-import { createProposal } from '../../server/src/features/proposals/proposal-service';
 import { uploadTargets } from '../../server/src/features/proposals/target-service';
 import { seededRandom } from '../../shared/src/science/seeded-random';
+import { bringUpBenchDatabase, createBenchNetwork, emptyBenchRows, removeBenchRows } from './support/bench-network';
 
 const TARGETS = 60;
 const RATE = 200;
@@ -97,13 +93,7 @@ async function load(base: string, label: string, urlPath: string, cookie: string
 
 export default async function (): Promise<void> {
   const database = process.env.SPINCYCLE_TEST_DB ?? 'spincycle_test';
-  const root = path.resolve(__dirname, '../..');
-  execFileSync(
-    process.execPath,
-    ['--input-type=module', '-e', `const c = await import('./database/cluster.mjs'); const h = c.bringUpCluster({ log: () => {} }); h.ensureDatabase(${JSON.stringify(database)});`],
-    { cwd: root, stdio: 'inherit' },
-  );
-  await setUpDatabase(database, 'never');
+  await bringUpBenchDatabase(database);
 
   const created = createApp({
     config: { PGDATABASE: database, LOG_LEVEL: 'silent', NODE_ENV: 'test', SMTP_PORT: 1, PUBLIC_URL: 'http://127.0.0.1' },
@@ -117,41 +107,10 @@ export default async function (): Promise<void> {
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
   const tag = `APIB${Date.now().toString(36).toUpperCase()}`;
-  const made = { account: 0, sites: [] as number[], nodes: [] as number[], cycle: 0, proposal: 0 };
+  const made = emptyBenchRows();
   try {
-    const email = `${tag.toLowerCase()}@bench.example`;
-    made.account = await insertAccount(db, { email, displayName: 'Bench Proposer', affiliation: '', passwordHash: await hashPassword(PASSWORD), roles: ['proposer'] });
-    const viewer = { id: made.account, email, displayName: 'Bench Proposer', affiliation: '', roles: ['proposer' as const] };
-    made.sites = (
-      await db('sites')
-        .insert([
-          { code: `${tag}N`, name: 'Bench North', latitude_deg: 34.9, longitude_deg: -108.4, elevation_m: 2210, time_zone: 'America/Denver', sky_brightness_mag_per_arcsec2: 21.6 },
-          { code: `${tag}S`, name: 'Bench South', latitude_deg: -27.45, longitude_deg: -69.95, elevation_m: 2380, time_zone: 'America/Santiago', sky_brightness_mag_per_arcsec2: 21.8 },
-        ])
-        .returning('id')
-    ).map((r: { id: number }) => r.id);
-    const common = {
-      obstruction_fraction: 0.4, throughput: 0.55, read_noise_e: 9, dark_current_e_per_s: 0.02, gain_e_per_adu: 1.3, saturation_e: 80000, pixel_scale_arcsec: 0.8,
-      seeing_fwhm_arcsec: 1.6, systematic_floor_mmag: 1, scintillation_model: 'young1967', overhead_seconds: 45, min_exposure_seconds: 2, max_exposure_seconds: 300,
-      altitude_limit_deg: 30, sun_altitude_limit_deg: -18, weather_loss_fraction: 0.3, currency: 'eur',
-    };
-    made.nodes = (
-      await db('nodes')
-        .insert([0, 1, 2].map((i) => ({ ...common, code: `${tag}-${i}`, name: `Bench ${i}`, site_id: made.sites[i === 2 ? 1 : 0], aperture_m: [0.5, 0.4, 1.0][i], band: ['V', 'R', 'R'][i], rate_minor_per_hour: [4500, 3000, 12000][i] })))
-        .returning('id')
-    ).map((r: { id: number }) => r.id);
-    const now = Date.now();
-    [{ id: made.cycle }] = await db('cycles')
-      .insert({
-        code: `${tag}C`, title: 'Bench cycle', call_opens_at: new Date(now - 86400_000), call_closes_at: new Date(now + 86400_000),
-        campaign_start: new Date(now + 30 * 86400_000).toISOString().slice(0, 10), campaign_end: new Date(now + 209 * 86400_000).toISOString().slice(0, 10),
-        categories: ['Bench'],
-      })
-      .returning('id');
-    await db('cycle_nodes').insert(made.nodes.map((node_id) => ({ cycle_id: made.cycle, node_id, node_hours_available: 1000 })));
-    const proposal = await createProposal(ctx, viewer, { cycleId: made.cycle, title: 'Bench proposal' });
-    made.proposal = proposal.id;
-    await db('proposal_nodes').insert(made.nodes.map((node_id) => ({ proposal_id: proposal.id, node_id })));
+    const { viewer, email, proposalId } = await createBenchNetwork(ctx, made, { tag, passwordHash: await hashPassword(PASSWORD), sites: ['N', 'S'], siteOfNode: [0, 0, 1] });
+    const proposal = { id: proposalId };
     const csv = Buffer.from(generateCsv(TARGETS));
     await uploadTargets(ctx, viewer, proposal.id, { buffer: csv, originalname: 'bench.csv' } as Express.Multer.File, () => 'replace');
     const plans = await computeAndStoreProposalPlans(db, proposal.id);
@@ -165,11 +124,7 @@ export default async function (): Promise<void> {
     console.log('target: p95 ≤ 50 ms with 0 errors for GET /api/proposals and the plans list');
   } finally {
     server.close();
-    if (made.proposal) await db('proposals').where({ id: made.proposal }).del();
-    if (made.cycle) await db('cycles').where({ id: made.cycle }).del();
-    if (made.nodes.length) await db('nodes').whereIn('id', made.nodes).del();
-    if (made.sites.length) await db('sites').whereIn('id', made.sites).del();
-    if (made.account) await db('accounts').where({ id: made.account }).del();
+    await removeBenchRows(db, made);
     await created.close();
   }
 }

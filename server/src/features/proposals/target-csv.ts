@@ -213,8 +213,8 @@ class TargetListCollector {
 }
 
 /**
- * Reads a target list at once, on the calling thread (for small texts: tests, the command
- * line, benchmarks; uploads go through `readTargetCsvStream`). File-level problems (empty,
+ * Reads a target list at once, on the calling thread (small texts in tests; uploads and the
+ * benchmark go through `readTargetCsvStream`, which shares the row checks). File-level problems (empty,
  * header only, missing or unknown columns, too many rows, unreadable quoting) throw an
  * AppError at once; row problems are collected in `errors` (the caller adds its own, e.g.
  * names already in the proposal, and refuses the whole file if any). Row 1 is the first data
