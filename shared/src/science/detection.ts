@@ -24,13 +24,13 @@ import { baluevGamma, logGamma } from './lomb-scargle/false-alarm';
 import { requireInRange, requireNonNegative, requirePositive } from './science-input-error';
 
 export const DETECTION_SOURCE =
-  'Pd = P(Z > Z0), λ = n·A²/(2σ²): the sinusoid’s χ² is non-central with 2 degrees of freedom, the residual central with n − 3 (a non-central F tail; Marcum Q1 as n → ∞) [derived here, SCIENCE.md §6]; Z0 from Baluev (2008), MNRAS 385, 1279, eq. 6';
+  'Pd = P(Z > Z0), λ = n·A²/(2σ²): the sinusoid’s χ² is non-central with 2 degrees of freedom, the residual central with n − 3 (a non-central F tail; Marcum Q1 as n → ∞) [derived here]; Z0 from Baluev (2008), MNRAS 385, 1279, eq. 6';
 export const THRESHOLD_SOURCE =
   'Baluev (2008), MNRAS 385, 1279, eq. 6, large-N form: FAP(z) = 1 − (1 − e^(−z))·exp(−W·√z·e^(−z)), W = fmax·sqrt(4π·var t)';
 export const MARCUM_SOURCE =
   'Marcum Q1 as a Poisson mixture of χ² tails: Q1(a, b) = Σj Pois(j; a²/2)·P(Pois(b²/2) ≤ j) (Johnson, Kotz & Balakrishnan (1995), Continuous Univariate Distributions vol. 2, ch. 29, from memory)';
 export const NIGHTLY_NOISE_SOURCE =
-  'σ_night² = σ_white²/k + σ_floor²: the floor is correlated within a night (common practice, no single source; SCIENCE.md §6)';
+  'σ_night² = σ_white²/k + σ_floor²: the floor is correlated within a night (common practice, no single source)';
 export const PERIOD_PRECISION_SOURCE =
   'Montgomery & O\'Donoghue (1999), DSSN 13, 28; Kovács (1981) form (from memory): σf = sqrt(6/N)·σ/(π·A·T), σP = P²·σf';
 

@@ -120,7 +120,7 @@ export const GYRO_RELATION_INFO: Readonly<Record<GyroRelationId, GyroRelationInf
     citation: 'Barnes (2007), ApJ 669, 1167, eqs. 1–3',
     formula: 'P = a·((B−V)0 − c)^b·(t/Myr)^n',
     colourSystem: 'BV',
-    calibratedColour: { min: 0.4, max: 1.6, note: '(B−V)0 0.4–1.6 (from memory, SCIENCE.md §1)' },
+    calibratedColour: { min: 0.4, max: 1.6, note: '(B−V)0 0.4–1.6 (from memory)' },
     calibratedAgeMyr: { min: 100, max: 10000, note: '0.1–10 Gyr: stars on the I sequence (from memory)' },
   },
   mamajekHillenbrand2008: {
@@ -129,7 +129,7 @@ export const GYRO_RELATION_INFO: Readonly<Record<GyroRelationId, GyroRelationInf
     citation: 'Mamajek & Hillenbrand (2008), ApJ 687, 1264, eqs. 12–14',
     formula: 'P = a·((B−V)0 − c)^b·(t/Myr)^n',
     colourSystem: 'BV',
-    calibratedColour: { min: 0.5, max: 0.9, note: '0.5 < (B−V)0 < 0.9 (SCIENCE.md §1)' },
+    calibratedColour: { min: 0.5, max: 0.9, note: '0.5 < (B−V)0 < 0.9' },
     calibratedAgeMyr: { min: 100, max: 10000, note: '0.1–10 Gyr (from memory)' },
   },
   angus2015: {
@@ -151,8 +151,8 @@ export const GYRO_RELATION_INFO: Readonly<Record<GyroRelationId, GyroRelationInf
     citation: 'Angus et al. (2019), AJ 158, 173',
     formula: 'log10 P = cA·log10(t/yr) + Σ ck·log10(BP−RP)^k',
     colourSystem: 'BPRP',
-    calibratedColour: { min: 0.56, max: 2.7, note: '0.56 < (BP−RP)0 < 2.7 (SCIENCE.md §1); the M-dwarf linear branch from 2.7 rests on few stars' },
-    calibratedAgeMyr: { min: 250, max: 10000, note: 'scatter is large below 250 Myr (SCIENCE.md §1)' },
+    calibratedColour: { min: 0.56, max: 2.7, note: '0.56 < (BP−RP)0 < 2.7; the M-dwarf linear branch from 2.7 rests on few stars' },
+    calibratedAgeMyr: { min: 250, max: 10000, note: 'scatter is large below 250 Myr' },
   },
 };
 

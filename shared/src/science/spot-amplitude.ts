@@ -35,7 +35,7 @@ export const DEFAULT_AMPLITUDE_MODEL: Readonly<AmplitudeModelCoefficients> = {
 };
 
 export const AMPLITUDE_MODEL_SOURCE =
-  "Spincycle's two-part model (SCIENCE.md §3): saturated level from McQuillan, Mazeh & Aigrain (2014), ApJS 211, 24; solar anchor from Nèmec et al. (2020), A&A 638, A56; exponent derived by joining the two";
+  "Spincycle's two-part model: saturated level from McQuillan, Mazeh & Aigrain (2014), ApJS 211, 24; solar anchor from Nèmec et al. (2020), A&A 638, A56; exponent derived by joining the two";
 
 /** Validates a (partial) set of coefficients, filling the defaults. */
 export function amplitudeModel(overrides: Partial<AmplitudeModelCoefficients> = {}): AmplitudeModelCoefficients {

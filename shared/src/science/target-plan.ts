@@ -262,7 +262,7 @@ export const PLAN_DEFAULTS = {
 } as const;
 
 const CHOICE = "Spincycle's choice, no source";
-const RULE = 'common practice, no single source (SCIENCE.md §6)';
+const RULE = 'common practice, no single source';
 /** Billing granularity of node-hours (Spincycle's choice). */
 const HOURS_STEP = 0.01;
 
@@ -522,7 +522,7 @@ export function computeTargetPlan(
       AMPLITUDE_MODEL_SOURCE,
       'derived',
     ),
-    semiAmplitudePpm: explained(semiAmplitudePpm, 'ppm', `R_per/${fmt(RPER_PER_SEMI_AMPLITUDE, 4)} (5–95 % range of a sinusoid is 2·sin(0.45π)·A)`, 'SCIENCE.md §3 conversion [derived]', 'derived'),
+    semiAmplitudePpm: explained(semiAmplitudePpm, 'ppm', `R_per/${fmt(RPER_PER_SEMI_AMPLITUDE, 4)} (5–95 % range of a sinusoid is 2·sin(0.45π)·A)`, '5–95 % range of a sinusoid [derived]', 'derived'),
     magnitudeInNodeBand: explained(
       mag.magnitude,
       'mag',

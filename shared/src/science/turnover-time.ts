@@ -43,7 +43,7 @@ export const TURNOVER_SCALE_INFO: Readonly<Record<TurnoverScale, TurnoverScaleIn
     label: 'Cranmer & Saar (2011)',
     citation: 'Cranmer & Saar (2011), ApJ 741, 54, eq. 36',
     input: 'teffK',
-    valid: { min: 3300, max: 7000, note: 'Teff 3300–7000 K (SCIENCE.md §2)' },
+    valid: { min: 3300, max: 7000, note: 'Teff 3300–7000 K' },
   },
   wright2011: {
     id: 'wright2011',
@@ -57,7 +57,7 @@ export const TURNOVER_SCALE_INFO: Readonly<Record<TurnoverScale, TurnoverScaleIn
     label: 'Wright et al. (2018)',
     citation: 'Wright et al. (2018), MNRAS 479, 2351, eq. 5',
     input: 'vKsMag',
-    valid: { min: 1.1, max: 7.0, note: 'V−Ks 1.1–7.0 (SCIENCE.md §2)' },
+    valid: { min: 1.1, max: 7.0, note: 'V−Ks 1.1–7.0' },
   },
 };
 
