@@ -86,7 +86,7 @@ export interface JustificationFile {
   uploadedBy: string;
 }
 
-/** Node-hours requested on one node (sum of the current target plans on it). */
+/** Node-hours requested on one node (sum of the current feasible target plans on it; infeasible ones are counted, not requested). */
 export interface NodeRequest {
   nodeId: number;
   nodeCode: string;

@@ -196,3 +196,17 @@ describe('GET /api/proposals/:id/plans/status', () => {
     expect(run.current_hash).toBe(run.inputs_hash);
   });
 });
+
+describe('the request per node counts only feasible plans', () => {
+  it('an infeasible plan (here a target that never rises from the north) adds no node-hours and no fee', async () => {
+    const { browser, proposal } = await computedDraft();
+    const plans = (await browser.get(`/api/proposals/${proposal.id}/plans?pageSize=200`)).body.plans as Row[];
+    expect(plans.some((p) => !p.feasible)).toBe(true);
+    const request = (await browser.get(`/api/proposals/${proposal.id}`)).body.request as { nodeId: number; nodeHours: number; infeasibleTargets: number }[];
+    for (const r of request) {
+      const feasibleHours = plans.filter((p) => p.nodeId === r.nodeId && p.feasible).reduce((sum, p) => sum + p.nodeHours, 0);
+      expect(r.nodeHours).toBeCloseTo(feasibleHours, 2);
+    }
+    expect(request.reduce((n, r) => n + r.infeasibleTargets, 0)).toBe(plans.filter((p) => !p.feasible).length);
+  });
+});

@@ -304,8 +304,9 @@ export async function nodeRequestTotals(db: Knex, proposalId: number): Promise<N
       'pn.node_id',
       'n.code',
       'n.currency',
-      db.raw('coalesce(sum(tp.node_hours), 0) AS node_hours'),
-      db.raw('coalesce(sum(tp.fee_minor), 0)::bigint AS fee_minor'),
+      // Only feasible plans are requested: an infeasible one cannot be executed as it stands.
+      db.raw('coalesce(sum(tp.node_hours) FILTER (WHERE tp.feasible), 0) AS node_hours'),
+      db.raw('coalesce(sum(tp.fee_minor) FILTER (WHERE tp.feasible), 0)::bigint AS fee_minor'),
       db.raw('count(tp.target_id)::int AS targets'),
       db.raw('count(tp.target_id) FILTER (WHERE NOT tp.feasible)::int AS infeasible'),
     );

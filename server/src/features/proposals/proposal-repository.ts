@@ -308,7 +308,7 @@ export async function listProposalSummariesOf(db: Knex, accountId: number): Prom
       db.raw('(SELECT count(*)::int FROM targets t WHERE t.proposal_id = p.id) AS target_count'),
       // Only plans on nodes still requested count towards the request.
       db.raw(
-        '(SELECT sum(tp.node_hours) FROM target_plans tp JOIN proposal_nodes pn ON pn.proposal_id = tp.proposal_id AND pn.node_id = tp.node_id WHERE tp.proposal_id = p.id) AS requested_node_hours',
+        '(SELECT sum(tp.node_hours) FROM target_plans tp JOIN proposal_nodes pn ON pn.proposal_id = tp.proposal_id AND pn.node_id = tp.node_id WHERE tp.proposal_id = p.id AND tp.feasible) AS requested_node_hours',
       ),
     )
     .orderBy('p.updated_at', 'desc')
