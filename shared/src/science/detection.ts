@@ -282,28 +282,33 @@ function evaluateDetection(lam: number, threshold: DetectionThreshold): number {
 
 /**
  * The non-centrality λ at which the detection probability is `completeness`: the inverse of
- * {@link detectionProbability} in λ (it increases with λ), by bisection.
+ * {@link detectionProbability} in λ (it increases with λ), by safeguarded Newton steps.
  */
 export function noncentralityForCompleteness(completeness: number, threshold: DetectionThreshold): number {
   const c = requireInRange(completeness, 'completeness', 0, 1, true);
-  // Plans ask the same threshold for the same level several times (goal, sizing, limits).
-  let memo = INVERSIONS.get(threshold);
-  if (!memo) {
-    memo = new Map();
-    INVERSIONS.set(threshold, memo);
+  // Plans ask the same threshold for the same level several times (goal, sizing, limits): the
+  // last few answers are kept in a small ring (no per-threshold maps for the collector to trace).
+  for (let i = 0; i < MEMO_SIZE; i++) {
+    if (memoThresholds[i] === threshold && memoLevels[i] === c) return memoValues[i];
   }
-  const known = memo.get(c);
-  if (known !== undefined) return known;
   const lam = invertDetection(c, threshold);
-  memo.set(c, lam);
+  memoThresholds[memoNext] = threshold;
+  memoLevels[memoNext] = c;
+  memoValues[memoNext] = lam;
+  memoNext = (memoNext + 1) % MEMO_SIZE;
   return lam;
 }
 
-const INVERSIONS = new WeakMap<DetectionThreshold, Map<number, number>>();
+const MEMO_SIZE = 8;
+const memoThresholds: Array<DetectionThreshold | undefined> = new Array(MEMO_SIZE).fill(undefined);
+const memoLevels = new Float64Array(MEMO_SIZE);
+const memoValues = new Float64Array(MEMO_SIZE);
+let memoNext = 0;
 
 function invertDetection(c: number, threshold: DetectionThreshold): number {
-  if (evaluateDetection(0, threshold) >= c) return 0;
-  if (threshold.points < 4 || threshold.power >= 1) return Infinity;
+  if (threshold.points < 4 || threshold.power >= 1) return c <= 0 ? 0 : Infinity;
+  // Pd at λ = 0 in closed form: only the j = 0 term of the mixture, P(NB ≤ 0) = (1 − Z0)^(m/2).
+  if (threshold.power <= 0 || Math.exp(0.5 * (threshold.points - 3) * Math.log1p(-threshold.power)) >= c) return 0;
   // Safeguarded Newton from the large-N guess (√λ ≈ √(2·z0) + Φ⁻¹(c), SCIENCE.md §6) with the
   // analytic slope; a step that leaves the bracket is replaced by bisection (common practice).
   const m = threshold.points - 3;
@@ -316,6 +321,8 @@ function invertDetection(c: number, threshold: DetectionThreshold): number {
     const f = evaluateDetection(x, threshold) - c;
     const slope = lastSlope;
     if (Math.abs(f) < 1e-10) return x;
+    // Newton converges quadratically: a step below 1e-7·λ leaves an error near 1e-14·λ.
+    if (slope > 0 && Math.abs(f / slope) < 1e-7 * x) return x - f / slope;
     if (f < 0) lo = x;
     else hi = x;
     let next = slope > 0 ? x - f / slope : Number.NaN;

@@ -64,7 +64,23 @@ export function fmt(value: number, digits = 3): string {
   const p = digits - 1 - e;
   if (p >= 0) {
     const f = POW10[p] ?? 10 ** p;
-    return String(Math.round(value * f) / f);
+    const r = Math.round(value * f);
+    // The decimal r·10^−p written from whole numbers: the same text as String(r / f) (r / f is
+    // the double nearest that short decimal, whose shortest form it is), without converting a
+    // fraction, the slow part of number-to-text.
+    if (p > 12 || Math.abs(r) > 2 ** 31) return String(r / f);
+    const m = r < 0 ? -r : r;
+    const whole = Math.floor(m / f);
+    let frac = m - whole * f;
+    const sign = r < 0 ? '-' : '';
+    if (frac === 0) return sign + whole;
+    let digitsLeft = p;
+    while (frac % 10 === 0) {
+      frac /= 10;
+      digitsLeft--;
+    }
+    const fracText = String(frac);
+    return `${sign}${whole}.${'0'.repeat(digitsLeft - fracText.length)}${fracText}`;
   }
   const f = POW10[-p] ?? 10 ** -p;
   return String(Math.round(value / f) * f);

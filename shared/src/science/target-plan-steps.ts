@@ -276,6 +276,12 @@ export interface VisitSizingInput {
   detail?: boolean;
   /** Thresholds already computed for the same search (key points·4096 + T), shared between sizings of one plan. */
   thresholdCache?: Map<number, DetectionThreshold>;
+  /**
+   * Detection probabilities already computed for the same plan, keyed by campaign (T, night
+   * step, visits per night): they do not depend on the completeness asked, so the sizings of
+   * the plan's completeness levels share them.
+   */
+  detectionCache?: Map<number, number>;
 }
 
 export interface VisitSizing {
@@ -324,19 +330,31 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
     }
     return th;
   };
+  const detections = input.detectionCache ?? new Map<number, number>();
+  /** Detection probability of the campaign (T, s, k), once per plan (whole T, s and k: exact keys). */
+  const pdOf = (T: number, s: number, k: number, n: number, points: number, var1: number): number => {
+    const cacheable = Number.isInteger(T) && Number.isInteger(s) && Number.isInteger(k) && T < 2 ** 20 && s < 2 ** 12 && k < 2 ** 20;
+    const key = cacheable ? (T * 4096 + s) * 2 ** 20 + k : -1;
+    let pd = cacheable ? detections.get(key) : undefined;
+    if (pd === undefined) {
+      pd = detectionProbability((points * A * A) / (2 * var1), thresholdFor(points, T));
+      if (cacheable) detections.set(key, pd);
+    }
+    return pd;
+  };
   const evaluate = (T: number, s: number, k: number) => {
     const n = visitNightCount(T, s);
     const points = nightly ? n : n * k;
-    const sigma = nightly ? Math.sqrt(w2 / k + f2) : Math.sqrt(w2 + f2);
-    const lam = (points * A * A) / (2 * sigma * sigma);
+    const var1 = nightly ? w2 / k + f2 : w2 + f2;
+    const sigma = Math.sqrt(var1);
+    const lam = (points * A * A) / (2 * var1);
     const th = thresholdFor(points, T);
-    return { n, points, sigma, lam, th, pd: detectionProbability(lam, th) };
+    return { n, points, sigma, lam, th, pd: pdOf(T, s, k, n, points, var1) };
   };
   const ok = (T: number, s: number, k: number) => {
     const n = visitNightCount(T, s);
     const points = nightly ? n : n * k;
-    const var1 = nightly ? w2 / k + f2 : w2 + f2;
-    return detectionProbability((points * A * A) / (2 * var1), thresholdFor(points, T)) >= c;
+    return pdOf(T, s, k, n, points, nightly ? w2 / k + f2 : w2 + f2) >= c;
   };
   /** Smallest whole k in [lo, hi] with ok, or null (ok is monotone in k). */
   const smallestK = (T: number, s: number, lo: number, hi: number): number | null => {

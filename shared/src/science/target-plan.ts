@@ -381,10 +381,12 @@ export function computeTargetPlan(
   // 7. Visits for the completeness over nightly means; the price of other completeness levels.
   const visitSeconds = stack.exposuresPerVisit * exposure.exposureSeconds + (stack.exposuresPerVisit - 1) * o.readoutSeconds + node.overheadSeconds;
   const maxVisitsPerNight = Math.max(1, Math.floor((o.observableHoursPerNight * 3600) / visitSeconds));
+  const detectionCache = new Map<number, number>();
   const sizingFor = (completeness: number, detail = false): VisitSizing =>
     sizeVisits({
       detail,
       thresholdCache,
+      detectionCache,
       semiAmplitudePpm,
       whitePpm,
       floorPpm,
