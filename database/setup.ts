@@ -3,17 +3,23 @@
  * Migrations always run; `--seed` reloads the demo data, `--seed-if-empty` only when there
  * are no accounts yet (so a second `npm start` keeps what people entered).
  */
-import knexFactory from 'knex';
-import { knexConfig } from './knexfile';
+import { loadSettings } from '../server/src/config';
+import { createDb, type DbSettings } from '../server/src/db/knex';
+import { DATABASE_FOLDERS } from './knexfile';
 
-export async function setUpDatabase(database: string, seed: 'always' | 'if-empty' | 'never'): Promise<{ migrated: string[]; seeded: boolean }> {
-  const db = knexFactory(knexConfig(database));
+/** Migrates (and maybe seeds) `database` on the cluster of `settings` (PGHOST, PGPORT, … of config.ts). */
+export async function setUpDatabase(
+  database: string,
+  seed: 'always' | 'if-empty' | 'never',
+  settings: DbSettings = loadSettings(),
+): Promise<{ migrated: string[]; seeded: boolean }> {
+  const db = createDb(settings, undefined, { database, ...DATABASE_FOLDERS });
   try {
     const [, migrated] = (await db.migrate.latest()) as [number, string[]];
     let seeded = false;
     if (seed !== 'never') {
-      const [{ count }] = await db('accounts').count<{ count: string }[]>({ count: '*' });
-      if (seed === 'always' || Number(count) === 0) {
+      const [{ count }] = await db('accounts').count<{ count: number }[]>({ count: '*' });
+      if (seed === 'always' || count === 0) {
         await db.seed.run();
         seeded = true;
       }

@@ -4,15 +4,12 @@ import PDFDocument from 'pdfkit';
 import { dwarfSequenceAt } from '../../shared/src/science/colour-sequence';
 import { seededRandom } from '../../shared/src/science/seeded-random';
 import type { TargetValues } from '../../shared/src/proposals/target-schemas';
-// The server's pg type parsers (DATE as text, NUMERIC and BIGINT as numbers) must apply to the
-// seed's queries too: the plan service reads the cycle's campaign dates through them.
-import '../../server/src/db/knex';
 import { findAccountByEmail, insertAccount } from '../../server/src/features/accounts/account-repository';
 import { hashLinkToken } from '../../server/src/features/auth/link-token';
 import { hashPassword } from '../../server/src/features/auth/password-hash';
-import { computeAndStoreProposalPlans } from '../../server/src/features/proposals/plan-service';
-import { insertPiMember } from '../../server/src/features/proposals/proposal-repository';
-import { insertTargets } from '../../server/src/features/proposals/target-repository';
+import { computeAndStoreProposalPlans } from '../../server/src/features/proposals/plans/plan-service';
+import { insertPiMember } from '../../server/src/features/proposals/team/member-repository';
+import { insertTargets } from '../../server/src/features/proposals/targets/target-repository';
 import { DEMO_PASSWORD } from '../demo-accounts';
 
 /**

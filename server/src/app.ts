@@ -15,12 +15,14 @@ import { createPassport } from './features/auth/passport-setup';
 import { createCycleRoutes } from './features/cycles/cycle-routes';
 import { createFacilityRoutes } from './features/facility/facility-routes';
 import { createHealthRoutes } from './features/health/health-routes';
-import { createInvitationRoutes, createProposalRoutes, createTargetListRoutes } from './features/proposals/proposal-routes';
+import { createProposalRoutes } from './features/proposals/proposal-routes';
+import { createTargetListRoutes } from './features/proposals/targets/target-routes';
+import { createInvitationRoutes } from './features/proposals/team/member-routes';
 import { createSkyWindowsRoutes } from './features/sky-windows/sky-windows-routes';
 import { createCsrf } from './http/csrf';
 import { apiNotFound, errorHandler } from './http/error-handler';
 import { createRequestLogger } from './http/request-logger';
-import { endSessionsOlderThan, storeSignedInSessionsOnly } from './http/session-lifetime';
+import { endSessionsOlderThan, storeSignedInSessionsOnly, throttleSessionTouch } from './http/session-lifetime';
 import { createPgBossPlanQueue } from './jobs/plan-queue';
 import { createLogger } from './logger';
 import { createSmtpMailer } from './mail/mailer';
@@ -57,6 +59,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   const PgStore = connectPgSimple(session);
   const store = new PgStore({ pool: sessionPool, tableName: 'sessions', pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 });
   storeSignedInSessionsOnly(store, ctx.now);
+  throttleSessionTouch(store, config.SESSION_TOUCH_SECONDS * 1000, ctx.now);
 
   const passport = createPassport(ctx);
   const csrf = createCsrf({ secureCookies: production, secret: config.sessionSecret });

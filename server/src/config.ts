@@ -26,22 +26,32 @@ const trustProxySchema = z
     return entries;
   });
 
-/** Environment, parsed once with zod; a bad value stops the process at start with its name. */
+/**
+ * Environment, parsed once with zod; a bad value stops the process at start with its name.
+ * Every setting the server, the worker and the database scripts read is declared here and read
+ * from the parsed result, never from process.env elsewhere (config.spec.ts checks).
+ */
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   HOST: z.string().default('127.0.0.1'),
   PORT: z.coerce.number().int().min(0).max(65535).default(4300),
   PUBLIC_URL: z.string().url().optional(),
+  // PostgreSQL connection of every Knex, session pool and pg-boss (server, worker, database/
+  // setup.ts, seeds, tests): these defaults are the only ones; `npm start`'s cluster listens there.
   PGHOST: z.string().default('127.0.0.1'),
-  PGPORT: z.coerce.number().int().default(54329),
+  PGPORT: z.coerce.number().int().min(1).max(65535).default(54329),
   PGUSER: z.string().default('spincycle'),
   PGPASSWORD: z.string().default('spincycle-local'),
   PGDATABASE: z.string().default('spincycle'),
+  /** Most connections one Knex pool opens (the web server's, the worker's, a script's). */
+  PG_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
   SESSION_SECRET: z.string().min(16).optional(),
   /** Rolling lifetime of a session: it ends after this many hours without a request. */
   SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(12),
   /** Absolute lifetime of a session from sign-in, however active it stays (7 days). */
   SESSION_ABSOLUTE_HOURS: z.coerce.number().positive().default(168),
+  /** The stored expiry of a session is renewed at most this often (the cookie on every answer), seconds. */
+  SESSION_TOUCH_SECONDS: z.coerce.number().min(0).max(3600).default(60),
   TRUST_PROXY: trustProxySchema,
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   SMTP_HOST: z.string().default('127.0.0.1'),
@@ -55,22 +65,47 @@ const envSchema = z.object({
   PLAN_QUEUE: z.string().regex(/^[A-Za-z0-9_.-]+$/).default('proposal-plans'),
   /** How often an idle plan worker looks for new jobs, seconds. */
   PLAN_WORKER_POLL_SECONDS: z.coerce.number().min(0.5).max(60).default(1),
+  /**
+   * scrypt cost of new password hashes, as log2 N (N = 2^17 is the OWASP minimum for scrypt).
+   * Stored hashes keep the cost they were made with; tests lower it to stay quick.
+   */
+  SCRYPT_LOG_N: z.coerce.number().int().min(10).max(20).default(17),
+  /**
+   * This process's id in GET /api/health and the worker's ready message, given by a launcher so
+   * that it can tell its own child from a stale process on the same port; unset (or empty) → random.
+   */
+  SPINCYCLE_INSTANCE_ID: z.preprocess(
+    (v) => (v === '' ? undefined : v),
+    z.string().regex(/^[A-Za-z0-9_.:-]{1,128}$/, 'expected 1 to 128 letters, digits, or _ . : -').optional(),
+  ),
 });
 
-export type Config = z.infer<typeof envSchema> & { publicUrl: string; sessionSecret: string };
+/** Every setting, parsed; what database code needs (it does not run the web server). */
+export type Settings = z.infer<typeof envSchema>;
+
+export type Config = Settings & { publicUrl: string; sessionSecret: string };
 
 const DEV_SESSION_SECRET = 'spincycle-local-development-secret-not-for-production';
 
-export type ConfigOverrides = Partial<z.infer<typeof envSchema>>;
+export type ConfigOverrides = Partial<Settings>;
 
-/** Parses the environment; `overrides` (tests) replace parsed values before derived ones are computed. */
-export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: ConfigOverrides = {}): Config {
+/**
+ * Parses the environment into the settings, without the web server's own requirements (a
+ * migration or a seed needs no SESSION_SECRET); `overrides` (tests) replace parsed values.
+ * A bad value throws, naming the setting.
+ */
+export function loadSettings(env: NodeJS.ProcessEnv = process.env, overrides: ConfigOverrides = {}): Settings {
   const parsed = envSchema.safeParse(env);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
     throw new Error(`invalid environment:\n${lines.join('\n')}`);
   }
-  const c = { ...parsed.data, ...overrides };
+  return { ...parsed.data, ...overrides };
+}
+
+/** Parses the environment; `overrides` (tests) replace parsed values before derived ones are computed. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: ConfigOverrides = {}): Config {
+  const c = loadSettings(env, overrides);
   if (c.NODE_ENV === 'production' && !c.SESSION_SECRET) throw new Error('SESSION_SECRET must be set in production');
   return {
     ...c,

@@ -331,20 +331,33 @@ describe('coverage', () => {
     const appSource = readFileSync(path.resolve(__dirname, '../../server/src/app.ts'), 'utf8');
     // `api` is mounted at /api; `app` mounts are absolute.
     for (const m of appSource.matchAll(/(api|app)\.use\('([^']+)', (create\w+Routes)\(/g)) mounts[m[3]] = m[1] === 'app' ? m[2] : `/api${m[2] === '/' ? '' : m[2]}`;
+    // Every *-routes.ts under features/, sub-features (features/proposals/targets/…) included.
+    const routeFiles = (readdirSync(root, { recursive: true }) as string[]).filter((f) => f.endsWith('-routes.ts'));
+    // Each exported factory, with the routes registered in its body and the routers it mounts
+    // itself (`router.use(createXRoutes(ctx))`, optionally under a path).
+    const factories = new Map<string, string>();
+    const parents = new Map<string, { parent: string; prefix: string }>();
+    for (const file of routeFiles) {
+      const source = readFileSync(path.join(root, file), 'utf8');
+      for (const fn of source.split(/export function /).slice(1)) {
+        const name = /^(create\w+Routes)/.exec(fn)?.[1];
+        if (!name) continue;
+        factories.set(name, fn);
+        for (const m of fn.matchAll(/router\.use\((?:'([^']*)', )?(create\w+Routes)\(/g)) parents.set(m[2], { parent: name, prefix: m[1] ?? '' });
+      }
+    }
+    const mountOf = (name: string, depth = 0): string => {
+      if (mounts[name]) return mounts[name];
+      const p = parents.get(name);
+      if (!p || depth > 5) return `(${name} not mounted in app.ts)`;
+      return `${mountOf(p.parent, depth + 1)}${p.prefix === '/' ? '' : p.prefix}`;
+    };
     const found: string[] = [];
-    for (const dir of readdirSync(root)) {
-      for (const file of readdirSync(path.join(root, dir)).filter((f) => f.endsWith('-routes.ts'))) {
-        const source = readFileSync(path.join(root, dir, file), 'utf8');
-        // Each exported factory, with the routes registered in its body.
-        for (const fn of source.split(/export function /).slice(1)) {
-          const name = /^(create\w+Routes)/.exec(fn)?.[1];
-          if (!name) continue;
-          const mount = mounts[name] ?? `(${name} not mounted in app.ts)`;
-          for (const m of fn.matchAll(/router\.(get|post|put|patch|delete)\('([^']*)'/g)) {
-            const full = `${mount}${m[2] === '/' ? '' : m[2]}`;
-            found.push(`${m[1].toUpperCase()} ${full}`);
-          }
-        }
+    for (const [name, fn] of factories) {
+      const mount = mountOf(name);
+      for (const m of fn.matchAll(/router\.(get|post|put|patch|delete)\('([^']*)'/g)) {
+        const full = `${mount}${m[2] === '/' ? '' : m[2]}`;
+        found.push(`${m[1].toUpperCase()} ${full}`);
       }
     }
     const listed = new Set([

@@ -11,9 +11,9 @@
  */
 import type { Knex } from 'knex';
 import type { Logger } from 'pino';
-import type { PlanInputs } from '../../server/src/features/proposals/plan-inputs';
-import type { PlanRowInsert } from '../../server/src/features/proposals/plan-repository';
-import { computeAndStoreProposalPlans, runPlanJob } from '../../server/src/features/proposals/plan-service';
+import type { PlanInputs } from '../../server/src/features/proposals/plans/plan-inputs';
+import type { PlanRowInsert } from '../../server/src/features/proposals/plans/plan-repository';
+import { computeAndStoreProposalPlans, runPlanJob } from '../../server/src/features/proposals/plans/plan-service';
 import { startPlanWorker } from '../../server/src/jobs/plan-worker';
 import type { PlanQueue } from '../../server/src/jobs/plan-queue';
 import { startHarness, type Browser, type Harness } from '../support/api-harness';
@@ -25,8 +25,8 @@ let afterCompute: ((rows: PlanRowInsert[], inputs: PlanInputs) => Promise<PlanRo
 /** When set, the plan job of the worker runs only for these proposals (others complete untouched). */
 let jobsFor: Set<number> | null = null;
 
-jest.mock('../../server/src/features/proposals/plan-computation', () => {
-  const actual = jest.requireActual('../../server/src/features/proposals/plan-computation');
+jest.mock('../../server/src/features/proposals/plans/plan-computation', () => {
+  const actual = jest.requireActual('../../server/src/features/proposals/plans/plan-computation');
   return {
     ...actual,
     computePlanRows: async (...args: Parameters<ComputeRows>) => {
@@ -35,8 +35,8 @@ jest.mock('../../server/src/features/proposals/plan-computation', () => {
     },
   };
 });
-jest.mock('../../server/src/features/proposals/plan-service', () => {
-  const actual = jest.requireActual('../../server/src/features/proposals/plan-service');
+jest.mock('../../server/src/features/proposals/plans/plan-service', () => {
+  const actual = jest.requireActual('../../server/src/features/proposals/plans/plan-service');
   return {
     ...actual,
     runPlanJob: (db: Knex, proposalId: number, logger: Logger) => (jobsFor && !jobsFor.has(proposalId) ? Promise.resolve() : actual.runPlanJob(db, proposalId, logger)),

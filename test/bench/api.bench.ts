@@ -3,15 +3,21 @@
  * 3 nodes (180 plans; `?pageSize=200` so that the whole list comes back, as before the list
  * was paged, and the default first page), plus the run status the plans tab polls. Each at a
  * fixed 200 requests per second for 30 s (BENCH_API_SECONDS to change it) from autocannon over
- * loopback, against a server of its own on the test database. Prints p50/p95/p99 and errors;
+ * loopback, against a web server of its own on the test database. The server runs as
+ * `npm start` runs it — its own process (server/src/server.ts), logging at info — so that the
+ * load generator's own work does not share its event loop. Prints p50/p95/p99 and errors;
  * target: p95 ≤ 50 ms with 0 errors. Creates throw-away rows and deletes them at the end.
  */
-import type { AddressInfo } from 'node:net';
+import { randomUUID } from 'node:crypto';
+import { createServer } from 'node:net';
 import autocannon from 'autocannon';
+// @ts-expect-error plain ES module of the launcher scripts, without type declarations
+import { startTs } from '../../server/scripts/setup.mjs';
+import { stopChild, waitForOwnServer } from '../../server/scripts/processes.cjs';
 import { createApp } from '../../server/src/app';
 import { hashPassword } from '../../server/src/features/auth/password-hash';
-import { computeAndStoreProposalPlans } from '../../server/src/features/proposals/plan-service';
-import { uploadTargets } from '../../server/src/features/proposals/target-service';
+import { computeAndStoreProposalPlans } from '../../server/src/features/proposals/plans/plan-service';
+import { uploadTargets } from '../../server/src/features/proposals/targets/target-service';
 import { seededRandom } from '../../shared/src/science/seeded-random';
 import { bringUpBenchDatabase, createBenchNetwork, emptyBenchRows, removeBenchRows } from './support/bench-network';
 
@@ -66,6 +72,18 @@ async function signIn(base: string, email: string): Promise<string> {
   return cookie();
 }
 
+/** A port nothing listens on now (the OS picks it). */
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = createServer();
+    probe.once('error', reject);
+    probe.listen(0, '127.0.0.1', () => {
+      const { port } = probe.address() as { port: number };
+      probe.close(() => resolve(port));
+    });
+  });
+}
+
 const percentile = (sorted: number[], p: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] : NaN);
 
 /** One endpoint at a fixed rate: latency percentiles of every answer, non-2xx and socket errors. */
@@ -95,6 +113,7 @@ export default async function (): Promise<void> {
   const database = process.env.SPINCYCLE_TEST_DB ?? 'spincycle_test';
   await bringUpBenchDatabase(database);
 
+  // The bench's own app: only its context (database, queue stub) to create and remove the rows.
   const created = createApp({
     config: { PGDATABASE: database, LOG_LEVEL: 'silent', NODE_ENV: 'test', SMTP_PORT: 1, PUBLIC_URL: 'http://127.0.0.1' },
     // Plans are computed in-process below; nothing is queued.
@@ -102,9 +121,16 @@ export default async function (): Promise<void> {
   });
   const { ctx } = created;
   const db = ctx.db;
-  const server = created.app.listen(0, '127.0.0.1');
-  await new Promise<void>((resolve) => server.once('listening', () => resolve()));
-  const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const port = await freePort();
+  const base = `http://127.0.0.1:${port}`;
+  const instanceId = `api-bench-${randomUUID()}`;
+  // The measured server: its own process, as in production (stdout, its request log, to nothing).
+  const server = startTs(
+    'server/src/server.ts',
+    { PGDATABASE: database, PORT: String(port), HOST: '127.0.0.1', NODE_ENV: 'development', LOG_LEVEL: 'info', SMTP_PORT: '1', PUBLIC_URL: base, SPINCYCLE_INSTANCE_ID: instanceId },
+    { name: 'bench web server', quiet: true },
+  );
+  await waitForOwnServer(`${base}/api/health`, instanceId, { child: server, name: 'bench web server' });
 
   const tag = `APIB${Date.now().toString(36).toUpperCase()}`;
   const made = emptyBenchRows();
@@ -123,7 +149,7 @@ export default async function (): Promise<void> {
     await load(base, 'GET …/plans/status', `/api/proposals/${proposal.id}/plans/status`, cookie);
     console.log('target: p95 ≤ 50 ms with 0 errors for GET /api/proposals and the plans list');
   } finally {
-    server.close();
+    await stopChild(server);
     await removeBenchRows(db, made);
     await created.close();
   }

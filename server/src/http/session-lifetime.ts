@@ -22,6 +22,51 @@ export function storeSignedInSessionsOnly(store: Store, now: () => Date): void {
 }
 
 /**
+ * Renews a session's stored expiry at most once per `intervalMs` (per process). express-session
+ * with a rolling cookie touches the store on every request it does not save, and holds the
+ * answer until that UPDATE returns; a signed-in user's every call paid a write for an expiry
+ * that moves by seconds. The cookie is still renewed on every answer; the stored expiry lags
+ * it by at most `intervalMs`, which the rolling lifetime (hours) does not notice. A save
+ * (a changed session) always writes and counts as a touch.
+ */
+export function throttleSessionTouch(store: Store, intervalMs: number, now: () => Date): void {
+  const touch = store.touch?.bind(store);
+  if (!touch) return;
+  const lastWrite = new Map<string, number>();
+  const forget = () => {
+    // Bounded: forget renewals older than the interval (they would be written again anyway).
+    const cutoff = now().getTime() - intervalMs;
+    for (const [sid, at] of lastWrite) if (at < cutoff) lastWrite.delete(sid);
+  };
+  const remember = (sid: string) => {
+    if (lastWrite.size >= 10_000) forget();
+    lastWrite.set(sid, now().getTime());
+  };
+  store.touch = (sid: string, sess: SessionData, callback?: (err?: unknown) => void) => {
+    const at = lastWrite.get(sid);
+    if (at !== undefined && now().getTime() - at < intervalMs) {
+      callback?.();
+      return;
+    }
+    remember(sid);
+    touch(sid, sess, (err?: unknown) => {
+      if (err) lastWrite.delete(sid);
+      callback?.(err);
+    });
+  };
+  const set = store.set.bind(store);
+  store.set = (sid: string, sess: SessionData, callback?: (err?: unknown) => void) => {
+    remember(sid);
+    set(sid, sess, callback);
+  };
+  const destroy = store.destroy.bind(store);
+  store.destroy = (sid: string, callback?: (err?: unknown) => void) => {
+    lastWrite.delete(sid);
+    destroy(sid, callback);
+  };
+}
+
+/**
  * The absolute lifetime of a session: however active it stays (the rolling cookie is renewed
  * on every request), it ends `hours` after sign-in. Runs after express-session and before
  * passport, so an expired session is replaced by an empty one (the old row is deleted) and the

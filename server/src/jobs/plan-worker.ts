@@ -1,8 +1,8 @@
 import type { Logger } from 'pino';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
-import { listUnfinishedPlanRuns } from '../features/proposals/plan-repository';
-import { runPlanJob } from '../features/proposals/plan-service';
+import { listUnfinishedPlanRuns } from '../features/proposals/plans/plan-repository';
+import { runPlanJob } from '../features/proposals/plans/plan-service';
 import { createPgBoss, ensurePlanQueue, type PlanJobData } from './pg-boss-factory';
 
 export interface PlanWorker {

@@ -5,7 +5,7 @@
  */
 import type { TargetInput } from '@spincycle/shared/proposals/target-schemas';
 import { Browser, createAccount, type Harness } from '../../support/api-harness';
-import { computeAndStoreProposalPlans } from '../../../server/src/features/proposals/plan-service';
+import { computeAndStoreProposalPlans } from '../../../server/src/features/proposals/plans/plan-service';
 
 export interface TestNetwork {
   tag: string;

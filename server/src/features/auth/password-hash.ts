@@ -1,11 +1,12 @@
 import { randomBytes, scrypt as scryptCallback, timingSafeEqual, type ScryptOptions } from 'node:crypto';
+import { loadSettings } from '../../config';
 
 /**
  * Password hashing with scrypt (memory-hard, in node:crypto). Stored as
  * `scrypt$<log2 N>$<r>$<p>$<salt b64>$<hash b64>` so that parameters can be raised later
  * without invalidating existing hashes. Default cost: N = 2^17, r = 8, p = 1 (the
- * minimum of the OWASP Password Storage Cheat Sheet for scrypt); tests lower it through
- * SCRYPT_LOG_N to keep the suite quick.
+ * minimum of the OWASP Password Storage Cheat Sheet for scrypt); the SCRYPT_LOG_N setting
+ * (config.ts) sets log2 N, which tests lower to keep the suite quick.
  */
 const KEY_LENGTH = 32;
 
@@ -15,16 +16,19 @@ function scrypt(password: string, salt: Buffer, options: ScryptOptions): Promise
   );
 }
 
-function costFromEnv(): { logN: number; r: number; p: number } {
-  const logN = Number(process.env.SCRYPT_LOG_N ?? 17);
-  return { logN: Number.isInteger(logN) && logN >= 10 && logN <= 20 ? logN : 17, r: 8, p: 1 };
+/**
+ * The cost of new hashes. Read per hash rather than passed in: hashPassword is called by the
+ * auth service, the seeds and the tests alike, and none of them should have to carry the setting.
+ */
+function configuredCost(): { logN: number; r: number; p: number } {
+  return { logN: loadSettings().SCRYPT_LOG_N, r: 8, p: 1 };
 }
 
 const maxmemFor = (logN: number, r: number) => 128 * r * 2 ** logN * 2;
 
 /** Hashes a password with a fresh random salt. */
 export async function hashPassword(password: string): Promise<string> {
-  const { logN, r, p } = costFromEnv();
+  const { logN, r, p } = configuredCost();
   const salt = randomBytes(16);
   const key = await scrypt(password, salt, { N: 2 ** logN, r, p, maxmem: maxmemFor(logN, r) });
   return ['scrypt', logN, r, p, salt.toString('base64'), key.toString('base64')].join('$');

@@ -1,6 +1,6 @@
 import { signedIn, startHarness, type Harness } from '../../../../test/support/api-harness';
 import { createTestNetwork, proposerWithDraft, target, type TestNetwork } from '../../../../test/api/support/proposal-kit';
-import { computeAndStoreProposalPlans } from '../proposals/plan-service';
+import { computeAndStoreProposalPlans } from '../proposals/plans/plan-service';
 
 let h: Harness;
 let net: TestNetwork;

@@ -6,8 +6,8 @@ import type { AppContext } from '../../app-context';
 import { isUniqueViolation } from '../../db/unique-violation';
 import { AppError } from '../../http/app-error';
 import { listNodes } from '../facility/facility-repository';
-import { markPlansRequested } from '../proposals/plan-repository';
-import { queuePlanComputations } from '../proposals/plan-requests';
+import { markPlansRequested } from '../proposals/plans/plan-repository';
+import { queuePlanComputations } from '../proposals/plans/plan-requests';
 import {
   cycleIdsWithMembership,
   draftProposalIdsOfCycle,

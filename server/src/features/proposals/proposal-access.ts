@@ -9,7 +9,8 @@ import type { AppContext } from '../../app-context';
 import { AppError } from '../../http/app-error';
 import { findCycleById, type StoredCycle } from '../cycles/cycle-repository';
 import { formatUtc } from '../cycles/cycle-service';
-import { findActiveRole, findProposalById, type StoredProposal } from './proposal-repository';
+import { findProposalById, type StoredProposal } from './proposal-repository';
+import { findActiveRole } from './team/member-repository';
 
 /** A proposal as one of its team members reaches it. */
 export interface ProposalAccess {

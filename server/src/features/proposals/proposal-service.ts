@@ -7,22 +7,21 @@ import { inParallel } from '../../db/in-parallel';
 import { AppError, invalidField } from '../../http/app-error';
 import { findCycleById, listCycleNodes } from '../cycles/cycle-repository';
 import { formatUtc, formatUtcTime, summarizeCycle } from '../cycles/cycle-service';
-import { planInputsHash } from './plan-inputs';
-import { insertIdlePlanRun, markPlansRequested, nodeRequestTotals } from './plan-repository';
-import { queuePlanComputations } from './plan-requests';
+import { findJustificationMeta } from './justification/justification-repository';
+import { planInputsHash } from './plans/plan-inputs';
+import { insertIdlePlanRun, markPlansRequested, nodeRequestTotals } from './plans/plan-repository';
+import { queuePlanComputations } from './plans/plan-requests';
 import { accessProposal, isEditable, requireEditable, requirePi, type ProposalAccess } from './proposal-access';
 import {
-  countTargets,
   deleteProposalRow,
-  findJustificationMeta,
-  insertPiMember,
   insertProposal,
-  listMembers,
   listProposalNodeIds,
   listProposalSummariesOf,
   replaceProposalNodes,
   updateProposalFields,
 } from './proposal-repository';
+import { countTargets } from './targets/target-repository';
+import { insertPiMember, listMembers } from './team/member-repository';
 
 /** GET /api/proposals: the proposals on which the viewer is an active team member. */
 export function listMyProposals(ctx: AppContext, viewer: SessionUser): Promise<ProposalSummary[]> {

@@ -13,15 +13,15 @@ const proposalsRoutes: Routes = [
     children: [
       { path: '', pathMatch: 'full', redirectTo: 'overview' },
       { path: 'overview', title: 'Proposal overview', loadComponent: () => import('./proposal-overview/proposal-overview') },
-      { path: 'team', title: 'Proposal team', loadComponent: () => import('./proposal-team/proposal-team') },
-      { path: 'targets', title: 'Targets', loadComponent: () => import('./target-list/target-list') },
-      { path: 'plans', title: 'Target plans', loadComponent: () => import('./proposal-plans/proposal-plans') },
+      { path: 'team', title: 'Proposal team', loadComponent: () => import('./team/proposal-team/proposal-team') },
+      { path: 'targets', title: 'Targets', loadComponent: () => import('./targets/target-list/target-list') },
+      { path: 'plans', title: 'Target plans', loadComponent: () => import('./plans/proposal-plans/proposal-plans') },
       {
         path: 'justification',
         title: 'Justification',
-        loadComponent: () => import('./proposal-justification/proposal-justification'),
+        loadComponent: () => import('./justification/proposal-justification/proposal-justification'),
       },
-      { path: 'submit', title: 'Submit', loadComponent: () => import('./proposal-submit/proposal-submit') },
+      { path: 'submit', title: 'Submit', loadComponent: () => import('./submission/proposal-submit/proposal-submit') },
     ],
   },
 ];

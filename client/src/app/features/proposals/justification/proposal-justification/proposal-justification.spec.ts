@@ -1,0 +1,101 @@
+import { HttpEventType, provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import type { JustificationFile } from '@spincycle/shared/proposals/proposal-schemas';
+import { MAX_JUSTIFICATION_BYTES } from '../../proposal-api';
+import { ProposalStore } from '../../proposal-store';
+import { testProposal } from '../../testing/fixtures';
+import ProposalJustification, { checkJustificationFile, formatFileSize } from './proposal-justification';
+
+const STORED: JustificationFile = {
+  filename: 'lantern-case.pdf',
+  sizeBytes: 482_304,
+  sha256: '9f2c4e0d7b1a3c5e8f6d4b2a0c9e7f5d3b1a9c8e7f6d5c4b3a2918f7e6d5c4b3',
+  uploadedAt: '2027-01-05T10:30:00Z',
+  uploadedBy: 'Orla Venn',
+};
+
+function pdf(name = 'case.pdf', size = 1000, type = 'application/pdf'): File {
+  const file = new File(['%PDF-1.7'], name, { type });
+  Object.defineProperty(file, 'size', { value: size });
+  return file;
+}
+
+describe('ProposalJustification', () => {
+  let fixture: ComponentFixture<ProposalJustification>;
+  let backend: HttpTestingController;
+
+  beforeEach(async () => {
+    TestBed.configureTestingModule({ imports: [ProposalJustification], providers: [ProposalStore, provideHttpClient(), provideHttpClientTesting()] });
+    backend = TestBed.inject(HttpTestingController);
+    TestBed.inject(ProposalStore).id.set(5);
+    fixture = TestBed.createComponent(ProposalJustification);
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal());
+    await fixture.whenStable();
+  });
+
+  afterEach(() => backend.verify());
+
+  const el = () => fixture.nativeElement as HTMLElement;
+
+  function choose(file: File): void {
+    const input = el().querySelector('[data-testid=pdf-input]') as HTMLInputElement;
+    Object.defineProperty(input, 'files', { value: [file], configurable: true });
+    input.dispatchEvent(new Event('change'));
+  }
+
+  it('checkJustificationFile: only PDFs up to 10 MB', () => {
+    expect(checkJustificationFile(pdf())).toBeNull();
+    expect(checkJustificationFile(pdf('case.docx', 1000, 'application/msword'))).toContain('is not a PDF');
+    expect(checkJustificationFile(pdf('case.pdf', MAX_JUSTIFICATION_BYTES + 1))).toContain('at most 10 MB');
+  });
+
+  it('formatFileSize: bytes, kB, MB', () => {
+    expect(formatFileSize(80, 'en-US')).toBe('80 bytes');
+    expect(formatFileSize(2500, 'en-US')).toBe('2.4 kB');
+    expect(formatFileSize(482_304, 'en-US')).toBe('471 kB');
+    expect(formatFileSize(3.5 * 1024 * 1024, 'en-US')).toBe('3.5 MB');
+  });
+
+  it('a file that is too large is refused before upload', async () => {
+    choose(pdf('big.pdf', 12 * 1024 * 1024));
+    await fixture.whenStable();
+    expect(el().querySelector('[data-testid=pdf-result]')?.textContent).toContain('big.pdf is 12.0 MB');
+    const upload = Array.from(el().querySelectorAll('button')).find((b) => b.textContent?.includes('Upload')) as HTMLButtonElement;
+    expect(upload.disabled).toBe(true);
+  });
+
+  it('uploads with progress, then shows the stored file with its hash, uploader and download link', async () => {
+    expect(el().querySelector('[data-testid=no-justification]')).not.toBeNull();
+    choose(pdf('lantern-case.pdf', 482_304));
+    await fixture.whenStable();
+    (Array.from(el().querySelectorAll('button')).find((b) => b.textContent?.includes('Upload')) as HTMLButtonElement).click();
+    const put = backend.expectOne('/api/proposals/5/justification');
+    expect(put.request.method).toBe('PUT');
+    expect((put.request.body as FormData).get('file')).toBeInstanceOf(File);
+    put.event({ type: HttpEventType.UploadProgress, loaded: 241_152, total: 482_304 });
+    await fixture.whenStable();
+    expect(el().textContent).toContain('50 % sent');
+    put.flush(STORED);
+    await fixture.whenStable();
+    const stored = el().querySelector('[data-testid=justification-file]') as HTMLElement;
+    expect(stored.textContent).toContain('lantern-case.pdf');
+    expect(stored.textContent).toContain('471 kB');
+    expect(stored.textContent).toContain(STORED.sha256);
+    expect(stored.textContent).toContain('Orla Venn');
+    expect(stored.querySelector('a')?.getAttribute('href')).toBe('/api/proposals/5/justification');
+    expect(el().querySelector('[data-testid=pdf-result]')?.textContent).toContain('lantern-case.pdf uploaded.');
+  });
+
+  it('server refusal (415 not_a_pdf) is shown', async () => {
+    choose(pdf('renamed.pdf'));
+    await fixture.whenStable();
+    (Array.from(el().querySelectorAll('button')).find((b) => b.textContent?.includes('Upload')) as HTMLButtonElement).click();
+    backend
+      .expectOne('/api/proposals/5/justification')
+      .flush({ code: 'not_a_pdf', message: 'renamed.pdf is not a PDF file' }, { status: 415, statusText: 'Unsupported Media Type' });
+    await fixture.whenStable();
+    expect(el().querySelector('[data-testid=pdf-result]')?.textContent).toContain('renamed.pdf is not a PDF file');
+  });
+});
