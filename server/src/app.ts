@@ -36,7 +36,7 @@ export interface CreatedApp {
 
 /** Builds the Express application (no listen). Parts of the context can be replaced, e.g. by tests. */
 export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<AppContext> } = {}): CreatedApp {
-  const config: Config = loadConfig(process.env, overrides.config);
+  const config: Config = loadConfig(undefined, overrides.config);
   const logger = overrides.ctx?.logger ?? createLogger(config);
   const ctx: AppContext = {
     config,

@@ -56,7 +56,6 @@ describe('environment settings are read in config.ts only', () => {
   /** Files that may touch process.env without reading a setting of the application, and why. */
   const EXCEPTIONS: Record<string, string> = {
     'server/src/config.ts': 'parses process.env with the zod schema: the one reader',
-    'server/src/app.ts': 'hands process.env to loadConfig (could call loadConfig() with its default instead)',
     'server/src/features/sky-windows/sky-windows-pool.ts': 'passes the environment through to its worker threads',
     'database/cluster.mjs': 'plain-Node launcher (runs before npm ci): sets up the PostgreSQL cluster and the env of child processes',
   };

@@ -10,9 +10,9 @@
  */
 import { randomUUID } from 'node:crypto';
 import { createServer } from 'node:net';
+import path from 'node:path';
 import autocannon from 'autocannon';
-// @ts-expect-error plain ES module of the launcher scripts, without type declarations
-import { startTs } from '../../server/scripts/setup.mjs';
+import { spawn } from 'node:child_process';
 import { stopChild, waitForOwnServer } from '../../server/scripts/processes.cjs';
 import { createApp } from '../../server/src/app';
 import { hashPassword } from '../../server/src/features/auth/password-hash';
@@ -125,10 +125,14 @@ export default async function (): Promise<void> {
   const base = `http://127.0.0.1:${port}`;
   const instanceId = `api-bench-${randomUUID()}`;
   // The measured server: its own process, as in production (stdout, its request log, to nothing).
-  const server = startTs(
-    'server/src/server.ts',
-    { PGDATABASE: database, PORT: String(port), HOST: '127.0.0.1', NODE_ENV: 'development', LOG_LEVEL: 'info', SMTP_PORT: '1', PUBLIC_URL: base, SPINCYCLE_INSTANCE_ID: instanceId },
-    { name: 'bench web server', quiet: true },
+  // BENCH_API_SERVER_ARGS: extra Node options for the measured server, e.g. `--cpu-prof --cpu-prof-dir=/tmp/prof`.
+  const server = Object.assign(
+    spawn(process.execPath, [...(process.env.BENCH_API_SERVER_ARGS ?? '').split(' ').filter(Boolean), '--import', 'tsx', 'server/src/server.ts'], {
+      cwd: path.resolve(__dirname, '../..'),
+      env: { ...process.env, PGDATABASE: database, PORT: String(port), HOST: '127.0.0.1', NODE_ENV: 'development', LOG_LEVEL: 'info', SMTP_PORT: '1', PUBLIC_URL: base, SPINCYCLE_INSTANCE_ID: instanceId },
+      stdio: ['ignore', 'ignore', 'inherit'],
+    }),
+    { name: 'bench web server' },
   );
   await waitForOwnServer(`${base}/api/health`, instanceId, { child: server, name: 'bench web server' });
 

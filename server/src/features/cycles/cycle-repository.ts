@@ -8,8 +8,9 @@ interface CycleRow {
   title: string;
   call_opens_at: Date;
   call_closes_at: Date;
-  campaign_start: string | Date;
-  campaign_end: string | Date;
+  /** DATE as `YYYY-MM-DD` (db/knex.ts installs the parser for every Knex). */
+  campaign_start: string;
+  campaign_end: string;
   anonymous_review: boolean;
   categories: string[];
   version: number;
@@ -21,15 +22,6 @@ export interface StoredCycle extends Cycle {
   updatedAt: string;
 }
 
-/**
- * A DATE column as `YYYY-MM-DD`. db/knex.ts makes pg return DATEs as text; a knex built
- * elsewhere (a script) gets a Date at local midnight, whose local parts are the date.
- */
-function localDate(v: string | Date): string {
-  if (typeof v === 'string') return v;
-  return `${v.getFullYear()}-${String(v.getMonth() + 1).padStart(2, '0')}-${String(v.getDate()).padStart(2, '0')}`;
-}
-
 /** A `cycles` row as a stored cycle (camelCase, ISO instants). */
 function toCycle(r: CycleRow): StoredCycle {
   return {
@@ -38,8 +30,8 @@ function toCycle(r: CycleRow): StoredCycle {
     title: r.title,
     callOpensAt: r.call_opens_at.toISOString(),
     callClosesAt: r.call_closes_at.toISOString(),
-    campaignStart: localDate(r.campaign_start),
-    campaignEnd: localDate(r.campaign_end),
+    campaignStart: r.campaign_start,
+    campaignEnd: r.campaign_end,
     anonymousReview: r.anonymous_review,
     categories: r.categories,
     version: r.version,
