@@ -33,6 +33,11 @@ export const routes: Routes = [
     loadChildren: () => import('./features/proposals/proposals.routes'),
   },
   {
+    // Formulas, sources and assumptions behind every computed number; public, like a paper's methods.
+    path: 'methods',
+    loadChildren: () => import('./features/methods/methods.routes'),
+  },
+  {
     // The link mailed to an invitee who has an account; signing in returns here.
     path: 'invitations',
     canActivate: [authGuard],

@@ -175,7 +175,8 @@ const VAN_SADERS = 'van Saders et al. (2016), Nature 529, 181';
 /**
  * Critical Rossby number of weakened magnetic braking as a multiple of the solar Rossby number
  * on the same τ scale: van Saders et al. (2016), Nature 529, 181 find Ro_crit ≈ 2.16 on their
- * scale, on which the Sun has Ro ≈ 2.16, i.e. Ro_crit ≈ Ro☉ (from memory). Stating it as a
+ * scale, on which the Sun has Ro ≈ 2.16, i.e. Ro_crit ≈ Ro☉ (the abstract confirms the Sun is
+ * close to the critical transition; the value 2.16 is from memory). Stating it as a
  * multiple of Ro☉ makes the threshold mean the same on every τ scale.
  */
 export const WEAKENED_BRAKING_SOLAR_MULTIPLE = 1;
@@ -191,7 +192,8 @@ export function weakenedBrakingRossby(scale: TurnoverScale): number {
 }
 
 /**
- * Age of the universe, Myr: 13.787 Gyr, Planck Collaboration (2020), A&A 641, A6 (from memory).
+ * Age of the universe, Myr: 13.787 Gyr, Planck Collaboration (2020), A&A 641, A6 (reference
+ * checked; the value is from memory: it is not in the abstract).
  * No star is older: a relation that needs a larger age has no answer.
  */
 export const AGE_OF_UNIVERSE_MYR = 13787;
@@ -232,11 +234,12 @@ const FAST_ROTATOR_SOURCE = 'Wright et al. (2011), ApJ 743, 48 (saturation at Ro
  * Convergence onto the slow sequence, for K and M dwarfs (Teff < 5300 K, K0V): age (Myr) below
  * which a star may still be a fast or intermediate rotator, interpolated linearly in log age
  * against Teff between these anchors and held at the coolest one. Spincycle's rule built on
- * results recalled, not re-read (from memory): the slow (I) sequence reaches later spectral
- * types as clusters age — G and early K dwarfs by ≈ 100–150 Myr, mid-K by ≈ 300 Myr, late K
- * by ≈ 600 Myr (Barnes (2003), ApJ 586, 464) — and the spin-down of K dwarfs stalls for
- * several hundred Myr, so late K dwarfs follow the relations only from ≈ 1 Gyr (Curtis et al.
- * (2020), ApJ 904, 140); early M dwarfs take ≈ 2 Gyr. G dwarfs converge before every
+ * published results: the slow (I) sequence reaches later spectral types as clusters age — G
+ * and early K dwarfs by ≈ 100–150 Myr, mid-K by ≈ 300 Myr, late K by ≈ 600 Myr (Barnes (2003),
+ * ApJ 586, 464; from memory, not re-read) — and the spin-down of K dwarfs stalls, longer for
+ * lower masses (0.55 M☉ stars for at least 1.3 Gyr: Curtis et al. (2020), ApJ 904, 140, abstract
+ * checked, docs/science.md "Checked values"), so late K dwarfs follow the relations only from
+ * ≈ 1 Gyr; early M dwarfs take ≈ 2 Gyr. G dwarfs converge before every
  * relation's youngest calibrated age, which has its own caution.
  */
 export const CONVERGENCE_AGE_ANCHORS: readonly { teffK: number; ageMyr: number }[] = [
@@ -245,7 +248,7 @@ export const CONVERGENCE_AGE_ANCHORS: readonly { teffK: number; ageMyr: number }
   { teffK: 4090, ageMyr: 1000 },
   { teffK: 3430, ageMyr: 2000 },
 ];
-const CONVERGENCE_SOURCE = 'Barnes (2003), ApJ 586, 464; Curtis et al. (2020), ApJ 904, 140 (both from memory); interpolation is Spincycle\'s rule';
+const CONVERGENCE_SOURCE = 'Barnes (2003), ApJ 586, 464 (from memory); Curtis et al. (2020), ApJ 904, 140; interpolation is Spincycle\'s rule';
 
 /** Convergence age (Myr) at an effective temperature, or null above 5300 K (see {@link CONVERGENCE_AGE_ANCHORS}). */
 export function convergenceAgeMyr(teffK: number): number | null {

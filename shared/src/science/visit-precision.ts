@@ -42,7 +42,7 @@ export interface PhotometryOptions {
   skyToApertureAreaRatio?: number;
   /** Extinction, mag per airmass; default per band ({@link DEFAULT_EXTINCTION_MAG_PER_AIRMASS}). */
   extinctionMagPerAirmass?: number;
-  /** Osborn et al. (2015) empirical correction CY; default 1.5 (SCIENCE.md §5, from memory). */
+  /** Osborn et al. (2015) empirical correction CY; default 1.5 (SCIENCE.md §5; checked, docs/science.md "Checked values"). */
   osbornCy?: number;
 }
 
@@ -56,8 +56,8 @@ export const DEFAULT_PHOTOMETRY: Required<Omit<PhotometryOptions, 'extinctionMag
 // Airmass and scintillation.
 
 /**
- * Relative airmass, Kasten & Young (1989), Appl. Opt. 28, 4735, eq. 3 (equation number from
- * memory; formula as SCIENCE.md §5, from memory):
+ * Relative airmass, Kasten & Young (1989), Appl. Opt. 28, 4735, eq. 3 (equation number and
+ * coefficients checked against published implementations; docs/science.md "Checked values"):
  * X = 1/(sin h + 0.50572·(h + 6.07995°)^(−1.6364)), h = apparent altitude in degrees.
  * The sky windows convert an airmass limit to an altitude with this same function
  * (sky/airmass-limit.ts).
@@ -68,7 +68,9 @@ export function airmassKastenYoung(altitudeDeg: number): number {
 }
 
 /**
- * Scintillation noise, relative flux rms, Young (1967), AJ 72, 747 (from memory):
+ * Scintillation noise, relative flux rms, Young (1967), AJ 72, 747, in its commonly used
+ * restatement (0.09 with D in cm, airmass exponent 1.75; checked against observers' use of the
+ * formula, the 1967 paper's own notation not re-read — docs/science.md "Checked values"):
  * σ = 0.09·D_cm^(−2/3)·X^1.75·exp(−h/8000 m)·(2t)^(−1/2).
  */
 export function scintillationYoung1967(apertureM: number, airmass: number, elevationM: number, exposureSeconds: number): number {
@@ -81,8 +83,8 @@ export function scintillationYoung1967(apertureM: number, airmass: number, eleva
 
 /**
  * Scintillation noise, relative flux rms, Osborn et al. (2015), MNRAS 452, 1707, eq. 7
- * (equation number and formula from memory): σ² = 10⁻⁵·CY²·D^(−4/3)·t^(−1)·X³·exp(−2h/8000 m),
- * D in m, CY ≈ 1.5.
+ * (equation number, formula and CY = 1.5 checked; docs/science.md "Checked values"):
+ * σ² = 10⁻⁵·CY²·D^(−4/3)·t^(−1)·X³·exp(−2h/8000 m), D in m.
  */
 export function scintillationOsborn2015(
   apertureM: number,
@@ -107,7 +109,7 @@ function requireAirmass(airmass: number): number {
 
 /**
  * Error function, Abramowitz & Stegun (1964), eq. 7.1.26 (|error| < 1.5e-7; common practice;
- * coefficients from memory, checked against tabulated erf values in the tests).
+ * coefficients checked numerically: largest error 1.4e-7 on −5…5, docs/science.md "Checked values").
  */
 export function erf(x: number): number {
   const s = x < 0 ? -1 : 1;
@@ -223,7 +225,8 @@ export function photometrySetup(
   const peakPixelFraction = e * e;
   const npix = Math.max(1, (Math.PI * radius * radius) / (ps * ps));
   const skyRateEPerPixel = zp * 10 ** (-0.4 * site.skyBrightnessMagPerArcsec2) * area * node.throughput * ps * ps;
-  // Digitisation noise: (G·σf)² with σf ≈ 0.289 ADU, Merline & Howell (1995), Exp. Astron. 6, 163 (from memory).
+  // Digitisation noise: (G·σf)² with σf = 1/√12 ≈ 0.289 ADU, the rms of a uniform rounding error
+  // [derived]; as in Merline & Howell (1995), Exp. Astron. 6, 163 (page not re-read).
   const digitisation = (node.gainEPerAdu * 0.289) ** 2;
   const scint =
     node.scintillationModel === 'young1967'

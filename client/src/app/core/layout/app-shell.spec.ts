@@ -55,14 +55,14 @@ describe('AppShell', () => {
     expect(Array.from(host.querySelectorAll('a')).some((a) => a.textContent?.trim() === 'Sign in')).toBe(true);
   });
 
-  it('reviewer: Home, Target planner and Network only', async () => {
+  it('reviewer: Home, Target planner, Network and Methods only', async () => {
     await seedSession(testUser(['reviewer']));
-    expect(navLabels(await render())).toEqual(['Home', 'Target planner', 'Network']);
+    expect(navLabels(await render())).toEqual(['Home', 'Target planner', 'Network', 'Methods']);
   });
 
   it('administrator: Accounts appears', async () => {
     await seedSession(testUser(['administrator']));
-    expect(navLabels(await render())).toEqual(['Home', 'Target planner', 'Network', 'Accounts']);
+    expect(navLabels(await render())).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Accounts']);
   });
 
   it('the menu names the person and their roles, and Sign out posts and goes to sign-in', async () => {

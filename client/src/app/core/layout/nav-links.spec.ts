@@ -7,17 +7,17 @@ describe('visibleNavLinks', () => {
     expect(labels(null)).toEqual([]);
   });
 
-  it('any signed-in person: Home, Target planner and Network', () => {
-    expect(labels({ roles: ['reviewer'] })).toEqual(['Home', 'Target planner', 'Network']);
-    expect(labels({ roles: [] })).toEqual(['Home', 'Target planner', 'Network']);
+  it('any signed-in person: Home, Target planner, Network and Methods', () => {
+    expect(labels({ roles: ['reviewer'] })).toEqual(['Home', 'Target planner', 'Network', 'Methods']);
+    expect(labels({ roles: [] })).toEqual(['Home', 'Target planner', 'Network', 'Methods']);
   });
 
   it('administrator: also Accounts', () => {
-    expect(labels({ roles: ['proposer', 'administrator'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network', 'Accounts']);
+    expect(labels({ roles: ['proposer', 'administrator'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network', 'Methods', 'Accounts']);
   });
 
   it('proposer: Proposals; facility manager: Cycles', () => {
-    expect(labels({ roles: ['proposer'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network']);
-    expect(labels({ roles: ['facility_manager'] })).toEqual(['Home', 'Target planner', 'Network', 'Cycles']);
+    expect(labels({ roles: ['proposer'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network', 'Methods']);
+    expect(labels({ roles: ['facility_manager'] })).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles']);
   });
 });

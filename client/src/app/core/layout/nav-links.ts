@@ -18,6 +18,7 @@ export const NAV_LINKS: readonly NavLink[] = [
   { path: '/proposals', label: 'Proposals', icon: 'description', roles: ['proposer'] },
   { path: '/planner', label: 'Target planner', icon: 'query_stats' },
   { path: '/network', label: 'Network', icon: 'hub' },
+  { path: '/methods', label: 'Methods', icon: 'menu_book' },
   { path: '/cycles', label: 'Cycles', icon: 'event_repeat', roles: ['facility_manager'] },
   { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['administrator'] },
 ];

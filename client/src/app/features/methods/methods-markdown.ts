@@ -1,0 +1,12 @@
+import { Marked } from 'marked';
+
+/** One parser for the page, GitHub-flavoured (tables), without the global marked options. */
+const parser = new Marked({ gfm: true, breaks: false, async: false });
+
+/**
+ * The methods document as HTML. The `<a id="…"></a>` anchors of the Markdown pass through
+ * unchanged, so `/methods#completeness` finds its section.
+ */
+export function renderMethodsMarkdown(markdown: string): string {
+  return parser.parse(markdown, { async: false });
+}
