@@ -154,7 +154,7 @@ export function skyConditionsFor(windows: TargetWindows, node: NodeSpec, site: S
     medianMagPerArcsec2: sky.medianMagPerArcsec2,
     worstMagPerArcsec2: sky.worstMagPerArcsec2,
     usableNights: sky.usableNights,
-    source: 'Krisciunas & Schaefer (1991), PASP 103, 1033 (from memory), on the Moon of each usable night',
+    source: 'Krisciunas & Schaefer (1991), PASP 103, 1033, on the Moon of each usable night',
   };
 }
 

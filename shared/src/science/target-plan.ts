@@ -534,7 +534,7 @@ export function computeTargetPlan(
       mag.source,
       mag.fromBand === mag.band ? 'paper' : 'memory',
     ),
-    airmass: explained(airmass, '1', `planning altitude ${fmt(o.planningAltitudeDeg)}° (sky windows give the real range)`, 'Kasten & Young (1989), Appl. Opt. 28, 4735 (from memory)', 'memory'),
+    airmass: explained(airmass, '1', `planning altitude ${fmt(o.planningAltitudeDeg)}° (sky windows give the real range)`, 'Kasten & Young (1989), Appl. Opt. 28, 4735, eq. 3', 'paper'),
     skyBrightnessMagPerArcsec2: o.sky
       ? explained(o.sky.medianMagPerArcsec2, 'mag/arcsec²', `median sky with the Moon over the ${o.sky.usableNights} nights the target is observable (site's dark sky ${fmt(site.skyBrightnessMagPerArcsec2)})`, o.sky.source, 'memory')
       : explained(site.skyBrightnessMagPerArcsec2, 'mag/arcsec²', "the site's dark sky: no sky windows given, so the Moon is not counted", "the site's own value", 'facility'),
@@ -580,11 +580,10 @@ export function computeTargetPlan(
       'ppm',
       `${stack.exposuresPerVisit > 1 ? `${stack.exposuresPerVisit} exposures of ` : ''}photon ${fmt(exposure.precision.components.photonPpm)}, sky ${fmt(exposure.precision.components.skyPpm)}, read ${fmt(exposure.precision.components.readPpm)}, scintillation ${fmt(exposure.precision.components.scintillationPpm)} (${node.scintillationModel === 'young1967' ? 'Young 1967, uncorrected' : 'Osborn et al. 2015'}), floor ${fmt(floorPpm)} ppm in quadrature`,
       'CCD equation, Howell (2006), Handbook of CCD Astronomy (from memory); ' +
-        (node.scintillationModel === 'young1967' ? 'Young (1967), AJ 72, 747' : 'Osborn et al. (2015), MNRAS 452, 1707') +
-        ' (from memory)',
+        (node.scintillationModel === 'young1967' ? 'Young (1967), AJ 72, 747, in its usual restatement' : 'Osborn et al. (2015), MNRAS 452, 1707, eq. 7'),
       'memory',
     ),
-    perVisitPrecisionMmag: explained(MAG_PER_RELATIVE_FLUX * sigmaPpm * 1e-3, 'mmag', `σ(mag) = ${fmt(MAG_PER_RELATIVE_FLUX, 5)}·σ(flux)/flux`, 'Howell (2006), Handbook of CCD Astronomy', 'memory'),
+    perVisitPrecisionMmag: explained(MAG_PER_RELATIVE_FLUX * sigmaPpm * 1e-3, 'mmag', `σ(mag) = ${fmt(MAG_PER_RELATIVE_FLUX, 5)}·σ(flux)/flux`, '2.5/ln 10: the derivative of the magnitude scale (exact)', 'derived'),
     nightlyPrecisionPpm: explained(
       nightlySigmaPpm(whitePpm, floorPpm, visitsPerNight),
       'ppm',

@@ -1,10 +1,10 @@
 /**
- * Airmass ↔ altitude with the Kasten & Young (1989) formula, Applied Optics 28, 4735 [memory for the
- * page; the coefficients reproduce SCIENCE.md §8 check value 9]:
+ * Airmass ↔ altitude with the Kasten & Young (1989) formula, Applied Optics 28, 4735, eq. 3
+ * (checked, docs/science.md#airmass):
  *
  *     X(h) = 1 / (sin h + 0.50572 · (h + 6.07995°)^−1.6364)
  *
- * with h the altitude in degrees (SCIENCE.md §8 check value 9: X(30°) = 1.9943, X(90°) = 0.9997).
+ * with h the altitude in degrees (check values X(30°) = 1.9943, X(90°) = 0.9997).
  * The formula itself lives once, in the science core's precision model
  * (`airmassKastenYoung`, science/visit-precision.ts), so an airmass limit converted here selects
  * the same altitudes the exposure times were computed for.

@@ -1,7 +1,9 @@
 /**
- * Moonlit sky brightness: the model of Krisciunas & Schaefer (1991), PASP 103, 1033, exactly as
- * written in SCIENCE.md §6b, which is tagged [memory: verify]: every equation below was recalled,
- * not re-read from the paper, and keeps that tag until someone checks it against the paper.
+ * Moonlit sky brightness: the model of Krisciunas & Schaefer (1991), PASP 103, 1033. Its four
+ * formulas and the nanolambert conversion (Garstang 1986, PASP 98, 364) were checked against a
+ * reference implementation that cites the paper's equation numbers (docs/science.md,
+ * "Checked values"); the extinction k = 0.172 of their site and the remark on the sky near the
+ * Moon were not.
  *
  * The model is in the V band, with brightness in nanolamberts (nL). Brightnesses add in nL;
  * magnitudes per square arcsecond are for input and output only.
@@ -21,14 +23,14 @@ const DARK_SKY_RANGE_MAG: readonly [number, number] = [10, 25];
 
 /**
  * Range accepted for the extinction coefficient, mag/airmass. KS91 used k = 0.172 in V at their
- * site; typical values are 0.1–0.3 (SCIENCE.md §6b [memory: verify]); 1 leaves room for blue
+ * site; typical values are 0.1–0.3 (docs/science.md#sky-brightness, equations checked there); 1 leaves room for blue
  * bands at poor sites (Spincycle's bound, not a physical limit).
  */
 const EXTINCTION_RANGE: readonly [number, number] = [0, 1];
 
 /**
  * Conversion constants between V surface brightness and nanolamberts, Krisciunas & Schaefer
- * (1991), PASP 103, 1033 (SCIENCE.md §6b [memory: verify]): B[nL] = 34.08·exp(20.7233 − 0.92104·V).
+ * (1991), PASP 103, 1033 (docs/science.md#sky-brightness, equations checked there): B[nL] = 34.08·exp(20.7233 − 0.92104·V).
  * Note 0.92104 ≈ 0.4·ln 10 and 20.7233 ≈ 9·ln 10, so B ≈ 34.08·10⁹·10^(−0.4·V) [derived here].
  */
 const NL_SCALE = 34.08;
@@ -38,7 +40,7 @@ const NL_SLOPE = 0.92104;
 /** 0.4·ln 10: turns 10^(−0.4·m) into exp(−LN_MAG·m) in the hot loop [derived, exact identity]. */
 const LN_MAG = 0.4 * Math.LN10;
 
-/** Rayleigh coefficient 10^5.36 of f(ρ), KS91 (SCIENCE.md §6b [memory: verify]), computed once. */
+/** Rayleigh coefficient 10^5.36 of f(ρ), KS91 (docs/science.md#sky-brightness, equations checked there), computed once. */
 const RAYLEIGH_SCALE = 10 ** 5.36;
 
 /** The geometry and atmosphere of one moonlit pointing (all angles in degrees). */
@@ -72,7 +74,7 @@ export interface SkyBrightnessInput extends MoonSkyGeometry {
 
 /**
  * Airmass of the KS91 model, X(Z) = (1 − 0.96·sin²Z)^(−1/2), Krisciunas & Schaefer (1991),
- * PASP 103, 1033 (SCIENCE.md §6b [memory: verify]). X(0) = 1; X(90°) = 1/√0.04 = 5 (finite at
+ * PASP 103, 1033 (docs/science.md#sky-brightness, equations checked there). X(0) = 1; X(90°) = 1/√0.04 = 5 (finite at
  * the horizon, unlike sec Z). Used only inside the sky-brightness model; the rest of Spincycle
  * uses Kasten & Young (1989) (airmass-limit.ts).
  */
@@ -84,7 +86,7 @@ export function ks91Airmass(zenithDeg: number): number {
 /**
  * Scattering function f(ρ) = 10^5.36·(1.06 + cos²ρ) + 10^(6.15 − ρ/40), ρ in degrees:
  * Rayleigh term plus Mie (aerosol) term, Krisciunas & Schaefer (1991), PASP 103, 1033
- * (SCIENCE.md §6b [memory: verify]). It falls from ρ = 0 to a minimum a few degrees past 90°
+ * (docs/science.md#sky-brightness, equations checked there). It falls from ρ = 0 to a minimum a few degrees past 90°
  * and rises again towards 180° (the Rayleigh term is symmetric about 90°) [derived here from
  * the formula]. The fit's data did not sample the Moon's immediate surroundings well, so values
  * within a few degrees of the Moon are an extrapolation (from memory).
@@ -96,8 +98,8 @@ export function ks91ScatteringFunction(separationDeg: number): number {
 
 /**
  * Illuminance of the Moon outside the atmosphere, I* = 10^(−0.4·(3.84 + 0.026·|α| + 4·10⁻⁹·α⁴)),
- * α = phase angle in degrees, Krisciunas & Schaefer (1991), PASP 103, 1033 (SCIENCE.md §6b
- * [memory: verify]); in the model's own units (it multiplies f(ρ) to give nanolamberts).
+ * α = phase angle in degrees, Krisciunas & Schaefer (1991), PASP 103, 1033 (docs/science.md#sky-brightness,
+ * checked there); in the model's own units (it multiplies f(ρ) to give nanolamberts).
  */
 export function ks91MoonIlluminance(phaseAngleDeg: number): number {
   const alpha = requireInRange(phaseAngleDeg, 'moonPhaseAngleDeg', 0, 180);
@@ -121,7 +123,7 @@ export function moonPhaseAngleDegFromIlluminatedFraction(illuminatedFraction: nu
 
 /**
  * Nanolamberts → V surface brightness, V = (20.7233 − ln(B/34.08))/0.92104 mag/arcsec²,
- * Krisciunas & Schaefer (1991), PASP 103, 1033 (SCIENCE.md §6b [memory: verify]).
+ * Krisciunas & Schaefer (1991), PASP 103, 1033 (docs/science.md#sky-brightness, equations checked there).
  */
 export function nanolambertsToVMagPerArcsec2(nanolamberts: number): number {
   const b = requirePositive(nanolamberts, 'nanolamberts');
@@ -130,7 +132,7 @@ export function nanolambertsToVMagPerArcsec2(nanolamberts: number): number {
 
 /**
  * V surface brightness → nanolamberts, B = 34.08·exp(20.7233 − 0.92104·V),
- * Krisciunas & Schaefer (1991), PASP 103, 1033 (SCIENCE.md §6b [memory: verify]).
+ * Krisciunas & Schaefer (1991), PASP 103, 1033 (docs/science.md#sky-brightness, equations checked there).
  */
 export function vMagPerArcsec2ToNanolamberts(vMagPerArcsec2: number): number {
   const v = requireFinite(vMagPerArcsec2, 'vMagPerArcsec2');
@@ -143,7 +145,7 @@ export function vMagPerArcsec2ToNanolamberts(vMagPerArcsec2: number): number {
 /**
  * Scattered moonlight at the target, nanolamberts (V):
  * B_moon = f(ρ)·I*·10^(−0.4·k·X(Z_m))·[1 − 10^(−0.4·k·X(Z))],
- * Krisciunas & Schaefer (1991), PASP 103, 1033 (SCIENCE.md §6b [memory: verify]). The first
+ * Krisciunas & Schaefer (1991), PASP 103, 1033 (docs/science.md#sky-brightness, equations checked there). The first
  * extinction factor dims the moonlight on its way down; the bracket is the fraction of it the
  * air column towards the target scatters. 0 when the Moon is below the horizon (Z_m > 90°).
  */
@@ -154,8 +156,8 @@ export function moonSkyBrightnessNanolamberts(input: MoonSkyGeometry): number {
 
 /**
  * Dark (moonless) sky at zenith distance Z, mag/arcsec²: B_dark(Z) = B_dark·10^(−0.4·k·(X−1))·X
- * with X = X(Z) of KS91, Krisciunas & Schaefer (1991), PASP 103, 1033 (SCIENCE.md §6b
- * [memory: verify]). In magnitudes this is V(Z) = V_zen + k·(X − 1) − 2.5·log₁₀X [derived here]:
+ * with X = X(Z) of KS91, Krisciunas & Schaefer (1991), PASP 103, 1033 (docs/science.md#sky-brightness,
+ * checked there). In magnitudes this is V(Z) = V_zen + k·(X − 1) − 2.5·log₁₀X [derived here]:
  * the sky brightens towards the horizon (more airglow along the line of sight, factor X) and is
  * dimmed by extinction. It brightens monotonically with Z while X < 1/(0.4·ln10·k), i.e. over
  * the whole sky (X ≤ 5) for k ≤ 0.217 [derived here from d/dX of the formula].
@@ -170,7 +172,7 @@ export function darkSkyAtZenithDistance(darkZenithMagPerArcsec2: number, targetZ
 /**
  * Total sky brightness at the target, mag/arcsec²: dark sky at the target's zenith distance plus
  * scattered moonlight, added in nanolamberts and converted back (Krisciunas & Schaefer (1991),
- * PASP 103, 1033; SCIENCE.md §6b [memory: verify]).
+ * PASP 103, 1033; docs/science.md#sky-brightness, equations checked there).
  *
  * Bands: the moonlight model is in V. A node observing in another band passes its band's dark
  * sky; it is converted to nL as if it were V, the Moon's V-band contribution is added, and the
@@ -300,7 +302,7 @@ function badNight(name: string, night: number, value: number, range: string): ne
 
 // ---------------------------------------------------------------------------------------
 // Unchecked kernels (inputs already validated). Formulas as documented on the exported
-// functions above: Krisciunas & Schaefer (1991), PASP 103, 1033 (SCIENCE.md §6b [memory: verify]).
+// functions above: Krisciunas & Schaefer (1991), PASP 103, 1033 (docs/science.md#sky-brightness, equations checked there).
 
 function requireGeometry(input: MoonSkyGeometry) {
   if (typeof input !== 'object' || input === null) throw new ScienceInputError('input', 'is missing');
