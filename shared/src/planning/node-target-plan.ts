@@ -121,7 +121,17 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
     }
     suggestions.push({ kind: 'other_node', message: 'Another node of the network may see this target longer in the campaign.' });
   }
-  return { plan, sky, season, phase, feasible: plan.feasible && sky.fits && season.fitsOneSeason && !phaseBlocks, reasons, suggestions };
+  // Each reason and each suggestion once (several checks can arrive at the same sentence).
+  const unique = <T>(items: T[], key: (t: T) => string) => items.filter((t, i) => items.findIndex((o) => key(o) === key(t)) === i);
+  return {
+    plan,
+    sky,
+    season,
+    phase,
+    feasible: plan.feasible && sky.fits && season.fitsOneSeason && !phaseBlocks,
+    reasons: unique(reasons, (r) => r),
+    suggestions: unique(suggestions, (s) => `${s.kind}\n${s.message}`),
+  };
 }
 
 /**

@@ -302,6 +302,11 @@ export interface VisitSizing {
   amplitudeLimitPpm: number;
   /** The same with unlimited visits per night: what the floor alone allows, ppm (NaN unless `detail`). */
   floorAmplitudeLimitPpm: number;
+  /** Visits a night beyond which the floor dominates a night's mean (⌈σ_white²/σ_floor²⌉, within the limits). */
+  usefulVisitsPerNight: number;
+  /** The largest campaign the sizing may try: every night over this baseline with this many visits a night. */
+  longestBaselineDays: number;
+  mostVisitsPerNight: number;
 }
 
 /**
@@ -385,9 +390,10 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
   const detail = input.detail ?? true;
   const result = (T: number, s: number, k: number, drivenBy: VisitSizing['drivenBy']): VisitSizing => {
     const e = evaluate(T, s, k);
+    const limits = { usefulVisitsPerNight: kUseful, longestBaselineDays: tMax, mostVisitsPerNight: kMax };
     if (!detail) {
       return { baselineDays: T, nightStepDays: s, visitsPerNight: k, nights: e.n, visits: e.n * k, threshold: e.th,
-        noncentrality: e.lam, seriesSigmaPpm: e.sigma, completeness: e.pd, drivenBy, amplitudeLimitPpm: Number.NaN, floorAmplitudeLimitPpm: Number.NaN };
+        noncentrality: e.lam, seriesSigmaPpm: e.sigma, completeness: e.pd, drivenBy, amplitudeLimitPpm: Number.NaN, floorAmplitudeLimitPpm: Number.NaN, ...limits };
     }
     // Both limits share the longest campaign's threshold, hence one inversion.
     let lamMax: number | undefined;
@@ -410,12 +416,16 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
       drivenBy,
       amplitudeLimitPpm: drivenBy === 'unreachable' ? limitAt(nightly ? Math.sqrt(w2 / kMax + f2) : Math.sqrt(w2 + f2)) : Number.NaN,
       floorAmplitudeLimitPpm: drivenBy === 'unreachable' ? limitAt(Math.sqrt(f2)) : Number.NaN,
+      ...limits,
     };
   };
   // 1. The cadence as it stands.
   if (ok(T0, input.nightStepDays, k0)) return result(T0, input.nightStepDays, k0, 'cadence');
-  // Nothing reaches it: the longest baseline with the most visits a night falls short.
-  if (!ok(tMax, 1, kMax)) return result(tMax, 1, kMax, 'unreachable');
+  // Nothing reaches it: the longest baseline with the most visits a night falls short. The
+  // plan then keeps the cadence's own campaign and says what completeness that gives: showing
+  // the largest campaign tried (every night, the night full of visits) would price thousands
+  // of visits that cannot reach the goal either.
+  if (!ok(tMax, 1, kMax)) return result(T0, input.nightStepDays, k0, 'unreachable');
   // 2. Every night, up to the useful visits per night.
   const kEvery = smallestK(T0, 1, k0, kUseful);
   if (kEvery !== null) return result(T0, 1, kEvery, 'visitsPerNight');

@@ -42,8 +42,8 @@ describe('computeTargetPlan', () => {
     expect(Number.isInteger(q.feeMinor.value)).toBe(true);
     expect(q.feeMinor.value).toBe(Math.round(q.nodeHours.value * NODE.rateMinorPerHour));
     expect(q.completeness.value).toBeGreaterThanOrEqual(0.9 - 1e-9);
-    expect(q.visitsForCompleteness50.value).toBeLessThanOrEqual(q.visitsForCompleteness90.value);
-    expect(q.visitsForCompleteness90.value).toBeLessThanOrEqual(q.visitsForCompleteness99.value);
+    expect(q.visitsForCompleteness50.value!).toBeLessThanOrEqual(q.visitsForCompleteness90.value!);
+    expect(q.visitsForCompleteness90.value!).toBeLessThanOrEqual(q.visitsForCompleteness99.value!);
     // Samples per cycle of the shortest plausible period ≥ 10.
     expect((q.visitsPerNight.value * q.shortestPeriodDays.value) / q.nightStepDays.value).toBeGreaterThanOrEqual(10);
   });
@@ -139,7 +139,7 @@ describe('computeTargetPlan', () => {
       const short = computeTargetPlan(STAR, NODE, SITE, { exposureSeconds: 5 });
       const long = computeTargetPlan(STAR, NODE, SITE, { exposureSeconds: 60 });
       expect(long.quantities.perVisitPrecisionPpm.value).toBeLessThan(short.quantities.perVisitPrecisionPpm.value);
-      expect(long.quantities.visitsForCompleteness90.value).toBeLessThanOrEqual(short.quantities.visitsForCompleteness90.value);
+      expect(long.quantities.visitsForCompleteness90.value!).toBeLessThanOrEqual(short.quantities.visitsForCompleteness90.value!);
     });
 
     it.each([1, 301, Number.NaN])('rejects %p s outside the node range, naming options.exposureSeconds', (exposureSeconds) => {
@@ -191,12 +191,17 @@ describe('computeTargetPlan, exposures per visit', () => {
     const q = plan.quantities;
     expect(q.exposuresPerVisit.value).toBeGreaterThan(1);
     expect(q.exposuresPerVisit.why).toMatch(/capped by saturation/);
-    // …and less node time than one exposure per visit.
-    expect(q.nodeHoursClear.value).toBeLessThan(single.quantities.nodeHoursClear.value);
     expect(q.perVisitPrecisionPpm.value).toBeLessThan(single.quantities.perVisitPrecisionPpm.value);
-    // Fewer visits for the same detection, and fewer visits per night.
-    expect(q.visits.value).toBeLessThan(single.quantities.visits.value);
-    expect(q.visitsPerNight.value).toBeLessThanOrEqual(single.quantities.visitsPerNight.value);
+    // This star's spots are below what the node's floor lets any campaign detect at 90 %: both
+    // plans are infeasible and keep the cadence's own campaign, whose completeness the more
+    // precise visits raise (an unreachable plan is not priced at the largest campaign tried).
+    for (const p of [plan, single]) {
+      expect(p.feasible).toBe(false);
+      expect(p.flags.map((f) => f.code)).toContain('amplitudeBelowFloor');
+      expect(p.quantities.visitsForCompleteness90.value).toBeNull();
+    }
+    expect(q.visits.value).toBe(single.quantities.visits.value);
+    expect(q.completeness.value).toBeGreaterThan(single.quantities.completeness.value);
     // The visit stays within the longest visit.
     expect(q.visitSeconds.value).toBeLessThanOrEqual(PLAN_DEFAULTS.maxVisitSeconds + 1e-9);
   });
@@ -226,5 +231,54 @@ describe('computeTargetPlan, exposures per visit', () => {
   it('refuses a fractional or zero exposuresPerVisit, naming the option', () => {
     expect(() => computeTargetPlan(STAR, NODE, SITE, { exposuresPerVisit: 0 })).toThrow(/options\.exposuresPerVisit/);
     expect(() => computeTargetPlan(STAR, NODE, SITE, { exposuresPerVisit: 2.5 })).toThrow(ScienceInputError);
+  });
+});
+
+describe('computeTargetPlan, plans that reach the goal only at a price', () => {
+  // A faint old G dwarf with a tight period precision on the typical node: the precision sets
+  // a baseline of years and the floor makes each night's mean barely better with more visits.
+  const FAINT_OLD: TargetPlanTarget = {
+    name: 'Star C-3',
+    colour: { value: 0.833, system: 'BPRP' },
+    ageMyr: 5040,
+    ageUncertaintyMyr: 480,
+    magnitude: { value: 14.58, band: 'V' },
+    periodPrecisionDays: 0.432,
+  };
+
+  it('flags visits beyond what the floor lets count, and nights the star would fill, with the cheaper ways out', () => {
+    const plan = computeTargetPlan(FAINT_OLD, NODE, SITE);
+    const q = plan.quantities;
+    const beyond = plan.flags.find((f) => f.code === 'visitsBeyondFloor');
+    expect(beyond?.severity).toBe('caution');
+    expect(beyond?.message).toContain(`${q.visitsPerNight.value} visits a night`);
+    expect(beyond?.message).toMatch(/looser period precision/);
+    expect(beyond?.message).toContain(`50 % completeness needs ${q.visitsForCompleteness50.value} visits`);
+    // It fires only when more visits a night are planned than the floor lets count.
+    const useful = Number(/beyond (\d+) a night/.exec(beyond!.message)?.[1]);
+    expect(q.visitsPerNight.value).toBeGreaterThan(useful);
+    const filled = plan.flags.find((f) => f.code === 'nightsFilled');
+    expect(filled?.severity).toBe('caution');
+    expect((q.visitsPerNight.value * q.visitSeconds.value) / 3600).toBeGreaterThan(0.5 * PLAN_DEFAULTS.observableHoursPerNight);
+  });
+
+  it('gives an ordinary plan neither caution', () => {
+    const plan = computeTargetPlan(STAR, NODE, SITE);
+    expect(plan.flags.map((f) => f.code)).not.toContain('visitsBeyondFloor');
+    expect(plan.flags.map((f) => f.code)).not.toContain('nightsFilled');
+  });
+
+  it('keeps the cadence campaign of a plan no campaign can make reach the goal, with the completeness it gives', () => {
+    // An old, bright G dwarf: spots below what the floor lets any campaign detect at 90 %.
+    const plan = computeTargetPlan({ name: 'Star B-2', colour: { value: 0.65, system: 'BV' }, ageMyr: 4000, ageUncertaintyMyr: 500, magnitude: { value: 9.6, band: 'V' } }, NODE, SITE);
+    const q = plan.quantities;
+    expect(plan.feasible).toBe(false);
+    const floor = plan.flags.find((f) => f.code === 'amplitudeBelowFloor');
+    expect(floor?.message).toMatch(/The cadence's own \d+ visits give [\d.]+ % completeness/);
+    // The cadence's own nights and visits a night, not the night full of visits of the longest baseline.
+    expect(q.visits.value).toBe(q.visitsPerNight.value * (Math.floor(q.baselineDays.value / q.nightStepDays.value + 1e-9) + 1));
+    expect(q.completeness.value).toBeLessThan(0.9);
+    expect(q.visitsForCompleteness90.value).toBeNull();
+    expect(q.visitsForCompleteness99.value).toBeNull();
   });
 });

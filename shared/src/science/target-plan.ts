@@ -197,9 +197,10 @@ export interface TargetPlanQuantities {
   requestedCompleteness: Explained;
   completeness: Explained;
   visitsForCadence: Explained;
-  visitsForCompleteness50: Explained;
-  visitsForCompleteness90: Explained;
-  visitsForCompleteness99: Explained;
+  /** Null when no campaign the node allows reaches that completeness. */
+  visitsForCompleteness50: Explained<number | null>;
+  visitsForCompleteness90: Explained<number | null>;
+  visitsForCompleteness99: Explained<number | null>;
   visits: Explained;
   expectedPeriodPrecisionDays: Explained;
   visitSeconds: Explained;
@@ -241,7 +242,7 @@ export interface TargetPlan {
  * 4: sized for completeness over nightly means, Baluev threshold, intrinsic scatter, amplitude
  * on any τ scale, moonlit sky, season and phase coverage, Osborn scintillation by default.
  */
-export const TARGET_PLAN_MODEL_VERSION = 4;
+export const TARGET_PLAN_MODEL_VERSION = 5;
 
 export const PLAN_DEFAULTS = {
   falseAlarmProbability: 0.01,
@@ -265,6 +266,8 @@ const CHOICE = "Spincycle's choice, no source";
 const RULE = 'common practice, no single source';
 /** Billing granularity of node-hours (Spincycle's choice). */
 const HOURS_STEP = 0.01;
+/** Share of a night's observable hours above which one target's visits earn a caution (this product's choice). */
+const NIGHT_SHARE_CAUTION = 0.5;
 
 /** Default relation for a colour system (documented in {@link TargetPlanOptions.relation}). */
 export function defaultRelationFor(system: TargetColourSystem): GyroRelationId {
@@ -430,7 +433,7 @@ export function computeTargetPlan(
       flag(
         'amplitudeBelowFloor',
         'blocking',
-        `the expected semi-amplitude of ${fmt(semiAmplitudePpm)} ppm is below the ${fmt(sz.amplitudeLimitPpm)} ppm that ${maxVisitsPerNight} visits a night over ${sz.nights} nights (${baseline} d) detect with ${fmt(o.completeness * 100)} % completeness; the node's systematic floor of ${fmt(floorPpm)} ppm does not average down within a night, so no number of visits a night goes below ${fmt(sz.floorAmplitudeLimitPpm)} ppm`,
+        `the expected semi-amplitude of ${fmt(semiAmplitudePpm)} ppm is below the ${fmt(sz.amplitudeLimitPpm)} ppm that even ${sz.mostVisitsPerNight} visits a night on all ${visitNightCount(sz.longestBaselineDays, 1)} nights of ${sz.longestBaselineDays} d detect with ${fmt(o.completeness * 100)} % completeness; the node's systematic floor of ${fmt(floorPpm)} ppm does not average down within a night, so no number of visits a night goes below ${fmt(sz.floorAmplitudeLimitPpm)} ppm. The cadence's own ${visits} visits give ${fmt(sz.completeness * 100, 2)} % completeness`,
         NIGHTLY_NOISE_SOURCE,
       ),
     );
@@ -455,18 +458,48 @@ export function computeTargetPlan(
   const fmin = 1 / longestSearched;
   const expectedSigmaP = periodPrecision({ visits: series === 'nightlyMeans' ? sz.nights : sz.visits, sigmaPpm: sz.seriesSigmaPpm, semiAmplitudePpm, baselineDays: baseline, periodDays: pMax });
 
+  const pct = (c: number) => `${fmt(c * 100)} %`;
   // 8. Hours and fee.
   const hoursClear = (visits * visitSeconds) / 3600;
-  const hours = Math.ceil(hoursClear / (1 - node.weatherLossFraction) / HOURS_STEP - 1e-9) * HOURS_STEP;
+  const hoursOf = (v: number) => Math.ceil((v * visitSeconds) / 3600 / (1 - node.weatherLossFraction) / HOURS_STEP - 1e-9) * HOURS_STEP;
+  const hours = hoursOf(visits);
   const fee = Math.round(hours * node.rateMinorPerHour);
+
+  // 9. Campaigns that reach the goal only at a price the proposer must see: more visits a
+  // night than the floor lets count, or most of every visit night spent on this one star.
+  if (sz.drivenBy !== 'unreachable') {
+    const nightHours = (visitsPerNight * visitSeconds) / 3600;
+    const cheaper =
+      (bl.setBy === 'precision' ? `; a looser period precision (the requested ${fmt(target.periodPrecisionDays ?? Number.NaN)} d sets the baseline to ${bl.baselineDays} d)` : '') +
+      (levels[0].drivenBy !== 'unreachable' && levels[0].visits < visits ? `; 50 % completeness needs ${levels[0].visits} visits (${fmt(hoursOf(levels[0].visits))} node-hours)` : '');
+    if (visitsPerNight > sz.usefulVisitsPerNight) {
+      flags.push(
+        flag(
+          'visitsBeyondFloor',
+          'caution',
+          `${pct(o.completeness)} completeness takes ${visitsPerNight} visits a night on ${sz.nights} nights (${fmt(hours)} node-hours), although beyond ${sz.usefulVisitsPerNight} a night the node's systematic floor of ${fmt(floorPpm)} ppm sets each night's noise and more visits add little. Cheaper ways out: a node with a lower floor or a larger aperture${cheaper}`,
+          NIGHTLY_NOISE_SOURCE,
+        ),
+      );
+    }
+    if (nightHours > NIGHT_SHARE_CAUTION * o.observableHoursPerNight) {
+      flags.push(
+        flag(
+          'nightsFilled',
+          'caution',
+          `the visits fill ${fmt(nightHours, 2)} h of the ${o.observableHoursPerNight} observable hours on each of ${sz.nights} nights: this one star would hold the node for most of its nights. Cheaper ways out: fewer samples per cycle or a node with a lower floor${cheaper}`,
+          RULE,
+        ),
+      );
+    }
+  }
 
   const cl = colourLabel(colour.intrinsic.system);
   const rl = colourLabel(prediction.relationColour.system);
   const bandZp = BAND_ZERO_POINTS[node.band];
-  const pct = (c: number) => `${fmt(c * 100)} %`;
   const levelWhy = (c: number, s: VisitSizing) =>
     s.drivenBy === 'unreachable'
-      ? `${pct(c)} completeness is out of reach: the floor limits it even at ${s.visitsPerNight} visits a night over ${s.baselineDays} d`
+      ? `${pct(c)} completeness is out of reach: the floor limits it even at ${s.mostVisitsPerNight} visits a night on every night of ${s.longestBaselineDays} d`
       : `${pct(c)} completeness: ${s.visitsPerNight} visit(s) a night on ${s.nights} nights over ${s.baselineDays} d`;
   const periodWhy = period.explicit
     ? `the proposer's period (${relInfo.label} gives ${period.noExpectedPeriod === null && !prediction.noResult ? `${fmt(prediction.periodDays)} d` : 'none'})`
@@ -649,9 +682,9 @@ export function computeTargetPlan(
       'derived',
     ),
     visitsForCadence: explained(nCad, '1', `the cadence's ${cad.visitsPerNight} visit(s) per night on ${visitNightCount(baseline, cad.nightStepDays)} nights over ${baseline} d`, RULE, 'practice'),
-    visitsForCompleteness50: explained(levels[0].visits, '1', levelWhy(0.5, levels[0]), DETECTION_SOURCE, 'derived'),
-    visitsForCompleteness90: explained(levels[1].visits, '1', levelWhy(0.9, levels[1]), DETECTION_SOURCE, 'derived'),
-    visitsForCompleteness99: explained(levels[2].visits, '1', levelWhy(0.99, levels[2]), DETECTION_SOURCE, 'derived'),
+    visitsForCompleteness50: explained(levels[0].drivenBy === 'unreachable' ? null : levels[0].visits, '1', levelWhy(0.5, levels[0]), DETECTION_SOURCE, 'derived'),
+    visitsForCompleteness90: explained(levels[1].drivenBy === 'unreachable' ? null : levels[1].visits, '1', levelWhy(0.9, levels[1]), DETECTION_SOURCE, 'derived'),
+    visitsForCompleteness99: explained(levels[2].drivenBy === 'unreachable' ? null : levels[2].visits, '1', levelWhy(0.99, levels[2]), DETECTION_SOURCE, 'derived'),
     visits: explained(
       visits,
       '1',

@@ -48,6 +48,10 @@ describe('computePlanRows', () => {
     for (const n of [1, 2]) {
       expect(row(3, n).feasible).toBe(false);
       expect(row(3, n).suggestions.find((s) => s.kind === 'other_node')?.message).toMatch(/^None of the requested nodes/);
+      // Said once however many checks thought of another node; each reason once too.
+      const messages = row(3, n).suggestions.map((s) => s.message);
+      expect(new Set(messages).size).toBe(messages.length);
+      expect(new Set(row(3, n).reasons).size).toBe(row(3, n).reasons.length);
     }
   });
 

@@ -128,13 +128,16 @@ function nameOtherNodes(targetRows: PlanRowInsert[], nodes: TelescopeNode[]): vo
     const result = row.result;
     if (!result || result.feasible) continue;
     const elsewhere = feasible.filter((r) => r.nodeId !== row.nodeId);
-    result.suggestions = result.suggestions.map((s) => {
+    const named = result.suggestions.map((s) => {
       if (s.kind !== 'other_node') return s;
       if (!elsewhere.length) {
-        return { ...s, message: 'None of the requested nodes can carry this target as planned: another node of the network, not requested here, may.' };
+        // Said once, whatever made the science core think of another node (saturation, sky):
+        // whether the cycle has nodes this proposal did not request is for the screen to add.
+        return { ...s, message: 'None of the requested nodes can carry this target as planned.' };
       }
       const list = elsewhere.map((r) => `${code(r.nodeId)} (${r.result!.nodeHours.toFixed(1)} node-hours; ${r.result!.skyVerdict.split(';')[0]})`).join(', ');
       return { ...s, message: `Feasible on ${list}.` };
     });
+    result.suggestions = named.filter((s, i) => named.findIndex((o) => o.message === s.message) === i);
   }
 }
