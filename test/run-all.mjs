@@ -72,6 +72,16 @@ async function typeCheck(label, project) {
   record(label, ok ? 1 : 0, ok ? 0 : 1, (performance.now() - t0) / 1000);
 }
 
+/** A lint step: the command's exit status is the verdict (its own output names each problem). */
+async function lint(label, command, args) {
+  const t0 = performance.now();
+  console.log(`\n── ${label} (${[command, ...args].join(' ')})`);
+  const r = await unlessInterrupted(runCommand(bin(command), args));
+  const ok = r.status === 0;
+  if (ok) console.log('   clean');
+  record(label, ok ? 1 : 0, ok ? 0 : 1, (performance.now() - t0) / 1000);
+}
+
 async function jestSuite(project, extraArgs = []) {
   const t0 = performance.now();
   const out = join(resultsDir, `${project}.json`);
@@ -143,6 +153,7 @@ async function main() {
     await typeCheck('types: server, shared, database, tests', 'tsconfig.json');
     await typeCheck('types: client app', 'client/tsconfig.app.json');
     await typeCheck('types: client tests', 'client/tsconfig.spec.json');
+    await lint('lint: ESLint', 'eslint', ['--max-warnings', '0', '.']);
     await jestSuite('shared');
     await jestSuite('reference');
     await jestSuite('server');

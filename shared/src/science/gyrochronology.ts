@@ -38,7 +38,6 @@ import {
   type RossbyNumber,
   type TurnoverScale,
   TURNOVER_SCALES,
-  TURNOVER_SCALE_INFO,
   solarRossby,
   turnoverTimeForColour,
 } from './turnover-time';

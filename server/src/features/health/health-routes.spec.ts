@@ -30,6 +30,7 @@ describe('GET /api/health', () => {
     process.env.SPINCYCLE_INSTANCE_ID = 'launcher-given-id-123';
     try {
       jest.isolateModules(() => {
+        // eslint-disable-next-line @typescript-eslint/no-require-imports -- jest.isolateModules needs a synchronous load of a fresh copy
         const fresh = require('./instance-id') as typeof import('./instance-id');
         expect(fresh.instanceId).toBe('launcher-given-id-123');
       });
@@ -46,6 +47,7 @@ describe('GET /api/health', () => {
       const ids = new Set<string>();
       for (let i = 0; i < 2; i++) {
         jest.isolateModules(() => {
+          // eslint-disable-next-line @typescript-eslint/no-require-imports -- as above
           ids.add((require('./instance-id') as typeof import('./instance-id')).instanceId);
         });
       }

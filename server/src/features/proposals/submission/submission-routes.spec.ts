@@ -63,6 +63,60 @@ describe('GET /api/proposals/:id/readiness', () => {
   });
 });
 
+describe('readiness against the cycle\'s capacity', () => {
+  /** A ready draft on node 0 of a fresh cycle whose capacity there is below the draft's request. */
+  async function overCapacity(rule?: 'warn' | 'block') {
+    const cycle = await net.createCycle({ closesInMs: 3 * 86400_000 });
+    if (rule) await h.created.ctx.db('cycles').where({ id: cycle.id }).update({ capacity_overrun: rule });
+    const { browser, proposal } = await proposerWithDraft(h, cycle.id);
+    await makeReady(h, browser, proposal.id, [net.nodeIds[0]]);
+    const requested = (await browser.get(`/api/proposals/${proposal.id}`)).body.request[0].nodeHours as number;
+    const capacity = Math.floor(requested / 2);
+    await h.created.ctx.db('cycle_nodes').where({ cycle_id: cycle.id, node_id: net.nodeIds[0] }).update({ node_hours_available: capacity });
+    return { browser, id: proposal.id, requested, capacity, cycleId: cycle.id };
+  }
+
+  it('warn (the default): ready, with a warning naming node, request and capacity; submission goes through', async () => {
+    const { browser, id, requested, capacity } = await overCapacity();
+    const res = (await browser.get(`/api/proposals/${id}/readiness`)).body;
+    expect(res).toMatchObject({ ready: true, problems: [] });
+    expect(res.warnings.filter((w: { field: string }) => w.field === 'request')).toEqual([
+      { field: 'request', message: `${Math.round(requested * 100) / 100} node-hours are requested on ${net.nodes[0].code}, more than the ${capacity} the cycle offers there; it can be submitted, and the panel sees the overrun` },
+    ]);
+    expect((await browser.post(`/api/proposals/${id}/submit`)).status).toBe(200);
+  });
+
+  it('block: not ready (the overrun is a problem), and submit answers 422 not_ready with fieldErrors.request', async () => {
+    const { browser, id } = await overCapacity('block');
+    const res = (await browser.get(`/api/proposals/${id}/readiness`)).body;
+    expect(res.ready).toBe(false);
+    expect(res.problems).toEqual([{ field: 'request', message: expect.stringMatching(/^[\d.]+ node-hours are requested on .*; this cycle accepts no request above a node's capacity/) }]);
+    const submit = await browser.post(`/api/proposals/${id}/submit`);
+    expect(submit.status).toBe(422);
+    expect(submit.body).toMatchObject({ code: 'not_ready', fieldErrors: { request: [expect.any(String)] } });
+  });
+
+  it('a request within capacity gives neither', async () => {
+    const { browser, id, cycleId, requested } = await overCapacity('block');
+    await h.created.ctx.db('cycle_nodes').where({ cycle_id: cycleId, node_id: net.nodeIds[0] }).update({ node_hours_available: requested });
+    const res = (await browser.get(`/api/proposals/${id}/readiness`)).body;
+    expect(res).toMatchObject({ ready: true, problems: [] });
+    expect(res.warnings.filter((w: { field: string }) => w.field === 'request')).toEqual([]);
+  });
+
+  it('the proposal\'s request shows the infeasible plans\' node-hours apart from the requested ones', async () => {
+    const { browser, proposal } = await proposerWithDraft(h, net.cycleId);
+    await makeReady(h, browser, proposal.id, [net.nodeIds[0]], [target(), target({ decDeg: -80, raDeg: 90 })]);
+    const [r] = (await browser.get(`/api/proposals/${proposal.id}`)).body.request;
+    expect(r.infeasibleTargets).toBe(1);
+    expect(r.infeasibleNodeHours).toBeGreaterThan(0);
+    const plans = (await h.created.ctx.db('target_plans').where({ proposal_id: proposal.id, node_id: net.nodeIds[0] }).select('node_hours', 'feasible')) as { node_hours: number; feasible: boolean }[];
+    const sum = (feasible: boolean) => plans.filter((p) => p.feasible === feasible).reduce((s, p) => s + p.node_hours, 0);
+    expect(r.nodeHours).toBeCloseTo(sum(true), 2);
+    expect(r.infeasibleNodeHours).toBeCloseTo(sum(false), 2);
+  });
+});
+
 describe('POST /api/proposals/:id/submit', () => {
   it('refuses a draft that is not ready with 422 not_ready and the problems as fieldErrors', async () => {
     const { browser, proposal } = await proposerWithDraft(h, net.cycleId);
@@ -122,7 +176,7 @@ describe('POST /api/proposals/:id/submit', () => {
     const text = mail.text;
     expect(text).toContain('Title:         Receipt check');
     expect(text).toContain(`Cycle:         ${net.cycleCode}`);
-    expect(text).toMatch(/Submitted at:  \d{4}-\d\d-\d\d \d\d:\d\d:\d\d UTC/);
+    expect(text).toMatch(/Submitted at: {2}\d{4}-\d\d-\d\d \d\d:\d\d:\d\d UTC/);
     expect(text).toContain('Targets:       2');
     for (const r of res.body.request) {
       const fee = `EUR ${(r.feeMinor / 100).toLocaleString('en-GB', { minimumFractionDigits: 2 })}`;
