@@ -1,6 +1,7 @@
 import type { Request, Response } from 'express';
 import type { AppContext } from '../../../app-context';
 import { idParamSchema, nodeIdQuerySchema, targetParamsSchema } from '../../../http/params';
+import { jsonWithRawMember } from '../../../http/raw-json';
 import { planListQuerySchema } from '@spincycle/shared/proposals/plan-types';
 import { getPlanExplanation, getPlanMarkers, getPlanRunStatus, getProposalPlans, getTargetSky, recomputeProposalPlans } from './plan-service';
 
@@ -10,7 +11,8 @@ export function createPlanController(ctx: AppContext) {
     async plans(req: Request, res: Response) {
       const { id } = idParamSchema.parse(req.params);
       const query = planListQuerySchema.parse(req.query);
-      res.json(await getProposalPlans(ctx, req.user!, id, query));
+      const { head, plansJson } = await getProposalPlans(ctx, req.user!, id, query);
+      res.type('application/json').send(jsonWithRawMember(head, 'plans', plansJson));
     },
     async status(req: Request, res: Response) {
       const { id } = idParamSchema.parse(req.params);

@@ -188,8 +188,13 @@ const SORT_SQL: Record<PlanSortKey, string> = {
   fee: 'tp.fee_minor',
 };
 
-/** One page of a proposal's stored plans (not errors), filtered and sorted, with the number matching. */
-export async function listPlanPage(db: Knex, proposalId: number, query: PlanListQuery): Promise<{ plans: TargetPlanRow[]; matched: number }> {
+/**
+ * One page of a proposal's stored plans (not errors), filtered and sorted, with the number
+ * matching — as JSON text, ready to send: each row's stored summary (jsonb, ~4 kB) is read as
+ * text and spliced after the row's ids, never parsed into objects and written out again (that
+ * round trip was most of the list's cost under load). The rows are {@link TargetPlanRow}s.
+ */
+export async function listPlanPageJson(db: Knex, proposalId: number, query: PlanListQuery): Promise<{ rowsJson: string; matched: number }> {
   const descending = query.sort.startsWith('-');
   const key = (descending ? query.sort.slice(1) : query.sort) as PlanSortKey;
   const q = db('target_plans as tp')
@@ -204,18 +209,27 @@ export async function listPlanPage(db: Knex, proposalId: number, query: PlanList
     // strpos, not LIKE: the text needs no escaping of % and _.
     q.where((w) => w.whereRaw('strpos(lower(t.name), lower(?)) > 0', [text]).orWhereRaw('strpos(lower(n.code), lower(?)) > 0', [text]));
   }
-  const rows: (StoredPlanDbRow & { summary: StoredPlanSummary; matched: string | number })[] = await q
+  const rows: (Omit<StoredPlanDbRow, 'summary' | 'error'> & { summary_json: string; matched: string | number })[] = await q
     .orderByRaw(`${SORT_SQL[key]} ${descending ? 'DESC' : 'ASC'} NULLS LAST, t.position, t.id, n.code`)
     .limit(query.pageSize)
     .offset((query.page - 1) * query.pageSize)
-    .select('tp.target_id', 'tp.node_id', 't.name as target_name', 'n.code as node_code', 'tp.summary', db.raw('count(*) OVER () AS matched'));
+    .select('tp.target_id', 'tp.node_id', 't.name as target_name', 'n.code as node_code', db.raw('tp.summary::text AS summary_json'), db.raw('count(*) OVER () AS matched'));
   // A page past the end has no row to carry the count: count separately then (rare).
   let matched = rows.length ? Number(rows[0].matched) : 0;
   if (!rows.length && query.page > 1) {
     const [{ n }] = await q.clone().clearSelect().clearOrder().clear('limit').clear('offset').count<{ n: string }[]>({ n: '*' });
     matched = Number(n);
   }
-  return { plans: rows.map(toPlanRow), matched };
+  return { rowsJson: `[${rows.map(toPlanRowJson).join(',')}]`, matched };
+}
+
+/** A row as JSON text: the ids of {@link toPlanRow}, then the summary's own members. */
+function toPlanRowJson(r: { target_id: number; node_id: number; target_name: string; node_code: string; summary_json: string }): string {
+  const head = `"targetId":${r.target_id},"targetName":${JSON.stringify(r.target_name)},"nodeId":${r.node_id},"nodeCode":${JSON.stringify(r.node_code)}`;
+  const body = r.summary_json.trim();
+  if (!body.startsWith('{') || !body.endsWith('}')) throw new Error(`stored plan summary of target ${r.target_id} on node ${r.node_id} is not a JSON object`);
+  const members = body.slice(1, -1).trim();
+  return members ? `{${head},${members}}` : `{${head}}`;
 }
 
 /** Counts of a proposal's stored plans (whatever the filter), and its error rows (on one node, if given). */
@@ -309,8 +323,10 @@ export async function nodeRequestTotals(db: Knex, proposalId: number): Promise<N
       db.raw('coalesce(sum(tp.fee_minor) FILTER (WHERE tp.feasible), 0)::bigint AS fee_minor'),
       db.raw('count(tp.target_id)::int AS targets'),
       db.raw('count(tp.target_id) FILTER (WHERE NOT tp.feasible)::int AS infeasible'),
+      // Shown apart from the request, so that the team sees what the infeasible targets would cost.
+      db.raw('coalesce(sum(tp.node_hours) FILTER (WHERE NOT tp.feasible), 0) AS infeasible_node_hours'),
     );
-  return rows.map((r: { node_id: number; code: string; currency: string; node_hours: number; fee_minor: number; targets: number; infeasible: number }) => ({
+  return rows.map((r: { node_id: number; code: string; currency: string; node_hours: number; fee_minor: number; targets: number; infeasible: number; infeasible_node_hours: number }) => ({
     nodeId: r.node_id,
     nodeCode: r.code,
     nodeHours: Math.round(r.node_hours * 100) / 100,
@@ -318,6 +334,7 @@ export async function nodeRequestTotals(db: Knex, proposalId: number): Promise<N
     currency: r.currency,
     targets: r.targets,
     infeasibleTargets: r.infeasible,
+    infeasibleNodeHours: Math.round(r.infeasible_node_hours * 100) / 100,
   }));
 }
 

@@ -17,7 +17,7 @@ import {
   findPlanRun,
   findPlanExplanation,
   finishPlanRun,
-  listPlanPage,
+  listPlanPageJson,
   markPlansRequested,
   listPlanMarkers,
   planCountsAndErrors,
@@ -141,15 +141,24 @@ export async function getPlanRunStatus(ctx: AppContext, viewer: SessionUser, id:
   return planRunStatusOf(ctx.db, await accessProposal(ctx.db, viewer, id));
 }
 
-/** GET /api/proposals/:id/plans?page=&pageSize=&feasible=&nodeId=&q=&sort= (team members): one page of the plans. */
-export async function getProposalPlans(ctx: AppContext, viewer: SessionUser, id: number, query: PlanListQuery): Promise<ProposalPlans> {
+/**
+ * GET /api/proposals/:id/plans?page=&pageSize=&feasible=&nodeId=&q=&sort= (team members): one
+ * page of the plans. The page's rows come as JSON text (see listPlanPageJson); the answer is
+ * a {@link ProposalPlans} once `plansJson` is its `plans` member.
+ */
+export async function getProposalPlans(
+  ctx: AppContext,
+  viewer: SessionUser,
+  id: number,
+  query: PlanListQuery,
+): Promise<{ head: Omit<ProposalPlans, 'plans'>; plansJson: string }> {
   const access = await accessProposal(ctx.db, viewer, id);
   const [run, page, totals] = await inParallel(ctx.db, [
     () => planRunStatusOf(ctx.db, access),
-    () => listPlanPage(ctx.db, id, query),
+    () => listPlanPageJson(ctx.db, id, query),
     () => planCountsAndErrors(ctx.db, id, query.nodeId),
   ] as const);
-  return { run, plans: page.plans, page: query.page, pageSize: query.pageSize, matched: page.matched, counts: totals.counts, errors: totals.errors };
+  return { head: { run, page: query.page, pageSize: query.pageSize, matched: page.matched, counts: totals.counts, errors: totals.errors }, plansJson: page.rowsJson };
 }
 
 /** GET /api/proposals/:id/plans/markers (team members): every plan as a chart marker, unpaged. */
