@@ -96,8 +96,8 @@ describe('plan-display', () => {
     expect(prices.map((p) => p.completeness)).toEqual(['50 %', '90 %', '99 %']);
     expect(prices.map((p) => p.current)).toEqual([false, true, false]);
     expect(prices[1].visits).toBe(formatValue(q.visitsForCompleteness90.value, 'en-US', { integer: true }));
-    expect(prices[2].nodeHours).toBe(formatValue((q.nodeHours.value * q.visitsForCompleteness99.value) / q.visits.value, 'en-US'));
-    expect(q.visitsForCompleteness50.value).toBeLessThanOrEqual(q.visitsForCompleteness99.value);
+    expect(prices[2].nodeHours).toBe(formatValue((q.nodeHours.value * q.visitsForCompleteness99.value!) / q.visits.value, 'en-US'));
+    expect(q.visitsForCompleteness50.value).toBeLessThanOrEqual(q.visitsForCompleteness99.value!);
   });
 
   it('the search band: periods from 1/fmax to 1/fmin at the plan’s false-alarm probability', () => {

@@ -7,8 +7,9 @@ import type { SourceTag, Explained, FlagSeverity } from '@spincycle/shared/scien
 import type { ScienceFlag } from '@spincycle/shared/science/explained';
 import type { TargetPlan, TargetPlanQuantities } from '@spincycle/shared/science/target-plan';
 import { MAG_PER_RELATIVE_FLUX } from '@spincycle/shared/science/visit-precision';
-import { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS, SOURCE_TAG_LABELS } from '@spincycle/shared/science/quantity-labels';
+import { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS } from '@spincycle/shared/science/quantity-labels';
 import { formatMinorCurrency, formatPercent } from '../../ui/units/format-units';
+import { plainText, provenanceOf, type ProvenanceKind } from './plan-wording';
 
 export { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS as TAG_DESCRIPTIONS };
 
@@ -80,10 +81,16 @@ export interface QuantityRow {
   unit: string;
   /** A second reading of the same value (e.g. mmag beside ppm), or null. */
   alternative: string | null;
+  /** Why the number has its value, in plain words. */
   why: string;
+  /** Where its formula or value comes from, in plain words (a reference, a node parameter, an assumption). */
   source: string;
   tag: SourceTag;
+  /** The kind of source as the page says it ("Published relation", "Node parameter"...). */
   tagLabel: string;
+  provenance: ProvenanceKind;
+  /** What that kind of source means, in a sentence. */
+  provenanceDescription: string;
 }
 
 /** Formats one explained quantity (the fee as money from minor units). */
@@ -96,16 +103,19 @@ export function quantityRow(plan: TargetPlan, key: QuantityKey, locale: string):
       : percent
         ? formatPercent(q.value, locale)
         : formatValue(q.value, locale, { integer: COUNTS.has(key) });
+  const provenance = provenanceOf(q);
   const row: QuantityRow = {
     key,
-    label: QUANTITY_LABELS[key],
+    label: plainText(QUANTITY_LABELS[key]),
     value,
     unit: key === 'feeMinor' || percent ? '' : displayUnit(q.unit),
     alternative: null,
-    why: q.why,
-    source: q.source,
+    why: plainText(q.why),
+    source: provenance.reference,
     tag: q.tag,
-    tagLabel: SOURCE_TAG_LABELS[q.tag],
+    tagLabel: provenance.label,
+    provenance: provenance.kind,
+    provenanceDescription: provenance.description,
   };
   const noPeriod = key === 'periodDays' ? noExpectedPeriodFlag(plan) : null;
   if (noPeriod) {
@@ -113,7 +123,7 @@ export function quantityRow(plan: TargetPlan, key: QuantityKey, locale: string):
     row.value = 'No expected period';
     row.unit = '';
     row.why = noExpectedPeriodReason(noPeriod);
-    row.source = noPeriod.source ?? row.source;
+    row.source = noPeriod.source ? provenanceOf({ source: noPeriod.source, tag: 'paper' }).reference : row.source;
   }
   return row;
 }
@@ -130,7 +140,7 @@ export function noExpectedPeriodFlag(plan: TargetPlan): ScienceFlag | null {
 
 /** Why there is no expected period, as a sentence without the repeated "no expected period:" lead-in. */
 export function noExpectedPeriodReason(flag: ScienceFlag): string {
-  const reason = flag.message.replace(/^(\s*no expected period\s*:\s*)+/i, '').trim();
+  const reason = plainText(flag.message).replace(/^(\s*no expected period\s*:\s*)+/i, '').trim();
   if (!reason) return 'No relation gives this star a period: enter its expected period to plan it.';
   const capital = reason[0].toUpperCase() + reason.slice(1);
   return /[.!?]$/.test(capital) ? capital : `${capital}.`;
@@ -154,13 +164,13 @@ export function keyRows(plan: TargetPlan, locale: string): QuantityRow[] {
   const period = row('periodDays');
   if (!noExpectedPeriodFlag(plan)) {
     period.alternative = `plausible ${f(q.shortestPeriodDays.value)}–${f(q.longestPeriodDays.value)} d`;
-    period.why = `${q.periodDays.why}; range: ${q.shortestPeriodDays.why}`;
+    period.why = plainText(`${q.periodDays.why}; range: ${q.shortestPeriodDays.why}`);
   }
 
   const rossby = row('rossbyNumber');
   rossby.label = `Rossby number, ${plan.turnoverScaleLabel} τ scale`;
   rossby.alternative = `τc ${f(q.turnoverTimeDays.value)} d`;
-  rossby.why = `${q.rossbyNumber.why}; τc: ${q.turnoverTimeDays.why}`;
+  rossby.why = plainText(`${q.rossbyNumber.why}; τc: ${q.turnoverTimeDays.why}`);
 
   const amplitude = row('amplitudeRperPpm');
   amplitude.alternative = `${f(ppmToMmag(q.amplitudeRperPpm.value))} mmag`;
@@ -168,9 +178,18 @@ export function keyRows(plan: TargetPlan, locale: string): QuantityRow[] {
   const precision = row('perVisitPrecisionPpm');
   precision.alternative = `${f(q.perVisitPrecisionMmag.value)} mmag`;
 
+  // The cadence in the one set of words of the page (visit nights, visits per night, sample interval).
+  const story = cadenceStory(plan, locale);
   const cadence = row('sampleIntervalDays');
-  cadence.label = 'Cadence (sample interval)';
-  cadence.alternative = q.nightStepDays.why;
+  cadence.label = 'Sample interval';
+  cadence.why = story.why;
+  const perNight = row('visitsPerNight');
+  perNight.why = story.why;
+  const nights = q.visitNights ? row('visitNights') : null;
+  if (nights) {
+    nights.alternative = `visit nights ${visitNightWords(q.nightStepDays.value)}`;
+    nights.why = story.why;
+  }
 
   const rows = [period, rossby, amplitude, precision, row('exposureSeconds'), row('visits')];
   if (q.completeness) {
@@ -179,8 +198,8 @@ export function keyRows(plan: TargetPlan, locale: string): QuantityRow[] {
     if (q.requestedCompleteness) completeness.alternative = `asked for ${formatPercent(q.requestedCompleteness.value, locale)}`;
     rows.push(completeness);
   }
-  rows.push(row('visitsPerNight'));
-  if (q.visitNights) rows.push(row('visitNights'));
+  rows.push(perNight);
+  if (nights) rows.push(nights);
   rows.push(cadence, row('baselineDays'));
   if (q.skyBrightnessMagPerArcsec2) rows.push(row('skyBrightnessMagPerArcsec2'));
   if (q.worstSkyBrightnessMagPerArcsec2) rows.push(row('worstSkyBrightnessMagPerArcsec2'));
@@ -193,6 +212,8 @@ export interface CompletenessPrice {
   key: 'visitsForCompleteness50' | 'visitsForCompleteness90' | 'visitsForCompleteness99';
   completeness: string;
   visits: string;
+  /** False for a level that no campaign on this node reaches. */
+  reachable: boolean;
   /** Node-hours scaled from the plan's in proportion to the visits (weather loss included). */
   nodeHours: string;
   why: string;
@@ -215,14 +236,17 @@ export function completenessPrices(plan: TargetPlan, locale: string): Completene
   const visits = q.visits.value;
   const requested = q.requestedCompleteness?.value;
   return PRICE_LEVELS.filter(([key]) => q[key] !== undefined).map(([key, level]) => {
-    const n = q[key].value;
-    const hours = visits > 0 && Number.isFinite(n) ? (q.nodeHours.value * n) / visits : Number.NaN;
+    // A level no campaign on this node reaches has no visit count (null in newer plans).
+    const n: number | null = q[key].value;
+    const reachable = n !== null && Number.isFinite(n) && !/out of reach/.test(q[key].why);
+    const hours = reachable && visits > 0 ? (q.nodeHours.value * n) / visits : Number.NaN;
     return {
       key,
       completeness: formatPercent(level, locale),
-      visits: formatValue(n, locale, { integer: true }),
+      visits: reachable ? formatValue(n, locale, { integer: true }) : 'Out of reach',
+      reachable,
       nodeHours: formatValue(hours, locale),
-      why: q[key].why,
+      why: plainText(q[key].why),
       current: requested !== undefined && Math.abs(requested - level) < 1e-9,
     };
   });
@@ -244,4 +268,52 @@ export function searchBandSentence(plan: TargetPlan, locale: string): string | n
     `Search the light curve for periods between ${f(1 / fmax)} and ${f(1 / fmin)} d at false-alarm probability ` +
     `${formatValue(analysis.falseAlarmProbability, locale)}${series}: the plan's visits were sized for that search.`
   );
+}
+
+/** How often a visit night comes: "every night", "every 3 nights". */
+export function visitNightWords(nightStepDays: number): string {
+  const s = Math.max(1, Math.round(nightStepDays));
+  return s === 1 ? 'every night' : `every ${s} nights`;
+}
+
+/** The cadence in the product's words: visit nights, visits per night, sample interval. */
+export interface CadenceStory {
+  /** "Every night" or "Every 3 nights" (how often a visit night comes). */
+  visitNights: string;
+  /** "2 visits per night · 103 visit nights · sample interval 1.02 d". */
+  detail: string;
+  /** Why the cadence is what it is, in the same words. */
+  why: string;
+}
+
+const plural = (n: number, one: string, many: string) => (n === 1 ? one : many);
+
+/**
+ * The plan's cadence told once, in the same words wherever it is shown: visit nights (how often
+ * a night with visits comes), visits per night, and the sample interval the period needs. The
+ * plan's own cadence quantities are read together, so a sample interval of 3.9 d never stands
+ * beside visits every night without the reason.
+ */
+export function cadenceStory(plan: TargetPlan, locale: string): CadenceStory {
+  const q = plan.quantities;
+  const f = (v: number) => formatValue(v, locale);
+  const whole = (v: number) => formatValue(v, locale, { integer: true });
+  const k = Math.round(q.visitsPerNight.value);
+  const nights = Math.round(q.visitNights?.value ?? Number.NaN);
+  const interval = q.sampleIntervalDays.value;
+  const every = visitNightWords(q.nightStepDays.value);
+  const detail = `${k} ${plural(k, 'visit', 'visits')} per night · ${whole(nights)} visit nights · sample interval ${f(interval)} d`;
+  const samples = Math.round(q.shortestPeriodDays.value / interval);
+  let why = `The shortest plausible period, ${f(q.shortestPeriodDays.value)} d, needs ${samples} samples per cycle: a sample interval of ${f(interval)} d.`;
+  // What the sample interval alone asks for, in the same words.
+  const neededStep = interval >= 1 ? Math.floor(interval) : 1;
+  const neededPerNight = interval >= 1 ? 1 : Math.ceil(1 / interval - 1e-9);
+  const denser = q.nightStepDays.value < neededStep || k > neededPerNight;
+  if (denser && q.visitsForCadence && q.visits.value > q.visitsForCadence.value) {
+    why += ` That alone asks for ${neededPerNight} ${plural(neededPerNight, 'visit', 'visits')} per night, visit nights ${visitNightWords(neededStep)}; the plan visits more to reach the completeness.`;
+  } else if (k > neededPerNight) {
+    why += ` ${k} visits per night, spread over the night, also break the one-day alias of short periods.`;
+  }
+  why += ` Visit nights ${every}, ${k} ${plural(k, 'visit', 'visits')} per night: ${whole(nights)} visit nights over ${whole(q.baselineDays.value)} d (weather adds calendar time).`;
+  return { visitNights: every[0].toUpperCase() + every.slice(1), detail, why };
 }

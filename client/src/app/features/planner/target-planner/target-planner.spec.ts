@@ -169,11 +169,17 @@ describe('TargetPlanner', () => {
     const row = q('[data-key=periodDays]')!;
     expect(row.querySelector('.why')?.textContent).toContain(q0.periodDays.why.slice(0, 20));
     expect(row.querySelector('.source')?.textContent).toContain('Angus et al. (2019)');
-    expect(row.querySelector('.tag-chip')?.textContent?.trim()).toBe('from the paper');
-    // The headline is a live region.
+    expect(row.querySelector('.tag-chip')?.textContent?.trim()).toBe('Published relation');
+    // The verdict is a live region; the summary gives the decision numbers.
+    expect(q('[data-testid=verdict]')?.getAttribute('aria-live')).toBe('polite');
     const headline = q('[data-testid=headline]')!;
-    expect(headline.getAttribute('aria-live')).toBe('polite');
     expect(headline.textContent).toContain(plan.feasible ? 'Feasible on N1' : 'Not feasible on N1');
+    expect(q('[data-testid=summary-figures] [data-key=visits] .num')?.textContent).toBe(formatValue(q0.visits.value, 'en-US', { integer: true }));
+    expect(q('[data-testid=summary-figures] [data-key=fee] .num')?.textContent).toBe('€517.50');
+    // Explanations open on demand: collapsed panels whose headers are buttons.
+    const header = row.querySelector('mat-expansion-panel-header')!;
+    expect(header.getAttribute('role')).toBe('button');
+    expect(header.getAttribute('aria-expanded')).toBe('false');
     // Completeness beside the visits, as a percentage; the price of other levels; the search band.
     expect(keyValue('completeness')).toBe(`${Math.round(q0.completeness.value * 100)} %`);
     expect(q('[data-key=completeness] .why')?.textContent).toContain(q0.completeness.why.slice(0, 20));
@@ -210,21 +216,21 @@ describe('TargetPlanner', () => {
     await load();
     await type('age-input', '-5');
     await settle();
-    expect(q('[data-testid=age-error]')?.textContent).toContain('Must be positive (got -5).');
+    expect(q('[data-testid=age-error]')?.textContent).toContain('Enter an age above 0 Myr (you typed -5).');
     expect(q('[data-testid=age-input]')?.getAttribute('aria-invalid')).toBe('true');
-    expect(q('[data-testid=headline]')?.textContent).toContain('Age: Must be positive (got -5).');
+    expect(q('[data-testid=headline]')?.textContent).toContain('Age: Enter an age above 0 Myr (you typed -5).');
     expect(q('[data-testid=key-rows]')).toBeNull();
     expect(text()).not.toMatch(/NaN|Infinity/);
 
     await type('age-input', '800');
     await type('colour-input', '5');
     await settle();
-    expect(q('[data-testid=colour-error]')?.textContent).toMatch(/BP−RP 5 is outside all supported relations/);
+    expect(q('[data-testid=colour-error]')?.textContent).toContain('Enter a BP−RP colour between 0.56 and 3.35 mag (you typed 5).');
     expect(text()).not.toMatch(/NaN|Infinity/);
 
     await type('colour-input', '');
     await settle();
-    expect(q('[data-testid=colour-error]')?.textContent).toContain('Enter the colour index');
+    expect(q('[data-testid=colour-error]')?.textContent).toContain('Enter the BP−RP colour.');
     expect(text()).not.toMatch(/NaN|Infinity/);
   });
 
@@ -238,9 +244,9 @@ describe('TargetPlanner', () => {
 
     await type('completeness-input', '30');
     await settle();
-    expect(q('[data-testid=completeness-error]')?.textContent).toContain('Enter a completeness between 50 % and 99 % (got 30 %)');
+    expect(q('[data-testid=completeness-error]')?.textContent).toContain('Enter a completeness between 50 and 99 % (you typed 30).');
     expect(q('[data-testid=completeness-input]')?.getAttribute('aria-invalid')).toBe('true');
-    expect(q('[data-testid=headline]')?.textContent).toContain('Completeness: Enter a completeness between 50 % and 99 %');
+    expect(q('[data-testid=headline]')?.textContent).toContain('Completeness: Enter a completeness between 50 and 99 %');
     expect(q('[data-testid=key-rows]')).toBeNull();
   });
 
@@ -251,8 +257,9 @@ describe('TargetPlanner', () => {
     expect(keyValue('periodDays')).toBe('No expected period');
     expect(q('[data-key=periodDays] .alt')).toBeNull();
     expect(q('[data-key=periodDays] .why')?.textContent).toContain('The given age 14000 Myr exceeds the age of the universe');
-    expect(q('[data-testid=headline]')?.textContent).toContain('Not feasible on N1');
-    expect(q('[data-testid=headline]')?.textContent).toContain('No expected period.');
+    expect(q('[data-testid=headline]')?.textContent).toContain('Not feasible on N1: no expected period');
+    expect(q('[data-testid=summary-reasons]')?.textContent).toContain('exceeds the age of the universe');
+    expect(q('[data-testid=summary-way-out]')?.textContent).toContain('Period field');
     expect(q('[data-testid=search-band]')).toBeNull();
     expect(q('[data-testid=completeness-prices]')).toBeNull();
     expect(q('[data-testid=period-needed]')?.textContent).toContain('No relation gives this star a period');
@@ -263,14 +270,15 @@ describe('TargetPlanner', () => {
     await settle();
     const given = computeTargetPlan({ ...DEFAULT_TARGET, ageMyr: 14000, periodDays: 30 }, N1, SITE, DEFAULT_OPTIONS);
     expect(keyValue('periodDays')).toBe('30');
-    expect(q('[data-key=periodDays] .why')?.textContent).toContain(given.quantities.periodDays.why.slice(0, 20));
+    expect(given.quantities.periodDays.why).toMatch(/^the proposer's period/);
+    expect(q('[data-key=periodDays] .why')?.textContent).toMatch(/^your period \(Angus et al\. \(2019\) gives none\)/);
     // The field stays while it holds a value; the notice that a period is needed goes.
     expect(q('[data-testid=period-input]')).not.toBeNull();
     expect(q('[data-testid=period-needed]')).toBeNull();
 
     await type('period-input', '0.01');
     await settle();
-    expect(q('[data-testid=period-error]')?.textContent).toMatch(/^\s*Must be within/);
+    expect(q('[data-testid=period-error]')?.textContent).toContain('Enter a period between 0.05 and 1000 d (you typed 0.01).');
   });
 
   it('a fixed exposure outside the node range is refused under the exposure field', async () => {
@@ -278,11 +286,11 @@ describe('TargetPlanner', () => {
     await (await loader.getHarness(MatButtonToggleHarness.with({ text: 'Fixed' }))).check();
     await type('exposure-input', '1000');
     await settle();
-    expect(q('[data-testid=exposure-error]')?.textContent).toContain('Must be within [2, 300] (got 1000).');
+    expect(q('[data-testid=exposure-error]')?.textContent).toContain('Enter an exposure between 2 and 300 s on N1 (you typed 1000).');
     await type('exposure-input', '60');
     await settle();
     expect(keyValue('exposureSeconds')).toBe('60');
-    expect(q('[data-key=exposureSeconds] .why')?.textContent).toContain('chosen by the user');
+    expect(q('[data-key=exposureSeconds] .why')?.textContent).toContain('your choice');
   });
 
   it('a relation that does not cover the colour is reported as not calibrated for it', async () => {
@@ -332,7 +340,7 @@ describe('TargetPlanner', () => {
     await type('ra-input', '25h');
     await type('dec-input', '-20');
     await settle();
-    expect(q('[data-testid=ra-error]')?.textContent).toContain('Right ascension must be below 24 h');
+    expect(q('[data-testid=ra-error]')?.textContent).toContain('Enter a right ascension between 0 and 24 h (or between 0° and 360°) (you typed 25h).');
     backend.expectNone('/api/sky-windows');
   });
 
@@ -408,7 +416,8 @@ describe('TargetPlanner', () => {
     // The headline and key rows give the proposal's numbers.
     const qs = onSky.plan.quantities;
     expect(keyValue('visits')).toBe(formatValue(qs.visits.value, 'en-US', { integer: true }));
-    expect(q('[data-testid=headline]')?.textContent).toContain(`${formatValue(qs.visits.value, 'en-US', { integer: true })} visits over ${formatValue(qs.baselineDays.value, 'en-US', { integer: true })} d`);
+    expect(q('[data-testid=summary-figures] [data-key=visits] .num')?.textContent).toBe(formatValue(qs.visits.value, 'en-US', { integer: true }));
+    expect(q('[data-testid=summary-figures] [data-key=baseline] .num')?.textContent).toBe(formatValue(qs.baselineDays.value, 'en-US', { integer: true }));
     expect(q('[data-testid=headline]')?.textContent).toContain(onSky.feasible ? 'Feasible on N1' : 'Not feasible on N1');
     expect(text()).not.toMatch(/NaN|Infinity|undefined/);
   });
@@ -445,5 +454,42 @@ describe('TargetPlanner', () => {
     await fixture.whenStable();
     expect(q('[data-testid=dec-error]')?.textContent).toContain('Declination is not accepted here.');
     expect(text()).toContain('The sky window could not be computed');
+  });
+
+  it('several bad fields: every one marked at once, in the numbers typed, and the summary lists them', async () => {
+    await load();
+    await type('colour-input', '5');
+    await type('age-input', '-5');
+    await type('magnitude-input', '30');
+    await type('ra-input', '25h');
+    await type('dec-input', '95.2');
+    await settle();
+    expect(q('[data-testid=colour-error]')?.textContent).toContain('(you typed 5)');
+    expect(q('[data-testid=age-error]')?.textContent).toContain('(you typed -5)');
+    expect(q('[data-testid=magnitude-error]')?.textContent).toContain('Enter a magnitude between −2 and 25 mag (you typed 30).');
+    expect(q('[data-testid=ra-error]')?.textContent).toContain('(you typed 25h)');
+    expect(q('[data-testid=dec-error]')?.textContent).toContain('Enter a declination between −90° and 90° (you typed 95.2).');
+    for (const id of ['colour-input', 'age-input', 'magnitude-input', 'ra-input', 'dec-input']) {
+      expect(q(`[data-testid=${id}]`)?.getAttribute('aria-invalid')).toBe('true');
+    }
+    expect(q('[data-testid=headline]')?.textContent).toContain('Fix the 5 fields marked in red: Colour, Age, Magnitude, Right ascension, Declination.');
+    backend.expectNone('/api/sky-windows');
+  });
+
+  it('an old, faint star: not feasible, its reason and ways out each said once in the summary, not repeated in the notices', async () => {
+    await load();
+    await type('age-input', '4000');
+    await type('magnitude-input', '15');
+    await settle();
+    const headline = q('[data-testid=headline]')!;
+    expect(headline.getAttribute('data-tone')).toBe('infeasible');
+    expect(headline.textContent).toContain('Not feasible on N1');
+    const reasons = host().querySelectorAll('[data-testid=summary-reasons] li');
+    expect(reasons).toHaveLength(1);
+    expect(reasons[0].textContent).toMatch(/^The expected semi-amplitude/);
+    const ways = Array.from(host().querySelectorAll('[data-testid=summary-way-out] li')).map((li) => li.textContent?.trim());
+    expect(ways.length).toBeGreaterThan(0);
+    expect(new Set(ways).size).toBe(ways.length);
+    expect(q('[data-testid=flags] [data-code=amplitudeBelowFloor]')).toBeNull();
   });
 });
