@@ -26,7 +26,7 @@ export interface TargetPlanRow {
   /** Why it is infeasible (science blocks and sky window), empty when feasible. */
   reasons: string[];
   suggestions: PlanSuggestion[];
-  /** One-line sky verdict, e.g. "observable on 112 of 180 nights; longest gap 9 nights; cadence fits". */
+  /** One-line sky verdict, e.g. "112 of 180 nights can hold the 2 visits; longest gap 9 nights; cadence fits". */
   skyVerdict: string;
   periodDays: number;
   shortestPeriodDays: number;

@@ -42,7 +42,7 @@ describe('assessCadence', () => {
     const a = assessCadence(windowsOf(every(180, 4)), req({ cadenceDays: 2, baselineDays: 90, totalVisits: 46 }), 0.3);
     expect(a.fits).toBe(true);
     expect(a.reasons).toEqual([]);
-    expect(a.verdict).toBe('observable on 180 of 180 nights; longest gap 1 night; cadence fits');
+    expect(a.verdict).toBe('180 of 180 nights can hold the visit; no gap; cadence fits');
     expect(a.expectedClearNights).toBeCloseTo(126, 9);
     expect(a.cadenceNightsNeeded).toBe(46);
   });
@@ -52,15 +52,15 @@ describe('assessCadence', () => {
     const hours = [...every(41, 3), ...every(139, 0)];
     const a = assessCadence(windowsOf(hours), req({ cadenceDays: 1, baselineDays: 59, totalVisits: 60 }), 0);
     expect(a.fits).toBe(false);
-    expect(a.reasons).toContain('the target is observable on only 41 nights but 60 visits at 1 per night need 60');
-    expect(a.reasons).toContain('observable span 40 nights is shorter than the baseline of 59 days');
+    expect(a.reasons).toContain('only 41 nights can hold the visit, but 60 visits at 1 a night need 60 nights');
+    expect(a.reasons).toContain('the nights that can hold the visit span only 40 days, less than the baseline of 59 days');
   });
 
   it('names the weather loss when it is what breaks the count', () => {
     const a = assessCadence(windowsOf(every(60, 3)), req({ cadenceDays: 1, baselineDays: 59, totalVisits: 60 }), 0.25);
     expect(a.fits).toBe(false);
-    expect(a.reasons[0]).toBe('the target is observable on only 60 nights (45 expected clear after 25 % weather loss) but 60 visits at 1 per night need 60');
-    expect(a.reasons[1]).toBe('the target is observable on only 60 nights (45 expected clear after 25 % weather loss) but the cadence needs 60');
+    expect(a.reasons[0]).toBe('only 60 nights can hold the visit (45 expected clear after 25 % weather loss), but 60 visits at 1 a night need 60 nights');
+    expect(a.reasons[1]).toBe('only 60 nights can hold the visit (45 expected clear after 25 % weather loss), but the cadence needs 60 nights');
   });
 
   it('stretches the baseline to absorb the weather when the campaign has the nights', () => {
@@ -69,18 +69,19 @@ describe('assessCadence', () => {
     const a = assessCadence(windowsOf(every(120, 3)), req({ cadenceDays: 1, baselineDays: 59, totalVisits: 60 }), 0.25);
     expect(a.fits).toBe(true);
     expect(a.stretchDays).toBe(79);
-    expect(a.baselineWindow).toEqual({ firstNight: '2025-01-01', lastNight: '2025-03-21', qualifyingNights: 80, longestGapNights: 1 });
-    expect(a.verdict).toBe('observable on 120 of 120 nights; longest gap 1 night; cadence fits over 79 nights to absorb the weather');
+    expect(a.baselineWindow).toEqual({ firstNight: '2025-01-01', lastNight: '2025-03-21', qualifyingNights: 80, longestGapNights: 0 });
+    expect(a.verdict).toBe('120 of 120 nights can hold the visit; no gap; cadence fits over 79 days to absorb the weather');
   });
 
   it('reports a gap longer than the cadence', () => {
     const hours = [...every(30, 3), ...every(33, 0), ...every(30, 3)];
     const a = assessCadence(windowsOf(hours), req({ cadenceDays: 2, baselineDays: 80, totalVisits: 30 }), 0);
     expect(a.fits).toBe(false);
-    expect(a.longestGapNights).toBe(34);
-    expect(a.reasons).toEqual(['longest gap 34 nights exceeds the cadence of 2 nights']);
+    // 34 nights from one qualifying night to the next: 33 nights without the target.
+    expect(a.longestGapNights).toBe(33);
+    expect(a.reasons).toEqual(['a gap of 33 nights without the target is longer than the cadence allows (a visit night at least every 2 nights)']);
     expect(a.verdict).toBe(
-      'observable on 60 of 93 nights; longest gap 34 nights; cadence does not fit: longest gap 34 nights exceeds the cadence of 2 nights',
+      '60 of 93 nights can hold the visit; longest gap 33 nights; cadence does not fit: a gap of 33 nights without the target is longer than the cadence allows (a visit night at least every 2 nights)',
     );
   });
 
@@ -88,7 +89,7 @@ describe('assessCadence', () => {
     const hours = [...every(30, 3), ...every(33, 0), ...every(30, 3)];
     const a = assessCadence(windowsOf(hours), req({ cadenceDays: 2, baselineDays: 20, totalVisits: 11 }), 0);
     expect(a.fits).toBe(true);
-    expect(a.baselineWindow).toEqual({ firstNight: '2025-01-01', lastNight: '2025-01-21', qualifyingNights: 21, longestGapNights: 1 });
+    expect(a.baselineWindow).toEqual({ firstNight: '2025-01-01', lastNight: '2025-01-21', qualifyingNights: 21, longestGapNights: 0 });
   });
 
   it('explains a nightly window too short for the visits', () => {
@@ -107,7 +108,7 @@ describe('assessCadence', () => {
   it('says when the target is never observable', () => {
     const a = assessCadence(windowsOf(every(10, 0)), req({}), 0);
     expect(a.reasons).toEqual(['the target is never observable from this site during the campaign']);
-    expect(a.verdict).toMatch(/^observable on 0 of 10 nights; no gap; cadence does not fit/);
+    expect(a.verdict).toMatch(/^no night of 10 can hold the visit; cadence does not fit/);
   });
 
   it('refuses a bad requirement with a SkyInputError naming the field', () => {
@@ -128,6 +129,6 @@ describe('assessCadence', () => {
     expect(a.fits).toBe(true);
     expect(a.qualifyingNights).toBeGreaterThan(80);
     expect(a.qualifyingNights).toBeLessThan(180);
-    expect(a.verdict).toMatch(/^observable on \d+ of 180 nights; longest gap 1 night; cadence fits$/);
+    expect(a.verdict).toMatch(/^\d+ of 180 nights can hold the visit; no gap; cadence fits$/);
   });
 });

@@ -40,7 +40,7 @@ export interface CadenceAssessment {
   fits: boolean;
   /** Why it does not fit, one sentence each; empty when it fits. */
   reasons: string[];
-  /** One line, e.g. `observable on 112 of 180 nights; longest gap 9 nights; cadence fits`. */
+  /** One line, e.g. `112 of 180 nights can hold the 2 visits; longest gap 9 nights; cadence fits`. */
   verdict: string;
   totalNights: number;
   /** Nights whose usable time can hold the night's visits. */
@@ -99,7 +99,10 @@ const fmt = (x: number, digits = 1): string => {
   const s = x.toFixed(digits);
   return s.includes('.') ? s.replace(/\.?0+$/, '') : s;
 };
-const plural = (n: number, word: string): string => `${n} ${word}${n === 1 ? '' : 's'}`;
+const count = (n: number): string => n.toLocaleString('en-GB');
+const plural = (n: number, word: string): string => `${count(n)} ${word}${n === 1 ? '' : 's'}`;
+/** "the visit" or "the 3 visits" of one night. */
+const visitsWord = (k: number): string => (k === 1 ? 'the visit' : `the ${k} visits`);
 
 /**
  * Checks a requirement against one target's windows after weather loss.
@@ -123,7 +126,8 @@ export function assessCadence(
     if (nightVisitCapacity(windows, n, req.visitHours) >= req.visitsPerNight) qualifying.push(n);
   }
   let longestGap: number | null = null;
-  for (let i = 1; i < qualifying.length; i++) longestGap = Math.max(longestGap ?? 0, qualifying[i] - qualifying[i - 1]);
+  // Nights without a qualifying night between two qualifying ones (0 = consecutive nights).
+  for (let i = 1; i < qualifying.length; i++) longestGap = Math.max(longestGap ?? 0, qualifying[i] - qualifying[i - 1] - 1);
 
   const clearFactor = 1 - weather;
   const expectedClear = qualifying.length * clearFactor;
@@ -170,17 +174,17 @@ export function assessCadence(
   } else if (!best) {
     if (expectedClear < visitingNightsNeeded) {
       reasons.push(
-        `the target is observable on only ${plural(qualifying.length, 'night')}${weatherNote} but ${plural(req.totalVisits, 'visit')} at ${req.visitsPerNight} per night need ${visitingNightsNeeded}`,
+        `only ${plural(qualifying.length, 'night')} can hold ${visitsWord(req.visitsPerNight)}${weatherNote}, but ${count(req.totalVisits)} visits at ${req.visitsPerNight} a night need ${plural(visitingNightsNeeded, 'night')}`,
       );
     }
     const longRuns = runs.filter((r) => spansBaseline(r.from, r.to));
     if (longRuns.length > 0) {
       // Long enough and without gaps, but too few clear nights in it.
       const run = longRuns.reduce((a, b) => (b.to - b.from > a.to - a.from ? b : a));
-      const count = run.to - run.from + 1;
-      const where = count === qualifying.length ? '' : ` within the best ${plural(qualifying[run.to] - qualifying[run.from], 'night')} stretch`;
-      const note = weather > 0 ? ` (${fmt(count * clearFactor)} expected clear after ${fmt(weather * 100, 0)} % weather loss)` : '';
-      const line = `the target is observable on only ${plural(count, 'night')}${where}${note} but the cadence needs ${neededInStretch}`;
+      const inRun = run.to - run.from + 1;
+      const where = inRun === qualifying.length ? '' : ` in its best stretch (${windows.nightDates[qualifying[run.from]]} to ${windows.nightDates[qualifying[run.to]]})`;
+      const note = weather > 0 ? ` (${fmt(inRun * clearFactor)} expected clear after ${fmt(weather * 100, 0)} % weather loss)` : '';
+      const line = `only ${plural(inRun, 'night')}${where} can hold ${visitsWord(req.visitsPerNight)}${note}, but the cadence needs ${plural(neededInStretch, 'night')}`;
       if (!reasons.includes(line)) reasons.push(line);
     } else if (spansBaseline(0, qualifying.length - 1)) {
       // The campaign spans the baseline only across a gap longer than the cadence.
@@ -191,19 +195,22 @@ export function assessCadence(
         const gap = gapWithin(i, j) ?? 0;
         smallest = smallest === null ? gap : Math.min(smallest, gap);
       }
-      reasons.push(`longest gap ${plural(smallest ?? 0, 'night')} exceeds the cadence of ${plural(req.cadenceDays, 'night')}`);
+      // `smallest` is nights from one qualifying night to the next; the cadence allows up to cadenceDays.
+      reasons.push(`a gap of ${plural(Math.max(0, (smallest ?? 0) - 1), 'night')} without the target is longer than the cadence allows (a visit night at least every ${plural(req.cadenceDays, 'night')})`);
     } else {
       const span = qualifying[qualifying.length - 1] - qualifying[0];
-      reasons.push(`observable span ${plural(span, 'night')} is shorter than the baseline of ${plural(req.baselineDays, 'day')}`);
+      reasons.push(`the nights that can hold ${visitsWord(req.visitsPerNight)} span only ${plural(span, 'day')}, less than the baseline of ${plural(req.baselineDays, 'day')}`);
     }
   }
   const stretchDays = best ? qualifying[best.last] - qualifying[best.first] : null;
 
   const fits = reasons.length === 0;
-  const gapText = longestGap === null ? 'no gap' : `longest gap ${plural(longestGap, 'night')}`;
+  const gapText = longestGap === null ? '' : longestGap === 0 ? '; no gap' : `; longest gap ${plural(longestGap, 'night')}`;
   const stretched = stretchDays !== null && stretchDays > req.baselineDays + 1e-9;
-  const verdict = `observable on ${qualifying.length} of ${plural(total, 'night')}; ${gapText}; ${
-    fits ? (stretched ? `cadence fits over ${plural(stretchDays, 'night')} to absorb the weather` : 'cadence fits') : `cadence does not fit: ${reasons[0]}`
+  const nightsText =
+    qualifying.length === 0 ? `no night of ${total} can hold ${visitsWord(req.visitsPerNight)}` : `${qualifying.length} of ${plural(total, 'night')} can hold ${visitsWord(req.visitsPerNight)}`;
+  const verdict = `${nightsText}${gapText}; ${
+    fits ? (stretched ? `cadence fits over ${plural(stretchDays, 'day')} to absorb the weather` : 'cadence fits') : `cadence does not fit: ${reasons[0]}`
   }`;
 
   return {
@@ -221,7 +228,7 @@ export function assessCadence(
           firstNight: windows.nightDates[qualifying[best.first]],
           lastNight: windows.nightDates[qualifying[best.last]],
           qualifyingNights: best.last - best.first + 1,
-          longestGapNights: gapWithin(best.first, best.last),
+          longestGapNights: best.last > best.first ? (gapWithin(best.first, best.last) ?? 1) - 1 : null,
         }
       : null,
     stretchDays,

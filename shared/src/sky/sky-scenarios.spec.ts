@@ -72,7 +72,7 @@ describe('sky windows scenarios', () => {
       expect(w.usableHoursByNight[n]).toBeCloseTo(night.darkHours, 9);
     });
     expect(w.summary.usableNights).toBe(7);
-    expect(w.summary.longestGapNights).toBe(1);
+    expect(w.summary.longestGapNights).toBe(0); // usable every night: no gap
   });
 
   it('never-rising target at 50°N (Dec −60°) has no usable time and is classed never-rises', () => {

@@ -128,8 +128,8 @@ export interface TargetWindowSummary {
   /** Most usable hours in one night. */
   maxNightlyUsableHours: number;
   /**
-   * Longest gap between consecutive usable nights, in nights (1 = usable on consecutive
-   * nights); null with fewer than two usable nights.
+   * Longest gap: the most nights in a row without a usable night between two usable nights
+   * (0 = usable on consecutive nights); null with fewer than two usable nights.
    */
   longestGapNights: number | null;
   /** With respect to the altitude limit, ignoring the Sun (at the campaign's middle). */

@@ -81,7 +81,7 @@ export function summarizeTargetWindows(windows: TargetWindows, minUsableHours: n
     if (!isUsableNight(windows, n, minUsableHours)) continue;
     count++;
     if (previous < 0) s.firstUsableNight = windows.nightDates[n];
-    else longestGap = Math.max(longestGap ?? 0, n - previous);
+    else longestGap = Math.max(longestGap ?? 0, n - previous - 1);
     s.lastUsableNight = windows.nightDates[n];
     previous = n;
   }

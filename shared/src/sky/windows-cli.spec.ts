@@ -55,7 +55,7 @@ describe('spincycle windows (CLI)', () => {
     const target = JSON.parse(stdout).targets[0];
     expect(target.nights).toBeUndefined();
     expect(target.assessment.fits).toBe(true);
-    expect(target.assessment.verdict).toMatch(/^observable on \d+ of 90 nights; longest gap 1 night; cadence fits$/);
+    expect(target.assessment.verdict).toMatch(/^\d+ of 90 nights can hold the 2 visits; no gap; cadence fits$/);
   });
 
   it('refuses bad input with exit code 2 and a message naming the field and the CSV line', () => {

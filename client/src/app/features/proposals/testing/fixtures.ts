@@ -56,7 +56,7 @@ export function testProposal(overrides: Partial<Proposal> = {}): Proposal {
     justification: null,
     targetCount: 2,
     request: [
-      { nodeId: 1, nodeCode: 'KRG-50', nodeHours: 42.5, feeMinor: 206125, currency: 'eur', targets: 2, infeasibleTargets: 1 },
+      { nodeId: 1, nodeCode: 'KRG-50', nodeHours: 42.5, feeMinor: 206125, currency: 'eur', targets: 2, infeasibleTargets: 1, infeasibleNodeHours: 18.25 },
     ],
     myRole: 'pi',
     editable: true,
@@ -117,7 +117,7 @@ export function testPlanRow(targetId: number, nodeId: number, overrides: Partial
     feasible: true,
     reasons: [],
     suggestions: [],
-    skyVerdict: 'observable on 112 of 184 nights; longest gap 9 nights; cadence fits',
+    skyVerdict: '112 of 184 nights can hold the 2 visits; longest gap 9 nights; cadence fits',
     periodDays: 10.2,
     shortestPeriodDays: 9.1,
     longestPeriodDays: 11.4,

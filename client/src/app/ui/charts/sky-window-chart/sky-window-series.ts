@@ -44,8 +44,9 @@ export function summaryVerdict(target: TargetWindowsReport): string {
   const s = target.summary;
   const nights = (n: number) => `${n} night${n === 1 ? '' : 's'}`;
   if (s.usableNights === 0) return `never observable in the ${nights(s.totalNights)} of the campaign`;
-  const gap = s.longestGapNights === null ? 'no gap' : `longest gap ${nights(s.longestGapNights)}`;
-  return `observable on ${s.usableNights} of ${nights(s.totalNights)}; ${gap}`;
+  // Gap: nights without a usable night between two usable ones (0 = consecutive); none with one night.
+  const gap = s.longestGapNights === null ? '' : s.longestGapNights === 0 ? '; no gap' : `; longest gap ${nights(s.longestGapNights)}`;
+  return `observable on ${s.usableNights} of ${nights(s.totalNights)}${gap}`;
 }
 
 function finiteOrNull(value: number | undefined): number | null {
