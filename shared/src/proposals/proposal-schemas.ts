@@ -95,6 +95,8 @@ export interface NodeRequest {
   currency: string;
   targets: number;
   infeasibleTargets: number;
+  /** Node-hours the infeasible target plans would take: shown apart, never part of `nodeHours`. */
+  infeasibleNodeHours: number;
 }
 
 /** A proposal as its team sees it. */

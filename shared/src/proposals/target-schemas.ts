@@ -1,42 +1,109 @@
 import { z } from 'zod';
 import { NODE_BANDS } from '../facility/facility-types';
 import { versionSchema } from '../http/ids';
+import { between, withTyped } from '../http/range-text';
 import { safeMultiLineText, safeText } from '../http/text';
 import { TARGET_COLOUR_SYSTEMS } from '../science/colour-sequence';
 
 /** Most targets one proposal may hold (and one CSV may carry). */
 export const MAX_TARGETS_PER_PROPOSAL = 2000;
 
-const finite = (label: string) => z.number({ message: `${label} must be a number` }).refine(Number.isFinite, { message: `${label} must be a finite number` });
+/** A number field's rules, in the product's one voice (see `http/range-text.ts`). */
+interface NumberRule {
+  /** "the magnitude": what the empty-field message asks for. */
+  noun: string;
+  /** "a magnitude between −2 and 22 mag": what the range message asks for. */
+  wanted: string;
+  /** Optional fields may be left empty (null). */
+  optional?: boolean;
+}
+
+/**
+ * A number field that says, for every way it can be wrong, what to enter and what was typed:
+ * "Enter a magnitude between −2 and 22 mag (you typed 40)." (zod 4 rejects NaN and ±∞ itself).
+ */
+function numberField(rule: NumberRule, bounds: (n: z.ZodNumber, rangeMessage: (iss: { input?: unknown }) => string) => z.ZodNumber) {
+  const orEmpty = rule.optional ? ', or leave it empty' : '';
+  const rangeMessage = (iss: { input?: unknown }) => withTyped(`Enter ${rule.wanted}${orEmpty}`, iss.input);
+  const typeMessage = (iss: { input?: unknown }) =>
+    iss.input === undefined || iss.input === null || iss.input === ''
+      ? `Enter ${rule.noun}.`
+      : withTyped(`Enter ${rule.noun} as a number`, iss.input);
+  return bounds(z.number({ error: typeMessage }), rangeMessage);
+}
+
+const lengthMessage = (what: string, max: number) => (iss: { input?: unknown }) =>
+  `Shorten ${what} to ${max} characters at most (${typeof iss.input === 'string' ? `${iss.input.length} now` : 'too long now'}).`;
+
+/** Ranges of the target fields (the database's CHECK constraints hold the same). */
+export const TARGET_RANGES = {
+  magnitude: { min: -2, max: 22 },
+  colour: { min: -0.5, max: 6 },
+  reddeningEbv: { min: 0, max: 3 },
+  ageMyr: { max: 14000 },
+  periodDays: { min: 0.05, max: 1000 },
+} as const;
+
+const R = TARGET_RANGES;
 
 /**
  * One target row as stored and as the table form sends it (positions in J2000 degrees; the
- * CSV reader turns sexagesimal text into degrees before this schema runs).
+ * CSV reader turns sexagesimal text into degrees before this schema runs). Every bad field is
+ * reported at once, each message naming the value that was typed.
  */
 export const targetInputSchema = z.object({
-  name: safeText(z.string().trim().min(1, { message: 'give the target a name' }).max(80)),
-  raDeg: finite('ra').pipe(z.number().min(0, { message: 'ra must be within 0…360°' }).lt(360, { message: 'ra must be within 0…360°' })),
-  decDeg: finite('dec').pipe(z.number().min(-90, { message: 'dec must be within −90…90°' }).max(90, { message: 'dec must be within −90…90°' })),
-  magnitude: finite('magnitude').pipe(z.number().min(-2, { message: 'magnitude must be within −2…22' }).max(22, { message: 'magnitude must be within −2…22' })),
-  magnitudeBand: z.enum(NODE_BANDS, { message: `band must be one of ${NODE_BANDS.join(', ')}` }),
-  colour: finite('colour').pipe(z.number().min(-0.5, { message: 'colour must be within −0.5…6' }).max(6, { message: 'colour must be within −0.5…6' })),
-  colourSystem: z.enum(TARGET_COLOUR_SYSTEMS, { message: 'colour system must be BV (B−V) or BPRP (Gaia BP−RP)' }),
-  reddeningEbv: finite('ebv').pipe(z.number().min(0, { message: 'E(B−V) must be within 0…3' }).max(3, { message: 'E(B−V) must be within 0…3' })).nullable().default(null),
-  ageMyr: finite('age').pipe(z.number().gt(0, { message: 'age must be positive' }).max(14000, { message: 'age must be at most 14000 Myr' })),
-  ageUncertaintyMyr: finite('age uncertainty').pipe(z.number().min(0, { message: 'age uncertainty must not be negative' })).nullable().default(null),
-  periodPrecisionDays: finite('period precision').pipe(z.number().gt(0, { message: 'period precision must be positive' })).nullable().default(null),
+  name: safeText(
+    z
+      .string({ error: 'Give the target a name.' })
+      .trim()
+      .min(1, { error: 'Give the target a name.' })
+      .max(80, { error: lengthMessage('the name', 80) }),
+  ),
+  raDeg: numberField({ noun: 'the right ascension', wanted: `a right ascension ${between(0, 360, '°')}, 360° excluded` }, (n, m) =>
+    n.min(0, { error: m }).lt(360, { error: m }),
+  ),
+  decDeg: numberField({ noun: 'the declination', wanted: `a declination ${between(-90, 90, '°')}` }, (n, m) => n.min(-90, { error: m }).max(90, { error: m })),
+  magnitude: numberField({ noun: 'the magnitude', wanted: `a magnitude ${between(R.magnitude.min, R.magnitude.max, 'mag')}` }, (n, m) =>
+    n.min(R.magnitude.min, { error: m }).max(R.magnitude.max, { error: m }),
+  ),
+  magnitudeBand: z.enum(NODE_BANDS, { error: (iss) => withTyped(`Choose the band of the magnitude: ${NODE_BANDS.join(', ')}`, iss.input) }),
+  colour: numberField({ noun: 'the colour index', wanted: `a colour index ${between(R.colour.min, R.colour.max, 'mag')}` }, (n, m) =>
+    n.min(R.colour.min, { error: m }).max(R.colour.max, { error: m }),
+  ),
+  colourSystem: z.enum(TARGET_COLOUR_SYSTEMS, { error: (iss) => withTyped('Choose the colour system: BPRP for Gaia BP−RP or BV for B−V', iss.input) }),
+  reddeningEbv: numberField({ noun: 'the reddening E(B−V)', wanted: `an E(B−V) ${between(R.reddeningEbv.min, R.reddeningEbv.max, 'mag')}`, optional: true }, (n, m) =>
+    n.min(R.reddeningEbv.min, { error: m }).max(R.reddeningEbv.max, { error: m }),
+  )
+    .nullable()
+    .default(null),
+  ageMyr: numberField({ noun: 'the age', wanted: `an age above 0 Myr and at most ${R.ageMyr.max} Myr` }, (n, m) => n.gt(0, { error: m }).max(R.ageMyr.max, { error: m })),
+  ageUncertaintyMyr: numberField({ noun: 'the age uncertainty', wanted: 'an age uncertainty of 0 Myr or more', optional: true }, (n, m) => n.min(0, { error: m }))
+    .nullable()
+    .default(null),
+  periodPrecisionDays: numberField({ noun: 'the period precision', wanted: 'a period precision above 0 d', optional: true }, (n, m) => n.gt(0, { error: m }))
+    .nullable()
+    .default(null),
   /**
    * Expected rotation period, days, given by the proposer for a star without an expected
    * period from a gyrochronology relation (fast rotators, colours beyond a relation's range,
    * ages above the age of the universe); when given, the plan uses it instead of the relation's.
    */
-  periodDays: finite('period').pipe(z.number().min(0.05, { message: 'period must be within 0.05…1000 d' }).max(1000, { message: 'period must be within 0.05…1000 d' })).nullable().default(null),
+  periodDays: numberField({ noun: 'the period', wanted: `a period ${between(R.periodDays.min, R.periodDays.max, 'd')}`, optional: true }, (n, m) =>
+    n.min(R.periodDays.min, { error: m }).max(R.periodDays.max, { error: m }),
+  )
+    .nullable()
+    .default(null),
   /** 1σ uncertainty of `periodDays`, days; only with a period. */
-  periodUncertaintyDays: finite('period uncertainty').pipe(z.number().min(0, { message: 'period uncertainty must not be negative' })).nullable().default(null),
-  notes: safeMultiLineText(z.string().max(500, { message: 'notes: at most 500 characters' })).default(''),
+  periodUncertaintyDays: numberField({ noun: 'the period uncertainty', wanted: 'a period uncertainty of 0 d or more', optional: true }, (n, m) => n.min(0, { error: m }))
+    .nullable()
+    .default(null),
+  notes: safeMultiLineText(z.string().max(500, { error: lengthMessage('the notes', 500) })).default(''),
 }).refine((t) => t.periodUncertaintyDays === null || t.periodDays !== null, {
-  message: 'period uncertainty needs a period',
+  message: 'Enter the period as well, or clear its uncertainty.',
   path: ['periodUncertaintyDays'],
+  // Checked even when other fields are wrong, so that every problem shows at once; only the two
+  // fields it reads need to be readable.
+  when: (payload) => !payload.issues.some((i) => i.path?.[0] === 'periodDays' || i.path?.[0] === 'periodUncertaintyDays'),
 });
 export type TargetInput = z.input<typeof targetInputSchema>;
 export type TargetValues = z.output<typeof targetInputSchema>;
@@ -110,6 +177,11 @@ export interface TargetUploadResult {
   added: number;
   /** Rows removed first (replace mode; 0 in append mode). */
   removed: number;
+  /**
+   * Warnings about rows that were stored anyway (a colour implausible for its colour system),
+   * with the row and column like the problems of a refused file.
+   */
+  notes: CsvRowError[];
   targets: TargetRow[];
 }
 

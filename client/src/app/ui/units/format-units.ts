@@ -18,14 +18,64 @@ export function formatFixed(value: number, locale: string, fractionDigits: numbe
   }).format(value);
 }
 
+/** The Intl money format of one currency (ISO 4217 code, any case) in one locale. */
+function moneyFormat(currency: string, locale: string): Intl.NumberFormat {
+  return new Intl.NumberFormat(locale, { style: 'currency', currency: currency.toUpperCase() });
+}
+
 /**
- * An amount held in the currency's smallest unit (cents for EUR, yen for JPY), shown as money.
- * The number of minor digits comes from ISO 4217 through Intl, not from a guess of 2.
+ * An amount held in the currency's smallest unit (cents for EUR, yen for JPY), shown as money:
+ * the one way the product shows an amount, always with its currency (the code comes from the
+ * data, never assumed). The number of minor digits comes from ISO 4217 through Intl, not from
+ * a guess of 2. An em dash when the amount or the currency is missing or not valid.
  */
-export function formatMinorCurrency(amountMinor: number, currency: string, locale: string): string {
-  const format = new Intl.NumberFormat(locale, { style: 'currency', currency: currency.toUpperCase() });
+export function formatMinorCurrency(amountMinor: number | null | undefined, currency: string | null | undefined, locale: string): string {
+  if (amountMinor === null || amountMinor === undefined || !Number.isFinite(amountMinor) || !currency) return '—';
+  let format: Intl.NumberFormat;
+  try {
+    format = moneyFormat(currency, locale);
+  } catch {
+    return '—';
+  }
   const digits = format.resolvedOptions().maximumFractionDigits ?? 2;
-  return format.format(amountMinor / 10 ** digits);
+  // Rounding in minor units first keeps -0.4 cents from reading as "-€0.00".
+  const amount = Math.round(amountMinor) / 10 ** digits;
+  return format.format(amount === 0 ? 0 : amount);
+}
+
+/** Node-hours as the fee explanations write them: `1.83 h` (at most two decimals). */
+export function formatHours(hours: number, locale: string): string {
+  return `${new Intl.NumberFormat(locale, { maximumFractionDigits: 2 }).format(hours)} h`;
+}
+
+/**
+ * The fee explained: `1.83 h × €45.00 per hour`, and `= €82.35` after it when the fee is given.
+ * The rate is held in minor units per hour, like the node's rate card.
+ */
+export function formatHoursTimesRate(
+  hours: number,
+  rateMinorPerHour: number,
+  currency: string,
+  locale: string,
+  feeMinor?: number | null,
+): string {
+  const product = `${formatHours(hours, locale)} × ${formatMinorCurrency(rateMinorPerHour, currency, locale)} per hour`;
+  return feeMinor === undefined || feeMinor === null ? product : `${product} = ${formatMinorCurrency(feeMinor, currency, locale)}`;
+}
+
+/**
+ * A fee's "why" line from the science core ("1.83 h × 4500 per hour, rounded to the unit": the
+ * rate in minor units) with the hours and the rate written as money in the plan's currency; any
+ * other line is returned as it is.
+ */
+export function explainFee(why: string | null | undefined, currency: string, locale: string): string {
+  if (!why) return '';
+  const m = /([\d.,eE+-]+) h × (\d+(?:\.\d+)?) per hour(, rounded to the unit)?/.exec(why);
+  if (!m) return why;
+  const hours = Number(m[1].replace(/,/g, ''));
+  if (!Number.isFinite(hours)) return why;
+  const text = `${formatHoursTimesRate(hours, Number(m[2]), currency, locale)}${m[3] ? ', rounded to the smallest unit of the currency' : ''}`;
+  return why.slice(0, m.index) + text + why.slice(m.index + m[0].length);
 }
 
 /**

@@ -30,11 +30,41 @@ describe('readTargetCsv', () => {
     const { rows, errors } = readTargetCsv(text);
     expect(rows.map((r) => r.values.name)).toEqual(['Star B']);
     expect(errors).toEqual([
-      { row: 1, field: 'dec', message: expect.stringContaining('got 100') },
-      { row: 1, field: 'magnitude', message: '"x" is not a number' },
-      { row: 1, field: 'age_myr', message: 'age must be positive (got 0)' },
+      { row: 1, field: 'dec', message: 'Enter a declination between −90° and 90° (you typed 100).' },
+      { row: 1, field: 'magnitude', message: 'Enter the magnitude as a number (you typed x).' },
+      { row: 1, field: 'age_myr', message: 'Enter an age above 0 Myr and at most 14000 Myr (you typed 0).' },
       { row: 3, field: 'name', message: '“star a” is listed twice (also on row 1)' },
     ]);
+  });
+
+  it('row errors name the row and column and echo the cell as typed, every bad column of a row at once', () => {
+    const text = [HEADER, 'Star C,25h,-95,4e1,Q,red,UBV,5,,-5,0,1200,,'].join('\n');
+    const { rows, errors } = readTargetCsv(text);
+    expect(rows).toEqual([]);
+    expect(errors).toEqual([
+      { row: 1, field: 'ra', message: 'Enter a right ascension between 0 and 24 h or between 0° and 360° (you typed 25h).' },
+      { row: 1, field: 'dec', message: 'Enter a declination between −90° and 90° (you typed −95).' },
+      { row: 1, field: 'magnitude', message: 'Enter a magnitude between −2 and 22 mag (you typed 4e1).' },
+      { row: 1, field: 'band', message: 'Choose the band of the magnitude: B, V, R, I, G (you typed Q).' },
+      { row: 1, field: 'colour', message: 'Enter the colour index as a number (you typed red).' },
+      { row: 1, field: 'colour_system', message: 'Choose the colour system: BPRP for Gaia BP−RP or BV for B−V (you typed UBV).' },
+      { row: 1, field: 'ebv', message: 'Enter an E(B−V) between 0 and 3 mag, or leave it empty (you typed 5).' },
+      { row: 1, field: 'age_myr', message: 'Enter the age.' },
+      { row: 1, field: 'age_err_myr', message: 'Enter an age uncertainty of 0 Myr or more, or leave it empty (you typed −5).' },
+      { row: 1, field: 'period_precision_d', message: 'Enter a period precision above 0 d, or leave it empty (you typed 0).' },
+      { row: 1, field: 'period', message: 'Enter a period between 0.05 and 1000 d, or leave it empty (you typed 1200).' },
+    ]);
+  });
+
+  it('a colour implausible for its system is stored with a note on its row, not refused', () => {
+    const text = [HEADER, 'Star N-1,10,10,11,V,2.5,BV,,900,,,,,', 'Star N-2,10,10,11,G,1.2,BPRP,,900,,,,,'].join('\n');
+    const { rows, errors, notes } = readTargetCsv(text);
+    expect(errors).toEqual([]);
+    expect(rows).toHaveLength(2);
+    expect(notes).toEqual([
+      { row: 1, field: 'colour', message: 'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.' },
+    ]);
+    expect(readTargetCsv(EXAMPLE_TARGET_CSV).notes).toEqual([]);
   });
 
   it('refuses a file without rows, with too many rows, or without its required columns', () => {

@@ -16,7 +16,11 @@ import {
   type CsvRowError,
   type TargetValues,
 } from '@spincycle/shared/proposals/target-schemas';
+import { NODE_BANDS } from '@spincycle/shared/facility/facility-types';
+import { replaceTyped } from '@spincycle/shared/http/range-text';
 import { stripControlCharacters } from '@spincycle/shared/http/text';
+import { colourPlausibilityWarning } from '@spincycle/shared/proposals/colour-plausibility';
+import { coordinateMessage } from '@spincycle/shared/proposals/coordinate-messages';
 import { parseDec, parseRa, SkyInputError } from '@spincycle/shared/sky/index';
 import { AppError } from '../../../http/app-error';
 
@@ -51,6 +55,8 @@ export interface ReadTargetRow {
 export interface ReadTargetList {
   rows: ReadTargetRow[];
   errors: CsvRowError[];
+  /** Warnings of rows that were read (a colour implausible for its system): stored anyway. */
+  notes: CsvRowError[];
 }
 
 const wrongEncoding = (filename: string, what: string) =>
@@ -151,6 +157,7 @@ class TargetListCollector {
   private dataRows = 0;
   readonly errors: CsvRowError[] = [];
   readonly rows: ReadTargetRow[] = [];
+  readonly notes: CsvRowError[] = [];
 
   constructor(private readonly maxRows: number) {}
 
@@ -170,7 +177,7 @@ class TargetListCollector {
   finish(): ReadTargetList {
     if (!this.header) throw emptyList();
     if (this.dataRows === 0) throw new AppError('empty_target_list', 'The file has a header row but no targets', 400, { file: ['no target rows after the header'] });
-    return { rows: this.rows, errors: this.errors };
+    return { rows: this.rows, errors: this.errors, notes: this.notes };
   }
 
   private readHeader(record: string[]): void {
@@ -207,7 +214,10 @@ class TargetListCollector {
         return;
       }
       this.firstRowOfName.set(key, row);
-      if (!result.errors.length) this.rows.push({ row, values: result.values });
+      if (!result.errors.length) {
+        this.rows.push({ row, values: result.values });
+        this.notes.push(...result.notes);
+      }
     }
   }
 }
@@ -270,55 +280,61 @@ function* textChunks(text: string): Generator<string> {
   for (let i = 0; i < text.length; i += PARSE_CHUNK_CHARS) yield text.slice(i, i + PARSE_CHUNK_CHARS);
 }
 
-/** Checks one data row; `values` is set when the name at least could be read (for duplicate checks). */
-function readRow(row: number, cell: (c: ColumnName) => string): { values?: TargetValues; errors: CsvRowError[] } {
+/** What an empty required text column asks for. */
+const REQUIRED_TEXT: Partial<Record<ColumnName, string>> = {
+  name: 'Give the target a name.',
+  band: `Enter the band of the magnitude: ${NODE_BANDS.join(', ')}.`,
+  colour_system: 'Enter the colour system: BPRP for Gaia BP−RP or BV for B−V.',
+};
+
+/**
+ * Checks one data row; `values` is set when the name at least could be read (for duplicate
+ * checks). Every problem of the row is reported, each in the schema's words but echoing the
+ * cell's own text ("you typed 4e1", not the 40 it was read as).
+ */
+function readRow(row: number, cell: (c: ColumnName) => string): { values?: TargetValues; errors: CsvRowError[]; notes: CsvRowError[] } {
   const errors: CsvRowError[] = [];
   const fail = (field: ColumnName, message: string) => errors.push({ row, field, message });
   const candidate: Record<string, unknown> = {};
 
-  const required = (c: ColumnName) => {
+  const text = (c: ColumnName) => {
     const v = cell(c);
-    if (v === '') fail(c, 'is required');
+    if (v === '' && REQUIRED_TEXT[c]) fail(c, REQUIRED_TEXT[c]);
     return v;
   };
-  const number = (c: ColumnName, field: keyof TargetValues, isRequired: boolean) => {
+  // An empty cell is null (the schema asks for a required one); unreadable text goes to the
+  // schema as text, which says what number it wants.
+  const number = (c: ColumnName, field: keyof TargetValues) => {
     const v = cell(c).replace(/[\u2212\u2012\u2013]/g, '-');
-    if (v === '') {
-      if (isRequired) fail(c, 'is required');
-      else candidate[field] = null;
-      return;
-    }
-    if (!NUMBER.test(v)) fail(c, `${JSON.stringify(cell(c))} is not a number`);
-    else candidate[field] = Number(v);
+    candidate[field] = v === '' ? null : NUMBER.test(v) ? Number(v) : cell(c);
   };
 
-  candidate.name = required('name');
+  candidate.name = text('name');
   for (const [c, parseAngle, field] of [
     ['ra', parseRa, 'raDeg'],
     ['dec', parseDec, 'decDeg'],
   ] as const) {
-    const v = required(c);
-    if (v === '') continue;
+    const v = cell(c);
     try {
       candidate[field] = parseAngle(v, c);
     } catch (err) {
       if (!(err instanceof SkyInputError)) throw err;
-      fail(c, err.reason);
+      fail(c, coordinateMessage(c, err.reason, v));
     }
   }
-  number('magnitude', 'magnitude', true);
-  const band = required('band');
+  number('magnitude', 'magnitude');
+  const band = text('band');
   if (band) candidate.magnitudeBand = band.toUpperCase();
-  number('colour', 'colour', true);
-  const system = required('colour_system');
+  number('colour', 'colour');
+  const system = text('colour_system');
   // "B-V", "BP−RP", "bp_rp" all name the same systems.
   if (system) candidate.colourSystem = system.toUpperCase().replace(/[\s_\-\u2212\u2013]/g, '');
-  number('ebv', 'reddeningEbv', false);
-  number('age_myr', 'ageMyr', true);
-  number('age_err_myr', 'ageUncertaintyMyr', false);
-  number('period_precision_d', 'periodPrecisionDays', false);
-  number('period', 'periodDays', false);
-  number('period_error', 'periodUncertaintyDays', false);
+  number('ebv', 'reddeningEbv');
+  number('age_myr', 'ageMyr');
+  number('age_err_myr', 'ageUncertaintyMyr');
+  number('period_precision_d', 'periodPrecisionDays');
+  number('period', 'periodDays');
+  number('period_error', 'periodUncertaintyDays');
   candidate.notes = cell('notes');
 
   const parsed = targetInputSchema.safeParse(candidate);
@@ -329,12 +345,13 @@ function readRow(row: number, cell: (c: ColumnName) => string): { values?: Targe
       // A column already reported (unreadable, empty) has no value for the schema to judge.
       if (reported.has(column)) continue;
       reported.add(column);
-      const text = cell(column as ColumnName);
-      fail(column as ColumnName, text !== '' && column !== 'name' && column !== 'notes' ? `${issue.message} (got ${text})` : issue.message);
+      const typed = cell(column as ColumnName);
+      fail(column as ColumnName, typed !== '' && issue.message.includes('(you typed ') ? replaceTyped(issue.message, typed) : issue.message);
     }
   }
-  if (errors.length) return { values: typeof candidate.name === 'string' && candidate.name ? ({ name: candidate.name } as TargetValues) : undefined, errors };
-  return { values: parsed.data, errors };
+  if (errors.length || !parsed.success) return { values: typeof candidate.name === 'string' && candidate.name ? ({ name: candidate.name } as TargetValues) : undefined, errors, notes: [] };
+  const warning = colourPlausibilityWarning(parsed.data.colour, parsed.data.colourSystem, parsed.data.reddeningEbv);
+  return { values: parsed.data, errors, notes: warning ? [{ row, field: 'colour', message: warning }] : [] };
 }
 
 /**

@@ -106,11 +106,11 @@ describe('targets: one row at a time', () => {
   it('refuses a period out of range, a negative uncertainty and an uncertainty without a period (400 naming the field), writing nothing', async () => {
     const { browser, proposal } = await draftWithTwoTargets();
     const cases: [Partial<Parameters<typeof target>[0]>, string, string][] = [
-      [{ periodDays: 0 }, 'periodDays', 'period must be within 0.05…1000 d'],
-      [{ periodDays: 1500 }, 'periodDays', 'period must be within 0.05…1000 d'],
-      [{ periodDays: 2, periodUncertaintyDays: -0.1 }, 'periodUncertaintyDays', 'period uncertainty must not be negative'],
-      [{ periodUncertaintyDays: 0.1 }, 'periodUncertaintyDays', 'period uncertainty needs a period'],
-      [{ periodDays: 'fast' as never }, 'periodDays', 'period must be a number'],
+      [{ periodDays: 0 }, 'periodDays', 'Enter a period between 0.05 and 1000 d, or leave it empty (you typed 0).'],
+      [{ periodDays: 1500 }, 'periodDays', 'Enter a period between 0.05 and 1000 d, or leave it empty (you typed 1500).'],
+      [{ periodDays: 2, periodUncertaintyDays: -0.1 }, 'periodUncertaintyDays', 'Enter a period uncertainty of 0 d or more, or leave it empty (you typed −0.1).'],
+      [{ periodUncertaintyDays: 0.1 }, 'periodUncertaintyDays', 'Enter the period as well, or clear its uncertainty.'],
+      [{ periodDays: 'fast' as never }, 'periodDays', 'Enter the period as a number (you typed fast).'],
     ];
     for (const [overrides, field, message] of cases) {
       const res = await browser.post(`/api/proposals/${proposal.id}/targets`, target(overrides));
@@ -120,7 +120,7 @@ describe('targets: one row at a time', () => {
     const [first] = (await browser.get(`/api/proposals/${proposal.id}/targets`)).body;
     const put = await browser.put(`/api/proposals/${proposal.id}/targets/${first.id}`, { version: 1, target: target({ name: first.name, periodDays: -3 }) });
     expect(put.status).toBe(400);
-    expect(put.body.fieldErrors['target.periodDays']).toEqual(['period must be within 0.05…1000 d']);
+    expect(put.body.fieldErrors['target.periodDays']).toEqual(['Enter a period between 0.05 and 1000 d, or leave it empty (you typed −3).']);
     expect(await countRows(h, 'targets', { proposal_id: proposal.id })).toBe(2);
     expect((await browser.get(`/api/proposals/${proposal.id}/targets`)).body[0]).toMatchObject({ version: 1, periodDays: null });
   });
@@ -178,6 +178,16 @@ describe('POST /api/proposals/:id/targets/upload', () => {
     ]);
   });
 
+  it('stores a row whose colour is implausible for its system and answers with a note on that row', async () => {
+    const { browser, proposal } = await draftWithTwoTargets();
+    const res = await upload(browser, proposal.id, [CSV_HEADER, csvLine('Star P-1'), csvLine('Star P-2', { colour: '2.5', colour_system: 'BV' })].join('\n'));
+    expect(res.status).toBe(200);
+    expect(res.body.added).toBe(2);
+    expect(res.body.notes).toEqual([
+      { row: 2, field: 'colour', message: 'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.' },
+    ]);
+  });
+
   it('reads the period and period_error columns (also spelled period_d / period_err_d); empty cells are null', async () => {
     const { browser, proposal } = await draftWithTwoTargets();
     const res = await upload(browser, proposal.id, [CSV_HEADER, csvLine('Star V-1', { colour: '3.2', period: '0.45', period_error: '0.02' }), csvLine('Star V-2')].join('\n'));
@@ -211,12 +221,12 @@ describe('POST /api/proposals/:id/targets/upload', () => {
     const res = await upload(browser, proposal.id, csv);
     expect(res.status).toBe(400);
     expect(res.body.code).toBe('invalid_target_list');
-    expect(res.body.message).toBe('row 2, period: period must be within 0.05…1000 d (got 1200) (and 3 more problems; nothing was saved)');
+    expect(res.body.message).toBe('row 2, period: Enter a period between 0.05 and 1000 d, or leave it empty (you typed 1200). (and 3 more problems; nothing was saved)');
     expect(res.body.rows).toEqual([
-      { row: 2, field: 'period', message: 'period must be within 0.05…1000 d (got 1200)' },
-      { row: 3, field: 'period', message: '"fast" is not a number' },
-      { row: 4, field: 'period_error', message: 'period uncertainty needs a period (got 0.3)' },
-      { row: 5, field: 'period_error', message: 'period uncertainty must not be negative (got -1)' },
+      { row: 2, field: 'period', message: 'Enter a period between 0.05 and 1000 d, or leave it empty (you typed 1200).' },
+      { row: 3, field: 'period', message: 'Enter the period as a number (you typed fast).' },
+      { row: 4, field: 'period_error', message: 'Enter the period as well, or clear its uncertainty.' },
+      { row: 5, field: 'period_error', message: 'Enter a period uncertainty of 0 d or more, or leave it empty (you typed −1).' },
     ]);
     expect(Object.keys(res.body.fieldErrors).sort()).toEqual(['rows.2.period', 'rows.3.period', 'rows.4.period_error', 'rows.5.period_error']);
     expect((await browser.get(`/api/proposals/${proposal.id}/targets`)).body).toEqual(before);
@@ -227,9 +237,9 @@ describe('POST /api/proposals/:id/targets/upload', () => {
     { file: 'missing-columns.csv', status: 400, code: 'invalid_target_list', keys: ['header'], message: /^header: missing required columns magnitude, band/ },
     { file: 'unknown-column.csv', status: 400, code: 'invalid_target_list', keys: ['header'], message: /unknown column "mass"/ },
     { file: 'no-header.csv', status: 400, code: 'invalid_target_list', keys: ['header'], message: /first row must name the columns/ },
-    { file: 'bad-numbers.csv', status: 400, code: 'invalid_target_list', keys: ['rows.2.magnitude', 'rows.3.age_myr'], message: /^row 2, magnitude: "bright" is not a number \(and 1 more problem; nothing was saved\)$/ },
-    { file: 'bad-sexagesimal.csv', status: 400, code: 'invalid_target_list', keys: ['rows.1.ra', 'rows.2.dec'], message: /^row 1, ra: minutes must be below 60/ },
-    { file: 'ra-dec-out-of-range.csv', status: 400, code: 'invalid_target_list', keys: ['rows.14.dec', 'rows.15.ra'], message: /^row 14, dec: declination must be within −90…\+90°, got 95\.2° \(and 1 more problem/ },
+    { file: 'bad-numbers.csv', status: 400, code: 'invalid_target_list', keys: ['rows.2.magnitude', 'rows.3.age_myr'], message: /^row 2, magnitude: Enter the magnitude as a number \(you typed bright\)\. \(and 1 more problem; nothing was saved\)$/ },
+    { file: 'bad-sexagesimal.csv', status: 400, code: 'invalid_target_list', keys: ['rows.1.ra', 'rows.2.dec'], message: /^row 1, ra: Keep the minutes of the right ascension below 60 \(you typed 10:75:00\)/ },
+    { file: 'ra-dec-out-of-range.csv', status: 400, code: 'invalid_target_list', keys: ['rows.14.dec', 'rows.15.ra'], message: /^row 14, dec: Enter a declination between −90° and 90° \(you typed 95\.2\)\. \(and 1 more problem/ },
     { file: 'duplicates-within-file.csv', status: 400, code: 'invalid_target_list', keys: ['rows.4.name'], message: /^row 4, name: “lantern 3” is listed twice \(also on row 2\)/ },
     { file: 'duplicate-with-existing.csv', status: 400, code: 'invalid_target_list', keys: ['rows.2.name'], message: /^row 2, name: “Star E-1” is already in the target list/, mode: 'append' },
     { file: 'empty.csv', status: 400, code: 'empty_target_list', message: /is empty/ },
@@ -239,14 +249,14 @@ describe('POST /api/proposals/:id/targets/upload', () => {
     { file: 'unquoted-comma.csv', status: 400, code: 'invalid_target_list', keys: ['rows.2.columns'], message: /^row 2, columns: has 13 values but the header names 12 columns/ },
     { file: 'ragged-rows.csv', status: 400, code: 'invalid_target_list', keys: ['rows.2.columns', 'rows.3.columns'], message: /^row 2, columns: has 5 values/ },
     { file: 'unclosed-quote.csv', status: 400, code: 'invalid_target_list', keys: ['rows.2.columns'], message: /^row 2, columns: cannot be read: a quoted value is never closed/ },
-    { file: 'bad-enums.csv', status: 400, code: 'invalid_target_list', keys: ['rows.1.band', 'rows.1.colour_system'], message: /^row 1, band: band must be one of B, V, R, I, G \(got Q\)/ },
-    { file: 'missing-values.csv', status: 400, code: 'invalid_target_list', keys: ['rows.1.name', 'rows.1.age_myr', 'rows.2.ra', 'rows.2.dec'], message: /^row 1, name: is required/ },
+    { file: 'bad-enums.csv', status: 400, code: 'invalid_target_list', keys: ['rows.1.band', 'rows.1.colour_system'], message: /^row 1, band: Choose the band of the magnitude: B, V, R, I, G \(you typed Q\)/ },
+    { file: 'missing-values.csv', status: 400, code: 'invalid_target_list', keys: ['rows.1.name', 'rows.1.age_myr', 'rows.2.ra', 'rows.2.dec'], message: /^row 1, name: Give the target a name\./ },
     {
       file: 'science-ranges.csv',
       status: 400,
       code: 'invalid_target_list',
       keys: ['rows.1.magnitude', 'rows.1.colour', 'rows.1.ebv', 'rows.1.age_myr', 'rows.1.age_err_myr', 'rows.1.period_precision_d'],
-      message: /^row 1, magnitude: magnitude must be within −2…22 \(got 25\) \(and 5 more problems/,
+      message: /^row 1, magnitude: Enter a magnitude between −2 and 22 mag \(you typed 25\)\. \(and 5 more problems/,
     },
   ];
 

@@ -159,7 +159,7 @@ export async function uploadTargets(
     return { mode, added: list.rows.length, removed };
   });
   await queuePlanComputations(ctx, [id]);
-  return { ...result, targets: (await listTargets(ctx.db, id)).map(toTargetRow) };
+  return { ...result, notes: list.notes, targets: (await listTargets(ctx.db, id)).map(toTargetRow) };
 }
 
 /** GET /api/proposals/:id/targets.csv: the list in the upload's columns, formula-escaped. */

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, linkedSignal, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
@@ -32,6 +31,7 @@ import { loadErrorText, readApiError } from '../../../core/http/api-error-messag
 import { confirmAction } from '../../../ui/confirm-dialog/confirm-dialog';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { AccountApi, AccountPage } from '../account-api';
+import { UtcInstantPipe } from '../../../ui/time/date-pipes';
 
 export const SEARCH_DEBOUNCE_MS = 300;
 export const DEFAULT_PAGE_SIZE = 25;
@@ -45,7 +45,7 @@ const EMPTY_PAGE: AccountPage = { items: [], total: 0 };
   selector: 'app-account-list',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
-    DatePipe,
+    UtcInstantPipe,
     LoadStatus,
     MatButton,
     MatCell,

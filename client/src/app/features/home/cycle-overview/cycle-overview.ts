@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatCard, MatCardContent, MatCardHeader, MatCardSubtitle, MatCardTitle } from '@angular/material/card';
 import { MatChip, MatChipSet } from '@angular/material/chips';
@@ -7,21 +6,19 @@ import { Clock } from '../../../core/time/clock';
 import { describeCountdown } from '../../../ui/time/countdown';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { CycleApi, CycleListing } from '../cycle-api';
+import { DayPipe, LocalInstantPipe, UtcInstantPipe } from '../../../ui/time/date-pipes';
 
-/** The open and upcoming cycles, with their deadlines in the person's time zone and in UTC. */
+/** The open and upcoming cycles, with their deadlines in UTC and, when it reads differently, on the person's clock. */
 @Component({
   selector: 'app-cycle-overview',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [DatePipe, LoadStatus, MatCard, MatCardContent, MatCardHeader, MatCardSubtitle, MatCardTitle, MatChip, MatChipSet],
+  imports: [DayPipe, LocalInstantPipe, UtcInstantPipe, LoadStatus, MatCard, MatCardContent, MatCardHeader, MatCardSubtitle, MatCardTitle, MatChip, MatChipSet],
   templateUrl: './cycle-overview.html',
   styleUrl: './cycle-overview.scss',
 })
 export class CycleOverview {
   private readonly clock = inject(Clock);
   protected readonly cycles = inject(CycleApi).listResource();
-
-  /** The browser's IANA time zone, named beside local times. */
-  protected readonly localZone = Intl.DateTimeFormat().resolvedOptions().timeZone;
 
   private readonly all = computed<CycleListing[]>(() => (this.cycles.hasValue() ? this.cycles.value() : []));
   protected readonly open = computed(() =>

@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -27,6 +27,7 @@ import { describeCountdown } from '../../../ui/time/countdown';
 import { NewProposalDialog } from '../new-proposal-dialog/new-proposal-dialog';
 import { ProposalApi } from '../proposal-api';
 import { ProposalStateChip } from '../proposal-state-chip/proposal-state-chip';
+import { UtcInstantPipe } from '../../../ui/time/date-pipes';
 
 export const MEMBER_ROLE_LABELS = { pi: 'PI', coi: 'Co-investigator' } as const;
 
@@ -51,7 +52,7 @@ function summaryValue(row: ProposalSummary, column: string): SortValue {
   selector: 'app-proposal-list',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
-    DatePipe,
+    UtcInstantPipe,
     DecimalPipe,
     LoadStatus,
     MatButton,

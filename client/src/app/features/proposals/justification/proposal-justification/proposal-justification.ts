@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpEventType } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, ElementRef, inject, LOCALE_ID, signal, viewChild } from '@angular/core';
 import { MatButton } from '@angular/material/button';
@@ -7,6 +6,7 @@ import { MatProgressBar } from '@angular/material/progress-bar';
 import { readApiError } from '../../../../core/http/api-error-message';
 import { MAX_JUSTIFICATION_BYTES, ProposalApi } from '../../proposal-api';
 import { ProposalStore } from '../../proposal-store';
+import { UtcInstantPipe } from '../../../../ui/time/date-pipes';
 
 /** Why a file cannot be sent, checked before uploading (the server checks again). */
 export function checkJustificationFile(file: File): string | null {
@@ -31,7 +31,7 @@ export function formatFileSize(bytes: number, locale: string): string {
 @Component({
   selector: 'app-proposal-justification',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [DatePipe, MatButton, MatIcon, MatProgressBar],
+  imports: [UtcInstantPipe, MatButton, MatIcon, MatProgressBar],
   templateUrl: './proposal-justification.html',
   styleUrl: './proposal-justification.scss',
 })

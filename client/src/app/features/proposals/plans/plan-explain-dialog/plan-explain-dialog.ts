@@ -8,6 +8,7 @@ import type { Explained, FlagSeverity, ScienceFlag, SourceTag } from '@spincycle
 import { QUANTITY_LABELS, SOURCE_TAG_LABELS } from '@spincycle/shared/science/quantity-labels';
 import { loadErrorText } from '../../../../core/http/api-error-message';
 import { reasonSentence } from '../../../../ui/text/reason-sentence';
+import { FeeWhyPipe } from '../../../../ui/units/fee-why-pipe';
 import { formatMinorCurrency, formatPercent } from '../../../../ui/units/format-units';
 import { PlanApi } from '../plan-api';
 
@@ -77,7 +78,7 @@ export function explainRows(
 @Component({
   selector: 'app-plan-explain-dialog',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [MatButton, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle, MatIcon, MatProgressBar],
+  imports: [FeeWhyPipe, MatButton, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle, MatIcon, MatProgressBar],
   templateUrl: './plan-explain-dialog.html',
   styleUrl: './plan-explain-dialog.scss',
 })

@@ -32,6 +32,7 @@ import { loadErrorText, readApiError } from '../../../../core/http/api-error-mes
 import { LoadStatus } from '../../../../ui/load-status/load-status';
 import { reasonSentence } from '../../../../ui/text/reason-sentence';
 import { FractionPercentPipe } from '../../../../ui/units/fraction-percent-pipe';
+import { FeeWhyPipe } from '../../../../ui/units/fee-why-pipe';
 import { MinorCurrencyPipe } from '../../../../ui/units/minor-currency-pipe';
 import { ClusterChart, ClusterPointSelection } from '../cluster-chart/cluster-chart';
 import { sharedAgeMyr } from '../cluster-chart/cluster-curves';
@@ -128,6 +129,7 @@ export function feeTotals(request: readonly NodeRequest[]): { currency: string; 
     MatSortHeader,
     MatTable,
     MatTooltip,
+    FeeWhyPipe,
     MinorCurrencyPipe,
     ReactiveFormsModule,
   ],

@@ -11,13 +11,17 @@ import {
   MatDialogRef,
   MatDialogTitle,
 } from '@angular/material/dialog';
-import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatButtonToggle, MatButtonToggleGroup } from '@angular/material/button-toggle';
+import { MatError, MatFormField, MatHint, MatLabel, MatSuffix } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatOption, MatSelect } from '@angular/material/select';
 import { NODE_BANDS, type NodeBand } from '@spincycle/shared/facility/facility-types';
-import { TARGET_COLOUR_SYSTEMS, type TargetColourSystem } from '@spincycle/shared/science/colour-sequence';
-import { parseDec, parseRa, parseRaDec, SkyInputError } from '@spincycle/shared/sky/index';
+import type { TargetColourSystem } from '@spincycle/shared/science/colour-sequence';
+import { parseDec, parseRa, SkyInputError } from '@spincycle/shared/sky/index';
+import { colourPlausibilityWarning } from '@spincycle/shared/proposals/colour-plausibility';
+import { coordinateMessage, type CoordinateKind } from '@spincycle/shared/proposals/coordinate-messages';
 import { targetInputSchema, type TargetInput, type TargetRow } from '@spincycle/shared/proposals/target-schemas';
 import { map, startWith } from 'rxjs';
 import { readApiError } from '../../../../core/http/api-error-message';
@@ -35,7 +39,32 @@ export interface TargetDialogData {
 /** What the dialog closes with: the stored row, or a request to reload the list after a conflict. */
 export type TargetDialogResult = { saved: TargetRow } | { reload: true };
 
-const COLOUR_SYSTEM_LABELS: Record<TargetColourSystem, string> = { BV: 'B−V', BPRP: 'Gaia BP−RP' };
+/** The colour systems in the order the toggle shows them: Gaia BP−RP first, the default everywhere. */
+export const COLOUR_SYSTEM_CHOICES: readonly { system: TargetColourSystem; label: string; name: string }[] = [
+  { system: 'BPRP', label: 'BP−RP', name: 'Gaia BP−RP' },
+  { system: 'BV', label: 'B−V', name: 'Johnson B−V' },
+];
+
+/** The colour system a new target starts with (as in the planner and the example list). */
+export const DEFAULT_COLOUR_SYSTEM: TargetColourSystem = 'BPRP';
+
+/** Labels of the form's fields, for the summary of what needs a change. */
+const FIELD_LABELS: Record<string, string> = {
+  name: 'Name',
+  ra: 'RA',
+  dec: 'Dec',
+  magnitude: 'Magnitude',
+  magnitudeBand: 'Band',
+  colour: 'Colour',
+  colourSystem: 'Colour system',
+  reddeningEbv: 'Reddening',
+  ageMyr: 'Age',
+  ageUncertaintyMyr: 'Age uncertainty',
+  periodPrecisionDays: 'Period precision',
+  periodDays: 'Period',
+  periodUncertaintyDays: 'Period uncertainty',
+  notes: 'Notes',
+};
 
 /** Which form control shows an error about an API field. */
 const FIELD_TO_CONTROL: Record<string, string> = { raDeg: 'ra', decDeg: 'dec' };
@@ -50,21 +79,26 @@ export function toTargetFormPaths(fieldErrors: Record<string, string[]> | undefi
   return out;
 }
 
-/** A validator from one of the shared RA/Dec parsers, reporting its reason. */
-function coordinateValidator(parse: (text: string) => number): ValidatorFn {
+/** Reads a typed RA or Dec: degrees, or the message to show under the field. */
+function readCoordinate(kind: CoordinateKind, text: string): { deg: number } | { message: string } {
+  try {
+    return { deg: kind === 'ra' ? parseRa(text, 'ra') : parseDec(text, 'dec') };
+  } catch (error) {
+    if (error instanceof SkyInputError) return { message: coordinateMessage(kind, error.reason, text) };
+    throw error;
+  }
+}
+
+/** A validator from the shared RA/Dec parsers, in the product's words with the text as typed. */
+function coordinateValidator(kind: CoordinateKind): ValidatorFn {
   return (control: AbstractControl): ValidationErrors | null => {
-    const text = String(control.value ?? '').trim();
-    if (!text) return { schema: 'Enter the coordinate' };
-    try {
-      parse(text);
-      return null;
-    } catch (error) {
-      return { schema: error instanceof SkyInputError ? error.reason : 'Check this value' };
-    }
+    const read = readCoordinate(kind, String(control.value ?? ''));
+    return 'message' in read ? { schema: read.message } : null;
   };
 }
 
-const optionalNumber = () => new FormControl<number | null>(null);
+type NumberField = 'reddeningEbv' | 'ageUncertaintyMyr' | 'periodPrecisionDays' | 'periodDays' | 'periodUncertaintyDays';
+const optionalNumber = (field: NumberField) => new FormControl<number | null>(null, { validators: [zodValidator(targetInputSchema.shape[field])] });
 
 /** When a proposer should give a period of their own (shown under the field and in the table's header tooltip). */
 export const EXPECTED_PERIOD_HINT = 'Only for stars without an expected period from their colour and age (fast rotators, M dwarfs beyond the relations)';
@@ -79,6 +113,8 @@ export const EXPECTED_PERIOD_HINT = 'Only for stars without an expected period f
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
     MatButton,
+    MatButtonToggle,
+    MatButtonToggleGroup,
     MatDialogActions,
     MatDialogClose,
     MatDialogContent,
@@ -86,11 +122,13 @@ export const EXPECTED_PERIOD_HINT = 'Only for stars without an expected period f
     MatError,
     MatFormField,
     MatHint,
+    MatIcon,
     MatInput,
     MatLabel,
     MatOption,
     MatProgressBar,
     MatSelect,
+    MatSuffix,
     ReactiveFormsModule,
   ],
   templateUrl: './target-dialog.html',
@@ -102,26 +140,25 @@ export class TargetDialog {
   protected readonly data = inject<TargetDialogData>(MAT_DIALOG_DATA);
 
   protected readonly bands = NODE_BANDS;
-  protected readonly colourSystems = TARGET_COLOUR_SYSTEMS;
-  protected readonly colourSystemLabels = COLOUR_SYSTEM_LABELS;
+  protected readonly colourSystems = COLOUR_SYSTEM_CHOICES;
   protected readonly errorOf = controlErrorMessage;
   protected readonly periodHint = EXPECTED_PERIOD_HINT;
   protected readonly editing = !!this.data.target;
 
   protected readonly form = new FormGroup({
     name: new FormControl('', { nonNullable: true, validators: [zodValidator(targetInputSchema.shape.name)] }),
-    ra: new FormControl('', { nonNullable: true, validators: [coordinateValidator((t) => parseRa(t))] }),
-    dec: new FormControl('', { nonNullable: true, validators: [coordinateValidator((t) => parseDec(t))] }),
+    ra: new FormControl('', { nonNullable: true, validators: [coordinateValidator('ra')] }),
+    dec: new FormControl('', { nonNullable: true, validators: [coordinateValidator('dec')] }),
     magnitude: new FormControl<number | null>(null, { validators: [zodValidator(targetInputSchema.shape.magnitude)] }),
     magnitudeBand: new FormControl<NodeBand>('V', { nonNullable: true }),
     colour: new FormControl<number | null>(null, { validators: [zodValidator(targetInputSchema.shape.colour)] }),
-    colourSystem: new FormControl<TargetColourSystem>('BV', { nonNullable: true }),
-    reddeningEbv: optionalNumber(),
+    colourSystem: new FormControl<TargetColourSystem>(DEFAULT_COLOUR_SYSTEM, { nonNullable: true }),
+    reddeningEbv: optionalNumber('reddeningEbv'),
     ageMyr: new FormControl<number | null>(null, { validators: [zodValidator(targetInputSchema.shape.ageMyr)] }),
-    ageUncertaintyMyr: optionalNumber(),
-    periodPrecisionDays: optionalNumber(),
-    periodDays: optionalNumber(),
-    periodUncertaintyDays: optionalNumber(),
+    ageUncertaintyMyr: optionalNumber('ageUncertaintyMyr'),
+    periodPrecisionDays: optionalNumber('periodPrecisionDays'),
+    periodDays: optionalNumber('periodDays'),
+    periodUncertaintyDays: optionalNumber('periodUncertaintyDays'),
     notes: new FormControl('', { nonNullable: true, validators: [zodValidator(targetInputSchema.shape.notes)] }),
   });
 
@@ -141,7 +178,27 @@ export class TargetDialog {
     { initialValue: '' },
   );
 
+  private readonly colourInputs = toSignal(
+    this.form.valueChanges.pipe(
+      startWith(null),
+      map(() => {
+        const v = this.form.getRawValue();
+        return { colour: v.colour, system: v.colourSystem, ebv: v.reddeningEbv };
+      }),
+    ),
+    { initialValue: { colour: null, system: DEFAULT_COLOUR_SYSTEM, ebv: null } },
+  );
+  /** The colour system's short label, shown inside the colour field. */
+  protected readonly colourSystemLabel = computed(() => COLOUR_SYSTEM_CHOICES.find((c) => c.system === this.colourInputs().system)?.label ?? '');
+  /** A warning, not an error: the colour is implausible for a dwarf in the chosen system. */
+  protected readonly colourWarning = computed(() => {
+    const { colour, system, ebv } = this.colourInputs();
+    return colourPlausibilityWarning(colour, system, ebv);
+  });
+
   protected readonly saving = signal(false);
+  /** The fields that need a change, named once above the form after a refused save. */
+  protected readonly fieldsToFix = signal<string[]>([]);
   protected readonly serverError = signal<string | null>(null);
   protected readonly conflict = signal(false);
   protected readonly title = computed(() => (this.editing ? `Edit ${this.data.target!.name}` : 'Add a target'));
@@ -174,8 +231,10 @@ export class TargetDialog {
     const input = this.toInput();
     if (!input) {
       this.form.markAllAsTouched();
+      this.fieldsToFix.set(this.invalidFields());
       return;
     }
+    this.fieldsToFix.set([]);
     const target = this.data.target;
     const request = target
       ? this.api.update(this.data.proposalId, target.id, target.version, input)
@@ -194,8 +253,12 @@ export class TargetDialog {
           this.serverError.set(`${body.message} Reload the list to edit the stored row.`);
           return;
         }
+        // Every field the server names gets its message under the field; the banner says only
+        // what has no field, so nothing is said twice.
         const unmatched = applyServerFieldErrors(this.form, toTargetFormPaths(body.fieldErrors));
-        this.serverError.set([body.message, ...unmatched].join(' '));
+        const onFields = this.invalidFields();
+        this.fieldsToFix.set(onFields);
+        this.serverError.set(unmatched.length ? unmatched.join(' ') : onFields.length ? null : body.message);
       },
     });
   }
@@ -204,20 +267,29 @@ export class TargetDialog {
     this.dialogRef.close({ reload: true });
   }
 
-  /** The row as the API takes it, or null after putting each problem on its field. */
+  /** Labels of the controls that hold an error now, in the form's order. */
+  private invalidFields(): string[] {
+    return Object.entries(this.form.controls)
+      .filter(([, control]) => control.invalid)
+      .map(([key]) => FIELD_LABELS[key] ?? key);
+  }
+
+  /**
+   * The row as the API takes it, or null after putting every problem on its field at once:
+   * RA and Dec are read on their own, and the rest of the row is checked even when they fail.
+   */
   private toInput(): TargetInput | null {
     const v = this.form.getRawValue();
-    let position: { raDeg: number; decDeg: number };
-    try {
-      position = parseRaDec(v.ra, v.dec);
-    } catch (error) {
-      if (error instanceof SkyInputError) applyServerFieldErrors(this.form, { [error.field]: [error.reason] });
-      return null;
-    }
+    const ra = readCoordinate('ra', v.ra);
+    const dec = readCoordinate('dec', v.dec);
+    const fieldErrors: Record<string, string[]> = {};
+    if ('message' in ra) fieldErrors['ra'] = [ra.message];
+    if ('message' in dec) fieldErrors['dec'] = [dec.message];
     const parsed = targetInputSchema.safeParse({
       name: v.name,
-      raDeg: position.raDeg,
-      decDeg: position.decDeg,
+      // A placeholder where the text could not be read: its message is already set above.
+      raDeg: 'deg' in ra ? ra.deg : 0,
+      decDeg: 'deg' in dec ? dec.deg : 0,
       magnitude: v.magnitude,
       magnitudeBand: v.magnitudeBand,
       colour: v.colour,
@@ -231,8 +303,9 @@ export class TargetDialog {
       notes: v.notes,
     });
     if (!parsed.success) {
-      const fieldErrors: Record<string, string[]> = {};
       for (const issue of parsed.error.issues) fieldErrors[issue.path.join('.')] ??= [issue.message];
+    }
+    if (Object.keys(fieldErrors).length || !parsed.success) {
       applyServerFieldErrors(this.form, toTargetFormPaths(fieldErrors));
       return null;
     }

@@ -127,6 +127,24 @@ describe('TargetList', () => {
     expect(fixture.nativeElement.querySelector('[data-testid=upload-results]').textContent).toContain('3 targets now make up the list (2 removed)');
   });
 
+  it('upload accepted with notes: the rows stored with a colour warning are listed with row, column and warning', async () => {
+    chooseFile();
+    await fixture.whenStable();
+    await (await loader.getHarness(MatButtonHarness.with({ text: /Upload/ }))).click();
+    const note = { row: 2, field: 'colour', message: 'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.' };
+    backend.expectOne((r) => r.url === '/api/proposals/5/targets/upload').flush({ mode: 'append', added: 2, removed: 0, notes: [note], targets: [] });
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5/targets').flush([testTarget(1), testTarget(2)]);
+    backend.expectOne('/api/proposals/5').flush(testProposal());
+    await fixture.whenStable();
+    expect(fixture.nativeElement.querySelector('[data-testid=upload-results]').textContent).toContain('One row was stored with a warning');
+    const table = await loader.getHarness(MatTableHarness.with({ selector: '[data-testid=row-notes]' }));
+    const columns = await table.getCellTextByColumnName();
+    expect(columns['row'].text).toEqual(['2']);
+    expect(columns['field'].text).toEqual(['colour']);
+    expect(columns['message'].text).toEqual([note.message]);
+  });
+
   it('add a target: RA/Dec typed as text are parsed into degrees before the row is posted', async () => {
     await (await loader.getHarness(MatButtonHarness.with({ text: /Add a target/ }))).click();
     const set = async (name: string, value: string) =>
@@ -148,7 +166,7 @@ describe('TargetList', () => {
       magnitude: 13.1,
       magnitudeBand: 'V',
       colour: 1.02,
-      colourSystem: 'BV',
+      colourSystem: 'BPRP',
       reddeningEbv: null,
       ageMyr: 650,
       ageUncertaintyMyr: null,
@@ -216,21 +234,21 @@ describe('TargetList', () => {
     await (await root.getHarness(MatButtonHarness.with({ text: 'Add target' }))).click();
     backend.expectNone((r) => r.method === 'POST');
     const uncertainty = await root.getHarness(MatFormFieldHarness.with({ floatingLabelText: '± (d)' }));
-    expect(await uncertainty.getTextErrors()).toEqual(['period uncertainty needs a period']);
+    expect(await uncertainty.getTextErrors()).toEqual(['Enter the period as well, or clear its uncertainty.']);
 
     await set('periodDays', '1500');
     await (await root.getHarness(MatButtonHarness.with({ text: 'Add target' }))).click();
     backend.expectNone((r) => r.method === 'POST');
     const period = await root.getHarness(MatFormFieldHarness.with({ floatingLabelText: 'Period (d)' }));
-    expect(await period.getTextErrors()).toEqual(['period must be within 0.05…1000 d']);
+    expect(await period.getTextErrors()).toEqual(['Enter a period between 0.05 and 1000 d, or leave it empty (you typed 1500).']);
   });
 
-  it('add a target: an unreadable declination is refused with the parser reason, nothing sent', async () => {
+  it('add a target: a declination out of range is refused with the text as typed, nothing sent', async () => {
     await (await loader.getHarness(MatButtonHarness.with({ text: /Add a target/ }))).click();
     await (await root.getHarness(MatInputHarness.with({ selector: '[formControlName=dec]' }))).setValue('95:00:00');
     await (await root.getHarness(MatButtonHarness.with({ text: 'Add target' }))).click();
     backend.expectNone((r) => r.method === 'POST');
     const dec = await root.getHarness(MatFormFieldHarness.with({ floatingLabelText: 'Dec (J2000)' }));
-    expect((await dec.getTextErrors())[0]).toContain('declination must be within −90…+90°');
+    expect((await dec.getTextErrors())[0]).toBe('Enter a declination between −90° and 90° (you typed 95:00:00).');
   });
 });

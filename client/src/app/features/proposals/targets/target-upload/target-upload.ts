@@ -28,7 +28,7 @@ import { TargetApi, TargetUploadMode, TargetUploadResult } from '../target-api';
 
 /** What the results panel shows after an upload. */
 export type UploadOutcome =
-  | { kind: 'imported'; added: number; removed: number; mode: TargetUploadMode }
+  | { kind: 'imported'; added: number; removed: number; mode: TargetUploadMode; notes: CsvRowError[] }
   | { kind: 'refused'; message: string; rows: CsvRowError[] };
 
 /** Reads the `rows` of a 400 `invalid_target_list` body, tolerating their absence. */
@@ -121,7 +121,7 @@ export class TargetUpload {
             this.progress.set(event.total ? Math.round((100 * event.loaded) / event.total) : 0);
           } else if (event.type === HttpEventType.Response && event.body) {
             this.progress.set(null);
-            this.outcome.set({ kind: 'imported', added: event.body.added, removed: event.body.removed, mode });
+            this.outcome.set({ kind: 'imported', added: event.body.added, removed: event.body.removed, mode, notes: event.body.notes ?? [] });
             this.uploaded.emit(event.body);
             // Stored: clear the chosen file so that it is not sent twice by mistake.
             this.file.set(null);

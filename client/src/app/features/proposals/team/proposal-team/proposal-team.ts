@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal, viewChild } from '@angular/core';
 import { FormControl, FormGroup, FormGroupDirective, ReactiveFormsModule } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
@@ -26,13 +25,14 @@ import { zodValidator } from '../../../../ui/forms/zod-validator';
 import { ProposalApi } from '../../proposal-api';
 import { MEMBER_ROLE_LABELS } from '../../proposal-list/proposal-list';
 import { ProposalStore } from '../../proposal-store';
+import { DayPipe } from '../../../../ui/time/date-pipes';
 
 /** The team tab: who is on the proposal; the PI invites co-investigators by e-mail and removes them. */
 @Component({
   selector: 'app-proposal-team',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
-    DatePipe,
+    DayPipe,
     MatButton,
     MatCell,
     MatCellDef,
