@@ -1,7 +1,10 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes, randomUUID } from 'node:crypto';
 import path from 'node:path';
-import { setUpDatabase } from '../../../database/setup';
+// The launcher's set-up runs database/setup.ts under tsx (a child): the demo seeds import the
+// shared code through its path alias, which jest's global set-up would not resolve.
+// @ts-expect-error plain ES module of the launcher scripts, without type declarations
+import { setUpDatabase } from '../../../server/scripts/setup.mjs';
 import { assertPortFree, waitForOwnServer, waitForReadyMessage } from '../../../server/scripts/processes.cjs';
 import { bringUpTestCluster, releaseTestClusterOnSignal } from '../../support/test-cluster';
 import { BASE_URL, E2E_DB, E2E_MAIL_HTTP_PORT, E2E_PORT, E2E_SMTP_PORT } from './e2e-env';
@@ -47,7 +50,7 @@ export default async function globalSetup(): Promise<void> {
   const cluster = bringUpTestCluster([E2E_DB], 'e2e');
   const state: E2eState = { children: [], lease: cluster.lease, removeSignalHandlers: releaseTestClusterOnSignal(cluster.lease) };
   (globalThis as Record<string, unknown>)[E2E_STATE] = state;
-  await setUpDatabase(E2E_DB, 'if-empty');
+  await setUpDatabase(E2E_DB, '--seed-if-empty', cluster.env);
 
   // The mailbox answers only with this token; the test workers (started after this) read it.
   process.env.SPINCYCLE_E2E_MAILBOX_TOKEN ||= randomBytes(24).toString('base64url');
