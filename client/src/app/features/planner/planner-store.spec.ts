@@ -70,7 +70,7 @@ describe('PlannerStore', () => {
     expect(store.colourName()).toBe('B−V');
     store.form.controls.colourValue.setValue(2.5);
     await settle();
-    expect(store.colourWarning()).toContain('not a plausible B−V');
+    expect(store.colourWarning()).toContain('but a plausible BP−RP: check the colour system');
     expect(store.fieldErrors().colourValue).toBe('Enter a B−V colour between 0.4 and 1.83 mag (you typed 2.5).');
   });
 

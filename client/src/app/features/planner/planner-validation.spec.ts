@@ -27,7 +27,7 @@ describe('planner-validation', () => {
 
   it('the colour range follows the typed reddening, and the typed colour is reported, not the de-reddened one', () => {
     const errors = validatePlannerValue(value({ colourValue: 4, reddeningEbv: 0.2 }), NODE);
-    expect(errors.colourValue).toBe('Enter a BP−RP colour between 0.828 and 3.618 mag with E(B−V) = 0.2 (you typed 4).');
+    expect(errors.colourValue).toBe('Enter a BP−RP colour between 0.83 and 3.62 mag with E(B−V) = 0.2 (you typed 4).');
   });
 
   it('missing numbers are asked for', () => {
@@ -38,7 +38,7 @@ describe('planner-validation', () => {
 
   it('the colour system: a B−V that reads as a BP−RP is flagged beside the system', () => {
     expect(colourSystemWarning(value({ colourSystem: 'BV', colourValue: 2.5 }))).toBe(
-      '2.5 mag is not a plausible B−V of an F5–M5 dwarf, but it is a plausible BP−RP: check the colour system.',
+      'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.',
     );
     expect(colourSystemWarning(value({ colourSystem: 'BPRP', colourValue: 1.1 }))).toBeNull();
     expect(colourSystemWarning(value({ colourSystem: 'BPRP', colourValue: 9 }))).toBeNull();

@@ -10,6 +10,8 @@ import { colourLabel, MAX_REDDENING_EBV_MAG, REDDENING_RATIOS, type TargetColour
 import { SUPPORTED_COLOUR_DOMAIN } from '@spincycle/shared/science/gyrochronology';
 import { parseDec, parseRa } from '@spincycle/shared/sky/ra-dec-parser';
 import { SkyInputError } from '@spincycle/shared/sky/sky-input-error';
+import { between, displayNumber as rangeNumber } from '@spincycle/shared/http/range-text';
+import { colourPlausibilityWarning } from '@spincycle/shared/proposals/colour-plausibility';
 import { plainSentence } from './plan-wording';
 import { COMPLETENESS_PERCENT_RANGE, type FieldErrors, type PlannerField, type PlannerValue } from './planner-form';
 
@@ -19,17 +21,8 @@ export const PERIOD_RANGE_DAYS = { min: 0.05, max: 1000 } as const;
 export const PERIOD_UNCERTAINTY_RANGE_DAYS = { min: 0, max: 1000 } as const;
 export const FALSE_ALARM_RANGE = { min: 0, max: 0.5 } as const;
 
-/** A number as the page writes it in a range: a true minus sign, no trailing zeros. */
-export function rangeNumber(value: number): string {
-  const s = String(Math.round(value * 1000) / 1000);
-  return s.startsWith('-') ? `−${s.slice(1)}` : s;
-}
-
-/** "between −2 and 25 mag": the one range notation of the planner. */
-export function between(min: number, max: number, unit = ''): string {
-  if (unit === '°') return `between ${rangeNumber(min)}° and ${rangeNumber(max)}°`;
-  return `between ${rangeNumber(min)} and ${rangeNumber(max)}${unit ? ` ${unit}` : ''}`;
-}
+/** The product's one number and range notation (shared with the server's messages). */
+export { between, displayNumber as rangeNumber } from '@spincycle/shared/http/range-text';
 
 /** The range of an observed colour that the relations accept, after the typed E(B−V). */
 export function observedColourRange(system: TargetColourSystem, ebv: number): { min: number; max: number; minExclusive: boolean } {
@@ -52,18 +45,17 @@ function usableReddening(value: PlannerValue): number {
 }
 
 /**
- * A warning next to the colour system when the typed colour is implausible for it: outside
- * what the chosen system covers for F5–M5 dwarfs but inside the other system's range (the usual
- * mix-up of B−V and BP−RP). Null otherwise.
+ * A warning next to the colour system when the typed colour is implausible for it (outside the
+ * F5V–M5V dwarf sequence of that system, after the typed reddening): the same check and words
+ * as the target dialog and the CSV upload (shared/src/proposals/colour-plausibility.ts). Null
+ * otherwise.
  */
 export function colourSystemWarning(value: PlannerValue): string | null {
   const v = value.colourValue;
-  if (v === null || !Number.isFinite(v)) return null;
   const ebv = usableReddening(value);
-  const chosen = value.colourSystem;
-  const other = OTHER_SYSTEM[chosen];
-  if (inColourRange(v, chosen, ebv) || !inColourRange(v, other, ebv)) return null;
-  return `${rangeNumber(v)} mag is not a plausible ${colourLabel(chosen)} of an F5–M5 dwarf, but it is a plausible ${colourLabel(other)}: check the colour system.`;
+  // A colour no relation takes in either system gets its error under the field; said once.
+  if (v !== null && Number.isFinite(v) && !inColourRange(v, value.colourSystem, ebv) && !inColourRange(v, OTHER_SYSTEM[value.colourSystem], ebv)) return null;
+  return colourPlausibilityWarning(v, value.colourSystem, ebv);
 }
 
 /** Every bad field of the star, node and detection inputs, in the user's own numbers. */
@@ -86,7 +78,7 @@ export function validatePlannerValue(value: PlannerValue, node: Pick<TelescopeNo
       const reddened = ebv > 0 ? ` with E(B−V) = ${rangeNumber(ebv)}` : '';
       const edge = r.minExclusive && c === r.min ? `, ${rangeNumber(r.min)} itself excluded` : '';
       // A value of the other system is said once, beside the system toggle (colourSystemWarning).
-      set('colourValue', `Enter a ${label} colour ${between(r.min, r.max, 'mag')}${reddened}${edge}${typed(c)}.`);
+      set('colourValue', `Enter a ${label} colour ${between(Math.round(r.min * 100) / 100, Math.round(r.max * 100) / 100, 'mag')}${reddened}${edge}${typed(c)}.`);
     }
   }
 
