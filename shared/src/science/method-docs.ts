@@ -105,8 +105,13 @@ export const METHOD_SECTIONS = [
   'checked-values',
 ] as const;
 
+/** The section anchor of a plan or sky quantity, e.g. `completeness`; null for an unknown key. */
+export function methodsAnchorFor(key: string): string | null {
+  return (PLAN_QUANTITY_DOCS as Record<string, string>)[key] ?? (SKY_QUANTITY_DOCS as Record<string, string>)[key] ?? null;
+}
+
 /** The Methods page link of a plan or sky quantity, e.g. `/methods#completeness`; null for an unknown key. */
 export function methodsLinkFor(key: string): string | null {
-  const anchor = (PLAN_QUANTITY_DOCS as Record<string, string>)[key] ?? (SKY_QUANTITY_DOCS as Record<string, string>)[key];
-  return anchor === undefined ? null : `${METHODS_PAGE_PATH}#${anchor}`;
+  const anchor = methodsAnchorFor(key);
+  return anchor === null ? null : `${METHODS_PAGE_PATH}#${anchor}`;
 }

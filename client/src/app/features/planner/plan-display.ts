@@ -9,7 +9,7 @@ import type { TargetPlan, TargetPlanQuantities } from '@spincycle/shared/science
 import { MAG_PER_RELATIVE_FLUX } from '@spincycle/shared/science/visit-precision';
 import { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS } from '@spincycle/shared/science/quantity-labels';
 import { formatMinorCurrency, formatPercent } from '../../ui/units/format-units';
-import { plainText, provenanceOf, type ProvenanceKind } from './plan-wording';
+import { plainText, provenanceOf, type ProvenanceKind } from '../../ui/text/plan-wording';
 
 export { QUANTITY_LABELS, SOURCE_TAG_DESCRIPTIONS as TAG_DESCRIPTIONS };
 

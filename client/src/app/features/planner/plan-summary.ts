@@ -11,7 +11,7 @@ import { formatMinorCurrency, formatPercent } from '../../ui/units/format-units'
 import { cadenceStory, type CadenceStory, completenessPrices, formatValue, noExpectedPeriodFlag, noExpectedPeriodReason, ppmToMmag } from './plan-display';
 
 export { cadenceStory, type CadenceStory, visitNightWords } from './plan-display';
-import { plainSentence } from './plan-wording';
+import { plainSentence } from '../../ui/text/plan-wording';
 
 /**
  * Thresholds past which a plan that the science allows is still not a sensible request for one

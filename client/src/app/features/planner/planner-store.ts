@@ -20,7 +20,7 @@ import { loadErrorText, readApiError } from '../../core/http/api-error-message';
 import { gyrochroneSeries, periodColourSeries, type StarMarker } from './gyro-curves';
 import { formatValue, noExpectedPeriodFlag } from './plan-display';
 import { buildPlanSummary, invalidSummary, type PlanSummary, SUMMARY_WARNING_FLAGS, uniqueSentences } from './plan-summary';
-import { plainFlag } from './plan-wording';
+import { plainFlag } from '../../ui/text/plan-wording';
 import {
   controlForScienceField,
   controlForSkyField,

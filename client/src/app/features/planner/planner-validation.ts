@@ -12,7 +12,7 @@ import { parseDec, parseRa } from '@spincycle/shared/sky/ra-dec-parser';
 import { SkyInputError } from '@spincycle/shared/sky/sky-input-error';
 import { between, displayNumber as rangeNumber } from '@spincycle/shared/http/range-text';
 import { colourPlausibilityWarning } from '@spincycle/shared/proposals/colour-plausibility';
-import { plainSentence } from './plan-wording';
+import { plainSentence } from '../../ui/text/plan-wording';
 import { COMPLETENESS_PERCENT_RANGE, type FieldErrors, type PlannerField, type PlannerValue } from './planner-form';
 
 /** Ranges of the science core (visit-precision.ts, target-plan.ts), in the form's units. */

@@ -1,6 +1,7 @@
 import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
 import { computeTargetPlan } from '@spincycle/shared/science/target-plan';
-import { plainFlag } from '../plan-wording';
+import { plainFlag } from '../../../ui/text/plan-wording';
 import { TEST_SITE, testNode } from '../planner-test-data';
 import { PlannerPlan } from './planner-plan';
 
@@ -13,6 +14,7 @@ describe('PlannerPlan', () => {
   const q = (selector: string) => host().querySelector(selector) as HTMLElement | null;
 
   beforeEach(async () => {
+    TestBed.configureTestingModule({ providers: [provideRouter([])] });
     fixture = TestBed.createComponent(PlannerPlan);
     fixture.componentRef.setInput('plan', PLAN);
     fixture.componentRef.setInput('nodeCode', 'N1');
@@ -30,7 +32,17 @@ describe('PlannerPlan', () => {
     expect(cadence.querySelector('.num')?.textContent).toBe('Every night');
     expect(cadence.querySelector('.alt')?.textContent).toContain('visits per night');
     expect(cadence.querySelector('.why')?.textContent).toContain('sample interval of 1.02 d');
-    expect(q('[data-key=amplitudeRperPpm] mat-panel-title')?.textContent).toBe('Spot amplitude Rₚₑᵣ');
+    expect(q('[data-key=amplitudeRperPpm] mat-panel-title')?.textContent).toBe('Spot amplitude (Rₚₑᵣ)');
+  });
+
+  it('every panel links to the section of the Methods page that derives its number', () => {
+    const link = (key: string) => q(`[data-key=${key}] .methods-link a`)?.getAttribute('href');
+    expect(link('completeness')).toBe('/methods#completeness');
+    expect(link('cadence')).toBe('/methods#cadence');
+    expect(link('periodDays')).toBe('/methods#gyrochronology');
+    for (const panel of Array.from(host().querySelectorAll('mat-expansion-panel.explanation'))) {
+      expect(panel.querySelector('.methods-link a')?.textContent).toContain('How this is computed');
+    }
   });
 
   it('a panel opens from the keyboard and shows the reason, the formula and source, and the kind of source', async () => {

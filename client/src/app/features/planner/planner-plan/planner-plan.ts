@@ -1,10 +1,12 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, LOCALE_ID } from '@angular/core';
 import { MatAccordion, MatExpansionPanel, MatExpansionPanelDescription, MatExpansionPanelHeader, MatExpansionPanelTitle } from '@angular/material/expansion';
 import { MatIcon } from '@angular/material/icon';
+import { RouterLink } from '@angular/router';
+import { methodsAnchorFor } from '@spincycle/shared/science/method-docs';
 import type { ScienceFlag } from '@spincycle/shared/science/explained';
 import type { TargetPlan } from '@spincycle/shared/science/target-plan';
 import { allQuantityRows, cadenceStory, completenessPrices, keyRows, noExpectedPeriodFlag, type QuantityRow, searchBandSentence, SEVERITY_LABELS } from '../plan-display';
-import { PROVENANCE_DESCRIPTIONS, PROVENANCE_LABELS } from '../plan-wording';
+import { PROVENANCE_DESCRIPTIONS, PROVENANCE_LABELS } from '../../../ui/text/plan-wording';
 
 /** The cadence quantities, explained together in one panel. */
 const CADENCE_KEYS: ReadonlySet<string> = new Set(['visitsPerNight', 'visitNights', 'sampleIntervalDays']);
@@ -21,6 +23,8 @@ export interface ExplanationPanel {
   provenanceLabel: string;
   provenanceDescription: string;
   provenance: string;
+  /** Section of the Methods page that derives this number (null when none). */
+  methodsAnchor: string | null;
 }
 
 /**
@@ -31,7 +35,7 @@ export interface ExplanationPanel {
 @Component({
   selector: 'app-planner-plan',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [MatAccordion, MatExpansionPanel, MatExpansionPanelDescription, MatExpansionPanelHeader, MatExpansionPanelTitle, MatIcon],
+  imports: [MatAccordion, MatExpansionPanel, MatExpansionPanelDescription, MatExpansionPanelHeader, MatExpansionPanelTitle, MatIcon, RouterLink],
   templateUrl: './planner-plan.html',
   styleUrl: './planner-plan.scss',
 })
@@ -43,6 +47,7 @@ export class PlannerPlan {
 
   private readonly locale = inject(LOCALE_ID);
   protected readonly severityLabels = SEVERITY_LABELS;
+  protected readonly methodsAnchorFor = methodsAnchorFor;
 
   protected readonly panels = computed<ExplanationPanel[]>(() => {
     const plan = this.plan();
@@ -79,6 +84,7 @@ export class PlannerPlan {
       provenanceLabel: interval?.tagLabel ?? PROVENANCE_LABELS.assumption,
       provenanceDescription: interval?.provenanceDescription ?? PROVENANCE_DESCRIPTIONS.assumption,
       provenance: interval?.provenance ?? 'assumption',
+      methodsAnchor: methodsAnchorFor('sampleIntervalDays'),
     };
   }
 }
@@ -95,5 +101,6 @@ function toPanel(row: QuantityRow): ExplanationPanel {
     provenanceLabel: row.tagLabel,
     provenanceDescription: row.provenanceDescription,
     provenance: row.provenance,
+    methodsAnchor: methodsAnchorFor(row.key),
   };
 }

@@ -1,3 +1,4 @@
+import { provideRouter } from '@angular/router';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { HarnessLoader } from '@angular/cdk/testing';
@@ -92,7 +93,7 @@ describe('TargetPlanner', () => {
   let loader: HarnessLoader;
 
   beforeEach(() => {
-    TestBed.configureTestingModule({ imports: [TargetPlanner], providers: [provideHttpClient(), provideHttpClientTesting()] });
+    TestBed.configureTestingModule({ imports: [TargetPlanner], providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(TargetPlanner);
     loader = TestbedHarnessEnvironment.loader(fixture);

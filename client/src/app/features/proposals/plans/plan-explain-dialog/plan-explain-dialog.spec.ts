@@ -13,10 +13,12 @@ describe('explainRows', () => {
       'eur',
     );
     expect(rows.map((r) => r.label)).toEqual(['Expected rotation period', 'Baseline for the period precision', 'Fee', 'Something new']);
-    expect(rows[0]).toEqual(expect.objectContaining({ value: '10.23', unit: 'd', tagLabel: 'from the paper' }));
+    expect(rows[0]).toEqual(expect.objectContaining({ value: '10.23', unit: 'd', tagLabel: 'Published relation', methodsAnchor: 'gyrochronology' }));
     expect(rows[1].value).toBe('—');
     expect(rows[2]).toEqual(expect.objectContaining({ value: '€194.00', unit: '' }));
-    expect(rows[3]).toEqual(expect.objectContaining({ unit: '', tagLabel: 'our choice' }));
+    expect(rows[3]).toEqual(expect.objectContaining({ unit: '', tagLabel: 'Spincycle assumption', methodsAnchor: null }));
+    // No developer wording: provenance words, not tags.
+    for (const r of rows) expect(r.tagLabel).not.toMatch(/from memory|our choice|from the paper/);
   });
 
   it('completeness asked for and delivered read as percentages; counts in full', () => {
@@ -59,9 +61,10 @@ describe('PlanExplainDialog', () => {
     const { MAT_DIALOG_DATA } = await import('@angular/material/dialog');
     const { PlanExplainDialog } = await import('./plan-explain-dialog');
     const { testPlanRow } = await import('../../testing/fixtures');
+    const { provideRouter } = await import('@angular/router');
     TestBed.configureTestingModule({
       imports: [PlanExplainDialog],
-      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(3, 1) } }],
+      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(3, 1) } }],
     });
     const backend = TestBed.inject(HttpTestingController);
     const fixture = TestBed.createComponent(PlanExplainDialog);
@@ -76,12 +79,13 @@ describe('PlanExplainDialog', () => {
     const text = (fixture.nativeElement as HTMLElement).querySelector('[data-testid=quantities]')!.textContent!;
     expect(text).toContain('Expected rotation period');
     expect(text).toContain('Barnes (2007), ApJ 669, 1167');
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid=quantities] .methods-link')?.getAttribute('href')).toBe('/methods#gyrochronology');
     backend.verify();
 
     TestBed.resetTestingModule();
     TestBed.configureTestingModule({
       imports: [PlanExplainDialog],
-      providers: [provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(4, 1) } }],
+      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(4, 1) } }],
     });
     const backend2 = TestBed.inject(HttpTestingController);
     const failing = TestBed.createComponent(PlanExplainDialog);

@@ -5,7 +5,10 @@ import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import type { TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
 import type { Explained, FlagSeverity, ScienceFlag, SourceTag } from '@spincycle/shared/science/explained';
-import { QUANTITY_LABELS, SOURCE_TAG_LABELS } from '@spincycle/shared/science/quantity-labels';
+import { methodsAnchorFor } from '@spincycle/shared/science/method-docs';
+import { QUANTITY_LABELS } from '@spincycle/shared/science/quantity-labels';
+import { RouterLink } from '@angular/router';
+import { plainFlag, plainSentence, provenanceOf } from '../../../../ui/text/plan-wording';
 import { loadErrorText } from '../../../../core/http/api-error-message';
 import { reasonSentence } from '../../../../ui/text/reason-sentence';
 import { FeeWhyPipe } from '../../../../ui/units/fee-why-pipe';
@@ -32,7 +35,10 @@ export interface ExplainedRow {
   why: string;
   source: string;
   tag: SourceTag;
+  /** The kind of source in plain words (published relation, node parameter, assumption, your input, calculation). */
   tagLabel: string;
+  /** Section of the Methods page that derives the number, or null. */
+  methodsAnchor: string | null;
 }
 
 /** The blocking flag saying that no relation gives the star a period, or undefined. */
@@ -68,9 +74,22 @@ export function explainRows(
       value = formatPercent(q.value, locale);
       unit = '';
     } else if (key === 'periodDays' && noPeriod) {
-      return { key, label: QUANTITY_LABELS.periodDays, value: 'No expected period', unit: '', why: reasonSentence(noPeriod.message), source: noPeriod.source ?? q.source, tag: q.tag, tagLabel: SOURCE_TAG_LABELS[q.tag] ?? q.tag };
+      const source = noPeriod.source ?? q.source;
+      const p = provenanceOf({ source, tag: q.tag });
+      return { key, label: QUANTITY_LABELS.periodDays, value: 'No expected period', unit: '', why: plainSentence(reasonSentence(noPeriod.message)), source: p.reference, tag: q.tag, tagLabel: p.label, methodsAnchor: methodsAnchorFor(key) };
     }
-    return { key, label: (QUANTITY_LABELS as Record<string, string>)[key] ?? humanize(key), value, unit, why: q.why, source: q.source, tag: q.tag, tagLabel: SOURCE_TAG_LABELS[q.tag] ?? q.tag };
+    const p = provenanceOf(q);
+    return {
+      key,
+      label: (QUANTITY_LABELS as Record<string, string>)[key] ?? humanize(key),
+      value,
+      unit,
+      why: plainSentence(q.why),
+      source: p.reference,
+      tag: q.tag,
+      tagLabel: p.label,
+      methodsAnchor: methodsAnchorFor(key),
+    };
   });
 }
 
@@ -78,7 +97,7 @@ export function explainRows(
 @Component({
   selector: 'app-plan-explain-dialog',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [FeeWhyPipe, MatButton, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle, MatIcon, MatProgressBar],
+  imports: [FeeWhyPipe, MatButton, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle, MatIcon, MatProgressBar, RouterLink],
   templateUrl: './plan-explain-dialog.html',
   styleUrl: './plan-explain-dialog.scss',
 })
@@ -104,6 +123,8 @@ export class PlanExplainDialog {
     return `Period from ${this.row.relationLabel}.`;
   });
   protected readonly severityWords = SEVERITY_WORDS;
+  /** The row's flags, messages and sources in plain words. */
+  protected readonly flags = this.row.flags.map(plainFlag);
   protected readonly reasonSentence = reasonSentence;
   protected readonly loadError = computed(() => loadErrorText(this.explanation.error(), 'The numbers could not be loaded.'));
 }
