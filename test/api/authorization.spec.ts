@@ -169,6 +169,8 @@ const ROUTES: RouteCase[] = [
       return b.put(`/api/cycles/${id}`, { version: 1, cycle: { ...cycleInput(code), title: 'Edited by the matrix' } });
     },
   },
+  // The proposals submitted to a cycle, with the pressure per node: facility managers only.
+  { name: 'GET /api/cycles/:id/proposals', access: ['facility_manager'], ok: 200, call: (b) => b.get(`/api/cycles/${net.cycleId}/proposals`) },
   // proposal-routes.ts outside /:id
   { name: 'GET /api/proposals', access: 'signed-in', ok: 200, call: (b) => b.get('/api/proposals') },
   { name: 'POST /api/proposals', access: ['proposer'], ok: 201, call: (b) => b.post('/api/proposals', { cycleId: net.cycleId, title: 'Matrix proposal' }) },

@@ -1,3 +1,5 @@
+import type { CapacityOverrunRule } from '../cycles/cycle-schemas';
+
 /**
  * Sites, nodes and cycles as the API returns them. The science core takes the plain
  * `SiteSpec` / `NodeSpec` parts, so a plan can be computed from these objects directly.
@@ -84,6 +86,11 @@ export interface Cycle {
   campaignStart: string;
   campaignEnd: string;
   anonymousReview: boolean;
+  /**
+   * A proposal asking a node for more node-hours than the cycle offers there: `warn` (the
+   * default) or `block` its submission. The server always sends it; absent reads as `warn`.
+   */
+  capacityOverrun?: CapacityOverrunRule;
   categories: string[];
   /** Optimistic-concurrency version: an update must name the version it read. */
   version: number;

@@ -6,6 +6,7 @@
  */
 import type { NodeSpec, SiteSpec } from '../facility/facility-types';
 import { DEFAULT_EXTINCTION_MAG_PER_AIRMASS } from '../science/photometric-bands';
+import { countOf } from '../science/explained';
 import { computeTargetPlan, type PlanSkyConditions, type TargetPlan, type TargetPlanOptions, type TargetPlanTarget } from '../science/target-plan';
 import { assessCadence, type CadenceAssessment, type CadenceRequirement } from '../sky/cadence-assessment';
 import { nightlySkyBrightness } from '../sky/moon-sky-brightness';
@@ -77,7 +78,7 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
     if (season.multiSeason) {
       suggestions.push({
         kind: 'multi_season',
-        message: `A multi-season plan: ${season.multiSeason.seasons} seasons of about ${Math.round(season.multiSeason.perSeasonBaselineDays)} d each (it spans several cycles; propose each season in its own cycle).`,
+        message: `A multi-season plan: ${countOf(season.multiSeason.seasons, 'season')} of about ${Math.round(season.multiSeason.perSeasonBaselineDays)} d each (it spans several cycles; propose each season in its own cycle).`,
       });
     }
   }
@@ -106,7 +107,7 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
     if (sky.maxNightlyUsableHours > 0 && nightlyCapacity < req.visitsPerNight) {
       suggestions.push({
         kind: 'fewer_samples',
-        message: `The longest nightly window (${sky.maxNightlyUsableHours.toFixed(1)} h) holds ${nightlyCapacity} of the ${req.visitsPerNight} visits per night: fewer samples per cycle, or a node where the target culminates higher.`,
+        message: `The longest nightly window (${sky.maxNightlyUsableHours.toFixed(1)} h) holds ${nightlyCapacity} of the ${req.visitsPerNight} visits a night: fewer samples per cycle, or a node where the target culminates higher.`,
       });
     } else if (sky.qualifyingNights > 0 && sky.visitingNightsNeeded > sky.expectedClearNights) {
       const clearNights = Math.floor(sky.expectedClearNights);
@@ -115,8 +116,8 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
         kind: 'more_visits_per_night',
         message:
           perNight <= nightlyCapacity
-            ? `About ${perNight} visits per night on the ${clearNights} expected clear nights would carry the ${req.totalVisits} visits (the nightly window holds up to ${nightlyCapacity}).`
-            : `Too few clear nights for ${req.totalVisits} visits even at ${nightlyCapacity} per night: a node with less weather loss, or a brighter comparison setup that needs fewer visits.`,
+            ? `About ${perNight} visits a night on the ${countOf(clearNights, 'expected clear night')} would carry the ${countOf(req.totalVisits, 'visit')} (the nightly window holds up to ${nightlyCapacity}).`
+            : `Too few clear nights for ${countOf(req.totalVisits, 'visit')} even at ${nightlyCapacity} a night: a node with less weather loss, or a brighter comparison setup that needs fewer visits.`,
       });
     }
     suggestions.push({ kind: 'other_node', message: 'Another node of the network may see this target longer in the campaign.' });

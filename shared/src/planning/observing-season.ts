@@ -13,6 +13,7 @@
  * - A season touching the first or last night of the windows may be cut by the campaign; it
  *   is flagged, because the target's true season may be longer.
  */
+import { countOf } from '../science/explained';
 import { requireFiniteInRange } from '../sky/sky-input-error';
 import type { TargetWindows } from '../sky/sky-types';
 import { isUsableNight } from '../sky/sky-windows';
@@ -115,7 +116,7 @@ export interface SeasonAssessment {
   longestSeason: ObservingSeason | null;
 }
 
-const plural = (n: number, word: string): string => `${n} ${word}${n === 1 ? '' : 's'}`;
+const plural = (n: number, word: string): string => countOf(n, word);
 
 /**
  * Checks whether a baseline of `baselineDays` fits in one observing season of the target at
@@ -156,6 +157,6 @@ export function assessSeason(windows: TargetWindows, baselineDays: number, opts:
     multiSeason: { seasons: count, perSeasonBaselineDays: perSeason },
     reason:
       `a baseline of ${plural(Math.round(baseline), 'day')} does not fit in one observing season: the target's longest season from this site is ${plural(longestSeasonDays, 'day')} (${span})${cut}.` +
-      ` A multi-season plan would observe ${count} seasons of about ${plural(Math.round(perSeason), 'day')} each; it spans several observing cycles (this campaign holds ${plural(seasons.length, 'season')}), and the gaps between seasons add yearly aliases to the period search (common practice, no source)`,
+      ` A multi-season plan would observe ${plural(count, 'season')} of about ${plural(Math.round(perSeason), 'day')} each; it spans several observing cycles (this campaign holds ${plural(seasons.length, 'season')}), and the gaps between seasons add yearly aliases to the period search (standard observing practice; see Methods: Observing season)`,
   };
 }

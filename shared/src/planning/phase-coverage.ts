@@ -50,7 +50,7 @@ function binsScratch(bins: number): Uint8Array {
 }
 
 function requireBins(bins: number): number {
-  if (!Number.isInteger(bins) || bins < 1 || bins > 10_000) throw new SkyInputError('bins', `must be a whole number within 1…10000, got ${bins}`);
+  if (!Number.isInteger(bins) || bins < 1 || bins > 10_000) throw new SkyInputError('bins', `must be a whole number between 1 and 10,000, got ${bins}`);
   return bins;
 }
 

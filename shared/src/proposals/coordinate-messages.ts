@@ -21,7 +21,7 @@ export function coordinateMessage(kind: CoordinateKind, reason: string, typed: s
   if (kind === 'ra' && /must be below (24 h|360°)|cannot be negative/.test(reason)) {
     return withTyped(`Enter a right ascension ${between(0, 24, 'h')} or ${between(0, 360, '°')}`, typed);
   }
-  if (kind === 'dec' && /must be within/.test(reason)) return withTyped(`Enter a declination ${between(-90, 90, '°')}`, typed);
+  if (kind === 'dec' && /must be (within|between)/.test(reason)) return withTyped(`Enter a declination ${between(-90, 90, '°')}`, typed);
   const part = /^(minutes|seconds) must be below 60/.exec(reason);
   if (part) return withTyped(`Keep the ${part[1]} of the ${NOUN[kind]} below 60`, typed);
   if (/cannot be given in hours/.test(reason)) return withTyped('Give the declination in degrees, not hours', typed);

@@ -6,6 +6,7 @@
  * Table: Pecaut & Mamajek (2013), ApJS 208, 9, Table 5 (updated table v2024.05.15 by its
  * author), rows F5V–M5V as copied into SCIENCE.md §4 [paper].
  */
+import { between, displayNumber } from '../http/range-text';
 import { ScienceInputError, requireFinite, requireNonNegative } from './science-input-error';
 
 /** Colour systems a target's colour may be given in. */
@@ -93,6 +94,9 @@ const COLUMN: Record<SequenceQuantity, keyof Omit<SequenceRow, 'spectralType'>> 
   absMagV: 'absMagV',
 };
 
+/** Unit of each quantity, for messages. */
+const UNIT: Record<SequenceQuantity, string> = { BV: 'mag', BPRP: 'mag', VKs: 'mag', teffK: 'K', massSolar: 'M☉', absMagV: 'mag' };
+
 const LABEL: Record<SequenceQuantity, string> = {
   BV: 'B−V',
   BPRP: 'BP−RP',
@@ -131,7 +135,7 @@ export function dwarfSequenceAt(quantity: SequenceQuantity, value: number, field
   if (value < min || value > max) {
     throw new ScienceInputError(
       field,
-      `${LABEL[quantity]} ${value} is outside the dwarf colour sequence (${min}–${max}, ${rows[0].spectralType}–${rows[n - 1].spectralType}; Pecaut & Mamajek 2013)`,
+      `${LABEL[quantity]} ${displayNumber(value)} is outside the dwarf colour sequence (${between(min, max, UNIT[quantity])}, ${rows[0].spectralType}–${rows[n - 1].spectralType}; Pecaut & Mamajek 2013)`,
     );
   }
   // Segment i..i+1 that brackets the value (tables are short: a linear scan is fastest).
@@ -173,10 +177,11 @@ export function convertColour(value: number, from: ColourSystem, to: ColourSyste
  */
 export const REDDENING_RATIOS: Readonly<Record<ColourSystem, { ratio: number; source: string }>> = {
   BV: { ratio: 1, source: 'definition of E(B−V)' },
-  BPRP: { ratio: 1.339, source: 'Casagrande & VandenBerg (2018), MNRAS 479, L102, Table 2 (from memory)' },
+  // Both ratios from memory (docs/science.md "Checked values": paper confirmed, values not reached).
+  BPRP: { ratio: 1.339, source: 'Casagrande & VandenBerg (2018), MNRAS 479, L102, Table 2' },
   VKs: {
     ratio: 3.1 * (1 - 0.114),
-    source: 'Cardelli, Clayton & Mathis (1989), ApJ 345, 245, Table 3, A_K/A_V = 0.114 with R_V = 3.1 (from memory)',
+    source: 'Cardelli, Clayton & Mathis (1989), ApJ 345, 245, Table 3, A_K/A_V = 0.114 with R_V = 3.1',
   },
 };
 
@@ -234,13 +239,20 @@ export function resolveColour(
   return { observed, reddeningEbvMag: ebv, intrinsic, sequence };
 }
 
-/** The resolved colour's sequence point, or a ScienceInputError when it lies outside the table. */
+/**
+ * The resolved colour's sequence point, or a ScienceInputError when it lies outside the table.
+ * The message quotes the colour as typed; with reddening it also says what removing it gave.
+ */
 export function requireSequence(resolved: ResolvedColour, field = 'colour.value'): DwarfSequencePoint {
   if (resolved.sequence) return resolved.sequence;
-  const { min, max } = sequenceRange(resolved.intrinsic.system);
+  const system = resolved.intrinsic.system;
+  const { min, max } = sequenceRange(system);
+  const typed = `${LABEL[resolved.observed.system]} ${displayNumber(resolved.observed.value)}`;
+  const dereddened =
+    resolved.reddeningEbvMag > 0 ? ` (${displayNumber(round(resolved.intrinsic.value))} after removing the reddening E(B−V) = ${displayNumber(resolved.reddeningEbvMag)})` : '';
   throw new ScienceInputError(
     field,
-    `intrinsic ${LABEL[resolved.intrinsic.system]} ${round(resolved.intrinsic.value)} is outside the dwarf colour sequence (${min}–${max}; Pecaut & Mamajek 2013)`,
+    `${typed}${dereddened} is outside the dwarf colour sequence (${between(min, max, UNIT[system])}; Pecaut & Mamajek 2013)`,
   );
 }
 

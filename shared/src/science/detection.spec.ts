@@ -16,7 +16,8 @@ import {
 import { baluevFalseAlarmProbability } from './lomb-scargle/false-alarm';
 
 describe('periodPrecision', () => {
-  it('σP ≈ 0.101 d for N 60, A 0.005, σ 0.003, T 60 d, P 10 d (SCIENCE.md §8 #15, [derived] from the Montgomery & O\'Donoghue 1999 form — from memory)', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('σP ≈ 0.101 d for N 60, A 0.005, σ 0.003, T 60 d, P 10 d (SCIENCE.md §8 #15, [derived] from the Montgomery & O\'Donoghue 1999 form)', () => {
     const r = periodPrecision({ visits: 60, semiAmplitudePpm: 5000, sigmaPpm: 3000, baselineDays: 60, periodDays: 10 });
     expect(r.sigmaPeriodDays).toBeCloseTo(0.101, 3);
   });
@@ -34,7 +35,7 @@ describe('marcumQ1', () => {
     for (const a of [0, 0.3, 4, 30]) expect(marcumQ1(a, 0)).toBe(1);
   });
 
-  it('equals the integral of the Rice density from b to ∞ (derived here: Q1(a, b) = ∫ x·e^(−(x²+a²)/2)·I0(ax) dx, Simpson rule)', () => {
+  it('equals the integral of the Rice density from b to ∞ (derived: Q1(a, b) = ∫ x·e^(−(x²+a²)/2)·I0(ax) dx, Simpson rule)', () => {
     // I0 by its power series (Abramowitz & Stegun 1964, 9.6.12), scaled by e^(−ax) to stay finite.
     const i0Scaled = (z: number) => {
       let term = 1;
@@ -100,7 +101,7 @@ describe('detectionThresholdPower', () => {
   });
 
   it('rejects a FAP outside (0, 1), naming it', () => {
-    expect(() => detectionThresholdPower(10, 0)).toThrow(/falseAlarmProbability: must be within/);
+    expect(() => detectionThresholdPower(10, 0)).toThrow('falseAlarmProbability: must be greater than 0 and less than 1 (got 0)');
   });
 });
 

@@ -23,16 +23,23 @@
 import { baluevGamma, logGamma } from './lomb-scargle/false-alarm';
 import { requireInRange, requireNonNegative, requirePositive } from './science-input-error';
 
+// The non-central F form is derived in this product from the periodogram's definition (the
+// `[derived here]` note of SCIENCE.md); users read it as following from the definitions.
 export const DETECTION_SOURCE =
-  'Pd = P(Z > Z0), λ = n·A²/(2σ²): the sinusoid’s χ² is non-central with 2 degrees of freedom, the residual central with n − 3 (a non-central F tail; Marcum Q1 as n → ∞) [derived here]; Z0 from Baluev (2008), MNRAS 385, 1279, eq. 6';
+  'Pd = P(Z > Z0), λ = n·A²/(2σ²): the sinusoid’s χ² is non-central with 2 degrees of freedom, the residual central with n − 3 (a non-central F tail; Marcum Q1 as n → ∞), which follows from the definitions (see Methods: Detection probability (completeness)); Z0 from Baluev (2008), MNRAS 385, 1279, eq. 6';
 export const THRESHOLD_SOURCE =
   'Baluev (2008), MNRAS 385, 1279, eq. 6, large-N form: FAP(z) = 1 − (1 − e^(−z))·exp(−W·√z·e^(−z)), W = fmax·sqrt(4π·var t)';
+// Johnson, Kotz & Balakrishnan from memory: the chapter number is not checked (29 here, 30 in
+// the regularised-beta comment below; docs/science.md "Checked values"), so none is shown.
 export const MARCUM_SOURCE =
-  'Marcum Q1 as a Poisson mixture of χ² tails: Q1(a, b) = Σj Pois(j; a²/2)·P(Pois(b²/2) ≤ j) (Johnson, Kotz & Balakrishnan (1995), Continuous Univariate Distributions vol. 2, ch. 29, from memory)';
+  'Marcum Q1 as a Poisson mixture of χ² tails: Q1(a, b) = Σj Pois(j; a²/2)·P(Pois(b²/2) ≤ j) (Johnson, Kotz & Balakrishnan (1995), Continuous Univariate Distributions, vol. 2)';
+// Common practice, no single source (SCIENCE.md `practice` tag).
 export const NIGHTLY_NOISE_SOURCE =
-  'σ_night² = σ_white²/k + σ_floor²: the floor is correlated within a night (common practice, no single source)';
+  'σ_night² = σ_white²/k + σ_floor²: the floor is correlated within a night (an assumption of this product; see Methods: Nightly means)';
+// The Kovács (1981) form from memory; Montgomery & O'Donoghue's derivation and assumptions
+// confirmed, the formula itself not legible there (docs/science.md "Checked values").
 export const PERIOD_PRECISION_SOURCE =
-  'Montgomery & O\'Donoghue (1999), DSSN 13, 28; Kovács (1981) form (from memory): σf = sqrt(6/N)·σ/(π·A·T), σP = P²·σf';
+  'Montgomery & O\'Donoghue (1999), DSSN 13, 28: σf = sqrt(6/N)·σ/(π·A·T), σP = P²·σf';
 
 /** Completeness levels every plan reports the price of (the proposal's own level is added). */
 export const COMPLETENESS_LEVELS = [0.5, 0.9, 0.99] as const;

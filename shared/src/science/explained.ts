@@ -87,3 +87,18 @@ export function fmt(value: number, digits = 3): string {
 }
 
 const POW10 = [1, 10, 100, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12];
+
+/**
+ * A whole count as a sentence shows it: digits grouped with commas from 10 000 up
+ * ("12,932"), plain below ("2048"), so that a large number of visits or nights reads at a
+ * glance. Values themselves are never rounded by it.
+ */
+export function countText(n: number): string {
+  if (!Number.isFinite(n)) return String(n);
+  return Math.abs(n) >= 10000 ? n.toLocaleString('en-GB', { maximumFractionDigits: 0 }) : String(n);
+}
+
+/** "1 night", "181 nights", "12,932 visits": a count with its noun, singular for one. */
+export function countOf(n: number, singular: string, plural = `${singular}s`): string {
+  return `${countText(n)} ${n === 1 ? singular : plural}`;
+}

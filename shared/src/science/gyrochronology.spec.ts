@@ -188,7 +188,8 @@ const blocking = (r: { flags: { code: string; severity: string; message: string 
 describe('no number where the relation has none (calibration ranges)', () => {
   const sun = { relation: 'barnes2007' as const, colour: { value: 0.65, system: 'BV' as const } };
 
-  it('predictPeriod: an age above the age of the universe, 13 787 Myr (Planck Collaboration 2020, A&A 641, A6, from memory), gives no period', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('predictPeriod: an age above the age of the universe, 13 787 Myr (Planck Collaboration 2020, A&A 641, A6), gives no period', () => {
     const old = predictPeriod({ ...sun, ageMyr: 14000 });
     expect(old.noResult?.code).toBe('ageBeyondUniverse');
     expect(old.noResult?.reason).toMatch(/14000 Myr exceeds the age of the universe, 13787 Myr/);
@@ -201,7 +202,8 @@ describe('no number where the relation has none (calibration ranges)', () => {
     expect(AGE_OF_UNIVERSE_MYR).toBe(13787);
   });
 
-  it('estimateAge: a period whose Barnes (2007) age exceeds the age of the universe (Planck Collaboration 2020, from memory) gives no age', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('estimateAge: a period whose Barnes (2007) age exceeds the age of the universe (Planck Collaboration 2020) gives no age', () => {
     const slow = estimateAge({ ...sun, periodDays: 50 });
     expect(slow.ageMyr).toBeGreaterThan(AGE_OF_UNIVERSE_MYR);
     expect(slow.noResult?.code).toBe('ageBeyondUniverse');
@@ -211,7 +213,8 @@ describe('no number where the relation has none (calibration ranges)', () => {
     expect(ok.noResult).toBeNull();
   });
 
-  it('estimateAge: a period below the slow sequence (Ro ≤ 0.1 on the Noyes scale, Wright et al. 2011 saturation, from memory) gives no age, on any τ scale', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('estimateAge: a period below the slow sequence (Ro ≤ 0.1 on the Noyes scale, Wright et al. 2011 saturation) gives no age, on any τ scale', () => {
     const k2 = { relation: 'barnes2007' as const, colour: { value: 0.884, system: 'BV' as const } };
     const fast = estimateAge({ ...k2, periodDays: 1.5 });
     expect(fast.rossby?.rossby).toBeLessThan(0.1);
@@ -243,7 +246,8 @@ describe('no number where the relation has none (calibration ranges)', () => {
     expect(inside.noResult).toBeNull();
   });
 
-  it('F stars above the Kraft break ≈ 6200 K (Kraft 1967, ApJ 150, 551, from memory; Teff from Pecaut & Mamajek 2013) give no result', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('F stars above the Kraft break ≈ 6200 K (Kraft 1967, ApJ 150, 551; Teff from Pecaut & Mamajek 2013) give no result', () => {
     const hot = predictPeriod({ relation: 'angus2019', colour: { value: 0.6, system: 'BPRP' }, ageMyr: 2000 });
     expect(hot.noResult?.code).toBe('aboveKraftBreak');
     expect(hot.noResult?.reason).toMatch(/Teff ≈ 6505 K on the dwarf sequence, above the Kraft break ≈ 6200 K/);
@@ -266,7 +270,8 @@ describe('no number where the relation has none (calibration ranges)', () => {
   });
 });
 
-describe('convergence onto the slow sequence (Barnes 2003, ApJ 586, 464; Curtis et al. 2020, from memory)', () => {
+// The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+describe('convergence onto the slow sequence (Barnes 2003, ApJ 586, 464; Curtis et al. 2020)', () => {
   it('cautions mayNotHaveConverged for a K5 dwarf younger than its convergence age, and not when older', () => {
     const k5 = { relation: 'barnes2007' as const, colour: { value: 1.15, system: 'BV' as const } };
     expect(convergenceAgeMyr(4440)).toBeCloseTo(583, 0);
@@ -293,7 +298,8 @@ describe('convergence onto the slow sequence (Barnes 2003, ApJ 586, 464; Curtis 
   });
 });
 
-describe('weakened braking on the τ scale in use (van Saders et al. 2016, Nature 529, 181: Ro_crit ≈ Ro☉, from memory)', () => {
+// The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+describe('weakened braking on the τ scale in use (van Saders et al. 2016, Nature 529, 181: Ro_crit ≈ Ro☉)', () => {
   const g2 = { relation: 'barnes2007' as const, colour: { value: 0.65, system: 'BV' as const } };
 
   it('states the threshold as ≈ the solar Ro of each scale: 2.18 Noyes, 1.80 Wright 2011, 2.43 Wright 2018 [derived]', () => {
@@ -324,7 +330,8 @@ describe('weakened braking on the τ scale in use (van Saders et al. 2016, Natur
 });
 
 describe('intrinsic scatter in every range', () => {
-  it('Angus et al. (2019) at the solar colour and age, with no age error, has a non-zero range (scatter 5 %, from memory)', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('Angus et al. (2019) at the solar colour and age, with no age error, has a non-zero range (scatter 5 %)', () => {
     const p = predictPeriod({ relation: 'angus2019', colour: { value: 0.82, system: 'BPRP' }, ageMyr: 4570 });
     expect(p.periodDays).toBeCloseTo(26.02, 2); // SCIENCE.md §8 #4: the scatter leaves the central value alone
     expect(p.contributions.find((c) => c.parameter === 'cA')?.upperLn).toBeCloseTo(0, 9);
@@ -347,7 +354,8 @@ describe('intrinsic scatter in every range', () => {
     expect(a.rangeMyr.low).toBeLessThan(a.ageMyr);
   });
 
-  it('Mamajek & Hillenbrand (2008): 0.05 dex in age (from memory) is 0.05·ln 10 in ln age and n times that in ln P', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('Mamajek & Hillenbrand (2008): 0.05 dex in age is 0.05·ln 10 in ln age and n times that in ln P', () => {
     const a = estimateAge({ relation: 'mamajekHillenbrand2008', colour: { value: 0.7, system: 'BV' }, periodDays: 15 });
     expect(a.contributions.find((c) => c.parameter === 'intrinsicScatter')?.upperLn).toBeCloseTo(0.05 * Math.LN10, 12);
     expect(INTRINSIC_SCATTER.mamajekHillenbrand2008.lnPeriod).toBeCloseTo(0.566 * 0.05 * Math.LN10, 12);

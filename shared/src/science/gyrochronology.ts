@@ -119,8 +119,9 @@ export const GYRO_RELATION_INFO: Readonly<Record<GyroRelationId, GyroRelationInf
     citation: 'Barnes (2007), ApJ 669, 1167, eqs. 1–3',
     formula: 'P = a·((B−V)0 − c)^b·(t/Myr)^n',
     colourSystem: 'BV',
-    calibratedColour: { min: 0.4, max: 1.6, note: '(B−V)0 0.4–1.6 (from memory)' },
-    calibratedAgeMyr: { min: 100, max: 10000, note: '0.1–10 Gyr: stars on the I sequence (from memory)' },
+    // Colour and age limits from memory: the abstract says late F to early M stars (docs/science.md "Checked values").
+    calibratedColour: { min: 0.4, max: 1.6, note: '(B−V)0 0.4–1.6' },
+    calibratedAgeMyr: { min: 100, max: 10000, note: '0.1–10 Gyr: stars on the I sequence' },
   },
   mamajekHillenbrand2008: {
     id: 'mamajekHillenbrand2008',
@@ -129,7 +130,8 @@ export const GYRO_RELATION_INFO: Readonly<Record<GyroRelationId, GyroRelationInf
     formula: 'P = a·((B−V)0 − c)^b·(t/Myr)^n',
     colourSystem: 'BV',
     calibratedColour: { min: 0.5, max: 0.9, note: '0.5 < (B−V)0 < 0.9' },
-    calibratedAgeMyr: { min: 100, max: 10000, note: '0.1–10 Gyr (from memory)' },
+    // Age limits from memory.
+    calibratedAgeMyr: { min: 100, max: 10000, note: '0.1–10 Gyr' },
   },
   angus2015: {
     id: 'angus2015',
@@ -140,9 +142,11 @@ export const GYRO_RELATION_INFO: Readonly<Record<GyroRelationId, GyroRelationInf
     calibratedColour: {
       min: 0.45,
       max: 1.4,
-      note: 'F–K dwarfs: (B−V)0 0.45–1.40, the F5V–K7V span of the dwarf sequence above the relation offset c = 0.45 (derived)',
+      // Derived here from the dwarf sequence and the relation's offset c.
+      note: 'F–K dwarfs: (B−V)0 0.45–1.40, the F5V–K7V span of the dwarf sequence above the relation offset c = 0.45',
     },
-    calibratedAgeMyr: { min: 100, max: 10000, note: '0.1–10 Gyr (from memory)' },
+    // Age limits from memory.
+    calibratedAgeMyr: { min: 100, max: 10000, note: '0.1–10 Gyr' },
   },
   angus2019: {
     id: 'angus2019',
@@ -196,7 +200,7 @@ export function weakenedBrakingRossby(scale: TurnoverScale): number {
  * No star is older: a relation that needs a larger age has no answer.
  */
 export const AGE_OF_UNIVERSE_MYR = 13787;
-const AGE_OF_UNIVERSE_SOURCE = 'Planck Collaboration (2020), A&A 641, A6 (from memory)';
+const AGE_OF_UNIVERSE_SOURCE = 'Planck Collaboration (2020), A&A 641, A6';
 
 /**
  * The Kraft break, K: stars hotter than ≈ 6200 K have thin convective envelopes and do not spin
@@ -204,7 +208,8 @@ const AGE_OF_UNIVERSE_SOURCE = 'Planck Collaboration (2020), A&A 641, A6 (from m
  * dwarf sequence: (B−V)0 0.525, (BP−RP)0 0.688 at 6200 K.
  */
 export const KRAFT_BREAK_TEFF_K = 6200;
-const KRAFT_SOURCE = 'Kraft (1967), ApJ 150, 551 (from memory)';
+// From memory: not checked (docs/science.md "Checked values").
+const KRAFT_SOURCE = 'Kraft (1967), ApJ 150, 551';
 
 /**
  * (B−V)0 at and above which B−V no longer tracks mass, so a B−V relation cannot place the star:
@@ -227,7 +232,8 @@ export const BV_MASS_TRACKING_LIMIT = 1.42;
  * only a caution (Spincycle's choice).
  */
 export const FAST_ROTATOR_NOYES_ROSSBY = 0.1;
-const FAST_ROTATOR_SOURCE = 'Wright et al. (2011), ApJ 743, 48 (saturation at Ro ≈ 0.1, from memory); Barnes (2003), ApJ 586, 464';
+// Ro ≈ 0.1 from memory (0.13 on Wright's own τ scale; not checked).
+const FAST_ROTATOR_SOURCE = 'Wright et al. (2011), ApJ 743, 48 (saturation at Ro ≈ 0.1); Barnes (2003), ApJ 586, 464';
 
 /**
  * Convergence onto the slow sequence, for K and M dwarfs (Teff < 5300 K, K0V): age (Myr) below
@@ -247,7 +253,10 @@ export const CONVERGENCE_AGE_ANCHORS: readonly { teffK: number; ageMyr: number }
   { teffK: 4090, ageMyr: 1000 },
   { teffK: 3430, ageMyr: 2000 },
 ];
-const CONVERGENCE_SOURCE = 'Barnes (2003), ApJ 586, 464 (from memory); Curtis et al. (2020), ApJ 904, 140; interpolation is Spincycle\'s rule';
+// Barnes (2003) from memory, not re-read; the interpolation between the anchors is this
+// product's rule (formerly "Spincycle's rule").
+const CONVERGENCE_SOURCE =
+  'Barnes (2003), ApJ 586, 464; Curtis et al. (2020), ApJ 904, 140; the interpolation between them is an assumption of this product (see Methods: Expected period from colour and age (gyrochronology))';
 
 /** Convergence age (Myr) at an effective temperature, or null above 5300 K (see {@link CONVERGENCE_AGE_ANCHORS}). */
 export function convergenceAgeMyr(teffK: number): number | null {
@@ -271,22 +280,25 @@ export function convergenceAgeMyr(teffK: number): number | null {
 export const INTRINSIC_SCATTER: Readonly<Record<GyroRelationId, { lnPeriod: number; source: string }>> = {
   // Spread of the I sequence about the relation at fixed colour, a few per cent in period;
   // Barnes (2007), ApJ 669, 1167 (from memory: value not re-read; 5 % adopted).
-  barnes2007: { lnPeriod: 0.05, source: 'Barnes (2007), ApJ 669, 1167: few-per-cent width of the I sequence (from memory); 5 % adopted' },
+  barnes2007: { lnPeriod: 0.05, source: 'Barnes (2007), ApJ 669, 1167: a few per cent width of the I sequence; 5 % adopted' },
   // Mamajek & Hillenbrand (2008), ApJ 687, 1264: ≈ 0.05 dex in age for well-measured solar-type
   // stars (from memory, SCIENCE.md §1) → ln P scatter n·0.05·ln 10 = 0.566 × 0.1151 = 0.0652 [derived].
   mamajekHillenbrand2008: {
     lnPeriod: 0.566 * 0.05 * Math.LN10,
-    source: 'Mamajek & Hillenbrand (2008), ApJ 687, 1264: ≈ 0.05 dex in age (from memory), × n = 0.566 in ln P',
+    source: 'Mamajek & Hillenbrand (2008), ApJ 687, 1264: ≈ 0.05 dex in age, × n = 0.566 in ln P',
   },
   // Angus et al. (2015), MNRAS 450, 1787 find that no single relation fits all their subsets and
   // give no single scatter value (from memory); 10 % in period adopted (Spincycle's choice).
-  angus2015: { lnPeriod: 0.1, source: "Angus et al. (2015), MNRAS 450, 1787 gives no single scatter (from memory); 10 % adopted, Spincycle's choice" },
+  angus2015: {
+    lnPeriod: 0.1,
+    source: 'Angus et al. (2015), MNRAS 450, 1787 give no single scatter; 10 % adopted, an assumption of this product (see Methods: The plausible period range)',
+  },
   // Angus et al. (2019), AJ 158, 173: their variance model is zero for FGK dwarfs in the
   // calibrated range (read in the authors' code accompanying the paper); 5 % in period adopted for
   // the width of the slow sequence at fixed colour (from memory).
   angus2019: {
     lnPeriod: 0.05,
-    source: "Angus et al. (2019), AJ 158, 173: variance model zero for FGK dwarfs; 5 % adopted for the slow-sequence width (from memory)",
+    source: 'Angus et al. (2019), AJ 158, 173: variance model zero for FGK dwarfs; 5 % adopted for the width of the slow sequence',
   },
 };
 
@@ -444,8 +456,9 @@ export interface PeriodPrediction {
   flags: ScienceFlag[];
 }
 
+// This product's method, no published source (the `choice` tag of SCIENCE.md).
 export const PROPAGATION_METHOD =
-  'one-at-a-time first-order propagation in the logarithm of the result: each uncertain input moved by its ±1σ, the relation evaluated exactly there, increases and decreases added in quadrature (Spincycle\'s choice, no source)';
+  'one-at-a-time first-order propagation in the logarithm of the result: each uncertain input moved by its ±1σ, the relation evaluated exactly there, increases and decreases added in quadrature (an assumption of this product; see Methods: The plausible period range)';
 
 /** Period from colour and age by the chosen relation, with its range and flags. */
 export function predictPeriod(input: PeriodPredictionInput): PeriodPrediction {
@@ -472,7 +485,7 @@ export function predictPeriod(input: PeriodPredictionInput): PeriodPrediction {
     if (low < 0.1 * ageMyr) {
       low = 0.1 * ageMyr;
       flags.push(
-        flag('ageUncertaintyTruncated', 'info', `the age's −1σ (${fmt(ageMyr - ageSigma)} Myr) is cut at 10 % of the age for the period range`, "Spincycle's choice"),
+        flag('ageUncertaintyTruncated', 'info', `the age's −1σ (${fmt(ageMyr - ageSigma)} Myr) is cut at 10 % of the age for the period range`, 'an assumption of this product (see Methods: The plausible period range)'),
       );
     }
     contributions.push(contribution('ageMyr', lnP0, evaluate({ t: ageMyr + ageSigma }), evaluate({ t: low })));
@@ -836,8 +849,9 @@ function coefficientContributions(
       flag(
         'angus2019CoefficientsHeld',
         'info',
-        'Angus (2019) polynomial coefficients held fixed (their covariance is not published); the age exponent cA ± 0.05 is applied about the solar age',
-        "Spincycle's choice, no source",
+        `the coefficients of the Angus et al. (2019) colour polynomial are held fixed (their covariance is not published); only the age exponent (cA) is varied, by ±${cA.plus}, about the solar age`,
+        // This product's choice, no published source.
+        'an assumption of this product (see Methods: The plausible period range)',
       ),
     );
     return [contribution('cA', ln0, evaluate({ cA: cA.value + cA.plus }), evaluate({ cA: cA.value - cA.minus }))];

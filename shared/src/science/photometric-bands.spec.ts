@@ -2,7 +2,8 @@ import { resolveColour } from './colour-sequence';
 import { BAND_ZERO_POINTS, bandMinusV, convertMagnitude } from './photometric-bands';
 
 describe('BAND_ZERO_POINTS', () => {
-  it('gives ≈ 8.8e9 photons s⁻¹ m⁻² for V = 0 (Bessell et al. 1998 f_λ with an 88 nm band — from memory; ≈ 1000 photons s⁻¹ cm⁻² Å⁻¹)', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('gives ≈ 8.8e9 photons s⁻¹ m⁻² for V = 0 (Bessell et al. 1998 f_λ with an 88 nm band; ≈ 1000 photons s⁻¹ cm⁻² Å⁻¹)', () => {
     expect(BAND_ZERO_POINTS.V.photonsPerSecondPerM2).toBeGreaterThan(8.5e9);
     expect(BAND_ZERO_POINTS.V.photonsPerSecondPerM2).toBeLessThan(9.1e9);
   });
@@ -22,7 +23,8 @@ describe('convertMagnitude', () => {
     expect(c.offsetMag).toBe(0);
   });
 
-  it('moves V to B by the observed B−V, and G to V with the Riello et al. (2021) polynomial (from memory)', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('moves V to B by the observed B−V, and G to V with the Riello et al. (2021) polynomial', () => {
     const colour = resolveColour({ value: 0.65, system: 'BV' }, 0);
     expect(convertMagnitude({ value: 10, band: 'V' }, 'B', colour).magnitude).toBeCloseTo(10.65, 12);
     // Sun-like star: G − V = −0.1534 at BP−RP 0.823 [derived from the polynomial].

@@ -31,8 +31,10 @@ function zeroPoint(band: NodeBand, lambdaEffMicron: number, widthMicron: number,
   return { band, lambdaEffMicron, widthMicron, fLambdaZero, photonsPerSecondPerM2: perCm2 * 1e4, source };
 }
 
+// All values from memory: references confirmed, table values not reached (docs/science.md
+// "Checked values"). The photon flux is derived here.
 const BESSELL =
-  'λ_eff and f_λ zero points: Bessell, Castelli & Plez (1998), A&A 333, 231, Table A2; FWHM: the commonly tabulated Johnson–Cousins widths, Bessell (1990), PASP 102, 1181 (all from memory); photon flux f_λ·Δλ·λ_eff/(hc) derived';
+  'λ_eff and f_λ zero points: Bessell, Castelli & Plez (1998), A&A 333, 231, Table A2; FWHM: the commonly tabulated Johnson–Cousins widths, Bessell (1990), PASP 102, 1181; photon flux f_λ·Δλ·λ_eff/(hc)';
 
 /**
  * Photon zero points per band. B, V, R (Cousins), I (Cousins): see {@link BESSELL}.
@@ -50,7 +52,8 @@ export const BAND_ZERO_POINTS: Readonly<Record<NodeBand, BandZeroPoint>> = {
     0.673,
     0.44,
     217.7e-11 + ((0.673 - 0.641) / (0.798 - 0.641)) * (112.6e-11 - 217.7e-11),
-    'Jordi et al. (2010), A&A 523, A48 (λ0, FWHM; from memory); f_λ interpolated from Bessell, Castelli & Plez (1998), A&A 333, 231, Table A2 (from memory) [derived]',
+    // λ0, FWHM and f_λ from memory (references confirmed); the interpolation is derived here.
+    'Jordi et al. (2010), A&A 523, A48 (λ0, FWHM); f_λ interpolated from Bessell, Castelli & Plez (1998), A&A 333, 231, Table A2',
   ),
 };
 
@@ -65,7 +68,8 @@ export const DEFAULT_EXTINCTION_MAG_PER_AIRMASS: Readonly<Record<NodeBand, numbe
   I: 0.07,
   G: 0.12,
 };
-export const EXTINCTION_SOURCE = 'typical extinction at a good site (common practice, no source)';
+// Common practice, no single source.
+export const EXTINCTION_SOURCE = 'typical extinction at a good site (standard observing practice; see Methods: Per-visit precision of a node)';
 
 /**
  * Colour terms, band − V, as functions of the observed colours:
@@ -75,8 +79,10 @@ export const EXTINCTION_SOURCE = 'typical extinction at a good site (common prac
  * - G − Ic = 0.01753 + 0.76x − 0.0991x², with x = observed BP−RP:
  *   Riello et al. (2021), A&A 649, A3, Table C.2 (from memory).
  */
+// Table C.2 coefficients from memory: the table numbering and ranges are confirmed, the
+// coefficients not reached (docs/science.md "Checked values").
 export const BAND_TRANSFORM_SOURCE =
-  'B−V: the target colour; G−V, G−Rc, G−Ic polynomials in BP−RP: Riello et al. (2021), A&A 649, A3, Table C.2 (from memory)';
+  'B−V: the target colour; G−V, G−Rc, G−Ic polynomials in BP−RP: Riello et al. (2021), A&A 649, A3, Table C.2';
 
 /** band − V for a star of observed colours (B−V, BP−RP). */
 export function bandMinusV(band: NodeBand, observedBvMag: number, observedBpRpMag: number): number {

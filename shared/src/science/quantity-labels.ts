@@ -12,10 +12,10 @@ export const QUANTITY_LABELS: Readonly<Record<keyof TargetPlanQuantities, string
   periodDays: 'Expected rotation period',
   shortestPeriodDays: 'Shortest plausible period',
   longestPeriodDays: 'Longest plausible period',
-  turnoverTimeDays: 'Convective turnover time τc',
+  turnoverTimeDays: 'Convective turnover time (τc)',
   rossbyNumber: 'Rossby number',
   rossbyNumberAtLongestPeriod: 'Rossby number at the longest period',
-  amplitudeRperPpm: 'Spot amplitude R_per',
+  amplitudeRperPpm: 'Spot amplitude (Rₚₑᵣ)',
   semiAmplitudePpm: 'Semi-amplitude',
   magnitudeInNodeBand: "Magnitude in the node's band",
   airmass: 'Planning airmass',
@@ -38,8 +38,8 @@ export const QUANTITY_LABELS: Readonly<Record<keyof TargetPlanQuantities, string
   visitNights: 'Visit nights',
   searchMinFrequencyPerDay: 'Lowest searched frequency',
   searchMaxFrequencyPerDay: 'Highest searched frequency',
-  independentFrequencies: 'Independent frequencies W',
-  detectionThresholdPower: 'Detection threshold power z0',
+  independentFrequencies: 'Independent frequencies searched (W)',
+  detectionThresholdPower: 'Periodogram power needed for a detection (z₀)',
   requestedCompleteness: 'Completeness asked for',
   completeness: 'Completeness delivered',
   visitsForCadence: 'Visits for the cadence',
@@ -54,22 +54,27 @@ export const QUANTITY_LABELS: Readonly<Record<keyof TargetPlanQuantities, string
   feeMinor: 'Fee',
 };
 
-/** How much to trust a source, in a few words (SCIENCE.md tags). */
+/**
+ * The kind of source, in a few words a scientist recognises. The tags themselves keep the
+ * maintainers' trust levels (`memory`: recalled, not re-read; see SourceTag); users see the
+ * kind of provenance only: a published relation (its reference is in the source line), a
+ * calculation, standard practice, an assumption of this product, or the node's own value.
+ */
 export const SOURCE_TAG_LABELS: Readonly<Record<SourceTag, string>> = {
-  paper: 'from the paper',
-  derived: 'derived',
-  memory: 'from memory',
-  practice: 'common practice',
-  choice: 'our choice',
-  facility: "node's own data",
+  paper: 'published relation',
+  derived: 'calculation',
+  memory: 'published relation',
+  practice: 'standard observing practice',
+  choice: 'assumption of this product',
+  facility: 'node parameter',
 };
 
 /** The same, in a sentence (tooltips). */
 export const SOURCE_TAG_DESCRIPTIONS: Readonly<Record<SourceTag, string>> = {
-  paper: 'Read in the cited paper or its data release',
-  derived: 'Computed from a cited formula',
-  memory: 'Recalled, not re-read: verify before relying on it',
-  practice: 'A rule of the trade, no single source',
-  choice: 'A Spincycle default, no source',
+  paper: 'A relation or value from the literature; the reference is given',
+  derived: 'Computed from a published formula or from the definitions',
+  memory: 'A relation or value from the literature; the reference is given',
+  practice: 'Standard observing practice, not tied to one publication',
+  choice: 'An assumption of this product, explained on the Methods page',
   facility: "Taken from the node's own configuration or rate card",
 };

@@ -1,3 +1,5 @@
+import { between, displayNumber } from '../http/range-text';
+
 /**
  * The one error type of the science core: thrown for input that is missing, not finite,
  * out of its physical range, or outside every relation that could use it. The science core
@@ -47,14 +49,20 @@ export function requireNonNegative(value: unknown, field: string): number {
   return v;
 }
 
-/** Throws unless `min ≤ value ≤ max` (or `min < value < max` when `exclusive`). */
-export function requireInRange(value: unknown, field: string, min: number, max: number, exclusive = false): number {
+/**
+ * Throws unless `min ≤ value ≤ max` (or `min < value < max` when `exclusive`), in the one range
+ * notation of the product ("must be between −2 and 25 mag (got 40)"; shared/src/http/range-text).
+ * `unit` is written after the range when given.
+ */
+export function requireInRange(value: unknown, field: string, min: number, max: number, exclusive = false, unit = ''): number {
   const v = requireFinite(value, field);
   const bad = exclusive ? v <= min || v >= max : v < min || v > max;
   if (bad) {
-    const l = exclusive ? '(' : '[';
-    const r = exclusive ? ')' : ']';
-    throw new ScienceInputError(field, `must be within ${l}${min}, ${max}${r} (got ${v})`);
+    const u = unit === '' ? '' : unit === '°' ? '°' : ` ${unit}`;
+    const range = exclusive
+      ? `must be greater than ${displayNumber(min)} and less than ${displayNumber(max)}${u}`
+      : `must be ${between(min, max, unit)}`;
+    throw new ScienceInputError(field, `${range} (got ${displayNumber(v)})`);
   }
   return v;
 }

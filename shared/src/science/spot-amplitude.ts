@@ -34,8 +34,9 @@ export const DEFAULT_AMPLITUDE_MODEL: Readonly<AmplitudeModelCoefficients> = {
   anchorRossby: 2.18,
 };
 
+// This product's model (formerly "Spincycle's two-part model"), built on two published anchors.
 export const AMPLITUDE_MODEL_SOURCE =
-  "Spincycle's two-part model: saturated level from McQuillan, Mazeh & Aigrain (2014), ApJS 211, 24; solar anchor from Nèmec et al. (2020), A&A 638, A56; exponent derived by joining the two";
+  "a two-part model, an assumption of this product (see Methods: Spot amplitude): saturated level from McQuillan, Mazeh & Aigrain (2014), ApJS 211, 24; solar anchor from Nèmec et al. (2020), A&A 638, A56; exponent derived by joining the two";
 
 /** Validates a (partial) set of coefficients, filling the defaults. */
 export function amplitudeModel(overrides: Partial<AmplitudeModelCoefficients> = {}): AmplitudeModelCoefficients {

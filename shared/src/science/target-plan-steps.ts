@@ -65,7 +65,7 @@ export const EXPLICIT_PERIOD_DEFAULT_FRACTION = 0.1;
 export function periodStep(input: PeriodStepInput): PeriodStep {
   const colour = resolveColour(input.colour, input.reddeningEbvMag);
   const scaleChoice = input.turnoverScale
-    ? { scale: input.turnoverScale, why: 'chosen by the user' }
+    ? { scale: input.turnoverScale, why: 'your input' }
     : defaultTurnoverScaleFor(colour);
   const prediction = predictPeriod({
     relation: input.relation,
@@ -86,7 +86,7 @@ export function periodStep(input: PeriodStepInput): PeriodStep {
     const k = input.rangeSigma;
     // The relation's own verdict becomes information: the proposer's period replaces it.
     const kept = flags.map((f) => (f.code === 'noExpectedPeriod' ? { ...f, severity: 'info' as const } : f));
-    kept.push(flag('explicitPeriod', 'info', `the proposer's period ${fmt(p)} ± ${fmt(sigma)} d is used instead of ${prediction.relationLabel}`));
+    kept.push(flag('explicitPeriod', 'info', `your period ${fmt(p)} ± ${fmt(sigma)} d is used instead of ${prediction.relationLabel}`));
     return {
       colour,
       turnoverScale: scaleChoice.scale,
@@ -150,6 +150,7 @@ export interface CadenceStep {
   sampleIntervalDays: number;
   visitsPerNight: number;
   nightStepDays: number;
+  /** Why this many visits a night, in the words of the plan's cadence story (no leading count). */
   why: string;
 }
 
@@ -165,17 +166,14 @@ export function cadenceStep(shortestPeriodDays: number, samplesPerCycle: number,
       sampleIntervalDays,
       visitsPerNight: 1,
       nightStepDays,
-      why:
-        nightStepDays === 1
-          ? `one visit per night gives ≥ ${s} samples per ${fmt(pMin)}-d cycle`
-          : `one visit every ${nightStepDays} nights gives ≥ ${s} samples per ${fmt(pMin)}-d cycle`,
+      why: `one visit per visit night keeps a sample at least every ${fmt(sampleIntervalDays)} d`,
     };
   }
   let visitsPerNight = Math.ceil(s / pMin - 1e-9);
-  let why = `${visitsPerNight} visits per night give ≥ ${s} samples per ${fmt(pMin)}-d cycle`;
+  let why = `a sample at least every ${fmt(sampleIntervalDays)} d`;
   if (pMin < aliasPeriodDays && visitsPerNight < minVisitsPerNightShortPeriod) {
     visitsPerNight = minVisitsPerNightShortPeriod;
-    why = `${visitsPerNight} visits per night spread over the night break the 1 d⁻¹ aliases of periods under ${aliasPeriodDays} d`;
+    why = `spread over the night, they break the 1 d⁻¹ aliases of periods under ${aliasPeriodDays} d`;
   }
   return { samplesPerCycle: s, sampleIntervalDays, visitsPerNight, nightStepDays: 1, why };
 }

@@ -126,10 +126,11 @@ describe('computeTargetPlan', () => {
   });
 
   describe('with a fixed exposure (options.exposureSeconds)', () => {
-    it('honours the exposure and says the user chose it', () => {
+    it('honours the exposure and says it is your input', () => {
       const plan = computeTargetPlan(STAR, NODE, SITE, { exposureSeconds: 42 });
       expect(plan.quantities.exposureSeconds.value).toBe(42);
-      expect(plan.quantities.exposureSeconds.why).toMatch(/chosen by the user/);
+      expect(plan.quantities.exposureSeconds.why).toMatch(/^your input \(the node allows \d+–\d+ s\)/);
+      expect(plan.quantities.exposureSeconds.source).toBe("your input, within the node's exposure range");
       expect(plan.quantities.exposureSeconds.tag).toBe('choice');
       expect(plan.quantities.visitSeconds.value).toBeCloseTo(42 + NODE.overheadSeconds, 9);
       expect(plan.precision.exposureSeconds).toBe(42);
@@ -224,7 +225,7 @@ describe('computeTargetPlan, exposures per visit', () => {
 
   it('does not stack a faint star whose exposure is capped by the node maximum (photon-limited: no node time saved)', () => {
     const faint = computeTargetPlan({ ...STAR, magnitude: { value: 14.5, band: 'G' } }, NODE, SITE);
-    expect(faint.quantities.exposureSeconds.why).toMatch(/maxExposure/);
+    expect(faint.quantities.exposureSeconds.why).toBe("limited by the node's longest exposure");
     expect(faint.quantities.exposuresPerVisit.value).toBe(1);
   });
 
@@ -280,5 +281,80 @@ describe('computeTargetPlan, plans that reach the goal only at a price', () => {
     expect(q.completeness.value).toBeLessThan(0.9);
     expect(q.visitsForCompleteness90.value).toBeNull();
     expect(q.visitsForCompleteness99.value).toBeNull();
+  });
+});
+
+describe('computeTargetPlan, wording a user reads', () => {
+  // Every string a plan carries (why lines, sources, flag messages and sources).
+  const textsOf = (plan: ReturnType<typeof computeTargetPlan>): string[] => [
+    ...Object.values(plan.quantities).flatMap((q) => [q.why, q.source]),
+    ...plan.flags.flatMap((f) => [f.message, f.source ?? '']),
+  ];
+  // Maintainers' notes and code names (written with \s so that a search of the sources for the
+  // notes finds only comments).
+  const DEVELOPER_WORDS =
+    /from\smemory|not re-read|verify|our\schoice|Spincycle['’]s|no (single )?source|derived\shere|\[derived\]|\bmaxExposure|\bminExposure|targetPrecision|saturationE|proposer|the user|chosen by|R_per|\bcA ±/i;
+  const PLANS = [
+    computeTargetPlan(STAR, NODE, SITE),
+    computeTargetPlan(STAR, NODE, SITE, { exposureSeconds: 42, exposuresPerVisit: 2, turnoverScale: 'wright2018' }),
+    computeTargetPlan({ ...STAR, colour: { value: 0.9, system: 'BV' }, reddeningEbvMag: 0.1, periodDays: 12 }, NODE, SITE),
+    computeTargetPlan({ ...STAR, magnitude: { value: 14.5, band: 'G' } }, NODE, SITE),
+    computeTargetPlan({ ...STAR, magnitude: { value: 6, band: 'V' } }, NODE, SITE),
+    computeTargetPlan({ ...STAR, ageMyr: 4000, ageUncertaintyMyr: 400, periodPrecisionDays: 0.5 }, { ...NODE, systematicFloorMmag: 0.25 }, SITE),
+  ];
+
+  it('says no provenance note, code name or "the user" in any why line, source or flag', () => {
+    for (const plan of PLANS) expect(textsOf(plan).filter((t) => DEVELOPER_WORDS.test(t))).toEqual([]);
+  });
+
+  it('tells one cadence story: sample interval, night step and visits a night in the same words', () => {
+    // A K dwarf whose cadence asks for every 3rd night, sized to every night with more visits.
+    const plan = computeTargetPlan(
+      { colour: { value: 1.3, system: 'BPRP' }, ageMyr: 4000, ageUncertaintyMyr: 400, magnitude: { value: 12, band: 'G' } },
+      { ...NODE, systematicFloorMmag: 0.25 },
+      SITE,
+    );
+    const q = plan.quantities;
+    expect(q.sampleIntervalDays.why).toMatch(/^the period needs a sample at least every 3\.\d+ d \(10 per cycle of the shortest plausible period, 3\d\.?\d* d\)$/);
+    expect(q.nightStepDays.value).toBe(1);
+    expect(q.nightStepDays.why).toBe('every night: the cadence needs every 3rd night, 90 % completeness needs every night');
+    expect(q.visitsPerNight.why).toBe(`${q.visitsPerNight.value} a night: the cadence needs 1, 90 % completeness needs ${q.visitsPerNight.value}`);
+    expect(q.visitNights.why).toMatch(/^\d+ nights: every night over \d+ d/);
+    // The cadence alone (no sizing) says the same interval in the night step and visits.
+    const cadence = computeTargetPlan({ ...STAR, colour: { value: 1.6, system: 'BPRP' }, ageMyr: 4000, ageUncertaintyMyr: 500, magnitude: { value: 12, band: 'G' } }, NODE, SITE).quantities;
+    expect(cadence.nightStepDays.why).toMatch(/^every 3rd night: a sample at least every 3\.\d+ d, in whole nights$/);
+    expect(cadence.visitsPerNight.why).toMatch(/^1 a night: one visit per visit night keeps a sample at least every 3\.\d+ d$/);
+  });
+
+  it('names the exposure limit and the saturation level in words', () => {
+    const faint = computeTargetPlan({ ...STAR, magnitude: { value: 14.5, band: 'G' } }, NODE, SITE).quantities;
+    expect(faint.exposureSeconds.why).toBe("limited by the node's longest exposure");
+    const bright = computeTargetPlan({ ...STAR, magnitude: { value: 4, band: 'V' } }, NODE, SITE);
+    expect(bright.flags.find((f) => f.code === 'saturatesAtMinExposure')?.source).toBe("peak pixel of a Gaussian star image against the node's saturation level");
+  });
+
+  it('says the proposer-given period and the completeness setting are your input', () => {
+    const plan = computeTargetPlan({ ...STAR, periodDays: 12 }, NODE, SITE);
+    expect(plan.quantities.periodDays.source).toBe('your input');
+    expect(plan.quantities.periodDays.why).toMatch(/^your input \(Angus et al\. \(2019\) gives [\d.]+ d\)$/);
+    expect(plan.quantities.shortestPeriodDays.why).toBe('−1σ of your period');
+    expect(plan.flags.find((f) => f.code === 'explicitPeriod')?.message).toBe('your period 12 ± 1.2 d is used instead of Angus et al. (2019)');
+    expect(plan.quantities.requestedCompleteness.source).toBe("your input: the proposal's completeness setting");
+  });
+
+  it('reports a magnitude out of the noise model\'s range as typed, with the band it was converted to', () => {
+    const err = (() => {
+      try {
+        computeTargetPlan({ ...STAR, magnitude: { value: 24.9, band: 'G' } }, NODE, SITE);
+      } catch (e) {
+        return e as ScienceInputError;
+      }
+      throw new Error('no error');
+    })();
+    expect(err.field).toBe('target.magnitude');
+    expect(err.reason).toMatch(/^G 24\.9 is 25\.\d+ in the node's V band, outside what the noise model covers \(between −2 and 25 mag in V\)$/);
+    expect(() => computeTargetPlan({ ...STAR, magnitude: { value: -3, band: 'V' } }, NODE, SITE)).toThrow(
+      'target.magnitude: V −3 is outside what the noise model covers (between −2 and 25 mag)',
+    );
   });
 });

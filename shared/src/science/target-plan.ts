@@ -39,19 +39,22 @@ import {
   noncentralityForCompleteness,
   periodPrecision,
 } from './detection';
-import { type Explained, type ScienceFlag, explained, flag, fmt } from './explained';
+import { type Explained, type ScienceFlag, countOf, explained, flag, fmt } from './explained';
 import { type GyroRelationId, GYRO_RELATIONS, GYRO_RELATION_INFO, PROPAGATION_METHOD } from './gyrochronology';
 import { BALUEV_SOURCE } from './lomb-scargle/false-alarm';
 import { BAND_ZERO_POINTS, EXTINCTION_SOURCE, convertMagnitude } from './photometric-bands';
+import { between, displayNumber } from '../http/range-text';
 import { ScienceInputError, requireInRange, requireInteger, requireOneOf, requirePositive } from './science-input-error';
 import { type AmplitudeModelCoefficients, AMPLITUDE_MODEL_SOURCE, RPER_PER_SEMI_AMPLITUDE, amplitudeExponent } from './spot-amplitude';
 import { amplitudeStep, baselineStep, cadenceStep, periodStep, sizeVisits, visitNightCount, type VisitSizing } from './target-plan-steps';
 import { type TurnoverScale, TURNOVER_SCALES, TURNOVER_SCALE_INFO } from './turnover-time';
 import {
   type ExposureChoice,
+  type ExposureLimit,
   type PhotometryOptions,
   type PhotometrySetup,
   type VisitPrecision,
+  MAGNITUDE_RANGE,
   MAG_PER_RELATIVE_FLUX,
   airmassKastenYoung,
   chooseExposureFromSetup,
@@ -262,8 +265,37 @@ export const PLAN_DEFAULTS = {
   maxVisitSeconds: 600,
 } as const;
 
-const CHOICE = "Spincycle's choice, no source";
-const RULE = 'common practice, no single source';
+// Provenance said the way a scientist reads it. The tags keep the maintainers' trust levels:
+// these were `practice` ("common practice, no single source") and `choice` ("Spincycle's
+// choice, no source") notes, now pointing to the Methods section that states the rule.
+/** The search band of the plan: an assumption of this product (docs/science.md #search-band). */
+const SEARCH_BAND_ASSUMPTION = 'an assumption of this product (see Methods: The searched band)';
+/** Samples per cycle and the night step (docs/science.md #cadence). */
+const CADENCE_PRACTICE = 'standard observing practice (see Methods: Cadence)';
+/** Cycles of the longest period and whole-day baselines (docs/science.md #baseline). */
+const BASELINE_PRACTICE = 'standard observing practice (see Methods: Baseline)';
+/** The caution on one star filling the node's nights (docs/science.md #visits). */
+const NIGHTS_FILLED_ASSUMPTION = 'an assumption of this product (see Methods: Visits for 50, 90 and 99 % completeness)';
+/** Spots evolve over about ten rotations (docs/science.md #assumptions, #red-noise). */
+const COHERENCE_ASSUMPTION = 'an assumption of this product (see Methods: Assumptions of this product)';
+/** What limited the exposure, in words (the codes are `ExposureChoice.limitedBy`). */
+const LIMIT_WORDS: Readonly<Record<ExposureLimit, string>> = {
+  targetPrecision: 'the precision goal',
+  minExposure: "the node's shortest exposure",
+  maxExposure: "the node's longest exposure",
+  saturation: 'saturation of the star',
+};
+/** Source of the saturation flags. */
+const SATURATION_SOURCE = "peak pixel of a Gaussian star image against the node's saturation level";
+
+/** "every night", "every 2nd night", "every 3rd night", "every 11th night". */
+function nightStepText(step: number): string {
+  if (step === 1) return 'every night';
+  const tens = step % 100;
+  const suffix = tens >= 11 && tens <= 13 ? 'th' : ({ 1: 'st', 2: 'nd', 3: 'rd' } as Record<number, string>)[step % 10] ?? 'th';
+  return `every ${step}${suffix} night`;
+}
+
 /** Billing granularity of node-hours (Spincycle's choice). */
 const HOURS_STEP = 0.01;
 /** Share of a night's observable hours above which one target's visits earn a caution (this product's choice). */
@@ -331,6 +363,16 @@ export function computeTargetPlan(
 
   // 4. Magnitude in the node's band, airmass, sky, exposure.
   const mag = prefixed('target', () => convertMagnitude(target.magnitude, node.band, colour));
+  if (mag.magnitude < MAGNITUDE_RANGE.min || mag.magnitude > MAGNITUDE_RANGE.max) {
+    // Checked in the node's band, but said with the magnitude as typed (never the converted one alone).
+    const range = between(MAGNITUDE_RANGE.min, MAGNITUDE_RANGE.max, 'mag');
+    throw new ScienceInputError(
+      'target.magnitude',
+      mag.fromBand === mag.band
+        ? `${mag.band} ${displayNumber(mag.fromMagnitude)} is outside what the noise model covers (${range})`
+        : `${mag.fromBand} ${displayNumber(mag.fromMagnitude)} is ${displayNumber(Math.round(mag.magnitude * 100) / 100)} in the node's ${mag.band} band, outside what the noise model covers (${range} in ${mag.band})`,
+    );
+  }
   const airmass = airmassKastenYoung(o.planningAltitudeDeg);
   const skyMag = o.sky ? o.sky.medianMagPerArcsec2 : site.skyBrightnessMagPerArcsec2;
   const setup = prefixed('target', () => photometrySetup(node, { ...site, skyBrightnessMagPerArcsec2: skyMag }, mag.magnitude, airmass, o.photometry));
@@ -433,7 +475,7 @@ export function computeTargetPlan(
       flag(
         'amplitudeBelowFloor',
         'blocking',
-        `the expected semi-amplitude of ${fmt(semiAmplitudePpm)} ppm is below the ${fmt(sz.amplitudeLimitPpm)} ppm that even ${sz.mostVisitsPerNight} visits a night on all ${visitNightCount(sz.longestBaselineDays, 1)} nights of ${sz.longestBaselineDays} d detect with ${fmt(o.completeness * 100)} % completeness; the node's systematic floor of ${fmt(floorPpm)} ppm does not average down within a night, so no number of visits a night goes below ${fmt(sz.floorAmplitudeLimitPpm)} ppm. The cadence's own ${visits} visits give ${fmt(sz.completeness * 100, 2)} % completeness`,
+        `the expected semi-amplitude of ${fmt(semiAmplitudePpm)} ppm is below the ${fmt(sz.amplitudeLimitPpm)} ppm that even ${sz.mostVisitsPerNight} visits a night on all ${countOf(visitNightCount(sz.longestBaselineDays, 1), 'night')} of ${sz.longestBaselineDays} d detect with ${fmt(o.completeness * 100)} % completeness; the node's systematic floor of ${fmt(floorPpm)} ppm does not average down within a night, so no number of visits a night goes below ${fmt(sz.floorAmplitudeLimitPpm)} ppm. The cadence's own ${countOf(visits, 'visit')} give ${fmt(sz.completeness * 100, 2)} % completeness`,
         NIGHTLY_NOISE_SOURCE,
       ),
     );
@@ -444,14 +486,14 @@ export function computeTargetPlan(
         'info',
         sz.drivenBy === 'baseline'
           ? `${fmt(o.completeness * 100)} % completeness needs more nights than the cadence's baseline: the baseline grows to ${baseline} d, since the floor correlated within a night limits what more visits a night give`
-          : `${fmt(o.completeness * 100)} % completeness needs more visits than the cadence: ${visitsPerNight} per night on ${sz.nights} nights`,
+          : `${fmt(o.completeness * 100)} % completeness needs more visits than the cadence: ${visitsPerNight} a night on ${countOf(sz.nights, 'night')}`,
         DETECTION_SOURCE,
       ),
     );
   }
   if (baseline > o.coherenceCycles * P) {
     flags.push(
-      flag('baselineBeyondSpotCoherence', 'caution', `the baseline spans ${fmt(baseline / P)} cycles: spots evolve, so the signal may lose coherence over it`, RULE),
+      flag('baselineBeyondSpotCoherence', 'caution', `the baseline spans ${fmt(baseline / P)} cycles: spots evolve, so the signal may lose coherence over it`, COHERENCE_ASSUMPTION),
     );
   }
   const longestSearched = Math.min(baseline, o.searchLongPeriodFactor * pMax);
@@ -471,13 +513,13 @@ export function computeTargetPlan(
     const nightHours = (visitsPerNight * visitSeconds) / 3600;
     const cheaper =
       (bl.setBy === 'precision' ? `; a looser period precision (the requested ${fmt(target.periodPrecisionDays ?? Number.NaN)} d sets the baseline to ${bl.baselineDays} d)` : '') +
-      (levels[0].drivenBy !== 'unreachable' && levels[0].visits < visits ? `; 50 % completeness needs ${levels[0].visits} visits (${fmt(hoursOf(levels[0].visits))} node-hours)` : '');
+      (levels[0].drivenBy !== 'unreachable' && levels[0].visits < visits ? `; 50 % completeness needs ${countOf(levels[0].visits, 'visit')} (${fmt(hoursOf(levels[0].visits))} node-hours)` : '');
     if (visitsPerNight > sz.usefulVisitsPerNight) {
       flags.push(
         flag(
           'visitsBeyondFloor',
           'caution',
-          `${pct(o.completeness)} completeness takes ${visitsPerNight} visits a night on ${sz.nights} nights (${fmt(hours)} node-hours), although beyond ${sz.usefulVisitsPerNight} a night the node's systematic floor of ${fmt(floorPpm)} ppm sets each night's noise and more visits add little. Cheaper ways out: a node with a lower floor or a larger aperture${cheaper}`,
+          `${pct(o.completeness)} completeness takes ${visitsPerNight} visits a night on ${countOf(sz.nights, 'night')} (${fmt(hours)} node-hours), although beyond ${sz.usefulVisitsPerNight} a night the node's systematic floor of ${fmt(floorPpm)} ppm sets each night's noise and more visits add little. Cheaper ways out: a node with a lower floor or a larger aperture${cheaper}`,
           NIGHTLY_NOISE_SOURCE,
         ),
       );
@@ -487,8 +529,8 @@ export function computeTargetPlan(
         flag(
           'nightsFilled',
           'caution',
-          `the visits fill ${fmt(nightHours, 2)} h of the ${o.observableHoursPerNight} observable hours on each of ${sz.nights} nights: this one star would hold the node for most of its nights. Cheaper ways out: fewer samples per cycle or a node with a lower floor${cheaper}`,
-          RULE,
+          `the visits fill ${fmt(nightHours, 2)} h of the ${o.observableHoursPerNight} observable hours on each of ${countOf(sz.nights, 'night')}: this one star would hold the node for most of its nights. Cheaper ways out: fewer samples per cycle or a node with a lower floor${cheaper}`,
+          NIGHTS_FILLED_ASSUMPTION,
         ),
       );
     }
@@ -500,9 +542,9 @@ export function computeTargetPlan(
   const levelWhy = (c: number, s: VisitSizing) =>
     s.drivenBy === 'unreachable'
       ? `${pct(c)} completeness is out of reach: the floor limits it even at ${s.mostVisitsPerNight} visits a night on every night of ${s.longestBaselineDays} d`
-      : `${pct(c)} completeness: ${s.visitsPerNight} visit(s) a night on ${s.nights} nights over ${s.baselineDays} d`;
+      : `${pct(c)} completeness: ${countOf(s.visitsPerNight, 'visit')} a night on ${countOf(s.nights, 'night')} over ${s.baselineDays} d`;
   const periodWhy = period.explicit
-    ? `the proposer's period (${relInfo.label} gives ${period.noExpectedPeriod === null && !prediction.noResult ? `${fmt(prediction.periodDays)} d` : 'none'})`
+    ? `your input (${relInfo.label} gives ${period.noExpectedPeriod === null && !prediction.noResult ? `${fmt(prediction.periodDays)} d` : 'none'})`
     : `${relInfo.label} at ${rl} ${fmt(prediction.relationColour.value)} and ${fmt(prediction.ageMyr)} Myr`;
   const q: TargetPlanQuantities = {
     intrinsicColourMag: explained(
@@ -511,22 +553,22 @@ export function computeTargetPlan(
       colour.reddeningEbvMag > 0
         ? `${cl} ${fmt(colour.observed.value)} de-reddened by E(B−V) = ${colour.reddeningEbvMag}`
         : `${cl} as given (no reddening)`,
-      colour.reddeningEbvMag > 0 ? REDDENING_RATIOS[colour.intrinsic.system].source : 'the target colour',
+      colour.reddeningEbvMag > 0 ? REDDENING_RATIOS[colour.intrinsic.system].source : 'your input',
       colour.reddeningEbvMag > 0 ? 'memory' : 'paper',
     ),
     relationColourMag: explained(
       prediction.relationColour.value,
       'mag',
       `${rl} taken by ${relInfo.label}: ${prediction.relationColour.origin}`,
-      prediction.relationColour.system === colour.intrinsic.system ? 'the target colour' : DWARF_SEQUENCE_SOURCE,
+      prediction.relationColour.system === colour.intrinsic.system ? 'your input' : DWARF_SEQUENCE_SOURCE,
       'paper',
     ),
-    periodDays: explained(P, 'd', periodWhy, period.explicit ? "the proposer's value" : relInfo.citation, period.explicit ? 'choice' : 'paper'),
+    periodDays: explained(P, 'd', periodWhy, period.explicit ? 'your input' : relInfo.citation, period.explicit ? 'choice' : 'paper'),
     shortestPeriodDays: explained(
       pMin,
       'd',
       period.explicit
-        ? `−${o.periodRangeSigma}σ of the proposer's period`
+        ? `−${o.periodRangeSigma}σ of your period`
         : `−${o.periodRangeSigma}σ of the period from the age uncertainty (${fmt(prediction.ageUncertaintyMyr)} Myr), the relation's coefficients and its intrinsic scatter`,
       PROPAGATION_METHOD,
       'choice',
@@ -535,7 +577,7 @@ export function computeTargetPlan(
     turnoverTimeDays: explained(
       tau.tauDays,
       'd',
-      `${tauInfo.label} τc at ${inputName(tau.inputQuantity)} ${fmt(tau.inputValue)} (${tau.inputOrigin}); scale ${period.turnoverScaleWhy}`,
+      `${tauInfo.label} τc at ${inputName(tau.inputQuantity)} ${fmt(tau.inputValue)} (${tau.inputOrigin}); scale: ${period.turnoverScaleWhy}`,
       tauInfo.citation,
       'paper',
     ),
@@ -557,7 +599,14 @@ export function computeTargetPlan(
       AMPLITUDE_MODEL_SOURCE,
       'derived',
     ),
-    semiAmplitudePpm: explained(semiAmplitudePpm, 'ppm', `R_per/${fmt(RPER_PER_SEMI_AMPLITUDE, 4)} (5–95 % range of a sinusoid is 2·sin(0.45π)·A)`, '5–95 % range of a sinusoid [derived]', 'derived'),
+    semiAmplitudePpm: explained(
+      semiAmplitudePpm,
+      'ppm',
+      `Rₚₑᵣ/${fmt(RPER_PER_SEMI_AMPLITUDE, 4)} (the 5–95 % range of a sinusoid of semi-amplitude A is 2·sin(0.45π)·A)`,
+      // Tag `derived`: computed here from the definition of Rₚₑᵣ.
+      'follows from the definitions (see Methods: Spot amplitude)',
+      'derived',
+    ),
     magnitudeInNodeBand: explained(
       mag.magnitude,
       'mag',
@@ -585,7 +634,8 @@ export function computeTargetPlan(
       exposure.saturationLimitSeconds,
       's',
       `peak pixel (${fmt(setup.peakPixelFraction * 100)} % of a ${node.seeingFwhmArcsec}″ Gaussian PSF on ${node.pixelScaleArcsec}″ pixels, plus sky and dark) reaches ${node.saturationE} e⁻`,
-      'Gaussian PSF peak fraction [erf(p/(2√2σ))]² (common practice, no source)',
+      // `practice`: the Gaussian peak-pixel fraction is common practice with no single source.
+      "peak pixel of a Gaussian star image, [erf(p/(2√2σ))]², against the node's saturation level (standard observing practice; see Methods: Exposure, saturation and stacking)",
       'practice',
     ),
     perVisitPrecisionGoalPpm: explained(goalPpm, 'ppm', goalWhy, DETECTION_SOURCE, o.perVisitPrecisionPpm !== undefined ? 'choice' : 'derived'),
@@ -594,8 +644,8 @@ export function computeTargetPlan(
         ? explained(
             exposure.exposureSeconds,
             's',
-            `chosen by the user (node range ${node.minExposureSeconds}–${node.maxExposureSeconds} s); the automatic choice would be ${fmt(automatic.exposureSeconds)} s`,
-            "the user's choice, within the node's exposure range",
+            `your input (the node allows ${node.minExposureSeconds}–${node.maxExposureSeconds} s); the automatic choice would be ${fmt(automatic.exposureSeconds)} s`,
+            "your input, within the node's exposure range",
             'choice',
           )
         : explained(
@@ -603,16 +653,27 @@ export function computeTargetPlan(
             's',
             exposure.limitedBy === 'targetPrecision'
               ? 'shortest exposure reaching the precision goal'
-              : `${exposure.limitedBy === 'minExposure' ? 'the node minimum: the goal is reached already' : `limited by ${exposure.limitedBy}`}`,
-            'CCD equation (Howell 2006; Merline & Howell 1995, from memory) + scintillation + floor, solved for t',
+              : exposure.limitedBy === 'minExposure'
+                ? "the node's shortest exposure: the goal is reached already"
+                : `limited by ${LIMIT_WORDS[exposure.limitedBy]}`,
+            // Howell (2006) and Merline & Howell (1995) from memory (docs/science.md "Checked values").
+            'CCD equation, Howell (2006), Handbook of CCD Astronomy, and Merline & Howell (1995), Exp. Astron. 6, 163, with scintillation and the floor, solved for the exposure time',
             'memory',
           ),
-    exposuresPerVisit: explained(stack.exposuresPerVisit, '1', stack.why, 'σ_visit² = (σ₁² − floor²)/k + floor² (common practice, no source)', o.exposuresPerVisit !== undefined ? 'choice' : 'practice'),
+    exposuresPerVisit: explained(
+      stack.exposuresPerVisit,
+      '1',
+      stack.why,
+      // `practice`: stacking with a floor that does not average down is common practice, no single source.
+      o.exposuresPerVisit !== undefined ? 'your input' : 'σ_visit² = (σ₁² − floor²)/k + floor²: standard observing practice (see Methods: Exposure, saturation and stacking)',
+      o.exposuresPerVisit !== undefined ? 'choice' : 'practice',
+    ),
     perVisitPrecisionPpm: explained(
       sigmaPpm,
       'ppm',
       `${stack.exposuresPerVisit > 1 ? `${stack.exposuresPerVisit} exposures of ` : ''}photon ${fmt(exposure.precision.components.photonPpm)}, sky ${fmt(exposure.precision.components.skyPpm)}, read ${fmt(exposure.precision.components.readPpm)}, scintillation ${fmt(exposure.precision.components.scintillationPpm)} (${node.scintillationModel === 'young1967' ? 'Young 1967, uncorrected' : 'Osborn et al. 2015'}), floor ${fmt(floorPpm)} ppm in quadrature`,
-      'CCD equation, Howell (2006), Handbook of CCD Astronomy (from memory); ' +
+      // Howell (2006) from memory (docs/science.md "Checked values").
+      'CCD equation, Howell (2006), Handbook of CCD Astronomy; ' +
         (node.scintillationModel === 'young1967' ? 'Young (1967), AJ 72, 747, in its usual restatement' : 'Osborn et al. (2015), MNRAS 452, 1707, eq. 7'),
       'memory',
     ),
@@ -620,20 +681,40 @@ export function computeTargetPlan(
     nightlyPrecisionPpm: explained(
       nightlySigmaPpm(whitePpm, floorPpm, visitsPerNight),
       'ppm',
-      `mean of ${visitsPerNight} visit(s): sqrt(${fmt(whitePpm)}²/${visitsPerNight} + ${fmt(floorPpm)}²) — the floor does not average down within a night${series === 'visits' ? '; short periods are analysed on single visits' : ''}`,
+      `mean of ${countOf(visitsPerNight, 'visit')}: sqrt(${fmt(whitePpm)}²/${visitsPerNight} + ${fmt(floorPpm)}²) — the floor does not average down within a night${series === 'visits' ? '; short periods are analysed on single visits' : ''}`,
       NIGHTLY_NOISE_SOURCE,
       'practice',
     ),
-    sampleIntervalDays: explained(cad.sampleIntervalDays, 'd', `shortest plausible period ${fmt(pMin)} d / ${cad.samplesPerCycle} samples per cycle`, RULE, 'practice'),
-    nightStepDays: explained(nightStep, 'd', nightStep === 1 ? 'visits every night' : `a visit night every ${nightStep} nights`, RULE, 'practice'),
+    // One cadence story in the same words: the sample interval the period needs, the night
+    // step that keeps it, and the visits a night (the cadence's, or more for the completeness).
+    sampleIntervalDays: explained(
+      cad.sampleIntervalDays,
+      'd',
+      `the period needs a sample at least every ${fmt(cad.sampleIntervalDays)} d (${cad.samplesPerCycle} per cycle of the shortest plausible period, ${fmt(pMin)} d)`,
+      CADENCE_PRACTICE,
+      'practice',
+    ),
+    nightStepDays: explained(
+      nightStep,
+      'd',
+      nightStep < cad.nightStepDays
+        ? `every night: the cadence needs ${nightStepText(cad.nightStepDays)}, ${pct(o.completeness)} completeness needs every night`
+        : cad.sampleIntervalDays >= 1
+          ? `${nightStepText(nightStep)}: a sample at least every ${fmt(cad.sampleIntervalDays)} d, in whole nights`
+          : `every night: a sample at least every ${fmt(cad.sampleIntervalDays)} d needs several a night`,
+      CADENCE_PRACTICE,
+      'practice',
+    ),
     visitsPerNight: explained(
       visitsPerNight,
       '1',
-      visitsPerNight > cad.visitsPerNight ? `${visitsPerNight} per night for ${pct(o.completeness)} completeness; ${cad.why}` : cad.why,
-      RULE,
+      visitsPerNight > cad.visitsPerNight
+        ? `${visitsPerNight} a night: the cadence needs ${cad.visitsPerNight}, ${pct(o.completeness)} completeness needs ${visitsPerNight}`
+        : `${visitsPerNight} a night: ${cad.why}`,
+      CADENCE_PRACTICE,
       'practice',
     ),
-    baselineForCyclesDays: explained(bl.forCyclesDays, 'd', `${o.baselineCycles} cycles of the longest plausible period ${fmt(pMax)} d`, RULE, 'practice'),
+    baselineForCyclesDays: explained(bl.forCyclesDays, 'd', `${o.baselineCycles} cycles of the longest plausible period ${fmt(pMax)} d`, BASELINE_PRACTICE, 'practice'),
     baselineForPrecisionDays: explained(
       bl.forPrecisionDays,
       'd',
@@ -653,27 +734,45 @@ export function computeTargetPlan(
           : bl.setBy === 'minimum'
             ? 'set by the minimum baseline asked for (whole days)'
             : 'set by the cycles rule (whole days)',
-      RULE,
+      BASELINE_PRACTICE,
       'practice',
     ),
-    visitNights: explained(sz.nights, '1', `a visit night every ${nightStep} night(s) over ${baseline} d, first night included (clear nights; weather adds calendar time)`, RULE, 'practice'),
+    visitNights: explained(
+      sz.nights,
+      '1',
+      `${countOf(sz.nights, 'night')}: ${nightStepText(nightStep)} over ${baseline} d, first night included (clear nights; weather adds calendar time)`,
+      BASELINE_PRACTICE,
+      'practice',
+    ),
     searchMinFrequencyPerDay: explained(
       fmin,
       'd⁻¹',
       `periods up to ${fmt(longestSearched)} d: ${longestSearched < o.searchLongPeriodFactor * pMax ? 'the baseline' : `${o.searchLongPeriodFactor} × the longest plausible period`}`,
-      CHOICE,
+      SEARCH_BAND_ASSUMPTION,
       'choice',
     ),
-    searchMaxFrequencyPerDay: explained(fmax, 'd⁻¹', `periods down to ${o.searchPeriodFraction} × the shortest plausible period (the P/2 harmonic of two spot groups)`, CHOICE, 'choice'),
-    independentFrequencies: explained(sz.threshold.effectiveFrequencies, '1', `Baluev's W = fmax·sqrt(4π·var t) = ${fmt(fmax)} d⁻¹ × ${baseline} d × sqrt(π/3), visits spread over the baseline`, THRESHOLD_SOURCE, 'derived'),
+    searchMaxFrequencyPerDay: explained(
+      fmax,
+      'd⁻¹',
+      `periods down to ${o.searchPeriodFraction} × the shortest plausible period (the P/2 harmonic of two spot groups)`,
+      SEARCH_BAND_ASSUMPTION,
+      'choice',
+    ),
+    independentFrequencies: explained(
+      sz.threshold.effectiveFrequencies,
+      '1',
+      `Baluev's W = fmax·sqrt(4π·var t) = ${fmt(fmax)} d⁻¹ × ${baseline} d × sqrt(π/3), with the visits spread over the baseline`,
+      THRESHOLD_SOURCE,
+      'derived',
+    ),
     detectionThresholdPower: explained(
       sz.threshold.power,
       '1',
-      `the periodogram power (standard normalisation) whose false-alarm probability is ${o.falseAlarmProbability} for ${sz.threshold.points} ${series === 'nightlyMeans' ? 'nightly means' : 'visits'} searched up to ${fmt(fmax)} d⁻¹`,
+      `the periodogram power (standard normalisation) whose false-alarm probability is ${o.falseAlarmProbability} for ${countOf(sz.threshold.points, series === 'nightlyMeans' ? 'nightly mean' : 'visit')} searched up to ${fmt(fmax)} d⁻¹`,
       BALUEV_SOURCE,
       'derived',
     ),
-    requestedCompleteness: explained(o.completeness, '1', 'chance of recovering the period that the plan is sized for', "the proposal's setting", 'choice'),
+    requestedCompleteness: explained(o.completeness, '1', 'chance of recovering the period that the plan is sized for', "your input: the proposal's completeness setting", 'choice'),
     completeness: explained(
       sz.completeness,
       '1',
@@ -681,7 +780,13 @@ export function computeTargetPlan(
       `${DETECTION_SOURCE}; ${MARCUM_SOURCE}`,
       'derived',
     ),
-    visitsForCadence: explained(nCad, '1', `the cadence's ${cad.visitsPerNight} visit(s) per night on ${visitNightCount(baseline, cad.nightStepDays)} nights over ${baseline} d`, RULE, 'practice'),
+    visitsForCadence: explained(
+      nCad,
+      '1',
+      `the cadence's ${countOf(cad.visitsPerNight, 'visit')} a night on ${countOf(visitNightCount(baseline, cad.nightStepDays), 'night')} over ${baseline} d`,
+      CADENCE_PRACTICE,
+      'practice',
+    ),
     visitsForCompleteness50: explained(levels[0].drivenBy === 'unreachable' ? null : levels[0].visits, '1', levelWhy(0.5, levels[0]), DETECTION_SOURCE, 'derived'),
     visitsForCompleteness90: explained(levels[1].drivenBy === 'unreachable' ? null : levels[1].visits, '1', levelWhy(0.9, levels[1]), DETECTION_SOURCE, 'derived'),
     visitsForCompleteness99: explained(levels[2].drivenBy === 'unreachable' ? null : levels[2].visits, '1', levelWhy(0.99, levels[2]), DETECTION_SOURCE, 'derived'),
@@ -689,15 +794,15 @@ export function computeTargetPlan(
       visits,
       '1',
       sz.drivenBy === 'cadence'
-        ? `the cadence's ${nCad} visits already give ${pct(sz.completeness)} completeness`
-        : `${visitsPerNight} per night on ${sz.nights} nights for ${pct(o.completeness)} completeness (the cadence alone: ${nCad})`,
+        ? `the cadence's ${countOf(nCad, 'visit')} already give ${pct(sz.completeness)} completeness`
+        : `${visitsPerNight} a night on ${countOf(sz.nights, 'night')} for ${pct(o.completeness)} completeness (the cadence alone: ${countOf(nCad, 'visit')})`,
       DETECTION_SOURCE,
       'derived',
     ),
     expectedPeriodPrecisionDays: explained(
       expectedSigmaP.sigmaPeriodDays,
       'd',
-      `σP at the longest plausible period from ${sz.nights} nightly means over ${baseline} d`,
+      `σP at the longest plausible period from ${countOf(sz.nights, 'nightly mean')} over ${baseline} d`,
       PERIOD_PRECISION_SOURCE,
       'memory',
     ),
@@ -710,12 +815,12 @@ export function computeTargetPlan(
       "the node's overhead per visit",
       'facility',
     ),
-    nodeHoursClear: explained(hoursClear, 'h', `${visits} visits × ${fmt(visitSeconds)} s`, 'definition of node-hours', 'practice'),
+    nodeHoursClear: explained(hoursClear, 'h', `${countOf(visits, 'visit')} × ${fmt(visitSeconds)} s`, 'definition of node-hours (see Methods: Node-hours)', 'practice'),
     nodeHours: explained(
       hours,
       'h',
       `clear hours / (1 − weather loss ${node.weatherLossFraction}), rounded up to ${HOURS_STEP} h`,
-      `node weather loss; rounding: ${CHOICE}`,
+      `the node's weather loss; rounding up to ${HOURS_STEP} h is an assumption of this product (see Methods: Node-hours)`,
       'choice',
     ),
     feeMinor: explained(fee, `${node.currency} minor units`, `${fmt(hours)} h × ${node.rateMinorPerHour} per hour, rounded to the unit`, "the node's rate card", 'facility'),
@@ -768,7 +873,7 @@ function exposuresPerVisitStep(exposure: ExposureChoice, node: NodeSpec, o: Reso
   let why = 'one exposure per visit reaches the goal';
   if (o.exposuresPerVisit !== undefined) {
     k = o.exposuresPerVisit;
-    why = 'chosen by the user';
+    why = 'your input';
   } else if (!exposure.reachesTarget && stackable && !exposure.saturatesAtMinExposure) {
     let kBest = 1;
     for (let j = 2; j <= maxStack; j++) if (stackTime(j) < stackTime(kBest)) kBest = j;
@@ -776,10 +881,10 @@ function exposuresPerVisitStep(exposure: ExposureChoice, node: NodeSpec, o: Reso
     k = Math.max(1, Math.min(kBest, kGoal));
     why =
       k === kGoal
-        ? `${k} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${exposure.limitedBy}) reach the goal of ${fmt(goalPpm)} ppm`
+        ? `${k} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${LIMIT_WORDS[exposure.limitedBy]}) reach the goal of ${fmt(goalPpm)} ppm`
         : k === 1
           ? 'stacking would not save node time here'
-          : `${k} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${exposure.limitedBy}) need the least node time for the detection (more would mostly average down what the floor keeps)`;
+          : `${k} exposures of ${fmt(exposure.exposureSeconds)} s (capped by ${LIMIT_WORDS[exposure.limitedBy]}) need the least node time for the detection (more would mostly average down what the floor keeps)`;
   } else if (!exposure.reachesTarget) {
     why = 'one exposure per visit (stacking does not help here)';
   }
@@ -802,7 +907,7 @@ function exposureFlags(
         'saturatesAtMinExposure',
         'blocking',
         `the star saturates even at the shortest exposure (${node.minExposureSeconds} s; saturation after ${fmt(exposure.saturationLimitSeconds)} s): defocus or a fainter band is needed`,
-        'Gaussian PSF peak pixel against the node saturationE',
+        SATURATION_SOURCE,
       ),
     ];
   }
@@ -812,7 +917,7 @@ function exposureFlags(
         'saturatesAtChosenExposure',
         'blocking',
         `the star saturates at the chosen exposure of ${fmt(exposure.exposureSeconds)} s (saturation after ${fmt(exposure.saturationLimitSeconds)} s): choose a shorter exposure or the automatic one (${fmt(automatic.exposureSeconds)} s)`,
-        'Gaussian PSF peak pixel against the node saturationE',
+        SATURATION_SOURCE,
       ),
     ];
   }
@@ -822,7 +927,7 @@ function exposureFlags(
         'precisionGoalNotReached',
         'info',
         o.exposureSeconds === undefined
-          ? `the precision goal ${fmt(goalPpm)} ppm is not reached (best ${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s, limited by ${exposure.limitedBy}): more visits make up for it`
+          ? `the precision goal ${fmt(goalPpm)} ppm is not reached (best ${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s, limited by ${LIMIT_WORDS[exposure.limitedBy]}): more visits make up for it`
           : `the precision goal ${fmt(goalPpm)} ppm is not reached at the chosen exposure (${fmt(sigmaPpm)} ppm at ${fmt(exposure.exposureSeconds)} s): more visits make up for it`,
       ),
     ];

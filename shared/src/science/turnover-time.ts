@@ -34,9 +34,11 @@ export const TURNOVER_SCALE_INFO: Readonly<Record<TurnoverScale, TurnoverScaleIn
   noyes1984: {
     id: 'noyes1984',
     label: 'Noyes et al. (1984)',
-    citation: 'Noyes et al. (1984), ApJ 279, 763, eq. 4 (equation number from memory)',
+    // Equation number and validity range from memory, not checked (docs/science.md "Checked
+    // values"): the shown citation has no equation number.
+    citation: 'Noyes et al. (1984), ApJ 279, 763',
     input: 'bvMag',
-    valid: { min: 0.4, max: 1.4, note: 'B−V 0.4–1.4 (from memory)' },
+    valid: { min: 0.4, max: 1.4, note: 'B−V 0.4–1.4' },
   },
   cranmerSaar2011: {
     id: 'cranmerSaar2011',
@@ -50,7 +52,8 @@ export const TURNOVER_SCALE_INFO: Readonly<Record<TurnoverScale, TurnoverScaleIn
     label: 'Wright et al. (2011)',
     citation: 'Wright et al. (2011), ApJ 743, 48, eq. 11',
     input: 'massSolar',
-    valid: { min: 0.09, max: 1.36, note: 'mass 0.09–1.36 M☉ (from memory)' },
+    // Mass range of the fit from memory, not checked.
+    valid: { min: 0.09, max: 1.36, note: 'mass 0.09–1.36 M☉' },
   },
   wright2018: {
     id: 'wright2018',

@@ -18,21 +18,24 @@ const NODE: NodeSpec = TYPICAL_NODE;
 const SITE: SiteSpec = TYPICAL_SITE;
 
 describe('airmassKastenYoung', () => {
-  it('is 1.9943 at 30° and 0.9997 at 90° (SCIENCE.md §8 #9, [derived] from Kasten & Young 1989 — formula from memory)', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('is 1.9943 at 30° and 0.9997 at 90° (SCIENCE.md §8 #9, [derived] from Kasten & Young 1989)', () => {
     expect(airmassKastenYoung(30)).toBeCloseTo(1.9943, 4);
     expect(airmassKastenYoung(90)).toBeCloseTo(0.9997, 4);
   });
   it('rejects altitudes outside 0–90° and NaN', () => {
-    expect(() => airmassKastenYoung(-1)).toThrow(/altitudeDeg: must be within/);
+    expect(() => airmassKastenYoung(-1)).toThrow('altitudeDeg: must be between 0 and 90 (got −1)');
     expect(() => airmassKastenYoung(Number.NaN)).toThrow(/altitudeDeg/);
   });
 });
 
 describe('scintillation', () => {
-  it('Young: 0.70 ppt for D 0.4 m, X 1, h 0 m, 60 s (SCIENCE.md §8 #10, [derived] from Young 1967 — formula from memory)', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('Young: 0.70 ppt for D 0.4 m, X 1, h 0 m, 60 s (SCIENCE.md §8 #10, [derived] from Young 1967)', () => {
     expect(scintillationYoung1967(0.4, 1, 0, 60) * 1e3).toBeCloseTo(0.7, 2);
   });
-  it('Osborn: σ² = 1e-5·CY²·D^(−4/3)/t·X³·e^(−2h/8000) (formula from memory) [derived value]', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('Osborn: σ² = 1e-5·CY²·D^(−4/3)/t·X³·e^(−2h/8000) [derived value]', () => {
     const expected = Math.sqrt((1e-5 * 2.25 * 0.4 ** (-4 / 3)) / 60);
     expect(scintillationOsborn2015(0.4, 1, 0, 60)).toBeCloseTo(expected, 12);
     expect(scintillationOsborn2015(0.4, 2, 0, 60) / scintillationOsborn2015(0.4, 1, 0, 60)).toBeCloseTo(2 ** 1.5, 12);

@@ -9,6 +9,7 @@ import {
   NODE_BANDS,
   SCINTILLATION_MODELS,
 } from '../facility/facility-types';
+import { between, displayNumber } from '../http/range-text';
 import { BAND_ZERO_POINTS, DEFAULT_EXTINCTION_MAG_PER_AIRMASS } from './photometric-bands';
 import {
   ScienceInputError,
@@ -103,7 +104,7 @@ export function scintillationOsborn2015(
 
 function requireAirmass(airmass: number): number {
   const x = requireFinite(airmass, 'airmass');
-  if (x < 0.99 || x > 40) throw new ScienceInputError('airmass', `must be within [0.99, 40] (got ${x})`);
+  if (x < 0.99 || x > 40) throw new ScienceInputError('airmass', `must be ${between(0.99, 40)} (got ${displayNumber(x)})`);
   return x;
 }
 
@@ -195,6 +196,9 @@ export interface PhotometrySetup {
   saturationE: number;
 }
 
+/** Magnitudes in the node's band that the noise model covers, mag. */
+export const MAGNITUDE_RANGE = { min: -2, max: 25 } as const;
+
 /** Builds the time-independent part of the per-visit noise model. */
 export function photometrySetup(
   node: NodeSpec,
@@ -203,7 +207,7 @@ export function photometrySetup(
   airmass: number,
   options: PhotometryOptions = {},
 ): PhotometrySetup {
-  const m = requireInRange(magnitude, 'magnitude', -2, 25);
+  const m = requireInRange(magnitude, 'magnitude', MAGNITUDE_RANGE.min, MAGNITUDE_RANGE.max, false, 'mag');
   const x = requireAirmass(airmass);
   const radiusFwhm = requirePositive(options.apertureRadiusFwhm ?? DEFAULT_PHOTOMETRY.apertureRadiusFwhm, 'photometry.apertureRadiusFwhm');
   const skyRatio = requirePositive(options.skyToApertureAreaRatio ?? DEFAULT_PHOTOMETRY.skyToApertureAreaRatio, 'photometry.skyToApertureAreaRatio');

@@ -18,6 +18,7 @@
  *   such stretch is chosen and, when it is longer, the assessment says by how much
  *   (`stretchDays`). A longer baseline only adds cycles, which the period search tolerates.
  */
+import { countText } from '../science/explained';
 import { SkyInputError, describeValue, requireFiniteInRange } from './sky-input-error';
 import { MAX_INTERVALS_PER_NIGHT, type TargetWindows } from './sky-types';
 
@@ -99,7 +100,8 @@ const fmt = (x: number, digits = 1): string => {
   const s = x.toFixed(digits);
   return s.includes('.') ? s.replace(/\.?0+$/, '') : s;
 };
-const count = (n: number): string => n.toLocaleString('en-GB');
+/** Counts as every plan sentence writes them (grouped from 10 000: "12,932 visits"). */
+const count = countText;
 const plural = (n: number, word: string): string => `${count(n)} ${word}${n === 1 ? '' : 's'}`;
 /** "the visit" or "the 3 visits" of one night. */
 const visitsWord = (k: number): string => (k === 1 ? 'the visit' : `the ${k} visits`);
@@ -208,7 +210,7 @@ export function assessCadence(
   const gapText = longestGap === null ? '' : longestGap === 0 ? '; no gap' : `; longest gap ${plural(longestGap, 'night')}`;
   const stretched = stretchDays !== null && stretchDays > req.baselineDays + 1e-9;
   const nightsText =
-    qualifying.length === 0 ? `no night of ${total} can hold ${visitsWord(req.visitsPerNight)}` : `${qualifying.length} of ${plural(total, 'night')} can hold ${visitsWord(req.visitsPerNight)}`;
+    qualifying.length === 0 ? `no night of ${total} can hold ${visitsWord(req.visitsPerNight)}` : `${count(qualifying.length)} of ${plural(total, 'night')} can hold ${visitsWord(req.visitsPerNight)}`;
   const verdict = `${nightsText}${gapText}; ${
     fits ? (stretched ? `cadence fits over ${plural(stretchDays, 'day')} to absorb the weather` : 'cadence fits') : `cadence does not fit: ${reasons[0]}`
   }`;

@@ -38,7 +38,7 @@ export function parseNightDate(text: unknown, field: string): number {
     throw new SkyInputError(field, `is not a calendar date: ${JSON.stringify(text)}`);
   }
   if (year < 1900 || year > 2199) {
-    throw new SkyInputError(field, `must be within the years 1900…2199, got ${year}`);
+    throw new SkyInputError(field, `must be a night between the years 1900 and 2199, got ${JSON.stringify(text)}`);
   }
   return Math.round(ms / MS_PER_DAY);
 }

@@ -49,11 +49,11 @@ const orderedPair = (min: number, max: number, gap = 0.5) =>
   fc.tuple(angle(min, max), angle(min, max)).filter(([a, b]) => Math.abs(a - b) >= gap).map(([a, b]): readonly [number, number] => (a < b ? [a, b] : [b, a]));
 
 describe('ks91Airmass', () => {
-  it('at zenith distance 0 gives X = 1 (derived here from X(Z) = (1 − 0.96·sin²Z)^(−1/2), SCIENCE.md §6b)', () => {
+  it('at zenith distance 0 gives X = 1 (derived from X(Z) = (1 − 0.96·sin²Z)^(−1/2), SCIENCE.md §6b)', () => {
     expect(ks91Airmass(0)).toBe(1);
   });
 
-  it('at 60° gives 1/√0.28 = 1.889822 and at 90° gives 1/√0.04 = 5 (derived here from the KS91 X(Z))', () => {
+  it('at 60° gives 1/√0.28 = 1.889822 and at 90° gives 1/√0.04 = 5 (derived from the KS91 X(Z))', () => {
     expect(ks91Airmass(60)).toBeCloseTo(1.889822365, 8);
     expect(ks91Airmass(90)).toBeCloseTo(5, 12);
   });
@@ -65,16 +65,17 @@ describe('ks91Airmass', () => {
 });
 
 describe('surface brightness conversions', () => {
-  it('V = 21.9 mag/arcsec² is 59.22 nL (derived here from B = 34.08·exp(20.7233 − 0.92104·V), SCIENCE.md §6b)', () => {
+  it('V = 21.9 mag/arcsec² is 59.22 nL (derived from B = 34.08·exp(20.7233 − 0.92104·V), SCIENCE.md §6b)', () => {
     expect(vMagPerArcsec2ToNanolamberts(21.9)).toBeCloseTo(59.2185, 3);
     expect(nanolambertsToVMagPerArcsec2(59.2185)).toBeCloseTo(21.9, 4);
   });
 
-  it("KS91's dark zenith sky 79.0 nL is V = 21.587 (value pair from memory; derived here from the conversion formula)", () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it("KS91's dark zenith sky 79.0 nL is V = 21.587 (derived from the conversion formula)", () => {
     expect(nanolambertsToVMagPerArcsec2(79.0)).toBeCloseTo(21.587, 3);
   });
 
-  it('one magnitude brighter multiplies nL by exp(0.92104) ≈ 2.512 (derived here from the conversion formula)', () => {
+  it('one magnitude brighter multiplies nL by exp(0.92104) ≈ 2.512 (derived from the conversion formula)', () => {
     expect(vMagPerArcsec2ToNanolamberts(20) / vMagPerArcsec2ToNanolamberts(21)).toBeCloseTo(Math.exp(0.92104), 10);
   });
 
@@ -94,14 +95,15 @@ describe('surface brightness conversions', () => {
 });
 
 describe('moonPhaseAngleDegFromIlluminatedFraction', () => {
-  it('gives 0° at full, 60° at f = 0.75, 90° at quarter, 180° at new (derived here from α = acos(2f − 1))', () => {
+  it('gives 0° at full, 60° at f = 0.75, 90° at quarter, 180° at new (derived from α = acos(2f − 1))', () => {
     expect(moonPhaseAngleDegFromIlluminatedFraction(1)).toBe(0);
     expect(moonPhaseAngleDegFromIlluminatedFraction(0.75)).toBeCloseTo(60, 10);
     expect(moonPhaseAngleDegFromIlluminatedFraction(0.5)).toBeCloseTo(90, 10);
     expect(moonPhaseAngleDegFromIlluminatedFraction(0)).toBeCloseTo(180, 10);
   });
 
-  it('inverts f = (1 + cos α)/2 (property; Meeus 1991 illuminated fraction, from memory)', () => {
+  // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
+  it('inverts f = (1 + cos α)/2 (property; Meeus 1991 illuminated fraction)', () => {
     fc.assert(
       fc.property(angle(0, 180), (alpha) => {
         const f = (1 + Math.cos((alpha * Math.PI) / 180)) / 2;
@@ -121,7 +123,7 @@ describe('moonSkyBrightnessNanolamberts', () => {
     expect(moon({ moonZenithDeg: 90 })).toBeGreaterThan(0);
   });
 
-  it('adds nothing without an atmosphere, k = 0 (derived here: the factor 1 − 10^(−0.4·k·X) vanishes)', () => {
+  it('adds nothing without an atmosphere, k = 0 (derived: the factor 1 − 10^(−0.4·k·X) vanishes)', () => {
     expect(moon({ extinctionMagPerAirmass: 0 })).toBe(0);
   });
 
@@ -164,7 +166,7 @@ describe('moonSkyBrightnessNanolamberts', () => {
     );
   });
 
-  it('rises again past ≈ 92° towards 180° (derived here: the Rayleigh term 1.06 + cos²ρ is symmetric about 90°)', () => {
+  it('rises again past ≈ 92° towards 180° (derived: the Rayleigh term 1.06 + cos²ρ is symmetric about 90°)', () => {
     expect(ks91ScatteringFunction(180)).toBeGreaterThan(ks91ScatteringFunction(120));
     expect(ks91ScatteringFunction(120)).toBeGreaterThan(ks91ScatteringFunction(95));
     expect(ks91ScatteringFunction(95)).toBeGreaterThan(ks91ScatteringFunction(92));
@@ -186,7 +188,7 @@ describe('moonSkyBrightnessNanolamberts', () => {
     );
   });
 
-  it('rises with k while 0.4·ln10·k·X(Z) < ln((X(Z) + X(Z_m))/X(Z_m)) and falls beyond (property; derived here from d/dk of the KS91 formula)', () => {
+  it('rises with k while 0.4·ln10·k·X(Z) < ln((X(Z) + X(Z_m))/X(Z_m)) and falls beyond (property; derived from d/dk of the KS91 formula)', () => {
     fc.assert(
       fc.property(geometry, orderedPair(0, 1, 0.005), (g, [k1, k2]) => {
         const x = ks91Airmass(g.targetZenithDeg);
@@ -211,15 +213,15 @@ describe('moonSkyBrightnessNanolamberts', () => {
 });
 
 describe('darkSkyAtZenithDistance', () => {
-  it('at the zenith returns the zenith value (derived here: X(0) = 1 makes both factors 1)', () => {
+  it('at the zenith returns the zenith value (derived: X(0) = 1 makes both factors 1)', () => {
     expect(darkSkyAtZenithDistance(21.5, 0, 0.15)).toBeCloseTo(21.5, 12);
   });
 
-  it('at Z = 60°, k = 0.15 gives 21.5 + k·(X − 1) − 2.5·log₁₀X = 20.94242 (derived here from B_dark·10^(−0.4·k·(X−1))·X, SCIENCE.md §6b)', () => {
+  it('at Z = 60°, k = 0.15 gives 21.5 + k·(X − 1) − 2.5·log₁₀X = 20.94242 (derived from B_dark·10^(−0.4·k·(X−1))·X, SCIENCE.md §6b)', () => {
     expect(darkSkyAtZenithDistance(21.5, 60, 0.15)).toBeCloseTo(20.942421, 5);
   });
 
-  it('brightens monotonically towards the horizon for k ≤ 0.217 (property; derived here: d/dX[X·10^(−0.4·k·(X−1))] > 0 while X < 1/(0.4·ln10·k))', () => {
+  it('brightens monotonically towards the horizon for k ≤ 0.217 (property; derived: d/dX[X·10^(−0.4·k·(X−1))] > 0 while X < 1/(0.4·ln10·k))', () => {
     fc.assert(
       fc.property(angle(15, 24), angle(0, 0.217), orderedPair(0, 90), (v, k, [z1, z2]) => {
         expect(darkSkyAtZenithDistance(v, z2, k)).toBeLessThan(darkSkyAtZenithDistance(v, z1, k));
@@ -240,7 +242,7 @@ describe('skyBrightnessMagPerArcsec2', () => {
     expect(s).toBeCloseTo(20.942421, 5);
   });
 
-  it('adds dark and Moon in nanolamberts (derived here from the conversion formula)', () => {
+  it('adds dark and Moon in nanolamberts (derived from the conversion formula)', () => {
     const g = { ...base, darkSkyZenithMagPerArcsec2: dark };
     const nl = vMagPerArcsec2ToNanolamberts(darkSkyAtZenithDistance(dark, g.targetZenithDeg, g.extinctionMagPerAirmass)) + moonSkyBrightnessNanolamberts(g);
     expect(skyBrightnessMagPerArcsec2(g)).toBeCloseTo(nanolambertsToVMagPerArcsec2(nl), 10);
@@ -255,7 +257,7 @@ describe('skyBrightnessMagPerArcsec2', () => {
     );
   });
 
-  it('full Moon 45° away makes the sky several magnitudes brighter than dark (KS91 model; derived here: > 2.5 mag for a 21.5 sky)', () => {
+  it('full Moon 45° away makes the sky several magnitudes brighter than dark (KS91 model; derived: > 2.5 mag for a 21.5 sky)', () => {
     const s = skyBrightnessMagPerArcsec2({ ...base, darkSkyZenithMagPerArcsec2: dark });
     expect(s).toBeLessThan(dark - 2.5);
     expect(s).toBeGreaterThan(15);
@@ -284,7 +286,7 @@ describe('nightlySkyBrightness', () => {
     { hours: 0, alt: Number.NaN, moonAlt: Number.NaN, sep: Number.NaN, light: Number.NaN }, // not usable, never read
   ]);
 
-  it('gives NaN on unusable nights and the dark sky where the Moon is down (SCIENCE.md §6b, derived here)', () => {
+  it('gives NaN on unusable nights and the dark sky where the Moon is down (SCIENCE.md §6b, derived)', () => {
     const r = nightlySkyBrightness(windows, dark, k);
     expect(r.usableNights).toBe(5);
     expect(Number.isNaN(r.byNight[1])).toBe(true);
@@ -309,7 +311,7 @@ describe('nightlySkyBrightness', () => {
     expect(r.byNight[4]).toBeCloseTo(one(quarterMoonNight), 10);
   });
 
-  it('median is the middle usable night (dark sky at Z = 60°, 20.942421: derived here) and worst the full-Moon night', () => {
+  it('median is the middle usable night (dark sky at Z = 60°, 20.942421: derived) and worst the full-Moon night', () => {
     // Usable values sorted: full < quarter < 20.942421 (Moon down, Z = 60°) < 21.5 = 21.5.
     const r = nightlySkyBrightness(windows, dark, k);
     expect(r.byNight[2]).toBeLessThan(r.byNight[4]);
@@ -330,7 +332,7 @@ describe('nightlySkyBrightness', () => {
     expect(nightlySkyBrightness(even, dark, k).medianMagPerArcsec2).toBeCloseTo((dark60 + dark) / 2, 5);
   });
 
-  it('raises a target below the floor to it: at the horizon by default, at minTargetAltitudeDeg when given (derived here)', () => {
+  it('raises a target below the floor to it: at the horizon by default, at minTargetAltitudeDeg when given (derived)', () => {
     const low = handWindows([{ hours: 1, alt: -12, moonAlt: -10, sep: 90, light: 0 }]);
     expect(nightlySkyBrightness(low, dark, k).byNight[0]).toBeCloseTo(darkSkyAtZenithDistance(dark, 90, k), 10);
     expect(nightlySkyBrightness(low, dark, k, { minTargetAltitudeDeg: 30 }).byNight[0]).toBeCloseTo(dark60, 5);

@@ -10,6 +10,7 @@
  *
  * Validation: bad input throws `ScienceInputError` naming the field (science-input-error.ts).
  */
+import { between, displayNumber } from '../http/range-text';
 import type { TargetWindows } from './sky-types';
 import { ScienceInputError, requireFinite, requireInRange, requirePositive } from '../science/science-input-error';
 
@@ -271,10 +272,10 @@ export function nightlySkyBrightness(
     const sep = moonSep[i];
     const light = moonLight[i];
     // Inline range checks (no allocation); the field names the night.
-    if (!(alt >= -90 && alt <= 90)) badNight('altitudeAtMidDarkDegByNight', i, alt, '[-90, 90]');
-    if (!(mAlt >= -90 && mAlt <= 90)) badNight('moonAltitudeDegByNight', i, mAlt, '[-90, 90]');
-    if (!(sep >= 0 && sep <= 180)) badNight('moonSeparationDegByNight', i, sep, '[0, 180]');
-    if (!(light >= 0 && light <= 1)) badNight('moonIlluminationByNight', i, light, '[0, 1]');
+    if (!(alt >= -90 && alt <= 90)) badNight('altitudeAtMidDarkDegByNight', i, alt, between(-90, 90, '°'));
+    if (!(mAlt >= -90 && mAlt <= 90)) badNight('moonAltitudeDegByNight', i, mAlt, between(-90, 90, '°'));
+    if (!(sep >= 0 && sep <= 180)) badNight('moonSeparationDegByNight', i, sep, between(0, 180, '°'));
+    if (!(light >= 0 && light <= 1)) badNight('moonIlluminationByNight', i, light, between(0, 1));
     const zTarget = 90 - (alt > floorAlt ? alt : floorAlt);
     const zMoon = 90 - mAlt;
     const total = darkNlUnchecked(darkZenithNl, zTarget, k) + moonNlUnchecked(phaseAngleUnchecked(light), sep, zMoon, zTarget, k);
@@ -297,7 +298,7 @@ export function nightlySkyBrightness(
 }
 
 function badNight(name: string, night: number, value: number, range: string): never {
-  throw new ScienceInputError(`windows.${name}[${night}]`, `must be within ${range} (got ${value})`);
+  throw new ScienceInputError(`windows.${name}[${night}]`, `must be ${range} (got ${displayNumber(value)})`);
 }
 
 // ---------------------------------------------------------------------------------------

@@ -9,6 +9,7 @@
  * Errors are `SkyInputError`s naming the field (`ra`/`dec`, with an optional prefix such as
  * `targets[3].`) and why.
  */
+import { between, typedText } from '../http/range-text';
 import { SkyInputError } from './sky-input-error';
 
 /** A parsed position, J2000 degrees. */
@@ -122,22 +123,28 @@ function readAngle(
   return { magnitude: first.value + minutes / 60 + seconds / 3600, unit, negative };
 }
 
-/** Parses a right ascension (see the file comment) into degrees in [0, 360). */
+/**
+ * Parses a right ascension (see the file comment) into degrees in [0, 360). Range errors quote
+ * the text as typed ("got 25:00:00"), never the hours or degrees read from it.
+ */
 export function parseRa(text: unknown, field = 'ra'): number {
   const { magnitude, unit, negative } = readAngle(text, field, 'ra');
-  if (negative && magnitude !== 0) throw new SkyInputError(field, 'right ascension cannot be negative');
+  if (negative && magnitude !== 0) throw new SkyInputError(field, `right ascension cannot be negative, got ${typedText(text)}`);
   if (unit === 'h') {
-    if (magnitude >= 24) throw new SkyInputError(field, `right ascension must be below 24 h, got ${magnitude} h`);
+    if (magnitude >= 24) throw new SkyInputError(field, `right ascension must be below 24 h, got ${typedText(text)}`);
     return magnitude * 15;
   }
-  if (magnitude >= 360) throw new SkyInputError(field, `right ascension must be below 360°, got ${magnitude}°`);
+  if (magnitude >= 360) throw new SkyInputError(field, `right ascension must be below 360°, got ${typedText(text)}`);
   return magnitude;
 }
 
-/** Parses a declination (see the file comment) into degrees in [−90, +90]. */
+/**
+ * Parses a declination (see the file comment) into degrees in [−90, +90]. The range error
+ * quotes the text as typed ("got +95:12:00"), not the degrees read from it.
+ */
 export function parseDec(text: unknown, field = 'dec'): number {
   const { magnitude, negative } = readAngle(text, field, 'dec');
-  if (magnitude > 90) throw new SkyInputError(field, `declination must be within −90…+90°, got ${negative ? '-' : ''}${magnitude}°`);
+  if (magnitude > 90) throw new SkyInputError(field, `declination must be ${between(-90, 90, '°')}, got ${typedText(text)}`);
   return negative ? -magnitude : magnitude;
 }
 

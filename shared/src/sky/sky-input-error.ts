@@ -1,3 +1,5 @@
+import { between, displayNumber } from '../http/range-text';
+
 /**
  * The one error the sky-window code throws for bad input. `field` is the path of the offending
  * value in the caller's input (`targets[3].decDeg`, `campaign.lastNight`, `ra`), so the server
@@ -6,7 +8,7 @@
 export class SkyInputError extends Error {
   /** Path of the offending value, e.g. `targets[3].decDeg`. */
   readonly field: string;
-  /** Why the value was refused, without the field name, e.g. `must be within −90…+90, got 91`. */
+  /** Why the value was refused, without the field name, e.g. `must be between −90 and 90, got 91`. */
   readonly reason: string;
 
   constructor(field: string, reason: string) {
@@ -26,13 +28,13 @@ export function describeValue(value: unknown): string {
   return typeof value;
 }
 
-/** Throws unless `value` is a finite number within [min, max]. */
-export function requireFiniteInRange(value: unknown, field: string, min: number, max: number): number {
+/** Throws unless `value` is a finite number within [min, max]; `unit` follows the range when given. */
+export function requireFiniteInRange(value: unknown, field: string, min: number, max: number, unit = ''): number {
   if (typeof value !== 'number' || !Number.isFinite(value)) {
     throw new SkyInputError(field, `must be a finite number, got ${describeValue(value)}`);
   }
   if (value < min || value > max) {
-    throw new SkyInputError(field, `must be within ${min}…${max}, got ${value}`);
+    throw new SkyInputError(field, `must be ${between(min, max, unit)}, got ${displayNumber(value)}`);
   }
   return value;
 }

@@ -59,7 +59,7 @@ describe('computeSkyWindows input checks', () => {
 
   it('says why in the message', () => {
     expect(() => computeSkyWindows(withTarget3({ raDeg: 10, decDeg: 91 }) as SkyWindowsInput)).toThrow(
-      'targets[3].decDeg: must be within -90…90, got 91',
+      'targets[3].decDeg: must be between −90° and 90°, got 91',
     );
   });
 });

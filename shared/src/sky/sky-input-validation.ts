@@ -7,6 +7,7 @@ import { InverseRefraction } from 'astronomy-engine';
 import { altitudeForAirmassDeg } from './airmass-limit';
 import { assertTimeZone, parseNightDate } from './local-nights';
 import { SkyInputError, describeValue, requireFiniteInRange } from './sky-input-error';
+import { displayNumber } from '../http/range-text';
 import type { RefractionMode, ResolvedSkyLimits, SkyLimits, SkySite, SkyTarget, SkyWindowsInput } from './sky-types';
 
 /** Longest campaign accepted, nights (three years). */
@@ -33,9 +34,9 @@ function optionalInRange(value: unknown, field: string, min: number, max: number
 export function validateSite(site: unknown, field = 'site'): SkySite {
   const s = requireObject(site, field);
   return {
-    latitudeDeg: requireFiniteInRange(s['latitudeDeg'], `${field}.latitudeDeg`, -90, 90),
-    longitudeDeg: requireFiniteInRange(s['longitudeDeg'], `${field}.longitudeDeg`, -180, 180),
-    elevationM: requireFiniteInRange(s['elevationM'], `${field}.elevationM`, -500, 9000),
+    latitudeDeg: requireFiniteInRange(s['latitudeDeg'], `${field}.latitudeDeg`, -90, 90, '°'),
+    longitudeDeg: requireFiniteInRange(s['longitudeDeg'], `${field}.longitudeDeg`, -180, 180, '°'),
+    elevationM: requireFiniteInRange(s['elevationM'], `${field}.elevationM`, -500, 9000, 'm'),
     timeZone: assertTimeZone(s['timeZone'], `${field}.timeZone`),
   };
 }
@@ -51,7 +52,7 @@ export function resolveLimits(limits: unknown, field = 'limits'): ResolvedSkyLim
   if (l.altitudeLimitDeg !== undefined && l.airmassLimit !== undefined) {
     throw new SkyInputError(`${field}.airmassLimit`, 'give either altitudeLimitDeg or airmassLimit, not both');
   } else if (l.altitudeLimitDeg !== undefined) {
-    altitudeLimitDeg = requireFiniteInRange(l.altitudeLimitDeg, `${field}.altitudeLimitDeg`, -10, 89);
+    altitudeLimitDeg = requireFiniteInRange(l.altitudeLimitDeg, `${field}.altitudeLimitDeg`, -10, 89, '°');
   } else if (l.airmassLimit !== undefined) {
     altitudeLimitDeg = altitudeForAirmassDeg(l.airmassLimit as number, `${field}.airmassLimit`);
   } else {
@@ -91,8 +92,8 @@ export function validateTarget(target: unknown, field: string): SkyTarget {
   if (typeof raDeg !== 'number' || !Number.isFinite(raDeg)) {
     throw new SkyInputError(`${field}.raDeg`, `must be a finite number, got ${describeValue(raDeg)}`);
   }
-  if (raDeg < 0 || raDeg >= 360) throw new SkyInputError(`${field}.raDeg`, `must be within 0…360 (360 excluded), got ${raDeg}`);
-  const decDeg = requireFiniteInRange(t['decDeg'], `${field}.decDeg`, -90, 90);
+  if (raDeg < 0 || raDeg >= 360) throw new SkyInputError(`${field}.raDeg`, `must be from 0° up to, not including, 360°, got ${displayNumber(raDeg)}`);
+  const decDeg = requireFiniteInRange(t['decDeg'], `${field}.decDeg`, -90, 90, '°');
   const name = t['name'];
   if (name !== undefined && typeof name !== 'string') {
     throw new SkyInputError(`${field}.name`, `must be a string, got ${describeValue(name)}`);

@@ -35,7 +35,7 @@ function etcZone(longitudeDeg: number): string {
 describe('sky windows, check values of SCIENCE.md §8', () => {
   // Check value 11: derived here from astronomy-engine (no refraction); the same value against
   // astropy 5.2.1, run in the test, is in test/reference/sky-windows-astropy.spec.ts.
-  it('Vega at the check site on 2024-06-21 07:00 UTC has alt 75.246°, az 57.908° (§8 #11; source: derived here from astronomy-engine Horizon without refraction; astropy 5.2.1 agrees within 0.001° in test/reference)', () => {
+  it('Vega at the check site on 2024-06-21 07:00 UTC has alt 75.246°, az 57.908° (§8 #11; source: derived from astronomy-engine Horizon without refraction; astropy 5.2.1 agrees within 0.001° in test/reference)', () => {
     const ut = utDaysFromMs(Date.parse('2024-06-21T07:00:00Z'));
     const engine = engineHorizontal(observerOf(CHECK_SITE), VEGA, ut, 'none');
     expect(Math.abs(engine.altitudeDeg - 75.246)).toBeLessThan(0.001);
@@ -50,7 +50,7 @@ describe('sky windows, check values of SCIENCE.md §8', () => {
 
   // Check value 12: derived here from astronomy-engine; the Sun's altitude at that instant
   // (−18.000°) is astropy 5.2.1's, run in test/reference/sky-windows-astropy.spec.ts.
-  it('astronomical dusk of the night of 2024-06-21 at the check site is 2024-06-22 04:15:53 UTC (§8 #12; source: derived here from astronomy-engine SearchAltitude(Sun, −18°); astropy 5.2.1 puts the Sun at −18.000° then, in test/reference)', () => {
+  it('astronomical dusk of the night of 2024-06-21 at the check site is 2024-06-22 04:15:53 UTC (§8 #12; source: derived from astronomy-engine SearchAltitude(Sun, −18°); astropy 5.2.1 puts the Sun at −18.000° then, in test/reference)', () => {
     const result = computeSkyWindows({
       site: CHECK_SITE,
       limits: { altitudeLimitDeg: 30 },

@@ -63,7 +63,7 @@ describe('spincycle windows (CLI)', () => {
     writeFileSync(csv, 'name,ra,dec\nA,10,20\nB,25:00:00,10\n');
     const bad = cli(['--lat', '10', '--lon', '0', '--tz', 'UTC', '--from', '2025-03-01', '--to', '2025-03-02', '--alt-limit', '30', '--targets', csv]);
     expect(bad.code).toBe(2);
-    expect(bad.stderr).toMatch(/targets\[1\]\.ra: right ascension must be below 24 h, got 25 h \(line 3 of .*bad\.csv\)/);
+    expect(bad.stderr).toMatch(/targets\[1\]\.ra: right ascension must be below 24 h, got 25:00:00 \(line 3 of .*bad\.csv\)/);
     const order = cli(['--lat', '10', '--lon', '0', '--tz', 'UTC', '--from', '2025-03-05', '--to', '2025-03-02', '--alt-limit', '30', '--ra', '1', '--dec', '2']);
     expect(order.code).toBe(2);
     expect(order.stderr).toMatch(/campaign\.lastNight: must not be before/);

@@ -4,7 +4,7 @@ import { cycleInputSchema, cycleUpdateSchema, type CycleInput } from '@spincycle
 import { idParamSchema, MAX_DB_ID } from '@spincycle/shared/http/ids';
 import { CONTROL_CHARACTER_MESSAGE, hasControlCharacters, refuseNul } from '@spincycle/shared/http/text';
 import type { AppContext } from '../../app-context';
-import { createCycle, getCycleFor, listCyclesFor, updateCycle } from './cycle-service';
+import { createCycle, getCycleFor, getCycleProposals, listCyclesFor, updateCycle } from './cycle-service';
 
 /**
  * Edge checks the shared cycle schema leaves open (it belongs to the cycles contract): ids and
@@ -37,6 +37,10 @@ export function createCycleController(ctx: AppContext) {
     async get(req: Request, res: Response) {
       const { id } = idParamSchema.parse(req.params);
       res.json(await getCycleFor(ctx, req.user!, id));
+    },
+    async proposals(req: Request, res: Response) {
+      const { id } = idParamSchema.parse(req.params);
+      res.json(await getCycleProposals(ctx, id));
     },
     async create(req: Request, res: Response) {
       res.status(201).json(await createCycle(ctx, req.user!, cycleInputAtEdge.parse(req.body)));

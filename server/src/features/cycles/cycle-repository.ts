@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
-import type { CycleInput } from '@spincycle/shared/cycles/cycle-schemas';
+import type { CapacityOverrunRule, CycleInput } from '@spincycle/shared/cycles/cycle-schemas';
 import type { Cycle, CycleNodeCapacity } from '@spincycle/shared/facility/facility-types';
+import type { ProposalState } from '@spincycle/shared/proposals/proposal-states';
 
 interface CycleRow {
   id: number;
@@ -12,6 +13,7 @@ interface CycleRow {
   campaign_start: string;
   campaign_end: string;
   anonymous_review: boolean;
+  capacity_overrun: CapacityOverrunRule;
   categories: string[];
   version: number;
   updated_at: Date;
@@ -33,6 +35,7 @@ function toCycle(r: CycleRow): StoredCycle {
     campaignStart: r.campaign_start,
     campaignEnd: r.campaign_end,
     anonymousReview: r.anonymous_review,
+    capacityOverrun: r.capacity_overrun,
     categories: r.categories,
     version: r.version,
     updatedAt: r.updated_at.toISOString(),
@@ -106,6 +109,7 @@ function cycleColumns(input: CycleInput) {
     campaign_start: input.campaignStart,
     campaign_end: input.campaignEnd,
     anonymous_review: input.anonymousReview,
+    capacity_overrun: input.capacityOverrun,
     categories: input.categories,
   };
 }
@@ -138,6 +142,94 @@ export async function requestedNodesOfCycle(db: Knex, cycleId: number): Promise<
     .groupBy('pn.node_id', 'n.code')
     .select('pn.node_id', 'n.code', db.raw('count(*)::int AS proposals'));
   return rows.map((r: { node_id: number; code: string; proposals: number }) => ({ nodeId: r.node_id, nodeCode: r.code, proposals: r.proposals }));
+}
+
+/**
+ * Node-hours the cycle's submitted proposals (every state but draft) request on each node,
+ * feasible plans only (as in the proposals' own request), by node id.
+ */
+export async function submittedRequestsByNode(db: Knex, cycleId: number): Promise<Map<number, { nodeHours: number; proposals: number }>> {
+  const rows = (await db('proposal_nodes as pn')
+    .join('proposals as p', 'p.id', 'pn.proposal_id')
+    .leftJoin('target_plans as tp', function () {
+      this.on('tp.proposal_id', 'pn.proposal_id').andOn('tp.node_id', 'pn.node_id').andOnNotNull('tp.result');
+    })
+    .where('p.cycle_id', cycleId)
+    .whereNot('p.state', 'draft')
+    .groupBy('pn.node_id')
+    .select(
+      'pn.node_id',
+      db.raw('coalesce(sum(tp.node_hours) FILTER (WHERE tp.feasible), 0)::float8 AS node_hours'),
+      db.raw('count(DISTINCT pn.proposal_id)::int AS proposals'),
+    )) as { node_id: number; node_hours: number; proposals: number }[];
+  return new Map(rows.map((r) => [r.node_id, { nodeHours: Math.round(r.node_hours * 100) / 100, proposals: r.proposals }]));
+}
+
+/** One proposal of a cycle as the facility manager's list shows it (without its request). */
+export interface CycleProposalRow {
+  id: number;
+  title: string;
+  piName: string;
+  state: ProposalState;
+  submittedAt: string | null;
+}
+
+/** The cycle's proposals in every state but draft, earliest submission first. */
+export async function listSubmittedProposalsOfCycle(db: Knex, cycleId: number): Promise<CycleProposalRow[]> {
+  const rows = (await db('proposals as p')
+    .join('accounts as a', 'a.id', 'p.pi_account_id')
+    .where('p.cycle_id', cycleId)
+    .whereNot('p.state', 'draft')
+    .orderBy([{ column: 'p.submitted_at', order: 'asc', nulls: 'last' }, { column: 'p.id' }])
+    .select('p.id', 'p.title', 'a.display_name', 'p.state', 'p.submitted_at')) as {
+    id: number;
+    title: string;
+    display_name: string;
+    state: ProposalState;
+    submitted_at: Date | null;
+  }[];
+  return rows.map((r) => ({ id: r.id, title: r.title, piName: r.display_name, state: r.state, submittedAt: r.submitted_at?.toISOString() ?? null }));
+}
+
+/** How many of the cycle's proposals are still drafts (not counted in its pressure). */
+export async function countDraftsOfCycle(db: Knex, cycleId: number): Promise<number> {
+  const [{ n }] = await db('proposals').where({ cycle_id: cycleId, state: 'draft' }).count<{ n: number }[]>({ n: '*' });
+  return Number(n);
+}
+
+/** Per proposal and requested node: feasible node-hours, infeasible node-hours and plan counts. */
+export async function requestsOfProposals(
+  db: Knex,
+  proposalIds: number[],
+): Promise<{ proposalId: number; nodeId: number; nodeCode: string; nodeHours: number; infeasibleNodeHours: number; targets: number; infeasibleTargets: number }[]> {
+  if (!proposalIds.length) return [];
+  const rows = (await db('proposal_nodes as pn')
+    .join('nodes as n', 'n.id', 'pn.node_id')
+    .leftJoin('target_plans as tp', function () {
+      this.on('tp.proposal_id', 'pn.proposal_id').andOn('tp.node_id', 'pn.node_id').andOnNotNull('tp.result');
+    })
+    .whereIn('pn.proposal_id', proposalIds)
+    .groupBy('pn.proposal_id', 'pn.node_id', 'n.code')
+    .orderBy([{ column: 'pn.proposal_id' }, { column: 'n.code' }])
+    .select(
+      'pn.proposal_id',
+      'pn.node_id',
+      'n.code',
+      db.raw('coalesce(sum(tp.node_hours) FILTER (WHERE tp.feasible), 0)::float8 AS node_hours'),
+      db.raw('coalesce(sum(tp.node_hours) FILTER (WHERE NOT tp.feasible), 0)::float8 AS infeasible_node_hours'),
+      db.raw('count(tp.target_id)::int AS targets'),
+      db.raw('count(tp.target_id) FILTER (WHERE NOT tp.feasible)::int AS infeasible'),
+    )) as { proposal_id: number; node_id: number; code: string; node_hours: number; infeasible_node_hours: number; targets: number; infeasible: number }[];
+  const round = (x: number) => Math.round(x * 100) / 100;
+  return rows.map((r) => ({
+    proposalId: r.proposal_id,
+    nodeId: r.node_id,
+    nodeCode: r.code,
+    nodeHours: round(r.node_hours),
+    infeasibleNodeHours: round(r.infeasible_node_hours),
+    targets: r.targets,
+    infeasibleTargets: r.infeasible,
+  }));
 }
 
 /** Ids of the cycle's proposals still in draft. */

@@ -1,7 +1,9 @@
+import { pressureOf, type CycleNodePressure, type CycleProposalItem, type CycleProposalsReport } from '@spincycle/shared/cycles/cycle-proposals';
 import type { CycleInput, CycleUpdate } from '@spincycle/shared/cycles/cycle-schemas';
 import { callStatusAt, type CycleSummary } from '@spincycle/shared/facility/facility-types';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
 import { hasAnyRole } from '@spincycle/shared/accounts/roles';
+import type { Knex } from 'knex';
 import type { AppContext } from '../../app-context';
 import { isUniqueViolation } from '../../db/unique-violation';
 import { AppError } from '../../http/app-error';
@@ -9,14 +11,19 @@ import { listNodes } from '../facility/facility-repository';
 import { markPlansRequested } from '../proposals/plans/plan-repository';
 import { queuePlanComputations } from '../proposals/plans/plan-requests';
 import {
+  countDraftsOfCycle,
   cycleIdsWithMembership,
   draftProposalIdsOfCycle,
   findCycleById,
   findCycleWithNodes,
   insertCycle,
+  listCycleNodes,
   listCycles,
+  listSubmittedProposalsOfCycle,
   replaceCycleNodes,
   requestedNodesOfCycle,
+  requestsOfProposals,
+  submittedRequestsByNode,
   toPublicCycle,
   updateCycleRow,
   type StoredCycle,
@@ -99,12 +106,17 @@ export async function createCycle(ctx: AppContext, actor: SessionUser, input: Cy
   }
 }
 
+/** `809.68` → `809.68`, `620` → `620` (node-hours in messages). */
+const hours = (x: number) => String(Math.round(x * 100) / 100);
+
 /**
  * PUT /api/cycles/:id (facility managers). The body names the version it read: another
  * manager's save in between → 409 `version_conflict`, nothing written. The nodes and their
  * capacity are replaced in the same transaction; a node that proposals of the cycle request
- * cannot be dropped (409 `node_in_use`). A changed campaign makes the draft proposals' plans
- * stale, so they are queued for recomputation.
+ * cannot be dropped (409 `node_in_use`). Cutting a node's capacity below what the cycle's
+ * submitted proposals request there needs `confirmCapacityCut` (else 409
+ * `capacity_below_requests` naming node, request and new capacity, nothing written). A changed
+ * campaign makes the draft proposals' plans stale, so they are queued for recomputation.
  */
 export async function updateCycle(ctx: AppContext, id: number, update: CycleUpdate): Promise<CycleSummary> {
   const input = update.cycle;
@@ -130,6 +142,7 @@ export async function updateCycle(ctx: AppContext, id: number, update: CycleUpda
           'cycle.nodes': [`still requested: ${names}`],
         });
       }
+      if (!update.confirmCapacityCut) await refuseUnconfirmedCapacityCut(trx, id, input);
       await updateCycleRow(trx, id, input);
       await replaceCycleNodes(trx, id, input.nodes);
       if (current.campaignStart !== input.campaignStart || current.campaignEnd !== input.campaignEnd) {
@@ -143,4 +156,81 @@ export async function updateCycle(ctx: AppContext, id: number, update: CycleUpda
   }
   await queuePlanComputations(ctx, replan);
   return summarize(ctx, (await findCycleWithNodes(ctx.db, id))!);
+}
+
+/**
+ * 409 `capacity_below_requests` when the input lowers some node's capacity below the node-hours
+ * the cycle's submitted proposals request there (a raise, or a cut that still covers the
+ * requests, passes). Its message lists node, request and new capacity; fieldErrors point at
+ * each row's capacity (`cycle.nodes.<i>.nodeHoursAvailable`).
+ */
+async function refuseUnconfirmedCapacityCut(db: Knex, cycleId: number, input: CycleInput): Promise<void> {
+  const [before, requested] = await Promise.all([listCycleNodes(db, cycleId), submittedRequestsByNode(db, cycleId)]);
+  const previous = new Map(before.map((n) => [n.nodeId, n]));
+  const cuts: { index: number; nodeCode: string; requested: number; capacity: number }[] = [];
+  input.nodes.forEach((n, index) => {
+    const old = previous.get(n.nodeId);
+    const request = requested.get(n.nodeId)?.nodeHours ?? 0;
+    if (old && n.nodeHoursAvailable < old.nodeHoursAvailable && n.nodeHoursAvailable < request) {
+      cuts.push({ index, nodeCode: old.nodeCode, requested: request, capacity: n.nodeHoursAvailable });
+    }
+  });
+  if (!cuts.length) return;
+  const list = cuts.map((c) => `${c.nodeCode}: ${hours(c.requested)} node-hours requested, new capacity ${hours(c.capacity)}`).join('; ');
+  const fieldErrors: Record<string, string[]> = {};
+  for (const c of cuts) {
+    fieldErrors[`cycle.nodes.${c.index}.nodeHoursAvailable`] = [`below the ${hours(c.requested)} node-hours submitted proposals request on ${c.nodeCode}`];
+  }
+  throw new AppError(
+    'capacity_below_requests',
+    `The new capacity is below what submitted proposals request (${list}). Save again with confirmCapacityCut to cut it anyway.`,
+    409,
+    fieldErrors,
+    { nodes: cuts.map(({ nodeCode, requested: r, capacity }) => ({ nodeCode, requestedNodeHours: r, nodeHoursAvailable: capacity })) },
+  );
+}
+
+/**
+ * GET /api/cycles/:id/proposals (facility managers): the proposals submitted to the cycle
+ * (every state but draft), each with its request per node against the node's capacity, and
+ * the pressure on each node (requested ÷ offered). Requests count feasible target plans only;
+ * the infeasible plans' node-hours are reported apart.
+ */
+export async function getCycleProposals(ctx: AppContext, id: number): Promise<CycleProposalsReport> {
+  const cycle = await findCycleWithNodes(ctx.db, id);
+  if (!cycle) throw new AppError('cycle_not_found', `No cycle ${id}`, 404);
+  const [rows, draftCount] = await Promise.all([listSubmittedProposalsOfCycle(ctx.db, id), countDraftsOfCycle(ctx.db, id)]);
+  const requests = await requestsOfProposals(ctx.db, rows.map((r) => r.id));
+  const capacity = new Map(cycle.nodes.map((n) => [n.nodeId, n.nodeHoursAvailable]));
+  const byProposal = new Map<number, CycleProposalItem['request']>();
+  for (const r of requests) {
+    const available = capacity.get(r.nodeId) ?? null;
+    const { proposalId, ...rest } = r;
+    const list = byProposal.get(proposalId) ?? [];
+    list.push({ ...rest, nodeHoursAvailable: available, overCapacity: available !== null && r.nodeHours > available });
+    byProposal.set(proposalId, list);
+  }
+  const proposals: CycleProposalItem[] = rows.map((row) => {
+    const request = byProposal.get(row.id) ?? [];
+    return {
+      ...row,
+      request,
+      totalNodeHours: Math.round(request.reduce((s, r) => s + r.nodeHours, 0) * 100) / 100,
+      overCapacity: request.some((r) => r.overCapacity),
+    };
+  });
+  const nodes: CycleNodePressure[] = cycle.nodes.map((n) => {
+    const on = requests.filter((r) => r.nodeId === n.nodeId);
+    const requested = Math.round(on.reduce((s, r) => s + r.nodeHours, 0) * 100) / 100;
+    return {
+      nodeId: n.nodeId,
+      nodeCode: n.nodeCode,
+      nodeHoursAvailable: n.nodeHoursAvailable,
+      requestedNodeHours: requested,
+      infeasibleNodeHours: Math.round(on.reduce((s, r) => s + r.infeasibleNodeHours, 0) * 100) / 100,
+      proposals: on.length,
+      pressure: pressureOf(requested, n.nodeHoursAvailable),
+    };
+  });
+  return { cycle: summarize(ctx, cycle), nodes, proposals, draftCount };
 }

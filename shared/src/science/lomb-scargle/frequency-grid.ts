@@ -16,7 +16,8 @@ export interface FrequencyGrid {
 /** Largest grid accepted (the fast method's FFT buffers grow with it). */
 export const MAX_FREQUENCIES = 1_000_000;
 
-export const FREQUENCY_GRID_SOURCE = 'VanderPlas (2018), ApJS 236, 16, §7.1 (section from memory); defaults as astropy LombScargle.autofrequency';
+// §7.1 from memory, not checked (docs/science.md "Checked values"): the shown string names no section.
+export const FREQUENCY_GRID_SOURCE = 'VanderPlas (2018), ApJS 236, 16; defaults as astropy LombScargle.autofrequency';
 
 export interface AutoGridOptions {
   /** n0, samples per peak (default 10). */

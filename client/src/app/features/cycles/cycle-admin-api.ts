@@ -1,5 +1,6 @@
 import { HttpClient, httpResource } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
+import type { CycleProposalsReport } from '@spincycle/shared/cycles/cycle-proposals';
 import type { CycleInput, CycleUpdate } from '@spincycle/shared/cycles/cycle-schemas';
 import type { CycleSummary, TelescopeNode } from '@spincycle/shared/facility/facility-types';
 import { Observable } from 'rxjs';
@@ -22,6 +23,14 @@ export class CycleAdminApi {
     });
   }
 
+  /** GET /api/cycles/:id/proposals → the submitted proposals with their requests and the pressure per node. */
+  proposalsResource(id: () => number | null) {
+    return httpResource<CycleProposalsReport>(() => {
+      const current = id();
+      return current === null ? undefined : `/api/cycles/${current}/proposals`;
+    });
+  }
+
   /** GET /api/nodes: the nodes a cycle can offer time on. */
   nodesResource() {
     return httpResource<TelescopeNode[]>(() => '/api/nodes', { defaultValue: [] });
@@ -32,7 +41,10 @@ export class CycleAdminApi {
     return this.http.post<CycleSummary>('/api/cycles', input);
   }
 
-  /** PUT /api/cycles/:id with the version read → the saved cycle; 409 `version_conflict` when it changed meanwhile. */
+  /**
+   * PUT /api/cycles/:id with the version read → the saved cycle; 409 `version_conflict` when it
+   * changed meanwhile, 409 `capacity_below_requests` when a capacity cut needs `confirmCapacityCut`.
+   */
   update(id: number, update: CycleUpdate): Observable<CycleSummary> {
     return this.http.put<CycleSummary>(`/api/cycles/${id}`, update);
   }

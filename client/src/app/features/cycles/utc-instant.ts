@@ -21,3 +21,18 @@ export function splitUtcInstant(iso: string): { date: string; time: string } {
   const seconds = utc.slice(17, 19);
   return { date: utc.slice(0, 10), time: seconds === '00' ? utc.slice(11, 16) : utc.slice(11, 19) };
 }
+
+/** A calendar date picked in the datepicker (local midnight) → `YYYY-MM-DD`; '' for none. */
+export function toCalendarDate(date: Date | null): string {
+  if (!date || Number.isNaN(date.getTime())) return '';
+  const pad = (n: number) => String(n).padStart(2, '0');
+  return `${date.getFullYear()}-${pad(date.getMonth() + 1)}-${pad(date.getDate())}`;
+}
+
+/** `YYYY-MM-DD` → that calendar date at local midnight (what the datepicker holds); null when malformed. */
+export function fromCalendarDate(value: string): Date | null {
+  const m = /^(\d{4})-(\d{1,2})-(\d{1,2})$/.exec(value.trim());
+  if (!m) return null;
+  const date = new Date(Number(m[1]), Number(m[2]) - 1, Number(m[3]));
+  return date.getMonth() === Number(m[2]) - 1 ? date : null;
+}

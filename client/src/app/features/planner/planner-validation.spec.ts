@@ -54,7 +54,7 @@ describe('planner-validation', () => {
   });
 
   it('a range error of the science core is said without passing its converted value off as typed', () => {
-    expect(scienceErrorMessage('must be within [-2, 25] (got 25.3)')).toBe('Enter a value between −2 and 25; after conversion the plan got 25.3.');
+    expect(scienceErrorMessage('must be between −2 and 25 (got 25.3)')).toBe('Enter a value between −2 and 25; after conversion the plan got 25.3.');
     expect(scienceErrorMessage('must be positive (got -5)')).toBe('Must be positive (got -5).');
     expect(between(-2, 25, 'mag')).toBe('between −2 and 25 mag');
   });

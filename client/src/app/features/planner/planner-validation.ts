@@ -158,19 +158,20 @@ export function validateRaDec(raText: string, decText: string): FieldErrors {
       parseDec(dec);
     } catch (error) {
       if (!(error instanceof SkyInputError)) throw error;
-      errors.dec = /must be within/.test(error.reason) ? `Enter a declination ${between(-90, 90, '°')} (you typed ${dec}).` : plainSentence(error.reason);
+      errors.dec = /must be (within|between)/.test(error.reason) ? `Enter a declination ${between(-90, 90, '°')} (you typed ${dec}).` : plainSentence(error.reason);
     }
   }
   return errors;
 }
 
 /**
- * A science-core error on a field the form's checks let through, said plainly: "must be within
- * [2, 300] (got 1000)" becomes "Enter a value between 2 and 300 (after conversion: 1000)." so
+ * A science-core error on a field the form's checks let through, said plainly: "must be between
+ * 2 and 300 (got 1000)" becomes "Enter a value between 2 and 300 (after conversion: 1000)." so
  * the converted number is never presented as what the user typed.
  */
 export function scienceErrorMessage(reason: string): string {
-  const range = /must be within [[(]\s*(-?[\d.e+-]+),\s*(-?[\d.e+-]+)\s*[\])]\s*\(got ([^)]+)\)/.exec(reason);
-  if (range) return `Enter a value ${between(Number(range[1]), Number(range[2]))}; after conversion the plan got ${range[3]}.`;
+  const range = /must be between ([−-]?[\d.e+]+)°? and ([−-]?[\d.e+]+)°?[^(]*\(got ([^)]+)\)/.exec(reason);
+  const num = (text: string) => Number(text.replace('−', '-'));
+  if (range) return `Enter a value ${between(num(range[1]), num(range[2]))}; after conversion the plan got ${range[3]}.`;
   return plainSentence(reason);
 }

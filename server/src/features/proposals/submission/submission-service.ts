@@ -5,6 +5,7 @@ import type { Proposal, SubmissionCheck } from '@spincycle/shared/proposals/prop
 import type { AppContext } from '../../../app-context';
 import { inParallel } from '../../../db/in-parallel';
 import { AppError } from '../../../http/app-error';
+import { listCycleNodes } from '../../cycles/cycle-repository';
 import { formatUtc } from '../../cycles/cycle-service';
 import { findJustificationMeta } from '../justification/justification-repository';
 import { countPlanErrors, listStoredPlans, nodeRequestTotals } from '../plans/plan-repository';
@@ -19,20 +20,26 @@ import { renderProposalSummaryPdf } from './summary-pdf';
 /** Shortest abstract accepted for submission, characters. */
 export const MIN_ABSTRACT_CHARACTERS = 100;
 
+/** Node-hours in readiness messages: at most two decimals, no trailing zeros. */
+const hours = (x: number) => String(Math.round(x * 100) / 100);
+
 /**
  * What still stands between the proposal and submission. Problems block it; warnings do not
- * (infeasible target plans may be submitted: the panel judges them).
+ * (infeasible target plans may be submitted: the panel judges them). A request above what the
+ * cycle offers on a node is a warning, or a problem when the cycle blocks such requests
+ * (`capacityOverrun`).
  */
 async function checkReadiness(db: Knex, access: ProposalAccess): Promise<SubmissionCheck> {
   const { proposal, cycle } = access;
   const id = proposal.id;
-  const [nodeIds, targetCount, justification, run, planErrors, request] = await inParallel(db, [
+  const [nodeIds, targetCount, justification, run, planErrors, request, capacity] = await inParallel(db, [
     () => listProposalNodeIds(db, id),
     () => countTargets(db, id),
     () => findJustificationMeta(db, id),
     () => planRunStatusOf(db, access),
     () => countPlanErrors(db, id),
     () => nodeRequestTotals(db, id),
+    () => listCycleNodes(db, cycle.id),
   ] as const);
   const problems: SubmissionCheck['problems'] = [];
   const warnings: SubmissionCheck['warnings'] = [];
@@ -55,6 +62,17 @@ async function checkReadiness(db: Knex, access: ProposalAccess): Promise<Submiss
       problems.push({ field: 'plans', message: 'the target plans are out of date: recompute them' });
     } else if (planErrors) {
       problems.push({ field: 'plans', message: `${planErrors} target plan${planErrors > 1 ? 's' : ''} could not be computed from their input: fix those targets (see the plans)` });
+    }
+  }
+  const offered = new Map(capacity.map((n) => [n.nodeId, n.nodeHoursAvailable]));
+  for (const r of request) {
+    const available = offered.get(r.nodeId);
+    if (available === undefined || r.nodeHours <= available) continue;
+    const over = `${hours(r.nodeHours)} node-hours are requested on ${r.nodeCode}, more than the ${hours(available)} the cycle offers there`;
+    if (cycle.capacityOverrun === 'block') {
+      problems.push({ field: 'request', message: `${over}; this cycle accepts no request above a node's capacity: drop targets or visits on ${r.nodeCode}` });
+    } else {
+      warnings.push({ field: 'request', message: `${over}; it can be submitted, and the panel sees the overrun` });
     }
   }
   const infeasible = request.reduce((n, r) => n + r.infeasibleTargets, 0);

@@ -3,26 +3,54 @@ import { DatePipe } from '@angular/common';
 import { HttpErrorResponse } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
-import { FormArray, FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { AbstractControl, FormArray, FormControl, FormGroup, ReactiveFormsModule, ValidationErrors } from '@angular/forms';
 import { MatButton, MatIconButton } from '@angular/material/button';
 import { MatChipGrid, MatChipInput, MatChipInputEvent, MatChipRemove, MatChipRow } from '@angular/material/chips';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatDatepicker, MatDatepickerInput, MatDatepickerToggle } from '@angular/material/datepicker';
+import { MatDialog } from '@angular/material/dialog';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatProgressBar } from '@angular/material/progress-bar';
+import { MatRadioButton, MatRadioGroup } from '@angular/material/radio';
 import { MatOption, MatSelect } from '@angular/material/select';
 import { MatSlideToggle } from '@angular/material/slide-toggle';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
-import { cycleInputSchema, type CycleInput } from '@spincycle/shared/cycles/cycle-schemas';
+import {
+  cycleInputSchema,
+  DEFAULT_CAPACITY_OVERRUN,
+  earliestCampaignStart,
+  formatUtcInstant,
+  type CapacityOverrunRule,
+  type CycleInput,
+} from '@spincycle/shared/cycles/cycle-schemas';
 import type { CycleSummary } from '@spincycle/shared/facility/facility-types';
 import { map } from 'rxjs';
 import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
+import { confirmAction } from '../../../ui/confirm-dialog/confirm-dialog';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { CycleAdminApi } from '../cycle-admin-api';
-import { joinUtcInstant, splitUtcInstant } from '../utc-instant';
+import { provideCalendarDates } from '../calendar-date-adapter';
+import { fromCalendarDate, joinUtcInstant, splitUtcInstant, toCalendarDate } from '../utc-instant';
+
+/** Hours and minutes, 24-hour clock (what the time fields take). */
+const TIME_PATTERN = /^([01]\d|2[0-3]):[0-5]\d(:[0-5]\d)?$/;
+const TIME_MESSAGE = 'Enter the time as HH:MM on the 24-hour clock, e.g. 23:59';
+
+/** The time fields: empty or HH:MM (seconds allowed), 24-hour. */
+function timeValidator(control: AbstractControl<string>): ValidationErrors | null {
+  return !control.value || TIME_PATTERN.test(control.value.trim()) ? null : { schema: TIME_MESSAGE };
+}
+
+/** A capacity cut refused by the server (409 `capacity_below_requests`), as the dialog lists it. */
+interface CapacityCut {
+  nodeCode: string;
+  requestedNodeHours: number;
+  nodeHoursAvailable: number;
+}
 
 type NodeRow = FormGroup<{
   nodeId: FormControl<number | null>;
@@ -37,15 +65,23 @@ const FIELD_TO_CONTROL: Record<string, string> = {
 
 /**
  * Re-keys `fieldErrors` (from the server, whose PUT paths start with `cycle.`, or from the
- * shared schema on this side) to the paths of this form's controls. Errors about the node
- * list as a whole come back under `nodes`, shown above the rows.
+ * shared schema on this side) to the paths of this form's controls. An instant's error goes to
+ * its date input, or to its time input when the date is there and the time is what is wrong.
+ * Errors about the node list as a whole come back under `nodes`, shown above the rows.
  */
-export function toFormErrorPaths(fieldErrors: Record<string, string[]> | undefined): Record<string, string[]> {
+export function toFormErrorPaths(
+  fieldErrors: Record<string, string[]> | undefined,
+  values?: Pick<EmptyCheckValues, 'callOpensDate' | 'callOpensTime' | 'callClosesDate' | 'callClosesTime'>,
+): Record<string, string[]> {
   const out: Record<string, string[]> = {};
   for (const [path, messages] of Object.entries(fieldErrors ?? {})) {
     let key = path.replace(/^cycle\./, '');
     const head = key.split('.')[0];
-    if (FIELD_TO_CONTROL[head]) key = FIELD_TO_CONTROL[head];
+    if (FIELD_TO_CONTROL[head]) {
+      key = FIELD_TO_CONTROL[head];
+      const [date, time] = head === 'callOpensAt' ? [values?.callOpensDate, values?.callOpensTime] : [values?.callClosesDate, values?.callClosesTime];
+      if (values && date && !TIME_PATTERN.test(time ?? '')) key = key.replace(/Date$/, 'Time');
+    }
     if (head === 'categories') key = 'categories';
     (out[key] ??= []).push(...messages);
   }
@@ -69,6 +105,9 @@ export function toFormErrorPaths(fieldErrors: Record<string, string[]> | undefin
     MatChipInput,
     MatChipRemove,
     MatChipRow,
+    MatDatepicker,
+    MatDatepickerInput,
+    MatDatepickerToggle,
     MatError,
     MatFormField,
     MatHint,
@@ -78,11 +117,14 @@ export function toFormErrorPaths(fieldErrors: Record<string, string[]> | undefin
     MatLabel,
     MatOption,
     MatProgressBar,
+    MatRadioButton,
+    MatRadioGroup,
     MatSelect,
     MatSlideToggle,
     ReactiveFormsModule,
     RouterLink,
   ],
+  providers: [provideCalendarDates()],
   templateUrl: './cycle-form.html',
   styleUrl: './cycle-form.scss',
 })
@@ -90,6 +132,7 @@ export default class CycleForm {
   private readonly api = inject(CycleAdminApi);
   private readonly router = inject(Router);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly dialog = inject(MatDialog);
 
   /** Route parameter (absent on /cycles/new). */
   readonly id = input<string>();
@@ -113,13 +156,15 @@ export default class CycleForm {
   protected readonly form = new FormGroup({
     code: new FormControl('', { nonNullable: true, validators: [zodValidator(fieldSchema('code'))] }),
     title: new FormControl('', { nonNullable: true, validators: [zodValidator(fieldSchema('title'))] }),
-    callOpensDate: new FormControl('', { nonNullable: true }),
-    callOpensTime: new FormControl('00:00', { nonNullable: true }),
-    callClosesDate: new FormControl('', { nonNullable: true }),
-    callClosesTime: new FormControl('23:59', { nonNullable: true }),
-    campaignStart: new FormControl('', { nonNullable: true }),
-    campaignEnd: new FormControl('', { nonNullable: true }),
+    /** Calendar dates as the datepicker holds them (local midnight); sent as `YYYY-MM-DD`. */
+    callOpensDate: new FormControl<Date | null>(null),
+    callOpensTime: new FormControl('00:00', { nonNullable: true, validators: [timeValidator] }),
+    callClosesDate: new FormControl<Date | null>(null),
+    callClosesTime: new FormControl('23:59', { nonNullable: true, validators: [timeValidator] }),
+    campaignStart: new FormControl<Date | null>(null),
+    campaignEnd: new FormControl<Date | null>(null),
     anonymousReview: new FormControl(false, { nonNullable: true }),
+    capacityOverrun: new FormControl<CapacityOverrunRule>(DEFAULT_CAPACITY_OVERRUN, { nonNullable: true }),
     categories: new FormControl<string[]>([], { nonNullable: true }),
     nodes: new FormArray<NodeRow>([]),
   });
@@ -127,8 +172,15 @@ export default class CycleForm {
   private readonly value = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue())), {
     initialValue: this.form.getRawValue(),
   });
-  protected readonly opensAt = computed(() => joinUtcInstant(this.value().callOpensDate, this.value().callOpensTime));
-  protected readonly closesAt = computed(() => joinUtcInstant(this.value().callClosesDate, this.value().callClosesTime));
+  protected readonly opensAt = computed(() => joinUtcInstant(toCalendarDate(this.value().callOpensDate), this.value().callOpensTime));
+  protected readonly closesAt = computed(() => joinUtcInstant(toCalendarDate(this.value().callClosesDate), this.value().callClosesTime));
+  /** `16 Jan 2027, 00:00 UTC`: each instant written once, in UTC. */
+  protected readonly utcLine = formatUtcInstant;
+  /** The first night the campaign may start on, once the closing instant is known. */
+  protected readonly earliestStart = computed(() => {
+    const closes = this.closesAt();
+    return closes ? fromCalendarDate(earliestCampaignStart(closes)) : null;
+  });
   protected readonly categories = computed(() => this.value().categories);
 
   protected readonly saving = signal(false);
@@ -197,7 +249,7 @@ export default class CycleForm {
       const fieldErrors: Record<string, string[]> = {};
       // One message per field, the first the schema reports (as the field validators do), in
       // plain words when the field is simply empty.
-      const values = this.form.getRawValue();
+      const values = this.checkValues();
       for (const issue of parsed.error.issues) {
         const path = issue.path.join('.');
         fieldErrors[path] ??= [emptyFieldMessage(path, values) ?? issue.message];
@@ -206,9 +258,20 @@ export default class CycleForm {
       this.form.markAllAsTouched();
       return;
     }
+    this.save(parsed.data, false);
+  }
+
+  /**
+   * Sends the cycle. A cut of some node's capacity below what submitted proposals request comes
+   * back as 409 `capacity_below_requests`: the manager confirms it, then it is sent again with
+   * `confirmCapacityCut`.
+   */
+  private save(input: CycleInput, confirmCapacityCut: boolean): void {
     const id = this.cycleId();
     const request =
-      id === null ? this.api.create(parsed.data) : this.api.update(id, { version: this.version ?? 1, cycle: parsed.data });
+      id === null
+        ? this.api.create(input)
+        : this.api.update(id, { version: this.version ?? 1, cycle: input, ...(confirmCapacityCut ? { confirmCapacityCut } : {}) });
     this.saving.set(true);
     request.subscribe({
       next: (saved) => {
@@ -219,7 +282,11 @@ export default class CycleForm {
       error: (error: unknown) => {
         this.saving.set(false);
         const body = readApiError(error);
-        if (error instanceof HttpErrorResponse && error.status === 409) {
+        if (error instanceof HttpErrorResponse && error.status === 409 && body.code === 'capacity_below_requests') {
+          this.confirmCapacityCut(input, (error.error as { nodes?: CapacityCut[] }).nodes ?? [], body.message);
+          return;
+        }
+        if (error instanceof HttpErrorResponse && error.status === 409 && body.code !== 'code_taken' && body.code !== 'node_in_use') {
           this.conflict.set(body.message);
           return;
         }
@@ -229,26 +296,57 @@ export default class CycleForm {
     });
   }
 
+  private confirmCapacityCut(input: CycleInput, cuts: CapacityCut[], fallback: string): void {
+    const list = cuts.map(
+      (c) => `${c.nodeCode}: submitted proposals request ${formatHours(c.requestedNodeHours)} node-hours; the new capacity is ${formatHours(c.nodeHoursAvailable)}.`,
+    );
+    confirmAction(this.dialog, {
+      title: 'Cut capacity below the requests?',
+      message: `${list.length ? list.join(' ') : fallback} The proposals keep their requests, so the pressure on ${cuts.length === 1 ? 'this node' : 'these nodes'} rises above 100 %.`,
+      confirmLabel: 'Cut capacity',
+      destructive: true,
+    }).subscribe((confirmed) => {
+      if (confirmed) this.save(input, true);
+      else this.serverError.set('Not saved: the capacity was not cut.');
+    });
+  }
+
   /** Puts messages under their fields; returns those without a place on the form. */
   private showErrors(fieldErrors: Record<string, string[]> | undefined): string[] {
-    const mapped = toFormErrorPaths(fieldErrors);
+    const mapped = toFormErrorPaths(fieldErrors, this.checkValues());
     const listMessages = mapped['nodes'];
     delete mapped['nodes'];
     if (listMessages) this.nodesError.set(listMessages.join(' '));
     return applyServerFieldErrors(this.form, mapped);
   }
 
+  /** The form's values with the dates as `YYYY-MM-DD` strings. */
+  private checkValues(): EmptyCheckValues {
+    const v = this.form.getRawValue();
+    return {
+      callOpensDate: toCalendarDate(v.callOpensDate),
+      callOpensTime: v.callOpensTime.trim(),
+      callClosesDate: toCalendarDate(v.callClosesDate),
+      callClosesTime: v.callClosesTime.trim(),
+      campaignStart: toCalendarDate(v.campaignStart),
+      campaignEnd: toCalendarDate(v.campaignEnd),
+      nodes: v.nodes,
+    };
+  }
+
   /** The form as the API's input; unparsable parts stay as they are so the schema names them. */
   private toInput(): Record<string, unknown> {
     const v = this.form.getRawValue();
+    const d = this.checkValues();
     return {
       code: v.code,
       title: v.title,
-      callOpensAt: joinUtcInstant(v.callOpensDate, v.callOpensTime) ?? '',
-      callClosesAt: joinUtcInstant(v.callClosesDate, v.callClosesTime) ?? '',
-      campaignStart: v.campaignStart,
-      campaignEnd: v.campaignEnd,
+      callOpensAt: joinUtcInstant(d.callOpensDate, d.callOpensTime) ?? '',
+      callClosesAt: joinUtcInstant(d.callClosesDate, d.callClosesTime) ?? '',
+      campaignStart: d.campaignStart,
+      campaignEnd: d.campaignEnd,
       anonymousReview: v.anonymousReview,
+      capacityOverrun: v.capacityOverrun,
       categories: v.categories,
       nodes: v.nodes.map((row) => ({ nodeId: row.nodeId, nodeHoursAvailable: row.nodeHoursAvailable })),
     } satisfies Record<keyof CycleInput, unknown>;
@@ -268,19 +366,25 @@ export default class CycleForm {
     this.form.patchValue({
       code: cycle.code,
       title: cycle.title,
-      callOpensDate: opens.date,
+      callOpensDate: fromCalendarDate(opens.date),
       callOpensTime: opens.time,
-      callClosesDate: closes.date,
+      callClosesDate: fromCalendarDate(closes.date),
       callClosesTime: closes.time,
-      campaignStart: cycle.campaignStart,
-      campaignEnd: cycle.campaignEnd,
+      campaignStart: fromCalendarDate(cycle.campaignStart),
+      campaignEnd: fromCalendarDate(cycle.campaignEnd),
       anonymousReview: cycle.anonymousReview,
+      capacityOverrun: cycle.capacityOverrun ?? DEFAULT_CAPACITY_OVERRUN,
       categories: [...cycle.categories],
       nodes: cycle.nodes.map((node) => ({ nodeId: node.nodeId, nodeHoursAvailable: node.nodeHoursAvailable })),
     });
     this.form.markAsPristine();
     this.form.markAsUntouched();
   }
+}
+
+/** Node-hours in the confirmation: at most two decimals. */
+function formatHours(x: number): string {
+  return String(Math.round(x * 100) / 100);
 }
 
 /** The form values `emptyFieldMessage` looks at. */
@@ -299,12 +403,15 @@ export function emptyFieldMessage(path: string, values: EmptyCheckValues): strin
   const [head, index, field] = path.split('.');
   switch (head) {
     case 'callOpensAt':
-      return joinUtcInstant(values.callOpensDate, values.callOpensTime) ? null : 'Enter a date and a time (UTC)';
-    case 'callClosesAt':
-      return joinUtcInstant(values.callClosesDate, values.callClosesTime) ? null : 'Enter a date and a time (UTC)';
+    case 'callClosesAt': {
+      const [date, time] = head === 'callOpensAt' ? [values.callOpensDate, values.callOpensTime] : [values.callClosesDate, values.callClosesTime];
+      if (joinUtcInstant(date, time)) return null;
+      if (!date) return 'Enter a date (YYYY-MM-DD)';
+      return TIME_MESSAGE;
+    }
     case 'campaignStart':
     case 'campaignEnd':
-      return values[head] ? null : 'Enter a date';
+      return values[head] ? null : 'Enter a date (YYYY-MM-DD)';
     case 'nodes': {
       const row = values.nodes[Number(index)];
       if (field === 'nodeId' && row?.nodeId === null) return 'Choose a node';

@@ -55,7 +55,9 @@ describe('CycleList', () => {
     expect(columns['campaign'].text[0]).toBe('1 Mar 2027 – 31 Aug 2027');
     expect(columns['nodes'].text[0]).toContain('KRG-50');
     expect(columns['nodes'].text[0]).toContain('250.5');
-    const edit = fixture.nativeElement.querySelector('td.mat-column-actions a') as HTMLAnchorElement;
+    const [proposals, edit] = Array.from(fixture.nativeElement.querySelectorAll('td.mat-column-actions a')) as HTMLAnchorElement[];
+    expect(proposals.getAttribute('href')).toBe('/cycles/2/proposals');
+    expect(proposals.textContent).toContain('Proposals');
     expect(edit.getAttribute('href')).toBe('/cycles/2');
   });
 

@@ -271,8 +271,8 @@ describe('TargetPlanner', () => {
     await settle();
     const given = computeTargetPlan({ ...DEFAULT_TARGET, ageMyr: 14000, periodDays: 30 }, N1, SITE, DEFAULT_OPTIONS);
     expect(keyValue('periodDays')).toBe('30');
-    expect(given.quantities.periodDays.why).toMatch(/^the proposer's period/);
-    expect(q('[data-key=periodDays] .why')?.textContent).toMatch(/^your period \(Angus et al\. \(2019\) gives none\)/);
+    expect(given.quantities.periodDays.why).toMatch(/^your input/);
+    expect(q('[data-key=periodDays] .why')?.textContent).toMatch(/^your input \(Angus et al\. \(2019\) gives none\)/);
     // The field stays while it holds a value; the notice that a period is needed goes.
     expect(q('[data-testid=period-input]')).not.toBeNull();
     expect(q('[data-testid=period-needed]')).toBeNull();
@@ -291,7 +291,7 @@ describe('TargetPlanner', () => {
     await type('exposure-input', '60');
     await settle();
     expect(keyValue('exposureSeconds')).toBe('60');
-    expect(q('[data-key=exposureSeconds] .why')?.textContent).toContain('your choice');
+    expect(q('[data-key=exposureSeconds] .why')?.textContent).toContain('your input');
   });
 
   it('a relation that does not cover the colour is reported as not calibrated for it', async () => {

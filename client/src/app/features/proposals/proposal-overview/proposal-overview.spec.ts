@@ -7,8 +7,8 @@ import { MatCheckboxHarness } from '@angular/material/checkbox/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { MatInputHarness } from '@angular/material/input/testing';
 import { AUTOSAVE_DEBOUNCE_MS, ProposalStore } from '../proposal-store';
-import { testProposal } from '../testing/fixtures';
-import ProposalOverview from './proposal-overview';
+import { testCycle, testProposal } from '../testing/fixtures';
+import ProposalOverview, { requestRows } from './proposal-overview';
 
 const pause = () => new Promise((resolve) => setTimeout(resolve, AUTOSAVE_DEBOUNCE_MS + 60));
 const isPatch = (req: { method: string; url: string }) => req.method === 'PATCH' && req.url === '/api/proposals/5';
@@ -161,5 +161,83 @@ describe('ProposalOverview', () => {
     await fixture.whenStable();
     expect(await (await abstract()).isDisabled()).toBe(true);
     expect(await (await loader.getHarness(MatCheckboxHarness.with({ label: 'KRG-50' }))).isDisabled()).toBe(true);
+  });
+});
+
+describe('ProposalOverview request table', () => {
+  let fixture: ComponentFixture<ProposalOverview>;
+  let backend: HttpTestingController;
+
+  /** The over-capacity case of the demo data: 809.68 node-hours asked of a node offering 620. */
+  const OVER = testProposal({
+    cycle: testCycle({
+      nodes: [
+        { nodeId: 1, nodeCode: 'KRG-50', nodeHoursAvailable: 620 },
+        { nodeId: 2, nodeCode: 'VHM-40', nodeHoursAvailable: 480 },
+      ],
+    }),
+    nodeIds: [1, 2],
+    request: [
+      { nodeId: 1, nodeCode: 'KRG-50', nodeHours: 809.68, feeMinor: 3643560, currency: 'eur', targets: 60, infeasibleTargets: 3, infeasibleNodeHours: 41.2 },
+      { nodeId: 2, nodeCode: 'VHM-40', nodeHours: 212.5, feeMinor: 637500, currency: 'eur', targets: 60, infeasibleTargets: 0, infeasibleNodeHours: 0 },
+    ],
+  });
+
+  async function render(proposal = OVER): Promise<void> {
+    TestBed.configureTestingModule({
+      imports: [ProposalOverview],
+      providers: [ProposalStore, provideHttpClient(), provideHttpClientTesting(), { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } }],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    TestBed.inject(ProposalStore).id.set(5);
+    fixture = TestBed.createComponent(ProposalOverview);
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(proposal);
+    await fixture.whenStable();
+  }
+
+  afterEach(() => backend.verify());
+
+  const el = () => fixture.nativeElement as HTMLElement;
+  /** Cell texts without the icons' ligature names. */
+  const cells = (code: string) =>
+    Array.from(el().querySelectorAll(`[data-testid=request-${code}] td`)).map((td) => {
+      const copy = td.cloneNode(true) as HTMLElement;
+      copy.querySelectorAll('mat-icon').forEach((icon) => icon.remove());
+      return copy.textContent?.replace(/\s+/g, ' ').trim();
+    });
+
+  it('flags the node whose request exceeds what the cycle offers, with the infeasible hours apart', async () => {
+    await render();
+    expect(cells('KRG-50')).toEqual(['809.68', '620', '131% Over capacity', '41.20 (3 targets)']);
+    expect(el().querySelector('[data-testid=request-KRG-50]')?.classList).toContain('over');
+    expect(cells('VHM-40')).toEqual(['212.50', '480', '44%', '—']);
+    expect(el().querySelectorAll('[data-testid=over-capacity-flag]')).toHaveLength(1);
+    const note = el().querySelector('[data-testid=over-capacity-note]')?.textContent?.replace(/\s+/g, ' ');
+    expect(note).toContain('asks more node-hours on KRG-50 than the cycle offers there');
+    expect(note).toContain('It can still be submitted');
+    // The total stays the feasible request; the infeasible hours are named apart.
+    expect(el().querySelector('.summary')?.textContent?.replace(/\s+/g, ' ')).toContain(
+      '1,022.18 node-hours requested in the current target plans (and 41.2 node-hours of infeasible targets, not requested).',
+    );
+  });
+
+  it('a cycle that blocks overruns says so', async () => {
+    await render({ ...OVER, cycle: { ...OVER.cycle, capacityOverrun: 'block' } });
+    expect(el().querySelector('[data-testid=over-capacity-note]')?.textContent).toContain('does not accept such a request');
+  });
+
+  it('within capacity: no flag and no note', async () => {
+    await render(testProposal());
+    expect(el().querySelector('[data-testid=overview-request-table]')).not.toBeNull();
+    expect(el().querySelector('[data-testid=over-capacity-flag]')).toBeNull();
+    expect(el().querySelector('[data-testid=over-capacity-note]')).toBeNull();
+  });
+
+  it('requestRows: share of capacity, none for a node the cycle no longer lists', () => {
+    const rows = requestRows({ ...OVER, cycle: { ...OVER.cycle, nodes: [OVER.cycle.nodes[0]] } });
+    expect(rows[0]).toMatchObject({ nodeCode: 'KRG-50', nodeHoursAvailable: 620, overCapacity: true });
+    expect(rows[0].share).toBeCloseTo(1.306, 3);
+    expect(rows[1]).toMatchObject({ nodeCode: 'VHM-40', nodeHoursAvailable: null, share: null, overCapacity: false });
   });
 });

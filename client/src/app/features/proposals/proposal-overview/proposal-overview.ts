@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DatePipe, DecimalPipe, PercentPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { AbstractControl, FormControl, FormGroup, ReactiveFormsModule, ValidationErrors } from '@angular/forms';
@@ -18,9 +18,42 @@ import {
 } from '@spincycle/shared/proposals/proposal-schemas';
 import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
 import { map } from 'rxjs';
+import { CapacityMeter } from '../../../ui/capacity-meter/capacity-meter';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { OverviewValues, overviewOf, ProposalStore } from '../proposal-store';
+
+/** One row of the request table: the proposal's request on a node against the cycle's capacity there. */
+export interface RequestRow {
+  nodeId: number;
+  nodeCode: string;
+  nodeHours: number;
+  infeasibleNodeHours: number;
+  infeasibleTargets: number;
+  /** Null when the cycle no longer lists the node. */
+  nodeHoursAvailable: number | null;
+  /** requested ÷ offered; null without capacity. */
+  share: number | null;
+  overCapacity: boolean;
+}
+
+/** The request table's rows, from the proposal's request and its cycle's node capacity. */
+export function requestRows(proposal: Proposal): RequestRow[] {
+  const offered = new Map(proposal.cycle.nodes.map((n) => [n.nodeId, n.nodeHoursAvailable]));
+  return proposal.request.map((r) => {
+    const available = offered.get(r.nodeId) ?? null;
+    return {
+      nodeId: r.nodeId,
+      nodeCode: r.nodeCode,
+      nodeHours: r.nodeHours,
+      infeasibleNodeHours: r.infeasibleNodeHours ?? 0,
+      infeasibleTargets: r.infeasibleTargets,
+      nodeHoursAvailable: available,
+      share: available !== null && available > 0 ? r.nodeHours / available : null,
+      overCapacity: available !== null && r.nodeHours > available,
+    };
+  });
+}
 
 /** The form shows the completeness in percent; the API carries the fraction. */
 export function completenessToPercent(fraction: number | null): number | null {
@@ -47,6 +80,7 @@ function completenessPercentValidator(control: AbstractControl<number | null>): 
   selector: 'app-proposal-overview',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
+    CapacityMeter,
     DatePipe,
     DecimalPipe,
     MatButton,
@@ -63,6 +97,7 @@ function completenessPercentValidator(control: AbstractControl<number | null>): 
     MatOption,
     MatSelect,
     MatSuffix,
+    PercentPipe,
     ReactiveFormsModule,
   ],
   templateUrl: './proposal-overview.html',
@@ -96,6 +131,15 @@ export default class ProposalOverview {
     const proposal = this.proposal();
     return proposal ? proposal.request.reduce((sum, r) => sum + r.nodeHours, 0) : 0;
   });
+
+  protected readonly requestRows = computed(() => {
+    const proposal = this.proposal();
+    return proposal ? requestRows(proposal) : [];
+  });
+  protected readonly infeasibleHours = computed(() => this.requestRows().reduce((sum, r) => sum + r.infeasibleNodeHours, 0));
+  protected readonly overCapacity = computed(() => this.requestRows().filter((r) => r.overCapacity));
+  /** One scale for every bar of the table. */
+  protected readonly shareScale = computed(() => Math.min(2, Math.max(1, ...this.requestRows().map((r) => r.share ?? 1))));
 
   private filling = false;
   private filled = false;

@@ -42,9 +42,12 @@ export default class ProposalSubmit {
   protected readonly problems = computed(() =>
     (this.check()?.problems ?? []).map((p) => ({ ...p, tab: tabForField(p.field), tabLabel: TAB_LABELS[tabForField(p.field)] })),
   );
-  protected readonly warnings = computed(() =>
+  private readonly allWarnings = computed(() =>
     (this.check()?.warnings ?? []).map((p) => ({ ...p, tab: tabForField(p.field), tabLabel: TAB_LABELS[tabForField(p.field)] })),
   );
+  /** Requests above a node's capacity in the cycle (field `request`), shown in their own caution. */
+  protected readonly capacityWarnings = computed(() => this.allWarnings().filter((w) => w.field === 'request'));
+  protected readonly warnings = computed(() => this.allWarnings().filter((w) => w.field !== 'request'));
   protected readonly infeasibleTargets = computed(() =>
     (this.store.proposal()?.request ?? []).reduce((sum, r) => sum + r.infeasibleTargets, 0),
   );
