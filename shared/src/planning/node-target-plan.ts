@@ -78,7 +78,7 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
     if (season.multiSeason) {
       suggestions.push({
         kind: 'multi_season',
-        message: `A multi-season plan: ${countOf(season.multiSeason.seasons, 'season')} of about ${Math.round(season.multiSeason.perSeasonBaselineDays)} d each (it spans several cycles; propose each season in its own cycle).`,
+        message: `A multi-season plan: ${countOf(season.multiSeason.seasons, 'season')} of about ${Math.round(season.multiSeason.perSeasonBaselineDays)} d each (it spans several allocation cycles; propose each season in its own cycle).`,
       });
     }
   }
@@ -107,7 +107,7 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
     if (sky.maxNightlyUsableHours > 0 && nightlyCapacity < req.visitsPerNight) {
       suggestions.push({
         kind: 'fewer_samples',
-        message: `The longest nightly window (${sky.maxNightlyUsableHours.toFixed(1)} h) holds ${nightlyCapacity} of the ${req.visitsPerNight} visits a night: fewer samples per cycle, or a node where the target culminates higher.`,
+        message: `The longest nightly window (${sky.maxNightlyUsableHours.toFixed(1)} h) holds ${nightlyCapacity} of the ${req.visitsPerNight} visits a night: fewer samples per rotation, or a node where the target culminates higher.`,
       });
     } else if (sky.qualifyingNights > 0 && sky.visitingNightsNeeded > sky.expectedClearNights) {
       const clearNights = Math.floor(sky.expectedClearNights);

@@ -59,7 +59,7 @@ describe('assessSeason', () => {
     expect(a.multiSeason).toEqual({ seasons: 3, perSeasonBaselineDays: expect.closeTo(250 / 3, 9) });
     expect(a.reason).toContain('a baseline of 250 days does not fit in one observing season');
     expect(a.reason).toContain('3 seasons of about 83 days each');
-    expect(a.reason).toContain('spans several observing cycles');
+    expect(a.reason).toContain('spans several allocation cycles');
   });
 
   it('says so when the target has no season at the site', () => {

@@ -157,6 +157,6 @@ export function assessSeason(windows: TargetWindows, baselineDays: number, opts:
     multiSeason: { seasons: count, perSeasonBaselineDays: perSeason },
     reason:
       `a baseline of ${plural(Math.round(baseline), 'day')} does not fit in one observing season: the target's longest season from this site is ${plural(longestSeasonDays, 'day')} (${span})${cut}.` +
-      ` A multi-season plan would observe ${plural(count, 'season')} of about ${plural(Math.round(perSeason), 'day')} each; it spans several observing cycles (this campaign holds ${plural(seasons.length, 'season')}), and the gaps between seasons add yearly aliases to the period search (standard observing practice; see Methods: Observing season)`,
+      ` A multi-season plan would observe ${plural(count, 'season')} of about ${plural(Math.round(perSeason), 'day')} each; it spans several allocation cycles (this campaign holds ${plural(seasons.length, 'season')}), and the gaps between seasons add yearly aliases to the period search (standard observing practice; see Methods: Observing season)`,
   };
 }

@@ -4,6 +4,7 @@ import { TYPICAL_NODE, TYPICAL_SITE } from '../cli/typical-node';
 import { combinePlanWithSky } from '../planning/node-target-plan';
 import { syntheticWindows } from '../sky/testing/synthetic-windows';
 import { METHOD_SECTIONS, PLAN_QUANTITY_DOCS, SKY_QUANTITY_DOCS, methodsLinkFor } from './method-docs';
+import { QUANTITY_LABELS } from './quantity-labels';
 import { computeTargetPlan } from './target-plan';
 
 const DOC = readFileSync(path.resolve(__dirname, '../../../docs/science.md'), 'utf8');
@@ -22,6 +23,15 @@ const plan = computeTargetPlan(
 );
 
 describe('method docs: docs/science.md anchors', () => {
+  it('docs/science.md names each quantity with the label the screens show', () => {
+    const named = Array.from(DOC.matchAll(/\*\*([^*]+)\*\*\s*\(`(\w+)`\)/g), (m) => [m[2], m[1].replace(/\s+/g, ' ')] as const);
+    expect(named.length).toBeGreaterThan(30);
+    for (const [key, label] of named) {
+      const shown = (QUANTITY_LABELS as Record<string, string>)[key];
+      if (shown !== undefined) expect([key, label]).toEqual([key, shown]);
+    }
+  });
+
   it('docs/science.md: every anchor is unique and kebab-case', () => {
     expect(ANCHORS.length).toBeGreaterThan(20);
     expect(new Set(ANCHORS).size).toBe(ANCHORS.length);

@@ -32,7 +32,7 @@ export const QUANTITY_LABELS: Readonly<Record<keyof TargetPlanQuantities, string
   sampleIntervalDays: 'Sample interval',
   nightStepDays: 'Night step',
   visitsPerNight: 'Visits per night',
-  baselineForCyclesDays: 'Baseline for the cycles rule',
+  baselineForCyclesDays: 'Baseline for enough rotations',
   baselineForPrecisionDays: 'Baseline for the period precision',
   baselineDays: 'Baseline',
   visitNights: 'Visit nights',

@@ -187,7 +187,7 @@ export function visitNightCount(baselineDays: number, nightStepDays: number): nu
 // 6. Baseline.
 
 export interface BaselineStep {
-  /** Cycles rule: baselineCycles × the longest plausible period, days. */
+  /** Rotations rule: baselineCycles rotations of the longest plausible period, days. */
   forCyclesDays: number;
   /** For the requested period precision (null when none is asked). */
   forPrecisionDays: number | null;
@@ -197,7 +197,7 @@ export interface BaselineStep {
 }
 
 /**
- * Step 6: the baseline from the cycles rule, the requested period precision (σP formula with
+ * Step 6: the baseline from the rotations rule, the requested period precision (σP formula with
  * the nightly means of the cadence, solved for T with the night count growing with T) and the
  * caller's minimum (e.g. to reach a beat period).
  */

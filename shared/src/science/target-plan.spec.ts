@@ -315,7 +315,7 @@ describe('computeTargetPlan, wording a user reads', () => {
       SITE,
     );
     const q = plan.quantities;
-    expect(q.sampleIntervalDays.why).toMatch(/^the period needs a sample at least every 3\.\d+ d \(10 per cycle of the shortest plausible period, 3\d\.?\d* d\)$/);
+    expect(q.sampleIntervalDays.why).toMatch(/^the period needs a sample at least every 3\.\d+ d \(10 per rotation of the shortest plausible period, 3\d\.?\d* d\)$/);
     expect(q.nightStepDays.value).toBe(1);
     expect(q.nightStepDays.why).toBe('every night: the cadence needs every 3rd night, 90 % completeness needs every night');
     expect(q.visitsPerNight.why).toBe(`${q.visitsPerNight.value} a night: the cadence needs 1, 90 % completeness needs ${q.visitsPerNight.value}`);

@@ -17,7 +17,7 @@
  *  4.   magnitude in the node's band, airmass, sky brightness (the Moon on the nights the sky
  *       windows give, else the site's dark sky), the exposure and exposures per visit;
  *  5.   cadence from the shortest plausible period;
- *  6.   baseline: cycles rule, requested period precision, caller's minimum;
+ *  6.   baseline: rotations rule, requested period precision, caller's minimum;
  *  7.   visits for the completeness over nightly means (the systematic floor is correlated
  *       within a night), the price of 50 %, 90 % and 99 %;
  *  8.   node-hours = visits × visit length / (1 − weather loss); fee at the node's rate.
@@ -410,7 +410,7 @@ export function computeTargetPlan(
   const reachesGoal = sigmaPpm <= goalPpm * (1 + 1e-9);
   flags.push(...exposureFlags(exposure, automatic, node, o, goalPpm, sigmaPpm, reachesGoal));
 
-  // 6. Baseline: cycles rule, period precision, caller's minimum.
+  // 6. Baseline: rotations rule, period precision, caller's minimum.
   const bl = prefixed('target', () =>
     baselineStep({
       longestPeriodDays: pMax,
@@ -493,7 +493,7 @@ export function computeTargetPlan(
   }
   if (baseline > o.coherenceCycles * P) {
     flags.push(
-      flag('baselineBeyondSpotCoherence', 'caution', `the baseline spans ${fmt(baseline / P)} cycles: spots evolve, so the signal may lose coherence over it`, COHERENCE_ASSUMPTION),
+      flag('baselineBeyondSpotCoherence', 'caution', `the baseline spans ${fmt(baseline / P)} rotations: spots evolve, so the signal may lose coherence over it`, COHERENCE_ASSUMPTION),
     );
   }
   const longestSearched = Math.min(baseline, o.searchLongPeriodFactor * pMax);
@@ -529,7 +529,7 @@ export function computeTargetPlan(
         flag(
           'nightsFilled',
           'caution',
-          `the visits fill ${fmt(nightHours, 2)} h of the ${o.observableHoursPerNight} observable hours on each of ${countOf(sz.nights, 'night')}: this one star would hold the node for most of its nights. Cheaper ways out: fewer samples per cycle or a node with a lower floor${cheaper}`,
+          `the visits fill ${fmt(nightHours, 2)} h of the ${o.observableHoursPerNight} observable hours on each of ${countOf(sz.nights, 'night')}: this one star would hold the node for most of its nights. Cheaper ways out: fewer samples per rotation or a node with a lower floor${cheaper}`,
           NIGHTS_FILLED_ASSUMPTION,
         ),
       );
@@ -690,7 +690,7 @@ export function computeTargetPlan(
     sampleIntervalDays: explained(
       cad.sampleIntervalDays,
       'd',
-      `the period needs a sample at least every ${fmt(cad.sampleIntervalDays)} d (${cad.samplesPerCycle} per cycle of the shortest plausible period, ${fmt(pMin)} d)`,
+      `the period needs a sample at least every ${fmt(cad.sampleIntervalDays)} d (${cad.samplesPerCycle} per rotation of the shortest plausible period, ${fmt(pMin)} d)`,
       CADENCE_PRACTICE,
       'practice',
     ),
@@ -714,7 +714,7 @@ export function computeTargetPlan(
       CADENCE_PRACTICE,
       'practice',
     ),
-    baselineForCyclesDays: explained(bl.forCyclesDays, 'd', `${o.baselineCycles} cycles of the longest plausible period ${fmt(pMax)} d`, BASELINE_PRACTICE, 'practice'),
+    baselineForCyclesDays: explained(bl.forCyclesDays, 'd', `${o.baselineCycles} rotations of the longest plausible period ${fmt(pMax)} d`, BASELINE_PRACTICE, 'practice'),
     baselineForPrecisionDays: explained(
       bl.forPrecisionDays,
       'd',
@@ -733,7 +733,7 @@ export function computeTargetPlan(
           ? 'set by the requested period precision (whole days)'
           : bl.setBy === 'minimum'
             ? 'set by the minimum baseline asked for (whole days)'
-            : 'set by the cycles rule (whole days)',
+            : `set to cover ${o.baselineCycles} rotations of the longest plausible period (whole days)`,
       BASELINE_PRACTICE,
       'practice',
     ),

@@ -28,7 +28,7 @@ Plan options:
   --fap P                  false-alarm probability of the detection (default 0.01)
   --completeness C         chance of recovering the period, 0.5–0.99 (default 0.9)
   --samples-per-cycle N    samples per cycle of the shortest plausible period (default 10)
-  --cycles N               cycles of the longest plausible period in the baseline (default 3)
+  --cycles N               rotations of the longest plausible period in the baseline (default 3)
   --precision-ppm S        per-visit precision goal, ppm (default: derived from the cadence)
   --altitude DEG           planning altitude, degrees (default max(45, node altitude limit))
 Node and site (default: a typical 0.5 m node in V at a 2000 m site):

@@ -135,7 +135,7 @@ export function buildPlanSummary({ plan, node, combined, skyStatus, locale }: Su
     { key: 'precision', label: 'Per-visit precision', value: whole(q.perVisitPrecisionPpm.value), unit: 'ppm', detail: `${f(q.perVisitPrecisionMmag.value)} mmag` },
     { key: 'visits', label: 'Visits', value: whole(q.visits.value), unit: '', detail: `${k} per night on ${whole(q.visitNights.value)} visit nights` },
     { key: 'cadence', label: 'Cadence', value: cadence.visitNights, unit: '', detail: `${k} ${plural(k, 'visit', 'visits')} per night · sample interval ${f(q.sampleIntervalDays.value)} d` },
-    { key: 'baseline', label: 'Baseline', value: whole(q.baselineDays.value), unit: 'd', detail: `${f(q.baselineDays.value / q.longestPeriodDays.value)} cycles of the longest plausible period` },
+    { key: 'baseline', label: 'Baseline', value: whole(q.baselineDays.value), unit: 'd', detail: `${f(q.baselineDays.value / q.longestPeriodDays.value)} rotations of the longest plausible period` },
     { key: 'nodeHours', label: 'Node-hours', value: f(q.nodeHours.value), unit: 'h', detail: `with ${formatPercent(node.weatherLossFraction, locale)} weather loss` },
     {
       key: 'fee',
