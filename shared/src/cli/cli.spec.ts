@@ -135,6 +135,11 @@ describe('spincycle CLI', () => {
       expect(r.json.quantities.visits.value).toBeGreaterThan(0);
       expect(r.json.quantities.feeMinor.unit).toBe('eur minor units');
       expect(typeof r.json.quantities.baselineDays.why).toBe('string');
+      // Each number points to the section of the methods document that derives it.
+      expect(r.json.methods.completeness).toBe('docs/science.md#completeness');
+      expect(Object.keys(r.json.methods).sort()).toEqual(Object.keys(r.json.quantities).sort());
+      const doc = readFileSync(join(__dirname, '../../../docs/science.md'), 'utf8');
+      for (const link of Object.values(r.json.methods) as string[]) expect(doc).toContain(`<a id="${link.split('#')[1]}"></a>`);
     });
 
     it('reads the node and site from JSON files', async () => {

@@ -2,6 +2,7 @@
 import { readFileSync } from 'node:fs';
 import type { NodeBand, NodeSpec, SiteSpec } from '../../facility/facility-types';
 import { computeTargetPlan, type GyroRelationId, type TurnoverScale } from '../../science/index';
+import { methodsAnchorFor } from '../../science/method-docs';
 import { ScienceInputError } from '../../science/science-input-error';
 import { type CliCommand, COLOUR_OPTIONS, colourOption, numberOption, parseCommandArgs, relationOption } from '../cli-command';
 import { TYPICAL_NODE, TYPICAL_SITE } from '../typical-node';
@@ -41,6 +42,8 @@ Output:
 
 The plan's "analysis" (series, search band, false-alarm level) is how the campaign must be
 analysed for the plan's completeness to hold: "spincycle periodogram --plan FILE" reads it.
+How each number is computed: docs/science.md (the app's Methods page); the full output's
+"methods" names the section of each quantity, e.g. docs/science.md#completeness.
   -h, --help               this text
 
 Example:
@@ -131,7 +134,10 @@ export const command: CliCommand = {
         planningAltitudeDeg: numberOption(values.altitude, 'altitude', 'options.planningAltitudeDeg'),
       },
     );
-    if (!values.summary) return plan;
+    if (!values.summary) {
+      const methods = Object.fromEntries(Object.keys(plan.quantities).map((k) => [k, `docs/science.md#${methodsAnchorFor(k) ?? 'overview'}`]));
+      return { ...plan, methods };
+    }
     // Everything but the noise terms of one exposure; `analysis` stays exact (periodogram --plan reads it).
     const { quantities, precision: _precision, flags, ...head } = plan;
     return {
