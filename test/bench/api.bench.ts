@@ -3,12 +3,13 @@
  * 3 nodes (180 plans; `?pageSize=200` so that the whole list comes back, as before the list
  * was paged, and the default first page), plus the run status the plans tab polls. Each at a
  * fixed 200 requests per second for 30 s (BENCH_API_SECONDS to change it) from autocannon over
- * loopback, against a web server of its own on the test database. The server runs as
+ * loopback (after 3 s of the same load, not counted), against a web server of its own on the test database. The server runs as
  * `npm start` runs it — its own process (server/src/server.ts), logging at info — so that the
  * load generator's own work does not share its event loop. Prints p50/p95/p99 and errors;
  * target: p95 ≤ 50 ms with 0 errors. Creates throw-away rows and deletes them at the end.
  */
 import { randomUUID } from 'node:crypto';
+import { readFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import path from 'node:path';
 import autocannon from 'autocannon';
@@ -87,9 +88,27 @@ function freePort(): Promise<number> {
 const percentile = (sorted: number[], p: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] : NaN);
 
 /** One endpoint at a fixed rate: latency percentiles of every answer, non-2xx and socket errors. */
-async function load(base: string, label: string, urlPath: string, cookie: string): Promise<void> {
+/** Seconds of the same load before each measurement, not counted (JIT, connection pools, caches). */
+const WARM_UP_SECONDS = 3;
+
+/** CPU seconds (user + system) a process has used so far, from /proc (Linux). */
+function cpuSecondsOf(pid: number): number {
+  const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+  // Fields 14 and 15 of stat (utime, stime) in clock ticks; after "pid (comm) " they are 12 and 13.
+  return (Number(fields[11]) + Number(fields[12])) / CLOCK_TICKS;
+}
+const CLOCK_TICKS = 100;
+
+async function load(base: string, label: string, urlPath: string, cookie: string, serverPid: number): Promise<void> {
+  await new Promise<void>((resolve, reject) => {
+    autocannon(
+      { url: `${base}${urlPath}`, connections: 20, overallRate: RATE, duration: WARM_UP_SECONDS, headers: { cookie, accept: 'application/json' } },
+      (err) => (err ? reject(err) : resolve()),
+    );
+  });
   const latencies: number[] = [];
   let bytes = 0;
+  const cpuBefore = cpuSecondsOf(serverPid);
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
     const instance = autocannon(
       { url: `${base}${urlPath}`, connections: 20, overallRate: RATE, duration: SECONDS, headers: { cookie, accept: 'application/json' } },
@@ -100,12 +119,13 @@ async function load(base: string, label: string, urlPath: string, cookie: string
       bytes += resBytes;
     });
   });
+  const cpuMsPerRequest = ((cpuSecondsOf(serverPid) - cpuBefore) * 1000) / Math.max(1, latencies.length);
   latencies.sort((a, b) => a - b);
   const errors = result.errors + result.timeouts + result.non2xx;
   const f = (v: number) => `${v.toFixed(1).padStart(7)} ms`;
   console.log(
     `${label.padEnd(34)} ${String(latencies.length).padStart(6)} req  p50 ${f(percentile(latencies, 50))}  p95 ${f(percentile(latencies, 95))}  p99 ${f(percentile(latencies, 99))}  ` +
-      `errors ${errors} (non-2xx ${result.non2xx}, socket ${result.errors}, timeouts ${result.timeouts})  ${(bytes / Math.max(1, latencies.length) / 1024).toFixed(1)} kB/answer`,
+      `errors ${errors} (non-2xx ${result.non2xx}, socket ${result.errors}, timeouts ${result.timeouts})  ${(bytes / Math.max(1, latencies.length) / 1024).toFixed(1)} kB/answer  server CPU ${cpuMsPerRequest.toFixed(2)} ms/request`,
   );
 }
 
@@ -147,10 +167,10 @@ export default async function (): Promise<void> {
     const cookie = await signIn(base, email);
 
     console.log(`${TARGETS} targets on 3 nodes (${plans?.plans} plans, ${plans?.errors} errors); ${RATE} req/s for ${SECONDS} s per endpoint, autocannon over loopback`);
-    await load(base, 'GET /api/proposals', '/api/proposals', cookie);
-    await load(base, 'GET …/plans?pageSize=200 (all 180)', `/api/proposals/${proposal.id}/plans?pageSize=200`, cookie);
-    await load(base, 'GET …/plans (first page)', `/api/proposals/${proposal.id}/plans`, cookie);
-    await load(base, 'GET …/plans/status', `/api/proposals/${proposal.id}/plans/status`, cookie);
+    await load(base, 'GET /api/proposals', '/api/proposals', cookie, server.pid!);
+    await load(base, 'GET …/plans?pageSize=200 (all 180)', `/api/proposals/${proposal.id}/plans?pageSize=200`, cookie, server.pid!);
+    await load(base, 'GET …/plans (first page)', `/api/proposals/${proposal.id}/plans`, cookie, server.pid!);
+    await load(base, 'GET …/plans/status', `/api/proposals/${proposal.id}/plans/status`, cookie, server.pid!);
     console.log('target: p95 ≤ 50 ms with 0 errors for GET /api/proposals and the plans list');
   } finally {
     await stopChild(server);
