@@ -248,10 +248,10 @@ function logNegativeBinomial(i: number, a: number, z: number): number {
 let lastSlope = 0;
 
 /**
- * Pd and, in `lastSlope`, its derivative in λ: dPd/dμ = Σj Pois(j; μ)·NB(j + 1), since
+ * Pd and, with `withSlope` (the inversion), in `lastSlope` its derivative in λ: dPd/dμ = Σj Pois(j; μ)·NB(j + 1), since
  * dPois(j; μ)/dμ = Pois(j − 1; μ) − Pois(j; μ) (μ = λ/2).
  */
-function evaluateDetection(lam: number, threshold: DetectionThreshold): number {
+function evaluateDetection(lam: number, threshold: DetectionThreshold, withSlope = false): number {
   lastSlope = 0;
   const z = threshold.power;
   if (threshold.points < 4 || z >= 1) return 0;
@@ -275,13 +275,31 @@ function evaluateDetection(lam: number, threshold: DetectionThreshold): number {
   let pois = jMin === 0 ? Math.exp(-mu) : poissonTerm(jMin, mu);
   let sum = 0;
   let slope = 0;
-  for (let j = jMin; j <= jMax; j++) {
+  let j = jMin;
+  // Terms in logarithms only while the recurrence underflows (rare: many points and a high threshold).
+  for (; underflowed && j <= jMax; j++) {
     sum += pois * (cdf < 1 ? cdf : 1);
     slope += pois * nb;
     pois *= mu * inv[j + 1];
     cdf += nb;
-    nb = underflowed ? Math.exp(logNegativeBinomial(j + 2, a, z)) : nb * (a + j + 1) * z * inv[j + 2];
-    if (underflowed && nb > 0) underflowed = false;
+    nb = Math.exp(logNegativeBinomial(j + 2, a, z));
+    if (nb > 0) underflowed = false;
+  }
+  if (withSlope) {
+    for (; j <= jMax; j++) {
+      sum += pois * (cdf < 1 ? cdf : 1);
+      slope += pois * nb;
+      pois *= mu * inv[j + 1];
+      cdf += nb;
+      nb *= (a + j + 1) * z * inv[j + 2];
+    }
+  } else {
+    for (; j <= jMax; j++) {
+      sum += pois * (cdf < 1 ? cdf : 1);
+      pois *= mu * inv[j + 1];
+      cdf += nb;
+      nb *= (a + j + 1) * z * inv[j + 2];
+    }
   }
   lastSlope = 0.5 * slope;
   return sum < 0 ? 0 : sum > 1 ? 1 : sum;
@@ -325,7 +343,7 @@ function invertDetection(c: number, threshold: DetectionThreshold): number {
   let lo = 0;
   let hi = Infinity;
   for (let i = 0; i < 100; i++) {
-    const f = evaluateDetection(x, threshold) - c;
+    const f = evaluateDetection(x, threshold, true) - c;
     const slope = lastSlope;
     if (Math.abs(f) < 1e-10) return x;
     // Newton converges quadratically: a step below 1e-7·λ leaves an error near 1e-14·λ.

@@ -95,7 +95,12 @@ const POW10 = [1, 10, 100, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12];
  */
 export function countText(n: number): string {
   if (!Number.isFinite(n)) return String(n);
-  return Math.abs(n) >= 10000 ? n.toLocaleString('en-GB', { maximumFractionDigits: 0 }) : String(n);
+  if (Math.abs(n) < 10000) return String(n);
+  // Grouped by hand: toLocaleString builds a number formatter on every call (a plan has dozens).
+  const whole = String(Math.round(Math.abs(n)));
+  let out = '';
+  for (let i = whole.length; i > 0; i -= 3) out = (i > 3 ? ',' : '') + whole.slice(Math.max(0, i - 3), i) + out;
+  return n < 0 ? `-${out}` : out;
 }
 
 /** "1 night", "181 nights", "12,932 visits": a count with its noun, singular for one. */
