@@ -1,7 +1,8 @@
 /**
  * The cycle form takes instants as a date and a time of day read in UTC (a call closes at the
  * same instant for every team, wherever they are); these helpers convert between the two
- * inputs and the ISO 8601 instant the API stores.
+ * inputs and the ISO 8601 instant the API stores. Showing an instant is ui/time's work
+ * (`utcInstant`, `localInstant`); nothing here formats one for reading.
  */
 
 const DATE = /^\d{4}-\d{2}-\d{2}$/;

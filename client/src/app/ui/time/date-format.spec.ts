@@ -1,4 +1,4 @@
-import { formatDay, formatLocalInstant, formatUtcInstant } from './date-format';
+import { formatClockTime, formatDay, formatLocalInstant, formatUtcInstant } from './date-format';
 
 describe('date-format', () => {
   it('formatDay: a date-only text is its calendar day in any zone; an instant is its UTC day', () => {
@@ -25,5 +25,12 @@ describe('date-format', () => {
     // London in winter reads as UTC; in summer it does not.
     expect(formatLocalInstant('2027-01-16T00:00:00Z', 'en-US', 'Europe/London')).toBe('');
     expect(formatLocalInstant('2027-07-16T00:00:00Z', 'en-US', 'Europe/London')).toBe('16 Jul 2027, 01:00 Europe/London');
+  });
+
+  it('formatClockTime: hours and minutes on the person’s clock, 24-hour', () => {
+    expect(formatClockTime('2027-01-16T13:05:00Z', 'en-US', 'Europe/Berlin')).toBe('14:05');
+    expect(formatClockTime('2027-01-16T00:05:00Z', 'en-US', 'UTC')).toBe('00:05');
+    expect(formatClockTime(new Date(Date.UTC(2027, 0, 16, 23, 59)), 'en-US', 'Asia/Tokyo')).toBe('08:59');
+    expect(formatClockTime(null, 'en-US')).toBe('');
   });
 });

@@ -79,3 +79,14 @@ export function formatLocalInstant(value: DateInput, locale: string, timeZone = 
   const local = timeText(wallClock(date, locale, timeZone));
   return local === timeText(wallClock(date, locale, 'UTC')) ? '' : `${local} ${timeZone}`;
 }
+
+/**
+ * `14:05`: the time of day of an instant on the person's own clock, for "Saved 14:05" beside
+ * something they just did (no day, no zone: it is their clock, a moment ago). Empty for no value.
+ */
+export function formatClockTime(value: DateInput, locale: string, timeZone = browserTimeZone()): string {
+  const date = toDate(value);
+  if (!date) return '';
+  const w = wallClock(date, locale, timeZone);
+  return `${w.hour}:${w.minute}`;
+}

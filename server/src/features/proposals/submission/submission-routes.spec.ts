@@ -1,4 +1,3 @@
-import { inflateSync } from 'node:zlib';
 import { startHarness, type Browser, type Harness } from '../../../../../test/support/api-harness';
 import {
   addCoInvestigator,
@@ -239,38 +238,83 @@ describe('POST /api/proposals/:id/submit', () => {
   });
 });
 
-/** The text a PDF shows, decoded from the hex glyph strings through each font's ToUnicode map. */
-function pdfTexts(pdf: Buffer): string[] {
-  const raw = pdf.toString('latin1');
-  // Streams may be compressed (FlateDecode): inflate every stream we can.
-  const streams: string[] = [];
-  for (const m of raw.matchAll(/stream\r?\n([\s\S]*?)\r?\nendstream/g)) {
-    const bytes = Buffer.from(m[1], 'latin1');
-    try {
-      streams.push(inflateSync(bytes).toString('latin1'));
-    } catch {
-      streams.push(m[1]);
-    }
-  }
-  const maps = streams
-    .filter((s) => s.includes('beginbfrange'))
-    .map((s) => {
-      const map = new Map<string, string>();
-      for (const range of s.matchAll(/<([0-9a-f]{4})> <([0-9a-f]{4})> \[([^\]]*)\]/gi)) {
-        const start = parseInt(range[1], 16);
-        [...range[3].matchAll(/<([0-9a-f]+)>/gi)].forEach((u, i) => map.set((start + i).toString(16).padStart(4, '0'), String.fromCharCode(parseInt(u[1], 16))));
-      }
-      return map;
-    });
-  const texts: string[] = [];
-  for (const s of streams) {
-    for (const tj of s.matchAll(/\[([^\]]*)\] TJ/g)) {
-      const hex = [...tj[1].matchAll(/<([0-9a-f]+)>/gi)].map((x) => x[1]).join('');
-      for (const map of maps) texts.push((hex.match(/.{4}/g) ?? []).map((g) => map.get(g.toLowerCase()) ?? '?').join(''));
-    }
-  }
-  return texts;
+/** One text-showing operation of a PDF page: its font (base name), size and decoded text. */
+interface TextRun {
+  font: string;
+  size: number;
+  text: string;
 }
+
+/**
+ * The text an uncompressed PDF (pdfkit with `compress: false`) shows, run by run in page order:
+ * each TJ's hex glyph ids decoded through the ToUnicode map of the font selected before it.
+ */
+function pdfTextRuns(pdf: Buffer): TextRun[] {
+  const raw = pdf.toString('latin1');
+  const objects = new Map<string, string>();
+  for (const m of raw.matchAll(/(\d+) 0 obj\s*([\s\S]*?)endobj/g)) objects.set(m[1], m[2]);
+  const ref = (body: string, key: string) => new RegExp(`/${key} (\\d+) 0 R`).exec(body)?.[1] ?? '';
+  const toUnicode = (cmapRef: string) => {
+    const map = new Map<string, string>();
+    for (const range of (objects.get(cmapRef) ?? '').matchAll(/<([0-9a-f]{4})> <([0-9a-f]{4})> \[([^\]]*)\]/gi)) {
+      const start = parseInt(range[1], 16);
+      [...range[3].matchAll(/<([0-9a-f]+)>/gi)].forEach((u, i) =>
+        map.set((start + i).toString(16).padStart(4, '0'), String.fromCodePoint(parseInt(u[1], 16))),
+      );
+    }
+    return map;
+  };
+  const pages = [...objects.values()].find((body) => /\/Type \/Pages\b/.test(body)) ?? '';
+  const kids = [...(/\/Kids \[([^\]]*)\]/.exec(pages)?.[1] ?? '').matchAll(/(\d+) 0 R/g)].map((k) => k[1]);
+  const runs: TextRun[] = [];
+  for (const kid of kids) {
+    const page = objects.get(kid) ?? '';
+    const resources = /\/Resources <</.test(page) ? page : (objects.get(ref(page, 'Resources')) ?? '');
+    const fonts = new Map([...(/\/Font <<([\s\S]*?)>>/.exec(resources)?.[1] ?? '').matchAll(/\/(\w+) (\d+) 0 R/g)].map((f) => [f[1], f[2]]));
+    const content = /stream\r?\n([\s\S]*?)\r?\nendstream/.exec(objects.get(ref(page, 'Contents')) ?? '')?.[1] ?? '';
+    let font = '';
+    let size = 0;
+    let glyphs = new Map<string, string>();
+    for (const op of content.matchAll(/\/(\w+) ([\d.]+) Tf|\[([^\]]*)\] TJ/g)) {
+      if (op[1]) {
+        const fontObject = objects.get(fonts.get(op[1]) ?? '') ?? '';
+        font = /\/BaseFont \/([^\s/]+)/.exec(fontObject)?.[1] ?? op[1];
+        size = Number(op[2]);
+        glyphs = toUnicode(ref(fontObject, 'ToUnicode'));
+      } else {
+        const hex = [...op[3].matchAll(/<([0-9a-f]+)>/gi)].map((x) => x[1]).join('');
+        runs.push({ font, size, text: (hex.match(/.{4}/g) ?? []).map((g) => glyphs.get(g.toLowerCase()) ?? '?').join('') });
+      }
+    }
+  }
+  return runs;
+}
+
+/**
+ * Words written twice in a row ("Submitted, submitted"), in reading order within each block of
+ * text: consecutive runs in one font and size (the lines of a paragraph, the cells of a table).
+ * A section heading and the column heading under it ("… per node" / "Node") are not one text.
+ */
+function doubledWords(runs: TextRun[]): string[] {
+  const doubled: string[] = [];
+  let previous = '';
+  runs.forEach((run, i) => {
+    if (i > 0 && (run.font !== runs[i - 1].font || run.size !== runs[i - 1].size)) previous = '';
+    for (const raw of run.text.split(/\s+/)) {
+      const word = raw.replace(/^[^\p{L}]+|[^\p{L}]+$/gu, '').toLowerCase();
+      if (!raw) continue;
+      if (/^\p{L}{2,}$/u.test(word) && word === previous) doubled.push(`${previous} ${word}`);
+      previous = word;
+    }
+  });
+  return doubled;
+}
+
+/** The table headings the summary prints (an outside list: a heading renamed in the PDF fails here). */
+const TABLE_HEADINGS = [
+  ['Node', 'Target plans', 'Infeasible', 'Node-hours', 'Fee'],
+  ['Name', 'RA (J2000)', 'Dec (J2000)', 'Mag', 'Colour', 'Age (Myr)', 'Period range (d)', 'Visits', 'Node-hours', 'Feasible'],
+];
 
 describe('GET /api/proposals/:id/summary.pdf', () => {
   it('any member downloads a PDF that shows the title, the team and the target names', async () => {
@@ -283,12 +327,39 @@ describe('GET /api/proposals/:id/summary.pdf', () => {
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename="?proposal-\d+-summary\.pdf"?$/);
     const pdf = res.body as Buffer;
     expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
-    const texts = pdfTexts(pdf).join('\n');
+    const texts = pdfTextRuns(pdf).map((r) => r.text).join('\n');
     expect(texts).toContain('Printable summary');
     expect(texts).toContain('Star Print-1');
     expect(texts).toContain('00:42:00.0');
     expect(texts).toContain('−45:15:00');
     expect(texts).toContain('Targets on');
-    expect(texts).toMatch(/Generated by Spincycle at \d{4}-\d\d-\d\d \d\d:\d\d:\d\d UTC/);
+    // The product's one date format: day, 24-hour time, UTC written once.
+    expect(texts).toMatch(/Generated by Spincycle at \d{1,2} [A-Z][a-z]{2} \d{4}, \d\d:\d\d UTC\./);
+    expect(texts).toContain('Draft. Category: Open clusters.');
+  });
+
+  it('submitted: the state line says it once with its date; no word is doubled and every heading word is whole', async () => {
+    const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId, 'Printed once');
+    await makeReady(h, pi, proposal.id, [net.nodeIds[0], net.nodeIds[2]], [target({ name: 'Star Whole-1' }), target({ name: 'Star Whole-2', raDeg: 10.5, decDeg: -45.25 })]);
+    expect((await pi.post(`/api/proposals/${proposal.id}/submit`)).status).toBe(200);
+    const res = await pi.get(`/api/proposals/${proposal.id}/summary.pdf`).buffer(true).parse(binaryBody);
+    expect(res.status).toBe(200);
+    const runs = pdfTextRuns(res.body as Buffer);
+    const texts = runs.map((r) => r.text).join('\n');
+
+    expect(texts).toMatch(/^Submitted on \d{1,2} [A-Z][a-z]{2} \d{4}, \d\d:\d\d UTC\. Category: Open clusters\.$/m);
+    expect(doubledWords(runs)).toEqual([]);
+
+    // Table headings are the only bold 8 pt text. A heading may wrap at its spaces, never inside
+    // a word: every piece printed is a whole heading word, and every heading word is printed.
+    const headingWords = new Set(TABLE_HEADINGS.flat().flatMap((title) => title.split(' ')));
+    const printed = runs
+      .filter((r) => /bold/i.test(r.font) && r.size === 8)
+      .flatMap((r) => r.text.split(/\s+/))
+      .filter(Boolean);
+    expect(printed.filter((word) => !headingWords.has(word))).toEqual([]);
+    expect([...headingWords].filter((word) => !printed.includes(word))).toEqual([]);
+    // Both per-node tables print their full heading row.
+    expect(printed.filter((word) => word === 'Feasible')).toHaveLength(2);
   });
 });

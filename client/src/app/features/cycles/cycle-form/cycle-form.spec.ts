@@ -12,6 +12,7 @@ import { MatInputHarness } from '@angular/material/input/testing';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { provideRouter, Router } from '@angular/router';
 import type { CycleSummary, TelescopeNode } from '@spincycle/shared/facility/facility-types';
+import { formatLocalInstant } from '../../../ui/time/date-format';
 import CycleForm, { toFormErrorPaths } from './cycle-form';
 
 const CYCLE: CycleSummary = {
@@ -88,6 +89,9 @@ describe('CycleForm', () => {
     );
     // The instant written once, in UTC; the time is a plain 24-hour text field, not a browser time picker.
     expect(fixture.nativeElement.querySelector('[data-testid=closes-utc]').textContent).toBe('15 Jan 2027, 23:59 UTC');
+    // The person's own time only when it reads differently (none on a clock that reads as UTC).
+    const local = formatLocalInstant('2027-01-15T23:59:00Z', 'en-US');
+    expect(fixture.nativeElement.querySelector('[data-testid=closes-your-time]')?.textContent ?? '').toBe(local && `Your time: ${local}`);
     expect(fixture.nativeElement.querySelector('[formControlName=callClosesTime]').getAttribute('type')).not.toBe('time');
     expect(fixture.nativeElement.querySelector('[formControlName=callClosesDate]').getAttribute('type')).not.toBe('date');
     expect(await (await loader.getHarness(MatRadioGroupHarness)).getCheckedValue()).toBe('block');

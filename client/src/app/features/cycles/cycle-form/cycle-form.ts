@@ -1,5 +1,4 @@
 import { COMMA, ENTER } from '@angular/cdk/keycodes';
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
@@ -21,7 +20,6 @@ import {
   cycleInputSchema,
   DEFAULT_CAPACITY_OVERRUN,
   earliestCampaignStart,
-  formatUtcInstant,
   type CapacityOverrunRule,
   type CycleInput,
 } from '@spincycle/shared/cycles/cycle-schemas';
@@ -30,6 +28,7 @@ import { map } from 'rxjs';
 import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { confirmAction } from '../../../ui/confirm-dialog/confirm-dialog';
 import { LoadStatus } from '../../../ui/load-status/load-status';
+import { LocalInstantPipe, UtcInstantPipe } from '../../../ui/time/date-pipes';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { CycleAdminApi } from '../cycle-admin-api';
@@ -90,16 +89,16 @@ export function toFormErrorPaths(
 
 /**
  * Creates a cycle (/cycles/new) or edits one (/cycles/:id). The call's instants are typed as
- * a UTC date and time with the person's local equivalent shown beside them. Saving an edit
- * sends the version read; when someone else saved in between, the form keeps what was typed
- * and offers to reload.
+ * a UTC date and time, each instant written once in UTC with the person's own time beside it
+ * when it reads differently. Saving an edit sends the version read; when someone else saved in
+ * between, the form keeps what was typed and offers to reload.
  */
 @Component({
   selector: 'app-cycle-form',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
-    DatePipe,
     LoadStatus,
+    LocalInstantPipe,
     MatButton,
     MatChipGrid,
     MatChipInput,
@@ -123,6 +122,7 @@ export function toFormErrorPaths(
     MatSlideToggle,
     ReactiveFormsModule,
     RouterLink,
+    UtcInstantPipe,
   ],
   providers: [provideCalendarDates()],
   templateUrl: './cycle-form.html',
@@ -149,7 +149,6 @@ export default class CycleForm {
   protected readonly nodes = this.api.nodesResource();
   protected readonly nodeList = computed(() => (this.nodes.hasValue() ? this.nodes.value() : []));
 
-  protected readonly localZone = Intl.DateTimeFormat().resolvedOptions().timeZone;
   protected readonly separatorKeys = [ENTER, COMMA] as const;
   protected readonly errorOf = controlErrorMessage;
 
@@ -174,8 +173,6 @@ export default class CycleForm {
   });
   protected readonly opensAt = computed(() => joinUtcInstant(toCalendarDate(this.value().callOpensDate), this.value().callOpensTime));
   protected readonly closesAt = computed(() => joinUtcInstant(toCalendarDate(this.value().callClosesDate), this.value().callClosesTime));
-  /** `16 Jan 2027, 00:00 UTC`: each instant written once, in UTC. */
-  protected readonly utcLine = formatUtcInstant;
   /** The first night the campaign may start on, once the closing instant is known. */
   protected readonly earliestStart = computed(() => {
     const closes = this.closesAt();

@@ -50,7 +50,13 @@ describe('CycleList', () => {
     const columns = await table.getCellTextByColumnName();
     expect(columns['title'].text).toEqual(['Lantern season', 'Cycle 1']);
     expect(columns['status'].text).toEqual(['Call open', 'Call closed']);
-    expect(columns['callClosesAt'].text[0]).toContain('15 Jan 2027, 23:59 UTC');
+    // UTC said once, in the column header; each cell holds the instant without the zone.
+    expect(await (await table.getHeaderRows())[0].getCellTextByColumnName()).toMatchObject({
+      callOpensAt: 'Call opens (UTC)',
+      callClosesAt: 'Call closes (UTC)',
+    });
+    expect(fixture.nativeElement.querySelector('[data-testid=closes-utc]').textContent).toBe('15 Jan 2027, 23:59');
+    expect(columns['callClosesAt'].text[0]).not.toContain('UTC');
     // Campaign nights are calendar dates: shown as written, whatever the time zone.
     expect(columns['campaign'].text[0]).toBe('1 Mar 2027 – 31 Aug 2027');
     expect(columns['nodes'].text[0]).toContain('KRG-50');

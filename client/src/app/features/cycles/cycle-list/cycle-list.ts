@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatChip, MatChipSet } from '@angular/material/chips';
@@ -21,6 +21,7 @@ import type { CallStatus, CycleSummary } from '@spincycle/shared/facility/facili
 import { loadErrorText } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../ui/table/sort-rows';
+import { DayPipe, LocalInstantPipe, UtcInstantPipe } from '../../../ui/time/date-pipes';
 import { CycleAdminApi } from '../cycle-admin-api';
 
 export const CALL_STATUS_LABELS: Record<CallStatus, string> = {
@@ -44,14 +45,15 @@ function cycleValue(cycle: CycleSummary, column: string): SortValue {
   }
 }
 
-/** The facility manager's cycles: every call with its deadlines (local and UTC), campaign and capacity. */
+/** The facility manager's cycles: every call with its deadlines (in UTC, and on the person's clock when it differs), campaign and capacity. */
 @Component({
   selector: 'app-cycle-list',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
-    DatePipe,
+    DayPipe,
     DecimalPipe,
     LoadStatus,
+    LocalInstantPipe,
     MatButton,
     MatCell,
     MatCellDef,
@@ -69,6 +71,7 @@ function cycleValue(cycle: CycleSummary, column: string): SortValue {
     MatSortHeader,
     MatTable,
     RouterLink,
+    UtcInstantPipe,
   ],
   templateUrl: './cycle-list.html',
   styleUrl: './cycle-list.scss',
@@ -78,8 +81,6 @@ export default class CycleList {
   protected readonly columns = COLUMNS;
   /** Widened for the table's untyped row context. */
   protected readonly statusLabels: Readonly<Record<string, string>> = CALL_STATUS_LABELS;
-  /** The browser's IANA time zone, named beside local times. */
-  protected readonly localZone = Intl.DateTimeFormat().resolvedOptions().timeZone;
   protected readonly sort = signal<Sort>({ active: 'callClosesAt', direction: 'desc' });
 
   private readonly list = computed(() => (this.cycles.hasValue() ? this.cycles.value() : []));

@@ -6,6 +6,7 @@ import { MatTableHarness } from '@angular/material/table/testing';
 import { provideRouter } from '@angular/router';
 import type { CycleProposalsReport } from '@spincycle/shared/cycles/cycle-proposals';
 import type { CycleSummary } from '@spincycle/shared/facility/facility-types';
+import { formatLocalInstant } from '../../../ui/time/date-format';
 import CycleProposals from './cycle-proposals';
 
 const CYCLE: CycleSummary = {
@@ -93,7 +94,9 @@ describe('CycleProposals', () => {
     backend.expectOne('/api/cycles/7/proposals').flush(REPORT);
     await fixture.whenStable();
     expect(text('h1')).toBe('Proposals of 2027A');
-    expect(text('.page-lead')).toContain('16 Jan 2027, 00:00 UTC');
+    // UTC once, the person's own time only when it reads differently.
+    const local = formatLocalInstant('2027-01-16T00:00:00Z', 'en-US');
+    expect(text('.page-lead')).toContain(`closes on 16 Jan 2027, 00:00 UTC${local && ` (your time: ${local})`}. Requests`);
     const krg = text('[data-testid=pressure-KRG-50]');
     expect(krg).toContain('905.18 of 620 node-hours');
     expect(krg).toContain('146%');

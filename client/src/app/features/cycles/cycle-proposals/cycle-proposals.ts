@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe, PercentPipe } from '@angular/common';
+import { DecimalPipe, PercentPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { MatIcon } from '@angular/material/icon';
 import { MatSort, MatSortHeader, Sort } from '@angular/material/sort';
@@ -16,11 +16,11 @@ import {
 } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import type { CycleProposalItem } from '@spincycle/shared/cycles/cycle-proposals';
-import { formatUtcInstant } from '@spincycle/shared/cycles/cycle-schemas';
 import { loadErrorText } from '../../../core/http/api-error-message';
 import { CapacityMeter } from '../../../ui/capacity-meter/capacity-meter';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../ui/table/sort-rows';
+import { LocalInstantPipe, UtcInstantPipe } from '../../../ui/time/date-pipes';
 import { ProposalStateChip } from '../../proposals/proposal-state-chip/proposal-state-chip';
 import { CycleAdminApi } from '../cycle-admin-api';
 
@@ -53,9 +53,9 @@ function proposalValue(p: CycleProposalItem, column: string): SortValue {
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
     CapacityMeter,
-    DatePipe,
     DecimalPipe,
     LoadStatus,
+    LocalInstantPipe,
     MatCell,
     MatCellDef,
     MatColumnDef,
@@ -72,6 +72,7 @@ function proposalValue(p: CycleProposalItem, column: string): SortValue {
     PercentPipe,
     ProposalStateChip,
     RouterLink,
+    UtcInstantPipe,
   ],
   templateUrl: './cycle-proposals.html',
   styleUrl: './cycle-proposals.scss',
@@ -88,7 +89,6 @@ export default class CycleProposals {
   protected readonly data = computed(() => (this.report.hasValue() ? this.report.value() : null));
   protected readonly columns = COLUMNS;
   protected readonly sort = signal<Sort>({ active: 'submittedAt', direction: 'asc' });
-  protected readonly utcLine = formatUtcInstant;
 
   protected readonly rows = computed(() => sortRows(this.data()?.proposals ?? [], this.sort(), proposalValue));
   protected readonly nodes = computed(() => this.data()?.nodes ?? []);

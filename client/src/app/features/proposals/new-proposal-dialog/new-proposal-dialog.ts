@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
@@ -13,6 +12,7 @@ import { loadErrorText, readApiError } from '../../../core/http/api-error-messag
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { LoadStatus } from '../../../ui/load-status/load-status';
+import { LocalInstantPipe, UtcInstantPipe } from '../../../ui/time/date-pipes';
 import { ProposalApi } from '../proposal-api';
 
 /** Asks for an open cycle and a title, creates the draft, and closes with it. */
@@ -20,8 +20,8 @@ import { ProposalApi } from '../proposal-api';
   selector: 'app-new-proposal-dialog',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
-    DatePipe,
     LoadStatus,
+    LocalInstantPipe,
     MatButton,
     MatDialogActions,
     MatDialogClose,
@@ -36,6 +36,7 @@ import { ProposalApi } from '../proposal-api';
     MatProgressBar,
     MatSelect,
     ReactiveFormsModule,
+    UtcInstantPipe,
   ],
   template: `
     <h2 mat-dialog-title>New proposal</h2>
@@ -67,7 +68,12 @@ import { ProposalApi } from '../proposal-api';
             }
           </mat-select>
           @if (selectedCycle(); as cycle) {
-            <mat-hint>Call closes {{ cycle.callClosesAt | date: 'd MMM y, HH:mm' }} ({{ cycle.callClosesAt | date: 'd MMM y, HH:mm' : 'UTC' }} UTC)</mat-hint>
+            <mat-hint data-testid="closes-hint">
+              Call closes {{ cycle.callClosesAt | utcInstant }}
+              @if (cycle.callClosesAt | localInstant; as local) {
+                (your time: {{ local }})
+              }
+            </mat-hint>
           }
           <mat-error>{{ errorOf(form.controls.cycleId) }}</mat-error>
         </mat-form-field>

@@ -6,6 +6,7 @@ import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
 import { Clock } from '../../../core/time/clock';
+import { formatLocalInstant } from '../../../ui/time/date-format';
 import proposalsRoutes from '../proposals.routes';
 import { testProposal } from '../testing/fixtures';
 
@@ -32,8 +33,9 @@ describe('ProposalEditor', () => {
   afterEach(() => backend.verify());
 
   const el = () => harness.routeNativeElement as HTMLElement;
+  const squash = (text: string | null | undefined) => (text ?? '').replace(/\s+/g, ' ').trim();
 
-  it('opens on the overview tab, with a link per tab and the deadline in local time and UTC', async () => {
+  it('opens on the overview tab, with a link per tab and the deadline in UTC, then local time when it differs', async () => {
     await harness.navigateByUrl('/proposals/5');
     TestBed.tick();
     backend.expectOne('/api/proposals/5').flush(testProposal());
@@ -51,7 +53,10 @@ describe('ProposalEditor', () => {
     expect(links[0].classList).toContain('mdc-tab--active');
     expect(el().querySelector('h1')?.textContent).toBe('Spin-down of the Lantern cluster');
     expect(el().textContent).toContain('Call closes in 5 days');
-    expect(el().textContent).toContain('(15 Jan 2027, 23:59 UTC)');
+    expect(el().querySelector('[data-testid=closes-utc]')?.textContent).toBe('15 Jan 2027, 23:59 UTC');
+    const local = formatLocalInstant('2027-01-15T23:59:00Z', 'en-US');
+    expect(el().querySelector('[data-testid=closes-your-time]')?.textContent ?? '').toBe(local);
+    expect(squash(el().querySelector('.deadline')?.textContent)).toBe(`Call closes in 5 days: 15 Jan 2027, 23:59 UTC${local && ` (your time: ${local})`}`);
     expect(el().querySelector('app-proposal-overview textarea')).not.toBeNull();
     expect(el().querySelector('[data-testid=read-only-banner]')).toBeNull();
   });
@@ -66,6 +71,9 @@ describe('ProposalEditor', () => {
     const banner = el().querySelector('[data-testid=read-only-banner]') as HTMLElement;
     expect(banner.textContent).toContain('Submitted on');
     expect(banner.textContent).toContain('9 Jan 2027, 16:45 UTC');
+    // UTC written once, then the person's own time only when it reads differently.
+    const local = formatLocalInstant('2027-01-09T16:45:00Z', 'en-US');
+    expect(squash(banner.textContent)).toBe(`lock Submitted on 9 Jan 2027, 16:45 UTC${local && ` (your time: ${local})`} — read-only.`);
     expect(banner.textContent).toContain('— read-only.');
     expect((el().querySelector('app-proposal-overview textarea') as HTMLTextAreaElement).disabled).toBe(true);
   });

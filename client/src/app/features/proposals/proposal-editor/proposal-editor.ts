@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { HttpErrorResponse } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input } from '@angular/core';
 import { MatTabLink, MatTabNav, MatTabNavPanel } from '@angular/material/tabs';
@@ -8,6 +7,7 @@ import { readApiError } from '../../../core/http/api-error-message';
 import { Clock } from '../../../core/time/clock';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { describeCountdown } from '../../../ui/time/countdown';
+import { LocalInstantPipe, UtcInstantPipe } from '../../../ui/time/date-pipes';
 import { EDITOR_TABS } from '../editor-tabs';
 import { ProposalStateChip } from '../proposal-state-chip/proposal-state-chip';
 import { ProposalStore } from '../proposal-store';
@@ -20,7 +20,18 @@ import { ProposalStore } from '../proposal-store';
   selector: 'app-proposal-editor',
   changeDetection: ChangeDetectionStrategy.OnPush,
   providers: [ProposalStore],
-  imports: [DatePipe, LoadStatus, MatTabLink, MatTabNav, MatTabNavPanel, ProposalStateChip, RouterLink, RouterLinkActive, RouterOutlet],
+  imports: [
+    LoadStatus,
+    LocalInstantPipe,
+    MatTabLink,
+    MatTabNav,
+    MatTabNavPanel,
+    ProposalStateChip,
+    RouterLink,
+    RouterLinkActive,
+    RouterOutlet,
+    UtcInstantPipe,
+  ],
   templateUrl: './proposal-editor.html',
   styleUrl: './proposal-editor.scss',
 })
@@ -37,7 +48,6 @@ export default class ProposalEditor {
 
   protected readonly tabs = EDITOR_TABS;
   protected readonly stateLabels = PROPOSAL_STATE_LABELS;
-  protected readonly localZone = Intl.DateTimeFormat().resolvedOptions().timeZone;
   protected readonly proposal = this.store.proposal;
 
   protected readonly loadError = computed(() => {

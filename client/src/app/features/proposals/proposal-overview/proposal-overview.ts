@@ -1,5 +1,5 @@
-import { DatePipe, DecimalPipe, PercentPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import { DecimalPipe, PercentPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, LOCALE_ID, signal, untracked } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { AbstractControl, FormControl, FormGroup, ReactiveFormsModule, ValidationErrors } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
@@ -21,6 +21,7 @@ import { map } from 'rxjs';
 import { CapacityMeter } from '../../../ui/capacity-meter/capacity-meter';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
+import { formatClockTime } from '../../../ui/time/date-format';
 import { OverviewValues, overviewOf, ProposalStore } from '../proposal-store';
 
 /** One row of the request table: the proposal's request on a node against the cycle's capacity there. */
@@ -81,7 +82,6 @@ function completenessPercentValidator(control: AbstractControl<number | null>): 
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
     CapacityMeter,
-    DatePipe,
     DecimalPipe,
     MatButton,
     MatCheckbox,
@@ -105,7 +105,10 @@ function completenessPercentValidator(control: AbstractControl<number | null>): 
 })
 export default class ProposalOverview {
   protected readonly store = inject(ProposalStore);
+  private readonly locale = inject(LOCALE_ID);
   protected readonly proposal = this.store.proposal;
+  /** `14:05`: when the last save landed, on the person's own clock (they just typed; no day, no zone). */
+  protected readonly savedAtText = computed(() => formatClockTime(this.store.savedAt(), this.locale));
   protected readonly abstractMax = ABSTRACT_MAX_LENGTH;
   protected readonly completenessMinPercent = COMPLETENESS_RANGE.min * 100;
   protected readonly completenessMaxPercent = COMPLETENESS_RANGE.max * 100;

@@ -10,6 +10,7 @@ import { MatDialogHarness } from '@angular/material/dialog/testing';
 import { provideRouter, Router } from '@angular/router';
 import type { SubmissionCheck } from '@spincycle/shared/proposals/proposal-schemas';
 import { Clock } from '../../../../core/time/clock';
+import { formatLocalInstant } from '../../../../ui/time/date-format';
 import { ProposalStore } from '../../proposal-store';
 import { testMember, testProposal } from '../../testing/fixtures';
 import ProposalSubmit from './proposal-submit';
@@ -112,11 +113,16 @@ describe('ProposalSubmit', () => {
 
   it('submit: amber call to action, confirmation naming the deadline in UTC, then the submitted state', async () => {
     await render(READY);
+    // The deadline line: UTC once, then the person's own time only when it reads differently.
+    const deadline = (el().querySelector('[data-testid=deadline] span')?.textContent ?? '').replace(/\s+/g, ' ').trim();
+    const localLine = formatLocalInstant('2027-01-15T23:59:00Z', 'en-US');
+    expect(deadline).toBe(`The call of 2027A closes on 15 Jan 2027, 23:59 UTC${localLine && ` (your time: ${localLine})`}.`);
     const submit = await loader.getHarness(MatButtonHarness.with({ text: 'Submit proposal' }));
     expect(await (await submit.host()).hasClass('cta')).toBe(true);
     await submit.click();
     const dialog = await root.getHarness(MatDialogHarness);
-    expect(await dialog.getContentText()).toContain('until the call closes on Fri 15 Jan 2027, 23:59 UTC');
+    const local = formatLocalInstant('2027-01-15T23:59:00Z', 'en-US');
+    expect(await dialog.getContentText()).toContain(`until the call closes on 15 Jan 2027, 23:59 UTC${local && ` (your time: ${local})`}.`);
     backend.expectNone('/api/proposals/5/submit');
     await (await root.getHarness(MatButtonHarness.with({ text: 'Submit', selector: 'mat-dialog-actions button' }))).click();
 
@@ -128,6 +134,7 @@ describe('ProposalSubmit', () => {
     await fixture.whenStable();
     expect(el().querySelector('[data-testid=submitted-state]')?.textContent).toContain('Submitted on');
     expect(el().querySelector('[data-testid=submitted-state]')?.textContent).toContain('10 Jan 2027, 12:00 UTC');
+    expect(el().querySelector('[data-testid=submitted-state]')?.textContent?.match(/12:00/g)).toHaveLength(1);
     expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Submit proposal' }))).toHaveLength(0);
     expect(await loader.getHarness(MatButtonHarness.with({ text: 'Withdraw' }))).toBeTruthy();
   });

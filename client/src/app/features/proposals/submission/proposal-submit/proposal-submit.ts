@@ -1,4 +1,3 @@
-import { DatePipe, formatDate } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, LOCALE_ID, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -11,6 +10,8 @@ import { loadErrorText, readApiError } from '../../../../core/http/api-error-mes
 import { Clock } from '../../../../core/time/clock';
 import { confirmAction } from '../../../../ui/confirm-dialog/confirm-dialog';
 import { LoadStatus } from '../../../../ui/load-status/load-status';
+import { formatLocalInstant, formatUtcInstant } from '../../../../ui/time/date-format';
+import { LocalInstantPipe, UtcInstantPipe } from '../../../../ui/time/date-pipes';
 import { EDITOR_TABS, tabForField } from '../../editor-tabs';
 import { ProposalApi } from '../../proposal-api';
 import { ProposalStore } from '../../proposal-store';
@@ -19,13 +20,13 @@ const TAB_LABELS: Record<string, string> = Object.fromEntries(EDITOR_TABS.map((t
 
 /**
  * The submit tab: what still stops submission (each problem linked to the tab that fixes it),
- * the cautions, and the PI's Submit and Withdraw, each confirmed with the deadline in UTC and
- * local time.
+ * the cautions, and the PI's Submit and Withdraw, each confirmed with the deadline in UTC (and
+ * on the person's own clock when it reads differently).
  */
 @Component({
   selector: 'app-proposal-submit',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [DatePipe, LoadStatus, MatButton, MatIcon, MatProgressBar, RouterLink],
+  imports: [LoadStatus, LocalInstantPipe, MatButton, MatIcon, MatProgressBar, RouterLink, UtcInstantPipe],
   templateUrl: './proposal-submit.html',
   styleUrl: './proposal-submit.scss',
 })
@@ -53,7 +54,6 @@ export default class ProposalSubmit {
   );
 
   protected readonly proposal = this.store.proposal;
-  protected readonly localZone = Intl.DateTimeFormat().resolvedOptions().timeZone;
   protected readonly callOpen = computed(() => {
     const proposal = this.proposal();
     return !!proposal && Date.parse(proposal.cycle.callClosesAt) > this.clock.now();
@@ -73,12 +73,14 @@ export default class ProposalSubmit {
     return this.api.summaryPdfUrl(id);
   }
 
-  /** The deadline in UTC and in the person's own zone, for the confirmations. */
+  /**
+   * The deadline for the confirmations: `15 Jan 2027, 23:59 UTC`, then the person's own time
+   * only when it reads differently (`… (your time: 16 Jan 2027, 00:59 Europe/Berlin)`).
+   */
   protected deadline(proposal: Proposal): string {
     const at = proposal.cycle.callClosesAt;
-    const utc = formatDate(at, 'EEE d MMM y, HH:mm', this.locale, 'UTC');
-    const local = formatDate(at, 'EEE d MMM y, HH:mm', this.locale);
-    return `${utc} UTC (${local} ${this.localZone})`;
+    const local = formatLocalInstant(at, this.locale);
+    return local ? `${formatUtcInstant(at, this.locale)} (your time: ${local})` : formatUtcInstant(at, this.locale);
   }
 
   protected submit(): void {
