@@ -6,9 +6,20 @@ export interface RoleLink {
   path: string;
 }
 
+/**
+ * Work of a role that Spincycle does not do yet: what will come and when in the cycle it
+ * will be needed. Shown as plain text, never as a link, until the pages exist.
+ */
+export interface UpcomingWork {
+  what: string;
+  when: string;
+}
+
 /** What each role does in Spincycle and which existing pages serve it. */
 export interface RoleGuide {
   summary: string;
+  /** Set while the role's own pages are still to come. */
+  upcoming?: UpcomingWork;
   links: RoleLink[];
 }
 
@@ -17,7 +28,11 @@ const PLANNER: RoleLink = { label: 'Target planner', path: '/planner' };
 const PROPOSALS: RoleLink = { label: 'Proposals', path: '/proposals' };
 const CYCLES: RoleLink = { label: 'Cycles', path: '/cycles' };
 
-/** Links only to pages that exist; the review, award and billing pages come with their own features. */
+/**
+ * Links only to pages that exist (role-guide.spec.ts checks them against the app's routes); the
+ * review and billing pages come with their own features, and until then the cards say what
+ * will come and when in the cycle, without a link.
+ */
 export const ROLE_GUIDE: Record<Role, RoleGuide> = {
   proposer: {
     summary:
@@ -26,7 +41,11 @@ export const ROLE_GUIDE: Record<Role, RoleGuide> = {
   },
   reviewer: {
     summary:
-      'Declare conflicts, grade the proposals assigned to your panel from 0.0 to 10.0 and comment on them; a panel chair also agrees the standing.',
+      'Review the proposals of a cycle on a panel: declare your conflicts, grade the proposals assigned to you from 0.0 to 10.0 and comment on them; a panel chair also agrees the standing.',
+    upcoming: {
+      what: "Grading of the proposals assigned to you, in the cycle's review tables: your conflicts first, then a grade and a comment for each proposal.",
+      when: "After a cycle's call closes and the facility manager has formed its panels.",
+    },
     links: [PLANNER, NETWORK],
   },
   facility_manager: {
@@ -35,7 +54,11 @@ export const ROLE_GUIDE: Record<Role, RoleGuide> = {
     links: [CYCLES, PLANNER, NETWORK],
   },
   billing_contact: {
-    summary: 'Receive the invoices for awarded node-hours, pay them by card and download the receipts.',
+    summary: "Settle the fees of your teams' programs: the invoices for awarded node-hours, payment by card and the receipts.",
+    upcoming: {
+      what: "Invoices for the node-hours awarded to your teams' programs, at each node's published rate, with payment by card and receipts to download.",
+      when: "After a cycle's awards are decided. Until then, the network lists each node's rate per node-hour.",
+    },
     links: [NETWORK],
   },
   administrator: {

@@ -1,7 +1,9 @@
 /** What the planner's two curve charts share: the star's datasets and the chart.js options. */
 import type { ChartDataset, ChartOptions } from 'chart.js';
 import { logTickLabel } from '../../ui/charts/chart-format';
+import { curveChartLegend, errorBarStyle, markerStyle } from '../../ui/charts/chart-markers';
 import type { ChartTheme } from '../../ui/charts/chart-palette';
+import { logAxis125Hooks } from '../../ui/charts/log-ticks';
 import { formatValue } from './plan-display';
 import type { CurvePoint } from './gyro-curves';
 
@@ -18,35 +20,15 @@ export function starDatasets(
   bars: CurvePoint[][],
 ): { marker: CurveDataset; bars: CurveDataset[] } {
   return {
-    marker: {
-      label,
-      data: [point],
-      showLine: false,
-      pointRadius: 6,
-      pointHoverRadius: 7,
-      pointStyle: 'rectRot',
-      pointBackgroundColor: theme.emphasis,
-      pointBorderColor: theme.emphasis,
-      borderColor: theme.emphasis,
-      backgroundColor: theme.emphasis,
-      order: 0,
-    },
-    bars: bars.map((data) => ({
-      label: `${label} (range)`,
-      data,
-      borderColor: theme.emphasis,
-      borderWidth: 2,
-      pointRadius: 0,
-      pointHitRadius: 0,
-      fill: false,
-      order: 0,
-    })),
+    marker: { label, data: [point], ...markerStyle('thisStar', theme), order: 0 },
+    bars: bars.map((data) => ({ label: `${label} (range)`, data, ...errorBarStyle(theme), order: 0 })),
   };
 }
 
 /**
- * Options of a period chart: log period axis, the given x axis, legend and tooltip without the
- * datasets listed in `hidden` (band edges, error bars).
+ * Options of a period chart: log period axis with 1–2–5 ticks, the given x axis (a log one gets
+ * the same ticks), the charts' one legend style, legend and tooltip without the datasets listed
+ * in `hidden` (band edges, error bars).
  */
 export function curveChartOptions(args: {
   theme: ChartTheme;
@@ -57,6 +39,13 @@ export function curveChartOptions(args: {
 }): ChartOptions<'line'> {
   const { theme, locale, hidden } = args;
   const axisTitle = (text: string) => ({ display: true, text, color: theme.text });
+  const logTicks = { callback: (value: number | string) => logTickLabel(value, locale), maxRotation: 0, autoSkip: false };
+  // A log x axis gets the 1–2–5 ticks; a linear one no extra labels at its ends (3.0 then 3.4).
+  const x = (
+    args.x.type === 'logarithmic'
+      ? { ...args.x, ...logAxis125Hooks(), ticks: { ...(args.x.ticks ?? {}), ...logTicks } }
+      : { ...args.x, ticks: { includeBounds: false, ...(args.x.ticks ?? {}) } }
+  ) as LineScale;
   return {
     responsive: true,
     maintainAspectRatio: false,
@@ -64,19 +53,17 @@ export function curveChartOptions(args: {
     color: theme.text,
     interaction: { mode: 'nearest', intersect: false },
     scales: {
-      x: { ...args.x, grid: { color: theme.grid }, ticks: { ...(args.x.ticks ?? {}), color: theme.mutedText } } as LineScale,
+      x: { ...x, grid: { color: theme.grid }, ticks: { ...(x.ticks ?? {}), color: theme.mutedText } } as LineScale,
       y: {
         type: 'logarithmic',
         title: axisTitle('Rotation period (d)'),
         grid: { color: theme.grid },
-        ticks: { color: theme.mutedText, callback: (value) => logTickLabel(value, locale) },
+        ...logAxis125Hooks(),
+        ticks: { ...logTicks, color: theme.mutedText },
       },
     },
     plugins: {
-      legend: {
-        position: 'bottom',
-        labels: { color: theme.text, boxWidth: 14, filter: (item) => !hidden.has(item.datasetIndex ?? -1) },
-      },
+      legend: curveChartLegend(theme, (index) => hidden.has(index)),
       tooltip: {
         filter: (item) => !hidden.has(item.datasetIndex),
         callbacks: {

@@ -14,7 +14,10 @@ export function formatNightDate(nightDate: string, locale: string, withYear = fa
   return Number.isFinite(ms) ? format.format(ms) : nightDate;
 }
 
-/** Tick labels of a log axis: 1, 2, 5 × powers of ten only, plainly written (no `1e+3`). */
+/**
+ * Tick labels of a log axis: 1, 2, 5 × powers of ten only, plainly written (no `1e+3`, no
+ * `0.30000000000000004`); any other value gets no label. Pairs with `logAxis125Hooks`.
+ */
 export function logTickLabel(value: number | string, locale: string): string {
   const v = Number(value);
   if (!(v > 0)) return '';

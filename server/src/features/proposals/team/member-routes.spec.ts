@@ -115,6 +115,47 @@ describe('POST /api/proposals/:id/members', () => {
   });
 });
 
+describe('POST /api/proposals/:id/members: a reviewer invited as co-investigator', () => {
+  it("warns of the conflict in this cycle's review and still sends the invitation (the facility's rules decide)", async () => {
+    const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId);
+    const cycleCode = (await h.created.ctx.db('cycles').where({ id: net.cycleId }).first('code')).code;
+    const reviewer = await createAccount(h, ['proposer', 'reviewer']);
+    const res = await pi.post(`/api/proposals/${proposal.id}/members`, { email: reviewer.email.toUpperCase() });
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ email: reviewer.email, role: 'coi', status: 'invited' });
+    expect(res.body.warnings).toHaveLength(1);
+    expect(res.body.warnings[0].code).toBe('reviewer_conflict');
+    expect(res.body.warnings[0].message).toContain(`${reviewer.email} is a reviewer`);
+    expect(res.body.warnings[0].message).toContain(`conflict of interest in the review of cycle ${cycleCode}`);
+    expect(res.body.warnings[0].message).toContain("the facility's own rules");
+    // It goes ahead: the mail is sent and the link works.
+    const token = tokenIn((await h.mail.waitFor((m) => m.to.includes(reviewer.email))).text, 'invitations')!;
+    const b = await new Browser(h).signIn(reviewer.email);
+    expect((await b.post('/api/invitations/accept', { token })).status).toBe(200);
+  });
+
+  it('no warning for a proposer, nor for an address without an account', async () => {
+    const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId);
+    const proposer = await createAccount(h, ['proposer', 'billing_contact']);
+    const plain = await pi.post(`/api/proposals/${proposal.id}/members`, { email: proposer.email });
+    expect(plain.status).toBe(201);
+    expect(plain.body.warnings).toEqual([]);
+    const stranger = await pi.post(`/api/proposals/${proposal.id}/members`, { email: `nobody-${Date.now()}@test.example` });
+    expect(stranger.status).toBe(201);
+    expect(stranger.body.warnings).toEqual([]);
+  });
+
+  it('inviting the reviewer again (a fresh link) warns again', async () => {
+    const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId);
+    const reviewer = await createAccount(h, ['reviewer']);
+    expect((await pi.post(`/api/proposals/${proposal.id}/members`, { email: reviewer.email })).body.warnings).toHaveLength(1);
+    await h.created.ctx.db('proposal_invitation_mails').where({ proposal_id: proposal.id }).update({ sent_at: new Date(Date.now() - 11 * 60_000) });
+    const again = await pi.post(`/api/proposals/${proposal.id}/members`, { email: reviewer.email });
+    expect(again.status).toBe(200);
+    expect(again.body.warnings.map((w: { code: string }) => w.code)).toEqual(['reviewer_conflict']);
+  });
+});
+
 describe('DELETE /api/proposals/:id/members/:memberId', () => {
   it('the PI removes a co-I (who then gets 404) or withdraws an invitation; the PI cannot be removed', async () => {
     const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId);

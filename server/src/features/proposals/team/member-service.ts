@@ -4,7 +4,6 @@ import {
   INVITATION_VALID_DAYS,
   type InvitationAccepted,
   type InviteMemberInput,
-  type ProposalMember,
 } from '@spincycle/shared/proposals/proposal-schemas';
 import type { AppContext } from '../../../app-context';
 import { AppError } from '../../../http/app-error';
@@ -14,6 +13,7 @@ import { accessProposal, requireEditable, requirePi } from '../proposal-access';
 import { touchProposal } from '../proposal-repository';
 import { invitationMail } from './invitation-mail';
 import { findPendingInvitation, lastInvitationMailAt, recordInvitationMail } from './invitation-repository';
+import { reviewerConflictWarning, type InvitedMember } from './review-conflict';
 import {
   acceptInvitationRow,
   deleteMemberRow,
@@ -33,11 +33,13 @@ import {
  * address again sends a fresh link (the old one stops working), but at most one mail per
  * address and proposal every INVITATION_RESEND_MINUTES (429 `invitation_throttled`, also
  * across withdrawing and inviting again), so that the form cannot be used to flood a mailbox.
- * A link works once and for INVITATION_VALID_DAYS. Answers the team row and whether it is new.
+ * A link works once and for INVITATION_VALID_DAYS. Answers the team row and whether it is new;
+ * the row carries `warnings`: `reviewer_conflict` when the invited address belongs to a reviewer
+ * (see review-conflict.ts). The invitation goes ahead either way.
  */
-export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: number, input: InviteMemberInput): Promise<{ member: ProposalMember; created: boolean }> {
+export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: number, input: InviteMemberInput): Promise<{ member: InvitedMember; created: boolean }> {
   const token = newLinkToken();
-  const { memberId, created, title, hasAccount } = await ctx.db.transaction(async (trx) => {
+  const { memberId, created, title, hasAccount, warnings } = await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });
     requirePi(access, 'invite co-investigators');
     requireEditable(access, ctx.now());
@@ -62,7 +64,8 @@ export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: num
       rowId = await insertInvitation(trx, { proposalId: id, email: input.email, tokenHash: hashLinkToken(token), invitedBy: viewer.id });
     }
     await touchProposal(trx, id);
-    return { memberId: rowId, created: !existing, title: access.proposal.title, hasAccount: account !== undefined };
+    const warnings = account?.roles.includes('reviewer') ? [reviewerConflictWarning(input.email, access.cycle.code)] : [];
+    return { memberId: rowId, created: !existing, title: access.proposal.title, hasAccount: account !== undefined, warnings };
   });
   const link = hasAccount ? `${ctx.config.publicUrl}/invitations/${token}` : `${ctx.config.publicUrl}/sign-up?invite=${token}`;
   try {
@@ -71,7 +74,7 @@ export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: num
     ctx.logger.error({ err, proposalId: id }, 'invitation mail could not be sent');
   }
   const { proposalId: _p, ...member } = (await findMemberById(ctx.db, id, memberId))!;
-  return { member, created };
+  return { member: { ...member, warnings }, created };
 }
 
 /**

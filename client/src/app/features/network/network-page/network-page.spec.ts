@@ -116,6 +116,18 @@ describe('NetworkPage', () => {
     expect(rateCell.classList).toContain('num');
   });
 
+  it('fits 1440 px: a "scroll sideways" caption in each table box, names cut to one line with the whole name in a tooltip', async () => {
+    await answer([node(1, 'N1', NORTH)], [NORTH]);
+    const boxes = Array.from(fixture.nativeElement.querySelectorAll('.table-scroll')) as HTMLElement[];
+    expect(boxes).toHaveLength(2);
+    for (const box of boxes) {
+      expect(box.classList).toContain('table-fit');
+      expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more columns');
+    }
+    const name = fixture.nativeElement.querySelector('[data-testid=nodes-table] td.mat-column-name .cell-truncate') as HTMLElement;
+    expect(name.classList).toContain('mat-mdc-tooltip-trigger');
+  });
+
   it('sorting by rate orders by the amount, not by its text', async () => {
     await answer(
       [node(1, 'A', NORTH, { rateMinorPerHour: 12000 }), node(2, 'B', NORTH, { rateMinorPerHour: 900 }), node(3, 'C', SOUTH, { rateMinorPerHour: 4500 })],

@@ -14,6 +14,7 @@ import {
   MatRowDef,
   MatTable,
 } from '@angular/material/table';
+import { MatTooltip } from '@angular/material/tooltip';
 import type { Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
 import { loadErrorText } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
@@ -93,6 +94,7 @@ function siteValue(site: Site, column: string): SortValue {
     MatSort,
     MatSortHeader,
     MatTable,
+    MatTooltip,
     MinorCurrencyPipe,
   ],
   templateUrl: './network-page.html',

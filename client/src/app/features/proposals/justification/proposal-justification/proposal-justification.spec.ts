@@ -58,6 +58,24 @@ describe('ProposalJustification', () => {
     expect(formatFileSize(3.5 * 1024 * 1024, 'en-US')).toBe('3.5 MB');
   });
 
+  it('file button: the native input is hidden, a Material button with an accessible name opens it, the chosen name shows', async () => {
+    const native = el().querySelector('[data-testid=pdf-input]') as HTMLInputElement;
+    expect(native.hidden).toBe(true);
+    const click = jest.spyOn(native, 'click').mockImplementation(() => undefined);
+    const button = el().querySelector('[data-testid=choose-pdf]') as HTMLButtonElement;
+    expect(button.tagName).toBe('BUTTON');
+    expect(button.type).toBe('button');
+    expect(button.textContent?.trim()).toContain('Choose a PDF');
+    expect(button.getAttribute('aria-describedby')).toBe('pdf-file-name');
+    expect(el().querySelector('#pdf-file-name')?.textContent?.trim()).toBe('No file chosen');
+    button.click();
+    expect(click).toHaveBeenCalledTimes(1);
+    choose(pdf('lantern-case.pdf'));
+    await fixture.whenStable();
+    expect(el().querySelector('#pdf-file-name')?.textContent?.trim()).toBe('lantern-case.pdf');
+    expect(button.textContent?.trim()).toContain('Choose another PDF');
+  });
+
   it('a file that is too large is refused before upload', async () => {
     choose(pdf('big.pdf', 12 * 1024 * 1024));
     await fixture.whenStable();

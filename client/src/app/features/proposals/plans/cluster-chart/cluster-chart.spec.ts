@@ -35,6 +35,23 @@ describe('ClusterChart', () => {
     expect(scales['y'].title.text).toBe('Expected rotation period (d)');
   });
 
+  it('period on a log axis with 1–2–5 ticks, markers and legend in the charts\' one style', async () => {
+    await render();
+    const options = chart().options!;
+    const y = (options.scales as Record<string, { type: string; afterBuildTicks?: unknown; ticks: { callback: (v: number) => string } }>)['y'];
+    expect(y.type).toBe('logarithmic');
+    expect(y.afterBuildTicks).toEqual(expect.any(Function));
+    expect([0.5, 1, 2, 3, 5, 10].map((v) => y.ticks.callback(v))).toEqual(['0.5', '1', '2', '', '5', '10']);
+    expect(options.plugins?.legend?.position).toBe('bottom');
+    expect(options.plugins?.legend?.labels?.usePointStyle).toBe(true);
+    const datasets = (chart().data?.datasets ?? []) as { label?: string; pointStyle?: string; pointRadius?: number; borderDash?: number[] }[];
+    const byLabel = (label: string) => datasets.find((d) => d.label === label)!;
+    expect(byLabel('Target: feasible on every planned node')).toMatchObject({ pointStyle: 'circle', pointRadius: 6 });
+    expect(byLabel('Target: infeasible on every node')).toMatchObject({ pointStyle: 'crossRot', pointRadius: 6 });
+    // Other relations are thinner lines, not dashed: in the planner a dash means "outside the calibration".
+    expect(byLabel('Angus et al. (2015)').borderDash).toEqual([]);
+  });
+
   it('a click on a target marker asks for its sky window on the nodes it was planned on', async () => {
     await render();
     const selections: ClusterPointSelection[] = [];

@@ -2,20 +2,26 @@ import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, LOCALE_ID, output } from '@angular/core';
 import type { PlanMarker } from '@spincycle/shared/proposals/plan-types';
 import type { TargetRow } from '@spincycle/shared/proposals/target-schemas';
-import type { ActiveElement, ChartData, ChartDataset, ChartOptions, PointStyle } from 'chart.js';
+import type { ActiveElement, ChartData, ChartDataset, ChartOptions } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import { ColorScheme } from '../../../../core/layout/color-scheme';
-import { chartTheme, OKABE_ITO, RELATION_COLOURS, withAlpha } from '../../../../ui/charts/chart-palette';
+import { logTickLabel } from '../../../../ui/charts/chart-format';
+import { bandStyle, curveChartLegend, curveStyle, markerStyle } from '../../../../ui/charts/chart-markers';
+import { chartTheme, RELATION_COLOURS } from '../../../../ui/charts/chart-palette';
 import { provideSpincycleCharts } from '../../../../ui/charts/chart-setup';
+import { logAxis125Hooks } from '../../../../ui/charts/log-ticks';
 import type { CurvePoint } from '../../../planner/gyro-curves';
 import { ClusterTargetPoint, clusterSeries, TargetFeasibility } from './cluster-curves';
 
-/** Feasibility is told by marker shape as well as colour, so it survives any colour vision and print. */
-const FEASIBILITY_STYLE: Record<TargetFeasibility, { label: string; pointStyle: PointStyle; colour: (emphasis: string) => string }> = {
-  feasible: { label: 'Target: feasible on every planned node', pointStyle: 'circle', colour: (emphasis) => emphasis },
-  partly: { label: 'Target: feasible on some nodes', pointStyle: 'triangle', colour: () => OKABE_ITO.yellow },
-  infeasible: { label: 'Target: infeasible on every node', pointStyle: 'crossRot', colour: () => OKABE_ITO.vermillion },
-  unplanned: { label: 'Target: no plan yet', pointStyle: 'rectRot', colour: () => OKABE_ITO.skyBlue },
+/**
+ * Feasibility is told by marker shape as well as colour (the charts' one marker style,
+ * ui/charts/chart-markers.ts), so it survives any colour vision and print.
+ */
+const FEASIBILITY_LABELS: Record<TargetFeasibility, string> = {
+  feasible: 'Target: feasible on every planned node',
+  partly: 'Target: feasible on some nodes',
+  infeasible: 'Target: infeasible on every node',
+  unplanned: 'Target: no plan yet',
 };
 const FEASIBILITY_ORDER: TargetFeasibility[] = ['feasible', 'partly', 'infeasible', 'unplanned'];
 
@@ -102,46 +108,20 @@ export class ClusterChart {
     if (series.band && defaultCurve) {
       const colour = RELATION_COLOURS[defaultCurve.relation];
       datasets.push(
-        {
-          label: `${defaultCurve.label} ±1σ`,
-          data: series.band.high,
-          borderWidth: 0,
-          pointRadius: 0,
-          backgroundColor: withAlpha(colour, 0.18),
-          fill: '+1',
-        },
-        { label: '', data: series.band.low, borderWidth: 0, pointRadius: 0, fill: false },
+        { label: `${defaultCurve.label} ±1σ`, data: series.band.high, ...bandStyle(colour) },
+        { label: '', data: series.band.low, borderWidth: 0, pointRadius: 0, pointHitRadius: 0, fill: false },
       );
     }
     for (const curve of series.curves) {
+      // As in the planner's charts: the default relation thicker, the others thinner, all solid.
       datasets.push({
         label: curve.isDefault ? `${curve.label} (default)` : curve.label,
         data: curve.points,
-        borderColor: RELATION_COLOURS[curve.relation],
-        backgroundColor: RELATION_COLOURS[curve.relation],
-        borderWidth: curve.isDefault ? 2.5 : 1.5,
-        borderDash: curve.isDefault ? [] : [6, 3],
-        pointRadius: 0,
-        pointHitRadius: 0,
-        fill: false,
+        ...curveStyle(RELATION_COLOURS[curve.relation], { main: curve.isDefault }),
       });
     }
     for (const group of this.groups()) {
-      const style = FEASIBILITY_STYLE[group.feasibility];
-      const colour = style.colour(theme.emphasis);
-      datasets.push({
-        label: style.label,
-        data: group.points,
-        showLine: false,
-        pointStyle: style.pointStyle,
-        pointRadius: 6,
-        pointHoverRadius: 8,
-        pointBorderWidth: 2,
-        pointBackgroundColor: withAlpha(colour === theme.emphasis ? '#808080' : colour, 0.6),
-        pointBorderColor: colour,
-        backgroundColor: colour,
-        borderColor: colour,
-      });
+      datasets.push({ label: FEASIBILITY_LABELS[group.feasibility], data: group.points, ...markerStyle(group.feasibility, theme) });
     }
     return { datasets };
   });
@@ -162,21 +142,19 @@ export class ClusterChart {
           type: 'linear',
           title: axisTitle(series?.axisLabel ?? 'Intrinsic colour (mag)'),
           grid: { color: theme.grid },
-          ticks: { color: theme.mutedText },
+          ticks: { color: theme.mutedText, includeBounds: false },
         },
         y: {
-          type: 'linear',
-          min: 0,
+          // A log period axis with 1–2–5 ticks, as in the planner's charts.
+          type: 'logarithmic',
           title: axisTitle('Expected rotation period (d)'),
           grid: { color: theme.grid },
-          ticks: { color: theme.mutedText },
+          ...logAxis125Hooks(),
+          ticks: { color: theme.mutedText, callback: (value) => logTickLabel(value, this.locale), maxRotation: 0, autoSkip: false },
         },
       },
       plugins: {
-        legend: {
-          position: 'bottom',
-          labels: { color: theme.text, boxWidth: 14, usePointStyle: true, filter: (item) => item.text !== '' },
-        },
+        legend: curveChartLegend(theme),
         tooltip: {
           filter: (item) => item.datasetIndex >= curveCount,
           callbacks: {

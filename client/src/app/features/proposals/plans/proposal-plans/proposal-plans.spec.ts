@@ -115,8 +115,20 @@ describe('ProposalPlans', () => {
       expect(details[0].textContent).not.toMatch(/no expected period: no expected period/i);
     });
 
+    it('fits 1440 px: icon buttons named after their plan, a "scroll sideways" caption in the box, target names cut with a tooltip', () => {
+      const box = el().querySelector('[data-testid=plans-table]')!.parentElement!;
+      expect(box.classList).toContain('table-fit');
+      expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more columns');
+      const actions = Array.from(el().querySelectorAll('[data-testid=plans-table] td.actions button')) as HTMLButtonElement[];
+      expect(actions.map((b) => b.getAttribute('aria-label'))[0]).toMatch(/^Explain the plan of .+ on .+$/);
+      expect(actions.map((b) => b.getAttribute('aria-label'))[1]).toMatch(/^Sky window of .+ from .+$/);
+      expect(actions.every((b) => b.classList.contains('mat-mdc-tooltip-trigger'))).toBe(true);
+      expect(el().querySelector('[data-testid=plans-table] td.target-cell .cell-truncate')).not.toBeNull();
+    });
+
     it('shows the completeness of each plan as a percentage, a dash where the row does not carry it', () => {
-      const headers = Array.from(el().querySelectorAll('[data-testid=plans-table] th')).map((th) => th.textContent?.trim());
+      // A soft hyphen lets the header break as "Complete-/ness" (the table fits 1440 px).
+      const headers = Array.from(el().querySelectorAll('[data-testid=plans-table] th')).map((th) => th.textContent?.replace(/\u00ad/g, '').trim());
       expect(headers.indexOf('Completeness')).toBe(headers.indexOf('Visits') + 1);
       const cells = Array.from(el().querySelectorAll('[data-testid=completeness-cell]')).map((td) => td.textContent?.trim());
       expect(cells).toEqual(['90 %', '—']);

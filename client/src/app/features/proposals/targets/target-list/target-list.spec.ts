@@ -54,6 +54,17 @@ describe('TargetList', () => {
     input.dispatchEvent(new Event('change'));
   }
 
+  it('fits 1440 px: a "scroll sideways" caption in the box, names and notes cut to one line with a tooltip', () => {
+    const box = (fixture.nativeElement as HTMLElement).querySelector('[data-testid=targets-table]')!.parentElement!;
+    expect(box.classList).toContain('table-scroll');
+    expect(box.classList).toContain('table-fit');
+    expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more columns');
+    for (const column of ['name', 'notes']) {
+      const cell = (fixture.nativeElement as HTMLElement).querySelector(`[data-testid=targets-table] td.mat-column-${column} .cell-truncate`);
+      expect(cell?.classList).toContain('mat-mdc-tooltip-trigger');
+    }
+  });
+
   it('lists the targets with sexagesimal positions, export and example links', async () => {
     const columns = await (await loader.getHarness(MatTableHarness)).getCellTextByColumnName();
     expect(columns['name'].text).toEqual(['Lantern 1', 'Lantern 2']);
@@ -87,7 +98,7 @@ describe('TargetList', () => {
     expect(fixture.nativeElement.textContent).toContain('25 % sent');
 
     const rows: CsvRowError[] = [
-      { row: 2, field: 'dec', message: 'declination must be within −90…+90°, got 95°' },
+      { row: 2, field: 'dec', message: 'declination must be between −90° and 90°, got 95' },
       { row: 7, field: 'band', message: 'band must be one of B, V, R, I, G' },
       { row: 7, field: 'age_myr', message: 'age must be positive' },
       { row: 31, field: 'name', message: 'the name Lantern 4 is used twice (rows 4 and 31)' },

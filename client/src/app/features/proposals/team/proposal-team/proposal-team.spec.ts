@@ -104,4 +104,67 @@ describe('ProposalTeam', () => {
     expect(fixture.nativeElement.querySelector('[data-testid^=remove-]')).toBeNull();
     expect(fixture.nativeElement.textContent).toContain('Only the PI can invite or remove team members.');
   });
+
+  it('PI invites a reviewer: the conflict warning shows above the table and on the row; the invitation is sent all the same', async () => {
+    await render(testProposal({ team: TEAM }));
+    const message =
+      "ines.marl@example.org is a reviewer in Spincycle. On this team they would have a conflict of interest in the review of cycle 2027A: they could not grade this proposal, and the facility may have to change its panels. The invitation has been sent; whether a reviewer may also propose in the same cycle is for the facility's own rules, so check them before they join.";
+    await (await loader.getHarness(MatInputHarness.with({ selector: '[type=email]' }))).setValue('ines.marl@example.org');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
+    backend.expectOne('/api/proposals/5/members').flush(
+      {
+        ...testMember(3, { accountId: null, displayName: null, email: 'ines.marl@example.org', status: 'invited' }),
+        warnings: [{ code: 'reviewer_conflict', message }],
+      },
+      { status: 201, statusText: 'Created' },
+    );
+    await fixture.whenStable();
+    const host = fixture.nativeElement as HTMLElement;
+    const caution = host.querySelector('[data-testid=reviewer-conflict]')!;
+    expect(caution.getAttribute('role')).toBe('note');
+    expect(caution.textContent).toContain('Conflict of interest: ines.marl@example.org');
+    expect(caution.textContent).toContain(message);
+    expect(host.textContent).toContain(`Invitation sent to ines.marl@example.org. ${message}`);
+    const columns = await (await loader.getHarness(MatTableHarness)).getCellTextByColumnName();
+    expect(columns['status'].text.slice(0, 2)).toEqual(['On the team', 'On the team']);
+    expect(host.querySelector('[data-testid=conflict-flag]')!.textContent!.trim()).toMatch(/Reviewer: conflict of interest$/);
+    // The team row itself carries no warnings.
+    expect(TestBed.inject(ProposalStore).proposal()!.team[2]).not.toHaveProperty('warnings');
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: /^Dismiss/ }))).click();
+    expect(host.querySelector('[data-testid=reviewer-conflict]')).toBeNull();
+    expect(host.querySelector('[data-testid=conflict-flag]')).toBeNull();
+  });
+
+  it('PI invites someone who is not a reviewer: no warning', async () => {
+    await render(testProposal({ team: TEAM }));
+    await (await loader.getHarness(MatInputHarness.with({ selector: '[type=email]' }))).setValue('tamsin.rook@example.org');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
+    backend
+      .expectOne('/api/proposals/5/members')
+      .flush({ ...testMember(3, { accountId: null, displayName: null, email: 'tamsin.rook@example.org', status: 'invited' }), warnings: [] }, { status: 201, statusText: 'Created' });
+    await fixture.whenStable();
+    expect(fixture.nativeElement.querySelector('[data-testid=reviewer-conflict]')).toBeNull();
+    expect(fixture.nativeElement.textContent).toContain('Invitation sent to tamsin.rook@example.org.');
+  });
+
+  it('a fresh link to a pending reviewer replaces the row (no duplicate) and keeps one warning; removing the row clears it', async () => {
+    const pending = testMember(3, { accountId: null, displayName: null, email: 'ines.marl@example.org', status: 'invited' });
+    await render(testProposal({ team: [...TEAM, pending] }));
+    await (await loader.getHarness(MatInputHarness.with({ selector: '[type=email]' }))).setValue('ines.marl@example.org');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
+    backend
+      .expectOne('/api/proposals/5/members')
+      .flush({ ...pending, warnings: [{ code: 'reviewer_conflict', message: 'ines.marl@example.org is a reviewer in Spincycle.' }] }, { status: 200, statusText: 'OK' });
+    await fixture.whenStable();
+    const host = fixture.nativeElement as HTMLElement;
+    expect((await (await loader.getHarness(MatTableHarness)).getCellTextByColumnName())['member'].text).toHaveLength(3);
+    expect(host.querySelectorAll('[data-testid=reviewer-conflict]')).toHaveLength(1);
+
+    await (await loader.getHarness(MatButtonHarness.with({ selector: '[data-testid=remove-3]' }))).click();
+    await (await root.getHarness(MatButtonHarness.with({ text: 'Remove', selector: 'mat-dialog-actions button' }))).click();
+    backend.expectOne('/api/proposals/5/members/3').flush(null, { status: 204, statusText: 'No Content' });
+    await fixture.whenStable();
+    expect(host.querySelector('[data-testid=reviewer-conflict]')).toBeNull();
+  });
 });

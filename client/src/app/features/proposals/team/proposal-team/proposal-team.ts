@@ -3,6 +3,7 @@ import { FormControl, FormGroup, FormGroupDirective, ReactiveFormsModule } from 
 import { MatButton } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import {
@@ -26,8 +27,20 @@ import { ProposalApi } from '../../proposal-api';
 import { MEMBER_ROLE_LABELS } from '../../proposal-list/proposal-list';
 import { ProposalStore } from '../../proposal-store';
 import { DayPipe } from '../../../../ui/time/date-pipes';
+import { warningsOf, type TeamWarning } from '../team-warning';
 
-/** The team tab: who is on the proposal; the PI invites co-investigators by e-mail and removes them. */
+/** A caution about one team row, kept on screen until the row goes or the PI dismisses it. */
+interface MemberCaution {
+  memberId: number;
+  email: string;
+  warning: TeamWarning;
+}
+
+/**
+ * The team tab: who is on the proposal; the PI invites co-investigators by e-mail and removes
+ * them. An invitation the server answers with a caution (a reviewer of the cycle invited) shows
+ * it above the table and beside the row; the invitation has gone out all the same.
+ */
 @Component({
   selector: 'app-proposal-team',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -44,6 +57,7 @@ import { DayPipe } from '../../../../ui/time/date-pipes';
     MatHeaderRow,
     MatHeaderRowDef,
     MatHint,
+    MatIcon,
     MatInput,
     MatLabel,
     MatProgressBar,
@@ -91,6 +105,45 @@ import { DayPipe } from '../../../../ui/time/date-pipes';
     .note {
       color: var(--mat-sys-on-surface-variant);
     }
+    .caution {
+      display: flex;
+      align-items: flex-start;
+      gap: 12px;
+      margin-block: 12px;
+      padding: 12px 16px;
+      border-radius: var(--mat-sys-corner-medium);
+      background: var(--mat-sys-tertiary-container);
+      color: var(--mat-sys-on-tertiary-container);
+      mat-icon {
+        flex: none;
+      }
+      p {
+        margin: 0;
+      }
+      .caution-text {
+        flex: 1;
+        display: flex;
+        flex-direction: column;
+        gap: 4px;
+      }
+      button {
+        flex: none;
+      }
+    }
+    .row-flag {
+      display: inline-flex;
+      align-items: center;
+      gap: 4px;
+      margin-inline-start: 8px;
+      font: var(--mat-sys-body-small);
+      color: var(--mat-sys-on-surface);
+      mat-icon {
+        font-size: 18px;
+        inline-size: 18px;
+        block-size: 18px;
+        color: var(--mat-sys-tertiary);
+      }
+    }
   `,
 })
 export default class ProposalTeam {
@@ -112,6 +165,10 @@ export default class ProposalTeam {
   protected readonly busy = signal(false);
   protected readonly serverError = signal<string | null>(null);
   protected readonly announcement = signal('');
+  /** Cautions from the server about rows of the team (e.g. a reviewer invited). */
+  protected readonly cautions = signal<MemberCaution[]>([]);
+  /** Ids of rows with a caution, for the flag in the table. */
+  protected readonly cautioned = computed(() => new Set(this.cautions().map((c) => c.memberId)));
 
   protected invite(): void {
     if (this.busy()) return;
@@ -125,11 +182,21 @@ export default class ProposalTeam {
     this.busy.set(true);
     this.serverError.set(null);
     this.api.invite(proposal.id, input).subscribe({
-      next: (member) => {
+      next: (answer) => {
         this.busy.set(false);
-        this.store.replace({ ...this.store.proposal()!, team: [...this.team(), member] });
+        const warnings = warningsOf(answer);
+        const { warnings: _w, ...member } = { ...answer, warnings };
+        // A fresh link to a pending address answers the same row: replace it rather than add it twice.
+        const team = this.team().some((m) => m.id === member.id)
+          ? this.team().map((m) => (m.id === member.id ? member : m))
+          : [...this.team(), member];
+        this.store.replace({ ...this.store.proposal()!, team });
+        this.cautions.update((list) => [
+          ...list.filter((c) => c.memberId !== member.id),
+          ...warnings.map((warning) => ({ memberId: member.id, email: member.email, warning })),
+        ]);
         this.inviteFormDirective()?.resetForm();
-        this.announcement.set(`Invitation sent to ${member.email}.`);
+        this.announcement.set([`Invitation sent to ${member.email}.`, ...warnings.map((w) => w.message)].join(' '));
       },
       error: (error: unknown) => {
         this.busy.set(false);
@@ -163,6 +230,7 @@ export default class ProposalTeam {
         next: () => {
           this.busy.set(false);
           this.store.replace({ ...this.store.proposal()!, team: this.team().filter((m) => m.id !== member.id) });
+          this.dismiss(member.id);
           this.announcement.set(`${who} removed from the team.`);
         },
         error: (error: unknown) => {
@@ -172,5 +240,9 @@ export default class ProposalTeam {
       });
     });
   }
-}
 
+  /** Hides the cautions about one row. */
+  protected dismiss(memberId: number): void {
+    this.cautions.update((list) => list.filter((c) => c.memberId !== memberId));
+  }
+}

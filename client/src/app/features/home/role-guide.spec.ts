@@ -1,0 +1,35 @@
+import { ROLES } from '@spincycle/shared/accounts/roles';
+import { routes } from '../../app.routes';
+import { ROLE_GUIDE } from './role-guide';
+
+/** The first path segment of every top-level route that leads to a page (not the catch-all). */
+const TOP_LEVEL = new Set(routes.filter((r) => r.path !== undefined && r.path !== '**').map((r) => r.path!.split('/')[0]));
+
+describe('ROLE_GUIDE', () => {
+  it('every link of every role leads to a route of the app, never to the not-found page', () => {
+    for (const role of ROLES) {
+      for (const link of ROLE_GUIDE[role].links) {
+        expect(link.path.startsWith('/')).toBe(true);
+        expect(TOP_LEVEL.has(link.path.slice(1).split('/')[0])).toBe(true);
+      }
+    }
+  });
+
+  it('roles without their pages yet (reviewer, billing contact) say what will come and when, in terms of the cycle', () => {
+    expect(ROLE_GUIDE.reviewer.upcoming?.what).toMatch(/grading/i);
+    expect(ROLE_GUIDE.reviewer.upcoming?.what).toContain("cycle's review tables");
+    expect(ROLE_GUIDE.reviewer.upcoming?.when).toContain("call closes");
+    expect(ROLE_GUIDE.billing_contact.upcoming?.what).toMatch(/invoices for the node-hours/i);
+    expect(ROLE_GUIDE.billing_contact.upcoming?.what).toContain('payment by card');
+    expect(ROLE_GUIDE.billing_contact.upcoming?.when).toContain('awards are decided');
+    // No calendar promises: the cycle's own steps say when.
+    for (const role of ROLES) {
+      expect(ROLE_GUIDE[role].upcoming?.when ?? '').not.toMatch(/\b(20\d\d|January|February|March|April|May|June|July|August|September|October|November|December|soon|next month|next year)\b/);
+    }
+  });
+
+  it('roles with their pages have no "not yet" note', () => {
+    expect(ROLE_GUIDE.proposer.upcoming).toBeUndefined();
+    expect(ROLE_GUIDE.administrator.upcoming).toBeUndefined();
+  });
+});

@@ -1,0 +1,34 @@
+import type { ProposalMember } from '@spincycle/shared/proposals/proposal-schemas';
+
+/**
+ * A caution given with a team change that went through: the PI may go ahead, and the
+ * facility's own rules decide what follows. (Kept beside the team service until the shared
+ * proposal contract takes it; the client mirrors it in its team folder.)
+ */
+export interface TeamWarning {
+  code: 'reviewer_conflict';
+  message: string;
+}
+
+/** POST /api/proposals/:id/members answers the team row with the cautions that apply to it. */
+export interface InvitedMember extends ProposalMember {
+  warnings: TeamWarning[];
+}
+
+/**
+ * Why: a reviewer on a proposing team cannot grade that proposal, and the facility may need to
+ * change its panels; the PI should know before the person joins. Spincycle does not forbid it:
+ * whether a reviewer may also propose in a cycle is for the facility's own rules.
+ *
+ * Reviewers are not yet assigned to the panels of a cycle, so anyone holding the reviewer role
+ * counts as a reviewer of the proposal's cycle.
+ */
+export function reviewerConflictWarning(email: string, cycleCode: string): TeamWarning {
+  return {
+    code: 'reviewer_conflict',
+    message:
+      `${email} is a reviewer in Spincycle. On this team they would have a conflict of interest in the review of cycle ${cycleCode}: ` +
+      `they could not grade this proposal, and the facility may have to change its panels. The invitation has been sent; ` +
+      `whether a reviewer may also propose in the same cycle is for the facility's own rules, so check them before they join.`,
+  };
+}
