@@ -18,7 +18,10 @@ export default tseslint.config(
     languageOptions: { globals: { ...globals.node } },
     rules: {
       // Unused names are errors, except the `_name` convention for a deliberately unused one.
-      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_', destructuredArrayIgnorePattern: '^_', caughtErrors: 'none' }],
+      '@typescript-eslint/no-unused-vars': [
+        'error',
+        { argsIgnorePattern: '^_', varsIgnorePattern: '^_', destructuredArrayIgnorePattern: '^_', caughtErrors: 'none' },
+      ],
     },
   },
   {

@@ -34,7 +34,10 @@ module.exports = {
       testEnvironment: 'jsdom',
       moduleNameMapper: { '^@spincycle/shared/(.*)$': '<rootDir>/shared/src/$1' },
       transform: {
-        '^.+\\.(ts|js|mjs|html|svg)$': ['jest-preset-angular', { tsconfig: '<rootDir>/client/tsconfig.spec.json', stringifyContentPathRegex: '\\.(html|svg)$' }],
+        '^.+\\.(ts|js|mjs|html|svg)$': [
+          'jest-preset-angular',
+          { tsconfig: '<rootDir>/client/tsconfig.spec.json', stringifyContentPathRegex: '\\.(html|svg)$' },
+        ],
       },
       transformIgnorePatterns: ['node_modules/(?!.*\\.mjs$)'],
     },

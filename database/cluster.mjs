@@ -118,12 +118,16 @@ export function ensureCluster(binDir, paths, settings, log = console.log) {
   writeFileSync(pwfile, `${settings.password}\n`, { mode: 0o600 });
   if (isRoot) execFileSync('chown', ['postgres:postgres', pwfile]);
   const result = runAsOwner(join(binDir, 'initdb'), [
-    '-D', paths.data,
-    '-U', settings.user,
-    '--pwfile', pwfile,
+    '-D',
+    paths.data,
+    '-U',
+    settings.user,
+    '--pwfile',
+    pwfile,
     '--auth-local=trust',
     '--auth-host=scram-sha-256',
-    '-E', 'UTF8',
+    '-E',
+    'UTF8',
     '--locale=C.UTF-8',
   ]);
   rmSync(pwfile);
@@ -170,7 +174,20 @@ export function fsyncSetting(binDir, settings) {
 }
 
 function psql(binDir, settings, sql, database = 'postgres') {
-  const args = ['-h', settings.host, '-p', String(settings.port), '-U', settings.user, '-d', database, '-v', 'ON_ERROR_STOP=1', '-qAtc', sql];
+  const args = [
+    '-h',
+    settings.host,
+    '-p',
+    String(settings.port),
+    '-U',
+    settings.user,
+    '-d',
+    database,
+    '-v',
+    'ON_ERROR_STOP=1',
+    '-qAtc',
+    sql,
+  ];
   return spawnSync(join(binDir, 'psql'), args, { encoding: 'utf8', env: { ...process.env, PGPASSWORD: settings.password } });
 }
 
@@ -225,7 +242,9 @@ export function bringUpCluster({ log = console.log, profile = 'dev', lease } = {
     }
   }
   if (started && lease) writeFileSync(startedMarker(paths), `${lease}\n`);
-  log(`PostgreSQL (${profile}${fast ? ', fsync off' : ''}) ${started ? 'started' : 'already running'} on ${settings.host}:${settings.port} (${paths.data})`);
+  log(
+    `PostgreSQL (${profile}${fast ? ', fsync off' : ''}) ${started ? 'started' : 'already running'} on ${settings.host}:${settings.port} (${paths.data})`,
+  );
   return {
     binDir,
     paths,

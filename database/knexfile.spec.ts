@@ -23,7 +23,14 @@ describe('knexfile', () => {
   });
 
   it('knexConfig takes its connection and pool size from the configuration (PG_POOL_MAX)', () => {
-    const c = knexConfig('other_db', { PGHOST: 'db.example', PGPORT: 6543, PGUSER: 'u', PGPASSWORD: 'p', PGDATABASE: 'ignored', PG_POOL_MAX: 3 });
+    const c = knexConfig('other_db', {
+      PGHOST: 'db.example',
+      PGPORT: 6543,
+      PGUSER: 'u',
+      PGPASSWORD: 'p',
+      PGDATABASE: 'ignored',
+      PG_POOL_MAX: 3,
+    });
     expect(c.connection).toMatchObject({ host: 'db.example', port: 6543, user: 'u', password: 'p', database: 'other_db' });
     expect(c.pool).toMatchObject({ max: 3 });
     expect(c.migrations).toMatchObject({ tableName: 'knex_migrations' });

@@ -39,7 +39,9 @@ if (require.main === module) {
   const mode = flag === '--seed' ? 'always' : flag === '--seed-if-empty' ? 'if-empty' : 'never';
   setUpDatabase(database, mode)
     .then(({ migrated, seeded }) => {
-      console.log(`database ${database}: ${migrated.length ? `applied ${migrated.length} migration(s)` : 'schema up to date'}${seeded ? ', demo data loaded' : ''}`);
+      console.log(
+        `database ${database}: ${migrated.length ? `applied ${migrated.length} migration(s)` : 'schema up to date'}${seeded ? ', demo data loaded' : ''}`,
+      );
     })
     .catch((err) => {
       console.error(`database ${database}: ${err.message}`);

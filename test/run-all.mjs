@@ -12,7 +12,15 @@ import { join } from 'node:path';
 import { bringUpCluster, clusterEnv } from '../database/cluster.mjs';
 import { ensureDebianPackages, fileExists, pythonModule } from '../server/scripts/debian-packages.mjs';
 import { stopChild } from '../server/scripts/processes.cjs';
-import { ensureClientBuild, ensureDependencies, projectDir, runCommand, runningCommands, setUpDatabase, step } from '../server/scripts/setup.mjs';
+import {
+  ensureClientBuild,
+  ensureDependencies,
+  projectDir,
+  runCommand,
+  runningCommands,
+  setUpDatabase,
+  step,
+} from '../server/scripts/setup.mjs';
 
 const TEST_DB = process.env.SPINCYCLE_TEST_DB ?? 'spincycle_test';
 const E2E_DB = process.env.SPINCYCLE_E2E_DB ?? 'spincycle_e2e';
@@ -154,6 +162,7 @@ async function main() {
     await typeCheck('types: client app', 'client/tsconfig.app.json');
     await typeCheck('types: client tests', 'client/tsconfig.spec.json');
     await lint('lint: ESLint', 'eslint', ['--max-warnings', '0', '.']);
+    await lint('format: Prettier', 'prettier', ['--check', '--log-level', 'warn', '.']);
     await jestSuite('shared');
     await jestSuite('reference');
     await jestSuite('server');
@@ -170,7 +179,9 @@ async function main() {
   console.log('\n══ Summary');
   for (const r of rows) {
     const mark = r.failed ? '✗' : '✓';
-    console.log(`${mark} ${r.suite.padEnd(w)}  ${String(r.passed).padStart(5)} passed  ${String(r.failed).padStart(3)} failed  ${r.seconds.toFixed(1).padStart(6)} s${r.note ? `  (${r.note})` : ''}`);
+    console.log(
+      `${mark} ${r.suite.padEnd(w)}  ${String(r.passed).padStart(5)} passed  ${String(r.failed).padStart(3)} failed  ${r.seconds.toFixed(1).padStart(6)} s${r.note ? `  (${r.note})` : ''}`,
+    );
   }
   console.log(`total time ${((performance.now() - t0) / 1000).toFixed(0)} s`);
   console.log(`${passed} passed, ${failed} failed`);

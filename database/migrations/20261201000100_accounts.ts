@@ -23,7 +23,9 @@ export async function up(knex: Knex): Promise<void> {
     t.timestamp('granted_at', { useTz: true }).notNullable().defaultTo(knex.fn.now());
     t.primary(['account_id', 'role']);
   });
-  await knex.raw(`ALTER TABLE account_roles ADD CONSTRAINT account_roles_role_check CHECK (role IN (${ROLES.map((r) => `'${r}'`).join(', ')}))`);
+  await knex.raw(
+    `ALTER TABLE account_roles ADD CONSTRAINT account_roles_role_check CHECK (role IN (${ROLES.map((r) => `'${r}'`).join(', ')}))`,
+  );
 
   await knex.schema.createTable('password_reset_tokens', (t) => {
     t.increments('id').primary();

@@ -61,7 +61,9 @@ export async function up(knex: Knex): Promise<void> {
     t.check('accepted_at IS NULL OR account_id IS NOT NULL', [], 'proposal_members_accepted_check');
   });
   await knex.raw('CREATE UNIQUE INDEX proposal_members_email_unique ON proposal_members (proposal_id, lower(email))');
-  await knex.raw('CREATE UNIQUE INDEX proposal_members_account_unique ON proposal_members (proposal_id, account_id) WHERE account_id IS NOT NULL');
+  await knex.raw(
+    'CREATE UNIQUE INDEX proposal_members_account_unique ON proposal_members (proposal_id, account_id) WHERE account_id IS NOT NULL',
+  );
   await knex.raw("CREATE UNIQUE INDEX proposal_members_one_pi ON proposal_members (proposal_id) WHERE role = 'pi'");
 
   // Requested nodes; awards of a later issue are per (proposal, node).

@@ -27,7 +27,11 @@ import { DEMO_PASSWORD } from '../demo-accounts';
 
 /** The invented cluster: centre, age, distance modulus, reddening. Not the position of any real cluster. */
 const LANTERN = { raDeg: 163.2, decDeg: 31.6, ageMyr: 650, ageErrMyr: 60, distanceModulus: 5.0, ebv: 0.02 };
-const SECOND_PROPOSER = { email: 'rhea.tallowmere@halcyon.example', displayName: 'Rhea Tallowmere', affiliation: 'Tallowmere Rooftop Observatory' };
+const SECOND_PROPOSER = {
+  email: 'rhea.tallowmere@halcyon.example',
+  displayName: 'Rhea Tallowmere',
+  affiliation: 'Tallowmere Rooftop Observatory',
+};
 
 /** Cluster members: colours spread from late F to early M, V from the dwarf sequence's Mv at one distance. */
 function lanternMembers(count = 60): TargetValues[] {
@@ -56,7 +60,12 @@ function lanternMembers(count = 60): TargetValues[] {
       // The reddest member: a fast-rotating M dwarf whose period no relation gives at this age.
       periodDays: i === count - 1 ? 0.87 : null,
       periodUncertaintyDays: i === count - 1 ? 0.05 : null,
-      notes: i === count - 1 ? 'fast-rotating M dwarf; expected period from a survey light curve' : i % 15 === 0 ? 'photometric binary candidate' : '',
+      notes:
+        i === count - 1
+          ? 'fast-rotating M dwarf; expected period from a survey light curve'
+          : i % 15 === 0
+            ? 'photometric binary candidate'
+            : '',
     };
   });
 }
@@ -154,10 +163,14 @@ export async function seed(db: Knex): Promise<void> {
 }
 
 async function seedProposals(knex: Knex): Promise<void> {
-  await knex.raw('TRUNCATE plan_runs, target_plans, targets, proposal_files, proposal_nodes, proposal_members, proposals RESTART IDENTITY CASCADE');
+  await knex.raw(
+    'TRUNCATE plan_runs, target_plans, targets, proposal_files, proposal_nodes, proposal_members, proposals RESTART IDENTITY CASCADE',
+  );
   const cycle = await knex('cycles').orderBy('call_opens_at', 'desc').first();
   if (!cycle) throw new Error('02-proposals needs the open cycle of 01-demo');
-  const nodeId: Record<string, number> = Object.fromEntries((await knex('nodes').select('id', 'code')).map((n: { id: number; code: string }) => [n.code, n.id]));
+  const nodeId: Record<string, number> = Object.fromEntries(
+    (await knex('nodes').select('id', 'code')).map((n: { id: number; code: string }) => [n.code, n.id]),
+  );
   const rheaId =
     (await findAccountByEmail(knex, SECOND_PROPOSER.email))?.id ??
     (await insertAccount(knex, { ...SECOND_PROPOSER, passwordHash: await hashPassword(DEMO_PASSWORD), roles: ['proposer'] }));
@@ -175,11 +188,25 @@ async function seedProposals(knex: Knex): Promise<void> {
     completeness?: number;
   }): Promise<number> => {
     const [{ id }] = await knex('proposals')
-      .insert({ cycle_id: cycle.id, pi_account_id: input.pi.id, title: input.title, abstract: input.abstract, category: input.category, completeness: input.completeness })
+      .insert({
+        cycle_id: cycle.id,
+        pi_account_id: input.pi.id,
+        title: input.title,
+        abstract: input.abstract,
+        category: input.category,
+        completeness: input.completeness,
+      })
       .returning('id');
     await insertPiMember(knex, id, input.pi);
     for (const c of input.coInvestigators ?? []) {
-      await knex('proposal_members').insert({ proposal_id: id, account_id: c.id, email: c.email, role: 'coi', invited_by: input.pi.id, accepted_at: knex.fn.now() });
+      await knex('proposal_members').insert({
+        proposal_id: id,
+        account_id: c.id,
+        email: c.email,
+        role: 'coi',
+        invited_by: input.pi.id,
+        accepted_at: knex.fn.now(),
+      });
     }
     await knex('proposal_nodes').insert(input.nodes.map((code) => ({ proposal_id: id, node_id: nodeId[code] })));
     await insertTargets(knex, id, input.targets, 0);

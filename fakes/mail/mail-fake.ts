@@ -35,7 +35,10 @@ const LOOPBACK = new Set(['127.0.0.1', '::1']);
 
 /** Headers of every mailbox answer: no scripts, no framing, no referer (reset links carry tokens), no caching. */
 function securityHeaders(res: ServerResponse): void {
-  res.setHeader('Content-Security-Policy', "default-src 'none'; style-src 'unsafe-inline'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'");
+  res.setHeader(
+    'Content-Security-Policy',
+    "default-src 'none'; style-src 'unsafe-inline'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'",
+  );
   res.setHeader('Referrer-Policy', 'no-referrer');
   res.setHeader('X-Content-Type-Options', 'nosniff');
   res.setHeader('Cache-Control', 'no-store');
@@ -85,7 +88,11 @@ export async function startMailFake(
             subject: parsed.subject ?? '',
             text: parsed.text ?? '',
             html: typeof parsed.html === 'string' ? parsed.html : null,
-            attachments: parsed.attachments.map((a) => ({ filename: a.filename ?? 'attachment', contentType: a.contentType, size: a.size })),
+            attachments: parsed.attachments.map((a) => ({
+              filename: a.filename ?? 'attachment',
+              contentType: a.contentType,
+              size: a.size,
+            })),
           };
           messages.push(message);
           if (messages.length > MAX_KEPT) messages.shift();
@@ -144,7 +151,8 @@ export async function startMailFake(
   return {
     smtpPort,
     httpPort,
-    mailboxUrl: httpPort === null ? null : `http://${host.includes(':') ? `[${host}]` : host}:${httpPort}/?token=${encodeURIComponent(token)}`,
+    mailboxUrl:
+      httpPort === null ? null : `http://${host.includes(':') ? `[${host}]` : host}:${httpPort}/?token=${encodeURIComponent(token)}`,
     messages: () => [...messages],
     waitFor(match, timeoutMs = 5000) {
       const found = messages.find(match);

@@ -19,7 +19,9 @@ describe('launcher readiness checks (server/scripts/processes.cjs)', () => {
     const other = await serverAnswering(200, 'hello');
     try {
       await expect(assertPortFree(other.port, { what: 'the web server', envName: 'PORT' })).rejects.toThrow(
-        new RegExp(`port ${other.port} on 127\\.0\\.0\\.1 \\(the web server\\) is already in use.*ss -ltnp 'sport = :${other.port}'.*PORT=<port>`),
+        new RegExp(
+          `port ${other.port} on 127\\.0\\.0\\.1 \\(the web server\\) is already in use.*ss -ltnp 'sport = :${other.port}'.*PORT=<port>`,
+        ),
       );
     } finally {
       await other.close();
@@ -53,7 +55,9 @@ describe('launcher readiness checks (server/scripts/processes.cjs)', () => {
   it('accepts our own server once it answers 200 with our instance id, and waits while it is degraded', async () => {
     const own = await serverAnswering(200, JSON.stringify({ status: 'ok', database: 'reachable', instanceId: 'ours' }));
     try {
-      await expect(waitForOwnServer(`http://127.0.0.1:${own.port}/api/health`, 'ours', { timeoutMs: 5000 })).resolves.toMatchObject({ instanceId: 'ours' });
+      await expect(waitForOwnServer(`http://127.0.0.1:${own.port}/api/health`, 'ours', { timeoutMs: 5000 })).resolves.toMatchObject({
+        instanceId: 'ours',
+      });
     } finally {
       await own.close();
     }
@@ -76,13 +80,22 @@ describe('launcher readiness checks (server/scripts/processes.cjs)', () => {
   });
 
   it('takes a ready message only with our instance id, and stops a child with SIGTERM', async () => {
-    const script = "process.send({ type: 'ready', instanceId: process.env.ID }); process.on('SIGTERM', () => process.exit(0)); setInterval(() => {}, 1000);";
-    const ours = spawn(process.execPath, ['-e', script], { env: { ...process.env, ID: 'w1' }, stdio: ['ignore', 'ignore', 'inherit', 'ipc'] });
+    const script =
+      "process.send({ type: 'ready', instanceId: process.env.ID }); process.on('SIGTERM', () => process.exit(0)); setInterval(() => {}, 1000);";
+    const ours = spawn(process.execPath, ['-e', script], {
+      env: { ...process.env, ID: 'w1' },
+      stdio: ['ignore', 'ignore', 'inherit', 'ipc'],
+    });
     await expect(waitForReadyMessage(ours, 'w1', { timeoutMs: 10_000 })).resolves.toMatchObject({ instanceId: 'w1' });
     await expect(stopChild(ours, { graceMs: 5000 })).resolves.toBe(true);
 
-    const other = spawn(process.execPath, ['-e', script], { env: { ...process.env, ID: 'w2' }, stdio: ['ignore', 'ignore', 'inherit', 'ipc'] });
-    await expect(waitForReadyMessage(other, 'w1', { timeoutMs: 10_000, name: 'worker' })).rejects.toThrow(/worker reported instance w2, expected w1/);
+    const other = spawn(process.execPath, ['-e', script], {
+      env: { ...process.env, ID: 'w2' },
+      stdio: ['ignore', 'ignore', 'inherit', 'ipc'],
+    });
+    await expect(waitForReadyMessage(other, 'w1', { timeoutMs: 10_000, name: 'worker' })).rejects.toThrow(
+      /worker reported instance w2, expected w1/,
+    );
     await stopChild(other, { graceMs: 5000 });
   });
 });

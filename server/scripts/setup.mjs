@@ -131,7 +131,8 @@ export function startTs(entry, env, { name, quiet = false, ipc = false, onExit }
 export async function waitForHttp(url, timeoutMs = 30_000, child) {
   const until = Date.now() + timeoutMs;
   while (Date.now() < until) {
-    if (child && (child.exitCode !== null || child.signalCode !== null)) throw new Error(`${child.name} exited with ${child.signalCode ?? `code ${child.exitCode}`}`);
+    if (child && (child.exitCode !== null || child.signalCode !== null))
+      throw new Error(`${child.name} exited with ${child.signalCode ?? `code ${child.exitCode}`}`);
     try {
       await fetch(url);
       return;
@@ -145,4 +146,3 @@ export async function waitForHttp(url, timeoutMs = 30_000, child) {
 export function readDemoAccounts() {
   return JSON.parse(readFileSync(join(projectDir, 'database', 'demo-accounts.json'), 'utf8'));
 }
-

@@ -6,7 +6,16 @@
 import { randomBytes, randomUUID } from 'node:crypto';
 import { bringUpCluster, clusterEnv } from '../../database/cluster.mjs';
 import { assertPortFree, stopChild, waitForOwnServer, waitForReadyMessage } from './processes.cjs';
-import { ensureClientBuild, ensureDependencies, readDemoAccounts, runningCommands, setUpDatabase, startTs, step, waitForHttp } from './setup.mjs';
+import {
+  ensureClientBuild,
+  ensureDependencies,
+  readDemoAccounts,
+  runningCommands,
+  setUpDatabase,
+  startTs,
+  step,
+  waitForHttp,
+} from './setup.mjs';
 
 const env = {
   PORT: process.env.PORT ?? '4300',
@@ -51,7 +60,8 @@ async function stopAll(code = 0) {
   console.log('\nstopping Spincycle…');
   for (const c of runningCommands) stopChild(c, { group: true, graceMs: 5000 });
   const running = children.filter((c) => c.exitCode === null && c.signalCode === null);
-  if (running.some((c) => c.name === 'plan worker')) console.log('  the plan worker finishes its running job first (Ctrl-C again to stop at once)');
+  if (running.some((c) => c.name === 'plan worker'))
+    console.log('  the plan worker finishes its running job first (Ctrl-C again to stop at once)');
   await Promise.all(running.map((c) => stopChild(c, { graceMs: GRACE_MS[c.name] ?? DEFAULT_GRACE_MS })));
   while (runningCommands.size) await new Promise((r) => setTimeout(r, 100));
   if (cluster?.started) {

@@ -57,7 +57,11 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
     max: 5,
   });
   const PgStore = connectPgSimple(session);
-  const store = new PgStore({ pool: sessionPool, tableName: 'sessions', pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60 });
+  const store = new PgStore({
+    pool: sessionPool,
+    tableName: 'sessions',
+    pruneSessionInterval: config.NODE_ENV === 'test' ? false : 15 * 60,
+  });
   storeSignedInSessionsOnly(store, ctx.now);
   throttleSessionTouch(store, config.SESSION_TOUCH_SECONDS * 1000, ctx.now);
 

@@ -34,7 +34,10 @@ describe('loadConfig: settings of the database, password hashing and instance id
 
   it('loadSettings parses the same schema without requiring the web server’s SESSION_SECRET', () => {
     expect(() => loadConfig({ NODE_ENV: 'production' })).toThrow(/SESSION_SECRET/);
-    expect(loadSettings({ NODE_ENV: 'production', PG_POOL_MAX: '2' }, { PGDATABASE: 'x' })).toMatchObject({ PG_POOL_MAX: 2, PGDATABASE: 'x' });
+    expect(loadSettings({ NODE_ENV: 'production', PG_POOL_MAX: '2' }, { PGDATABASE: 'x' })).toMatchObject({
+      PG_POOL_MAX: 2,
+      PGDATABASE: 'x',
+    });
     expect(() => loadSettings({ SCRYPT_LOG_N: '30' })).toThrow(/SCRYPT_LOG_N/);
   });
 });

@@ -14,7 +14,10 @@ const trustProxySchema = z
   .transform((v, ctx): false | number | string[] => {
     if (v === undefined || v === '' || /^(false|off|no|0)$/i.test(v)) return false;
     if (/^\d+$/.test(v)) return Number(v);
-    const entries = v.split(',').map((e) => e.trim()).filter(Boolean);
+    const entries = v
+      .split(',')
+      .map((e) => e.trim())
+      .filter(Boolean);
     const bad = entries.filter((e) => !['loopback', 'linklocal', 'uniquelocal'].includes(e) && !isIP(e.replace(/\/\d+$/, '')));
     if (bad.length || !entries.length) {
       ctx.addIssue({
@@ -62,7 +65,10 @@ const envSchema = z.object({
   LOGIN_RATE_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   RESET_TOKEN_MINUTES: z.coerce.number().int().positive().default(60),
   /** pg-boss queue of the target-plan jobs (tests use their own name to keep their jobs apart). */
-  PLAN_QUEUE: z.string().regex(/^[A-Za-z0-9_.-]+$/).default('proposal-plans'),
+  PLAN_QUEUE: z
+    .string()
+    .regex(/^[A-Za-z0-9_.-]+$/)
+    .default('proposal-plans'),
   /** How often an idle plan worker looks for new jobs, seconds. */
   PLAN_WORKER_POLL_SECONDS: z.coerce.number().min(0.5).max(60).default(1),
   /**
@@ -76,7 +82,10 @@ const envSchema = z.object({
    */
   SPINCYCLE_INSTANCE_ID: z.preprocess(
     (v) => (v === '' ? undefined : v),
-    z.string().regex(/^[A-Za-z0-9_.:-]{1,128}$/, 'expected 1 to 128 letters, digits, or _ . : -').optional(),
+    z
+      .string()
+      .regex(/^[A-Za-z0-9_.:-]{1,128}$/, 'expected 1 to 128 letters, digits, or _ . : -')
+      .optional(),
   ),
 });
 

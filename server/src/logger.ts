@@ -10,7 +10,10 @@ export function createLogger(config: Pick<Config, 'LOG_LEVEL'>, destination?: De
   const options = {
     level: config.LOG_LEVEL,
     base: { service: 'spincycle' },
-    redact: { paths: ['req.headers.cookie', 'req.headers["x-xsrf-token"]', 'res.headers["set-cookie"]', '*.password', '*.token'], censor: '[redacted]' },
+    redact: {
+      paths: ['req.headers.cookie', 'req.headers["x-xsrf-token"]', 'res.headers["set-cookie"]', '*.password', '*.token'],
+      censor: '[redacted]',
+    },
   };
   return destination ? pino(options, destination) : pino(options);
 }

@@ -9,7 +9,10 @@ const server = app.listen(config.PORT, config.HOST, () => {
   logger.info({ url: config.publicUrl, instanceId }, `Spincycle listening on http://${config.HOST}:${config.PORT}`);
 });
 server.on('error', (err: NodeJS.ErrnoException) => {
-  const hint = err.code === 'EADDRINUSE' ? `: port ${config.PORT} is in use (find the process with \`ss -ltnp 'sport = :${config.PORT}'\`, or set PORT)` : '';
+  const hint =
+    err.code === 'EADDRINUSE'
+      ? `: port ${config.PORT} is in use (find the process with \`ss -ltnp 'sport = :${config.PORT}'\`, or set PORT)`
+      : '';
   logger.fatal({ err }, `could not listen on ${config.HOST}:${config.PORT}${hint}`);
   process.exit(1);
 });

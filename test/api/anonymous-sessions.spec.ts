@@ -11,7 +11,11 @@ afterAll(() => h.close());
 
 /** Rows of sessions without a signed-in account (what signed-out visitors used to leave behind). */
 async function anonymousRows(): Promise<number> {
-  const row = await h.created.ctx.db('sessions').whereRaw("(sess -> 'passport' ->> 'user') is null").count<{ count: string }[]>({ count: '*' }).first();
+  const row = await h.created.ctx
+    .db('sessions')
+    .whereRaw("(sess -> 'passport' ->> 'user') is null")
+    .count<{ count: string }[]>({ count: '*' })
+    .first();
   return Number(row!.count);
 }
 
@@ -19,7 +23,11 @@ async function anonymousRows(): Promise<number> {
 function sessionIdOf(res: request.Response): string | undefined {
   const cookies = ([] as string[]).concat(res.headers['set-cookie'] ?? []);
   const sid = cookies.find((c) => c.startsWith('spincycle.sid='));
-  return sid ? decodeURIComponent(sid.split(';')[0].slice('spincycle.sid='.length)).replace(/^s:/, '').replace(/\.[^.]*$/, '') : undefined;
+  return sid
+    ? decodeURIComponent(sid.split(';')[0].slice('spincycle.sid='.length))
+        .replace(/^s:/, '')
+        .replace(/\.[^.]*$/, '')
+    : undefined;
 }
 
 async function storedSession(sid: string) {
@@ -81,7 +89,11 @@ describe('CSRF protection', () => {
     const other = await new Browser(h).ready();
     expect((await b.agent.post('/api/auth/sign-in').set('X-XSRF-TOKEN', other.xsrf()!).send(body)).status).toBe(403);
     const forged = 'AAAAAAAAAAAAAAAAAAAAAAAA.BBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBBB';
-    const planted = await request(h.created.app).post('/api/auth/sign-in').set('Cookie', `XSRF-TOKEN=${forged}`).set('X-XSRF-TOKEN', forged).send(body);
+    const planted = await request(h.created.app)
+      .post('/api/auth/sign-in')
+      .set('Cookie', `XSRF-TOKEN=${forged}`)
+      .set('X-XSRF-TOKEN', forged)
+      .send(body);
     expect(planted.status).toBe(403);
     for (const path of ['/api/auth/sign-up', '/api/auth/password-reset', '/api/auth/password-reset/confirm']) {
       expect((await b.agent.post(path).send({})).status).toBe(403);
@@ -97,7 +109,10 @@ describe('CSRF protection', () => {
     const missing = await b.agent.post('/api/auth/sign-out');
     expect(missing.status).toBe(403);
     expect(missing.body.code).toBe('csrf_failed');
-    const stale = await b.agent.post('/api/auth/sign-out').set('Cookie', `XSRF-TOKEN=${signedOutToken}`).set('X-XSRF-TOKEN', signedOutToken);
+    const stale = await b.agent
+      .post('/api/auth/sign-out')
+      .set('Cookie', `XSRF-TOKEN=${signedOutToken}`)
+      .set('X-XSRF-TOKEN', signedOutToken);
     expect(stale.status).toBe(403);
     expect((await b.post('/api/auth/sign-out')).status).toBe(204);
   });
@@ -110,7 +125,10 @@ describe('absolute session lifetime', () => {
     const res = await b.post('/api/auth/sign-in', { email: a.email, password: TEST_PASSWORD });
     const sid = sessionIdOf(res)!;
     const createdAt = Date.now() - hoursAgo * 3600_000;
-    await h.created.ctx.db.raw(`update sessions set sess = jsonb_set(sess::jsonb, '{createdAt}', to_jsonb(?::bigint))::json where sid = ?`, [createdAt, sid]);
+    await h.created.ctx.db.raw(
+      `update sessions set sess = jsonb_set(sess::jsonb, '{createdAt}', to_jsonb(?::bigint))::json where sid = ?`,
+      [createdAt, sid],
+    );
     return { a, b, sid };
   }
 

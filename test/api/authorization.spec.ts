@@ -1,6 +1,16 @@
 import { ROLES, type Role } from '@spincycle/shared/accounts/roles';
 import { Browser, createAccount, signedIn, startHarness, TEST_PASSWORD, type Harness } from '../support/api-harness';
-import { createTestNetwork, CSV_HEADER, csvLine, makeReady, proposerWithDraft, target, tinyPdf, uploadFile, type TestNetwork } from './support/proposal-kit';
+import {
+  createTestNetwork,
+  CSV_HEADER,
+  csvLine,
+  makeReady,
+  proposerWithDraft,
+  target,
+  tinyPdf,
+  uploadFile,
+  type TestNetwork,
+} from './support/proposal-kit';
 
 /**
  * The authorization matrix: every route of server/src/features/**\/*-routes.ts, called signed
@@ -106,9 +116,19 @@ const ROUTES: RouteCase[] = [
     name: 'POST /api/auth/sign-up',
     access: 'public',
     ok: 202,
-    call: (b) => b.post('/api/auth/sign-up', { email: `matrix-${Date.now()}-${uploads++}@test.example`, password: 'quiet harbour lantern 42', displayName: 'Matrix Tester' }),
+    call: (b) =>
+      b.post('/api/auth/sign-up', {
+        email: `matrix-${Date.now()}-${uploads++}@test.example`,
+        password: 'quiet harbour lantern 42',
+        displayName: 'Matrix Tester',
+      }),
   },
-  { name: 'POST /api/auth/password-reset', access: 'public', ok: 202, call: (b) => b.post('/api/auth/password-reset', { email: 'nobody-matrix@test.example' }) },
+  {
+    name: 'POST /api/auth/password-reset',
+    access: 'public',
+    ok: 202,
+    call: (b) => b.post('/api/auth/password-reset', { email: 'nobody-matrix@test.example' }),
+  },
   {
     name: 'POST /api/auth/password-reset/confirm',
     access: 'public',
@@ -123,7 +143,12 @@ const ROUTES: RouteCase[] = [
     name: 'POST /api/sky-windows',
     access: 'signed-in',
     ok: 200,
-    call: (b) => b.post('/api/sky-windows', { cycleId: net.cycleId, nodeIds: [net.nodeIds[0]], targets: [{ name: 'Star W-1', ra: 163.2, dec: 31.6 }] }),
+    call: (b) =>
+      b.post('/api/sky-windows', {
+        cycleId: net.cycleId,
+        nodeIds: [net.nodeIds[0]],
+        targets: [{ name: 'Star W-1', ra: 163.2, dec: 31.6 }],
+      }),
   },
   // account-routes.ts: administrators only.
   { name: 'GET /api/admin/accounts', access: ['administrator'], ok: 200, call: (b) => b.get('/api/admin/accounts') },
@@ -170,11 +195,26 @@ const ROUTES: RouteCase[] = [
     },
   },
   // The proposals submitted to a cycle, with the pressure per node: facility managers only.
-  { name: 'GET /api/cycles/:id/proposals', access: ['facility_manager'], ok: 200, call: (b) => b.get(`/api/cycles/${net.cycleId}/proposals`) },
+  {
+    name: 'GET /api/cycles/:id/proposals',
+    access: ['facility_manager'],
+    ok: 200,
+    call: (b) => b.get(`/api/cycles/${net.cycleId}/proposals`),
+  },
   // proposal-routes.ts outside /:id
   { name: 'GET /api/proposals', access: 'signed-in', ok: 200, call: (b) => b.get('/api/proposals') },
-  { name: 'POST /api/proposals', access: ['proposer'], ok: 201, call: (b) => b.post('/api/proposals', { cycleId: net.cycleId, title: 'Matrix proposal' }) },
-  { name: 'POST /api/invitations/accept', access: 'signed-in', ok: 200, call: async (b) => b.post('/api/invitations/accept', { token: await invitationToken() }) },
+  {
+    name: 'POST /api/proposals',
+    access: ['proposer'],
+    ok: 201,
+    call: (b) => b.post('/api/proposals', { cycleId: net.cycleId, title: 'Matrix proposal' }),
+  },
+  {
+    name: 'POST /api/invitations/accept',
+    access: 'signed-in',
+    ok: 200,
+    call: async (b) => b.post('/api/invitations/accept', { token: await invitationToken() }),
+  },
   { name: 'GET /api/target-lists/example.csv', access: 'signed-in', ok: 200, call: (b) => b.get('/api/target-lists/example.csv') },
 ];
 
@@ -188,9 +228,24 @@ const PROPOSAL_ROUTES: ProposalRouteCase[] = [
     call: async (b, f) => b.patch(base(f), { version: (await f.pi.get(base(f))).body.version, title: `Edited ${uploads++}` }),
   },
   { name: 'DELETE /:id', who: 'pi', ok: 204, call: (b, f) => b.delete(base(f)) },
-  { name: 'POST /:id/members', who: 'pi', ok: 201, call: (b, f) => b.post(`${base(f)}/members`, { email: `matrix-invitee-${uploads++}@test.example` }) },
-  { name: 'DELETE /:id/members/:memberId', who: 'pi', ok: 204, call: (b, f) => b.delete(`${base(f)}/members/${f.cois.get('proposer')!.memberId}`) },
-  { name: 'PUT /:id/justification', who: 'team', ok: 200, call: (b, f) => uploadFile(b, 'put', `${base(f)}/justification`, tinyPdf(), 'j.pdf') },
+  {
+    name: 'POST /:id/members',
+    who: 'pi',
+    ok: 201,
+    call: (b, f) => b.post(`${base(f)}/members`, { email: `matrix-invitee-${uploads++}@test.example` }),
+  },
+  {
+    name: 'DELETE /:id/members/:memberId',
+    who: 'pi',
+    ok: 204,
+    call: (b, f) => b.delete(`${base(f)}/members/${f.cois.get('proposer')!.memberId}`),
+  },
+  {
+    name: 'PUT /:id/justification',
+    who: 'team',
+    ok: 200,
+    call: (b, f) => uploadFile(b, 'put', `${base(f)}/justification`, tinyPdf(), 'j.pdf'),
+  },
   { name: 'GET /:id/justification', who: 'team', ok: 200, call: (b, f) => b.get(`${base(f)}/justification`) },
   { name: 'GET /:id/targets', who: 'team', ok: 200, call: (b, f) => b.get(`${base(f)}/targets`) },
   { name: 'POST /:id/targets', who: 'team', ok: 201, call: (b, f) => b.post(`${base(f)}/targets`, target()) },
@@ -198,7 +253,8 @@ const PROPOSAL_ROUTES: ProposalRouteCase[] = [
     name: 'POST /:id/targets/upload',
     who: 'team',
     ok: 200,
-    call: (b, f) => uploadFile(b, 'post', `${base(f)}/targets/upload?mode=append`, [CSV_HEADER, csvLine(`Star AZ-${++uploads}`)].join('\n'), 't.csv'),
+    call: (b, f) =>
+      uploadFile(b, 'post', `${base(f)}/targets/upload?mode=append`, [CSV_HEADER, csvLine(`Star AZ-${++uploads}`)].join('\n'), 't.csv'),
   },
   { name: 'GET /:id/targets.csv', who: 'team', ok: 200, call: (b, f) => b.get(`${base(f)}/targets.csv`) },
   {
@@ -219,8 +275,18 @@ const PROPOSAL_ROUTES: ProposalRouteCase[] = [
       return b.delete(`${base(f)}/targets/${added.body.id}`);
     },
   },
-  { name: 'GET /:id/targets/:targetId/sky', who: 'team', ok: 200, call: (b, f) => b.get(`${base(f)}/targets/${f.targetId}/sky?nodeId=${f.nodeId}`) },
-  { name: 'GET /:id/targets/:targetId/plan', who: 'team', ok: 200, call: (b, f) => b.get(`${base(f)}/targets/${f.targetId}/plan?nodeId=${f.nodeId}`) },
+  {
+    name: 'GET /:id/targets/:targetId/sky',
+    who: 'team',
+    ok: 200,
+    call: (b, f) => b.get(`${base(f)}/targets/${f.targetId}/sky?nodeId=${f.nodeId}`),
+  },
+  {
+    name: 'GET /:id/targets/:targetId/plan',
+    who: 'team',
+    ok: 200,
+    call: (b, f) => b.get(`${base(f)}/targets/${f.targetId}/plan?nodeId=${f.nodeId}`),
+  },
   { name: 'GET /:id/plans', who: 'team', ok: 200, call: (b, f) => b.get(`${base(f)}/plans`) },
   { name: 'GET /:id/plans/status', who: 'team', ok: 200, call: (b, f) => b.get(`${base(f)}/plans/status`) },
   { name: 'GET /:id/plans/markers', who: 'team', ok: 200, call: (b, f) => b.get(`${base(f)}/plans/markers`) },
@@ -332,7 +398,8 @@ describe('coverage', () => {
     const mounts: Record<string, string> = {};
     const appSource = readFileSync(path.resolve(__dirname, '../../server/src/app.ts'), 'utf8');
     // `api` is mounted at /api; `app` mounts are absolute.
-    for (const m of appSource.matchAll(/(api|app)\.use\('([^']+)', (create\w+Routes)\(/g)) mounts[m[3]] = m[1] === 'app' ? m[2] : `/api${m[2] === '/' ? '' : m[2]}`;
+    for (const m of appSource.matchAll(/(api|app)\.use\('([^']+)', (create\w+Routes)\(/g))
+      mounts[m[3]] = m[1] === 'app' ? m[2] : `/api${m[2] === '/' ? '' : m[2]}`;
     // Every *-routes.ts under features/, sub-features (features/proposals/targets/…) included.
     const routeFiles = (readdirSync(root, { recursive: true }) as string[]).filter((f) => f.endsWith('-routes.ts'));
     // Each exported factory, with the routes registered in its body and the routers it mounts
@@ -345,7 +412,8 @@ describe('coverage', () => {
         const name = /^(create\w+Routes)/.exec(fn)?.[1];
         if (!name) continue;
         factories.set(name, fn);
-        for (const m of fn.matchAll(/router\.use\((?:'([^']*)', )?(create\w+Routes)\(/g)) parents.set(m[2], { parent: name, prefix: m[1] ?? '' });
+        for (const m of fn.matchAll(/router\.use\((?:'([^']*)', )?(create\w+Routes)\(/g))
+          parents.set(m[2], { parent: name, prefix: m[1] ?? '' });
       }
     }
     const mountOf = (name: string, depth = 0): string => {

@@ -14,7 +14,12 @@ const SECRET_SUBJECT = 'Reset link mbx-7f3a (secret)';
 async function sendTo(mail: MailFake, subject: string): Promise<void> {
   const transport = nodemailer.createTransport({ host: '127.0.0.1', port: mail.smtpPort, secure: false, ignoreTLS: true });
   try {
-    await transport.sendMail({ from: 'app@spincycle.test', to: 'someone@test.example', subject, text: 'http://spincycle.test/reset-password?token=abc' });
+    await transport.sendMail({
+      from: 'app@spincycle.test',
+      to: 'someone@test.example',
+      subject,
+      text: 'http://spincycle.test/reset-password?token=abc',
+    });
   } finally {
     transport.close();
   }
@@ -69,7 +74,14 @@ describe('the mail fake’s mailbox page', () => {
 
   it('without the token answers 403 for the page and the JSON list, and shows no mail', async () => {
     const base = `http://127.0.0.1:${fake.httpPort}`;
-    for (const path of ['/', '/api/messages', '/?to=someone@test.example', '/?token=', '/?token=not-the-token-at-all', '/api/messages?token=wrong']) {
+    for (const path of [
+      '/',
+      '/api/messages',
+      '/?to=someone@test.example',
+      '/?token=',
+      '/?token=not-the-token-at-all',
+      '/api/messages?token=wrong',
+    ]) {
       const res = await fetch(base + path);
       expect({ path, status: res.status }).toEqual({ path, status: 403 });
       expect(await res.text()).not.toContain('mbx-7f3a');

@@ -76,7 +76,10 @@ it('GET /api/health keeps answering while a maximal CSV upload and a maximal sky
   const [uploaded, windows] = await heavy;
 
   expect(uploaded.status).toBe(400);
-  expect(uploaded.body).toMatchObject({ code: 'too_many_targets', message: expect.stringContaining(`at most ${MAX_TARGETS_PER_PROPOSAL}`) });
+  expect(uploaded.body).toMatchObject({
+    code: 'too_many_targets',
+    message: expect.stringContaining(`at most ${MAX_TARGETS_PER_PROPOSAL}`),
+  });
   expect(windows.status).toBe(200);
   expect(windows.body.nodes).toHaveLength(2);
   expect(windows.body.nodes[0].report.targets).toHaveLength(SKY_WINDOWS_MAX_TARGETS);

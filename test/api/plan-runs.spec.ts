@@ -17,7 +17,18 @@ import { computeAndStoreProposalPlans, runPlanJob } from '../../server/src/featu
 import { startPlanWorker } from '../../server/src/jobs/plan-worker';
 import type { PlanQueue } from '../../server/src/jobs/plan-queue';
 import { startHarness, type Browser, type Harness } from '../support/api-harness';
-import { countRows, createTestNetwork, CSV_HEADER, csvLine, makeReady, proposerWithDraft, target, tinyPdf, uploadFile, type TestNetwork } from './support/proposal-kit';
+import {
+  countRows,
+  createTestNetwork,
+  CSV_HEADER,
+  csvLine,
+  makeReady,
+  proposerWithDraft,
+  target,
+  tinyPdf,
+  uploadFile,
+  type TestNetwork,
+} from './support/proposal-kit';
 
 type ComputeRows = (inputs: PlanInputs, onTargetDone?: (done: number) => Promise<void> | void) => Promise<PlanRowInsert[]>;
 /** When set, wraps the next computations: gets the real rows and returns what the write will get. */
@@ -39,7 +50,8 @@ jest.mock('../../server/src/features/proposals/plans/plan-service', () => {
   const actual = jest.requireActual('../../server/src/features/proposals/plans/plan-service');
   return {
     ...actual,
-    runPlanJob: (db: Knex, proposalId: number, logger: Logger) => (jobsFor && !jobsFor.has(proposalId) ? Promise.resolve() : actual.runPlanJob(db, proposalId, logger)),
+    runPlanJob: (db: Knex, proposalId: number, logger: Logger) =>
+      jobsFor && !jobsFor.has(proposalId) ? Promise.resolve() : actual.runPlanJob(db, proposalId, logger),
   };
 });
 
@@ -75,9 +87,15 @@ const plansOf = async (b: Browser, id: number): Promise<PlansBody> => {
   return res.body;
 };
 const storedPlans = (id: number) =>
-  h.created.ctx.db('target_plans').where({ proposal_id: id }).orderBy(['target_id', 'node_id']).select('target_id', 'node_id', 'inputs_hash', 'node_hours');
+  h.created.ctx
+    .db('target_plans')
+    .where({ proposal_id: id })
+    .orderBy(['target_id', 'node_id'])
+    .select('target_id', 'node_id', 'inputs_hash', 'node_hours');
 const jobsOf = async (id: number): Promise<string[]> =>
-  (await h.created.ctx.db.raw('SELECT state FROM pgboss.job WHERE name = ? AND singleton_key = ?', [QUEUE, String(id)])).rows.map((r: { state: string }) => r.state);
+  (await h.created.ctx.db.raw('SELECT state FROM pgboss.job WHERE name = ? AND singleton_key = ?', [QUEUE, String(id)])).rows.map(
+    (r: { state: string }) => r.state,
+  );
 
 describe('editing a draft after its call closed', () => {
   it('every edit route answers 409 not_editable naming the closing instant, writes nothing; reads still answer 200', async () => {
@@ -99,7 +117,10 @@ describe('editing a draft after its call closed', () => {
       ['POST target', () => pi.post(`${base}/targets`, target())],
       ['PUT target', () => pi.put(`${base}/targets/${t.id}`, { version: t.version, target: target({ magnitude: 9 }) })],
       ['DELETE target', () => pi.delete(`${base}/targets/${t.id}`)],
-      ['upload targets', () => uploadFile(pi, 'post', `${base}/targets/upload`, [CSV_HEADER, csvLine('Star LATE-1')].join('\n'), 'late.csv')],
+      [
+        'upload targets',
+        () => uploadFile(pi, 'post', `${base}/targets/upload`, [CSV_HEADER, csvLine('Star LATE-1')].join('\n'), 'late.csv'),
+      ],
       ['PUT justification', () => uploadFile(pi, 'put', `${base}/justification`, tinyPdf('late'), 'late.pdf')],
       ['POST member', () => pi.post(`${base}/members`, { email: 'late-invitee@test.example' })],
       ['recompute', () => pi.post(`${base}/plans/recompute`)],
@@ -113,7 +134,11 @@ describe('editing a draft after its call closed', () => {
     expect({ status: submit.status, code: submit.body.code }).toEqual({ status: 422, code: 'call_closed' });
 
     const after = (await pi.get(base)).body;
-    expect({ version: after.version, title: after.title, state: after.state }).toEqual({ version: before.version, title: before.title, state: 'draft' });
+    expect({ version: after.version, title: after.title, state: after.state }).toEqual({
+      version: before.version,
+      title: before.title,
+      state: 'draft',
+    });
     expect(await countRows(h, 'targets', { proposal_id: proposal.id })).toBe(targetsBefore);
     expect(await storedPlans(proposal.id)).toEqual(plansBefore);
     for (const path of ['', '/targets', '/targets.csv', '/plans', '/readiness', '/justification', '/summary.pdf']) {
@@ -137,7 +162,10 @@ describe('target inputs changing while a plan run is in progress', () => {
       afterCompute = null;
       during = await plansOf(pi, proposal.id);
       // A co-worker changes the magnitude while the plans are being computed.
-      const edit = await pi.put(`/api/proposals/${proposal.id}/targets/${t.id}`, { version: t.version, target: { ...target({ name: t.name }), magnitude: 9.5 } });
+      const edit = await pi.put(`/api/proposals/${proposal.id}/targets/${t.id}`, {
+        version: t.version,
+        target: { ...target({ name: t.name }), magnitude: 9.5 },
+      });
       expect(edit.status).toBe(200);
       return rows;
     };
@@ -163,13 +191,24 @@ describe('a plan job that fails', () => {
     const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId, 'Failing job');
     expect((await pi.patch(`/api/proposals/${proposal.id}`, { version: 1, nodeIds: net.nodeIds })).status).toBe(200);
     // 34 targets on 3 nodes: 102 rows, more than one insert statement (100 rows each).
-    const lines = Array.from({ length: 34 }, (_, i) => csvLine(`Star F-${i + 1}`, { ra: (150 + i * 0.4).toFixed(2), magnitude: (10 + (i % 5)).toFixed(1) }));
-    expect((await uploadFile(pi, 'post', `/api/proposals/${proposal.id}/targets/upload`, [CSV_HEADER, ...lines].join('\n'), 'f.csv')).status).toBe(200);
+    const lines = Array.from({ length: 34 }, (_, i) =>
+      csvLine(`Star F-${i + 1}`, { ra: (150 + i * 0.4).toFixed(2), magnitude: (10 + (i % 5)).toFixed(1) }),
+    );
+    expect(
+      (await uploadFile(pi, 'post', `/api/proposals/${proposal.id}/targets/upload`, [CSV_HEADER, ...lines].join('\n'), 'f.csv')).status,
+    ).toBe(200);
     await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
     const good = await storedPlans(proposal.id);
     expect(good).toHaveLength(102);
     const [first] = (await pi.get(`/api/proposals/${proposal.id}/targets`)).body;
-    expect((await pi.put(`/api/proposals/${proposal.id}/targets/${first.id}`, { version: first.version, target: { ...target({ name: first.name }), magnitude: 11.5 } })).status).toBe(200);
+    expect(
+      (
+        await pi.put(`/api/proposals/${proposal.id}/targets/${first.id}`, {
+          version: first.version,
+          target: { ...target({ name: first.name }), magnitude: 11.5 },
+        })
+      ).status,
+    ).toBe(200);
 
     // The last row breaks a database rule, after the first 100 rows were inserted.
     afterCompute = async (rows) => {
@@ -182,7 +221,11 @@ describe('a plan job that fails', () => {
     await expect(runPlanJob(h.created.ctx.db, proposal.id, logger)).rejects.toThrow(/target_plans_hours_check/);
 
     const body = await plansOf(pi, proposal.id);
-    expect(body.run).toMatchObject({ state: 'failed', current: false, error: expect.stringContaining('The plan computation failed unexpectedly') });
+    expect(body.run).toMatchObject({
+      state: 'failed',
+      current: false,
+      error: expect.stringContaining('The plan computation failed unexpectedly'),
+    });
     expect(body.run.finishedAt ?? null).not.toBeNull();
     expect(await storedPlans(proposal.id)).toEqual(good);
     expect(new Set(good.map((r: { inputs_hash: string }) => r.inputs_hash)).size).toBe(1);
@@ -224,7 +267,10 @@ describe('the worker at start', () => {
       expect((await b.browser.patch(`/api/proposals/${runningId}`, { version: 1, nodeIds: [net.nodeIds[2]] })).status).toBe(200);
       expect((await b.browser.post(`/api/proposals/${runningId}/targets`, target())).status).toBe(201);
       // A worker took it and stopped half-way.
-      await h.created.ctx.db('plan_runs').where({ proposal_id: runningId }).update({ state: 'running', total: 1, done: 0, started_at: new Date() });
+      await h.created.ctx
+        .db('plan_runs')
+        .where({ proposal_id: runningId })
+        .update({ state: 'running', total: 1, done: 0, started_at: new Date() });
       piB = b.browser;
     } finally {
       h.created.ctx.planQueue = original;
@@ -241,7 +287,11 @@ describe('the worker at start', () => {
       // The worker queued every unfinished run of the database; this test waits for its own two only.
       expect(await jobsOf(queuedId)).toHaveLength(1);
       expect(await jobsOf(runningId)).toHaveLength(1);
-      await h.created.ctx.db.raw("DELETE FROM pgboss.job WHERE name = ? AND state = 'created' AND singleton_key NOT IN (?, ?)", [QUEUE, String(queuedId), String(runningId)]);
+      await h.created.ctx.db.raw("DELETE FROM pgboss.job WHERE name = ? AND state = 'created' AND singleton_key NOT IN (?, ?)", [
+        QUEUE,
+        String(queuedId),
+        String(runningId),
+      ]);
       const until = Date.now() + 45_000;
       let a: PlansBody | undefined;
       let b: PlansBody | undefined;

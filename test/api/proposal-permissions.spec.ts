@@ -1,6 +1,16 @@
 import type { Role } from '@spincycle/shared/accounts/roles';
 import { Browser, signedIn, startHarness, type Harness } from '../support/api-harness';
-import { addCoInvestigator, createTestNetwork, CSV_HEADER, csvLine, proposerWithDraft, target, tinyPdf, uploadFile, type TestNetwork } from './support/proposal-kit';
+import {
+  addCoInvestigator,
+  createTestNetwork,
+  CSV_HEADER,
+  csvLine,
+  proposerWithDraft,
+  target,
+  tinyPdf,
+  uploadFile,
+  type TestNetwork,
+} from './support/proposal-kit';
 
 /**
  * Who may do what on a proposal: its PI, an accepted co-investigator, and everyone else
@@ -26,18 +36,42 @@ const ROWS: Row[] = [
   { name: 'GET /:id', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}`) },
   { name: 'PATCH /:id', who: 'team', call: (b, f) => b.patch(`/api/proposals/${f.id}`, { version: 1, title: 'Edited' }) },
   { name: 'DELETE /:id', who: 'pi', call: (b, f) => b.delete(`/api/proposals/${f.id}`) },
-  { name: 'POST /:id/members', who: 'pi', call: (b, f) => b.post(`/api/proposals/${f.id}/members`, { email: 'perm-invitee@test.example' }) },
+  {
+    name: 'POST /:id/members',
+    who: 'pi',
+    call: (b, f) => b.post(`/api/proposals/${f.id}/members`, { email: 'perm-invitee@test.example' }),
+  },
   { name: 'DELETE /:id/members/:memberId', who: 'pi', call: (b, f) => b.delete(`/api/proposals/${f.id}/members/${f.coiMemberId}`) },
-  { name: 'PUT /:id/justification', who: 'team', call: (b, f) => uploadFile(b, 'put', `/api/proposals/${f.id}/justification`, tinyPdf(), 'j.pdf') },
+  {
+    name: 'PUT /:id/justification',
+    who: 'team',
+    call: (b, f) => uploadFile(b, 'put', `/api/proposals/${f.id}/justification`, tinyPdf(), 'j.pdf'),
+  },
   { name: 'GET /:id/justification', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/justification`) },
   { name: 'GET /:id/targets', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/targets`) },
   { name: 'POST /:id/targets', who: 'team', call: (b, f) => b.post(`/api/proposals/${f.id}/targets`, target()) },
-  { name: 'POST /:id/targets/upload', who: 'team', call: (b, f) => uploadFile(b, 'post', `/api/proposals/${f.id}/targets/upload?mode=append`, csv(), 't.csv') },
+  {
+    name: 'POST /:id/targets/upload',
+    who: 'team',
+    call: (b, f) => uploadFile(b, 'post', `/api/proposals/${f.id}/targets/upload?mode=append`, csv(), 't.csv'),
+  },
   { name: 'GET /:id/targets.csv', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/targets.csv`) },
-  { name: 'PUT /:id/targets/:targetId', who: 'team', call: (b, f) => b.put(`/api/proposals/${f.id}/targets/${f.targetId}`, { version: 1, target: target() }) },
+  {
+    name: 'PUT /:id/targets/:targetId',
+    who: 'team',
+    call: (b, f) => b.put(`/api/proposals/${f.id}/targets/${f.targetId}`, { version: 1, target: target() }),
+  },
   { name: 'DELETE /:id/targets/:targetId', who: 'team', call: (b, f) => b.delete(`/api/proposals/${f.id}/targets/${f.targetId}`) },
-  { name: 'GET /:id/targets/:targetId/sky', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/targets/${f.targetId}/sky?nodeId=${net.nodeIds[0]}`) },
-  { name: 'GET /:id/targets/:targetId/plan', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/targets/${f.targetId}/plan?nodeId=${net.nodeIds[0]}`) },
+  {
+    name: 'GET /:id/targets/:targetId/sky',
+    who: 'team',
+    call: (b, f) => b.get(`/api/proposals/${f.id}/targets/${f.targetId}/sky?nodeId=${net.nodeIds[0]}`),
+  },
+  {
+    name: 'GET /:id/targets/:targetId/plan',
+    who: 'team',
+    call: (b, f) => b.get(`/api/proposals/${f.id}/targets/${f.targetId}/plan?nodeId=${net.nodeIds[0]}`),
+  },
   { name: 'GET /:id/plans', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/plans`) },
   { name: 'POST /:id/plans/recompute', who: 'team', call: (b, f) => b.post(`/api/proposals/${f.id}/plans/recompute`) },
   { name: 'GET /:id/readiness', who: 'team', call: (b, f) => b.get(`/api/proposals/${f.id}/readiness`) },
@@ -50,7 +84,8 @@ const OUTSIDERS: Role[] = ['proposer', 'reviewer', 'facility_manager', 'administ
 /** Statuses that show the call got past authorization (business rules may still refuse it). */
 const PASSED = [200, 201, 202, 204, 409, 422];
 /** Past authorization: a business answer, or a 404 about something inside the proposal (a target deleted by the previous caller). */
-const passed = (res: { status: number; body: { code?: string } }) => PASSED.includes(res.status) || (res.status === 404 && res.body.code !== 'proposal_not_found');
+const passed = (res: { status: number; body: { code?: string } }) =>
+  PASSED.includes(res.status) || (res.status === 404 && res.body.code !== 'proposal_not_found');
 
 let h: Harness;
 let net: TestNetwork;

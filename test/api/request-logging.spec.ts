@@ -34,7 +34,10 @@ describe('request logging', () => {
   /** Makes one request and returns it with the request line it produced (the first new line with a status). */
   async function requestLine(url: string) {
     const seen = lines.length;
-    const res = await request(created.app).get(url).set('Cookie', 'spincycle.sid=s%3Acookie-value-SECRET').set('Referer', `http://spincycle.test/x?token=${RESET_TOKEN}`);
+    const res = await request(created.app)
+      .get(url)
+      .set('Cookie', 'spincycle.sid=s%3Acookie-value-SECRET')
+      .set('Referer', `http://spincycle.test/x?token=${RESET_TOKEN}`);
     const next = () => lines.slice(seen).find((l) => l.res);
     for (let i = 0; i < 50 && !next(); i++) await new Promise((r) => setTimeout(r, 10));
     const line = next();

@@ -1,5 +1,14 @@
 import { Browser, createAccount, signedIn, startHarness, type Harness } from '../support/api-harness';
-import { CSV_HEADER, createTestNetwork, csvLine, proposerWithDraft, target, tinyPdf, uploadFile, type TestNetwork } from './support/proposal-kit';
+import {
+  CSV_HEADER,
+  createTestNetwork,
+  csvLine,
+  proposerWithDraft,
+  target,
+  tinyPdf,
+  uploadFile,
+  type TestNetwork,
+} from './support/proposal-kit';
 
 /*
  * Findings of the security/robustness review: account enumeration (2), invitation links and
@@ -65,13 +74,19 @@ describe('invitations and passwords (finding 5)', () => {
     const invite = await pi.post(`/api/proposals/${proposal.id}/members`, { email: late.email });
     expect(invite.status).toBe(201);
     const token = tokenIn((await h.mail.waitFor((m) => m.to.includes(late.email))).text)!;
-    await h.created.ctx.db('proposal_members').where({ id: invite.body.id }).update({ invited_at: new Date(Date.now() - 14 * 86_400_000 - 60_000) });
+    await h.created.ctx
+      .db('proposal_members')
+      .where({ id: invite.body.id })
+      .update({ invited_at: new Date(Date.now() - 14 * 86_400_000 - 60_000) });
     const b = await new Browser(h).signIn(late.email);
     const expired = await b.post('/api/invitations/accept', { token });
     expect(expired.status).toBe(400);
     expect(expired.body).toMatchObject({ code: 'invitation_expired', message: expect.stringContaining('14 days') });
 
-    await h.created.ctx.db('proposal_members').where({ id: invite.body.id }).update({ invited_at: new Date(Date.now() - 13 * 86_400_000) });
+    await h.created.ctx
+      .db('proposal_members')
+      .where({ id: invite.body.id })
+      .update({ invited_at: new Date(Date.now() - 13 * 86_400_000) });
     expect((await b.post('/api/invitations/accept', { token })).status).toBe(200);
     const reuse = await (await signedIn(h)).browser.post('/api/invitations/accept', { token });
     expect(reuse.status).toBe(400);
@@ -87,14 +102,20 @@ describe('invitations and passwords (finding 5)', () => {
     h.mail.clear();
     const again = await pi.post(`/api/proposals/${proposal.id}/members`, { email: email.toUpperCase() });
     expect(again.status).toBe(429);
-    expect(again.body).toMatchObject({ code: 'invitation_throttled', message: expect.stringMatching(/less than 10 minutes ago.*Wait \d+ minute/) });
+    expect(again.body).toMatchObject({
+      code: 'invitation_throttled',
+      message: expect.stringMatching(/less than 10 minutes ago.*Wait \d+ minute/),
+    });
     expect(again.body.fieldErrors.email).toBeDefined();
     expect((await pi.delete(`/api/proposals/${proposal.id}/members/${first.body.id}`)).status).toBe(204);
     expect((await pi.post(`/api/proposals/${proposal.id}/members`, { email })).status).toBe(429);
     await pause(200);
     expect(h.mail.messages().filter((m) => m.to.includes(email))).toHaveLength(0);
 
-    await h.created.ctx.db('proposal_invitation_mails').where({ proposal_id: proposal.id }).update({ sent_at: new Date(Date.now() - 11 * 60_000) });
+    await h.created.ctx
+      .db('proposal_invitation_mails')
+      .where({ proposal_id: proposal.id })
+      .update({ sent_at: new Date(Date.now() - 11 * 60_000) });
     expect((await pi.post(`/api/proposals/${proposal.id}/members`, { email })).status).toBe(201);
     await h.mail.waitFor((m) => m.to.includes(email));
   });
@@ -131,7 +152,13 @@ describe('file and target names (finding 6)', () => {
     const res = await uploadFile(browser, 'put', `/api/proposals/${proposal.id}/justification`, tinyPdf(), 'plan\u202Efdp.exe');
     expect(res.status).toBe(200);
     expect(res.body.filename).toBe('planfdp.pdf');
-    const again = await uploadFile(browser, 'put', `/api/proposals/${proposal.id}/justification`, tinyPdf(), 'Case\u2067 for\u2069 time\u200B\u202D.docx');
+    const again = await uploadFile(
+      browser,
+      'put',
+      `/api/proposals/${proposal.id}/justification`,
+      tinyPdf(),
+      'Case\u2067 for\u2069 time\u200B\u202D.docx',
+    );
     expect({ status: again.status, body: again.body }).toEqual({ status: 200, body: expect.anything() });
     expect(again.body.filename).toBe('Case for time.pdf');
     const stored = await h.created.ctx.db('proposal_files').where({ proposal_id: proposal.id }).first('filename');
@@ -149,7 +176,9 @@ describe('file and target names (finding 6)', () => {
     const csv = [CSV_HEADER, csvLine('Star\u001b[31mRed')].join('\n');
     const upload = await uploadFile(browser, 'post', `/api/proposals/${proposal.id}/targets/upload`, csv, 'list.csv');
     expect(upload.status).toBe(400);
-    expect(upload.body.rows).toEqual([expect.objectContaining({ row: 1, field: 'name', message: expect.stringContaining('control characters') })]);
+    expect(upload.body.rows).toEqual([
+      expect.objectContaining({ row: 1, field: 'name', message: expect.stringContaining('control characters') }),
+    ]);
     expect(await h.created.ctx.db('targets').where({ proposal_id: proposal.id }).count<{ n: number }[]>({ n: '*' })).toEqual([{ n: 0 }]);
   });
 
@@ -188,7 +217,10 @@ describe('ids and text at the edge (finding 9)', () => {
       ['PATCH /api/proposals/:id version', (id) => pi.patch(P, { version: Number(id) })],
       ['PUT targets/:targetId version', (id) => pi.put(`${P}/targets/${t.body.id}`, { version: Number(id), target: target() })],
       ['POST /api/cycles nodeId', (id) => manager.post('/api/cycles', cycleBody(Number(id)))],
-      ['PUT /api/cycles/:id version', (id) => manager.put(`/api/cycles/${net.cycleId}`, { version: Number(id), cycle: cycleBody(net.nodeIds[0]) })],
+      [
+        'PUT /api/cycles/:id version',
+        (id) => manager.put(`/api/cycles/${net.cycleId}`, { version: Number(id), cycle: cycleBody(net.nodeIds[0]) }),
+      ],
       ['GET /api/proposals/:id', (id) => pi.get(`/api/proposals/${id}`)],
       ['DELETE /api/proposals/:id', (id) => pi.delete(`/api/proposals/${id}`)],
       ['GET plans', (id) => pi.get(`/api/proposals/${id}/plans`)],
@@ -198,15 +230,25 @@ describe('ids and text at the edge (finding 9)', () => {
       ['GET readiness', (id) => pi.get(`/api/proposals/${id}/readiness`)],
       ['POST submit', (id) => pi.post(`/api/proposals/${id}/submit`, {})],
       ['GET summary.pdf', (id) => pi.get(`/api/proposals/${id}/summary.pdf`)],
-      ['POST /api/sky-windows cycleId', (id) => pi.post('/api/sky-windows', { cycleId: Number(id), nodeIds: [net.nodeIds[0]], targets: [{ ra: 10, dec: 10 }] })],
-      ['POST /api/sky-windows nodeIds', (id) => pi.post('/api/sky-windows', { cycleId: net.cycleId, nodeIds: [Number(id)], targets: [{ ra: 10, dec: 10 }] })],
+      [
+        'POST /api/sky-windows cycleId',
+        (id) => pi.post('/api/sky-windows', { cycleId: Number(id), nodeIds: [net.nodeIds[0]], targets: [{ ra: 10, dec: 10 }] }),
+      ],
+      [
+        'POST /api/sky-windows nodeIds',
+        (id) => pi.post('/api/sky-windows', { cycleId: net.cycleId, nodeIds: [Number(id)], targets: [{ ra: 10, dec: 10 }] }),
+      ],
     ];
     const seen: string[] = [];
     for (const id of HUGE) {
       for (const [name, call] of calls) {
         const res = await call(id);
         seen.push(`${name} ${id} → ${res.status}`);
-        expect({ name, id, status: [400, 404].includes(res.status) ? 'client error' : res.status }).toEqual({ name, id, status: 'client error' });
+        expect({ name, id, status: [400, 404].includes(res.status) ? 'client error' : res.status }).toEqual({
+          name,
+          id,
+          status: 'client error',
+        });
       }
     }
     // Path ids name the field.
@@ -221,9 +263,34 @@ describe('ids and text at the edge (finding 9)', () => {
     const { browser: manager } = await signedIn(h, ['facility_manager']);
     const P = `/api/proposals/${proposal.id}`;
     const cases: [string, () => Promise<{ status: number; body: { fieldErrors?: Record<string, string[]> } }>][] = [
-      ['displayName', () => new Browser(h).post('/api/auth/sign-up', { email: `nul-${Date.now()}@test.example`, password: 'a fine passphrase', displayName: 'Nul\u0000Name' })],
-      ['affiliation', () => new Browser(h).post('/api/auth/sign-up', { email: `nul2-${Date.now()}@test.example`, password: 'a fine passphrase', displayName: 'N', affiliation: 'A\u0000' })],
-      ['password', () => new Browser(h).post('/api/auth/sign-up', { email: `nul3-${Date.now()}@test.example`, password: 'a fine pass\u0000phrase', displayName: 'N' })],
+      [
+        'displayName',
+        () =>
+          new Browser(h).post('/api/auth/sign-up', {
+            email: `nul-${Date.now()}@test.example`,
+            password: 'a fine passphrase',
+            displayName: 'Nul\u0000Name',
+          }),
+      ],
+      [
+        'affiliation',
+        () =>
+          new Browser(h).post('/api/auth/sign-up', {
+            email: `nul2-${Date.now()}@test.example`,
+            password: 'a fine passphrase',
+            displayName: 'N',
+            affiliation: 'A\u0000',
+          }),
+      ],
+      [
+        'password',
+        () =>
+          new Browser(h).post('/api/auth/sign-up', {
+            email: `nul3-${Date.now()}@test.example`,
+            password: 'a fine pass\u0000phrase',
+            displayName: 'N',
+          }),
+      ],
       ['search', () => admin.get('/api/admin/accounts?search=a%00b')],
       ['title', () => pi.post('/api/proposals', { cycleId: net.cycleId, title: 'T\u0000' })],
       ['abstract', () => pi.patch(P, { version: 1, abstract: 'line\u0000' })],

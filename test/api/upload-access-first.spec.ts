@@ -37,14 +37,21 @@ const BOUNDARY = '----spincycle-upload-test';
  * the rest of the body is still owed; `'no answer'` if none came within two seconds (the old
  * behaviour: the parser waits for the whole file before anything is decided).
  */
-async function partialUpload(browser: Browser, method: 'POST' | 'PUT', path: string, filename: string): Promise<{ status: number; body: { code?: string } } | 'no answer'> {
+async function partialUpload(
+  browser: Browser,
+  method: 'POST' | 'PUT',
+  path: string,
+  filename: string,
+): Promise<{ status: number; body: { code?: string } } | 'no answer'> {
   await browser.ready();
   const cookie = ['spincycle.sid', 'XSRF-TOKEN']
     .map((name) => browser.agent.jar.getCookie(name, { domain: '127.0.0.1', path: '/', secure: false, script: false }))
     .filter((c) => c)
     .map((c) => `${c!.name}=${c!.value}`)
     .join('; ');
-  const head = Buffer.from(`--${BOUNDARY}\r\nContent-Disposition: form-data; name="file"; filename="${filename}"\r\nContent-Type: application/octet-stream\r\n\r\n`);
+  const head = Buffer.from(
+    `--${BOUNDARY}\r\nContent-Disposition: form-data; name="file"; filename="${filename}"\r\nContent-Type: application/octet-stream\r\n\r\n`,
+  );
   const firstKilobyte = Buffer.concat([head, tinyPdf(), Buffer.alloc(1024, 0x20)]);
   return new Promise((resolve, reject) => {
     const req = http.request({

@@ -33,7 +33,20 @@ function generateCsv(count: number): string {
   for (let i = 0; i < count; i++) {
     const age = r.uniform(300, 6000);
     lines.push(
-      [`Star A-${i + 1}`, r.uniform(0, 360).toFixed(5), r.uniform(-60, 70).toFixed(5), r.uniform(9, 15).toFixed(2), 'V', r.uniform(0.7, 2.4).toFixed(3), 'BPRP', '', age.toFixed(0), (age * 0.2).toFixed(0), '', 'generated'].join(','),
+      [
+        `Star A-${i + 1}`,
+        r.uniform(0, 360).toFixed(5),
+        r.uniform(-60, 70).toFixed(5),
+        r.uniform(9, 15).toFixed(2),
+        'V',
+        r.uniform(0.7, 2.4).toFixed(3),
+        'BPRP',
+        '',
+        age.toFixed(0),
+        (age * 0.2).toFixed(0),
+        '',
+        'generated',
+      ].join(','),
     );
   }
   return lines.join('\n') + '\n';
@@ -85,7 +98,8 @@ function freePort(): Promise<number> {
   });
 }
 
-const percentile = (sorted: number[], p: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] : NaN);
+const percentile = (sorted: number[], p: number) =>
+  sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] : NaN;
 
 /** One endpoint at a fixed rate: latency percentiles of every answer, non-2xx and socket errors. */
 /** Seconds of the same load before each measurement, not counted (JIT, connection pools, caches). */
@@ -102,7 +116,13 @@ const CLOCK_TICKS = 100;
 async function load(base: string, label: string, urlPath: string, cookie: string, serverPid: number): Promise<void> {
   await new Promise<void>((resolve, reject) => {
     autocannon(
-      { url: `${base}${urlPath}`, connections: 20, overallRate: RATE, duration: WARM_UP_SECONDS, headers: { cookie, accept: 'application/json' } },
+      {
+        url: `${base}${urlPath}`,
+        connections: 20,
+        overallRate: RATE,
+        duration: WARM_UP_SECONDS,
+        headers: { cookie, accept: 'application/json' },
+      },
       (err) => (err ? reject(err) : resolve()),
     );
   });
@@ -147,11 +167,25 @@ export default async function (): Promise<void> {
   // The measured server: its own process, as in production (stdout, its request log, to nothing).
   // BENCH_API_SERVER_ARGS: extra Node options for the measured server, e.g. `--cpu-prof --cpu-prof-dir=/tmp/prof`.
   const server = Object.assign(
-    spawn(process.execPath, [...(process.env.BENCH_API_SERVER_ARGS ?? '').split(' ').filter(Boolean), '--import', 'tsx', 'server/src/server.ts'], {
-      cwd: path.resolve(__dirname, '../..'),
-      env: { ...process.env, PGDATABASE: database, PORT: String(port), HOST: '127.0.0.1', NODE_ENV: 'development', LOG_LEVEL: 'info', SMTP_PORT: '1', PUBLIC_URL: base, SPINCYCLE_INSTANCE_ID: instanceId },
-      stdio: ['ignore', 'ignore', 'inherit'],
-    }),
+    spawn(
+      process.execPath,
+      [...(process.env.BENCH_API_SERVER_ARGS ?? '').split(' ').filter(Boolean), '--import', 'tsx', 'server/src/server.ts'],
+      {
+        cwd: path.resolve(__dirname, '../..'),
+        env: {
+          ...process.env,
+          PGDATABASE: database,
+          PORT: String(port),
+          HOST: '127.0.0.1',
+          NODE_ENV: 'development',
+          LOG_LEVEL: 'info',
+          SMTP_PORT: '1',
+          PUBLIC_URL: base,
+          SPINCYCLE_INSTANCE_ID: instanceId,
+        },
+        stdio: ['ignore', 'ignore', 'inherit'],
+      },
+    ),
     { name: 'bench web server' },
   );
   await waitForOwnServer(`${base}/api/health`, instanceId, { child: server, name: 'bench web server' });
@@ -159,14 +193,21 @@ export default async function (): Promise<void> {
   const tag = `APIB${Date.now().toString(36).toUpperCase()}`;
   const made = emptyBenchRows();
   try {
-    const { viewer, email, proposalId } = await createBenchNetwork(ctx, made, { tag, passwordHash: await hashPassword(PASSWORD), sites: ['N', 'S'], siteOfNode: [0, 0, 1] });
+    const { viewer, email, proposalId } = await createBenchNetwork(ctx, made, {
+      tag,
+      passwordHash: await hashPassword(PASSWORD),
+      sites: ['N', 'S'],
+      siteOfNode: [0, 0, 1],
+    });
     const proposal = { id: proposalId };
     const csv = Buffer.from(generateCsv(TARGETS));
     await uploadTargets(ctx, viewer, proposal.id, { buffer: csv, originalname: 'bench.csv' } as Express.Multer.File, () => 'replace');
     const plans = await computeAndStoreProposalPlans(db, proposal.id);
     const cookie = await signIn(base, email);
 
-    console.log(`${TARGETS} targets on 3 nodes (${plans?.plans} plans, ${plans?.errors} errors); ${RATE} req/s for ${SECONDS} s per endpoint, autocannon over loopback`);
+    console.log(
+      `${TARGETS} targets on 3 nodes (${plans?.plans} plans, ${plans?.errors} errors); ${RATE} req/s for ${SECONDS} s per endpoint, autocannon over loopback`,
+    );
     await load(base, 'GET /api/proposals', '/api/proposals', cookie, server.pid!);
     await load(base, 'GET …/plans?pageSize=200 (all 180)', `/api/proposals/${proposal.id}/plans?pageSize=200`, cookie, server.pid!);
     await load(base, 'GET …/plans (first page)', `/api/proposals/${proposal.id}/plans`, cookie, server.pid!);

@@ -32,7 +32,9 @@ function bestOf(runs: number, fn: () => void): number {
 
 export default async function (): Promise<void> {
   const version = requireAstropy();
-  console.log(`grid: N frequencies from df/2 in steps df = 1/(5T); errors given; astropy ${version} method='fast' (best of 5 after warm-up)`);
+  console.log(
+    `grid: N frequencies from df/2 in steps df = 1/(5T); errors given; astropy ${version} method='fast' (best of 5 after warm-up)`,
+  );
   for (const n of [10_000, 100_000]) {
     const { t, y, dy } = series(n, n);
     const T = t[n - 1] - t[0];

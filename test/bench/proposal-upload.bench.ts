@@ -31,7 +31,20 @@ function generateCsv(count: number): string {
     // Half the positions sexagesimal (the parser's slower path), half decimal degrees.
     const [raText, decText] = i % 2 ? [formatRaHms(ra), formatDecDms(dec).replace('−', '-')] : [ra.toFixed(5), dec.toFixed(5)];
     lines.push(
-      [`Star B-${i + 1}`, raText, decText, r.uniform(9, 15).toFixed(2), r.next() < 0.5 ? 'V' : 'G', colour.toFixed(3), bprp ? 'BPRP' : 'BV', '', age.toFixed(0), (age * 0.2).toFixed(0), r.next() < 0.3 ? '0.2' : '', 'generated'].join(','),
+      [
+        `Star B-${i + 1}`,
+        raText,
+        decText,
+        r.uniform(9, 15).toFixed(2),
+        r.next() < 0.5 ? 'V' : 'G',
+        colour.toFixed(3),
+        bprp ? 'BPRP' : 'BV',
+        '',
+        age.toFixed(0),
+        (age * 0.2).toFixed(0),
+        r.next() < 0.3 ? '0.2' : '',
+        'generated',
+      ].join(','),
     );
   }
   return lines.join('\n') + '\n';
@@ -56,11 +69,18 @@ export default async function (): Promise<void> {
   const tag = `BENCH${Date.now().toString(36).toUpperCase()}`;
   const created = emptyBenchRows();
   try {
-    const { viewer, proposalId } = await createBenchNetwork(ctx, created, { tag, passwordHash: 'x', sites: ['N', 'E', 'S'], siteOfNode: [0, 1, 2] });
+    const { viewer, proposalId } = await createBenchNetwork(ctx, created, {
+      tag,
+      passwordHash: 'x',
+      sites: ['N', 'E', 'S'],
+      siteOfNode: [0, 1, 2],
+    });
     const proposal = { id: proposalId };
 
     const csv = Buffer.from(generateCsv(TARGETS));
-    console.log(`${TARGETS} targets (${(csv.length / 1024).toFixed(0)} kB CSV, half sexagesimal) on 3 nodes, 180-night campaign; ${RUNS} runs`);
+    console.log(
+      `${TARGETS} targets (${(csv.length / 1024).toFixed(0)} kB CSV, half sexagesimal) on 3 nodes, 180-night campaign; ${RUNS} runs`,
+    );
     console.log('run  parse+validate  upload (parse+validate+insert)  plan compute  plan write   total   plans');
     for (let run = 1; run <= RUNS; run++) {
       const t0 = performance.now();
@@ -68,7 +88,13 @@ export default async function (): Promise<void> {
       const parseMs = performance.now() - t0;
       if (list.errors.length) throw new Error(`generated CSV has problems: ${JSON.stringify(list.errors.slice(0, 3))}`);
       const t1 = performance.now();
-      const uploaded = await uploadTargets(ctx, viewer, proposal.id, { buffer: csv, originalname: 'bench.csv' } as Express.Multer.File, () => 'replace');
+      const uploaded = await uploadTargets(
+        ctx,
+        viewer,
+        proposal.id,
+        { buffer: csv, originalname: 'bench.csv' } as Express.Multer.File,
+        () => 'replace',
+      );
       const uploadMs = performance.now() - t1;
       const t2 = performance.now();
       const result = await computeAndStoreProposalPlans(db, proposal.id);

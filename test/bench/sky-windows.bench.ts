@@ -84,7 +84,9 @@ export default async function benchSkyWindows(): Promise<void> {
   const sharedOnly = sharedRuns[1].wallMs;
   const targetNights = 1000 * 3 * 180;
   const fmt = (r: { wallMs: number; cpuMs: number }) => `${r.wallMs.toFixed(0)} ms (process CPU ${r.cpuMs.toFixed(0)} ms)`;
-  console.log(`fast path, 1000 targets × 3 sites × 180 nights (${targetNights.toLocaleString('en')} target-nights, Moon check on), one thread:`);
+  console.log(
+    `fast path, 1000 targets × 3 sites × 180 nights (${targetNights.toLocaleString('en')} target-nights, Moon check on), one thread:`,
+  );
   console.log(`  first run in a fresh process (cold JIT): ${fmt(cold)}   [target ≤ 1000 ms]`);
   console.log(`  median of 3 warm runs:                   ${fmt(warmRuns[1])}   [target ≤ 1000 ms]`);
   console.log(
@@ -94,7 +96,12 @@ export default async function benchSkyWindows(): Promise<void> {
   // astropy: 5 targets × 1 site × 5 nights, each night's 24-h window on a 1-minute grid (1441 instants).
   const sampleTargets = targets.slice(0, 5);
   const sampleNights = { firstNight: '2025-01-01', lastNight: '2025-01-05' };
-  const ours = computeSkyWindows({ site: SITES[0], limits: { altitudeLimitDeg: 30, refraction: 'none' }, campaign: sampleNights, targets: sampleTargets });
+  const ours = computeSkyWindows({
+    site: SITES[0],
+    limits: { altitudeLimitDeg: 30, refraction: 'none' },
+    campaign: sampleNights,
+    targets: sampleTargets,
+  });
   const request = {
     lat: SITES[0].latitudeDeg,
     lon: SITES[0].longitudeDeg,
@@ -114,7 +121,9 @@ export default async function benchSkyWindows(): Promise<void> {
   const targetScale = (1000 * 3 * 180) / (5 * 1 * 5); // target-nights
   const extrapolatedSeconds = sample.sunSeconds * sunScale + sample.targetSeconds * targetScale;
   let worstHours = 0;
-  sample.hours.forEach((row, n) => row.forEach((h, j) => (worstHours = Math.max(worstHours, Math.abs(h - ours.targets[j].usableHoursByNight[n])))));
+  sample.hours.forEach((row, n) =>
+    row.forEach((h, j) => (worstHours = Math.max(worstHours, Math.abs(h - ours.targets[j].usableHoursByNight[n])))),
+  );
   console.log('astropy 5.2.1, 5 targets × 1 site × 5 nights, AltAz of Sun and targets on a 1-minute grid (1441 instants per 24-h window):');
   console.log(
     `  Sun ${(sample.sunSeconds * 1000).toFixed(0)} ms + targets ${(sample.targetSeconds * 1000).toFixed(0)} ms (python start-up and imports ${(sample.importSeconds * 1000).toFixed(0)} ms, not counted)`,
@@ -122,6 +131,8 @@ export default async function benchSkyWindows(): Promise<void> {
   console.log(
     `  extrapolated to the full job: Sun × ${sunScale} site-nights + targets × ${targetScale} target-nights = ${extrapolatedSeconds.toFixed(0)} s`,
   );
-  console.log(`  ratio astropy (extrapolated) / fast path (warm): ${Math.round((extrapolatedSeconds * 1000) / warm).toLocaleString('en')}×`);
+  console.log(
+    `  ratio astropy (extrapolated) / fast path (warm): ${Math.round((extrapolatedSeconds * 1000) / warm).toLocaleString('en')}×`,
+  );
   console.log(`  sample agreement: largest difference in usable hours ${worstHours.toFixed(3)} h (1-minute grid resolution)`);
 }

@@ -48,5 +48,7 @@ export default async function (): Promise<void> {
     all();
     best = Math.min(best, performance.now() - start);
   }
-  console.log(`500 targets × 3 nodes = 1500 plans: first run ${cold.toFixed(1)} ms, best of 5 ${best.toFixed(1)} ms (${((best / 1500) * 1000).toFixed(0)} µs per plan); total ${hours.toFixed(1)} node-hours`);
+  console.log(
+    `500 targets × 3 nodes = 1500 plans: first run ${cold.toFixed(1)} ms, best of 5 ${best.toFixed(1)} ms (${((best / 1500) * 1000).toFixed(0)} µs per plan); total ${hours.toFixed(1)} node-hours`,
+  );
 }

@@ -47,7 +47,10 @@ afterAll(async () => {
 
 /** A full-page shot at 1440 px and at phone width, kept in .data/screenshots and copied to /tmp. */
 async function shots(page: Page, name: string): Promise<void> {
-  for (const [suffix, size] of [['1440', DESKTOP], ['phone', PHONE]] as const) {
+  for (const [suffix, size] of [
+    ['1440', DESKTOP],
+    ['phone', PHONE],
+  ] as const) {
     await page.setViewportSize(size);
     await page.waitForTimeout(200);
     const file = await screenshot(page, `capacity-${name}-${suffix}`);
@@ -65,7 +68,10 @@ const hours = (text: string | null) => Number((text ?? '').replace(/[^\d.]/g, ''
 /** Opens the demo cycle's form and types KRG-50's capacity, then saves. */
 async function setKrgCapacity(page: Page, value: number): Promise<void> {
   await page.goto('/cycles');
-  await page.getByRole('link', { name: /^Edit / }).first().click();
+  await page
+    .getByRole('link', { name: /^Edit / })
+    .first()
+    .click();
   const input = page.locator('[data-testid^=node-row-]').filter({ hasText: 'KRG-50' }).getByLabel('Available (node-hours)');
   await input.waitFor();
   await input.fill(String(value));
@@ -103,7 +109,10 @@ describe('capacity in view', () => {
     try {
       await signIn(page, 'manager@halcyon.example');
       await page.getByRole('link', { name: 'Cycles' }).first().click();
-      await page.getByRole('link', { name: /^Edit / }).first().click();
+      await page
+        .getByRole('link', { name: /^Edit / })
+        .first()
+        .click();
       await page.getByTestId('closes-utc').waitFor();
       // UTC written once per instant; the times are 24-hour text fields.
       await expect(page.getByTestId('closes-utc').textContent()).resolves.toMatch(/^\d{1,2} \w{3} \d{4}, \d\d:\d\d UTC$/);
@@ -118,18 +127,25 @@ describe('capacity in view', () => {
       await page.getByRole('button', { name: 'Save cycle' }).click();
       const dialog = page.getByRole('dialog');
       await dialog.getByText('Cut capacity below the requests?').waitFor();
-      await expect(dialog.textContent()).resolves.toMatch(new RegExp(`KRG-50: submitted proposals request [\\d.]+ node-hours; the new capacity is ${cutCapacity}\\.`));
+      await expect(dialog.textContent()).resolves.toMatch(
+        new RegExp(`KRG-50: submitted proposals request [\\d.]+ node-hours; the new capacity is ${cutCapacity}\\.`),
+      );
       // Checked once the opening animation is over (mid-fade, every text is a contrast failure).
       await page.waitForFunction(() => {
         const surface = document.querySelector('.mat-mdc-dialog-surface');
-        return !!surface && getComputedStyle(surface).opacity === '1' && !document.querySelector('.mat-mdc-dialog-container.mdc-dialog--opening');
+        return (
+          !!surface && getComputedStyle(surface).opacity === '1' && !document.querySelector('.mat-mdc-dialog-container.mdc-dialog--opening')
+        );
       });
       await expectAxeClean(page);
       await dialog.getByRole('button', { name: 'Cut capacity' }).click();
       await page.waitForURL(/\/cycles$/);
       await page.getByRole('button', { name: 'Dismiss' }).click();
 
-      await page.getByRole('link', { name: /^Proposals of / }).first().click();
+      await page
+        .getByRole('link', { name: /^Proposals of / })
+        .first()
+        .click();
       await page.waitForURL(/\/cycles\/\d+\/proposals$/);
       const pressure = page.getByTestId('pressure-KRG-50');
       await pressure.waitFor();
@@ -167,7 +183,9 @@ describe('capacity in view', () => {
       await page.getByRole('tab', { name: 'Submit' }).click();
       const caution = page.getByTestId('capacity-caution');
       await caution.waitFor();
-      await expect(caution.textContent()).resolves.toMatch(new RegExp(`node-hours are requested on KRG-50, more than the ${cutCapacity} the cycle offers there`));
+      await expect(caution.textContent()).resolves.toMatch(
+        new RegExp(`node-hours are requested on KRG-50, more than the ${cutCapacity} the cycle offers there`),
+      );
       await shots(page, 'submit-checklist');
       await expectAxeClean(page);
     } finally {

@@ -18,7 +18,10 @@ describe('each demo account', () => {
       await page.getByRole('heading', { level: 1 }).first().waitFor();
       await page.getByText(account.displayName).first().waitFor();
       // The open demo cycle is on every home page.
-      await page.getByText(/Spin-down monitoring/).first().waitFor();
+      await page
+        .getByText(/Spin-down monitoring/)
+        .first()
+        .waitFor();
       await page.waitForLoadState('networkidle');
       await screenshot(page, `home-${role}`);
       const violations = await axeViolations(page);
@@ -88,7 +91,10 @@ describe('accounts', () => {
         if ((await page.getByText(/welcome to spincycle/i).count()) > 0) break;
         await page.waitForTimeout(250);
       }
-      await page.getByText(/welcome to spincycle/i).first().waitFor();
+      await page
+        .getByText(/welcome to spincycle/i)
+        .first()
+        .waitFor();
       await signIn(page, email, 'a long enough password');
       await page.getByText('Vera Visitor').first().waitFor();
 
@@ -131,7 +137,10 @@ describe('accounts', () => {
       await page.getByLabel('E-mail').fill('proposer@halcyon.example');
       await page.getByLabel('Password', { exact: true }).fill('not the password');
       await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-      await page.getByTestId('server-error').getByText(/not right/).waitFor();
+      await page
+        .getByTestId('server-error')
+        .getByText(/not right/)
+        .waitFor();
       await screenshot(page, 'sign-in-error');
     } finally {
       await context.close();

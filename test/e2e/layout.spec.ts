@@ -24,9 +24,14 @@ async function shot(page: Page, name: string): Promise<void> {
   await page.waitForFunction(() => document.getAnimations().every((a) => a.playState !== 'running'));
   const viewport = page.viewportSize()!;
   const contentHeight = await page.evaluate(() =>
-    Math.max(...Array.from(document.querySelectorAll('mat-sidenav-content, main, body')).map((e) => e.scrollHeight + (e.getBoundingClientRect().top || 0))),
+    Math.max(
+      ...Array.from(document.querySelectorAll('mat-sidenav-content, main, body')).map(
+        (e) => e.scrollHeight + (e.getBoundingClientRect().top || 0),
+      ),
+    ),
   );
-  if (contentHeight > viewport.height) await page.setViewportSize({ width: viewport.width, height: Math.min(Math.ceil(contentHeight), 6000) });
+  if (contentHeight > viewport.height)
+    await page.setViewportSize({ width: viewport.width, height: Math.min(Math.ceil(contentHeight), 6000) });
   await page.screenshot({ path: `/tmp/layout-${name}.png`, fullPage: true });
   await page.setViewportSize(viewport);
 }
@@ -68,14 +73,18 @@ interface TableFit {
 async function tableFit(box: Locator): Promise<TableFit> {
   return box.evaluate((el) => {
     const hint = el.querySelector(':scope > .table-scroll-hint') as HTMLElement | null;
-    const rows = Array.from(el.querySelectorAll('tbody tr, tr.mat-mdc-row')).filter((r) => !r.classList.contains('detail-row')) as HTMLElement[];
+    const rows = Array.from(el.querySelectorAll('tbody tr, tr.mat-mdc-row')).filter(
+      (r) => !r.classList.contains('detail-row'),
+    ) as HTMLElement[];
     return {
       scrollWidth: el.scrollWidth,
       clientWidth: el.clientWidth,
       hasHint: hint !== null,
       hintVisible: hint !== null && getComputedStyle(hint).display !== 'none' && hint.getBoundingClientRect().height > 0,
       rowHeights: [...new Set(rows.map((r) => Math.round(r.getBoundingClientRect().height)))],
-      columns: Array.from(el.querySelectorAll('thead tr:first-child th')).map((th) => `${(th.textContent ?? '').trim().slice(0, 12)}=${Math.round(th.getBoundingClientRect().width)}`).join(' '),
+      columns: Array.from(el.querySelectorAll('thead tr:first-child th'))
+        .map((th) => `${(th.textContent ?? '').trim().slice(0, 12)}=${Math.round(th.getBoundingClientRect().width)}`)
+        .join(' '),
     };
   });
 }
@@ -129,7 +138,13 @@ describe('tables fit the screen', () => {
       expect(targetsFit.hasHint).toBe(true);
       expect(targetsFit.rowHeights).toHaveLength(1);
       // Numbers right-aligned, units in the header.
-      expect(await page.getByTestId('targets-table').locator('td.num').first().evaluate((td) => getComputedStyle(td).textAlign)).toBe('end');
+      expect(
+        await page
+          .getByTestId('targets-table')
+          .locator('td.num')
+          .first()
+          .evaluate((td) => getComputedStyle(td).textAlign),
+      ).toBe('end');
       expect(await page.getByTestId('targets-table').locator('th', { hasText: 'Period (d)' }).count()).toBe(1);
       await expectPageNotWider(page);
       await shot(page, 'targets-1440');

@@ -40,7 +40,10 @@ async function plannerViolations(page: Page): Promise<AxeViolation[]> {
   for (const v of all) {
     const nodes = [];
     for (const node of v.nodes) {
-      const inPage = await page.evaluate((selector) => !!document.querySelector(selector)?.closest('app-target-planner'), node.target.join(' '));
+      const inPage = await page.evaluate(
+        (selector) => !!document.querySelector(selector)?.closest('app-target-planner'),
+        node.target.join(' '),
+      );
       if (inPage) nodes.push(node);
     }
     if (nodes.length) inside.push({ ...v, nodes });
@@ -55,7 +58,17 @@ async function openPlanner(page: Page): Promise<void> {
   await page.getByTestId('summary-figures').waitFor();
 }
 
-const DECISION_LABELS = ['Expected period', 'Spot amplitude', 'Per-visit precision', 'Visits', 'Cadence', 'Baseline', 'Node-hours', 'Fee', 'Completeness'];
+const DECISION_LABELS = [
+  'Expected period',
+  'Spot amplitude',
+  'Per-visit precision',
+  'Visits',
+  'Cadence',
+  'Baseline',
+  'Node-hours',
+  'Fee',
+  'Completeness',
+];
 
 describe('target planner', () => {
   it('puts the decision numbers first, explains each on demand, recomputes on input, and draws sky windows per node', async () => {
@@ -66,7 +79,10 @@ describe('target planner', () => {
 
       // The summary: the verdict and the numbers a proposer decides on, money as money.
       const summary = page.getByTestId('headline');
-      await summary.getByText(/Feasible on|Not feasible on/).first().waitFor();
+      await summary
+        .getByText(/Feasible on|Not feasible on/)
+        .first()
+        .waitFor();
       const figures = page.getByTestId('summary-figures');
       for (const label of DECISION_LABELS) await figures.getByText(label, { exact: true }).waitFor();
       const fee = (await figures.locator('[data-key=fee] .num').innerText()).trim();
@@ -81,7 +97,10 @@ describe('target planner', () => {
       const period = () => figures.locator('[data-key=period] .num').innerText();
       const before = await period();
       await page.getByLabel('Age', { exact: true }).fill('3000');
-      await page.waitForFunction((prev) => document.querySelector('[data-testid=summary-figures] [data-key=period] .num')?.textContent?.trim() !== prev, before);
+      await page.waitForFunction(
+        (prev) => document.querySelector('[data-testid=summary-figures] [data-key=period] .num')?.textContent?.trim() !== prev,
+        before,
+      );
       expect(await period()).not.toEqual(before);
 
       // The explanation of a number opens from the keyboard.
@@ -98,8 +117,14 @@ describe('target planner', () => {
       await page.getByTestId('cycle-select').click();
       await page.getByRole('option', { name: /Spin-down monitoring/ }).click();
       await page.locator('app-sky-window-chart').first().waitFor();
-      await page.getByText(/observable on \d+ of \d+ nights/).first().waitFor();
-      await page.getByTestId('summary-sky').getByText(/Sky window from/).waitFor();
+      await page
+        .getByText(/observable on \d+ of \d+ nights/)
+        .first()
+        .waitFor();
+      await page
+        .getByTestId('summary-sky')
+        .getByText(/Sky window from/)
+        .waitFor();
       await page.waitForLoadState('networkidle');
       await reviewShot(page, 'planner-1440');
       await screenshotOf(page.getByTestId('headline'), 'planner-summary');
@@ -142,11 +167,16 @@ describe('target planner', () => {
       ];
       for (const [testId, text] of expected) await page.getByTestId(testId).getByText(text).waitFor();
       await page.getByTestId('headline').getByText('No plan yet').waitFor();
-      expect(await page.getByTestId('headline').innerText()).toMatch(/Fix the 6 fields marked in red: Colour, Age, Magnitude, Completeness, Right ascension, Declination\./);
+      expect(await page.getByTestId('headline').innerText()).toMatch(
+        /Fix the 6 fields marked in red: Colour, Age, Magnitude, Completeness, Right ascension, Declination\./,
+      );
       // The colour system stays beside the value, with a warning when the value belongs to the other system.
       await page.getByTestId('colour-system').getByText('B−V').click();
       await page.getByTestId('colour-input').fill('2.5');
-      await page.getByTestId('colour-warning').getByText(/not a plausible B−V .* plausible BP−RP/).waitFor();
+      await page
+        .getByTestId('colour-warning')
+        .getByText(/not a plausible B−V .* plausible BP−RP/)
+        .waitFor();
       await reviewShot(page, 'planner-errors-1440');
       expect(describeViolations(await axeViolations(page))).toBe('');
     } finally {

@@ -74,7 +74,10 @@ describe('a proposer’s journey', () => {
       await page.getByTestId('csv-input').setInputFiles(csv);
       await page.getByRole('button', { name: 'Upload', exact: true }).click();
       const rows = example.trim().split('\n').length - 1;
-      await page.getByText(new RegExp(`${rows} (targets|rows)`)).first().waitFor();
+      await page
+        .getByText(new RegExp(`${rows} (targets|rows)`))
+        .first()
+        .waitFor();
       await screenshot(page, 'proposal-targets');
       expect(describeViolations(await axeViolations(page))).toBe('');
 
@@ -87,7 +90,10 @@ describe('a proposer’s journey', () => {
       await screenshot(page, 'proposal-plans');
       expect(describeViolations(await axeViolations(page))).toBe('');
       // Every number of a plan explains itself.
-      await page.getByRole('button', { name: /^Explain/ }).first().click();
+      await page
+        .getByRole('button', { name: /^Explain/ })
+        .first()
+        .click();
       await page.getByRole('dialog').getByTestId('quantities').getByText('Expected rotation period').waitFor();
       await screenshotOf(page.getByRole('dialog'), 'proposal-explain-panel');
       expect(describeViolations(await axeViolations(page))).toBe('');
@@ -95,9 +101,16 @@ describe('a proposer’s journey', () => {
       await page.getByRole('dialog').waitFor({ state: 'detached' });
 
       // One click away: the sky window of the first target.
-      await page.getByRole('button', { name: /Sky window/ }).first().click();
+      await page
+        .getByRole('button', { name: /Sky window/ })
+        .first()
+        .click();
       await page.getByRole('dialog').locator('app-sky-window-chart').waitFor();
-      await page.getByRole('dialog').getByText(/observable on \d+ of \d+ nights/).first().waitFor();
+      await page
+        .getByRole('dialog')
+        .getByText(/observable on \d+ of \d+ nights/)
+        .first()
+        .waitFor();
       await screenshotOf(page.getByRole('dialog'), 'proposal-sky-window-dialog');
       await page.keyboard.press('Escape');
 
@@ -124,7 +137,10 @@ describe('a proposer’s journey', () => {
       // The receipt, in the development mailbox.
       const mailbox = await context.newPage();
       await mailbox.goto(e2eMailboxUrl('proposer@halcyon.example'));
-      await mailbox.getByRole('heading', { name: new RegExp(title.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')) }).first().waitFor();
+      await mailbox
+        .getByRole('heading', { name: new RegExp(title.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')) })
+        .first()
+        .waitFor();
       const receipt = await mailbox.locator('article').first().innerText();
       expect(receipt).toMatch(/KRG-50/);
       expect(receipt).toMatch(/node-hours/i);
@@ -143,7 +159,10 @@ describe('a proposer’s journey', () => {
     try {
       await signIn(page, 'manager@halcyon.example');
       await page.getByRole('link', { name: 'Cycles' }).first().click();
-      await page.getByRole('cell', { name: /Spin-down monitoring/ }).first().waitFor();
+      await page
+        .getByRole('cell', { name: /Spin-down monitoring/ })
+        .first()
+        .waitFor();
       await page.waitForLoadState('networkidle');
       await screenshot(page, 'cycles');
       expect(describeViolations(await axeViolations(page))).toBe('');

@@ -46,16 +46,28 @@ describe('the target dialog', () => {
       // BP−RP by default, named inside the colour field.
       const bpRp = dialog.getByRole('radio', { name: 'BP−RP' }).or(dialog.getByRole('button', { name: 'BP−RP', exact: true }));
       await expectChecked(bpRp.first(), true);
-      await expectChecked(dialog.getByRole('radio', { name: 'B−V' }).or(dialog.getByRole('button', { name: 'B−V', exact: true })).first(), false);
+      await expectChecked(
+        dialog
+          .getByRole('radio', { name: 'B−V' })
+          .or(dialog.getByRole('button', { name: 'B−V', exact: true }))
+          .first(),
+        false,
+      );
       expect(await dialog.getByLabel(/Colour index BP−RP/).count()).toBe(1);
       await shot(page, 'dialog-default-1440');
 
       // An implausible B−V: a warning (not an error) that points at the colour system.
       await dialog.getByLabel(/Colour index/).fill('2.5');
-      await dialog.getByRole('radio', { name: 'B−V' }).or(dialog.getByRole('button', { name: 'B−V', exact: true })).first().click();
+      await dialog
+        .getByRole('radio', { name: 'B−V' })
+        .or(dialog.getByRole('button', { name: 'B−V', exact: true }))
+        .first()
+        .click();
       const warning = dialog.getByTestId('colour-warning');
       await warning.waitFor();
-      expect(await warning.textContent()).toContain('A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.');
+      expect(await warning.textContent()).toContain(
+        'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.',
+      );
       expect(await dialog.getByTestId('error-colour').count()).toBe(0);
       await shot(page, 'colour-warning-1440');
       await settled(page);
@@ -75,7 +87,9 @@ describe('the target dialog', () => {
         'error-ageMyr': 'Enter an age above 0 Myr and at most 14000 Myr (you typed 0).',
       };
       for (const [id, text] of Object.entries(errors)) expect((await dialog.getByTestId(id).textContent())?.trim()).toBe(text);
-      expect((await dialog.getByTestId('fields-to-fix').textContent())?.trim()).toBe('5 fields need a change: Name, RA, Dec, Magnitude, Age.');
+      expect((await dialog.getByTestId('fields-to-fix').textContent())?.trim()).toBe(
+        '5 fields need a change: Name, RA, Dec, Magnitude, Age.',
+      );
       await shot(page, 'errors-1440');
       await settled(page);
       expect(describeViolations(await axeViolations(page))).toBe('');

@@ -16,7 +16,7 @@ export function requireAstropy(): string {
   if (r.error || r.status !== 0) {
     throw new Error(
       `astropy oracle unavailable: ${PYTHON} cannot import astropy (${r.error?.message ?? r.stderr.trim()}). ` +
-        'Install Debian\'s python3-astropy (apt-get install python3-astropy); the test set-up does this on a fresh machine.',
+        "Install Debian's python3-astropy (apt-get install python3-astropy); the test set-up does this on a fresh machine.",
     );
   }
   return r.stdout.trim();

@@ -18,8 +18,25 @@ print(json.dumps({
 `;
 
 describe('detection probability against scipy.stats (run in this test)', () => {
-  const marcum: Array<[number, number]> = [[0.5, 0.1], [1, 1], [2, 3], [3, 5], [5, 4], [6, 4.2], [10, 9], [30, 31], [40, 45]];
-  const finite: Array<[number, number, number]> = [[10, 0.3, 12], [30, 0.35, 17], [40, 0.2, 37], [25, 0.05, 200], [60, 0.6, 8], [5, 0.01, 1000]];
+  const marcum: Array<[number, number]> = [
+    [0.5, 0.1],
+    [1, 1],
+    [2, 3],
+    [3, 5],
+    [5, 4],
+    [6, 4.2],
+    [10, 9],
+    [30, 31],
+    [40, 45],
+  ];
+  const finite: Array<[number, number, number]> = [
+    [10, 0.3, 12],
+    [30, 0.35, 17],
+    [40, 0.2, 37],
+    [25, 0.05, 200],
+    [60, 0.6, 8],
+    [5, 0.01, 1000],
+  ];
   let answer: { marcum: number[]; finite: number[] };
   beforeAll(() => {
     answer = runAstropyOracle({ marcum, finite }, ['-c', ORACLE]);
@@ -29,10 +46,13 @@ describe('detection probability against scipy.stats (run in this test)', () => {
     expect(Math.abs(marcumQ1(a, b) / answer.marcum[i] - 1)).toBeLessThan(1e-10);
   });
 
-  it.each(finite.map((f, i) => [f[0], f[1], f[2], i] as const))('P(Z > Z0) at λ %p, Z0 %p, m %p equals scipy ncf.sf to 1e-9', (lam, z, m, i) => {
-    const th: DetectionThreshold = { power: z, points: m + 3, effectiveFrequencies: 1, falseAlarmProbability: 0.01 };
-    expect(detectionProbability(lam, th)).toBeCloseTo(answer.finite[i], 9);
-  });
+  it.each(finite.map((f, i) => [f[0], f[1], f[2], i] as const))(
+    'P(Z > Z0) at λ %p, Z0 %p, m %p equals scipy ncf.sf to 1e-9',
+    (lam, z, m, i) => {
+      const th: DetectionThreshold = { power: z, points: m + 3, effectiveFrequencies: 1, falseAlarmProbability: 0.01 };
+      expect(detectionProbability(lam, th)).toBeCloseTo(answer.finite[i], 9);
+    },
+  );
 
   it('the inverse lands on scipy too: ncf.sf at the λ for 90 % is 0.9', () => {
     const th: DetectionThreshold = { power: 0.35, points: 20, effectiveFrequencies: 1, falseAlarmProbability: 0.01 };

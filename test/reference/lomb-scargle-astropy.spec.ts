@@ -51,7 +51,10 @@ function makeCase(label: string, seed: number, n: number, withErrors: boolean, s
   for (let i = 0; i < n; i++) t.push(Math.floor(r.uniform(0, span)) + r.uniform(0.2, 0.45) + 0.01 * r.next());
   if (sorted) t.sort((a, b) => a - b);
   const dy = withErrors ? t.map(() => r.uniform(0.002, 0.02)) : null;
-  const y = t.map((ti, i) => 12 + 0.01 * Math.sin((2 * Math.PI * ti) / period + 1) + 0.003 * Math.cos((2 * Math.PI * ti) / 0.9) + r.normal(0, dy ? dy[i] : 0.008));
+  const y = t.map(
+    (ti, i) =>
+      12 + 0.01 * Math.sin((2 * Math.PI * ti) / period + 1) + 0.003 * Math.cos((2 * Math.PI * ti) / 0.9) + r.normal(0, dy ? dy[i] : 0.008),
+  );
   const tMin = Math.min(...t);
   const T = Math.max(...t) - tMin;
   const df = 1 / (5 * T);
@@ -105,7 +108,11 @@ describe('Lomb–Scargle against astropy (oracle)', () => {
       const d = prepareLightCurve(lc);
       const a = answers[index];
       a.fapPowers.forEach((z, i) => {
-        const ours = baluevFalseAlarmProbability(z, { pointCount: d.n, maximumFrequencyPerDay: gridMaxFrequency(grid), timeVarianceDays2: d.timeVariance });
+        const ours = baluevFalseAlarmProbability(z, {
+          pointCount: d.n,
+          maximumFrequencyPerDay: gridMaxFrequency(grid),
+          timeVarianceDays2: d.timeVariance,
+        });
         const theirs = a.fap[i];
         // Relative 1e-6 where the FAP is not tiny; absolute 1e-12 near 0.
         expect(Math.abs(ours - theirs)).toBeLessThanOrEqual(Math.max(1e-12, 1e-6 * theirs));

@@ -141,16 +141,22 @@ describe('moonlit sky brightness against an independent Python implementation of
     expect(answer.cases).toHaveLength(CASES.length);
   });
 
-  it.each(CASES.map((c, i) => [i, c] as const))('case %i: B_moon in nL agrees to 1e-9 relative (Python, from the KS91 formulas)', (i, c) => {
-    const expected = answer.cases[i].moonNl;
-    const got = moonSkyBrightnessNanolamberts(toInput(c));
-    if (expected === 0) expect(got).toBe(0);
-    else expect(Math.abs(got / expected - 1)).toBeLessThan(1e-9);
-  });
+  it.each(CASES.map((c, i) => [i, c] as const))(
+    'case %i: B_moon in nL agrees to 1e-9 relative (Python, from the KS91 formulas)',
+    (i, c) => {
+      const expected = answer.cases[i].moonNl;
+      const got = moonSkyBrightnessNanolamberts(toInput(c));
+      if (expected === 0) expect(got).toBe(0);
+      else expect(Math.abs(got / expected - 1)).toBeLessThan(1e-9);
+    },
+  );
 
-  it.each(CASES.map((c, i) => [i, c] as const))('case %i: total sky agrees to 1e-9 mag/arcsec² (Python, from the KS91 formulas)', (i, c) => {
-    expect(Math.abs(skyBrightnessMagPerArcsec2(toInput(c)) - answer.cases[i].skyMag)).toBeLessThan(1e-9);
-  });
+  it.each(CASES.map((c, i) => [i, c] as const))(
+    'case %i: total sky agrees to 1e-9 mag/arcsec² (Python, from the KS91 formulas)',
+    (i, c) => {
+      expect(Math.abs(skyBrightnessMagPerArcsec2(toInput(c)) - answer.cases[i].skyMag)).toBeLessThan(1e-9);
+    },
+  );
 
   it('a 61-night campaign: every night, median, worst and darkest agree (Python, KS91 formulas, statistics.median)', () => {
     const r = nightlySkyBrightness(toWindows(campaign.nights), campaign.dark, campaign.k);

@@ -68,7 +68,8 @@ const DERIVED_ROWS: DerivedRow[] = [
     compute: () => periodFromAge('mamajekHillenbrand2008', 0.65, 4570),
     expected: 26.18,
     digits: 2,
-    source: 'derived here from Mamajek & Hillenbrand (2008), ApJ 687, 1264, eqs. 12–14 with its published coefficients (a 0.407, b 0.325, c 0.495, n 0.566)',
+    source:
+      'derived here from Mamajek & Hillenbrand (2008), ApJ 687, 1264, eqs. 12–14 with its published coefficients (a 0.407, b 0.325, c 0.495, n 0.566)',
   },
   {
     n: 3,
@@ -76,7 +77,8 @@ const DERIVED_ROWS: DerivedRow[] = [
     compute: () => periodFromAge('angus2015', 0.65, 4570),
     expected: 25.02,
     digits: 2,
-    source: 'derived here from Angus et al. (2015), MNRAS 450, 1787, eq. 15 with its published coefficients (a 0.40, b 0.31, c 0.45, n 0.55)',
+    source:
+      'derived here from Angus et al. (2015), MNRAS 450, 1787, eq. 15 with its published coefficients (a 0.40, b 0.31, c 0.45, n 0.55)',
   },
   {
     n: 4,
@@ -84,7 +86,8 @@ const DERIVED_ROWS: DerivedRow[] = [
     compute: () => periodFromAge('angus2019', 0.82, 4570),
     expected: 26.02,
     digits: 2,
-    source: 'derived here from Angus et al. (2019), AJ 158, 173, log10 P = cA·log10(t/yr) + Σ ck·x^k with the full-precision coefficients of its Table (SCIENCE.md §1)',
+    source:
+      'derived here from Angus et al. (2019), AJ 158, 173, log10 P = cA·log10(t/yr) + Σ ck·x^k with the full-precision coefficients of its Table (SCIENCE.md §1)',
   },
   {
     n: 5,
@@ -108,7 +111,8 @@ const DERIVED_ROWS: DerivedRow[] = [
     compute: () => turnoverTimeNoyes1984(0.65),
     expected: 11.99,
     digits: 2,
-    source: 'derived here from Noyes et al. (1984), ApJ 279, 763, eq. 4 (equation number [memory]), log10 τ = 1.362 − 0.166x + 0.025x² − 5.323x³, x = 1 − (B−V)',
+    source:
+      'derived here from Noyes et al. (1984), ApJ 279, 763, eq. 4 (equation number [memory]), log10 τ = 1.362 − 0.166x + 0.025x² − 5.323x³, x = 1 − (B−V)',
   },
   {
     n: 7,
@@ -153,10 +157,12 @@ const DERIVED_ROWS: DerivedRow[] = [
   {
     n: 15,
     what: 'σP with N 60, A 0.005, σ 0.003, T 60 d, P 10 d (d)',
-    compute: () => periodPrecision({ visits: 60, semiAmplitudePpm: 5000, sigmaPpm: 3000, baselineDays: 60, periodDays: 10 }).sigmaPeriodDays,
+    compute: () =>
+      periodPrecision({ visits: 60, semiAmplitudePpm: 5000, sigmaPpm: 3000, baselineDays: 60, periodDays: 10 }).sigmaPeriodDays,
     expected: 0.101,
     digits: 3,
-    source: "derived here from Montgomery & O'Donoghue (1999), DSSN 13, 28 (Kovács 1981 form), σf = sqrt(6/N)·σ/(π·A·T), σP = P²·σf [memory]",
+    source:
+      "derived here from Montgomery & O'Donoghue (1999), DSSN 13, 28 (Kovács 1981 form), σf = sqrt(6/N)·σ/(π·A·T), σP = P²·σf [memory]",
   },
 ];
 
@@ -166,7 +172,8 @@ describe('SCIENCE.md §8 check values derived from published formulas', () => {
   });
 });
 
-const ASTROPY_POWER = 'astropy 5.2.1 LombScargle(fit_mean=True, center_data=True, normalization="standard").power(method="slow"), run in this test';
+const ASTROPY_POWER =
+  'astropy 5.2.1 LombScargle(fit_mean=True, center_data=True, normalization="standard").power(method="slow"), run in this test';
 const ASTROPY_FAP =
   'astropy 5.2.1 LombScargle.false_alarm_probability(method="baluev", samples_per_peak=5, maximum_frequency=0.5), i.e. Baluev (2008), MNRAS 385, 1279, run in this test';
 const FAP_POWER = 0.3;
@@ -210,8 +217,15 @@ const ASTROPY_ROWS: AstropyRow[] = [
       const d = prepareLightCurve(checkSeries());
       // astropy's false_alarm_probability(maximum_frequency=0.5) uses the last frequency of
       // autofrequency(samples_per_peak=5, maximum_frequency=0.5): 0.50041…, checked below.
-      const g = autoFrequencyGrid(d.baselineDays, d.n, { samplesPerPeak: FAP_LIMITS.samplesPerPeak, maximumFrequencyPerDay: FAP_LIMITS.maximumFrequency });
-      return baluevFalseAlarmProbability(FAP_POWER, { pointCount: d.n, maximumFrequencyPerDay: gridMaxFrequency(g), timeVarianceDays2: d.timeVariance });
+      const g = autoFrequencyGrid(d.baselineDays, d.n, {
+        samplesPerPeak: FAP_LIMITS.samplesPerPeak,
+        maximumFrequencyPerDay: FAP_LIMITS.maximumFrequency,
+      });
+      return baluevFalseAlarmProbability(FAP_POWER, {
+        pointCount: d.n,
+        maximumFrequencyPerDay: gridMaxFrequency(g),
+        timeVarianceDays2: d.timeVariance,
+      });
     },
     astropy: (a) => a.fap![0],
     digits: 7,
@@ -238,15 +252,21 @@ describe('SCIENCE.md §8 check values computed by astropy (oracle run in this te
     expect(version).toMatch(/^5\.2\./);
   });
 
-  it.each(ASTROPY_ROWS)('#$n $what = astropy\'s value to $digits decimals; SCIENCE.md records $recorded (source: $source)', ({ compute, astropy, digits, recorded }) => {
-    const theirs = astropy(answer);
-    expect(compute()).toBeCloseTo(theirs, digits);
-    expect(theirs).toBeCloseTo(recorded, digits);
-  });
+  it.each(ASTROPY_ROWS)(
+    "#$n $what = astropy's value to $digits decimals; SCIENCE.md records $recorded (source: $source)",
+    ({ compute, astropy, digits, recorded }) => {
+      const theirs = astropy(answer);
+      expect(compute()).toBeCloseTo(theirs, digits);
+      expect(theirs).toBeCloseTo(recorded, digits);
+    },
+  );
 
-  it('#14 takes fmax as astropy does: our grid ends at astropy\'s autofrequency limit (source: astropy 5.2.1 LombScargle.autofrequency, run in this test)', () => {
+  it("#14 takes fmax as astropy does: our grid ends at astropy's autofrequency limit (source: astropy 5.2.1 LombScargle.autofrequency, run in this test)", () => {
     const d = prepareLightCurve(checkSeries());
-    const g = autoFrequencyGrid(d.baselineDays, d.n, { samplesPerPeak: FAP_LIMITS.samplesPerPeak, maximumFrequencyPerDay: FAP_LIMITS.maximumFrequency });
+    const g = autoFrequencyGrid(d.baselineDays, d.n, {
+      samplesPerPeak: FAP_LIMITS.samplesPerPeak,
+      maximumFrequencyPerDay: FAP_LIMITS.maximumFrequency,
+    });
     expect(gridMaxFrequency(g)).toBeCloseTo(answer.fapFrequencyLimits![1], 12);
   });
 });

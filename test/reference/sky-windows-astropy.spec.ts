@@ -228,7 +228,9 @@ describe('sky windows against astropy 5.2.1 (reference)', () => {
       const startMs = ours.windowStartUtcMs + theirs[0] * 1000;
       const endMs = ours.windowStartUtcMs + theirs[1] * 1000;
       if (process.env.SKY_REFERENCE_VERBOSE) {
-        console.log(`${c.label}: dark start ${((ours.darkStartUtcMs - startMs) / 1000).toFixed(1)} s, end ${((ours.darkEndUtcMs! - endMs) / 1000).toFixed(1)} s`);
+        console.log(
+          `${c.label}: dark start ${((ours.darkStartUtcMs - startMs) / 1000).toFixed(1)} s, end ${((ours.darkEndUtcMs! - endMs) / 1000).toFixed(1)} s`,
+        );
       }
       expect({ label: c.label, start: Math.abs(ours.darkStartUtcMs - startMs) < 120_000 }).toEqual({ label: c.label, start: true });
       expect({ label: c.label, end: Math.abs(ours.darkEndUtcMs! - endMs) < 120_000 }).toEqual({ label: c.label, end: true });
@@ -242,7 +244,11 @@ describe('sky windows against astropy 5.2.1 (reference)', () => {
         const ours = c.result.targets[j].usableHoursByNight[0];
         const theirs = oracle.cases[i].hours[j];
         worst = Math.max(worst, Math.abs(ours - theirs));
-        expect({ case: c.label, target: t.name, close: Math.abs(ours - theirs) < 0.05 }).toEqual({ case: c.label, target: t.name, close: true });
+        expect({ case: c.label, target: t.name, close: Math.abs(ours - theirs) < 0.05 }).toEqual({
+          case: c.label,
+          target: t.name,
+          close: true,
+        });
       });
     });
     expect(worst).toBeLessThan(0.05);

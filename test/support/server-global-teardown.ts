@@ -6,7 +6,8 @@ import { releaseTestCluster } from './test-cluster';
  * the cluster if a run started it and no other run (`npm test`, another jest) still uses it.
  */
 export default async function globalTeardown(): Promise<void> {
-  const state = (globalThis as Record<string, unknown>)[SERVER_CLUSTER_STATE] as { lease: string; removeSignalHandlers: () => void } | undefined;
+  const state = (globalThis as Record<string, unknown>)[SERVER_CLUSTER_STATE] as
+    { lease: string; removeSignalHandlers: () => void } | undefined;
   if (!state) return;
   delete (globalThis as Record<string, unknown>)[SERVER_CLUSTER_STATE];
   state.removeSignalHandlers();

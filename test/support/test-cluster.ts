@@ -33,7 +33,11 @@ export function bringUpTestCluster(databases: string[], what: string): TestClust
   ].join('\n');
   let out: string;
   try {
-    out = execFileSync(process.execPath, ['--input-type=module', '-e', script], { cwd: root, encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] });
+    out = execFileSync(process.execPath, ['--input-type=module', '-e', script], {
+      cwd: root,
+      encoding: 'utf8',
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
   } catch (err) {
     const e = err as { stderr?: string; stdout?: string; message: string };
     throw new Error(`the test cluster did not come up: ${e.message}\n${e.stderr ?? ''}${e.stdout ?? ''}`);
@@ -50,10 +54,14 @@ export function bringUpTestCluster(databases: string[], what: string): TestClust
  * lease-holders started it (never a cluster `npm test` or another jest run still uses).
  */
 export function releaseTestCluster(lease: string): void {
-  execFileSync(process.execPath, ['--input-type=module', '-e', `const c = await import('./database/cluster.mjs'); c.releaseLease('test', ${JSON.stringify(lease)});`], {
-    cwd: root,
-    stdio: 'inherit',
-  });
+  execFileSync(
+    process.execPath,
+    ['--input-type=module', '-e', `const c = await import('./database/cluster.mjs'); c.releaseLease('test', ${JSON.stringify(lease)});`],
+    {
+      cwd: root,
+      stdio: 'inherit',
+    },
+  );
 }
 
 /**

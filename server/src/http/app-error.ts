@@ -16,4 +16,5 @@ export class AppError extends Error {
 export const notFound = (what: string) => new AppError('not_found', `${what} was not found`, 404);
 
 /** 400 `validation_failed` about one field of the input, in the shape of a zod refusal (`field: message`). */
-export const invalidField = (field: string, message: string) => new AppError('validation_failed', `${field}: ${message}`, 400, { [field]: [message] });
+export const invalidField = (field: string, message: string) =>
+  new AppError('validation_failed', `${field}: ${message}`, 400, { [field]: [message] });

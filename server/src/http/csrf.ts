@@ -51,7 +51,8 @@ export function createCsrf(options: { secureCookies: boolean; secret: string }) 
   /** After sign-in or sign-out the session is new: give it a new token at once. */
   const renew = (req: Request, res: Response) => setCookie(res, req.user ? generateToken(req, true) : newSignedOutToken());
 
-  const refuse = () => new AppError('csrf_failed', 'The page’s security token is missing or out of date. Reload the page and try again.', 403);
+  const refuse = () =>
+    new AppError('csrf_failed', 'The page’s security token is missing or out of date. Reload the page and try again.', 403);
 
   const protect: RequestHandler = (req, res, next) => {
     if (SAFE_METHODS.has(req.method)) {

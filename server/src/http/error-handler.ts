@@ -43,13 +43,20 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     // Upload routes translate multer's errors themselves (http/upload-limits.ts); this is the
     // safety net for any other, so that they still leave in the API error shape.
     const status = err.code === 'LIMIT_FILE_SIZE' ? 413 : 400;
-    res.status(status).json({ code: err.code.toLowerCase(), message: `Upload refused: ${err.message}${err.field ? ` (field ${err.field})` : ''}` });
+    res
+      .status(status)
+      .json({ code: err.code.toLowerCase(), message: `Upload refused: ${err.message}${err.field ? ` (field ${err.field})` : ''}` });
     return;
   }
   const e = err as HttpishError;
   const status = e.status ?? e.statusCode;
   if (status && status >= 400 && status < 500) {
-    const code = e.type === 'entity.parse.failed' ? 'malformed_json' : e.type === 'entity.too.large' ? 'payload_too_large' : e.code?.toLowerCase() ?? 'bad_request';
+    const code =
+      e.type === 'entity.parse.failed'
+        ? 'malformed_json'
+        : e.type === 'entity.too.large'
+          ? 'payload_too_large'
+          : (e.code?.toLowerCase() ?? 'bad_request');
     const message = e.type === 'entity.parse.failed' ? 'The request body is not valid JSON' : e.message;
     res.status(status).json({ code, message });
     return;

@@ -2,7 +2,10 @@ import { jsonWithRawMember } from './raw-json';
 
 describe('jsonWithRawMember', () => {
   it('gives the same JSON as stringifying the whole object', () => {
-    const rows = [{ a: 1, b: 'x"y' }, { a: 2, b: null }];
+    const rows = [
+      { a: 1, b: 'x"y' },
+      { a: 2, b: null },
+    ];
     const text = jsonWithRawMember({ page: 1, run: { state: 'done' } }, 'plans', JSON.stringify(rows));
     expect(JSON.parse(text)).toEqual({ page: 1, run: { state: 'done' }, plans: rows });
   });

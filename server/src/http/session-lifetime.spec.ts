@@ -24,7 +24,8 @@ function countingStore() {
 }
 
 const signedIn = () => ({ cookie: { originalMaxAge: 3600_000, expires: new Date(Date.now() + 3600_000) }, passport: { user: 7 } }) as never;
-const call = (fn: (cb: (err?: unknown) => void) => void) => new Promise<void>((resolve, reject) => fn((err) => (err ? reject(err) : resolve())));
+const call = (fn: (cb: (err?: unknown) => void) => void) =>
+  new Promise<void>((resolve, reject) => fn((err) => (err ? reject(err) : resolve())));
 
 describe('throttleSessionTouch', () => {
   it('renews a session in the store at most once per interval, and again after it', async () => {

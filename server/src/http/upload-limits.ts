@@ -31,7 +31,8 @@ export function singleFileUpload(options: SingleFileUploadOptions): RequestHandl
     upload(req, res, (err?: unknown) => {
       if (!err) return next();
       if (err instanceof MulterError) {
-        if (err.code === 'LIMIT_FILE_SIZE') return next(new AppError('file_too_large', options.tooLargeMessage, 413, { [options.field]: [options.tooLargeMessage] }));
+        if (err.code === 'LIMIT_FILE_SIZE')
+          return next(new AppError('file_too_large', options.tooLargeMessage, 413, { [options.field]: [options.tooLargeMessage] }));
         if (err.code === 'LIMIT_UNEXPECTED_FILE' || err.code === 'LIMIT_FILE_COUNT') {
           const message = `Send exactly one file, in the form field "${options.field}"`;
           return next(new AppError('unexpected_file_field', message, 400, { [options.field]: [message] }));

@@ -30,9 +30,13 @@ export async function startPlanWorker(deps: { config: Config; db: Db; logger: Lo
   }
   if (leftover.length) logger.info({ count: leftover.length }, 'queued unfinished plan runs again');
 
-  await boss.work<PlanJobData>(config.PLAN_QUEUE, { batchSize: 1, pollingIntervalSeconds: config.PLAN_WORKER_POLL_SECONDS }, async ([job]) => {
-    await runPlanJob(db, job.data.proposalId, logger);
-  });
+  await boss.work<PlanJobData>(
+    config.PLAN_QUEUE,
+    { batchSize: 1, pollingIntervalSeconds: config.PLAN_WORKER_POLL_SECONDS },
+    async ([job]) => {
+      await runPlanJob(db, job.data.proposalId, logger);
+    },
+  );
   logger.info({ queue: config.PLAN_QUEUE }, 'plan worker ready');
 
   return {

@@ -7,7 +7,12 @@ export type { Role };
 /** Minimum password length; a memory-hard hash protects the rest. */
 export const PASSWORD_MIN_LENGTH = 10;
 
-const email = z.string().trim().toLowerCase().pipe(z.email({ message: 'Enter a valid e-mail address' })).pipe(z.string().max(254));
+const email = z
+  .string()
+  .trim()
+  .toLowerCase()
+  .pipe(z.email({ message: 'Enter a valid e-mail address' }))
+  .pipe(z.string().max(254));
 const password = z
   .string()
   .min(PASSWORD_MIN_LENGTH, { message: `Use at least ${PASSWORD_MIN_LENGTH} characters` })
@@ -54,7 +59,8 @@ export const signUpSchema = z
     affiliation: safeText(z.string().trim().max(200)).default(''),
   })
   .superRefine((v, ctx) => {
-    if (passwordContainsEmail(v.password, v.email)) ctx.addIssue({ code: 'custom', path: ['password'], message: PASSWORD_CONTAINS_EMAIL_MESSAGE });
+    if (passwordContainsEmail(v.password, v.email))
+      ctx.addIssue({ code: 'custom', path: ['password'], message: PASSWORD_CONTAINS_EMAIL_MESSAGE });
   });
 export type SignUpInput = z.input<typeof signUpSchema>;
 

@@ -48,7 +48,7 @@ describe('spincycle CLI', () => {
     for (const name of ['period', 'age', 'plan', 'periodogram']) expect(r.stdout).toMatch(new RegExp(`\\n  ${name} `));
   });
 
-  it('prints each command\'s usage with --help', async () => {
+  it("prints each command's usage with --help", async () => {
     for (const name of ['period', 'age', 'plan', 'periodogram']) {
       const r = await cli(name, '--help');
       expect(r.code).toBe(0);
@@ -129,7 +129,21 @@ describe('spincycle CLI', () => {
 
   describe('plan', () => {
     it('explains every number of the plan on the default node', async () => {
-      const r = await cli('plan', '--name', 'Star A-17', '--bprp', '1.1', '--age', '800', '--age-error', '100', '--mag', '11.5', '--band', 'G');
+      const r = await cli(
+        'plan',
+        '--name',
+        'Star A-17',
+        '--bprp',
+        '1.1',
+        '--age',
+        '800',
+        '--age-error',
+        '100',
+        '--mag',
+        '11.5',
+        '--band',
+        'G',
+      );
       expect(r.code).toBe(0);
       expect(r.json.targetName).toBe('Star A-17');
       expect(r.json.quantities.visits.value).toBeGreaterThan(0);
@@ -153,7 +167,9 @@ describe('spincycle CLI', () => {
     // docs/command-line.md, section "`plan`", the `--summary` example: its output is pasted
     // whole, so the documented numbers (quantities, analysis, flags) must be today's.
     it('prints exactly the --summary example of docs/command-line.md', async () => {
-      const [example] = documentedExamples('docs/command-line.md', 'spincycle ').filter((e) => e.argv[0] === 'plan' && e.argv.includes('--summary'));
+      const [example] = documentedExamples('docs/command-line.md', 'spincycle ').filter(
+        (e) => e.argv[0] === 'plan' && e.argv.includes('--summary'),
+      );
       expect(example.argv).toEqual(expect.arrayContaining(['plan', '--summary']));
       const r = await cli(...example.argv);
       expect(r.code).toBe(0);
@@ -161,7 +177,14 @@ describe('spincycle CLI', () => {
       expect(documented.quantities).toEqual(r.json.quantities);
       expect(documented.analysis).toEqual(r.json.analysis);
       expect(documented).toEqual(r.json);
-      for (const key of ['completeness', 'visitsForCompleteness50', 'visitsForCompleteness90', 'visitsForCompleteness99', 'searchMinFrequencyPerDay', 'searchMaxFrequencyPerDay']) {
+      for (const key of [
+        'completeness',
+        'visitsForCompleteness50',
+        'visitsForCompleteness90',
+        'visitsForCompleteness99',
+        'searchMinFrequencyPerDay',
+        'searchMaxFrequencyPerDay',
+      ]) {
         expect(typeof documented.quantities[key]).toBe('string');
       }
     });
@@ -192,7 +215,8 @@ describe('spincycle CLI', () => {
       const r = await cli('plan', '--bprp', '1.1', '--age', '800', '--mag', '11.5', '--band', 'G', '--completeness', '0.5', '--summary');
       expect(r.code).toBe(0);
       expect(r.json.quantities.requestedCompleteness).toBe('0.5');
-      for (const key of ['completeness', 'visitsForCompleteness50', 'visitsForCompleteness90', 'visitsForCompleteness99']) expect(r.json.quantities[key]).toMatch(/^\d/);
+      for (const key of ['completeness', 'visitsForCompleteness50', 'visitsForCompleteness90', 'visitsForCompleteness99'])
+        expect(r.json.quantities[key]).toMatch(/^\d/);
       expect(r.json.analysis).toEqual({
         series: expect.stringMatching(/^(nightlyMeans|visits)$/),
         minFrequencyPerDay: expect.any(Number),
@@ -272,12 +296,16 @@ describe('spincycle CLI', () => {
       writeFileSync(planFile, r.stdout);
     });
 
-    it('searches the plan\'s band on nightly means and says whether the peak clears the plan\'s false-alarm level', async () => {
+    it("searches the plan's band on nightly means and says whether the peak clears the plan's false-alarm level", async () => {
       expect(analysis.minFrequencyPerDay).toBeLessThan(1 / PERIOD);
       expect(analysis.maxFrequencyPerDay).toBeGreaterThan(1 / PERIOD);
       const r = await cli('periodogram', campaignCsv('signal.csv', 7, 4e-3), '--plan', planFile, '--kind', 'flux');
       expect(r.code).toBe(0);
-      expect(r.json.search).toEqual({ minFrequencyPerDay: analysis.minFrequencyPerDay, maxFrequencyPerDay: analysis.maxFrequencyPerDay, from: 'plan' });
+      expect(r.json.search).toEqual({
+        minFrequencyPerDay: analysis.minFrequencyPerDay,
+        maxFrequencyPerDay: analysis.maxFrequencyPerDay,
+        from: 'plan',
+      });
       expect(r.json.grid.maxFrequencyPerDay).toBeCloseTo(analysis.maxFrequencyPerDay, 12);
       expect(r.json.series).toEqual({ analysed: analysis.series, from: 'plan', points: 150, nights: 50, nightSigma: 'errors' });
       expect(r.json.pointCount).toBe(analysis.series === 'nightlyMeans' ? 50 : 150);
@@ -298,7 +326,7 @@ describe('spincycle CLI', () => {
       expect(r.json.best.falseAlarmProbability).toBeGreaterThan(analysis.falseAlarmProbability);
     });
 
-    it('lets --fmin/--fmax override the plan\'s band, with a note', async () => {
+    it("lets --fmin/--fmax override the plan's band, with a note", async () => {
       const r = await cli('periodogram', campaignCsv('signal2.csv', 7, 4e-3), '--plan', planFile, '--fmax', '2', '--kind', 'flux');
       expect(r.code).toBe(0);
       expect(r.json.search.from).toBe('options');
@@ -313,7 +341,11 @@ describe('spincycle CLI', () => {
     it('reports the default band when there is no plan, and --nightly-means from the scatter', async () => {
       const file = campaignCsv('noerr.csv', 3, 4e-3, false);
       const r = await cli('periodogram', file, '--kind', 'flux', '--top', '1');
-      expect(r.json.search).toEqual({ minFrequencyPerDay: r.json.grid.minFrequencyPerDay, maxFrequencyPerDay: r.json.grid.maxFrequencyPerDay, from: 'default' });
+      expect(r.json.search).toEqual({
+        minFrequencyPerDay: r.json.grid.minFrequencyPerDay,
+        maxFrequencyPerDay: r.json.grid.maxFrequencyPerDay,
+        from: 'default',
+      });
       expect(r.json.search.minFrequencyPerDay).toBeCloseTo(r.json.grid.stepPerDay / 2, 15);
       expect(r.json.search.maxFrequencyPerDay).toBeCloseTo((5 * 150) / (2 * r.json.baselineDays), 1);
       expect(r.json.series).toEqual({ analysed: 'visits', from: 'default', points: 150 });

@@ -36,7 +36,11 @@ function overview(commands: CliCommand[]): string {
 
 /** Any input error of the shared code that names its field (ScienceInputError, SkyInputError…). */
 function isFieldError(err: unknown): boolean {
-  return err instanceof Error && typeof (err as { field?: unknown }).field === 'string' && typeof (err as { reason?: unknown }).reason === 'string';
+  return (
+    err instanceof Error &&
+    typeof (err as { field?: unknown }).field === 'string' &&
+    typeof (err as { reason?: unknown }).reason === 'string'
+  );
 }
 
 /** Runs the CLI on `argv` (without node and script) and returns the exit code. */

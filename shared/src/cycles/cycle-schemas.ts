@@ -34,7 +34,12 @@ export function earliestCampaignStart(callClosesAt: string): string {
 /** POST /api/cycles and PUT /api/cycles/:id (facility managers). Instants are stored in UTC. */
 export const cycleInputSchema = z
   .object({
-    code: z.string().trim().min(1, { message: 'give the cycle a short code' }).max(20).regex(/^[A-Za-z0-9._-]+$/, { message: 'letters, digits, dot, dash or underscore' }),
+    code: z
+      .string()
+      .trim()
+      .min(1, { message: 'give the cycle a short code' })
+      .max(20)
+      .regex(/^[A-Za-z0-9._-]+$/, { message: 'letters, digits, dot, dash or underscore' }),
     title: z.string().trim().min(1, { message: 'give the cycle a title' }).max(200),
     callOpensAt: isoInstant,
     callClosesAt: isoInstant,
@@ -50,7 +55,8 @@ export const cycleInputSchema = z
       .max(50),
   })
   .superRefine((c, ctx) => {
-    if (Date.parse(c.callClosesAt) <= Date.parse(c.callOpensAt)) ctx.addIssue({ code: 'custom', path: ['callClosesAt'], message: 'the call must close after it opens' });
+    if (Date.parse(c.callClosesAt) <= Date.parse(c.callOpensAt))
+      ctx.addIssue({ code: 'custom', path: ['callClosesAt'], message: 'the call must close after it opens' });
     if (!Number.isNaN(Date.parse(c.callClosesAt)) && c.campaignStart < earliestCampaignStart(c.callClosesAt)) {
       ctx.addIssue({
         code: 'custom',
@@ -58,7 +64,8 @@ export const cycleInputSchema = z
         message: `the campaign cannot start before the call closes (${formatUtcInstant(c.callClosesAt)}): first night ${earliestCampaignStart(c.callClosesAt)} or later`,
       });
     }
-    if (c.campaignEnd < c.campaignStart) ctx.addIssue({ code: 'custom', path: ['campaignEnd'], message: 'the campaign must end on or after its first night' });
+    if (c.campaignEnd < c.campaignStart)
+      ctx.addIssue({ code: 'custom', path: ['campaignEnd'], message: 'the campaign must end on or after its first night' });
     const days = (Date.parse(c.campaignEnd) - Date.parse(c.campaignStart)) / 86400_000 + 1;
     if (days > 366) ctx.addIssue({ code: 'custom', path: ['campaignEnd'], message: 'a campaign lasts at most 366 nights' });
     const seen = new Set<number>();

@@ -11,7 +11,11 @@ const idMessage = 'must be a positive whole number';
 const idRangeMessage = `must be at most ${MAX_DB_ID}`;
 
 /** An id in a JSON body: a positive integer ≤ 2³¹−1. */
-export const idSchema = z.number({ message: idMessage }).int({ message: idMessage }).positive({ message: idMessage }).max(MAX_DB_ID, { message: idRangeMessage });
+export const idSchema = z
+  .number({ message: idMessage })
+  .int({ message: idMessage })
+  .positive({ message: idMessage })
+  .max(MAX_DB_ID, { message: idRangeMessage });
 
 /** An id in a path or query string: digits only (no `1e3`, `0x10`, spaces), then the same range as idSchema. */
 export const idParam = z

@@ -4,14 +4,41 @@ import { skyLimitsForNode } from '../sky/sky-windows-report';
 import { computeNodeTargetPlan, requirementFromPlan } from './node-target-plan';
 
 // An invented northern node (demo-like values; the checks below are about behaviour, not numbers).
-const site: SiteSpec = { latitudeDeg: 35, longitudeDeg: -108, elevationM: 2200, timeZone: 'America/Denver', skyBrightnessMagPerArcsec2: 21.5 };
-const node: NodeSpec = {
-  apertureM: 0.5, obstructionFraction: 0.4, throughput: 0.55, band: 'V', readNoiseE: 9, darkCurrentEPerS: 0.02, gainEPerAdu: 1.3,
-  saturationE: 80000, pixelScaleArcsec: 0.8, seeingFwhmArcsec: 1.6, systematicFloorMmag: 1, scintillationModel: 'young1967',
-  overheadSeconds: 45, minExposureSeconds: 2, maxExposureSeconds: 300, altitudeLimitDeg: 25, sunAltitudeLimitDeg: -18,
-  weatherLossFraction: 0.3, rateMinorPerHour: 4500, currency: 'eur',
+const site: SiteSpec = {
+  latitudeDeg: 35,
+  longitudeDeg: -108,
+  elevationM: 2200,
+  timeZone: 'America/Denver',
+  skyBrightnessMagPerArcsec2: 21.5,
 };
-const target = { colour: { value: 0.9, system: 'BV' as const }, ageMyr: 600, ageUncertaintyMyr: 60, magnitude: { value: 12, band: 'V' as const } };
+const node: NodeSpec = {
+  apertureM: 0.5,
+  obstructionFraction: 0.4,
+  throughput: 0.55,
+  band: 'V',
+  readNoiseE: 9,
+  darkCurrentEPerS: 0.02,
+  gainEPerAdu: 1.3,
+  saturationE: 80000,
+  pixelScaleArcsec: 0.8,
+  seeingFwhmArcsec: 1.6,
+  systematicFloorMmag: 1,
+  scintillationModel: 'young1967',
+  overheadSeconds: 45,
+  minExposureSeconds: 2,
+  maxExposureSeconds: 300,
+  altitudeLimitDeg: 25,
+  sunAltitudeLimitDeg: -18,
+  weatherLossFraction: 0.3,
+  rateMinorPerHour: 4500,
+  currency: 'eur',
+};
+const target = {
+  colour: { value: 0.9, system: 'BV' as const },
+  ageMyr: 600,
+  ageUncertaintyMyr: 60,
+  magnitude: { value: 12, band: 'V' as const },
+};
 
 function windowsFor(raDeg: number, decDeg: number, campaign = { firstNight: '2027-01-01', lastNight: '2027-06-29' }) {
   const result = computeSkyWindows({
@@ -49,10 +76,17 @@ describe('computeNodeTargetPlan', () => {
   });
 
   it('suggests a longer exposure only where one is possible: not for a star already at its saturation limit', () => {
-    const bright = computeNodeTargetPlan({ ...target, ageMyr: 4000, ageUncertaintyMyr: 400, magnitude: { value: 10, band: 'V' } }, node, site, windowsFor(130, 20));
+    const bright = computeNodeTargetPlan(
+      { ...target, ageMyr: 4000, ageUncertaintyMyr: 400, magnitude: { value: 10, band: 'V' } },
+      node,
+      site,
+      windowsFor(130, 20),
+    );
     expect(bright.plan.quantities.exposureSeconds.value).toBeCloseTo(bright.plan.quantities.saturationLimitSeconds.value, 0);
     expect(bright.suggestions.map((s) => s.kind)).not.toContain('longer_exposure');
-    const short = computeNodeTargetPlan({ ...target, magnitude: { value: 14, band: 'V' } }, node, site, windowsFor(130, 20), { exposureSeconds: 5 });
+    const short = computeNodeTargetPlan({ ...target, magnitude: { value: 14, band: 'V' } }, node, site, windowsFor(130, 20), {
+      exposureSeconds: 5,
+    });
     expect(short.plan.flags.map((f) => f.code)).toContain('precisionGoalNotReached');
     expect(short.suggestions.find((s) => s.kind === 'longer_exposure')?.message).toMatch(/up to \d+ s/);
   });
@@ -88,7 +122,10 @@ describe('computeNodeTargetPlan: season, phase coverage and moonlight from the s
 
   it('phase coverage: a 1.06 d period (beat period ≈ 18 d) needs more nights than 3 cycles to drift through its phases: the baseline is lengthened', () => {
     const nearDay = { ...target, periodDays: 1.06, periodUncertaintyDays: 0.005 };
-    const short = computeNodeTargetPlan(nearDay, node, site, windowsFor(130, 20), { sky: { medianMagPerArcsec2: 21.5, worstMagPerArcsec2: 21.5, usableNights: 1, source: 'test' }, baselineCycles: 3 });
+    const short = computeNodeTargetPlan(nearDay, node, site, windowsFor(130, 20), {
+      sky: { medianMagPerArcsec2: 21.5, worstMagPerArcsec2: 21.5, usableNights: 1, source: 'test' },
+      baselineCycles: 3,
+    });
     expect(short.plan.flags.map((f) => f.code)).toContain('baselineForPhaseCoverage');
     expect(short.plan.quantities.baselineDays.value).toBeGreaterThan(Math.ceil(3 * short.plan.quantities.longestPeriodDays.value));
     expect(short.phase.action).toBe('ok');
@@ -106,7 +143,12 @@ describe('computeNodeTargetPlan: season, phase coverage and moonlight from the s
     expect(q.skyBrightnessMagPerArcsec2.value).toBeLessThan(site.skyBrightnessMagPerArcsec2);
     expect(q.worstSkyBrightnessMagPerArcsec2.value).toBeLessThan(q.skyBrightnessMagPerArcsec2.value);
     const dark = computeNodeTargetPlan(target, node, site, windowsFor(130, 20), {
-      sky: { medianMagPerArcsec2: site.skyBrightnessMagPerArcsec2, worstMagPerArcsec2: site.skyBrightnessMagPerArcsec2, usableNights: 100, source: 'test' },
+      sky: {
+        medianMagPerArcsec2: site.skyBrightnessMagPerArcsec2,
+        worstMagPerArcsec2: site.skyBrightnessMagPerArcsec2,
+        usableNights: 100,
+        source: 'test',
+      },
     });
     expect(dark.plan.precision.components.skyPpm).toBeLessThan(moonlit.plan.precision.components.skyPpm);
   });

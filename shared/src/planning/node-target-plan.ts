@@ -7,7 +7,13 @@
 import type { NodeSpec, SiteSpec } from '../facility/facility-types';
 import { DEFAULT_EXTINCTION_MAG_PER_AIRMASS } from '../science/photometric-bands';
 import { countOf } from '../science/explained';
-import { computeTargetPlan, type PlanSkyConditions, type TargetPlan, type TargetPlanOptions, type TargetPlanTarget } from '../science/target-plan';
+import {
+  computeTargetPlan,
+  type PlanSkyConditions,
+  type TargetPlan,
+  type TargetPlanOptions,
+  type TargetPlanTarget,
+} from '../science/target-plan';
 import { assessCadence, type CadenceAssessment, type CadenceRequirement } from '../sky/cadence-assessment';
 import { nightlySkyBrightness } from '../sky/moon-sky-brightness';
 import type { TargetWindows } from '../sky/sky-types';
@@ -33,7 +39,8 @@ export function requirementFromPlan(plan: TargetPlan): CadenceRequirement {
 }
 
 /** What a person can change to make an infeasible plan work. */
-export type SuggestionKind = 'other_node' | 'longer_exposure' | 'more_visits_per_night' | 'fewer_samples' | 'multi_season' | 'other_longitude' | 'explicit_period';
+export type SuggestionKind =
+  'other_node' | 'longer_exposure' | 'more_visits_per_night' | 'fewer_samples' | 'multi_season' | 'other_longitude' | 'explicit_period';
 
 export interface PlanSuggestion {
   kind: SuggestionKind;
@@ -58,20 +65,32 @@ export interface NodeTargetPlan {
  * Combines a computed plan with the target's windows from the node's site. `windows` must
  * come from `computeSkyWindows` with this node's limits (see `skyLimitsForNode`).
  */
-export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, node: Pick<NodeSpec, 'weatherLossFraction' | 'maxExposureSeconds'>): NodeTargetPlan {
+export function combinePlanWithSky(
+  plan: TargetPlan,
+  windows: TargetWindows,
+  node: Pick<NodeSpec, 'weatherLossFraction' | 'maxExposureSeconds'>,
+): NodeTargetPlan {
   const req = requirementFromPlan(plan);
   const sky = assessCadence(windows, req, node.weatherLossFraction);
   const q = plan.quantities;
   const season = assessSeason(windows, q.baselineDays.value);
   const phase = assessPhaseCoverage(
     windows,
-    { baselineDays: q.baselineDays.value, visitsPerNight: req.visitsPerNight, nightStepDays: Math.max(1, Math.round(q.nightStepDays.value)), visitHours: req.visitHours },
+    {
+      baselineDays: q.baselineDays.value,
+      visitsPerNight: req.visitsPerNight,
+      nightStepDays: Math.max(1, Math.round(q.nightStepDays.value)),
+      visitHours: req.visitHours,
+    },
     { low: q.shortestPeriodDays.value, high: q.longestPeriodDays.value },
   );
   const reasons = [...plan.flags.filter((f) => f.severity === 'blocking').map((f) => f.message), ...sky.reasons];
   const suggestions: PlanSuggestion[] = [];
   if (plan.flags.some((f) => f.code === 'noExpectedPeriod' && f.severity === 'blocking')) {
-    suggestions.push({ kind: 'explicit_period', message: "Enter the star's expected period (from the literature or a previous season) to plan it." });
+    suggestions.push({
+      kind: 'explicit_period',
+      message: "Enter the star's expected period (from the literature or a previous season) to plan it.",
+    });
   }
   if (!season.fitsOneSeason && season.reason) {
     reasons.push(season.reason);
@@ -87,12 +106,18 @@ export function combinePlanWithSky(plan: TargetPlan, windows: TargetWindows, nod
   const phaseBlocks = phase.action === 'otherLongitude' || (phase.action === 'lengthenBaseline' && phase.commensurate !== null);
   if (phase.reason && phaseBlocks) reasons.push(phase.reason);
   if (phase.action === 'otherLongitude') {
-    suggestions.push({ kind: 'other_longitude', message: 'Add nodes at other longitudes: their nights sample the phases this site always misses.' });
+    suggestions.push({
+      kind: 'other_longitude',
+      message: 'Add nodes at other longitudes: their nights sample the phases this site always misses.',
+    });
   } else if (phase.reason && phase.action !== 'ok' && !phaseBlocks) {
     suggestions.push({ kind: 'fewer_samples', message: phase.reason });
   }
   if (plan.flags.some((f) => f.code === 'saturatesAtMinExposure')) {
-    suggestions.push({ kind: 'other_node', message: 'The star saturates here even at the shortest exposure: a smaller aperture or a redder band avoids it.' });
+    suggestions.push({
+      kind: 'other_node',
+      message: 'The star saturates here even at the shortest exposure: a smaller aperture or a redder band avoids it.',
+    });
   }
   // A longer exposure is only possible below both the node's longest exposure and saturation.
   const longestUsefulExposure = Math.min(node.maxExposureSeconds, q.saturationLimitSeconds.value);
@@ -156,7 +181,12 @@ function hasMoonAltitude(windows: TargetWindows): boolean {
  * takes the site's dark sky) when no night is usable, or when the windows do not carry the
  * Moon's altitude (see {@link hasMoonAltitude}).
  */
-export function skyConditionsFor(windows: TargetWindows, node: NodeSpec, site: SiteSpec, options: TargetPlanOptions = {}): PlanSkyConditions | undefined {
+export function skyConditionsFor(
+  windows: TargetWindows,
+  node: NodeSpec,
+  site: SiteSpec,
+  options: TargetPlanOptions = {},
+): PlanSkyConditions | undefined {
   if (!hasMoonAltitude(windows)) return undefined;
   const k = options.photometry?.extinctionMagPerAirmass ?? DEFAULT_EXTINCTION_MAG_PER_AIRMASS[node.band];
   const sky = nightlySkyBrightness(windows, site.skyBrightnessMagPerArcsec2, k, { minTargetAltitudeDeg: node.altitudeLimitDeg });

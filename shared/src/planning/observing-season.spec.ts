@@ -84,8 +84,18 @@ describe('assessSeason', () => {
         ],
       }).targets;
       const circumpolar = [{ name: 'polar star', raDeg: 90, decDeg: 80 }];
-      midFromJuly = computeSkyWindows({ site: MID_SITE, limits: { altitudeLimitDeg: 30 }, campaign: { firstNight: '2025-07-01', lastNight: '2026-06-30' }, targets: circumpolar }).targets[0];
-      midFromJanuary = computeSkyWindows({ site: MID_SITE, limits: { altitudeLimitDeg: 30 }, campaign: { firstNight: '2026-01-01', lastNight: '2026-12-31' }, targets: circumpolar }).targets[0];
+      midFromJuly = computeSkyWindows({
+        site: MID_SITE,
+        limits: { altitudeLimitDeg: 30 },
+        campaign: { firstNight: '2025-07-01', lastNight: '2026-06-30' },
+        targets: circumpolar,
+      }).targets[0];
+      midFromJanuary = computeSkyWindows({
+        site: MID_SITE,
+        limits: { altitudeLimitDeg: 30 },
+        campaign: { firstNight: '2026-01-01', lastNight: '2026-12-31' },
+        targets: circumpolar,
+      }).targets[0];
     });
 
     it('gives an equatorial target (RA 12h) one season of 6–8 months from 34.9° N, too short for 300 d', () => {
@@ -97,7 +107,9 @@ describe('assessSeason', () => {
       const a = assessSeason(north[0], 300);
       expect(a.fitsOneSeason).toBe(false);
       expect(a.multiSeason).toEqual({ seasons: 2, perSeasonBaselineDays: 150 });
-      expect(a.reason).toMatch(/^a baseline of 300 days does not fit in one observing season: the target's longest season from this site is \d+ days \(2025-1\d-\d\d to 2026-0\d-\d\d\)/);
+      expect(a.reason).toMatch(
+        /^a baseline of 300 days does not fit in one observing season: the target's longest season from this site is \d+ days \(2025-1\d-\d\d to 2026-0\d-\d\d\)/,
+      );
     });
 
     it('fits a 40-d baseline for a target in season', () => {

@@ -27,7 +27,13 @@ beforeAll(() => {
   east = computeSkyWindows({ site: EAST_SITE, limits: { altitudeLimitDeg: 30 }, campaign: CAMPAIGN, targets: TARGETS });
 });
 
-const req = (r: Partial<VisitRequest> = {}): VisitRequest => ({ baselineDays: 60, visitsPerNight: 1, nightStepDays: 1, visitHours: 0.25, ...r });
+const req = (r: Partial<VisitRequest> = {}): VisitRequest => ({
+  baselineDays: 60,
+  visitsPerNight: 1,
+  nightStepDays: 1,
+  visitHours: 0.25,
+  ...r,
+});
 const range = (low: number, high = low) => ({ low, high });
 
 describe('phaseCoverage', () => {
@@ -88,7 +94,9 @@ describe('assessPhaseCoverage', () => {
     expect(a.commensurate?.n).toBe(1);
     expect(a.action).toBe('otherLongitude');
     expect(a.requiredBaselineDays).toBeNull();
-    expect(a.reason).toMatch(/^P = 0\.99\d* d is close to 1 d: .*beat period.* cover only \d+ % of its phase in the 60 d baseline.*other longitudes/);
+    expect(a.reason).toMatch(
+      /^P = 0\.99\d* d is close to 1 d: .*beat period.* cover only \d+ % of its phase in the 60 d baseline.*other longitudes/,
+    );
   });
 
   it('flags P ≈ ½ d the same way with n = 2', () => {

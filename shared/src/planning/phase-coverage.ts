@@ -50,7 +50,8 @@ function binsScratch(bins: number): Uint8Array {
 }
 
 function requireBins(bins: number): number {
-  if (!Number.isInteger(bins) || bins < 1 || bins > 10_000) throw new SkyInputError('bins', `must be a whole number between 1 and 10,000, got ${bins}`);
+  if (!Number.isInteger(bins) || bins < 1 || bins > 10_000)
+    throw new SkyInputError('bins', `must be a whole number between 1 and 10,000, got ${bins}`);
   return bins;
 }
 
@@ -248,7 +249,14 @@ export function assessPhaseCoverage(
   const failing: number[] = [];
   for (let k = 0; k < periods.length; k++) if (coverage[k] * bins < requiredBins - 1e-9) failing.push(k);
   if (failing.length === 0) {
-    return { ...base, worstPeriodDays: periods[worst], commensurate: commensurateHarmonic(periods[worst], r.baselineDays), action: 'ok', requiredBaselineDays: null, reason: null };
+    return {
+      ...base,
+      worstPeriodDays: periods[worst],
+      commensurate: commensurateHarmonic(periods[worst], r.baselineDays),
+      action: 'ok',
+      requiredBaselineDays: null,
+      reason: null,
+    };
   }
 
   const unreachable = failing.filter((k) => Number.isNaN(reachDays[k]));
@@ -259,7 +267,9 @@ export function assessPhaseCoverage(
     let required = 0;
     for (const k of failing) required = Math.max(required, reachDays[k]);
     const c = commensurateHarmonic(periods[worst], r.baselineDays);
-    const beat = c ? ` (near ${c.n === 1 ? '1' : `1/${c.n}`} d: its phase drifts by one cycle only every ${fmtDays(c.beatPeriodDays)})` : '';
+    const beat = c
+      ? ` (near ${c.n === 1 ? '1' : `1/${c.n}`} d: its phase drifts by one cycle only every ${fmtDays(c.beatPeriodDays)})`
+      : '';
     return {
       ...base,
       worstPeriodDays: periods[worst],

@@ -8,14 +8,41 @@ import { combinePlanWithSky, computeNodeTargetPlan, requirementFromPlan } from '
 import { targetWindowsFromReport } from './sky-report-adapter';
 
 // An invented southern node (behaviour checks, not reference numbers).
-const site: SiteSpec = { latitudeDeg: -29, longitudeDeg: -70.7, elevationM: 2400, timeZone: 'America/Santiago', skyBrightnessMagPerArcsec2: 21.6 };
-const node: NodeSpec = {
-  apertureM: 0.4, obstructionFraction: 0.35, throughput: 0.55, band: 'V', readNoiseE: 9, darkCurrentEPerS: 0.02, gainEPerAdu: 1.3,
-  saturationE: 60000, pixelScaleArcsec: 1.1, seeingFwhmArcsec: 1.7, systematicFloorMmag: 1.2, scintillationModel: 'young1967',
-  overheadSeconds: 60, minExposureSeconds: 2, maxExposureSeconds: 300, altitudeLimitDeg: 30, sunAltitudeLimitDeg: -12,
-  weatherLossFraction: 0.25, rateMinorPerHour: 5000, currency: 'eur',
+const site: SiteSpec = {
+  latitudeDeg: -29,
+  longitudeDeg: -70.7,
+  elevationM: 2400,
+  timeZone: 'America/Santiago',
+  skyBrightnessMagPerArcsec2: 21.6,
 };
-const target = { colour: { value: 1.1, system: 'BPRP' as const }, ageMyr: 700, ageUncertaintyMyr: 80, magnitude: { value: 12, band: 'G' as const } };
+const node: NodeSpec = {
+  apertureM: 0.4,
+  obstructionFraction: 0.35,
+  throughput: 0.55,
+  band: 'V',
+  readNoiseE: 9,
+  darkCurrentEPerS: 0.02,
+  gainEPerAdu: 1.3,
+  saturationE: 60000,
+  pixelScaleArcsec: 1.1,
+  seeingFwhmArcsec: 1.7,
+  systematicFloorMmag: 1.2,
+  scintillationModel: 'young1967',
+  overheadSeconds: 60,
+  minExposureSeconds: 2,
+  maxExposureSeconds: 300,
+  altitudeLimitDeg: 30,
+  sunAltitudeLimitDeg: -12,
+  weatherLossFraction: 0.25,
+  rateMinorPerHour: 5000,
+  currency: 'eur',
+};
+const target = {
+  colour: { value: 1.1, system: 'BPRP' as const },
+  ageMyr: 700,
+  ageUncertaintyMyr: 80,
+  magnitude: { value: 12, band: 'G' as const },
+};
 // An older, slower star: its cadence asks for a visit every few nights, so some windows carry it.
 const olderTarget = { ...target, colour: { value: 1.4, system: 'BPRP' as const }, ageMyr: 2500, ageUncertaintyMyr: 300 };
 

@@ -38,18 +38,23 @@ export const skyWindowsTargetSchema = z.object({
 });
 
 /** POST /api/sky-windows */
-export const skyWindowsRequestSchema = z.object({
-  cycleId: idSchema,
-  nodeIds: z.array(idSchema).min(1, { message: 'choose at least one node' }).max(10),
-  targets: z.array(skyWindowsTargetSchema).min(1, { message: 'give at least one target' }).max(SKY_WINDOWS_MAX_TARGETS, {
-    message: `at most ${SKY_WINDOWS_MAX_TARGETS} targets per request`,
-  }),
-  /** Per-night detail for charts (default true); false returns only the summaries. */
-  includeNights: z.boolean().default(true),
-}).refine((r) => !r.includeNights || r.targets.length <= SKY_WINDOWS_MAX_TARGETS_WITH_NIGHTS, {
-  path: ['includeNights'],
-  message: `per-night detail is limited to ${SKY_WINDOWS_MAX_TARGETS_WITH_NIGHTS} targets per request: ask for summaries, or send fewer targets`,
-});
+export const skyWindowsRequestSchema = z
+  .object({
+    cycleId: idSchema,
+    nodeIds: z.array(idSchema).min(1, { message: 'choose at least one node' }).max(10),
+    targets: z
+      .array(skyWindowsTargetSchema)
+      .min(1, { message: 'give at least one target' })
+      .max(SKY_WINDOWS_MAX_TARGETS, {
+        message: `at most ${SKY_WINDOWS_MAX_TARGETS} targets per request`,
+      }),
+    /** Per-night detail for charts (default true); false returns only the summaries. */
+    includeNights: z.boolean().default(true),
+  })
+  .refine((r) => !r.includeNights || r.targets.length <= SKY_WINDOWS_MAX_TARGETS_WITH_NIGHTS, {
+    path: ['includeNights'],
+    message: `per-night detail is limited to ${SKY_WINDOWS_MAX_TARGETS_WITH_NIGHTS} targets per request: ask for summaries, or send fewer targets`,
+  });
 export type SkyWindowsRequest = z.input<typeof skyWindowsRequestSchema>;
 
 /** The windows of the targets from one node's site, with that node's own limits. */

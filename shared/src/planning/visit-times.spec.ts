@@ -44,7 +44,12 @@ describe('planVisitTimes', () => {
 
   it('shares the visits between two intervals in proportion to their length and keeps every visit inside one', () => {
     // 3 h + 1 h with a 2-h gap: 4 visits → 3 in the first interval, 1 in the second.
-    const w = windowsOf([[[20, 23], [25, 26]]]);
+    const w = windowsOf([
+      [
+        [20, 23],
+        [25, 26],
+      ],
+    ]);
     const plan = planVisitTimes(w, req({ visitsPerNight: 4, visitHours: 0.25, baselineDays: 0 }));
     const hours = Array.from(plan.timesDays, (t) => t * 24);
     expect(hours.filter((h) => h > 20 + 0.125 - 1e-9 && h < 23 - 0.125 + 1e-9)).toHaveLength(3);
@@ -55,8 +60,12 @@ describe('planVisitTimes', () => {
 
   it('places only what a short night holds back to back, and all the visits when they fit', () => {
     // 1 h holds two 0.5-h visits, not four.
-    expect(planVisitTimes(windowsOf(nightly(1, [0, 1])), req({ visitsPerNight: 4, visitHours: 0.5, baselineDays: 0 })).timesDays).toHaveLength(2);
-    expect(planVisitTimes(windowsOf(nightly(1, [0, 2])), req({ visitsPerNight: 4, visitHours: 0.5, baselineDays: 0 })).timesDays).toHaveLength(4);
+    expect(
+      planVisitTimes(windowsOf(nightly(1, [0, 1])), req({ visitsPerNight: 4, visitHours: 0.5, baselineDays: 0 })).timesDays,
+    ).toHaveLength(2);
+    expect(
+      planVisitTimes(windowsOf(nightly(1, [0, 2])), req({ visitsPerNight: 4, visitHours: 0.5, baselineDays: 0 })).timesDays,
+    ).toHaveLength(4);
   });
 
   it('skips nights without room for a visit, Moon-excluded nights and cloudy nights, and no others', () => {

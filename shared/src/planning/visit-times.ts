@@ -95,7 +95,14 @@ export function canVisitNight(windows: TargetWindows, n: number, visitHours: num
  * Writes the visit middles of night `n` (UTC ms) into `out` from `offset`; returns how many.
  * See the file comment for the placement rule. `out` needs room for `visits` values.
  */
-export function placeNightVisits(windows: TargetWindows, n: number, visits: number, visitHours: number, out: Float64Array, offset: number): number {
+export function placeNightVisits(
+  windows: TargetWindows,
+  n: number,
+  visits: number,
+  visitHours: number,
+  out: Float64Array,
+  offset: number,
+): number {
   const count = windows.intervalCountByNight[n];
   const base = n * MAX_INTERVALS_PER_NIGHT * 2;
   const d = visitHours * MS_PER_HOUR;

@@ -22,7 +22,9 @@ describe('colourPlausibilityWarning', () => {
   });
 
   it('a BP−RP bluer than an F5 dwarf, implausible in both systems: says to check the value', () => {
-    expect(colourPlausibilityWarning(0.2, 'BPRP')).toBe('A BP−RP of 0.2 mag is outside the F5V–M5V dwarfs (between 0.59 and 3.35 mag): check the value.');
+    expect(colourPlausibilityWarning(0.2, 'BPRP')).toBe(
+      'A BP−RP of 0.2 mag is outside the F5V–M5V dwarfs (between 0.59 and 3.35 mag): check the value.',
+    );
   });
 
   it('a reddened colour is judged against the reddened span', () => {

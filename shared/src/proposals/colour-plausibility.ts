@@ -40,7 +40,11 @@ function inRange(value: number, r: { min: number; max: number }): boolean {
  * system (null when plausible, empty or not a number). When the value is plausible in the other
  * system, the warning says so: "check the colour system".
  */
-export function colourPlausibilityWarning(colour: number | null | undefined, system: TargetColourSystem, ebv: number | null = null): string | null {
+export function colourPlausibilityWarning(
+  colour: number | null | undefined,
+  system: TargetColourSystem,
+  ebv: number | null = null,
+): string | null {
   if (colour === null || colour === undefined || !Number.isFinite(colour)) return null;
   const range = plausibleColourRange(system, ebv);
   if (inRange(colour, range)) return null;

@@ -23,7 +23,9 @@ describe('coordinateMessage', () => {
   });
 
   it('unreadable texts name the accepted forms; sexagesimal parts say which part', () => {
-    expect(refused('ra', 'abc')).toBe('Write the right ascension as degrees (187.5), hours (12.5h) or sexagesimal hours (12:30:00) (you typed abc).');
+    expect(refused('ra', 'abc')).toBe(
+      'Write the right ascension as degrees (187.5), hours (12.5h) or sexagesimal hours (12:30:00) (you typed abc).',
+    );
     expect(refused('dec', '10:75:00')).toBe('Keep the minutes of the declination below 60 (you typed 10:75:00).');
     expect(refused('dec', '5h')).toBe('Give the declination in degrees, not hours (you typed 5h).');
     expect(coordinateMessage('ra', 'is empty', '')).toBe('Enter the right ascension.');

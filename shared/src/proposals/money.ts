@@ -6,7 +6,9 @@
 /** Digits after the decimal point of a currency (2 for EUR, 0 for JPY), per Intl. */
 export function currencyDigits(currency: string): number {
   try {
-    return new Intl.NumberFormat('en-GB', { style: 'currency', currency: currency.toUpperCase() }).resolvedOptions().maximumFractionDigits ?? 2;
+    return (
+      new Intl.NumberFormat('en-GB', { style: 'currency', currency: currency.toUpperCase() }).resolvedOptions().maximumFractionDigits ?? 2
+    );
   } catch {
     return 2;
   }

@@ -125,7 +125,9 @@ export const planListQuerySchema = z.object({
   /** 1-based page number. */
   page: positiveParam(1_000_000, pageMessage).default(1),
   /** Rows per page, 1–200. */
-  pageSize: positiveParam(PLAN_LIST_MAX_PAGE_SIZE, `must be a whole number from 1 to ${PLAN_LIST_MAX_PAGE_SIZE}`).default(PLAN_LIST_DEFAULT_PAGE_SIZE),
+  pageSize: positiveParam(PLAN_LIST_MAX_PAGE_SIZE, `must be a whole number from 1 to ${PLAN_LIST_MAX_PAGE_SIZE}`).default(
+    PLAN_LIST_DEFAULT_PAGE_SIZE,
+  ),
   /** Only feasible (`true`) or only infeasible (`false`) plans. */
   feasible: z
     .enum(['true', 'false'], { message: 'must be true or false' })
@@ -138,7 +140,9 @@ export const planListQuerySchema = z.object({
   /** A column of PLAN_SORT_KEYS, `-` in front for descending; list order by default. */
   sort: z
     .string({ message: 'must be a column name' })
-    .regex(new RegExp(`^-?(${PLAN_SORT_KEYS.join('|')})$`), { message: `must be one of ${PLAN_SORT_KEYS.join(', ')}, with - in front for descending` })
+    .regex(new RegExp(`^-?(${PLAN_SORT_KEYS.join('|')})$`), {
+      message: `must be one of ${PLAN_SORT_KEYS.join(', ')}, with - in front for descending`,
+    })
     .default('target'),
 });
 export type PlanListQuery = z.infer<typeof planListQuerySchema>;

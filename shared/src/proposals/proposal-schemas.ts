@@ -48,7 +48,11 @@ export type UpdateProposalInput = z.infer<typeof updateProposalSchema>;
 
 /** POST /api/proposals/:id/members: invite a co-investigator by e-mail. */
 export const inviteMemberSchema = z.object({
-  email: z.string().trim().toLowerCase().pipe(z.email({ message: 'Enter a valid e-mail address' })),
+  email: z
+    .string()
+    .trim()
+    .toLowerCase()
+    .pipe(z.email({ message: 'Enter a valid e-mail address' })),
 });
 export type InviteMemberInput = z.infer<typeof inviteMemberSchema>;
 

@@ -5,7 +5,7 @@
 
 /** Right ascension in degrees → `hh:mm:ss.s` (0.1 s of time). */
 export function formatRaHms(raDeg: number): string {
-  let tenths = Math.round((((raDeg % 360) + 360) % 360) / 15 * 36000);
+  let tenths = Math.round(((((raDeg % 360) + 360) % 360) / 15) * 36000);
   if (tenths >= 24 * 36000) tenths -= 24 * 36000;
   const h = Math.floor(tenths / 36000);
   const m = Math.floor((tenths % 36000) / 600);

@@ -55,12 +55,19 @@ describe('targetInputSchema', () => {
   });
 
   it('an empty required number asks for it; a negative one echoes a true minus sign', () => {
-    expect(messages({ ...valid, magnitude: null, ageMyr: undefined })).toEqual({ magnitude: ['Enter the magnitude.'], ageMyr: ['Enter the age.'] });
-    expect(messages({ ...valid, ageUncertaintyMyr: -5 })).toEqual({ ageUncertaintyMyr: ['Enter an age uncertainty of 0 Myr or more, or leave it empty (you typed −5).'] });
+    expect(messages({ ...valid, magnitude: null, ageMyr: undefined })).toEqual({
+      magnitude: ['Enter the magnitude.'],
+      ageMyr: ['Enter the age.'],
+    });
+    expect(messages({ ...valid, ageUncertaintyMyr: -5 })).toEqual({
+      ageUncertaintyMyr: ['Enter an age uncertainty of 0 Myr or more, or leave it empty (you typed −5).'],
+    });
   });
 
   it('the typed value itself, never a rounded or converted one', () => {
-    expect(messages({ ...valid, magnitude: 40.25327194 }).magnitude).toEqual(['Enter a magnitude between −2 and 22 mag (you typed 40.253272).']);
+    expect(messages({ ...valid, magnitude: 40.25327194 }).magnitude).toEqual([
+      'Enter a magnitude between −2 and 22 mag (you typed 40.253272).',
+    ]);
   });
 
   it('an uncertainty without a period is reported beside the other problems of the row', () => {

@@ -51,60 +51,79 @@ const R = TARGET_RANGES;
  * CSV reader turns sexagesimal text into degrees before this schema runs). Every bad field is
  * reported at once, each message naming the value that was typed.
  */
-export const targetInputSchema = z.object({
-  name: safeText(
-    z
-      .string({ error: 'Give the target a name.' })
-      .trim()
-      .min(1, { error: 'Give the target a name.' })
-      .max(80, { error: lengthMessage('the name', 80) }),
-  ),
-  raDeg: numberField({ noun: 'the right ascension', wanted: `a right ascension ${between(0, 360, '°')}, 360° excluded` }, (n, m) =>
-    n.min(0, { error: m }).lt(360, { error: m }),
-  ),
-  decDeg: numberField({ noun: 'the declination', wanted: `a declination ${between(-90, 90, '°')}` }, (n, m) => n.min(-90, { error: m }).max(90, { error: m })),
-  magnitude: numberField({ noun: 'the magnitude', wanted: `a magnitude ${between(R.magnitude.min, R.magnitude.max, 'mag')}` }, (n, m) =>
-    n.min(R.magnitude.min, { error: m }).max(R.magnitude.max, { error: m }),
-  ),
-  magnitudeBand: z.enum(NODE_BANDS, { error: (iss) => withTyped(`Choose the band of the magnitude: ${NODE_BANDS.join(', ')}`, iss.input) }),
-  colour: numberField({ noun: 'the colour index', wanted: `a colour index ${between(R.colour.min, R.colour.max, 'mag')}` }, (n, m) =>
-    n.min(R.colour.min, { error: m }).max(R.colour.max, { error: m }),
-  ),
-  colourSystem: z.enum(TARGET_COLOUR_SYSTEMS, { error: (iss) => withTyped('Choose the colour system: BPRP for Gaia BP−RP or BV for B−V', iss.input) }),
-  reddeningEbv: numberField({ noun: 'the reddening E(B−V)', wanted: `an E(B−V) ${between(R.reddeningEbv.min, R.reddeningEbv.max, 'mag')}`, optional: true }, (n, m) =>
-    n.min(R.reddeningEbv.min, { error: m }).max(R.reddeningEbv.max, { error: m }),
-  )
-    .nullable()
-    .default(null),
-  ageMyr: numberField({ noun: 'the age', wanted: `an age above 0 Myr and at most ${R.ageMyr.max} Myr` }, (n, m) => n.gt(0, { error: m }).max(R.ageMyr.max, { error: m })),
-  ageUncertaintyMyr: numberField({ noun: 'the age uncertainty', wanted: 'an age uncertainty of 0 Myr or more', optional: true }, (n, m) => n.min(0, { error: m }))
-    .nullable()
-    .default(null),
-  periodPrecisionDays: numberField({ noun: 'the period precision', wanted: 'a period precision above 0 d', optional: true }, (n, m) => n.gt(0, { error: m }))
-    .nullable()
-    .default(null),
-  /**
-   * Expected rotation period, days, given by the proposer for a star without an expected
-   * period from a gyrochronology relation (fast rotators, colours beyond a relation's range,
-   * ages above the age of the universe); when given, the plan uses it instead of the relation's.
-   */
-  periodDays: numberField({ noun: 'the period', wanted: `a period ${between(R.periodDays.min, R.periodDays.max, 'd')}`, optional: true }, (n, m) =>
-    n.min(R.periodDays.min, { error: m }).max(R.periodDays.max, { error: m }),
-  )
-    .nullable()
-    .default(null),
-  /** 1σ uncertainty of `periodDays`, days; only with a period. */
-  periodUncertaintyDays: numberField({ noun: 'the period uncertainty', wanted: 'a period uncertainty of 0 d or more', optional: true }, (n, m) => n.min(0, { error: m }))
-    .nullable()
-    .default(null),
-  notes: safeMultiLineText(z.string().max(500, { error: lengthMessage('the notes', 500) })).default(''),
-}).refine((t) => t.periodUncertaintyDays === null || t.periodDays !== null, {
-  message: 'Enter the period as well, or clear its uncertainty.',
-  path: ['periodUncertaintyDays'],
-  // Checked even when other fields are wrong, so that every problem shows at once; only the two
-  // fields it reads need to be readable.
-  when: (payload) => !payload.issues.some((i) => i.path?.[0] === 'periodDays' || i.path?.[0] === 'periodUncertaintyDays'),
-});
+export const targetInputSchema = z
+  .object({
+    name: safeText(
+      z
+        .string({ error: 'Give the target a name.' })
+        .trim()
+        .min(1, { error: 'Give the target a name.' })
+        .max(80, { error: lengthMessage('the name', 80) }),
+    ),
+    raDeg: numberField({ noun: 'the right ascension', wanted: `a right ascension ${between(0, 360, '°')}, 360° excluded` }, (n, m) =>
+      n.min(0, { error: m }).lt(360, { error: m }),
+    ),
+    decDeg: numberField({ noun: 'the declination', wanted: `a declination ${between(-90, 90, '°')}` }, (n, m) =>
+      n.min(-90, { error: m }).max(90, { error: m }),
+    ),
+    magnitude: numberField({ noun: 'the magnitude', wanted: `a magnitude ${between(R.magnitude.min, R.magnitude.max, 'mag')}` }, (n, m) =>
+      n.min(R.magnitude.min, { error: m }).max(R.magnitude.max, { error: m }),
+    ),
+    magnitudeBand: z.enum(NODE_BANDS, {
+      error: (iss) => withTyped(`Choose the band of the magnitude: ${NODE_BANDS.join(', ')}`, iss.input),
+    }),
+    colour: numberField({ noun: 'the colour index', wanted: `a colour index ${between(R.colour.min, R.colour.max, 'mag')}` }, (n, m) =>
+      n.min(R.colour.min, { error: m }).max(R.colour.max, { error: m }),
+    ),
+    colourSystem: z.enum(TARGET_COLOUR_SYSTEMS, {
+      error: (iss) => withTyped('Choose the colour system: BPRP for Gaia BP−RP or BV for B−V', iss.input),
+    }),
+    reddeningEbv: numberField(
+      { noun: 'the reddening E(B−V)', wanted: `an E(B−V) ${between(R.reddeningEbv.min, R.reddeningEbv.max, 'mag')}`, optional: true },
+      (n, m) => n.min(R.reddeningEbv.min, { error: m }).max(R.reddeningEbv.max, { error: m }),
+    )
+      .nullable()
+      .default(null),
+    ageMyr: numberField({ noun: 'the age', wanted: `an age above 0 Myr and at most ${R.ageMyr.max} Myr` }, (n, m) =>
+      n.gt(0, { error: m }).max(R.ageMyr.max, { error: m }),
+    ),
+    ageUncertaintyMyr: numberField({ noun: 'the age uncertainty', wanted: 'an age uncertainty of 0 Myr or more', optional: true }, (n, m) =>
+      n.min(0, { error: m }),
+    )
+      .nullable()
+      .default(null),
+    periodPrecisionDays: numberField({ noun: 'the period precision', wanted: 'a period precision above 0 d', optional: true }, (n, m) =>
+      n.gt(0, { error: m }),
+    )
+      .nullable()
+      .default(null),
+    /**
+     * Expected rotation period, days, given by the proposer for a star without an expected
+     * period from a gyrochronology relation (fast rotators, colours beyond a relation's range,
+     * ages above the age of the universe); when given, the plan uses it instead of the relation's.
+     */
+    periodDays: numberField(
+      { noun: 'the period', wanted: `a period ${between(R.periodDays.min, R.periodDays.max, 'd')}`, optional: true },
+      (n, m) => n.min(R.periodDays.min, { error: m }).max(R.periodDays.max, { error: m }),
+    )
+      .nullable()
+      .default(null),
+    /** 1σ uncertainty of `periodDays`, days; only with a period. */
+    periodUncertaintyDays: numberField(
+      { noun: 'the period uncertainty', wanted: 'a period uncertainty of 0 d or more', optional: true },
+      (n, m) => n.min(0, { error: m }),
+    )
+      .nullable()
+      .default(null),
+    notes: safeMultiLineText(z.string().max(500, { error: lengthMessage('the notes', 500) })).default(''),
+  })
+  .refine((t) => t.periodUncertaintyDays === null || t.periodDays !== null, {
+    message: 'Enter the period as well, or clear its uncertainty.',
+    path: ['periodUncertaintyDays'],
+    // Checked even when other fields are wrong, so that every problem shows at once; only the two
+    // fields it reads need to be readable.
+    when: (payload) => !payload.issues.some((i) => i.path?.[0] === 'periodDays' || i.path?.[0] === 'periodUncertaintyDays'),
+  });
 export type TargetInput = z.input<typeof targetInputSchema>;
 export type TargetValues = z.output<typeof targetInputSchema>;
 
@@ -140,7 +159,11 @@ export const TARGET_CSV_COLUMNS = [
     required: false,
     help: 'expected rotation period, days (also read as period_d): only for stars without an expected period from their colour and age (fast rotators, M dwarfs beyond the relations)',
   },
-  { name: 'period_error', required: false, help: '1σ uncertainty of the expected period, days (also read as period_err_d); needs a period' },
+  {
+    name: 'period_error',
+    required: false,
+    help: '1σ uncertainty of the expected period, days (also read as period_err_d); needs a period',
+  },
   { name: 'notes', required: false, help: 'free text' },
 ] as const;
 

@@ -124,7 +124,9 @@ export function analysePlanCampaign(plan: TargetPlan, campaign: SimulatedCampaig
   const fTrue = 1 / campaign.injected.periodDays;
   const tolerance = 0.5 / result.baselineDays;
   return {
-    recovered: Math.abs(result.best.frequencyPerDay - fTrue) <= tolerance && result.best.falseAlarmProbability <= plan.analysis.falseAlarmProbability,
+    recovered:
+      Math.abs(result.best.frequencyPerDay - fTrue) <= tolerance &&
+      result.best.falseAlarmProbability <= plan.analysis.falseAlarmProbability,
     bestPeriodDays: result.best.periodDays,
     falseAlarmProbability: result.best.falseAlarmProbability,
   };

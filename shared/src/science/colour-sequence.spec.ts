@@ -56,7 +56,7 @@ describe('convertColour', () => {
 
 describe('deredden', () => {
   // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
-  it('removes E(B−V) scaled by each system\'s ratio (Casagrande & VandenBerg 2018; Cardelli et al. 1989)', () => {
+  it("removes E(B−V) scaled by each system's ratio (Casagrande & VandenBerg 2018; Cardelli et al. 1989)", () => {
     expect(deredden({ value: 0.75, system: 'BV' }, 0.1).value).toBeCloseTo(0.65, 12);
     expect(REDDENING_RATIOS.BPRP.ratio).toBe(1.339);
     expect(deredden({ value: 1.0, system: 'BPRP' }, 0.1).value).toBeCloseTo(1 - 0.1339, 12);
@@ -80,7 +80,9 @@ describe('resolveColour', () => {
   it('returns no sequence outside the table, and requireSequence then throws naming the field', () => {
     const r = resolveColour({ value: 0.42, system: 'BV' }, 0);
     expect(r.sequence).toBeNull();
-    expect(() => requireSequence(r)).toThrow('colour.value: B−V 0.42 is outside the dwarf colour sequence (between 0.44 and 1.83 mag; Pecaut & Mamajek 2013)');
+    expect(() => requireSequence(r)).toThrow(
+      'colour.value: B−V 0.42 is outside the dwarf colour sequence (between 0.44 and 1.83 mag; Pecaut & Mamajek 2013)',
+    );
   });
 
   it('requireSequence quotes the colour as typed, and what removing the reddening gave', () => {

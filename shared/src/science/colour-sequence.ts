@@ -249,7 +249,9 @@ export function requireSequence(resolved: ResolvedColour, field = 'colour.value'
   const { min, max } = sequenceRange(system);
   const typed = `${LABEL[resolved.observed.system]} ${displayNumber(resolved.observed.value)}`;
   const dereddened =
-    resolved.reddeningEbvMag > 0 ? ` (${displayNumber(round(resolved.intrinsic.value))} after removing the reddening E(B−V) = ${displayNumber(resolved.reddeningEbvMag)})` : '';
+    resolved.reddeningEbvMag > 0
+      ? ` (${displayNumber(round(resolved.intrinsic.value))} after removing the reddening E(B−V) = ${displayNumber(resolved.reddeningEbvMag)})`
+      : '';
   throw new ScienceInputError(
     field,
     `${typed}${dereddened} is outside the dwarf colour sequence (${between(min, max, UNIT[system])}; Pecaut & Mamajek 2013)`,

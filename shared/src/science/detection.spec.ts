@@ -17,7 +17,7 @@ import { baluevFalseAlarmProbability } from './lomb-scargle/false-alarm';
 
 describe('periodPrecision', () => {
   // The value or formula under test is recalled, not re-read (docs/science.md "Checked values").
-  it('σP ≈ 0.101 d for N 60, A 0.005, σ 0.003, T 60 d, P 10 d (SCIENCE.md §8 #15, [derived] from the Montgomery & O\'Donoghue 1999 form)', () => {
+  it("σP ≈ 0.101 d for N 60, A 0.005, σ 0.003, T 60 d, P 10 d (SCIENCE.md §8 #15, [derived] from the Montgomery & O'Donoghue 1999 form)", () => {
     const r = periodPrecision({ visits: 60, semiAmplitudePpm: 5000, sigmaPpm: 3000, baselineDays: 60, periodDays: 10 });
     expect(r.sigmaPeriodDays).toBeCloseTo(0.101, 3);
   });
@@ -72,10 +72,15 @@ describe('marcumQ1', () => {
 
   it('falls with b and rises with a (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0, max: 20, noNaN: true }), fc.double({ min: 0.01, max: 20, noNaN: true }), fc.double({ min: 0.01, max: 3, noNaN: true }), (a, b, d) => {
-        expect(marcumQ1(a, b + d)).toBeLessThanOrEqual(marcumQ1(a, b) + 1e-12);
-        expect(marcumQ1(a + d, b)).toBeGreaterThanOrEqual(marcumQ1(a, b) - 1e-12);
-      }),
+      fc.property(
+        fc.double({ min: 0, max: 20, noNaN: true }),
+        fc.double({ min: 0.01, max: 20, noNaN: true }),
+        fc.double({ min: 0.01, max: 3, noNaN: true }),
+        (a, b, d) => {
+          expect(marcumQ1(a, b + d)).toBeLessThanOrEqual(marcumQ1(a, b) + 1e-12);
+          expect(marcumQ1(a + d, b)).toBeGreaterThanOrEqual(marcumQ1(a, b) - 1e-12);
+        },
+      ),
     );
   });
 });
@@ -134,7 +139,10 @@ describe('detectionProbability (finite number of nightly means)', () => {
 
   it('the threshold is the power whose Baluev FAP equals p, as the periodogram computes it', () => {
     const t = th(40);
-    expect(baluevFalseAlarmProbability(t.power, { pointCount: 40, maximumFrequencyPerDay: 0.5, timeVarianceDays2: 3600 / 12 })).toBeCloseTo(0.01, 8);
+    expect(baluevFalseAlarmProbability(t.power, { pointCount: 40, maximumFrequencyPerDay: 0.5, timeVarianceDays2: 3600 / 12 })).toBeCloseTo(
+      0.01,
+      8,
+    );
   });
 
   it('sizing for the mean (power at the threshold) gives only about half (SCIENCE.md §6)', () => {

@@ -38,8 +38,7 @@ export const NIGHTLY_NOISE_SOURCE =
   'σ_night² = σ_white²/k + σ_floor²: the floor is correlated within a night (an assumption of this product; see Methods: Nightly means)';
 // The Kovács (1981) form from memory; Montgomery & O'Donoghue's derivation and assumptions
 // confirmed, the formula itself not legible there (docs/science.md "Checked values").
-export const PERIOD_PRECISION_SOURCE =
-  'Montgomery & O\'Donoghue (1999), DSSN 13, 28: σf = sqrt(6/N)·σ/(π·A·T), σP = P²·σf';
+export const PERIOD_PRECISION_SOURCE = "Montgomery & O'Donoghue (1999), DSSN 13, 28: σf = sqrt(6/N)·σ/(π·A·T), σP = P²·σf";
 
 /** Completeness levels every plan reports the price of (the proposal's own level is added). */
 export const COMPLETENESS_LEVELS = [0.5, 0.9, 0.99] as const;
@@ -129,7 +128,10 @@ export function detectionThresholdPower(effectiveFrequencies: number, falseAlarm
 
 /** Large-N detection probability Q1(√λ, √(2·z0)) (SCIENCE.md §6); see {@link detectionProbability} for finite N. */
 export function marcumDetectionProbability(noncentrality: number, thresholdPower: number): number {
-  return marcumQ1(Math.sqrt(requireNonNegative(noncentrality, 'noncentrality')), Math.sqrt(2 * requireNonNegative(thresholdPower, 'thresholdPower')));
+  return marcumQ1(
+    Math.sqrt(requireNonNegative(noncentrality, 'noncentrality')),
+    Math.sqrt(2 * requireNonNegative(thresholdPower, 'thresholdPower')),
+  );
 }
 
 /**
@@ -149,9 +151,15 @@ export interface DetectionThreshold {
 }
 
 /** Z0 for `points` values over `baselineDays`, searched up to fmax, at false-alarm probability p. */
-export function detectionThreshold(points: number, baselineDays: number, maxFrequencyPerDay: number, falseAlarmProbability: number): DetectionThreshold {
+export function detectionThreshold(
+  points: number,
+  baselineDays: number,
+  maxFrequencyPerDay: number,
+  falseAlarmProbability: number,
+): DetectionThreshold {
   const n = requirePositive(points, 'points');
-  if (n < 4) return { power: 1, points: n, effectiveFrequencies: effectiveFrequencyCount(baselineDays, maxFrequencyPerDay), falseAlarmProbability };
+  if (n < 4)
+    return { power: 1, points: n, effectiveFrequencies: effectiveFrequencyCount(baselineDays, maxFrequencyPerDay), falseAlarmProbability };
   const p = requireInRange(falseAlarmProbability, 'falseAlarmProbability', 0, 1, true);
   const t = requirePositive(baselineDays, 'baselineDays');
   const fmax = requirePositive(maxFrequencyPerDay, 'maxFrequencyPerDay');
@@ -381,7 +389,10 @@ export function normalQuantile(p: number): number {
   }
   const q = p - 0.5;
   const r = q * q;
-  return ((((((a[0] * r + a[1]) * r + a[2]) * r + a[3]) * r + a[4]) * r + a[5]) * q) / (((((b[0] * r + b[1]) * r + b[2]) * r + b[3]) * r + b[4]) * r + 1);
+  return (
+    ((((((a[0] * r + a[1]) * r + a[2]) * r + a[3]) * r + a[4]) * r + a[5]) * q) /
+    (((((b[0] * r + b[1]) * r + b[2]) * r + b[3]) * r + b[4]) * r + 1)
+  );
 }
 
 /** Noise of one night's mean of k visits: σ_night² = σ_white²/k + σ_floor² ({@link NIGHTLY_NOISE_SOURCE}). */

@@ -139,7 +139,11 @@ describe('bad input', () => {
     [{ ...ok, colour: { value: 0.2, system: 'BPRP' as const } }, 'colour.value', /outside all supported relations/],
     [{ ...ok, colour: { value: Number.NaN, system: 'BV' as const } }, 'colour.value', /finite/],
     [{ ...ok, relation: 'skumanich' as never }, 'relation', /must be one of/],
-    [{ ...ok, relation: 'mamajekHillenbrand2008' as const, colour: { value: 0.45, system: 'BV' as const } }, 'colour.value', /offset c = 0.495/],
+    [
+      { ...ok, relation: 'mamajekHillenbrand2008' as const, colour: { value: 0.45, system: 'BV' as const } },
+      'colour.value',
+      /offset c = 0.495/,
+    ],
   ])('predictPeriod(%o) throws ScienceInputError on %s', (input, field, message) => {
     let err: unknown;
     try {
@@ -228,12 +232,14 @@ describe('no number where the relation has none (calibration ranges)', () => {
     expect(slowEnough.noResult).toBeNull();
   });
 
-  it('colours outside a relation\'s calibrated range give no result (Mamajek & Hillenbrand 2008: 0.5 < (B−V)0 < 0.9)', () => {
+  it("colours outside a relation's calibrated range give no result (Mamajek & Hillenbrand 2008: 0.5 < (B−V)0 < 0.9)", () => {
     const red = predictPeriod({ relation: 'mamajekHillenbrand2008', colour: { value: 1.2, system: 'BV' }, ageMyr: 1000 });
     expect(red.noResult?.code).toBe('colourOutsideCalibration');
     expect(red.noResult?.reason).toMatch(/B−V 1.2 is outside the calibrated range of Mamajek & Hillenbrand \(2008\)/);
     expect(blocking(red, 'noExpectedPeriod')).not.toHaveLength(0);
-    expect(estimateAge({ relation: 'mamajekHillenbrand2008', colour: { value: 1.2, system: 'BV' }, periodDays: 20 }).noResult?.code).toBe('colourOutsideCalibration');
+    expect(estimateAge({ relation: 'mamajekHillenbrand2008', colour: { value: 1.2, system: 'BV' }, periodDays: 20 }).noResult?.code).toBe(
+      'colourOutsideCalibration',
+    );
     const inside = predictPeriod({ relation: 'mamajekHillenbrand2008', colour: { value: 0.7, system: 'BV' }, ageMyr: 1000 });
     expect(inside.noResult).toBeNull();
   });
@@ -253,7 +259,12 @@ describe('no number where the relation has none (calibration ranges)', () => {
     expect(hot.noResult?.reason).toMatch(/Teff ≈ 6505 K on the dwarf sequence, above the Kraft break ≈ 6200 K/);
     const hotAge = estimateAge({ relation: 'barnes2007', colour: { value: 0.47, system: 'BV' }, periodDays: 5 });
     expect(hotAge.noResult).not.toBeNull();
-    expect(hotAge.flags.filter((f) => f.code === 'noGyroAge').map((f) => f.message).join()).toMatch(/Kraft break/);
+    expect(
+      hotAge.flags
+        .filter((f) => f.code === 'noGyroAge')
+        .map((f) => f.message)
+        .join(),
+    ).toMatch(/Kraft break/);
     const cool = predictPeriod({ relation: 'angus2019', colour: { value: 0.75, system: 'BPRP' }, ageMyr: 2000 });
     expect(cool.noResult).toBeNull();
     expect(estimateAge({ relation: 'barnes2007', colour: { value: 0.55, system: 'BV' }, periodDays: 5 }).noResult).toBeNull();
@@ -312,7 +323,9 @@ describe('weakened braking on the τ scale in use (van Saders et al. 2016, Natur
     const p = predictPeriod({ ...g2, ageMyr: 5000, turnoverScale: 'wright2011' });
     expect(p.rossby?.rossby).toBeGreaterThan(1.8);
     expect(p.rossby?.rossby).toBeLessThan(2);
-    expect(p.flags.find((f) => f.code === 'weakenedBraking')?.message).toMatch(/^Ro 1.9\d? exceeds ≈ 1.8 on the Wright et al. \(2011\) τ scale \(≈ the solar value\)/);
+    expect(p.flags.find((f) => f.code === 'weakenedBraking')?.message).toMatch(
+      /^Ro 1.9\d? exceeds ≈ 1.8 on the Wright et al. \(2011\) τ scale \(≈ the solar value\)/,
+    );
   });
 
   it('does not fire on the Wright et al. (2018) scale at Ro 2.16 < 2.43 (a fixed 2 would)', () => {
@@ -325,7 +338,9 @@ describe('weakened braking on the τ scale in use (van Saders et al. 2016, Natur
     const high = predictPeriod({ ...g2, ageMyr: 6000, weakenedBrakingRossby: 3 });
     expect(high.flags.map((f) => f.code)).not.toContain('weakenedBraking');
     const low = predictPeriod({ ...g2, ageMyr: 3000, weakenedBrakingRossby: 1.5 });
-    expect(low.flags.find((f) => f.code === 'weakenedBraking')?.message).toMatch(/exceeds the given 1.5 on the Noyes et al. \(1984\) τ scale/);
+    expect(low.flags.find((f) => f.code === 'weakenedBraking')?.message).toMatch(
+      /exceeds the given 1.5 on the Noyes et al. \(1984\) τ scale/,
+    );
   });
 });
 
@@ -335,7 +350,11 @@ describe('intrinsic scatter in every range', () => {
     const p = predictPeriod({ relation: 'angus2019', colour: { value: 0.82, system: 'BPRP' }, ageMyr: 4570 });
     expect(p.periodDays).toBeCloseTo(26.02, 2); // SCIENCE.md §8 #4: the scatter leaves the central value alone
     expect(p.contributions.find((c) => c.parameter === 'cA')?.upperLn).toBeCloseTo(0, 9);
-    expect(p.contributions.find((c) => c.parameter === 'intrinsicScatter')).toEqual({ parameter: 'intrinsicScatter', lowerLn: 0.05, upperLn: 0.05 });
+    expect(p.contributions.find((c) => c.parameter === 'intrinsicScatter')).toEqual({
+      parameter: 'intrinsicScatter',
+      lowerLn: 0.05,
+      upperLn: 0.05,
+    });
     expect(Math.log(p.rangeDays.high / p.periodDays)).toBeCloseTo(0.05, 9);
     expect(Math.log(p.periodDays / p.rangeDays.low)).toBeCloseTo(0.05, 9);
   });

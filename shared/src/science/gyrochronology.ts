@@ -34,13 +34,7 @@ import {
 } from './colour-sequence';
 import { type ScienceFlag, flag, fmt } from './explained';
 import { ScienceInputError, requireFinite, requireNonNegative, requireOneOf, requirePositive } from './science-input-error';
-import {
-  type RossbyNumber,
-  type TurnoverScale,
-  TURNOVER_SCALES,
-  solarRossby,
-  turnoverTimeForColour,
-} from './turnover-time';
+import { type RossbyNumber, type TurnoverScale, TURNOVER_SCALES, solarRossby, turnoverTimeForColour } from './turnover-time';
 
 export const GYRO_RELATIONS = ['barnes2007', 'mamajekHillenbrand2008', 'angus2015', 'angus2019'] as const;
 export type GyroRelationId = (typeof GYRO_RELATIONS)[number];
@@ -77,9 +71,7 @@ export interface GyroRelationInfo {
 }
 
 /** Coefficients of the three Barnes-type relations, SCIENCE.md §1 [paper]. */
-export const BARNES_FORM_COEFFICIENTS: Readonly<
-  Record<'barnes2007' | 'mamajekHillenbrand2008' | 'angus2015', BarnesFormCoefficients>
-> = {
+export const BARNES_FORM_COEFFICIENTS: Readonly<Record<'barnes2007' | 'mamajekHillenbrand2008' | 'angus2015', BarnesFormCoefficients>> = {
   // Barnes (2007), ApJ 669, 1167, eqs. 1–3.
   barnes2007: { a: coef(0.7725, 0.011), b: coef(0.601, 0.024), c: coef(0.4), n: coef(0.5189, 0.007) },
   // Mamajek & Hillenbrand (2008), ApJ 687, 1264, eqs. 12–14.
@@ -291,7 +283,8 @@ export const INTRINSIC_SCATTER: Readonly<Record<GyroRelationId, { lnPeriod: numb
   // give no single scatter value (from memory); 10 % in period adopted (Spincycle's choice).
   angus2015: {
     lnPeriod: 0.1,
-    source: 'Angus et al. (2015), MNRAS 450, 1787 give no single scatter; 10 % adopted, an assumption of this product (see Methods: The plausible period range)',
+    source:
+      'Angus et al. (2015), MNRAS 450, 1787 give no single scatter; 10 % adopted, an assumption of this product (see Methods: The plausible period range)',
   },
   // Angus et al. (2019), AJ 158, 173: their variance model is zero for FGK dwarfs in the
   // calibrated range (read in the authors' code accompanying the paper); 5 % in period adopted for
@@ -485,7 +478,12 @@ export function predictPeriod(input: PeriodPredictionInput): PeriodPrediction {
     if (low < 0.1 * ageMyr) {
       low = 0.1 * ageMyr;
       flags.push(
-        flag('ageUncertaintyTruncated', 'info', `the age's −1σ (${fmt(ageMyr - ageSigma)} Myr) is cut at 10 % of the age for the period range`, 'an assumption of this product (see Methods: The plausible period range)'),
+        flag(
+          'ageUncertaintyTruncated',
+          'info',
+          `the age's −1σ (${fmt(ageMyr - ageSigma)} Myr) is cut at 10 % of the age for the period range`,
+          'an assumption of this product (see Methods: The plausible period range)',
+        ),
       );
     }
     contributions.push(contribution('ageMyr', lnP0, evaluate({ t: ageMyr + ageSigma }), evaluate({ t: low })));
@@ -500,7 +498,14 @@ export function predictPeriod(input: PeriodPredictionInput): PeriodPrediction {
   const causes = colourNoResults(relation, x, colour);
   if (ageMyr > AGE_OF_UNIVERSE_MYR) causes.push(ageBeyondUniverse(`the given age ${fmt(ageMyr, 4)} Myr`));
   flags.push(...calibrationFlags(relation, x, ageMyr, colour));
-  const rossby = rossbyWithFlags(colour, scale, periodDays, roCrit, flags, 'magnetic braking weakens there, so the period may be shorter than predicted');
+  const rossby = rossbyWithFlags(
+    colour,
+    scale,
+    periodDays,
+    roCrit,
+    flags,
+    'magnetic braking weakens there, so the period may be shorter than predicted',
+  );
   const noResult = noResultWithFlags(causes, 'noExpectedPeriod', 'no expected period', flags);
 
   return {
@@ -592,7 +597,14 @@ export function estimateAge(input: AgeEstimateInput): AgeEstimate {
     const rel = barnesAgeUncertainty(ageMyr, periodDays, x);
     const source = 'Barnes (2007), ApJ 669, 1167, eq. 16';
     if (pSigma > 0) {
-      flags.push(flag('periodUncertaintyNotUsed', 'info', 'Barnes (2007) eq. 16 already contains a period term; the given period uncertainty is not added', source));
+      flags.push(
+        flag(
+          'periodUncertaintyNotUsed',
+          'info',
+          'Barnes (2007) eq. 16 already contains a period term; the given period uncertainty is not added',
+          source,
+        ),
+      );
     }
     // Eq. 16's symmetric δt/t as ln-age terms (t·(1 ± δt/t) at 1σ), plus the intrinsic scatter
     // in quadrature: the range only; `fractionalUncertainty` stays eq. 16 as published.
@@ -601,7 +613,21 @@ export function estimateAge(input: AgeEstimateInput): AgeEstimate {
       scatterContribution(relation, BARNES_FORM_COEFFICIENTS.barnes2007.n.value),
     ];
     const range = lnRange(ageMyr, contributions, k);
-    return finishAge(relation, info, ageMyr, range, rel, `${source}; range adds the intrinsic scatter (${INTRINSIC_SCATTER.barnes2007.source})`, contributions, periodDays, colour, relationColour, flags, scale, roCrit);
+    return finishAge(
+      relation,
+      info,
+      ageMyr,
+      range,
+      rel,
+      `${source}; range adds the intrinsic scatter (${INTRINSIC_SCATTER.barnes2007.source})`,
+      contributions,
+      periodDays,
+      colour,
+      relationColour,
+      flags,
+      scale,
+      roCrit,
+    );
   }
   const contributions: UncertaintyContribution[] = [];
   if (pSigma > 0) {
@@ -609,7 +635,9 @@ export function estimateAge(input: AgeEstimateInput): AgeEstimate {
     contributions.push(contribution('periodDays', lnT0, evaluate({ p: periodDays + pSigma }), evaluate({ p: low })));
   }
   contributions.push(...coefficientContributions(relation, x, lnT0, evaluate, flags));
-  contributions.push(scatterContribution(relation, relation === 'angus2019' ? ANGUS_2019.cA.value : BARNES_FORM_COEFFICIENTS[relation].n.value));
+  contributions.push(
+    scatterContribution(relation, relation === 'angus2019' ? ANGUS_2019.cA.value : BARNES_FORM_COEFFICIENTS[relation].n.value),
+  );
   const lower = quadrature(contributions.map((c) => c.lowerLn));
   const upper = quadrature(contributions.map((c) => c.upperLn));
   const rel = (Math.expm1(upper) - Math.expm1(-lower)) / 2;
@@ -713,7 +741,11 @@ function colourForRelation(
       DWARF_SEQUENCE_SOURCE,
     ),
   );
-  return { colour, relationColour: { value, system, origin: `${DWARF_SEQUENCE_SOURCE} from ${colourLabel(observed.system)} ${fmt(v)}` }, flags };
+  return {
+    colour,
+    relationColour: { value, system, origin: `${DWARF_SEQUENCE_SOURCE} from ${colourLabel(observed.system)} ${fmt(v)}` },
+    flags,
+  };
 }
 
 /** A cause of "no result", before it becomes a flag. */
@@ -741,11 +773,18 @@ function colourNoResults(relation: GyroRelationId, x: number, colour: ResolvedCo
       source: info.citation,
     });
   } else if (x < cr.min || x > cr.max) {
-    out.push({ code: 'colourOutsideCalibration', reason: `${label} is outside the calibrated range of ${info.label}: ${cr.note}`, source: info.citation });
+    out.push({
+      code: 'colourOutsideCalibration',
+      reason: `${label} is outside the calibrated range of ${info.label}: ${cr.note}`,
+      source: info.citation,
+    });
   }
   const teff = teffOf(colour);
   if (teff === 'hotter' || (typeof teff === 'number' && teff > KRAFT_BREAK_TEFF_K)) {
-    const t = teff === 'hotter' ? `hotter than the dwarf sequence's first row (${DWARF_HOTTEST_TEFF_K} K)` : `Teff ≈ ${fmt(teff, 4)} K on the dwarf sequence`;
+    const t =
+      teff === 'hotter'
+        ? `hotter than the dwarf sequence's first row (${DWARF_HOTTEST_TEFF_K} K)`
+        : `Teff ≈ ${fmt(teff, 4)} K on the dwarf sequence`;
     out.push({
       code: 'aboveKraftBreak',
       reason: `${colourLabel(colour.intrinsic.system)} ${fmt(colour.intrinsic.value)} is ${t}, above the Kraft break ≈ ${KRAFT_BREAK_TEFF_K} K: such stars have thin convective envelopes and do not spin down as gyrochronology assumes`,
@@ -795,7 +834,14 @@ function calibrationFlags(relation: GyroRelationId, x: number, ageMyr: number, c
   const out: ScienceFlag[] = [];
   const ar = info.calibratedAgeMyr;
   if ((ageMyr < ar.min || ageMyr > ar.max) && ageMyr <= AGE_OF_UNIVERSE_MYR) {
-    out.push(flag('ageOutsideCalibration', 'caution', `age ${fmt(ageMyr)} Myr is outside the calibrated range of ${info.label}: ${ar.note}`, info.citation));
+    out.push(
+      flag(
+        'ageOutsideCalibration',
+        'caution',
+        `age ${fmt(ageMyr)} Myr is outside the calibrated range of ${info.label}: ${ar.note}`,
+        info.citation,
+      ),
+    );
   }
   const teff = teffOf(colour);
   const tConv = typeof teff === 'number' ? convergenceAgeMyr(teff) : null;

@@ -39,11 +39,13 @@ describe('method docs: docs/science.md anchors', () => {
   });
 
   it('plan quantities: every anchor they name exists in docs/science.md', () => {
-    for (const [key, anchor] of Object.entries(PLAN_QUANTITY_DOCS)) expect({ key, exists: ANCHORS.includes(anchor) }).toEqual({ key, exists: true });
+    for (const [key, anchor] of Object.entries(PLAN_QUANTITY_DOCS))
+      expect({ key, exists: ANCHORS.includes(anchor) }).toEqual({ key, exists: true });
   });
 
   it('sky quantities and direct sections: every anchor they name exists in docs/science.md', () => {
-    for (const [key, anchor] of Object.entries(SKY_QUANTITY_DOCS)) expect({ key, exists: ANCHORS.includes(anchor) }).toEqual({ key, exists: true });
+    for (const [key, anchor] of Object.entries(SKY_QUANTITY_DOCS))
+      expect({ key, exists: ANCHORS.includes(anchor) }).toEqual({ key, exists: true });
     for (const anchor of METHOD_SECTIONS) expect({ anchor, exists: ANCHORS.includes(anchor) }).toEqual({ anchor, exists: true });
   });
 
@@ -57,7 +59,9 @@ describe('method docs: docs/science.md anchors', () => {
     const combined = combinePlanWithSky(plan, windows, TYPICAL_NODE);
     const shown = [
       ...Object.keys(windows.summary).filter((k) => k !== 'visibility'),
-      ...(['qualifyingNights', 'expectedClearNights', 'visitingNightsNeeded', 'cadenceNightsNeeded', 'stretchDays'] as const).filter((k) => k in combined.sky),
+      ...(['qualifyingNights', 'expectedClearNights', 'visitingNightsNeeded', 'cadenceNightsNeeded', 'stretchDays'] as const).filter(
+        (k) => k in combined.sky,
+      ),
       ...(['longestSeasonDays', 'seasonsInCampaign'] as const).filter((k) => k in combined.season),
       ...(['minCoverage', 'requiredBaselineDays'] as const).filter((k) => k in combined.phase),
     ];

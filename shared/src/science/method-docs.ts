@@ -65,7 +65,10 @@ export const PLAN_QUANTITY_DOCS: Readonly<Record<keyof TargetPlanQuantities, str
 /** The sky-window numbers the product shows, by the field that carries each. */
 export type SkyQuantityKey =
   | Exclude<keyof TargetWindowSummary, 'visibility'>
-  | keyof Pick<CadenceAssessment, 'qualifyingNights' | 'expectedClearNights' | 'visitingNightsNeeded' | 'cadenceNightsNeeded' | 'stretchDays'>
+  | keyof Pick<
+      CadenceAssessment,
+      'qualifyingNights' | 'expectedClearNights' | 'visitingNightsNeeded' | 'cadenceNightsNeeded' | 'stretchDays'
+    >
   | keyof Pick<SeasonAssessment, 'longestSeasonDays' | 'seasonsInCampaign'>
   | keyof Pick<PhaseCoverageAssessment, 'minCoverage' | 'requiredBaselineDays'>
   | keyof Pick<NightDark, 'darkHours'>;

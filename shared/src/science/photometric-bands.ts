@@ -69,7 +69,8 @@ export const DEFAULT_EXTINCTION_MAG_PER_AIRMASS: Readonly<Record<NodeBand, numbe
   G: 0.12,
 };
 // Common practice, no single source.
-export const EXTINCTION_SOURCE = 'typical extinction at a good site (standard observing practice; see Methods: Per-visit precision of a node)';
+export const EXTINCTION_SOURCE =
+  'typical extinction at a good site (standard observing practice; see Methods: Per-visit precision of a node)';
 
 /**
  * Colour terms, band − V, as functions of the observed colours:
@@ -130,7 +131,16 @@ export function convertMagnitude(
   const from = requireOneOf(magnitude.band, `${field}.band`, NODE_BANDS);
   const to = requireOneOf(toBand, 'node.band', NODE_BANDS);
   if (from === to) {
-    return { magnitude: m, band: to, fromMagnitude: m, fromBand: from, offsetMag: 0, observedBvMag: null, observedBpRpMag: null, source: 'same band' };
+    return {
+      magnitude: m,
+      band: to,
+      fromMagnitude: m,
+      fromBand: from,
+      offsetMag: 0,
+      observedBvMag: null,
+      observedBpRpMag: null,
+      source: 'same band',
+    };
   }
   const point = requireSequence(colour, 'colour.value');
   const e = colour.reddeningEbvMag;

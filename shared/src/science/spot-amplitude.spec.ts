@@ -81,12 +81,14 @@ describe('amplitude conversions', () => {
   });
 
   it('rejects negative amplitudes and unknown measures', () => {
-    expect(() => convertAmplitude(-1, { measure: 'rms', unit: 'ppm' }, { measure: 'rms', unit: 'mmag' })).toThrow(/amplitude: must not be negative/);
+    expect(() => convertAmplitude(-1, { measure: 'rms', unit: 'ppm' }, { measure: 'rms', unit: 'mmag' })).toThrow(
+      /amplitude: must not be negative/,
+    );
     expect(() => convertAmplitude(1, { measure: 'p2p' as never, unit: 'ppm' }, { measure: 'rms', unit: 'mmag' })).toThrow(/from.measure/);
   });
 });
 
-describe('amplitudeRossby (Ro on the anchors\' Noyes 1984 scale via Ro/Ro☉ [derived])', () => {
+describe("amplitudeRossby (Ro on the anchors' Noyes 1984 scale via Ro/Ro☉ [derived])", () => {
   it('is the identity on the Noyes scale and Ro·Ro☉,Noyes/Ro☉,scale on the others', () => {
     expect(amplitudeRossby(1.3, 'noyes1984')).toBe(1.3);
     expect(amplitudeRossby(1.3, 'wright2018')).toBeCloseTo((1.3 * solarRossby('noyes1984')) / solarRossby('wright2018'), 12);

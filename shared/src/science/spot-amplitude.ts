@@ -36,7 +36,7 @@ export const DEFAULT_AMPLITUDE_MODEL: Readonly<AmplitudeModelCoefficients> = {
 
 // This product's model (formerly "Spincycle's two-part model"), built on two published anchors.
 export const AMPLITUDE_MODEL_SOURCE =
-  "a two-part model, an assumption of this product (see Methods: Spot amplitude): saturated level from McQuillan, Mazeh & Aigrain (2014), ApJS 211, 24; solar anchor from Nèmec et al. (2020), A&A 638, A56; exponent derived by joining the two";
+  'a two-part model, an assumption of this product (see Methods: Spot amplitude): saturated level from McQuillan, Mazeh & Aigrain (2014), ApJS 211, 24; solar anchor from Nèmec et al. (2020), A&A 638, A56; exponent derived by joining the two';
 
 /** Validates a (partial) set of coefficients, filling the defaults. */
 export function amplitudeModel(overrides: Partial<AmplitudeModelCoefficients> = {}): AmplitudeModelCoefficients {

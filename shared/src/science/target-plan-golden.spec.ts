@@ -42,7 +42,13 @@ const LARGE_NODE: NodeSpec = {
   sunAltitudeLimitDeg: -18,
   rateMinorPerHour: 12000,
 };
-const DARK_SITE: SiteSpec = { latitudeDeg: -27.45, longitudeDeg: -69.95, elevationM: 2380, timeZone: 'UTC', skyBrightnessMagPerArcsec2: 21.8 };
+const DARK_SITE: SiteSpec = {
+  latitudeDeg: -27.45,
+  longitudeDeg: -69.95,
+  elevationM: 2380,
+  timeZone: 'UTC',
+  skyBrightnessMagPerArcsec2: 21.8,
+};
 /** A moonlit sky as the sky windows would report it. */
 const MOONLIT = { medianMagPerArcsec2: 20.4, worstMagPerArcsec2: 18.9, usableNights: 41, source: 'golden fixture (invented sky)' };
 
@@ -70,7 +76,13 @@ const CASES: GoldenCase[] = [
   },
   {
     name: 'K dwarf, BP-RP, reddened, completeness 0.5',
-    target: { colour: { value: 1.2, system: 'BPRP' }, reddeningEbvMag: 0.05, ageMyr: 800, ageUncertaintyMyr: 100, magnitude: { value: 13, band: 'V' } },
+    target: {
+      colour: { value: 1.2, system: 'BPRP' },
+      reddeningEbvMag: 0.05,
+      ageMyr: 800,
+      ageUncertaintyMyr: 100,
+      magnitude: { value: 13, band: 'V' },
+    },
     node: TYPICAL_NODE,
     site: TYPICAL_SITE,
     options: { completeness: 0.5 },
@@ -84,7 +96,13 @@ const CASES: GoldenCase[] = [
   },
   {
     name: 'late K dwarf, B-V, period precision asked, moonlit sky on the 1.0 m node',
-    target: { colour: { value: 1.15, system: 'BV' }, ageMyr: 2000, ageUncertaintyMyr: 300, magnitude: { value: 14.2, band: 'V' }, periodPrecisionDays: 0.1 },
+    target: {
+      colour: { value: 1.15, system: 'BV' },
+      ageMyr: 2000,
+      ageUncertaintyMyr: 300,
+      magnitude: { value: 14.2, band: 'V' },
+      periodPrecisionDays: 0.1,
+    },
     node: LARGE_NODE,
     site: DARK_SITE,
     options: { sky: MOONLIT },
@@ -97,13 +115,26 @@ const CASES: GoldenCase[] = [
   },
   {
     name: 'M dwarf, proposer-given period 0.8 ± 0.05 d (fast rotator)',
-    target: { colour: { value: 2.6, system: 'BPRP' }, ageMyr: 120, ageUncertaintyMyr: 20, magnitude: { value: 13.5, band: 'I' }, periodDays: 0.8, periodUncertaintyDays: 0.05 },
+    target: {
+      colour: { value: 2.6, system: 'BPRP' },
+      ageMyr: 120,
+      ageUncertaintyMyr: 20,
+      magnitude: { value: 13.5, band: 'I' },
+      periodDays: 0.8,
+      periodUncertaintyDays: 0.05,
+    },
     node: TYPICAL_NODE,
     site: TYPICAL_SITE,
   },
   {
     name: 'M dwarf, proposer-given period 15 d (default uncertainty), moonlit sky, completeness 0.99',
-    target: { colour: { value: 2.4, system: 'BPRP' }, ageMyr: 1500, ageUncertaintyMyr: 200, magnitude: { value: 12.8, band: 'R' }, periodDays: 15 },
+    target: {
+      colour: { value: 2.4, system: 'BPRP' },
+      ageMyr: 1500,
+      ageUncertaintyMyr: 200,
+      magnitude: { value: 12.8, band: 'R' },
+      periodDays: 15,
+    },
     node: LARGE_NODE,
     site: DARK_SITE,
     options: { sky: MOONLIT, completeness: 0.99 },
@@ -177,7 +208,12 @@ describe('target plan golden output (TARGET_PLAN_MODEL_VERSION guard)', () => {
           );
         }
       }
-      const fixture: Fixture = { modelVersion: TARGET_PLAN_MODEL_VERSION, significantFigures: SIGNIFICANT, regenerate: REGENERATE, cases: now };
+      const fixture: Fixture = {
+        modelVersion: TARGET_PLAN_MODEL_VERSION,
+        significantFigures: SIGNIFICANT,
+        regenerate: REGENERATE,
+        cases: now,
+      };
       writeFileSync(FIXTURE, `${JSON.stringify(fixture, null, 2)}\n`);
     });
     return;
@@ -210,6 +246,8 @@ describe('target plan golden output (TARGET_PLAN_MODEL_VERSION guard)', () => {
           `and regenerate the fixture with ${REGENERATE}\n${changed.join('\n')}`,
       );
     }
-    throw new Error(`the fixture is of model version ${fixture.modelVersion}, the code of ${TARGET_PLAN_MODEL_VERSION}: regenerate it with ${REGENERATE}\n${changed.join('\n')}`);
+    throw new Error(
+      `the fixture is of model version ${fixture.modelVersion}, the code of ${TARGET_PLAN_MODEL_VERSION}: regenerate it with ${REGENERATE}\n${changed.join('\n')}`,
+    );
   });
 });

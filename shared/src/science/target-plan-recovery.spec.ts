@@ -37,20 +37,23 @@ const CASES: Array<{ target: TargetPlanTarget; node: NodeSpec }> = [
 const TRIALS = 400;
 
 describe('target plans keep their promise (injection–recovery, product Lomb–Scargle)', () => {
-  it.each(CASES.map((c) => [c.target.name, c] as const))('%s: the recovered fraction matches the stated completeness', (_name, { target, node }) => {
-    const plan = computeTargetPlan(target, node, TYPICAL_SITE);
-    expect(plan.feasible).toBe(true);
-    const stated = plan.quantities.completeness.value;
-    expect(stated).toBeGreaterThanOrEqual(0.9 - 1e-9);
-    const recovered = recoveryFraction(plan, seededRandom(20261202), TRIALS);
-    const mcSigma = Math.sqrt((stated * (1 - stated)) / TRIALS);
-    // The promise: never below the stated completeness beyond 3σ of Monte-Carlo error
-    // (common practice, no source) — e.g. ≥ 0.86 for a 90 % plan with 400 trials…
-    expect(recovered).toBeGreaterThanOrEqual(stated - 3 * mcSigma);
-    // …and not bought with far more visits than needed: the Baluev false-alarm level is an
-    // upper bound, so recovery runs a little above the statement, never far.
-    expect(recovered).toBeLessThanOrEqual(Math.min(1, stated + 4 * mcSigma + 0.02));
-  });
+  it.each(CASES.map((c) => [c.target.name, c] as const))(
+    '%s: the recovered fraction matches the stated completeness',
+    (_name, { target, node }) => {
+      const plan = computeTargetPlan(target, node, TYPICAL_SITE);
+      expect(plan.feasible).toBe(true);
+      const stated = plan.quantities.completeness.value;
+      expect(stated).toBeGreaterThanOrEqual(0.9 - 1e-9);
+      const recovered = recoveryFraction(plan, seededRandom(20261202), TRIALS);
+      const mcSigma = Math.sqrt((stated * (1 - stated)) / TRIALS);
+      // The promise: never below the stated completeness beyond 3σ of Monte-Carlo error
+      // (common practice, no source) — e.g. ≥ 0.86 for a 90 % plan with 400 trials…
+      expect(recovered).toBeGreaterThanOrEqual(stated - 3 * mcSigma);
+      // …and not bought with far more visits than needed: the Baluev false-alarm level is an
+      // upper bound, so recovery runs a little above the statement, never far.
+      expect(recovered).toBeLessThanOrEqual(Math.min(1, stated + 4 * mcSigma + 0.02));
+    },
+  );
 
   it('a 50 % plan recovers about half, a 99 % plan nearly all (the price of certainty is real)', () => {
     const target = CASES[3].target;
@@ -70,7 +73,14 @@ describe('target plans keep their promise (injection–recovery, product Lomb–
     // Same nights, but only the nights at which the mean power sits at the threshold.
     const z0 = (0.5 * (q.visitNights.value - 3) * q.detectionThresholdPower.value) / (1 - q.detectionThresholdPower.value);
     const nightsAtMean = Math.ceil((4 * q.nightlyPrecisionPpm.value ** 2 * z0) / q.semiAmplitudePpm.value ** 2);
-    const thin = { ...plan, quantities: { ...q, visitNights: { ...q.visitNights, value: nightsAtMean }, baselineDays: { ...q.baselineDays, value: nightsAtMean - 1 } } };
+    const thin = {
+      ...plan,
+      quantities: {
+        ...q,
+        visitNights: { ...q.visitNights, value: nightsAtMean },
+        baselineDays: { ...q.baselineDays, value: nightsAtMean - 1 },
+      },
+    };
     const r = recoveryFraction(thin, seededRandom(5), TRIALS);
     expect(r).toBeLessThan(0.75);
   });
@@ -84,6 +94,6 @@ describe('target plans keep their promise (injection–recovery, product Lomb–
       if (res.falseAlarmProbability <= plan.analysis.falseAlarmProbability) falseHits++;
     }
     // FAP 1 %: at most 1 % + 3σ of 400 trials detect anything at all.
-    expect(falseHits / TRIALS).toBeLessThanOrEqual(0.01 + 3 * Math.sqrt(0.01 * 0.99 / TRIALS));
+    expect(falseHits / TRIALS).toBeLessThanOrEqual(0.01 + 3 * Math.sqrt((0.01 * 0.99) / TRIALS));
   });
 });

@@ -18,7 +18,14 @@ import {
 import { type ScienceFlag, flag, fmt } from './explained';
 import { type GyroRelationId, type PeriodPrediction, predictPeriod } from './gyrochronology';
 import { ScienceInputError } from './science-input-error';
-import { type AmplitudeModelCoefficients, type SpotAmplitude, RPER_PER_SEMI_AMPLITUDE, amplitudeModel, amplitudeRossby, spotAmplitude } from './spot-amplitude';
+import {
+  type AmplitudeModelCoefficients,
+  type SpotAmplitude,
+  RPER_PER_SEMI_AMPLITUDE,
+  amplitudeModel,
+  amplitudeRossby,
+  spotAmplitude,
+} from './spot-amplitude';
 import { type TurnoverScale, type TurnoverTime, defaultTurnoverScaleFor, turnoverTimeForColour } from './turnover-time';
 
 // ---------------------------------------------------------------------------------------
@@ -64,9 +71,7 @@ export const EXPLICIT_PERIOD_DEFAULT_FRACTION = 0.1;
 /** Step 1–2: the colour de-reddened, the τ scale, and the period with its plausible range. */
 export function periodStep(input: PeriodStepInput): PeriodStep {
   const colour = resolveColour(input.colour, input.reddeningEbvMag);
-  const scaleChoice = input.turnoverScale
-    ? { scale: input.turnoverScale, why: 'your input' }
-    : defaultTurnoverScaleFor(colour);
+  const scaleChoice = input.turnoverScale ? { scale: input.turnoverScale, why: 'your input' } : defaultTurnoverScaleFor(colour);
   const prediction = predictPeriod({
     relation: input.relation,
     colour: input.colour,
@@ -82,7 +87,8 @@ export function periodStep(input: PeriodStepInput): PeriodStep {
     const p = input.explicitPeriodDays;
     if (!(Number.isFinite(p) && p > 0)) throw new ScienceInputError('periodDays', `must be a positive number of days (got ${p})`);
     const sigma = input.explicitPeriodUncertaintyDays ?? EXPLICIT_PERIOD_DEFAULT_FRACTION * p;
-    if (!(Number.isFinite(sigma) && sigma >= 0)) throw new ScienceInputError('periodUncertaintyDays', `must not be negative (got ${sigma})`);
+    if (!(Number.isFinite(sigma) && sigma >= 0))
+      throw new ScienceInputError('periodUncertaintyDays', `must not be negative (got ${sigma})`);
     const k = input.rangeSigma;
     // The relation's own verdict becomes information: the proposer's period replaces it.
     const kept = flags.map((f) => (f.code === 'noExpectedPeriod' ? { ...f, severity: 'info' as const } : f));
@@ -139,7 +145,16 @@ export function amplitudeStep(period: PeriodStep, overrides: Partial<AmplitudeMo
   const nominal = spotAmplitude(amplitudeRossby(rossby, period.turnoverScale), model);
   const anchorRossby = amplitudeRossby(roMax, period.turnoverScale);
   const used = spotAmplitude(anchorRossby, model);
-  return { model, tau, rossby, rossbyAtLongestPeriod: roMax, anchorRossby, nominal, used, semiAmplitudePpm: used.rperPpm / RPER_PER_SEMI_AMPLITUDE };
+  return {
+    model,
+    tau,
+    rossby,
+    rossbyAtLongestPeriod: roMax,
+    anchorRossby,
+    nominal,
+    used,
+    semiAmplitudePpm: used.rperPpm / RPER_PER_SEMI_AMPLITUDE,
+  };
 }
 
 // ---------------------------------------------------------------------------------------
@@ -155,7 +170,12 @@ export interface CadenceStep {
 }
 
 /** Step 5: visits per night and night step for ≥ s samples per cycle of the shortest period. */
-export function cadenceStep(shortestPeriodDays: number, samplesPerCycle: number, aliasPeriodDays: number, minVisitsPerNightShortPeriod: number): CadenceStep {
+export function cadenceStep(
+  shortestPeriodDays: number,
+  samplesPerCycle: number,
+  aliasPeriodDays: number,
+  minVisitsPerNightShortPeriod: number,
+): CadenceStep {
   const pMin = shortestPeriodDays;
   const s = samplesPerCycle;
   const sampleIntervalDays = pMin / s;
@@ -390,8 +410,21 @@ export function sizeVisits(input: VisitSizingInput): VisitSizing {
     const e = evaluate(T, s, k);
     const limits = { usefulVisitsPerNight: kUseful, longestBaselineDays: tMax, mostVisitsPerNight: kMax };
     if (!detail) {
-      return { baselineDays: T, nightStepDays: s, visitsPerNight: k, nights: e.n, visits: e.n * k, threshold: e.th,
-        noncentrality: e.lam, seriesSigmaPpm: e.sigma, completeness: e.pd, drivenBy, amplitudeLimitPpm: Number.NaN, floorAmplitudeLimitPpm: Number.NaN, ...limits };
+      return {
+        baselineDays: T,
+        nightStepDays: s,
+        visitsPerNight: k,
+        nights: e.n,
+        visits: e.n * k,
+        threshold: e.th,
+        noncentrality: e.lam,
+        seriesSigmaPpm: e.sigma,
+        completeness: e.pd,
+        drivenBy,
+        amplitudeLimitPpm: Number.NaN,
+        floorAmplitudeLimitPpm: Number.NaN,
+        ...limits,
+      };
     }
     // Both limits share the longest campaign's threshold, hence one inversion.
     let lamMax: number | undefined;

@@ -25,7 +25,13 @@ describe('computeTargetPlan', () => {
       expect(q.source.length).toBeGreaterThan(3);
       expect(['paper', 'derived', 'memory', 'practice', 'choice', 'facility']).toContain(q.tag);
     }
-    expect(plan).toMatchObject({ targetName: 'Star A-17', relation: 'angus2019', turnoverScale: 'noyes1984', currency: 'eur', feasible: true });
+    expect(plan).toMatchObject({
+      targetName: 'Star A-17',
+      relation: 'angus2019',
+      turnoverScale: 'noyes1984',
+      currency: 'eur',
+      feasible: true,
+    });
   });
 
   it('chains the numbers consistently', () => {
@@ -36,7 +42,10 @@ describe('computeTargetPlan', () => {
     expect(q.visits.value).toBeGreaterThanOrEqual(q.visitsForCadence.value);
     expect(q.visits.value).toBe(q.visitsPerNight.value * q.visitNights.value);
     const k = q.exposuresPerVisit.value;
-    expect(q.visitSeconds.value).toBeCloseTo(k * q.exposureSeconds.value + (k - 1) * PLAN_DEFAULTS.readoutSeconds + NODE.overheadSeconds, 9);
+    expect(q.visitSeconds.value).toBeCloseTo(
+      k * q.exposureSeconds.value + (k - 1) * PLAN_DEFAULTS.readoutSeconds + NODE.overheadSeconds,
+      9,
+    );
     expect(q.nodeHoursClear.value).toBeCloseTo((q.visits.value * q.visitSeconds.value) / 3600, 9);
     expect(q.nodeHours.value).toBeGreaterThanOrEqual(q.nodeHoursClear.value / (1 - NODE.weatherLossFraction) - 1e-9);
     expect(Number.isInteger(q.feeMinor.value)).toBe(true);
@@ -177,14 +186,22 @@ describe('computeTargetPlan', () => {
 
   it('rejects a bad node or site naming the field', () => {
     expect(() => computeTargetPlan(STAR, { ...NODE, saturationE: 0 }, SITE)).toThrow(/node.saturationE/);
-    expect(() => computeTargetPlan(STAR, NODE, { ...SITE, skyBrightnessMagPerArcsec2: Number.NaN })).toThrow(/site.skyBrightnessMagPerArcsec2/);
+    expect(() => computeTargetPlan(STAR, NODE, { ...SITE, skyBrightnessMagPerArcsec2: Number.NaN })).toThrow(
+      /site.skyBrightnessMagPerArcsec2/,
+    );
   });
 });
 
 describe('computeTargetPlan, exposures per visit', () => {
   // An old, bright G dwarf: small spot amplitude, and a saturation-capped single exposure
   // dominated by scintillation.
-  const BRIGHT_OLD: TargetPlanTarget = { name: 'Star B-2', colour: { value: 0.65, system: 'BV' }, ageMyr: 4000, ageUncertaintyMyr: 500, magnitude: { value: 9.6, band: 'V' } };
+  const BRIGHT_OLD: TargetPlanTarget = {
+    name: 'Star B-2',
+    colour: { value: 0.65, system: 'BV' },
+    ageMyr: 4000,
+    ageUncertaintyMyr: 500,
+    magnitude: { value: 9.6, band: 'V' },
+  };
 
   it('stacks exposures when the single exposure is capped by saturation, and the visit gets more precise', () => {
     const plan = computeTargetPlan(BRIGHT_OLD, NODE, SITE);
@@ -271,7 +288,17 @@ describe('computeTargetPlan, plans that reach the goal only at a price', () => {
 
   it('keeps the cadence campaign of a plan no campaign can make reach the goal, with the completeness it gives', () => {
     // An old, bright G dwarf: spots below what the floor lets any campaign detect at 90 %.
-    const plan = computeTargetPlan({ name: 'Star B-2', colour: { value: 0.65, system: 'BV' }, ageMyr: 4000, ageUncertaintyMyr: 500, magnitude: { value: 9.6, band: 'V' } }, NODE, SITE);
+    const plan = computeTargetPlan(
+      {
+        name: 'Star B-2',
+        colour: { value: 0.65, system: 'BV' },
+        ageMyr: 4000,
+        ageUncertaintyMyr: 500,
+        magnitude: { value: 9.6, band: 'V' },
+      },
+      NODE,
+      SITE,
+    );
     const q = plan.quantities;
     expect(plan.feasible).toBe(false);
     const floor = plan.flags.find((f) => f.code === 'amplitudeBelowFloor');
@@ -300,7 +327,11 @@ describe('computeTargetPlan, wording a user reads', () => {
     computeTargetPlan({ ...STAR, colour: { value: 0.9, system: 'BV' }, reddeningEbvMag: 0.1, periodDays: 12 }, NODE, SITE),
     computeTargetPlan({ ...STAR, magnitude: { value: 14.5, band: 'G' } }, NODE, SITE),
     computeTargetPlan({ ...STAR, magnitude: { value: 6, band: 'V' } }, NODE, SITE),
-    computeTargetPlan({ ...STAR, ageMyr: 4000, ageUncertaintyMyr: 400, periodPrecisionDays: 0.5 }, { ...NODE, systematicFloorMmag: 0.25 }, SITE),
+    computeTargetPlan(
+      { ...STAR, ageMyr: 4000, ageUncertaintyMyr: 400, periodPrecisionDays: 0.5 },
+      { ...NODE, systematicFloorMmag: 0.25 },
+      SITE,
+    ),
   ];
 
   it('says no provenance note, code name or "the user" in any why line, source or flag', () => {
@@ -315,13 +346,21 @@ describe('computeTargetPlan, wording a user reads', () => {
       SITE,
     );
     const q = plan.quantities;
-    expect(q.sampleIntervalDays.why).toMatch(/^the period needs a sample at least every 3\.\d+ d \(10 per rotation of the shortest plausible period, 3\d\.?\d* d\)$/);
+    expect(q.sampleIntervalDays.why).toMatch(
+      /^the period needs a sample at least every 3\.\d+ d \(10 per rotation of the shortest plausible period, 3\d\.?\d* d\)$/,
+    );
     expect(q.nightStepDays.value).toBe(1);
     expect(q.nightStepDays.why).toBe('every night: the cadence needs every 3rd night, 90 % completeness needs every night');
-    expect(q.visitsPerNight.why).toBe(`${q.visitsPerNight.value} a night: the cadence needs 1, 90 % completeness needs ${q.visitsPerNight.value}`);
+    expect(q.visitsPerNight.why).toBe(
+      `${q.visitsPerNight.value} a night: the cadence needs 1, 90 % completeness needs ${q.visitsPerNight.value}`,
+    );
     expect(q.visitNights.why).toMatch(/^\d+ nights: every night over \d+ d/);
     // The cadence alone (no sizing) says the same interval in the night step and visits.
-    const cadence = computeTargetPlan({ ...STAR, colour: { value: 1.6, system: 'BPRP' }, ageMyr: 4000, ageUncertaintyMyr: 500, magnitude: { value: 12, band: 'G' } }, NODE, SITE).quantities;
+    const cadence = computeTargetPlan(
+      { ...STAR, colour: { value: 1.6, system: 'BPRP' }, ageMyr: 4000, ageUncertaintyMyr: 500, magnitude: { value: 12, band: 'G' } },
+      NODE,
+      SITE,
+    ).quantities;
     expect(cadence.nightStepDays.why).toMatch(/^every 3rd night: a sample at least every 3\.\d+ d, in whole nights$/);
     expect(cadence.visitsPerNight.why).toMatch(/^1 a night: one visit per visit night keeps a sample at least every 3\.\d+ d$/);
   });
@@ -330,7 +369,9 @@ describe('computeTargetPlan, wording a user reads', () => {
     const faint = computeTargetPlan({ ...STAR, magnitude: { value: 14.5, band: 'G' } }, NODE, SITE).quantities;
     expect(faint.exposureSeconds.why).toBe("limited by the node's longest exposure");
     const bright = computeTargetPlan({ ...STAR, magnitude: { value: 4, band: 'V' } }, NODE, SITE);
-    expect(bright.flags.find((f) => f.code === 'saturatesAtMinExposure')?.source).toBe("peak pixel of a Gaussian star image against the node's saturation level");
+    expect(bright.flags.find((f) => f.code === 'saturatesAtMinExposure')?.source).toBe(
+      "peak pixel of a Gaussian star image against the node's saturation level",
+    );
   });
 
   it('says the proposer-given period and the completeness setting are your input', () => {
@@ -338,11 +379,13 @@ describe('computeTargetPlan, wording a user reads', () => {
     expect(plan.quantities.periodDays.source).toBe('your input');
     expect(plan.quantities.periodDays.why).toMatch(/^your input \(Angus et al\. \(2019\) gives [\d.]+ d\)$/);
     expect(plan.quantities.shortestPeriodDays.why).toBe('−1σ of your period');
-    expect(plan.flags.find((f) => f.code === 'explicitPeriod')?.message).toBe('your period 12 ± 1.2 d is used instead of Angus et al. (2019)');
+    expect(plan.flags.find((f) => f.code === 'explicitPeriod')?.message).toBe(
+      'your period 12 ± 1.2 d is used instead of Angus et al. (2019)',
+    );
     expect(plan.quantities.requestedCompleteness.source).toBe("your input: the proposal's completeness setting");
   });
 
-  it('reports a magnitude out of the noise model\'s range as typed, with the band it was converted to', () => {
+  it("reports a magnitude out of the noise model's range as typed, with the band it was converted to", () => {
     const err = (() => {
       try {
         computeTargetPlan({ ...STAR, magnitude: { value: 24.9, band: 'G' } }, NODE, SITE);
@@ -352,7 +395,9 @@ describe('computeTargetPlan, wording a user reads', () => {
       throw new Error('no error');
     })();
     expect(err.field).toBe('target.magnitude');
-    expect(err.reason).toMatch(/^G 24\.9 is 25\.\d+ in the node's V band, outside what the noise model covers \(between −2 and 25 mag in V\)$/);
+    expect(err.reason).toMatch(
+      /^G 24\.9 is 25\.\d+ in the node's V band, outside what the noise model covers \(between −2 and 25 mag in V\)$/,
+    );
     expect(() => computeTargetPlan({ ...STAR, magnitude: { value: -3, band: 'V' } }, NODE, SITE)).toThrow(
       'target.magnitude: V −3 is outside what the noise model covers (between −2 and 25 mag)',
     );

@@ -292,7 +292,7 @@ const SATURATION_SOURCE = "peak pixel of a Gaussian star image against the node'
 function nightStepText(step: number): string {
   if (step === 1) return 'every night';
   const tens = step % 100;
-  const suffix = tens >= 11 && tens <= 13 ? 'th' : ({ 1: 'st', 2: 'nd', 3: 'rd' } as Record<number, string>)[step % 10] ?? 'th';
+  const suffix = tens >= 11 && tens <= 13 ? 'th' : (({ 1: 'st', 2: 'nd', 3: 'rd' } as Record<number, string>)[step % 10] ?? 'th');
   return `every ${step}${suffix} night`;
 }
 
@@ -311,12 +311,7 @@ export function defaultRelationFor(system: TargetColourSystem): GyroRelationId {
  * field (`target.ageMyr`, `node.apertureM`, `options.samplesPerCycle`...) for bad input;
  * never returns NaN.
  */
-export function computeTargetPlan(
-  target: TargetPlanTarget,
-  node: NodeSpec,
-  site: SiteSpec,
-  options: TargetPlanOptions = {},
-): TargetPlan {
+export function computeTargetPlan(target: TargetPlanTarget, node: NodeSpec, site: SiteSpec, options: TargetPlanOptions = {}): TargetPlan {
   if (typeof target !== 'object' || target === null) throw new ScienceInputError('target', 'is missing');
   validateNodeSpec(node);
   validateSiteSpec(site);
@@ -324,8 +319,10 @@ export function computeTargetPlan(
   const o = resolveOptions(options, system, node);
   const flags: ScienceFlag[] = [];
   if (target.periodDays !== undefined) prefixed('target', () => requireInRange(target.periodDays, 'periodDays', 0.05, 1000));
-  if (target.periodUncertaintyDays !== undefined) prefixed('target', () => requireInRange(target.periodUncertaintyDays, 'periodUncertaintyDays', 0, 1000));
-  if (target.periodPrecisionDays !== undefined) prefixed('target', () => requirePositive(target.periodPrecisionDays, 'periodPrecisionDays'));
+  if (target.periodUncertaintyDays !== undefined)
+    prefixed('target', () => requireInRange(target.periodUncertaintyDays, 'periodUncertaintyDays', 0, 1000));
+  if (target.periodPrecisionDays !== undefined)
+    prefixed('target', () => requirePositive(target.periodPrecisionDays, 'periodPrecisionDays'));
 
   // 1–2. Colour, τ scale, period and its plausible range.
   const period = prefixed('target', () =>
@@ -344,7 +341,9 @@ export function computeTargetPlan(
   );
   for (const f of period.flags) {
     if (f.code === 'noExpectedPeriod' && f.severity === 'blocking') {
-      flags.push(flag('noExpectedPeriod', 'blocking', `${f.message.replace(/\.$/, '')}: give the star's expected period to plan it`, f.source));
+      flags.push(
+        flag('noExpectedPeriod', 'blocking', `${f.message.replace(/\.$/, '')}: give the star's expected period to plan it`, f.source),
+      );
     } else flags.push(f);
   }
   const prediction = period.prediction;
@@ -375,7 +374,9 @@ export function computeTargetPlan(
   }
   const airmass = airmassKastenYoung(o.planningAltitudeDeg);
   const skyMag = o.sky ? o.sky.medianMagPerArcsec2 : site.skyBrightnessMagPerArcsec2;
-  const setup = prefixed('target', () => photometrySetup(node, { ...site, skyBrightnessMagPerArcsec2: skyMag }, mag.magnitude, airmass, o.photometry));
+  const setup = prefixed('target', () =>
+    photometrySetup(node, { ...site, skyBrightnessMagPerArcsec2: skyMag }, mag.magnitude, airmass, o.photometry),
+  );
 
   // 5. Cadence from the shortest plausible period.
   const cad = cadenceStep(pMin, o.samplesPerCycle, o.aliasPeriodDays, o.minVisitsPerNightShortPeriod);
@@ -424,7 +425,8 @@ export function computeTargetPlan(
   );
 
   // 7. Visits for the completeness over nightly means; the price of other completeness levels.
-  const visitSeconds = stack.exposuresPerVisit * exposure.exposureSeconds + (stack.exposuresPerVisit - 1) * o.readoutSeconds + node.overheadSeconds;
+  const visitSeconds =
+    stack.exposuresPerVisit * exposure.exposureSeconds + (stack.exposuresPerVisit - 1) * o.readoutSeconds + node.overheadSeconds;
   const maxVisitsPerNight = Math.max(1, Math.floor((o.observableHoursPerNight * 3600) / visitSeconds));
   const detectionCache = new Map<number, number>();
   const sizingFor = (completeness: number, detail = false): VisitSizing =>
@@ -493,12 +495,23 @@ export function computeTargetPlan(
   }
   if (baseline > o.coherenceCycles * P) {
     flags.push(
-      flag('baselineBeyondSpotCoherence', 'caution', `the baseline spans ${fmt(baseline / P)} rotations: spots evolve, so the signal may lose coherence over it`, COHERENCE_ASSUMPTION),
+      flag(
+        'baselineBeyondSpotCoherence',
+        'caution',
+        `the baseline spans ${fmt(baseline / P)} rotations: spots evolve, so the signal may lose coherence over it`,
+        COHERENCE_ASSUMPTION,
+      ),
     );
   }
   const longestSearched = Math.min(baseline, o.searchLongPeriodFactor * pMax);
   const fmin = 1 / longestSearched;
-  const expectedSigmaP = periodPrecision({ visits: series === 'nightlyMeans' ? sz.nights : sz.visits, sigmaPpm: sz.seriesSigmaPpm, semiAmplitudePpm, baselineDays: baseline, periodDays: pMax });
+  const expectedSigmaP = periodPrecision({
+    visits: series === 'nightlyMeans' ? sz.nights : sz.visits,
+    sigmaPpm: sz.seriesSigmaPpm,
+    semiAmplitudePpm,
+    baselineDays: baseline,
+    periodDays: pMax,
+  });
 
   const pct = (c: number) => `${fmt(c * 100)} %`;
   // 8. Hours and fee.
@@ -512,8 +525,12 @@ export function computeTargetPlan(
   if (sz.drivenBy !== 'unreachable') {
     const nightHours = (visitsPerNight * visitSeconds) / 3600;
     const cheaper =
-      (bl.setBy === 'precision' ? `; a looser period precision (the requested ${fmt(target.periodPrecisionDays ?? Number.NaN)} d sets the baseline to ${bl.baselineDays} d)` : '') +
-      (levels[0].drivenBy !== 'unreachable' && levels[0].visits < visits ? `; 50 % completeness needs ${countOf(levels[0].visits, 'visit')} (${fmt(hoursOf(levels[0].visits))} node-hours)` : '');
+      (bl.setBy === 'precision'
+        ? `; a looser period precision (the requested ${fmt(target.periodPrecisionDays ?? Number.NaN)} d sets the baseline to ${bl.baselineDays} d)`
+        : '') +
+      (levels[0].drivenBy !== 'unreachable' && levels[0].visits < visits
+        ? `; 50 % completeness needs ${countOf(levels[0].visits, 'visit')} (${fmt(hoursOf(levels[0].visits))} node-hours)`
+        : '');
     if (visitsPerNight > sz.usefulVisitsPerNight) {
       flags.push(
         flag(
@@ -616,13 +633,43 @@ export function computeTargetPlan(
       mag.source,
       mag.fromBand === mag.band ? 'paper' : 'memory',
     ),
-    airmass: explained(airmass, '1', `planning altitude ${fmt(o.planningAltitudeDeg)}° (sky windows give the real range)`, 'Kasten & Young (1989), Appl. Opt. 28, 4735, eq. 3', 'paper'),
+    airmass: explained(
+      airmass,
+      '1',
+      `planning altitude ${fmt(o.planningAltitudeDeg)}° (sky windows give the real range)`,
+      'Kasten & Young (1989), Appl. Opt. 28, 4735, eq. 3',
+      'paper',
+    ),
     skyBrightnessMagPerArcsec2: o.sky
-      ? explained(o.sky.medianMagPerArcsec2, 'mag/arcsec²', `median sky with the Moon over the ${o.sky.usableNights} nights the target is observable (site's dark sky ${fmt(site.skyBrightnessMagPerArcsec2)})`, o.sky.source, 'memory')
-      : explained(site.skyBrightnessMagPerArcsec2, 'mag/arcsec²', "the site's dark sky: no sky windows given, so the Moon is not counted", "the site's own value", 'facility'),
+      ? explained(
+          o.sky.medianMagPerArcsec2,
+          'mag/arcsec²',
+          `median sky with the Moon over the ${o.sky.usableNights} nights the target is observable (site's dark sky ${fmt(site.skyBrightnessMagPerArcsec2)})`,
+          o.sky.source,
+          'memory',
+        )
+      : explained(
+          site.skyBrightnessMagPerArcsec2,
+          'mag/arcsec²',
+          "the site's dark sky: no sky windows given, so the Moon is not counted",
+          "the site's own value",
+          'facility',
+        ),
     worstSkyBrightnessMagPerArcsec2: o.sky
-      ? explained(o.sky.worstMagPerArcsec2, 'mag/arcsec²', 'brightest sky on a night the target is observable (a visit then is noisier than planned)', o.sky.source, 'memory')
-      : explained(site.skyBrightnessMagPerArcsec2, 'mag/arcsec²', "the site's dark sky: no sky windows given", "the site's own value", 'facility'),
+      ? explained(
+          o.sky.worstMagPerArcsec2,
+          'mag/arcsec²',
+          'brightest sky on a night the target is observable (a visit then is noisier than planned)',
+          o.sky.source,
+          'memory',
+        )
+      : explained(
+          site.skyBrightnessMagPerArcsec2,
+          'mag/arcsec²',
+          "the site's dark sky: no sky windows given",
+          "the site's own value",
+          'facility',
+        ),
     starPhotonRatePerSecond: explained(
       setup.starRateE,
       'e⁻/s',
@@ -638,7 +685,13 @@ export function computeTargetPlan(
       "peak pixel of a Gaussian star image, [erf(p/(2√2σ))]², against the node's saturation level (standard observing practice; see Methods: Exposure, saturation and stacking)",
       'practice',
     ),
-    perVisitPrecisionGoalPpm: explained(goalPpm, 'ppm', goalWhy, DETECTION_SOURCE, o.perVisitPrecisionPpm !== undefined ? 'choice' : 'derived'),
+    perVisitPrecisionGoalPpm: explained(
+      goalPpm,
+      'ppm',
+      goalWhy,
+      DETECTION_SOURCE,
+      o.perVisitPrecisionPpm !== undefined ? 'choice' : 'derived',
+    ),
     exposureSeconds:
       o.exposureSeconds !== undefined
         ? explained(
@@ -665,7 +718,9 @@ export function computeTargetPlan(
       '1',
       stack.why,
       // `practice`: stacking with a floor that does not average down is common practice, no single source.
-      o.exposuresPerVisit !== undefined ? 'your input' : 'σ_visit² = (σ₁² − floor²)/k + floor²: standard observing practice (see Methods: Exposure, saturation and stacking)',
+      o.exposuresPerVisit !== undefined
+        ? 'your input'
+        : 'σ_visit² = (σ₁² − floor²)/k + floor²: standard observing practice (see Methods: Exposure, saturation and stacking)',
       o.exposuresPerVisit !== undefined ? 'choice' : 'practice',
     ),
     perVisitPrecisionPpm: explained(
@@ -674,10 +729,18 @@ export function computeTargetPlan(
       `${stack.exposuresPerVisit > 1 ? `${stack.exposuresPerVisit} exposures of ` : ''}photon ${fmt(exposure.precision.components.photonPpm)}, sky ${fmt(exposure.precision.components.skyPpm)}, read ${fmt(exposure.precision.components.readPpm)}, scintillation ${fmt(exposure.precision.components.scintillationPpm)} (${node.scintillationModel === 'young1967' ? 'Young 1967, uncorrected' : 'Osborn et al. 2015'}), floor ${fmt(floorPpm)} ppm in quadrature`,
       // Howell (2006) from memory (docs/science.md "Checked values").
       'CCD equation, Howell (2006), Handbook of CCD Astronomy; ' +
-        (node.scintillationModel === 'young1967' ? 'Young (1967), AJ 72, 747, in its usual restatement' : 'Osborn et al. (2015), MNRAS 452, 1707, eq. 7'),
+        (node.scintillationModel === 'young1967'
+          ? 'Young (1967), AJ 72, 747, in its usual restatement'
+          : 'Osborn et al. (2015), MNRAS 452, 1707, eq. 7'),
       'memory',
     ),
-    perVisitPrecisionMmag: explained(MAG_PER_RELATIVE_FLUX * sigmaPpm * 1e-3, 'mmag', `σ(mag) = ${fmt(MAG_PER_RELATIVE_FLUX, 5)}·σ(flux)/flux`, '2.5/ln 10: the derivative of the magnitude scale (exact)', 'derived'),
+    perVisitPrecisionMmag: explained(
+      MAG_PER_RELATIVE_FLUX * sigmaPpm * 1e-3,
+      'mmag',
+      `σ(mag) = ${fmt(MAG_PER_RELATIVE_FLUX, 5)}·σ(flux)/flux`,
+      '2.5/ln 10: the derivative of the magnitude scale (exact)',
+      'derived',
+    ),
     nightlyPrecisionPpm: explained(
       nightlySigmaPpm(whitePpm, floorPpm, visitsPerNight),
       'ppm',
@@ -714,7 +777,13 @@ export function computeTargetPlan(
       CADENCE_PRACTICE,
       'practice',
     ),
-    baselineForCyclesDays: explained(bl.forCyclesDays, 'd', `${o.baselineCycles} rotations of the longest plausible period ${fmt(pMax)} d`, BASELINE_PRACTICE, 'practice'),
+    baselineForCyclesDays: explained(
+      bl.forCyclesDays,
+      'd',
+      `${o.baselineCycles} rotations of the longest plausible period ${fmt(pMax)} d`,
+      BASELINE_PRACTICE,
+      'practice',
+    ),
     baselineForPrecisionDays: explained(
       bl.forPrecisionDays,
       'd',
@@ -772,7 +841,13 @@ export function computeTargetPlan(
       BALUEV_SOURCE,
       'derived',
     ),
-    requestedCompleteness: explained(o.completeness, '1', 'chance of recovering the period that the plan is sized for', "your input: the proposal's completeness setting", 'choice'),
+    requestedCompleteness: explained(
+      o.completeness,
+      '1',
+      'chance of recovering the period that the plan is sized for',
+      "your input: the proposal's completeness setting",
+      'choice',
+    ),
     completeness: explained(
       sz.completeness,
       '1',
@@ -787,9 +862,27 @@ export function computeTargetPlan(
       CADENCE_PRACTICE,
       'practice',
     ),
-    visitsForCompleteness50: explained(levels[0].drivenBy === 'unreachable' ? null : levels[0].visits, '1', levelWhy(0.5, levels[0]), DETECTION_SOURCE, 'derived'),
-    visitsForCompleteness90: explained(levels[1].drivenBy === 'unreachable' ? null : levels[1].visits, '1', levelWhy(0.9, levels[1]), DETECTION_SOURCE, 'derived'),
-    visitsForCompleteness99: explained(levels[2].drivenBy === 'unreachable' ? null : levels[2].visits, '1', levelWhy(0.99, levels[2]), DETECTION_SOURCE, 'derived'),
+    visitsForCompleteness50: explained(
+      levels[0].drivenBy === 'unreachable' ? null : levels[0].visits,
+      '1',
+      levelWhy(0.5, levels[0]),
+      DETECTION_SOURCE,
+      'derived',
+    ),
+    visitsForCompleteness90: explained(
+      levels[1].drivenBy === 'unreachable' ? null : levels[1].visits,
+      '1',
+      levelWhy(0.9, levels[1]),
+      DETECTION_SOURCE,
+      'derived',
+    ),
+    visitsForCompleteness99: explained(
+      levels[2].drivenBy === 'unreachable' ? null : levels[2].visits,
+      '1',
+      levelWhy(0.99, levels[2]),
+      DETECTION_SOURCE,
+      'derived',
+    ),
     visits: explained(
       visits,
       '1',
@@ -815,7 +908,13 @@ export function computeTargetPlan(
       "the node's overhead per visit",
       'facility',
     ),
-    nodeHoursClear: explained(hoursClear, 'h', `${countOf(visits, 'visit')} × ${fmt(visitSeconds)} s`, 'definition of node-hours (see Methods: Node-hours)', 'practice'),
+    nodeHoursClear: explained(
+      hoursClear,
+      'h',
+      `${countOf(visits, 'visit')} × ${fmt(visitSeconds)} s`,
+      'definition of node-hours (see Methods: Node-hours)',
+      'practice',
+    ),
     nodeHours: explained(
       hours,
       'h',
@@ -823,7 +922,13 @@ export function computeTargetPlan(
       `the node's weather loss; rounding up to ${HOURS_STEP} h is an assumption of this product (see Methods: Node-hours)`,
       'choice',
     ),
-    feeMinor: explained(fee, `${node.currency} minor units`, `${fmt(hours)} h × ${node.rateMinorPerHour} per hour, rounded to the unit`, "the node's rate card", 'facility'),
+    feeMinor: explained(
+      fee,
+      `${node.currency} minor units`,
+      `${fmt(hours)} h × ${node.rateMinorPerHour} per hour, rounded to the unit`,
+      "the node's rate card",
+      'facility',
+    ),
   };
   return {
     targetName: target.name ?? null,
@@ -864,11 +969,15 @@ function exposuresPerVisitStep(exposure: ExposureChoice, node: NodeSpec, o: Reso
   const floorPpm = exposure.precision.components.floorPpm;
   // A fixed exposure is the user's decision; only the automatic one is stacked automatically.
   const stackable = o.exposureSeconds === undefined && (exposure.limitedBy === 'saturation' || exposure.limitedBy === 'maxExposure');
-  const maxStack = Math.max(1, Math.floor((o.maxVisitSeconds - node.overheadSeconds + o.readoutSeconds) / (exposure.exposureSeconds + o.readoutSeconds)));
+  const maxStack = Math.max(
+    1,
+    Math.floor((o.maxVisitSeconds - node.overheadSeconds + o.readoutSeconds) / (exposure.exposureSeconds + o.readoutSeconds)),
+  );
   // Node time for detection ∝ σ_visit²(k) × visit length(k); its minimum over k is the most
   // stacking worth doing, and reaching the goal needs no more than k_goal.
   const randomVar = Math.max(0, singlePpm ** 2 - floorPpm ** 2);
-  const stackTime = (k: number) => (randomVar / k + floorPpm ** 2) * (k * exposure.exposureSeconds + (k - 1) * o.readoutSeconds + node.overheadSeconds);
+  const stackTime = (k: number) =>
+    (randomVar / k + floorPpm ** 2) * (k * exposure.exposureSeconds + (k - 1) * o.readoutSeconds + node.overheadSeconds);
   let k = 1;
   let why = 'one exposure per visit reaches the goal';
   if (o.exposuresPerVisit !== undefined) {
@@ -971,14 +1080,26 @@ function resolveOptions(options: TargetPlanOptions, system: TargetColourSystem, 
     completeness: requireInRange(o.completeness ?? PLAN_DEFAULTS.completeness, 'completeness', 0.5, 0.99),
     minBaselineDays: o.minBaselineDays === undefined ? undefined : requireInRange(o.minBaselineDays, 'minBaselineDays', 1, 3650),
     maxBaselineDays: requireInRange(o.maxBaselineDays ?? PLAN_DEFAULTS.maxBaselineDays, 'maxBaselineDays', 1, 3650),
-    searchLongPeriodFactor: requireInRange(o.searchLongPeriodFactor ?? PLAN_DEFAULTS.searchLongPeriodFactor, 'searchLongPeriodFactor', 1, 100),
+    searchLongPeriodFactor: requireInRange(
+      o.searchLongPeriodFactor ?? PLAN_DEFAULTS.searchLongPeriodFactor,
+      'searchLongPeriodFactor',
+      1,
+      100,
+    ),
     sky: o.sky === undefined ? undefined : validateSky(o.sky),
-    falseAlarmProbability: requireInRange(o.falseAlarmProbability ?? PLAN_DEFAULTS.falseAlarmProbability, 'falseAlarmProbability', 0, 0.5, true),
+    falseAlarmProbability: requireInRange(
+      o.falseAlarmProbability ?? PLAN_DEFAULTS.falseAlarmProbability,
+      'falseAlarmProbability',
+      0,
+      0.5,
+      true,
+    ),
     samplesPerCycle: requireInRange(o.samplesPerCycle ?? PLAN_DEFAULTS.samplesPerCycle, 'samplesPerCycle', 2, 100),
     baselineCycles: requireInRange(o.baselineCycles ?? PLAN_DEFAULTS.baselineCycles, 'baselineCycles', 1, 100),
     periodRangeSigma: requireInRange(o.periodRangeSigma ?? PLAN_DEFAULTS.periodRangeSigma, 'periodRangeSigma', 0, 5),
     amplitudeModel: o.amplitudeModel ?? {},
-    perVisitPrecisionPpm: o.perVisitPrecisionPpm === undefined ? undefined : requirePositive(o.perVisitPrecisionPpm, 'perVisitPrecisionPpm'),
+    perVisitPrecisionPpm:
+      o.perVisitPrecisionPpm === undefined ? undefined : requirePositive(o.perVisitPrecisionPpm, 'perVisitPrecisionPpm'),
     exposureSeconds:
       o.exposureSeconds === undefined
         ? undefined
@@ -992,9 +1113,18 @@ function resolveOptions(options: TargetPlanOptions, system: TargetColourSystem, 
       Math.max(1, node.altitudeLimitDeg),
       90,
     ),
-    observableHoursPerNight: requireInRange(o.observableHoursPerNight ?? PLAN_DEFAULTS.observableHoursPerNight, 'observableHoursPerNight', 0.1, 24),
+    observableHoursPerNight: requireInRange(
+      o.observableHoursPerNight ?? PLAN_DEFAULTS.observableHoursPerNight,
+      'observableHoursPerNight',
+      0.1,
+      24,
+    ),
     aliasPeriodDays: requireInRange(o.aliasPeriodDays ?? PLAN_DEFAULTS.aliasPeriodDays, 'aliasPeriodDays', 0, 30),
-    minVisitsPerNightShortPeriod: requireInteger(o.minVisitsPerNightShortPeriod ?? PLAN_DEFAULTS.minVisitsPerNightShortPeriod, 'minVisitsPerNightShortPeriod', 1),
+    minVisitsPerNightShortPeriod: requireInteger(
+      o.minVisitsPerNightShortPeriod ?? PLAN_DEFAULTS.minVisitsPerNightShortPeriod,
+      'minVisitsPerNightShortPeriod',
+      1,
+    ),
     searchPeriodFraction: requireInRange(o.searchPeriodFraction ?? PLAN_DEFAULTS.searchPeriodFraction, 'searchPeriodFraction', 0.05, 1),
     coherenceCycles: requirePositive(o.coherenceCycles ?? PLAN_DEFAULTS.coherenceCycles, 'coherenceCycles'),
     weakenedBrakingRossby: o.weakenedBrakingRossby,

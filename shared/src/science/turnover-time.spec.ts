@@ -48,7 +48,7 @@ describe('turnoverTimeForColour', () => {
     expect(viaTable.inputOrigin).toMatch(/Pecaut & Mamajek/);
   });
 
-  it('flags inputs outside a scale\'s calibration (Cranmer & Saar below 3300 K)', () => {
+  it("flags inputs outside a scale's calibration (Cranmer & Saar below 3300 K)", () => {
     const t = turnoverTimeForColour(resolveColour({ value: 3.35, system: 'BPRP' }, 0), 'cranmerSaar2011');
     expect(t.flags.map((f) => f.code)).toContain('turnoverOutsideCalibration');
   });
@@ -88,7 +88,9 @@ describe('defaultTurnoverScaleFor (Wright et al. 2018 for M dwarfs, Noyes et al.
   it('chooses Wright et al. (2018) for an M dwarf in BP−RP, B−V or V−Ks, and says why', () => {
     const m = defaultTurnoverScaleFor(resolveColour({ value: 2.5, system: 'BPRP' }, 0));
     expect(m.scale).toBe('wright2018');
-    expect(m.why).toMatch(/Noyes et al. \(1984\) τ is calibrated on F–K stars; M dwarfs use Wright et al. \(2018\), calibrated to V−Ks 7.0/);
+    expect(m.why).toMatch(
+      /Noyes et al. \(1984\) τ is calibrated on F–K stars; M dwarfs use Wright et al. \(2018\), calibrated to V−Ks 7.0/,
+    );
     expect(defaultTurnoverScaleFor(resolveColour({ value: 1.45, system: 'BV' }, 0)).scale).toBe('wright2018');
     expect(defaultTurnoverScaleFor(resolveColour({ value: 6.5, system: 'VKs' }, 0)).scale).toBe('wright2018');
   });

@@ -115,11 +115,7 @@ export interface TurnoverTime {
  * given in B−V; otherwise the quantity comes from the dwarf sequence (Pecaut & Mamajek 2013),
  * which then must contain the colour (ScienceInputError otherwise).
  */
-export function turnoverTimeForColour(
-  colour: ResolvedColour,
-  scale: TurnoverScale,
-  field = 'colour.value',
-): TurnoverTime {
+export function turnoverTimeForColour(colour: ResolvedColour, scale: TurnoverScale, field = 'colour.value'): TurnoverTime {
   requireOneOf(scale, 'turnoverScale', TURNOVER_SCALES);
   const info = TURNOVER_SCALE_INFO[scale];
   const direct: Partial<Record<TurnoverScaleInfo['input'], ColourSystem>> = { bvMag: 'BV', vKsMag: 'VKs' };

@@ -82,23 +82,36 @@ describe('computeVisitPrecision', () => {
 
   it('improves with exposure below saturation (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: 8, max: 18, noNaN: true }), fc.double({ min: 1, max: 100, noNaN: true }), fc.double({ min: 1.01, max: 3, noNaN: true }), (mag, t, f) => {
-        const setup = photometrySetup(NODE, SITE, mag, 1.3);
-        const tSat = saturationExposureSeconds(setup);
-        fc.pre(t * f < tSat);
-        const a = computeVisitPrecision(NODE, SITE, { magnitude: mag, exposureSeconds: t, airmass: 1.3 });
-        const b = computeVisitPrecision(NODE, SITE, { magnitude: mag, exposureSeconds: t * f, airmass: 1.3 });
-        expect(b.totalPpm).toBeLessThan(a.totalPpm);
-        expect(b.saturated).toBe(false);
-      }),
+      fc.property(
+        fc.double({ min: 8, max: 18, noNaN: true }),
+        fc.double({ min: 1, max: 100, noNaN: true }),
+        fc.double({ min: 1.01, max: 3, noNaN: true }),
+        (mag, t, f) => {
+          const setup = photometrySetup(NODE, SITE, mag, 1.3);
+          const tSat = saturationExposureSeconds(setup);
+          fc.pre(t * f < tSat);
+          const a = computeVisitPrecision(NODE, SITE, { magnitude: mag, exposureSeconds: t, airmass: 1.3 });
+          const b = computeVisitPrecision(NODE, SITE, { magnitude: mag, exposureSeconds: t * f, airmass: 1.3 });
+          expect(b.totalPpm).toBeLessThan(a.totalPpm);
+          expect(b.saturated).toBe(false);
+        },
+      ),
     );
   });
 
   it('rejects a bad node or site naming the field', () => {
-    expect(() => computeVisitPrecision({ ...NODE, apertureM: -1 }, SITE, { magnitude: 12, exposureSeconds: 60, airmass: 1 })).toThrow(/node.apertureM: must be positive/);
-    expect(() => computeVisitPrecision({ ...NODE, band: 'K' as never }, SITE, { magnitude: 12, exposureSeconds: 60, airmass: 1 })).toThrow(/node.band/);
-    expect(() => computeVisitPrecision(NODE, { ...SITE, elevationM: Number.NaN }, { magnitude: 12, exposureSeconds: 60, airmass: 1 })).toThrow(/site.elevationM/);
-    expect(() => computeVisitPrecision(NODE, SITE, { magnitude: 12, exposureSeconds: 0, airmass: 1 })).toThrow(/exposureSeconds: must be positive/);
+    expect(() => computeVisitPrecision({ ...NODE, apertureM: -1 }, SITE, { magnitude: 12, exposureSeconds: 60, airmass: 1 })).toThrow(
+      /node.apertureM: must be positive/,
+    );
+    expect(() => computeVisitPrecision({ ...NODE, band: 'K' as never }, SITE, { magnitude: 12, exposureSeconds: 60, airmass: 1 })).toThrow(
+      /node.band/,
+    );
+    expect(() =>
+      computeVisitPrecision(NODE, { ...SITE, elevationM: Number.NaN }, { magnitude: 12, exposureSeconds: 60, airmass: 1 }),
+    ).toThrow(/site.elevationM/);
+    expect(() => computeVisitPrecision(NODE, SITE, { magnitude: 12, exposureSeconds: 0, airmass: 1 })).toThrow(
+      /exposureSeconds: must be positive/,
+    );
     expect(() => computeVisitPrecision(NODE, SITE, { magnitude: 12, exposureSeconds: 10, airmass: 0.5 })).toThrow(/airmass/);
     expect(() => validateNodeSpec({ ...NODE, maxExposureSeconds: 1 })).toThrow(/node.maxExposureSeconds/);
     expect(() => validateNodeSpec({ ...NODE, currency: 'EUR' })).toThrow(/node.currency/);

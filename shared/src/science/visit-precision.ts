@@ -3,22 +3,10 @@
  * floor added in quadrature; airmass; and the exposure time that reaches a requested
  * precision without saturating.
  */
-import {
-  type NodeSpec,
-  type SiteSpec,
-  NODE_BANDS,
-  SCINTILLATION_MODELS,
-} from '../facility/facility-types';
+import { type NodeSpec, type SiteSpec, NODE_BANDS, SCINTILLATION_MODELS } from '../facility/facility-types';
 import { between, displayNumber } from '../http/range-text';
 import { BAND_ZERO_POINTS, DEFAULT_EXTINCTION_MAG_PER_AIRMASS } from './photometric-bands';
-import {
-  ScienceInputError,
-  requireFinite,
-  requireInRange,
-  requireNonNegative,
-  requireOneOf,
-  requirePositive,
-} from './science-input-error';
+import { ScienceInputError, requireFinite, requireInRange, requireNonNegative, requireOneOf, requirePositive } from './science-input-error';
 
 /** 2.5/ln 10: σ(mag) ≈ 1.0857·σ(flux)/flux = 1.0857/(S/N) (Howell 2006, Handbook of CCD Astronomy). */
 export const MAG_PER_RELATIVE_FLUX = 2.5 / Math.LN10;
@@ -79,7 +67,7 @@ export function scintillationYoung1967(apertureM: number, airmass: number, eleva
   const x = requireAirmass(airmass);
   const h = requireFinite(elevationM, 'elevationM');
   const t = requirePositive(exposureSeconds, 'exposureSeconds');
-  return 0.09 * dCm ** (-2 / 3) * x ** 1.75 * Math.exp(-h / SCINTILLATION_SCALE_HEIGHT_M) / Math.sqrt(2 * t);
+  return (0.09 * dCm ** (-2 / 3) * x ** 1.75 * Math.exp(-h / SCINTILLATION_SCALE_HEIGHT_M)) / Math.sqrt(2 * t);
 }
 
 /**
@@ -210,8 +198,14 @@ export function photometrySetup(
   const m = requireInRange(magnitude, 'magnitude', MAGNITUDE_RANGE.min, MAGNITUDE_RANGE.max, false, 'mag');
   const x = requireAirmass(airmass);
   const radiusFwhm = requirePositive(options.apertureRadiusFwhm ?? DEFAULT_PHOTOMETRY.apertureRadiusFwhm, 'photometry.apertureRadiusFwhm');
-  const skyRatio = requirePositive(options.skyToApertureAreaRatio ?? DEFAULT_PHOTOMETRY.skyToApertureAreaRatio, 'photometry.skyToApertureAreaRatio');
-  const k = requireNonNegative(options.extinctionMagPerAirmass ?? DEFAULT_EXTINCTION_MAG_PER_AIRMASS[node.band], 'photometry.extinctionMagPerAirmass');
+  const skyRatio = requirePositive(
+    options.skyToApertureAreaRatio ?? DEFAULT_PHOTOMETRY.skyToApertureAreaRatio,
+    'photometry.skyToApertureAreaRatio',
+  );
+  const k = requireNonNegative(
+    options.extinctionMagPerAirmass ?? DEFAULT_EXTINCTION_MAG_PER_AIRMASS[node.band],
+    'photometry.extinctionMagPerAirmass',
+  );
   const cy = requirePositive(options.osbornCy ?? DEFAULT_PHOTOMETRY.osbornCy, 'photometry.osbornCy');
 
   const zp = BAND_ZERO_POINTS[node.band].photonsPerSecondPerM2;

@@ -59,8 +59,12 @@ describe('assessCadence', () => {
   it('names the weather loss when it is what breaks the count', () => {
     const a = assessCadence(windowsOf(every(60, 3)), req({ cadenceDays: 1, baselineDays: 59, totalVisits: 60 }), 0.25);
     expect(a.fits).toBe(false);
-    expect(a.reasons[0]).toBe('only 60 nights can hold the visit (45 expected clear after 25 % weather loss), but 60 visits at 1 a night need 60 nights');
-    expect(a.reasons[1]).toBe('only 60 nights can hold the visit (45 expected clear after 25 % weather loss), but the cadence needs 60 nights');
+    expect(a.reasons[0]).toBe(
+      'only 60 nights can hold the visit (45 expected clear after 25 % weather loss), but 60 visits at 1 a night need 60 nights',
+    );
+    expect(a.reasons[1]).toBe(
+      'only 60 nights can hold the visit (45 expected clear after 25 % weather loss), but the cadence needs 60 nights',
+    );
   });
 
   it('stretches the baseline to absorb the weather when the campaign has the nights', () => {
@@ -79,7 +83,9 @@ describe('assessCadence', () => {
     expect(a.fits).toBe(false);
     // 34 nights from one qualifying night to the next: 33 nights without the target.
     expect(a.longestGapNights).toBe(33);
-    expect(a.reasons).toEqual(['a gap of 33 nights without the target is longer than the cadence allows (a visit night at least every 2 nights)']);
+    expect(a.reasons).toEqual([
+      'a gap of 33 nights without the target is longer than the cadence allows (a visit night at least every 2 nights)',
+    ]);
     expect(a.verdict).toBe(
       '60 of 93 nights can hold the visit; longest gap 33 nights; cadence does not fit: a gap of 33 nights without the target is longer than the cadence allows (a visit night at least every 2 nights)',
     );

@@ -113,11 +113,7 @@ const visitsWord = (k: number): string => (k === 1 ? 'the visit' : `the ${k} vis
  *   `weatherLossFraction`).
  * @throws SkyInputError for an invalid requirement or weather fraction.
  */
-export function assessCadence(
-  windows: TargetWindows,
-  requirement: CadenceRequirement,
-  weatherLossFraction: number,
-): CadenceAssessment {
+export function assessCadence(windows: TargetWindows, requirement: CadenceRequirement, weatherLossFraction: number): CadenceAssessment {
   const req = validateCadenceRequirement(requirement);
   const weather = requireFiniteInRange(weatherLossFraction, 'weatherLossFraction', 0, 0.999);
   const total = windows.usableHoursByNight.length;
@@ -184,7 +180,10 @@ export function assessCadence(
       // Long enough and without gaps, but too few clear nights in it.
       const run = longRuns.reduce((a, b) => (b.to - b.from > a.to - a.from ? b : a));
       const inRun = run.to - run.from + 1;
-      const where = inRun === qualifying.length ? '' : ` in its best stretch (${windows.nightDates[qualifying[run.from]]} to ${windows.nightDates[qualifying[run.to]]})`;
+      const where =
+        inRun === qualifying.length
+          ? ''
+          : ` in its best stretch (${windows.nightDates[qualifying[run.from]]} to ${windows.nightDates[qualifying[run.to]]})`;
       const note = weather > 0 ? ` (${fmt(inRun * clearFactor)} expected clear after ${fmt(weather * 100, 0)} % weather loss)` : '';
       const line = `only ${plural(inRun, 'night')}${where} can hold ${visitsWord(req.visitsPerNight)}${note}, but the cadence needs ${plural(neededInStretch, 'night')}`;
       if (!reasons.includes(line)) reasons.push(line);
@@ -198,10 +197,14 @@ export function assessCadence(
         smallest = smallest === null ? gap : Math.min(smallest, gap);
       }
       // `smallest` is nights from one qualifying night to the next; the cadence allows up to cadenceDays.
-      reasons.push(`a gap of ${plural(Math.max(0, (smallest ?? 0) - 1), 'night')} without the target is longer than the cadence allows (a visit night at least every ${plural(req.cadenceDays, 'night')})`);
+      reasons.push(
+        `a gap of ${plural(Math.max(0, (smallest ?? 0) - 1), 'night')} without the target is longer than the cadence allows (a visit night at least every ${plural(req.cadenceDays, 'night')})`,
+      );
     } else {
       const span = qualifying[qualifying.length - 1] - qualifying[0];
-      reasons.push(`the nights that can hold ${visitsWord(req.visitsPerNight)} span only ${plural(span, 'day')}, less than the baseline of ${plural(req.baselineDays, 'day')}`);
+      reasons.push(
+        `the nights that can hold ${visitsWord(req.visitsPerNight)} span only ${plural(span, 'day')}, less than the baseline of ${plural(req.baselineDays, 'day')}`,
+      );
     }
   }
   const stretchDays = best ? qualifying[best.last] - qualifying[best.first] : null;
@@ -210,9 +213,15 @@ export function assessCadence(
   const gapText = longestGap === null ? '' : longestGap === 0 ? '; no gap' : `; longest gap ${plural(longestGap, 'night')}`;
   const stretched = stretchDays !== null && stretchDays > req.baselineDays + 1e-9;
   const nightsText =
-    qualifying.length === 0 ? `no night of ${total} can hold ${visitsWord(req.visitsPerNight)}` : `${count(qualifying.length)} of ${plural(total, 'night')} can hold ${visitsWord(req.visitsPerNight)}`;
+    qualifying.length === 0
+      ? `no night of ${total} can hold ${visitsWord(req.visitsPerNight)}`
+      : `${count(qualifying.length)} of ${plural(total, 'night')} can hold ${visitsWord(req.visitsPerNight)}`;
   const verdict = `${nightsText}${gapText}; ${
-    fits ? (stretched ? `cadence fits over ${plural(stretchDays, 'day')} to absorb the weather` : 'cadence fits') : `cadence does not fit: ${reasons[0]}`
+    fits
+      ? stretched
+        ? `cadence fits over ${plural(stretchDays, 'day')} to absorb the weather`
+        : 'cadence fits'
+      : `cadence does not fit: ${reasons[0]}`
   }`;
 
   return {

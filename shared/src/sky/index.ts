@@ -14,4 +14,10 @@ export { kastenYoungAirmass, altitudeForAirmassDeg } from './airmass-limit';
 export { toIsoUtc, nightWindow } from './local-nights';
 export { DEFAULT_SUN_ALTITUDE_LIMIT_DEG, MAX_CAMPAIGN_NIGHTS, MAX_TARGETS } from './sky-input-validation';
 export { toSkyWindowsReport, skyLimitsForNode } from './sky-windows-report';
-export type { SkyWindowsReport, SkyWindowsReportOptions, TargetWindowsReport, TargetNightReport, NightDarkReport } from './sky-windows-report';
+export type {
+  SkyWindowsReport,
+  SkyWindowsReportOptions,
+  TargetWindowsReport,
+  TargetNightReport,
+  NightDarkReport,
+} from './sky-windows-report';

@@ -42,7 +42,14 @@ describe('local nights', () => {
   it('nightWindows (two zone lookups) gives the same windows as nightWindow night by night', () => {
     const first = parseNightDate('2024-01-01', 'd');
     const last = parseNightDate('2025-12-31', 'd');
-    for (const [lon, tz] of [[-70.8, 'America/Santiago'], [150, 'Australia/Sydney'], [15.6, 'Arctic/Longyearbyen'], [-157.4, 'Pacific/Kiritimati'], [0, 'UTC'], [179.9, 'Pacific/Auckland']] as const) {
+    for (const [lon, tz] of [
+      [-70.8, 'America/Santiago'],
+      [150, 'Australia/Sydney'],
+      [15.6, 'Arctic/Longyearbyen'],
+      [-157.4, 'Pacific/Kiritimati'],
+      [0, 'UTC'],
+      [179.9, 'Pacific/Auckland'],
+    ] as const) {
       const all = nightWindows(first, last, lon, tz);
       expect(all).toHaveLength(last - first + 1);
       for (let i = 0; i < all.length; i += 7) expect(all[i]).toEqual(nightWindow(first + i, lon, tz));

@@ -46,7 +46,10 @@ const geometry = fc.record({
  * so two zenith distances closer than ≈ 0.5° can round to the same brightness.
  */
 const orderedPair = (min: number, max: number, gap = 0.5) =>
-  fc.tuple(angle(min, max), angle(min, max)).filter(([a, b]) => Math.abs(a - b) >= gap).map(([a, b]): readonly [number, number] => (a < b ? [a, b] : [b, a]));
+  fc
+    .tuple(angle(min, max), angle(min, max))
+    .filter(([a, b]) => Math.abs(a - b) >= gap)
+    .map(([a, b]): readonly [number, number] => (a < b ? [a, b] : [b, a]));
 
 describe('ks91Airmass', () => {
   it('at zenith distance 0 gives X = 1 (derived from X(Z) = (1 − 0.96·sin²Z)^(−1/2), SCIENCE.md §6b)', () => {
@@ -151,7 +154,9 @@ describe('moonSkyBrightnessNanolamberts', () => {
   it('falls monotonically with phase angle (property; KS91 I*(α))', () => {
     fc.assert(
       fc.property(geometry, orderedPair(0, 180), (g, [a1, a2]) => {
-        expect(moonSkyBrightnessNanolamberts({ ...g, moonPhaseAngleDeg: a1 })).toBeGreaterThan(moonSkyBrightnessNanolamberts({ ...g, moonPhaseAngleDeg: a2 }));
+        expect(moonSkyBrightnessNanolamberts({ ...g, moonPhaseAngleDeg: a1 })).toBeGreaterThan(
+          moonSkyBrightnessNanolamberts({ ...g, moonPhaseAngleDeg: a2 }),
+        );
       }),
     );
   });
@@ -175,7 +180,9 @@ describe('moonSkyBrightnessNanolamberts', () => {
   it('falls monotonically as the Moon sinks, Z_m in [0°, 90°] (property; KS91 factor 10^(−0.4·k·X(Z_m)))', () => {
     fc.assert(
       fc.property(geometry, orderedPair(0, 90), (g, [z1, z2]) => {
-        expect(moonSkyBrightnessNanolamberts({ ...g, moonZenithDeg: z1 })).toBeGreaterThan(moonSkyBrightnessNanolamberts({ ...g, moonZenithDeg: z2 }));
+        expect(moonSkyBrightnessNanolamberts({ ...g, moonZenithDeg: z1 })).toBeGreaterThan(
+          moonSkyBrightnessNanolamberts({ ...g, moonZenithDeg: z2 }),
+        );
       }),
     );
   });
@@ -183,7 +190,9 @@ describe('moonSkyBrightnessNanolamberts', () => {
   it('rises monotonically as the target sinks, Z in [0°, 90°] (property; KS91 factor 1 − 10^(−0.4·k·X(Z)))', () => {
     fc.assert(
       fc.property(geometry, orderedPair(0, 90), (g, [z1, z2]) => {
-        expect(moonSkyBrightnessNanolamberts({ ...g, targetZenithDeg: z1 })).toBeLessThan(moonSkyBrightnessNanolamberts({ ...g, targetZenithDeg: z2 }));
+        expect(moonSkyBrightnessNanolamberts({ ...g, targetZenithDeg: z1 })).toBeLessThan(
+          moonSkyBrightnessNanolamberts({ ...g, targetZenithDeg: z2 }),
+        );
       }),
     );
   });
@@ -238,13 +247,21 @@ describe('skyBrightnessMagPerArcsec2', () => {
   const dark = 21.5;
 
   it('with the Moon below the horizon equals the dark sky at the target’s zenith distance (SCIENCE.md §6b: Moon below the horizon contributes nothing)', () => {
-    const s = skyBrightnessMagPerArcsec2({ ...base, moonZenithDeg: 120, targetZenithDeg: 60, extinctionMagPerAirmass: 0.15, darkSkyZenithMagPerArcsec2: dark });
+    const s = skyBrightnessMagPerArcsec2({
+      ...base,
+      moonZenithDeg: 120,
+      targetZenithDeg: 60,
+      extinctionMagPerAirmass: 0.15,
+      darkSkyZenithMagPerArcsec2: dark,
+    });
     expect(s).toBeCloseTo(20.942421, 5);
   });
 
   it('adds dark and Moon in nanolamberts (derived from the conversion formula)', () => {
     const g = { ...base, darkSkyZenithMagPerArcsec2: dark };
-    const nl = vMagPerArcsec2ToNanolamberts(darkSkyAtZenithDistance(dark, g.targetZenithDeg, g.extinctionMagPerAirmass)) + moonSkyBrightnessNanolamberts(g);
+    const nl =
+      vMagPerArcsec2ToNanolamberts(darkSkyAtZenithDistance(dark, g.targetZenithDeg, g.extinctionMagPerAirmass)) +
+      moonSkyBrightnessNanolamberts(g);
     expect(skyBrightnessMagPerArcsec2(g)).toBeCloseTo(nanolambertsToVMagPerArcsec2(nl), 10);
   });
 

@@ -12,17 +12,7 @@
  *   the window's start, middle and end, for quadratic interpolation (error < 0.01° over 24 h);
  * - the local zenith (geodetic, as `Horizon` uses) at mid-darkness.
  */
-import {
-  Body,
-  C_AUDAY,
-  GeoMoon,
-  HelioState,
-  Illumination,
-  KM_PER_AU,
-  Observer,
-  Rotation_EQJ_EQD,
-  SiderealTime,
-} from 'astronomy-engine';
+import { Body, C_AUDAY, GeoMoon, HelioState, Illumination, KM_PER_AU, Observer, Rotation_EQJ_EQD, SiderealTime } from 'astronomy-engine';
 import { DEG, SIDEREAL_DEG_PER_UT_DAY, julianYearsSinceJ2000, msFromUtDays, utDaysFromMs } from './astro-time';
 import { nightWindows } from './local-nights';
 import { findNightDarkness } from './solar-darkness';
@@ -72,12 +62,7 @@ export function localSiderealDeg(table: NightTable, n: number, ut: number): numb
 }
 
 /** Builds the night table for a site over consecutive local dates `firstDay…lastDay` (day numbers). */
-export function buildNightTable(
-  site: SkySite,
-  firstDayNumber: number,
-  lastDayNumber: number,
-  sunAltitudeLimitDeg: number,
-): NightTable {
+export function buildNightTable(site: SkySite, firstDayNumber: number, lastDayNumber: number, sunAltitudeLimitDeg: number): NightTable {
   const count = lastDayNumber - firstDayNumber + 1;
   const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
   const phi = site.latitudeDeg * DEG;
@@ -158,8 +143,7 @@ export function buildNightTable(
       const m = table.rotation;
       const o = n * 9;
       for (let r = 0; r < 3; r++) {
-        table.moonOfDateAu[o + k * 3 + r] =
-          m[o + r * 3] * moonJ2000[0] + m[o + r * 3 + 1] * moonJ2000[1] + m[o + r * 3 + 2] * moonJ2000[2];
+        table.moonOfDateAu[o + k * 3 + r] = m[o + r * 3] * moonJ2000[0] + m[o + r * 3 + 1] * moonJ2000[1] + m[o + r * 3 + 2] * moonJ2000[2];
       }
       table.moonIllumination[n * 3 + k] = illumination;
     }

@@ -68,11 +68,7 @@ function splitParts(body: string, field: string, original: string): Part[] {
 }
 
 /** Reads a coordinate; returns its magnitude in `unit` and whether it was negative. */
-function readAngle(
-  text: unknown,
-  field: string,
-  kind: 'ra' | 'dec',
-): { magnitude: number; unit: 'h' | 'd'; negative: boolean } {
+function readAngle(text: unknown, field: string, kind: 'ra' | 'dec'): { magnitude: number; unit: 'h' | 'd'; negative: boolean } {
   if (typeof text === 'number') {
     if (!Number.isFinite(text)) throw new SkyInputError(field, `must be a finite number, got ${String(text)}`);
     return { magnitude: Math.abs(text), unit: 'd', negative: text < 0 };

@@ -63,8 +63,7 @@ export function resolveLimits(limits: unknown, field = 'limits'): ResolvedSkyLim
   return {
     altitudeLimitDeg,
     geometricAltitudeLimitDeg,
-    sunAltitudeLimitDeg:
-      optionalInRange(l.sunAltitudeLimitDeg, `${field}.sunAltitudeLimitDeg`, -30, 0) ?? DEFAULT_SUN_ALTITUDE_LIMIT_DEG,
+    sunAltitudeLimitDeg: optionalInRange(l.sunAltitudeLimitDeg, `${field}.sunAltitudeLimitDeg`, -30, 0) ?? DEFAULT_SUN_ALTITUDE_LIMIT_DEG,
     moonSeparationMinDeg: optionalInRange(l.moonSeparationMinDeg, `${field}.moonSeparationMinDeg`, 0, 180) ?? null,
     minUsableHours: optionalInRange(l.minUsableHours, `${field}.minUsableHours`, 0, 24) ?? 0,
     refraction,
@@ -92,7 +91,8 @@ export function validateTarget(target: unknown, field: string): SkyTarget {
   if (typeof raDeg !== 'number' || !Number.isFinite(raDeg)) {
     throw new SkyInputError(`${field}.raDeg`, `must be a finite number, got ${describeValue(raDeg)}`);
   }
-  if (raDeg < 0 || raDeg >= 360) throw new SkyInputError(`${field}.raDeg`, `must be from 0° up to, not including, 360°, got ${displayNumber(raDeg)}`);
+  if (raDeg < 0 || raDeg >= 360)
+    throw new SkyInputError(`${field}.raDeg`, `must be from 0° up to, not including, 360°, got ${displayNumber(raDeg)}`);
   const decDeg = requireFiniteInRange(t['decDeg'], `${field}.decDeg`, -90, 90, '°');
   const name = t['name'];
   if (name !== undefined && typeof name !== 'string') {

@@ -79,7 +79,12 @@ describe('sky windows fast path against astronomy-engine Horizon (seeded random 
     let worst = 0;
     fc.assert(
       fc.property(arbitraryCase, (c) => {
-        const site: SkySite = { latitudeDeg: c.latitudeDeg, longitudeDeg: c.longitudeDeg, elevationM: 500, timeZone: etcZone(c.longitudeDeg) };
+        const site: SkySite = {
+          latitudeDeg: c.latitudeDeg,
+          longitudeDeg: c.longitudeDeg,
+          elevationM: 500,
+          timeZone: etcZone(c.longitudeDeg),
+        };
         const target: SkyTarget = { raDeg: c.raDeg, decDeg: c.decDeg };
         const table = buildNightTable(site, c.dayNumber, c.dayNumber, -18);
         const observer = observerOf(site);
@@ -112,7 +117,12 @@ describe('sky windows fast path against astronomy-engine Horizon (seeded random 
         const upper = 90 - Math.abs(c.latitudeDeg - c.decDeg);
         const lower = Math.abs(c.latitudeDeg + c.decDeg) - 90;
         fc.pre(Math.abs(upper - c.altitudeLimitDeg) > 1 && Math.abs(lower - c.altitudeLimitDeg) > 1);
-        const site: SkySite = { latitudeDeg: c.latitudeDeg, longitudeDeg: c.longitudeDeg, elevationM: 1200, timeZone: etcZone(c.longitudeDeg) };
+        const site: SkySite = {
+          latitudeDeg: c.latitudeDeg,
+          longitudeDeg: c.longitudeDeg,
+          elevationM: 1200,
+          timeZone: etcZone(c.longitudeDeg),
+        };
         const target: SkyTarget = { raDeg: c.raDeg, decDeg: c.decDeg };
         const night = new Date(c.dayNumber * 86_400_000).toISOString().slice(0, 10);
         const result = computeSkyWindows({
@@ -151,7 +161,12 @@ describe('sky windows fast path against astronomy-engine Horizon (seeded random 
   it('Moon illumination, separation and altitude agree with Equator/Illumination within 0.05°', () => {
     fc.assert(
       fc.property(arbitraryCase, (c) => {
-        const site: SkySite = { latitudeDeg: c.latitudeDeg, longitudeDeg: c.longitudeDeg, elevationM: 800, timeZone: etcZone(c.longitudeDeg) };
+        const site: SkySite = {
+          latitudeDeg: c.latitudeDeg,
+          longitudeDeg: c.longitudeDeg,
+          elevationM: 800,
+          timeZone: etcZone(c.longitudeDeg),
+        };
         const target: SkyTarget = { raDeg: c.raDeg, decDeg: c.decDeg };
         const night = new Date(c.dayNumber * 86_400_000).toISOString().slice(0, 10);
         const result = computeSkyWindows({

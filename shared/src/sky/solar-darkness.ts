@@ -96,12 +96,7 @@ function sunCrossing(
  * Finds the dark interval of the night whose window is [windowStartUt, windowEndUt].
  * Costs one hour-angle search and two crossing searches of a few Sun positions each.
  */
-export function findNightDarkness(
-  observer: Observer,
-  windowStartUt: number,
-  windowEndUt: number,
-  sunAltitudeLimitDeg: number,
-): DarknessUt {
+export function findNightDarkness(observer: Observer, windowStartUt: number, windowEndUt: number, sunAltitudeLimitDeg: number): DarknessUt {
   const lower = SearchHourAngle(Body.Sun, observer, 12, windowStartUt, +1);
   // The lower culmination lies within ±17 min of the window's middle; keep it inside regardless.
   const culminationUt = Math.min(Math.max(lower.time.ut, windowStartUt), windowEndUt);

@@ -21,13 +21,7 @@
  */
 import { DEG, J2000_UTC_MS, SIDEREAL_DEG_PER_UT_DAY } from './astro-time';
 import { type NightTable, localSiderealDeg } from './night-ephemeris';
-import {
-  MAX_INTERVALS_PER_NIGHT,
-  type ResolvedSkyLimits,
-  type SkyTarget,
-  type TargetVisibility,
-  type TargetWindows,
-} from './sky-types';
+import { MAX_INTERVALS_PER_NIGHT, type ResolvedSkyLimits, type SkyTarget, type TargetVisibility, type TargetWindows } from './sky-types';
 
 const RAD = 180 / Math.PI;
 const MAS_TO_RAD = Math.PI / (180 * 3600 * 1000);

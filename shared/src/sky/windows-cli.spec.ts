@@ -26,8 +26,22 @@ describe('spincycle windows (CLI)', () => {
     writeFileSync(csv, 'name,ra,dec\nStar A-17,18:36:56.336,+38:47:01.28\nField B-2,12.5h,−05°20′30″\nDeep South,95.99,-52.7\n');
     // SCIENCE.md §8 check site (#11/#12): astronomical dusk of the night of 2024-06-21 is 04:15:53 UTC.
     const { code, stdout, stderr } = cli([
-      '--lat', '31.9583', '--lon', '-111.5967', '--elevation', '2096', '--tz', 'America/Phoenix',
-      '--from', '2024-06-21', '--to', '2024-06-23', '--alt-limit', '30', '--targets', csv,
+      '--lat',
+      '31.9583',
+      '--lon',
+      '-111.5967',
+      '--elevation',
+      '2096',
+      '--tz',
+      'America/Phoenix',
+      '--from',
+      '2024-06-21',
+      '--to',
+      '2024-06-23',
+      '--alt-limit',
+      '30',
+      '--targets',
+      csv,
     ]);
     expect(stderr).toBe('');
     expect(code).toBe(0);
@@ -46,10 +60,37 @@ describe('spincycle windows (CLI)', () => {
 
   it('adds a cadence assessment when a requirement is given, and can leave out the nights', () => {
     const { code, stdout } = cli([
-      '--lat', '-30.2', '--lon', '-70.8', '--tz', 'America/Santiago', '--from', '2025-03-01', '--to', '2025-05-29',
-      '--alt-limit', '30', '--ra', '10:00:00', '--dec', '-30', '--name', 'Star C-3', '--summary-only',
-      '--visits-per-night', '2', '--visit-hours', '0.25', '--cadence-days', '2', '--baseline-days', '60',
-      '--total-visits', '60', '--weather-loss', '0.3',
+      '--lat',
+      '-30.2',
+      '--lon',
+      '-70.8',
+      '--tz',
+      'America/Santiago',
+      '--from',
+      '2025-03-01',
+      '--to',
+      '2025-05-29',
+      '--alt-limit',
+      '30',
+      '--ra',
+      '10:00:00',
+      '--dec',
+      '-30',
+      '--name',
+      'Star C-3',
+      '--summary-only',
+      '--visits-per-night',
+      '2',
+      '--visit-hours',
+      '0.25',
+      '--cadence-days',
+      '2',
+      '--baseline-days',
+      '60',
+      '--total-visits',
+      '60',
+      '--weather-loss',
+      '0.3',
     ]);
     expect(code).toBe(0);
     const target = JSON.parse(stdout).targets[0];
@@ -61,10 +102,42 @@ describe('spincycle windows (CLI)', () => {
   it('refuses bad input with exit code 2 and a message naming the field and the CSV line', () => {
     const csv = join(dir, 'bad.csv');
     writeFileSync(csv, 'name,ra,dec\nA,10,20\nB,25:00:00,10\n');
-    const bad = cli(['--lat', '10', '--lon', '0', '--tz', 'UTC', '--from', '2025-03-01', '--to', '2025-03-02', '--alt-limit', '30', '--targets', csv]);
+    const bad = cli([
+      '--lat',
+      '10',
+      '--lon',
+      '0',
+      '--tz',
+      'UTC',
+      '--from',
+      '2025-03-01',
+      '--to',
+      '2025-03-02',
+      '--alt-limit',
+      '30',
+      '--targets',
+      csv,
+    ]);
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/targets\[1\]\.ra: right ascension must be below 24 h, got 25:00:00 \(line 3 of .*bad\.csv\)/);
-    const order = cli(['--lat', '10', '--lon', '0', '--tz', 'UTC', '--from', '2025-03-05', '--to', '2025-03-02', '--alt-limit', '30', '--ra', '1', '--dec', '2']);
+    const order = cli([
+      '--lat',
+      '10',
+      '--lon',
+      '0',
+      '--tz',
+      'UTC',
+      '--from',
+      '2025-03-05',
+      '--to',
+      '2025-03-02',
+      '--alt-limit',
+      '30',
+      '--ra',
+      '1',
+      '--dec',
+      '2',
+    ]);
     expect(order.code).toBe(2);
     expect(order.stderr).toMatch(/campaign\.lastNight: must not be before/);
   });

@@ -17,7 +17,12 @@ export interface TestNetwork {
   cycleId: number;
   cycleCode: string;
   /** Another open cycle with a node not in `cycleId`. */
-  createCycle(options?: { opensInMs?: number; closesInMs?: number; nodeIds?: number[]; campaignNights?: number }): Promise<{ id: number; code: string; callClosesAt: Date }>;
+  createCycle(options?: {
+    opensInMs?: number;
+    closesInMs?: number;
+    nodeIds?: number[];
+    campaignNights?: number;
+  }): Promise<{ id: number; code: string; callClosesAt: Date }>;
   cleanUp(): Promise<void>;
 }
 
@@ -29,21 +34,60 @@ export async function createTestNetwork(h: Harness, prefix = 'P'): Promise<TestN
   const tag = `${prefix}${Date.now().toString(36).toUpperCase()}${(counter++).toString(36).toUpperCase()}`;
   const sites = await db('sites')
     .insert([
-      { code: `${tag}N`, name: 'Test North', latitude_deg: 34.9, longitude_deg: -108.4, elevation_m: 2210, time_zone: 'America/Denver', sky_brightness_mag_per_arcsec2: 21.6 },
-      { code: `${tag}S`, name: 'Test South', latitude_deg: -27.45, longitude_deg: -69.95, elevation_m: 2380, time_zone: 'America/Santiago', sky_brightness_mag_per_arcsec2: 21.8 },
+      {
+        code: `${tag}N`,
+        name: 'Test North',
+        latitude_deg: 34.9,
+        longitude_deg: -108.4,
+        elevation_m: 2210,
+        time_zone: 'America/Denver',
+        sky_brightness_mag_per_arcsec2: 21.6,
+      },
+      {
+        code: `${tag}S`,
+        name: 'Test South',
+        latitude_deg: -27.45,
+        longitude_deg: -69.95,
+        elevation_m: 2380,
+        time_zone: 'America/Santiago',
+        sky_brightness_mag_per_arcsec2: 21.8,
+      },
     ])
     .returning('id');
   const siteIds = sites.map((s: { id: number }) => s.id);
   const common = {
-    obstruction_fraction: 0.4, throughput: 0.55, read_noise_e: 9, dark_current_e_per_s: 0.02, gain_e_per_adu: 1.3, saturation_e: 80000,
-    pixel_scale_arcsec: 0.8, seeing_fwhm_arcsec: 1.6, systematic_floor_mmag: 1, scintillation_model: 'young1967', overhead_seconds: 45,
-    min_exposure_seconds: 2, max_exposure_seconds: 300, altitude_limit_deg: 25, sun_altitude_limit_deg: -18, weather_loss_fraction: 0.3, currency: 'eur',
+    obstruction_fraction: 0.4,
+    throughput: 0.55,
+    read_noise_e: 9,
+    dark_current_e_per_s: 0.02,
+    gain_e_per_adu: 1.3,
+    saturation_e: 80000,
+    pixel_scale_arcsec: 0.8,
+    seeing_fwhm_arcsec: 1.6,
+    systematic_floor_mmag: 1,
+    scintillation_model: 'young1967',
+    overhead_seconds: 45,
+    min_exposure_seconds: 2,
+    max_exposure_seconds: 300,
+    altitude_limit_deg: 25,
+    sun_altitude_limit_deg: -18,
+    weather_loss_fraction: 0.3,
+    currency: 'eur',
   };
   const nodes = await db('nodes')
     .insert([
       { ...common, code: `${tag}-50`, name: 'Test 50', site_id: siteIds[0], aperture_m: 0.5, band: 'V', rate_minor_per_hour: 4500 },
       { ...common, code: `${tag}-40`, name: 'Test 40', site_id: siteIds[0], aperture_m: 0.4, band: 'R', rate_minor_per_hour: 3000 },
-      { ...common, code: `${tag}-99`, name: 'Test 100', site_id: siteIds[1], aperture_m: 1.0, band: 'R', rate_minor_per_hour: 12000, saturation_e: 120000 },
+      {
+        ...common,
+        code: `${tag}-99`,
+        name: 'Test 100',
+        site_id: siteIds[1],
+        aperture_m: 1.0,
+        band: 'R',
+        rate_minor_per_hour: 12000,
+        saturation_e: 120000,
+      },
     ])
     .returning(['id', 'code']);
   const nodeIds = nodes.map((n: { id: number }) => n.id);
@@ -66,7 +110,9 @@ export async function createTestNetwork(h: Harness, prefix = 'P'): Promise<TestN
         categories: ['Open clusters', 'Field stars'],
       })
       .returning('id');
-    await db('cycle_nodes').insert((options.nodeIds ?? nodeIds).map((nodeId) => ({ cycle_id: id, node_id: nodeId, node_hours_available: 500 })));
+    await db('cycle_nodes').insert(
+      (options.nodeIds ?? nodeIds).map((nodeId) => ({ cycle_id: id, node_id: nodeId, node_hours_available: 500 })),
+    );
     cycleIds.push(id);
     return { id, code, callClosesAt };
   };
@@ -111,14 +157,28 @@ export function target(overrides: Partial<TargetInput> = {}): TargetInput {
 }
 
 /** The CSV header of the target list. */
-export const CSV_HEADER = 'name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,period,period_error,notes';
+export const CSV_HEADER =
+  'name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,period,period_error,notes';
 
 /** A valid CSV data line. */
 export function csvLine(
   name: string,
-  overrides: Partial<Record<'ra' | 'dec' | 'magnitude' | 'band' | 'colour' | 'colour_system' | 'age' | 'period' | 'period_error', string>> = {},
+  overrides: Partial<
+    Record<'ra' | 'dec' | 'magnitude' | 'band' | 'colour' | 'colour_system' | 'age' | 'period' | 'period_error', string>
+  > = {},
 ): string {
-  const o = { ra: '163.2', dec: '31.6', magnitude: '12.1', band: 'V', colour: '1.1', colour_system: 'BPRP', age: '650', period: '', period_error: '', ...overrides };
+  const o = {
+    ra: '163.2',
+    dec: '31.6',
+    magnitude: '12.1',
+    band: 'V',
+    colour: '1.1',
+    colour_system: 'BPRP',
+    age: '650',
+    period: '',
+    period_error: '',
+    ...overrides,
+  };
   return `${name},${o.ra},${o.dec},${o.magnitude},${o.band},${o.colour},${o.colour_system},,${o.age},60,,${o.period},${o.period_error},`;
 }
 
@@ -179,11 +239,18 @@ export function tinyPdf(text = 'Scientific justification'): Buffer {
  * Makes a draft ready to submit: abstract, category, nodes, targets, justification, and its
  * plans computed in-process (no queue).
  */
-export async function makeReady(h: Harness, pi: Browser, proposalId: number, nodeIds: number[], targets = [target(), target({ colour: 2.0, magnitude: 14 })]) {
+export async function makeReady(
+  h: Harness,
+  pi: Browser,
+  proposalId: number,
+  nodeIds: number[],
+  targets = [target(), target({ colour: 2.0, magnitude: 14 })],
+) {
   const current = (await pi.get(`/api/proposals/${proposalId}`)).body;
   const patch = await pi.patch(`/api/proposals/${proposalId}`, {
     version: current.version,
-    abstract: 'We will measure rotation periods of cool dwarfs in an invented open cluster to calibrate the spin-down relation at 650 Myr, with nightly photometry.',
+    abstract:
+      'We will measure rotation periods of cool dwarfs in an invented open cluster to calibrate the spin-down relation at 650 Myr, with nightly photometry.',
     category: 'Open clusters',
     nodeIds,
   });

@@ -15,22 +15,61 @@ import { createProposal } from '../../../server/src/features/proposals/proposal-
 export async function bringUpBenchDatabase(database: string): Promise<void> {
   execFileSync(
     process.execPath,
-    ['--input-type=module', '-e', `const c = await import('./database/cluster.mjs'); const h = c.bringUpCluster({ log: () => {} }); h.ensureDatabase(${JSON.stringify(database)});`],
+    [
+      '--input-type=module',
+      '-e',
+      `const c = await import('./database/cluster.mjs'); const h = c.bringUpCluster({ log: () => {} }); h.ensureDatabase(${JSON.stringify(database)});`,
+    ],
     { cwd: path.resolve(__dirname, '../../..'), stdio: 'inherit' },
   );
   await setUpDatabase(database, 'never');
 }
 
 const SITES = {
-  N: { name: 'Bench North', latitude_deg: 34.9, longitude_deg: -108.4, elevation_m: 2210, time_zone: 'America/Denver', sky_brightness_mag_per_arcsec2: 21.6 },
-  E: { name: 'Bench East', latitude_deg: 42.06, longitude_deg: 20.5, elevation_m: 1650, time_zone: 'Europe/Belgrade', sky_brightness_mag_per_arcsec2: 21.2 },
-  S: { name: 'Bench South', latitude_deg: -27.45, longitude_deg: -69.95, elevation_m: 2380, time_zone: 'America/Santiago', sky_brightness_mag_per_arcsec2: 21.8 },
+  N: {
+    name: 'Bench North',
+    latitude_deg: 34.9,
+    longitude_deg: -108.4,
+    elevation_m: 2210,
+    time_zone: 'America/Denver',
+    sky_brightness_mag_per_arcsec2: 21.6,
+  },
+  E: {
+    name: 'Bench East',
+    latitude_deg: 42.06,
+    longitude_deg: 20.5,
+    elevation_m: 1650,
+    time_zone: 'Europe/Belgrade',
+    sky_brightness_mag_per_arcsec2: 21.2,
+  },
+  S: {
+    name: 'Bench South',
+    latitude_deg: -27.45,
+    longitude_deg: -69.95,
+    elevation_m: 2380,
+    time_zone: 'America/Santiago',
+    sky_brightness_mag_per_arcsec2: 21.8,
+  },
 } as const;
 
 const NODE_COMMON = {
-  obstruction_fraction: 0.4, throughput: 0.55, read_noise_e: 9, dark_current_e_per_s: 0.02, gain_e_per_adu: 1.3, saturation_e: 80000, pixel_scale_arcsec: 0.8,
-  seeing_fwhm_arcsec: 1.6, systematic_floor_mmag: 1, scintillation_model: 'young1967', overhead_seconds: 45, min_exposure_seconds: 2, max_exposure_seconds: 300,
-  altitude_limit_deg: 30, sun_altitude_limit_deg: -18, weather_loss_fraction: 0.3, currency: 'eur',
+  obstruction_fraction: 0.4,
+  throughput: 0.55,
+  read_noise_e: 9,
+  dark_current_e_per_s: 0.02,
+  gain_e_per_adu: 1.3,
+  saturation_e: 80000,
+  pixel_scale_arcsec: 0.8,
+  seeing_fwhm_arcsec: 1.6,
+  systematic_floor_mmag: 1,
+  scintillation_model: 'young1967',
+  overhead_seconds: 45,
+  min_exposure_seconds: 2,
+  max_exposure_seconds: 300,
+  altitude_limit_deg: 30,
+  sun_altitude_limit_deg: -18,
+  weather_loss_fraction: 0.3,
+  currency: 'eur',
 };
 
 export interface BenchRows {
@@ -57,9 +96,19 @@ export interface BenchNetworkOptions {
 export async function createBenchNetwork(ctx: AppContext, rows: BenchRows, o: BenchNetworkOptions) {
   const db = ctx.db;
   const email = `${o.tag.toLowerCase()}@bench.example`;
-  rows.account = await insertAccount(db, { email, displayName: 'Bench Proposer', affiliation: '', passwordHash: o.passwordHash, roles: ['proposer'] });
+  rows.account = await insertAccount(db, {
+    email,
+    displayName: 'Bench Proposer',
+    affiliation: '',
+    passwordHash: o.passwordHash,
+    roles: ['proposer'],
+  });
   const viewer = { id: rows.account, email, displayName: 'Bench Proposer', affiliation: '', roles: ['proposer' as const] };
-  rows.sites = (await db('sites').insert(o.sites.map((s) => ({ code: `${o.tag}${s}`, ...SITES[s] }))).returning('id')).map((r: { id: number }) => r.id);
+  rows.sites = (
+    await db('sites')
+      .insert(o.sites.map((s) => ({ code: `${o.tag}${s}`, ...SITES[s] })))
+      .returning('id')
+  ).map((r: { id: number }) => r.id);
   rows.nodes = (
     await db('nodes')
       .insert(
@@ -78,8 +127,12 @@ export async function createBenchNetwork(ctx: AppContext, rows: BenchRows, o: Be
   const now = Date.now();
   [{ id: rows.cycle }] = await db('cycles')
     .insert({
-      code: `${o.tag}C`, title: 'Bench cycle', call_opens_at: new Date(now - 86400_000), call_closes_at: new Date(now + 86400_000),
-      campaign_start: new Date(now + 30 * 86400_000).toISOString().slice(0, 10), campaign_end: new Date(now + 209 * 86400_000).toISOString().slice(0, 10),
+      code: `${o.tag}C`,
+      title: 'Bench cycle',
+      call_opens_at: new Date(now - 86400_000),
+      call_closes_at: new Date(now + 86400_000),
+      campaign_start: new Date(now + 30 * 86400_000).toISOString().slice(0, 10),
+      campaign_end: new Date(now + 209 * 86400_000).toISOString().slice(0, 10),
       categories: ['Bench'],
     })
     .returning('id');

@@ -9,13 +9,29 @@ export const SCREENSHOT_DIR = path.resolve(__dirname, '../../../.data/screenshot
 export function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
-    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
   });
 }
 
 /** A fresh context (own cookies); CSP bypass only so that axe-core can be injected. */
-export async function newPage(browser: Browser, options: { colorScheme?: 'light' | 'dark' } = {}): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ baseURL: BASE_URL, bypassCSP: true, viewport: { width: 1280, height: 860 }, colorScheme: options.colorScheme ?? 'light' });
+export async function newPage(
+  browser: Browser,
+  options: { colorScheme?: 'light' | 'dark' } = {},
+): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext({
+    baseURL: BASE_URL,
+    bypassCSP: true,
+    viewport: { width: 1280, height: 860 },
+    colorScheme: options.colorScheme ?? 'light',
+  });
   const page = await context.newPage();
   return { context, page };
 }
@@ -29,9 +45,14 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   const file = path.join(SCREENSHOT_DIR, `${name}.png`);
   const viewport = page.viewportSize();
   const contentHeight = await page.evaluate(() =>
-    Math.max(...Array.from(document.querySelectorAll('mat-sidenav-content, main, body')).map((e) => e.scrollHeight + (e.getBoundingClientRect().top || 0))),
+    Math.max(
+      ...Array.from(document.querySelectorAll('mat-sidenav-content, main, body')).map(
+        (e) => e.scrollHeight + (e.getBoundingClientRect().top || 0),
+      ),
+    ),
   );
-  if (viewport && contentHeight > viewport.height) await page.setViewportSize({ width: viewport.width, height: Math.min(Math.ceil(contentHeight), 8000) });
+  if (viewport && contentHeight > viewport.height)
+    await page.setViewportSize({ width: viewport.width, height: Math.min(Math.ceil(contentHeight), 8000) });
   await page.screenshot({ path: file, fullPage: true });
   if (viewport) await page.setViewportSize(viewport);
   return file;

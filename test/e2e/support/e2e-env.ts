@@ -11,6 +11,7 @@ export const E2E_DB = process.env.SPINCYCLE_E2E_DB ?? 'spincycle_e2e';
  */
 export function e2eMailboxUrl(to?: string): string {
   const token = process.env.SPINCYCLE_E2E_MAILBOX_TOKEN;
-  if (!token) throw new Error('SPINCYCLE_E2E_MAILBOX_TOKEN is not set: run the browser suite through jest (its global setup starts the mail fake)');
+  if (!token)
+    throw new Error('SPINCYCLE_E2E_MAILBOX_TOKEN is not set: run the browser suite through jest (its global setup starts the mail fake)');
   return `http://127.0.0.1:${E2E_MAIL_HTTP_PORT}/?token=${encodeURIComponent(token)}${to ? `&to=${encodeURIComponent(to)}` : ''}`;
 }

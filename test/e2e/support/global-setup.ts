@@ -23,7 +23,8 @@ export interface E2eState {
 async function waitForHttp(url: string, child: ChildProcess, name: string): Promise<void> {
   const until = Date.now() + 30_000;
   while (Date.now() < until) {
-    if (child.exitCode !== null || child.signalCode !== null) throw new Error(`${name} exited with ${child.signalCode ?? `code ${child.exitCode}`}`);
+    if (child.exitCode !== null || child.signalCode !== null)
+      throw new Error(`${name} exited with ${child.signalCode ?? `code ${child.exitCode}`}`);
     try {
       await fetch(url);
       return;
@@ -43,9 +44,9 @@ async function waitForHttp(url: string, child: ChildProcess, name: string): Prom
  * to it, so that a stale server on port 4310 is never taken for ours.
  */
 export default async function globalSetup(): Promise<void> {
-  await assertPortFree(E2E_PORT, { what: 'the browser suite\'s web server', envName: 'E2E_PORT' });
-  await assertPortFree(E2E_SMTP_PORT, { what: 'the browser suite\'s SMTP fake', envName: 'E2E_SMTP_PORT' });
-  await assertPortFree(E2E_MAIL_HTTP_PORT, { what: 'the browser suite\'s mailbox', envName: 'E2E_MAIL_HTTP_PORT' });
+  await assertPortFree(E2E_PORT, { what: "the browser suite's web server", envName: 'E2E_PORT' });
+  await assertPortFree(E2E_SMTP_PORT, { what: "the browser suite's SMTP fake", envName: 'E2E_SMTP_PORT' });
+  await assertPortFree(E2E_MAIL_HTTP_PORT, { what: "the browser suite's mailbox", envName: 'E2E_MAIL_HTTP_PORT' });
 
   const cluster = bringUpTestCluster([E2E_DB], 'e2e');
   const state: E2eState = { children: [], lease: cluster.lease, removeSignalHandlers: releaseTestClusterOnSignal(cluster.lease) };

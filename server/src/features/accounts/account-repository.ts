@@ -79,7 +79,11 @@ export async function listAccounts(
   }
   if (q.role) base.whereExists(db('account_roles').whereRaw('account_id = a.id').where('role', q.role));
   const [{ total }] = await db.from(base.clone().as('x')).count<{ total: number }[]>({ total: '*' });
-  const rows = await base.orderBy('a.display_name').orderBy('a.id').limit(q.pageSize).offset((q.page - 1) * q.pageSize);
+  const rows = await base
+    .orderBy('a.display_name')
+    .orderBy('a.id')
+    .limit(q.pageSize)
+    .offset((q.page - 1) * q.pageSize);
   return { items: rows.map((r: AccountRow) => toAccountSummary(toAccount(r))), total };
 }
 

@@ -1,4 +1,10 @@
-import type { AccountPage, AccountSummary, ListAccountsQuery, SessionUser, UpdateAccountInput } from '@spincycle/shared/accounts/account-schemas';
+import type {
+  AccountPage,
+  AccountSummary,
+  ListAccountsQuery,
+  SessionUser,
+  UpdateAccountInput,
+} from '@spincycle/shared/accounts/account-schemas';
 import type { AppContext } from '../../app-context';
 import { AppError, notFound } from '../../http/app-error';
 import { deleteSessionsOf, findAccountById, listAccounts, replaceRoles, setDisabled, toAccountSummary } from './account-repository';
@@ -17,7 +23,9 @@ export async function updateAccount(ctx: AppContext, actor: SessionUser, id: num
     const account = await findAccountById(trx, id);
     if (!account) throw notFound(`Account ${id}`);
     if (actor.id === id && input.roles && !input.roles.includes('administrator')) {
-      throw new AppError('cannot_change_self', 'You cannot remove your own administrator role', 409, { roles: ['keep administrator on your own account'] });
+      throw new AppError('cannot_change_self', 'You cannot remove your own administrator role', 409, {
+        roles: ['keep administrator on your own account'],
+      });
     }
     if (actor.id === id && input.disabled) {
       throw new AppError('cannot_change_self', 'You cannot disable your own account', 409, { disabled: ['you cannot disable yourself'] });

@@ -99,7 +99,12 @@ describe('POST /api/auth/sign-up', () => {
   it('answers 202 without a session, creates a proposer (only) and mails a welcome; the same address again gets the same answer and a notice mail', async () => {
     const email = `new-${Date.now()}@test.example`;
     const b = new Browser(h);
-    const res = await b.post('/api/auth/sign-up', { email, password: 'long enough password', displayName: 'New Person', affiliation: 'Somewhere' });
+    const res = await b.post('/api/auth/sign-up', {
+      email,
+      password: 'long enough password',
+      displayName: 'New Person',
+      affiliation: 'Somewhere',
+    });
     expect(res.status).toBe(202);
     expect(res.body).toEqual({ message: expect.stringContaining('Check your inbox') });
     expect((await b.get('/api/auth/session')).body.user).toBeNull();
@@ -109,7 +114,11 @@ describe('POST /api/auth/sign-up', () => {
     expect(signedInAs).toMatchObject({ email, displayName: 'New Person', roles: ['proposer'] });
 
     h.mail.clear();
-    const again = await new Browser(h).post('/api/auth/sign-up', { email: email.toUpperCase(), password: 'another long password', displayName: 'Copy' });
+    const again = await new Browser(h).post('/api/auth/sign-up', {
+      email: email.toUpperCase(),
+      password: 'another long password',
+      displayName: 'Copy',
+    });
     expect(again.status).toBe(202);
     expect(again.body).toEqual(res.body);
     const notice = await h.mail.waitFor((m) => m.to.includes(email));
@@ -129,7 +138,12 @@ describe('POST /api/auth/sign-up', () => {
 
   it('ignores a roles field: self-registration cannot grant itself roles', async () => {
     const email = `sneaky-${Date.now()}@test.example`;
-    const res = await new Browser(h).post('/api/auth/sign-up', { email, password: 'long enough password', displayName: 'Sneaky', roles: ['administrator'] });
+    const res = await new Browser(h).post('/api/auth/sign-up', {
+      email,
+      password: 'long enough password',
+      displayName: 'Sneaky',
+      roles: ['administrator'],
+    });
     expect(res.status).toBe(202);
     await h.mail.waitFor((m) => m.to.includes(email));
     const b = await new Browser(h).signIn(email, 'long enough password');
@@ -166,8 +180,14 @@ describe('password reset through the SMTP fake', () => {
     const a = await createAccount(h);
     await new Browser(h).post('/api/auth/password-reset', { email: a.email });
     const mail = await h.mail.waitFor((m) => m.to.includes(a.email));
-    await h.created.ctx.db('password_reset_tokens').where({ account_id: a.id }).update({ expires_at: new Date(Date.now() - 1000) });
-    const res = await new Browser(h).post('/api/auth/password-reset/confirm', { token: linkIn(mail.text)![1], password: 'brand new password' });
+    await h.created.ctx
+      .db('password_reset_tokens')
+      .where({ account_id: a.id })
+      .update({ expires_at: new Date(Date.now() - 1000) });
+    const res = await new Browser(h).post('/api/auth/password-reset/confirm', {
+      token: linkIn(mail.text)![1],
+      password: 'brand new password',
+    });
     expect(res.status).toBe(400);
     expect(res.body.message).toMatch(/expired/);
   });

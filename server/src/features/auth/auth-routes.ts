@@ -18,7 +18,9 @@ function limiter(max: number, windowMinutes: number, by: 'ip' | 'ip+email', what
       return by === 'ip' ? ip : `${ip}|${email}`;
     },
     handler: (_req, res) => {
-      res.status(429).json({ code: 'too_many_attempts', message: `Too many ${what} attempts. Wait ${windowMinutes} minutes and try again.` });
+      res
+        .status(429)
+        .json({ code: 'too_many_attempts', message: `Too many ${what} attempts. Wait ${windowMinutes} minutes and try again.` });
     },
   });
 }

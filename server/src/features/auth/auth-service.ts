@@ -60,7 +60,13 @@ export async function signUp(ctx: AppContext, input: Required<SignUpInput>): Pro
   }
   try {
     await ctx.db.transaction((trx) =>
-      insertAccount(trx, { email: input.email, displayName: input.displayName, affiliation: input.affiliation, passwordHash, roles: ['proposer'] }),
+      insertAccount(trx, {
+        email: input.email,
+        displayName: input.displayName,
+        affiliation: input.affiliation,
+        passwordHash,
+        roles: ['proposer'],
+      }),
     );
   } catch (err) {
     // Two sign-ups for one address at once: the other one created it.
@@ -137,9 +143,14 @@ export async function confirmPasswordReset(ctx: AppContext, input: PasswordReset
   await ctx.db.transaction(async (trx) => {
     const accountId = await consumeResetToken(trx, hashLinkToken(input.token));
     if (!accountId) {
-      throw new AppError('invalid_reset_link', 'This reset link is not valid: it may have expired or been used already. Ask for a new one.', 400, {
-        token: ['expired, used or unknown'],
-      });
+      throw new AppError(
+        'invalid_reset_link',
+        'This reset link is not valid: it may have expired or been used already. Ask for a new one.',
+        400,
+        {
+          token: ['expired, used or unknown'],
+        },
+      );
     }
     // The token is spent only if the whole transaction commits: a refused password leaves it usable.
     const account = await findAccountById(trx, accountId);

@@ -20,6 +20,10 @@ export function isCommonPassword(password: string): boolean {
  * not the e-mail address, not containing its local part. 400 `weak_password` on the field.
  */
 export function requireAcceptablePassword(password: string, email: string, field = 'password'): void {
-  const problem = isCommonPassword(password) ? COMMON_PASSWORD_MESSAGE : passwordContainsEmail(password, email) ? PASSWORD_CONTAINS_EMAIL_MESSAGE : null;
+  const problem = isCommonPassword(password)
+    ? COMMON_PASSWORD_MESSAGE
+    : passwordContainsEmail(password, email)
+      ? PASSWORD_CONTAINS_EMAIL_MESSAGE
+      : null;
   if (problem) throw new AppError('weak_password', `${field}: ${problem}`, 400, { [field]: [problem] });
 }

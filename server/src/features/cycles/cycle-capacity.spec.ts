@@ -42,11 +42,18 @@ async function createCycle(overrides: Record<string, unknown> = {}) {
   const res = await manager.post('/api/cycles', cycleInput(overrides));
   if (res.status !== 201) throw new Error(`cycle: ${res.status} ${JSON.stringify(res.body)}`);
   created.push(res.body.id);
-  return res.body as { id: number; version: number; code: string; nodes: { nodeId: number; nodeHoursAvailable: number }[] } & Record<string, unknown>;
+  return res.body as { id: number; version: number; code: string; nodes: { nodeId: number; nodeHoursAvailable: number }[] } & Record<
+    string,
+    unknown
+  >;
 }
 
 /** A PUT body re-sending the cycle as read, with other capacities. */
-function withCapacity(cycle: Awaited<ReturnType<typeof createCycle>>, capacity: Record<number, number>, extra: Record<string, unknown> = {}) {
+function withCapacity(
+  cycle: Awaited<ReturnType<typeof createCycle>>,
+  capacity: Record<number, number>,
+  extra: Record<string, unknown> = {},
+) {
   const { id: _id, status: _s, version, nodes, ...fields } = cycle;
   return {
     version,
@@ -61,7 +68,11 @@ async function submitted(cycleId: number, nodeIds = [net.nodeIds[0]], targets?: 
   await makeReady(h, browser, proposal.id, nodeIds, targets);
   const res = await browser.post(`/api/proposals/${proposal.id}/submit`);
   if (res.status !== 200) throw new Error(`submit: ${res.status} ${JSON.stringify(res.body)}`);
-  return res.body as { id: number; title: string; request: { nodeId: number; nodeCode: string; nodeHours: number; infeasibleNodeHours: number; infeasibleTargets: number }[] };
+  return res.body as {
+    id: number;
+    title: string;
+    request: { nodeId: number; nodeCode: string; nodeHours: number; infeasibleNodeHours: number; infeasibleTargets: number }[];
+  };
 }
 
 describe('cycle rules: the campaign starts after the call closes', () => {
@@ -74,7 +85,9 @@ describe('cycle rules: the campaign starts after the call closes', () => {
       const res = await manager.post('/api/cycles', cycleInput({ callClosesAt: closes.toISOString(), campaignStart }));
       expect(res.status).toBe(400);
       expect(Object.keys(res.body.fieldErrors)).toEqual(['campaignStart']);
-      expect(res.body.fieldErrors.campaignStart[0]).toMatch(/^the campaign cannot start before the call closes \(\d{1,2} \w{3} \d{4}, 12:00 UTC\)/);
+      expect(res.body.fieldErrors.campaignStart[0]).toMatch(
+        /^the campaign cannot start before the call closes \(\d{1,2} \w{3} \d{4}, 12:00 UTC\)/,
+      );
     }
     const next = new Date(closes.getTime() + day).toISOString().slice(0, 10);
     const ok = await manager.post('/api/cycles', cycleInput({ callClosesAt: closes.toISOString(), campaignStart: next }));
@@ -85,7 +98,10 @@ describe('cycle rules: the campaign starts after the call closes', () => {
   it('PUT applies the same rule under cycle.campaignStart and writes nothing', async () => {
     const cycle = await createCycle();
     const body = withCapacity(cycle, {});
-    const res = await manager.put(`/api/cycles/${cycle.id}`, { ...body, cycle: { ...body.cycle, campaignStart: (cycle.callClosesAt as string).slice(0, 10) } });
+    const res = await manager.put(`/api/cycles/${cycle.id}`, {
+      ...body,
+      cycle: { ...body.cycle, campaignStart: (cycle.callClosesAt as string).slice(0, 10) },
+    });
     expect(res.status).toBe(400);
     expect(Object.keys(res.body.fieldErrors)).toEqual(['cycle.campaignStart']);
     expect((await manager.get(`/api/cycles/${cycle.id}`)).body).toMatchObject({ version: 1, campaignStart: cycle.campaignStart });
@@ -118,21 +134,37 @@ describe('PUT /api/cycles/:id cutting capacity below the submitted requests', ()
     const refused = await manager.put(`/api/cycles/${cycle.id}`, withCapacity(cycle, { [net.nodeIds[0]]: cut }));
     expect(refused.status).toBe(409);
     expect(refused.body.code).toBe('capacity_below_requests');
-    expect(refused.body.message).toContain(`${net.nodes[0].code}: ${Math.round(requested * 100) / 100} node-hours requested, new capacity ${cut}`);
+    expect(refused.body.message).toContain(
+      `${net.nodes[0].code}: ${Math.round(requested * 100) / 100} node-hours requested, new capacity ${cut}`,
+    );
     expect(refused.body.fieldErrors).toEqual({ 'cycle.nodes.0.nodeHoursAvailable': [expect.stringContaining(net.nodes[0].code)] });
     expect(refused.body.nodes).toEqual([{ nodeCode: net.nodes[0].code, requestedNodeHours: requested, nodeHoursAvailable: cut }]);
-    expect((await manager.get(`/api/cycles/${cycle.id}`)).body).toMatchObject({ version: 1, nodes: expect.arrayContaining([{ nodeId: net.nodeIds[0], nodeCode: net.nodes[0].code, nodeHoursAvailable: 500 }]) });
+    expect((await manager.get(`/api/cycles/${cycle.id}`)).body).toMatchObject({
+      version: 1,
+      nodes: expect.arrayContaining([{ nodeId: net.nodeIds[0], nodeCode: net.nodes[0].code, nodeHoursAvailable: 500 }]),
+    });
 
     // A cut that still covers the request, or a cut of a node nobody submitted on, passes without the flag.
-    const covered = await manager.put(`/api/cycles/${cycle.id}`, withCapacity(cycle, { [net.nodeIds[0]]: Math.ceil(requested), [net.nodeIds[2]]: 0 }));
+    const covered = await manager.put(
+      `/api/cycles/${cycle.id}`,
+      withCapacity(cycle, { [net.nodeIds[0]]: Math.ceil(requested), [net.nodeIds[2]]: 0 }),
+    );
     expect(covered.status).toBe(200);
 
-    const confirmed = await manager.put(`/api/cycles/${cycle.id}`, withCapacity({ ...cycle, ...covered.body }, { [net.nodeIds[0]]: cut }, { confirmCapacityCut: true }));
+    const confirmed = await manager.put(
+      `/api/cycles/${cycle.id}`,
+      withCapacity({ ...cycle, ...covered.body }, { [net.nodeIds[0]]: cut }, { confirmCapacityCut: true }),
+    );
     expect(confirmed.status).toBe(200);
-    expect(confirmed.body.nodes).toEqual(expect.arrayContaining([{ nodeId: net.nodeIds[0], nodeCode: net.nodes[0].code, nodeHoursAvailable: cut }]));
+    expect(confirmed.body.nodes).toEqual(
+      expect.arrayContaining([{ nodeId: net.nodeIds[0], nodeCode: net.nodes[0].code, nodeHoursAvailable: cut }]),
+    );
 
     // Raising a capacity that is still below the request is no cut: no confirmation needed.
-    const raised = await manager.put(`/api/cycles/${cycle.id}`, withCapacity({ ...cycle, ...confirmed.body }, { [net.nodeIds[0]]: cut + 0.5 }));
+    const raised = await manager.put(
+      `/api/cycles/${cycle.id}`,
+      withCapacity({ ...cycle, ...confirmed.body }, { [net.nodeIds[0]]: cut + 0.5 }),
+    );
     expect(raised.status).toBe(200);
     // And a non-boolean flag is a 400 naming it.
     const bad = await manager.put(`/api/cycles/${cycle.id}`, withCapacity({ ...cycle, ...raised.body }, {}, { confirmCapacityCut: 'yes' }));
@@ -145,7 +177,11 @@ describe('GET /api/cycles/:id/proposals (facility managers)', () => {
   it('lists the submitted proposals with their request per node against capacity, the pressure per node, drafts only counted', async () => {
     const cycle = await createCycle();
     // Dec −80° never rises at the northern node: its plan there is infeasible (hours shown apart).
-    const big = await submitted(cycle.id, [net.nodeIds[0], net.nodeIds[2]], [target(), target({ colour: 1.2 }), target({ decDeg: -80, raDeg: 90 })]);
+    const big = await submitted(
+      cycle.id,
+      [net.nodeIds[0], net.nodeIds[2]],
+      [target(), target({ colour: 1.2 }), target({ decDeg: -80, raDeg: 90 })],
+    );
     const small = await submitted(cycle.id, [net.nodeIds[0]]);
     await proposerWithDraft(h, cycle.id, 'Still a draft');
     const onNorth = big.request.find((r) => r.nodeId === net.nodeIds[0])!;
@@ -153,7 +189,10 @@ describe('GET /api/cycles/:id/proposals (facility managers)', () => {
     expect(onNorth.infeasibleNodeHours).toBeGreaterThan(0);
     // The northern node offers less than the big proposal asks for there.
     const northCapacity = Math.floor(onNorth.nodeHours / 2);
-    await h.created.ctx.db('cycle_nodes').where({ cycle_id: cycle.id, node_id: net.nodeIds[0] }).update({ node_hours_available: northCapacity });
+    await h.created.ctx
+      .db('cycle_nodes')
+      .where({ cycle_id: cycle.id, node_id: net.nodeIds[0] })
+      .update({ node_hours_available: northCapacity });
 
     const res = await manager.get(`/api/cycles/${cycle.id}/proposals`);
     expect(res.status).toBe(200);
@@ -161,7 +200,13 @@ describe('GET /api/cycles/:id/proposals (facility managers)', () => {
     expect(res.body.draftCount).toBe(1);
     expect(res.body.proposals.map((p: { id: number }) => p.id)).toEqual([big.id, small.id]);
     const [first, second] = res.body.proposals;
-    expect(first).toMatchObject({ title: big.title, state: 'submitted', piName: expect.any(String), submittedAt: expect.any(String), overCapacity: true });
+    expect(first).toMatchObject({
+      title: big.title,
+      state: 'submitted',
+      piName: expect.any(String),
+      submittedAt: expect.any(String),
+      overCapacity: true,
+    });
     expect(first.request.find((r: { nodeId: number }) => r.nodeId === net.nodeIds[0])).toEqual({
       nodeId: net.nodeIds[0],
       nodeCode: net.nodes[0].code,
@@ -172,7 +217,10 @@ describe('GET /api/cycles/:id/proposals (facility managers)', () => {
       nodeHoursAvailable: northCapacity,
       overCapacity: true,
     });
-    expect(first.totalNodeHours).toBeCloseTo(big.request.reduce((s, r) => s + r.nodeHours, 0), 2);
+    expect(first.totalNodeHours).toBeCloseTo(
+      big.request.reduce((s, r) => s + r.nodeHours, 0),
+      2,
+    );
     const smallNorth = small.request[0].nodeHours;
     expect(second.overCapacity).toBe(smallNorth > northCapacity);
 
@@ -197,7 +245,9 @@ describe('GET /api/cycles/:id/proposals (facility managers)', () => {
     const cycle = await createCycle();
     const res = await manager.get(`/api/cycles/${cycle.id}/proposals`);
     expect(res.body).toMatchObject({ proposals: [], draftCount: 0 });
-    expect(res.body.nodes.every((n: { requestedNodeHours: number; pressure: number }) => n.requestedNodeHours === 0 && n.pressure === 0)).toBe(true);
+    expect(
+      res.body.nodes.every((n: { requestedNodeHours: number; pressure: number }) => n.requestedNodeHours === 0 && n.pressure === 0),
+    ).toBe(true);
     const missing = await manager.get('/api/cycles/99999999/proposals');
     expect(missing.status).toBe(404);
     expect(missing.body.code).toBe('cycle_not_found');

@@ -18,7 +18,8 @@ function checkCycleEdge(cycle: CycleInput, ctx: z.RefinementCtx, prefix: (string
     if (hasControlCharacters(c)) ctx.addIssue({ code: 'custom', path: [...prefix, 'categories', i], message: CONTROL_CHARACTER_MESSAGE });
   });
   cycle.nodes.forEach((n, i) => {
-    if (n.nodeId > MAX_DB_ID) ctx.addIssue({ code: 'custom', path: [...prefix, 'nodes', i, 'nodeId'], message: `must be at most ${MAX_DB_ID}` });
+    if (n.nodeId > MAX_DB_ID)
+      ctx.addIssue({ code: 'custom', path: [...prefix, 'nodes', i, 'nodeId'], message: `must be at most ${MAX_DB_ID}` });
   });
 }
 

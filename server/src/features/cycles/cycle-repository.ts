@@ -67,7 +67,10 @@ export async function listCycles(db: Knex, ids?: number[]): Promise<(StoredCycle
   const q = db<CycleRow>('cycles').orderBy('call_opens_at', 'desc').orderBy('id', 'desc');
   if (ids) q.whereIn('id', ids);
   const rows = await q;
-  const capacity = await capacityOf(db, rows.map((r) => r.id));
+  const capacity = await capacityOf(
+    db,
+    rows.map((r) => r.id),
+  );
   return rows.map((r) => ({ ...toCycle(r), nodes: capacity.get(r.id) ?? [] }));
 }
 
@@ -116,7 +119,9 @@ function cycleColumns(input: CycleInput) {
 
 /** Inserts a cycle (version 1); returns its id. */
 export async function insertCycle(db: Knex, input: CycleInput, createdBy: number): Promise<number> {
-  const [row] = await db('cycles').insert({ ...cycleColumns(input), created_by: createdBy }).returning('id');
+  const [row] = await db('cycles')
+    .insert({ ...cycleColumns(input), created_by: createdBy })
+    .returning('id');
   return row.id;
 }
 
@@ -141,7 +146,11 @@ export async function requestedNodesOfCycle(db: Knex, cycleId: number): Promise<
     .where('p.cycle_id', cycleId)
     .groupBy('pn.node_id', 'n.code')
     .select('pn.node_id', 'n.code', db.raw('count(*)::int AS proposals'));
-  return rows.map((r: { node_id: number; code: string; proposals: number }) => ({ nodeId: r.node_id, nodeCode: r.code, proposals: r.proposals }));
+  return rows.map((r: { node_id: number; code: string; proposals: number }) => ({
+    nodeId: r.node_id,
+    nodeCode: r.code,
+    proposals: r.proposals,
+  }));
 }
 
 /**
@@ -188,7 +197,13 @@ export async function listSubmittedProposalsOfCycle(db: Knex, cycleId: number): 
     state: ProposalState;
     submitted_at: Date | null;
   }[];
-  return rows.map((r) => ({ id: r.id, title: r.title, piName: r.display_name, state: r.state, submittedAt: r.submitted_at?.toISOString() ?? null }));
+  return rows.map((r) => ({
+    id: r.id,
+    title: r.title,
+    piName: r.display_name,
+    state: r.state,
+    submittedAt: r.submitted_at?.toISOString() ?? null,
+  }));
 }
 
 /** How many of the cycle's proposals are still drafts (not counted in its pressure). */
@@ -201,7 +216,17 @@ export async function countDraftsOfCycle(db: Knex, cycleId: number): Promise<num
 export async function requestsOfProposals(
   db: Knex,
   proposalIds: number[],
-): Promise<{ proposalId: number; nodeId: number; nodeCode: string; nodeHours: number; infeasibleNodeHours: number; targets: number; infeasibleTargets: number }[]> {
+): Promise<
+  {
+    proposalId: number;
+    nodeId: number;
+    nodeCode: string;
+    nodeHours: number;
+    infeasibleNodeHours: number;
+    targets: number;
+    infeasibleTargets: number;
+  }[]
+> {
   if (!proposalIds.length) return [];
   const rows = (await db('proposal_nodes as pn')
     .join('nodes as n', 'n.id', 'pn.node_id')
@@ -219,7 +244,15 @@ export async function requestsOfProposals(
       db.raw('coalesce(sum(tp.node_hours) FILTER (WHERE NOT tp.feasible), 0)::float8 AS infeasible_node_hours'),
       db.raw('count(tp.target_id)::int AS targets'),
       db.raw('count(tp.target_id) FILTER (WHERE NOT tp.feasible)::int AS infeasible'),
-    )) as { proposal_id: number; node_id: number; code: string; node_hours: number; infeasible_node_hours: number; targets: number; infeasible: number }[];
+    )) as {
+    proposal_id: number;
+    node_id: number;
+    code: string;
+    node_hours: number;
+    infeasible_node_hours: number;
+    targets: number;
+    infeasible: number;
+  }[];
   const round = (x: number) => Math.round(x * 100) / 100;
   return rows.map((r) => ({
     proposalId: r.proposal_id,

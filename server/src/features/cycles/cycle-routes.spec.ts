@@ -61,7 +61,15 @@ describe('POST /api/cycles (facility managers)', () => {
     const dates = await browser.post('/api/cycles', cycleInput({ callClosesAt: new Date(Date.now() - 5 * 86400_000).toISOString() }));
     expect(dates.status).toBe(400);
     expect(dates.body.fieldErrors.callClosesAt).toBeDefined();
-    const node = await browser.post('/api/cycles', cycleInput({ nodes: [{ nodeId: net.nodeIds[0], nodeHoursAvailable: 1 }, { nodeId: 99999999, nodeHoursAvailable: 1 }] }));
+    const node = await browser.post(
+      '/api/cycles',
+      cycleInput({
+        nodes: [
+          { nodeId: net.nodeIds[0], nodeHoursAvailable: 1 },
+          { nodeId: 99999999, nodeHoursAvailable: 1 },
+        ],
+      }),
+    );
     expect(node.status).toBe(400);
     expect(Object.keys(node.body.fieldErrors)).toEqual(['nodes.1.nodeId']);
     const first = await browser.post('/api/cycles', cycleInput());
@@ -84,11 +92,28 @@ describe('PUT /api/cycles/:id', () => {
     });
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({ title: 'Renamed cycle', version: 2, nodes: [{ nodeId: net.nodeIds[2], nodeHoursAvailable: 300 }] });
-    const stale = await browser.put(`/api/cycles/${made.id}`, { version: 1, cycle: { ...fields, title: 'Overwrite', nodes: [{ nodeId: net.nodeIds[0], nodeHoursAvailable: 1 }] } });
+    const stale = await browser.put(`/api/cycles/${made.id}`, {
+      version: 1,
+      cycle: { ...fields, title: 'Overwrite', nodes: [{ nodeId: net.nodeIds[0], nodeHoursAvailable: 1 }] },
+    });
     expect(stale.status).toBe(409);
-    expect(stale.body).toMatchObject({ code: 'version_conflict', message: expect.stringMatching(/^Someone else saved cycle .* at \d\d:\d\d UTC; reload to see their changes$/) });
-    expect((await browser.get(`/api/cycles/${made.id}`)).body).toMatchObject({ title: 'Renamed cycle', version: 2, nodes: [{ nodeId: net.nodeIds[2] }] });
-    expect((await browser.put('/api/cycles/99999999', { version: 1, cycle: { ...fields, nodes: [{ nodeId: net.nodeIds[0], nodeHoursAvailable: 1 }] } })).status).toBe(404);
+    expect(stale.body).toMatchObject({
+      code: 'version_conflict',
+      message: expect.stringMatching(/^Someone else saved cycle .* at \d\d:\d\d UTC; reload to see their changes$/),
+    });
+    expect((await browser.get(`/api/cycles/${made.id}`)).body).toMatchObject({
+      title: 'Renamed cycle',
+      version: 2,
+      nodes: [{ nodeId: net.nodeIds[2] }],
+    });
+    expect(
+      (
+        await browser.put('/api/cycles/99999999', {
+          version: 1,
+          cycle: { ...fields, nodes: [{ nodeId: net.nodeIds[0], nodeHoursAvailable: 1 }] },
+        })
+      ).status,
+    ).toBe(404);
   });
 
   it('refuses to drop a node that proposals request (409 node_in_use); a new campaign queues the drafts’ plans', async () => {
@@ -101,13 +126,23 @@ describe('PUT /api/cycles/:id', () => {
     await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
     expect((await pi.get(`/api/proposals/${proposal.id}/plans`)).body.run.current).toBe(true);
     const { id: _id, status: _s, version: _v, nodes: _n, ...fields } = made;
-    const drop = await browser.put(`/api/cycles/${made.id}`, { version: 1, cycle: { ...fields, nodes: [{ nodeId: net.nodeIds[1], nodeHoursAvailable: 10 }] } });
+    const drop = await browser.put(`/api/cycles/${made.id}`, {
+      version: 1,
+      cycle: { ...fields, nodes: [{ nodeId: net.nodeIds[1], nodeHoursAvailable: 10 }] },
+    });
     expect(drop.status).toBe(409);
     expect(drop.body.code).toBe('node_in_use');
     expect(drop.body.message).toContain(net.nodes[0].code);
     const moved = await browser.put(`/api/cycles/${made.id}`, {
       version: 1,
-      cycle: { ...fields, campaignEnd: new Date(Date.parse(fields.campaignEnd) + 10 * 86400_000).toISOString().slice(0, 10), nodes: made.nodes.map(({ nodeId, nodeHoursAvailable }: { nodeId: number; nodeHoursAvailable: number }) => ({ nodeId, nodeHoursAvailable })) },
+      cycle: {
+        ...fields,
+        campaignEnd: new Date(Date.parse(fields.campaignEnd) + 10 * 86400_000).toISOString().slice(0, 10),
+        nodes: made.nodes.map(({ nodeId, nodeHoursAvailable }: { nodeId: number; nodeHoursAvailable: number }) => ({
+          nodeId,
+          nodeHoursAvailable,
+        })),
+      },
     });
     expect(moved.status).toBe(200);
     expect((await pi.get(`/api/proposals/${proposal.id}/plans`)).body.run).toMatchObject({ state: 'queued', current: false });
@@ -123,7 +158,10 @@ describe('GET /api/cycles visibility', () => {
     const upcoming = await net.createCycle({ opensInMs: 86400_000, closesInMs: 2 * 86400_000 });
     const closed = await net.createCycle({ opensInMs: -3 * 86400_000, closesInMs: -86400_000 });
     // The call of the cycle with the proposal closes meanwhile.
-    await h.created.ctx.db('cycles').where({ id: closedWithMine.id }).update({ call_closes_at: new Date(Date.now() - 1000) });
+    await h.created.ctx
+      .db('cycles')
+      .where({ id: closedWithMine.id })
+      .update({ call_closes_at: new Date(Date.now() - 1000) });
 
     const ids = async (b: typeof pi) => new Set(((await b.get('/api/cycles')).body as { id: number }[]).map((c) => c.id));
     const mine = await ids(pi);

@@ -1,4 +1,9 @@
-import { pressureOf, type CycleNodePressure, type CycleProposalItem, type CycleProposalsReport } from '@spincycle/shared/cycles/cycle-proposals';
+import {
+  pressureOf,
+  type CycleNodePressure,
+  type CycleProposalItem,
+  type CycleProposalsReport,
+} from '@spincycle/shared/cycles/cycle-proposals';
 import type { CycleInput, CycleUpdate } from '@spincycle/shared/cycles/cycle-schemas';
 import { callStatusAt, type CycleSummary } from '@spincycle/shared/facility/facility-types';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
@@ -87,7 +92,9 @@ async function checkNodesExist(ctx: AppContext, input: CycleInput, prefix: '' | 
 }
 
 function codeTaken(code: string, prefix: string) {
-  return new AppError('code_taken', `A cycle with the code ${code} exists already`, 409, { [`${prefix}code`]: [`a cycle with the code ${code} exists already`] });
+  return new AppError('code_taken', `A cycle with the code ${code} exists already`, 409, {
+    [`${prefix}code`]: [`a cycle with the code ${code} exists already`],
+  });
 }
 
 /** POST /api/cycles (facility managers): a new cycle with its nodes and their capacity. */
@@ -179,7 +186,9 @@ async function refuseUnconfirmedCapacityCut(db: Knex, cycleId: number, input: Cy
   const list = cuts.map((c) => `${c.nodeCode}: ${hours(c.requested)} node-hours requested, new capacity ${hours(c.capacity)}`).join('; ');
   const fieldErrors: Record<string, string[]> = {};
   for (const c of cuts) {
-    fieldErrors[`cycle.nodes.${c.index}.nodeHoursAvailable`] = [`below the ${hours(c.requested)} node-hours submitted proposals request on ${c.nodeCode}`];
+    fieldErrors[`cycle.nodes.${c.index}.nodeHoursAvailable`] = [
+      `below the ${hours(c.requested)} node-hours submitted proposals request on ${c.nodeCode}`,
+    ];
   }
   throw new AppError(
     'capacity_below_requests',
@@ -200,7 +209,10 @@ export async function getCycleProposals(ctx: AppContext, id: number): Promise<Cy
   const cycle = await findCycleWithNodes(ctx.db, id);
   if (!cycle) throw new AppError('cycle_not_found', `No cycle ${id}`, 404);
   const [rows, draftCount] = await Promise.all([listSubmittedProposalsOfCycle(ctx.db, id), countDraftsOfCycle(ctx.db, id)]);
-  const requests = await requestsOfProposals(ctx.db, rows.map((r) => r.id));
+  const requests = await requestsOfProposals(
+    ctx.db,
+    rows.map((r) => r.id),
+  );
   const capacity = new Map(cycle.nodes.map((n) => [n.nodeId, n.nodeHoursAvailable]));
   const byProposal = new Map<number, CycleProposalItem['request']>();
   for (const r of requests) {

@@ -10,21 +10,52 @@ beforeAll(async () => {
   h = await startHarness();
   const db = h.created.ctx.db;
   [{ id: siteId }] = await db('sites')
-    .insert({ code: `${tag}S`, name: 'Test Hill', latitude_deg: -31.5, longitude_deg: 150.25, elevation_m: 900, time_zone: 'Australia/Sydney', sky_brightness_mag_per_arcsec2: 21 })
+    .insert({
+      code: `${tag}S`,
+      name: 'Test Hill',
+      latitude_deg: -31.5,
+      longitude_deg: 150.25,
+      elevation_m: 900,
+      time_zone: 'Australia/Sydney',
+      sky_brightness_mag_per_arcsec2: 21,
+    })
     .returning('id');
   [{ id: nodeId }] = await db('nodes')
     .insert({
-      code: `${tag}N`, name: 'Test 40', site_id: siteId, aperture_m: 0.4, obstruction_fraction: 0.4, throughput: 0.5, band: 'V', read_noise_e: 10,
-      dark_current_e_per_s: 0.02, gain_e_per_adu: 1.2, saturation_e: 60000, pixel_scale_arcsec: 1, seeing_fwhm_arcsec: 2, systematic_floor_mmag: 1,
-      scintillation_model: 'young1967', overhead_seconds: 60, min_exposure_seconds: 1, max_exposure_seconds: 300, altitude_limit_deg: 30,
-      weather_loss_fraction: 0.3, rate_minor_per_hour: 2500, currency: 'eur',
+      code: `${tag}N`,
+      name: 'Test 40',
+      site_id: siteId,
+      aperture_m: 0.4,
+      obstruction_fraction: 0.4,
+      throughput: 0.5,
+      band: 'V',
+      read_noise_e: 10,
+      dark_current_e_per_s: 0.02,
+      gain_e_per_adu: 1.2,
+      saturation_e: 60000,
+      pixel_scale_arcsec: 1,
+      seeing_fwhm_arcsec: 2,
+      systematic_floor_mmag: 1,
+      scintillation_model: 'young1967',
+      overhead_seconds: 60,
+      min_exposure_seconds: 1,
+      max_exposure_seconds: 300,
+      altitude_limit_deg: 30,
+      weather_loss_fraction: 0.3,
+      rate_minor_per_hour: 2500,
+      currency: 'eur',
     })
     .returning('id');
   const now = Date.now();
   [{ id: cycleId }] = await db('cycles')
     .insert({
-      code: `${tag}C`, title: 'Test cycle', call_opens_at: new Date(now - 86400_000), call_closes_at: new Date(now + 86400_000),
-      campaign_start: '2031-02-01', campaign_end: '2031-07-31', categories: ['A', 'B'],
+      code: `${tag}C`,
+      title: 'Test cycle',
+      call_opens_at: new Date(now - 86400_000),
+      call_closes_at: new Date(now + 86400_000),
+      campaign_start: '2031-02-01',
+      campaign_end: '2031-07-31',
+      categories: ['A', 'B'],
     })
     .returning('id');
   await db('cycle_nodes').insert({ cycle_id: cycleId, node_id: nodeId, node_hours_available: 123.5 });
@@ -43,7 +74,11 @@ describe('facility read routes', () => {
     const res = await browser.get('/api/nodes');
     const node = res.body.find((n: { id: number }) => n.id === nodeId);
     expect(node).toMatchObject({
-      code: `${tag}N`, apertureM: 0.4, scintillationModel: 'young1967', rateMinorPerHour: 2500, currency: 'eur',
+      code: `${tag}N`,
+      apertureM: 0.4,
+      scintillationModel: 'young1967',
+      rateMinorPerHour: 2500,
+      currency: 'eur',
       site: { id: siteId, latitudeDeg: -31.5, longitudeDeg: 150.25, timeZone: 'Australia/Sydney' },
     });
   });
@@ -52,10 +87,27 @@ describe('facility read routes', () => {
     const db = h.created.ctx.db;
     const [{ id }] = await db('nodes')
       .insert({
-        code: `${tag}D`, name: 'Test default', site_id: siteId, aperture_m: 0.3, obstruction_fraction: 0.4, throughput: 0.5, band: 'R', read_noise_e: 10,
-        dark_current_e_per_s: 0.02, gain_e_per_adu: 1.2, saturation_e: 60000, pixel_scale_arcsec: 1, seeing_fwhm_arcsec: 2, systematic_floor_mmag: 1,
-        overhead_seconds: 60, min_exposure_seconds: 1, max_exposure_seconds: 300, altitude_limit_deg: 30, weather_loss_fraction: 0.3,
-        rate_minor_per_hour: 2000, currency: 'eur',
+        code: `${tag}D`,
+        name: 'Test default',
+        site_id: siteId,
+        aperture_m: 0.3,
+        obstruction_fraction: 0.4,
+        throughput: 0.5,
+        band: 'R',
+        read_noise_e: 10,
+        dark_current_e_per_s: 0.02,
+        gain_e_per_adu: 1.2,
+        saturation_e: 60000,
+        pixel_scale_arcsec: 1,
+        seeing_fwhm_arcsec: 2,
+        systematic_floor_mmag: 1,
+        overhead_seconds: 60,
+        min_exposure_seconds: 1,
+        max_exposure_seconds: 300,
+        altitude_limit_deg: 30,
+        weather_loss_fraction: 0.3,
+        rate_minor_per_hour: 2000,
+        currency: 'eur',
       })
       .returning('id');
     try {
@@ -73,6 +125,11 @@ describe('facility read routes', () => {
     const { browser } = await signedIn(h);
     const res = await browser.get('/api/cycles');
     const cycle = res.body.find((c: { id: number }) => c.id === cycleId);
-    expect(cycle).toMatchObject({ status: 'open', campaignStart: '2031-02-01', categories: ['A', 'B'], nodes: [{ nodeId, nodeCode: `${tag}N`, nodeHoursAvailable: 123.5 }] });
+    expect(cycle).toMatchObject({
+      status: 'open',
+      campaignStart: '2031-02-01',
+      categories: ['A', 'B'],
+      nodes: [{ nodeId, nodeCode: `${tag}N`, nodeHoursAvailable: 123.5 }],
+    });
   });
 });

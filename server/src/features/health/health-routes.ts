@@ -16,7 +16,12 @@ export function createHealthRoutes(ctx: AppContext): Router {
     } catch {
       database = 'unreachable';
     }
-    const body = { status: database === 'reachable' ? 'ok' : 'degraded', database, instanceId, latencyMs: Math.round(performance.now() - started) };
+    const body = {
+      status: database === 'reachable' ? 'ok' : 'degraded',
+      database,
+      instanceId,
+      latencyMs: Math.round(performance.now() - started),
+    };
     res.status(database === 'reachable' ? 200 : 503).json(body);
   });
   return router;

@@ -25,7 +25,12 @@ export interface ProposalAccess {
  * that does not exist: its existence is not revealed. `forUpdate` locks the proposal row for
  * the rest of the transaction, so that edits, submission and withdrawal never interleave.
  */
-export async function accessProposal(db: Knex, viewer: SessionUser, id: number, options: { forUpdate?: boolean } = {}): Promise<ProposalAccess> {
+export async function accessProposal(
+  db: Knex,
+  viewer: SessionUser,
+  id: number,
+  options: { forUpdate?: boolean } = {},
+): Promise<ProposalAccess> {
   const proposal = await findProposalById(db, id, options);
   const role = proposal ? await findActiveRole(db, id, viewer.id) : undefined;
   if (!proposal || !role) throw new AppError('proposal_not_found', `No proposal ${id}`, 404);
@@ -60,10 +65,18 @@ export function requireEditable(access: ProposalAccess, now: Date): void {
   }
   const status = callStatusAt(cycle, now);
   if (status === 'closed') {
-    throw new AppError('not_editable', `The call for ${cycle.code} closed at ${formatUtc(cycle.callClosesAt)}; the proposal can no longer be changed`, 409);
+    throw new AppError(
+      'not_editable',
+      `The call for ${cycle.code} closed at ${formatUtc(cycle.callClosesAt)}; the proposal can no longer be changed`,
+      409,
+    );
   }
   if (status === 'upcoming') {
-    throw new AppError('not_editable', `The call for ${cycle.code} opens at ${formatUtc(cycle.callOpensAt)}; the proposal can be changed once it is open`, 409);
+    throw new AppError(
+      'not_editable',
+      `The call for ${cycle.code} opens at ${formatUtc(cycle.callOpensAt)}; the proposal can be changed once it is open`,
+      409,
+    );
   }
 }
 

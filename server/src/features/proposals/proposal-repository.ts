@@ -52,7 +52,10 @@ function toProposal(r: ProposalRow): StoredProposal {
 }
 
 /** Inserts a draft (version 1); returns its id. */
-export async function insertProposal(db: Knex, input: { cycleId: number; piAccountId: number; title: string; completeness?: number }): Promise<number> {
+export async function insertProposal(
+  db: Knex,
+  input: { cycleId: number; piAccountId: number; title: string; completeness?: number },
+): Promise<number> {
   const [row] = await db('proposals')
     .insert({ cycle_id: input.cycleId, pi_account_id: input.piAccountId, title: input.title, completeness: input.completeness })
     .returning('id');

@@ -1,5 +1,12 @@
 import { Browser, signedIn, startHarness, type Harness } from '../../../../test/support/api-harness';
-import { addCoInvestigator, countRows, createTestNetwork, proposerWithDraft, target, type TestNetwork } from '../../../../test/api/support/proposal-kit';
+import {
+  addCoInvestigator,
+  countRows,
+  createTestNetwork,
+  proposerWithDraft,
+  target,
+  type TestNetwork,
+} from '../../../../test/api/support/proposal-kit';
 
 let h: Harness;
 let net: TestNetwork;
@@ -34,7 +41,15 @@ describe('POST /api/proposals', () => {
       cycle: { id: net.cycleId, status: 'open', code: net.cycleCode },
     });
     expect(res.body.team).toEqual([
-      { id: expect.any(Number), accountId: account.id, email: account.email, displayName: expect.any(String), role: 'pi', status: 'active', invitedAt: expect.any(String) },
+      {
+        id: expect.any(Number),
+        accountId: account.id,
+        email: account.email,
+        displayName: expect.any(String),
+        role: 'pi',
+        status: 'active',
+        invitedAt: expect.any(String),
+      },
     ]);
   });
 
@@ -106,10 +121,20 @@ describe('PATCH /api/proposals/:id (autosave)', () => {
       nodeIds: [net.nodeIds[1], net.nodeIds[0], net.nodeIds[1]],
     });
     expect(res.status).toBe(200);
-    expect(res.body).toMatchObject({ title: 'Renamed', abstract: 'An abstract.', category: 'Field stars', version: 2, nodeIds: [net.nodeIds[0], net.nodeIds[1]] });
+    expect(res.body).toMatchObject({
+      title: 'Renamed',
+      abstract: 'An abstract.',
+      category: 'Field stars',
+      version: 2,
+      nodeIds: [net.nodeIds[0], net.nodeIds[1]],
+    });
     expect(res.body.request).toHaveLength(2);
     expect(res.body.request.map((r: { nodeId: number }) => r.nodeId).sort()).toEqual([net.nodeIds[0], net.nodeIds[1]].sort());
-    expect(res.body.request.every((r: { nodeHours: number; feeMinor: number; targets: number }) => r.nodeHours === 0 && r.feeMinor === 0 && r.targets === 0)).toBe(true);
+    expect(
+      res.body.request.every(
+        (r: { nodeHours: number; feeMinor: number; targets: number }) => r.nodeHours === 0 && r.feeMinor === 0 && r.targets === 0,
+      ),
+    ).toBe(true);
     const run = (await browser.get(`/api/proposals/${proposal.id}/plans`)).body.run;
     expect(run).toMatchObject({ state: 'queued', current: false });
   });
@@ -177,7 +202,11 @@ describe('PATCH /api/proposals/:id (autosave)', () => {
     expect(res.body.code).toBeDefined();
     expect(Object.keys(res.body.fieldErrors)).toEqual(['completeness']);
     expect(res.body.fieldErrors.completeness).toEqual(['completeness must be between 50 % and 99 %']);
-    expect((await browser.get(`/api/proposals/${proposal.id}`)).body).toMatchObject({ title: 'Bad completeness', completeness: 0.9, version: 1 });
+    expect((await browser.get(`/api/proposals/${proposal.id}`)).body).toMatchObject({
+      title: 'Bad completeness',
+      completeness: 0.9,
+      version: 1,
+    });
   });
 });
 

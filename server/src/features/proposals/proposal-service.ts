@@ -1,7 +1,13 @@
 import type { Knex } from 'knex';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
 import { callStatusAt } from '@spincycle/shared/facility/facility-types';
-import { DEFAULT_COMPLETENESS, type CreateProposalInput, type Proposal, type ProposalSummary, type UpdateProposalInput } from '@spincycle/shared/proposals/proposal-schemas';
+import {
+  DEFAULT_COMPLETENESS,
+  type CreateProposalInput,
+  type Proposal,
+  type ProposalSummary,
+  type UpdateProposalInput,
+} from '@spincycle/shared/proposals/proposal-schemas';
 import type { AppContext } from '../../app-context';
 import { inParallel } from '../../db/in-parallel';
 import { AppError, invalidField } from '../../http/app-error';
@@ -80,7 +86,12 @@ export async function createProposal(ctx: AppContext, viewer: SessionUser, input
     throw new AppError('call_not_open', `The call for ${cycle.code} is not open: it ${when}`, 422, { cycleId: [`the call ${when}`] });
   }
   const id = await ctx.db.transaction(async (trx) => {
-    const proposalId = await insertProposal(trx, { cycleId: cycle.id, piAccountId: viewer.id, title: input.title, completeness: DEFAULT_COMPLETENESS });
+    const proposalId = await insertProposal(trx, {
+      cycleId: cycle.id,
+      piAccountId: viewer.id,
+      title: input.title,
+      completeness: DEFAULT_COMPLETENESS,
+    });
     await insertPiMember(trx, proposalId, viewer);
     const emptyHash = planInputsHash({
       campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd },
@@ -125,7 +136,10 @@ export async function updateProposal(ctx: AppContext, viewer: SessionUser, id: n
       const offered = new Set((await listCycleNodes(trx, cycle.id)).map((n) => n.nodeId));
       const foreign = nodeIds.filter((n) => !offered.has(n));
       if (foreign.length) {
-        throw invalidField('nodeIds', `node${foreign.length > 1 ? 's' : ''} ${foreign.join(', ')} ${foreign.length > 1 ? 'do' : 'does'} not take part in cycle ${cycle.code}`);
+        throw invalidField(
+          'nodeIds',
+          `node${foreign.length > 1 ? 's' : ''} ${foreign.join(', ')} ${foreign.length > 1 ? 'do' : 'does'} not take part in cycle ${cycle.code}`,
+        );
       }
       const current = await listProposalNodeIds(trx, id);
       nodesChanged = current.join(',') !== nodeIds.join(',');

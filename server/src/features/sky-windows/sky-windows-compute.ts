@@ -1,4 +1,12 @@
-import { computeSkyWindows, toSkyWindowsReport, type SkyCampaign, type SkyLimits, type SkySite, type SkyTarget, type SkyWindowsReport } from '@spincycle/shared/sky/index';
+import {
+  computeSkyWindows,
+  toSkyWindowsReport,
+  type SkyCampaign,
+  type SkyLimits,
+  type SkySite,
+  type SkyTarget,
+  type SkyWindowsReport,
+} from '@spincycle/shared/sky/index';
 
 /**
  * Everything one sky-windows request computes, as plain data: it is computed on the request

@@ -89,7 +89,9 @@ function dispatch(): void {
  */
 export function computeSkyWindowsOffThread(job: SkyWindowsJob): Promise<SkyWindowsReport[]> {
   if (waiting.length >= MAX_WAITING) {
-    return Promise.reject(new AppError('sky_windows_busy', 'Too many large sky-window requests are being computed; try again in a minute', 503));
+    return Promise.reject(
+      new AppError('sky_windows_busy', 'Too many large sky-window requests are being computed; try again in a minute', 503),
+    );
   }
   return new Promise((resolve, reject) => {
     waiting.push({ job, resolve, reject });
@@ -101,7 +103,12 @@ export function computeSkyWindowsOffThread(job: SkyWindowsJob): Promise<SkyWindo
 export async function closeSkyWindowsPool(): Promise<void> {
   const all = [...slots];
   slots.clear();
-  await Promise.all(all.map((s) => { clearTimeout(s.idleTimer); return s.worker.terminate(); }));
+  await Promise.all(
+    all.map((s) => {
+      clearTimeout(s.idleTimer);
+      return s.worker.terminate();
+    }),
+  );
 }
 
 /** Threads running now and jobs answered by the pool since the process started (for tests and logs). */

@@ -18,39 +18,95 @@ beforeAll(async () => {
   h = await startHarness();
   const db = h.created.ctx.db;
   [{ id: siteId }] = await db('sites')
-    .insert({ code: `${tag}S`, name: 'Window Hill', latitude_deg: -29.25, longitude_deg: -70.73, elevation_m: 2300, time_zone: 'America/Santiago', sky_brightness_mag_per_arcsec2: 21.7 })
+    .insert({
+      code: `${tag}S`,
+      name: 'Window Hill',
+      latitude_deg: -29.25,
+      longitude_deg: -70.73,
+      elevation_m: 2300,
+      time_zone: 'America/Santiago',
+      sky_brightness_mag_per_arcsec2: 21.7,
+    })
     .returning('id');
   [{ id: nodeId }] = await db('nodes')
     .insert({
-      code: `${tag}N`, name: 'Window 60', site_id: siteId, aperture_m: 0.6, obstruction_fraction: 0.4, throughput: 0.5, band: 'R', read_noise_e: 8,
-      dark_current_e_per_s: 0.02, gain_e_per_adu: 1.2, saturation_e: 70000, pixel_scale_arcsec: 0.9, seeing_fwhm_arcsec: 1.5, systematic_floor_mmag: 1,
-      scintillation_model: 'osborn2015', overhead_seconds: 50, min_exposure_seconds: 1, max_exposure_seconds: 300, altitude_limit_deg: 30,
-      weather_loss_fraction: 0.2, rate_minor_per_hour: 5000, currency: 'eur',
+      code: `${tag}N`,
+      name: 'Window 60',
+      site_id: siteId,
+      aperture_m: 0.6,
+      obstruction_fraction: 0.4,
+      throughput: 0.5,
+      band: 'R',
+      read_noise_e: 8,
+      dark_current_e_per_s: 0.02,
+      gain_e_per_adu: 1.2,
+      saturation_e: 70000,
+      pixel_scale_arcsec: 0.9,
+      seeing_fwhm_arcsec: 1.5,
+      systematic_floor_mmag: 1,
+      scintillation_model: 'osborn2015',
+      overhead_seconds: 50,
+      min_exposure_seconds: 1,
+      max_exposure_seconds: 300,
+      altitude_limit_deg: 30,
+      weather_loss_fraction: 0.2,
+      rate_minor_per_hour: 5000,
+      currency: 'eur',
     })
     .returning('id');
   const twin = await db('nodes').where({ id: nodeId }).first();
   delete twin.id;
   delete twin.created_at;
   delete twin.updated_at;
-  otherNodeIds = (await db('nodes').insert([{ ...twin, code: `${tag}N2`, name: 'Window 60 B' }, { ...twin, code: `${tag}N3`, name: 'Window 60 C' }]).returning('id')).map((r: { id: number }) => r.id);
+  otherNodeIds = (
+    await db('nodes')
+      .insert([
+        { ...twin, code: `${tag}N2`, name: 'Window 60 B' },
+        { ...twin, code: `${tag}N3`, name: 'Window 60 C' },
+      ])
+      .returning('id')
+  ).map((r: { id: number }) => r.id);
   // Call open now (proposers see it), campaign in June 2030.
   [{ id: cycleId }] = await db('cycles')
-    .insert({ code: `${tag}C`, title: 'Window cycle', call_opens_at: new Date(Date.now() - 86400_000), call_closes_at: new Date('2030-02-01'), campaign_start: '2030-06-01', campaign_end: '2030-06-30' })
+    .insert({
+      code: `${tag}C`,
+      title: 'Window cycle',
+      call_opens_at: new Date(Date.now() - 86400_000),
+      call_closes_at: new Date('2030-02-01'),
+      campaign_start: '2030-06-01',
+      campaign_end: '2030-06-30',
+    })
     .returning('id');
   // Not announced yet: its call opens in 2031.
   [{ id: upcomingCycleId }] = await db('cycles')
-    .insert({ code: `${tag}U`, title: 'Unannounced cycle', call_opens_at: new Date('2031-01-01'), call_closes_at: new Date('2031-02-01'), campaign_start: '2031-06-01', campaign_end: '2031-06-30' })
+    .insert({
+      code: `${tag}U`,
+      title: 'Unannounced cycle',
+      call_opens_at: new Date('2031-01-01'),
+      call_closes_at: new Date('2031-02-01'),
+      campaign_start: '2031-06-01',
+      campaign_end: '2031-06-30',
+    })
     .returning('id');
   // Open call, the longest campaign (366 nights).
   [{ id: yearCycleId }] = await db('cycles')
-    .insert({ code: `${tag}Y`, title: 'Year cycle', call_opens_at: new Date(Date.now() - 86400_000), call_closes_at: new Date('2030-02-01'), campaign_start: '2030-03-01', campaign_end: '2031-03-01' })
+    .insert({
+      code: `${tag}Y`,
+      title: 'Year cycle',
+      call_opens_at: new Date(Date.now() - 86400_000),
+      call_closes_at: new Date('2030-02-01'),
+      campaign_start: '2030-03-01',
+      campaign_end: '2031-03-01',
+    })
     .returning('id');
 });
 afterAll(async () => {
   const db = h.created.ctx.db;
   await closeSkyWindowsPool();
   await db('cycles').whereIn('id', [cycleId, upcomingCycleId, yearCycleId]).del();
-  await db('nodes').whereIn('id', [nodeId, ...otherNodeIds]).del();
+  await db('nodes')
+    .whereIn('id', [nodeId, ...otherNodeIds])
+    .del();
   await db('sites').where({ id: siteId }).del();
   await h.close();
 });
@@ -61,7 +117,10 @@ describe('POST /api/sky-windows', () => {
     const res = await browser.post('/api/sky-windows', {
       cycleId,
       nodeIds: [nodeId],
-      targets: [{ name: 'Star S-1', ra: '15:30:00', dec: '-60:00:00' }, { name: 'Star N-1', ra: 120, dec: 70 }],
+      targets: [
+        { name: 'Star S-1', ra: '15:30:00', dec: '-60:00:00' },
+        { name: 'Star N-1', ra: 120, dec: 70 },
+      ],
     });
     expect(res.status).toBe(200);
     const node = res.body.nodes[0];
@@ -85,9 +144,14 @@ describe('POST /api/sky-windows', () => {
 
   it('gives each target night the Moon’s altitude (what the planner’s moonlit sky needs), at the middle of the longest usable interval', async () => {
     const { browser } = await signedIn(h);
-    const res = await browser.post('/api/sky-windows', { cycleId, nodeIds: [nodeId], targets: [{ name: 'Star S-1', ra: '15:30:00', dec: '-60:00:00' }] });
+    const res = await browser.post('/api/sky-windows', {
+      cycleId,
+      nodeIds: [nodeId],
+      targets: [{ name: 'Star S-1', ra: '15:30:00', dec: '-60:00:00' }],
+    });
     expect(res.status).toBe(200);
-    const nights: { intervals: { startUtc: string; endUtc: string }[]; moonAltitudeDeg: number }[] = res.body.nodes[0].report.targets[0].nights;
+    const nights: { intervals: { startUtc: string; endUtc: string }[]; moonAltitudeDeg: number }[] =
+      res.body.nodes[0].report.targets[0].nights;
     expect(nights).toHaveLength(30);
     const observer = new Observer(-29.25, -70.73, 2300);
     for (const night of nights) {
@@ -99,7 +163,9 @@ describe('POST /api/sky-windows', () => {
     }
     // Cross-check one night with astronomy-engine (topocentric Moon, no refraction).
     const night = nights[12];
-    const longest = night.intervals.reduce((a, b) => (Date.parse(b.endUtc) - Date.parse(b.startUtc) > Date.parse(a.endUtc) - Date.parse(a.startUtc) ? b : a));
+    const longest = night.intervals.reduce((a, b) =>
+      Date.parse(b.endUtc) - Date.parse(b.startUtc) > Date.parse(a.endUtc) - Date.parse(a.startUtc) ? b : a,
+    );
     const mid = new Date((Date.parse(longest.startUtc) + Date.parse(longest.endUtc)) / 2);
     const moon = Equator(Body.Moon, mid, observer, true, true);
     expect(Math.abs(Horizon(mid, observer, moon.ra, moon.dec).altitude - night.moonAltitudeDeg)).toBeLessThan(0.1);
@@ -110,7 +176,12 @@ describe('POST /api/sky-windows', () => {
     const res = await browser.post('/api/sky-windows', {
       cycleId,
       nodeIds: [nodeId],
-      targets: [{ ra: 10, dec: 10 }, { ra: 400, dec: 0 }, { ra: '12:30', dec: '95.2' }, { ra: 'abc', dec: '1' }],
+      targets: [
+        { ra: 10, dec: 10 },
+        { ra: 400, dec: 0 },
+        { ra: '12:30', dec: '95.2' },
+        { ra: 'abc', dec: '1' },
+      ],
     });
     expect(res.status).toBe(400);
     expect(res.body.message).toMatch(/^row 2, ra: /);
@@ -121,7 +192,10 @@ describe('POST /api/sky-windows', () => {
   it('validates the request: unknown cycle or node, empty lists, too many targets with nights', async () => {
     const { browser } = await signedIn(h);
     const one = [{ ra: 1, dec: 1 }];
-    expect((await browser.post('/api/sky-windows', { cycleId: 99999999, nodeIds: [nodeId], targets: one })).body).toEqual({ code: 'cycle_not_found', message: 'No cycle 99999999' });
+    expect((await browser.post('/api/sky-windows', { cycleId: 99999999, nodeIds: [nodeId], targets: one })).body).toEqual({
+      code: 'cycle_not_found',
+      message: 'No cycle 99999999',
+    });
     expect((await browser.post('/api/sky-windows', { cycleId, nodeIds: [99999999], targets: one })).body.fieldErrors.nodeIds).toBeDefined();
     expect((await browser.post('/api/sky-windows', { cycleId, nodeIds: [], targets: [] })).body.fieldErrors).toEqual(
       expect.objectContaining({ nodeIds: expect.any(Array), targets: expect.any(Array) }),
@@ -151,7 +225,12 @@ describe('POST /api/sky-windows', () => {
   it('refuses a request above the cost limit with 400 naming targets × nodes × nights and the limit; computes nothing', async () => {
     const { browser } = await signedIn(h);
     const targets = Array.from({ length: 500 }, (_, i) => ({ ra: (i * 0.7) % 360, dec: -30 }));
-    const res = await browser.post('/api/sky-windows', { cycleId: yearCycleId, nodeIds: [nodeId, ...otherNodeIds], targets, includeNights: false });
+    const res = await browser.post('/api/sky-windows', {
+      cycleId: yearCycleId,
+      nodeIds: [nodeId, ...otherNodeIds],
+      targets,
+      includeNights: false,
+    });
     expect(res.status).toBe(400);
     expect(res.body.code).toBe('sky_windows_too_large');
     expect(res.body.message).toBe(
@@ -172,7 +251,12 @@ describe('POST /api/sky-windows', () => {
       campaign: { firstNight: '2030-03-01', lastNight: '2031-03-01' },
       targets: targets.map((t) => ({ name: t.name, raDeg: t.ra, decDeg: t.dec })),
       includeNights: true,
-      nodes: [{ site: { latitudeDeg: -29.25, longitudeDeg: -70.73, elevationM: 2300, timeZone: 'America/Santiago' }, limits: skyLimitsForNode({ altitudeLimitDeg: node.altitude_limit_deg, sunAltitudeLimitDeg: node.sun_altitude_limit_deg }) }],
+      nodes: [
+        {
+          site: { latitudeDeg: -29.25, longitudeDeg: -70.73, elevationM: 2300, timeZone: 'America/Santiago' },
+          limits: skyLimitsForNode({ altitudeLimitDeg: node.altitude_limit_deg, sunAltitudeLimitDeg: node.sun_altitude_limit_deg }),
+        },
+      ],
     });
     expect(res.body.nodes[0].report.nights).toHaveLength(366);
     expect(res.body.nodes[0].report.targets).toEqual(JSON.parse(JSON.stringify(expected.targets)));

@@ -55,7 +55,12 @@ export async function computeCycleSkyWindows(ctx: AppContext, viewer: SessionUse
   });
   const keys = Object.keys(fieldErrors);
   if (keys.length) {
-    throw new AppError('validation_failed', fieldErrors[keys[0]][0] + (keys.length > 1 ? ` (and ${keys.length - 1} more)` : ''), 400, fieldErrors);
+    throw new AppError(
+      'validation_failed',
+      fieldErrors[keys[0]][0] + (keys.length > 1 ? ` (and ${keys.length - 1} more)` : ''),
+      400,
+      fieldErrors,
+    );
   }
   const valid = targets as { name: string | null; raDeg: number; decDeg: number }[];
 
@@ -90,4 +95,3 @@ export async function computeCycleSkyWindows(ctx: AppContext, viewer: SessionUse
     })),
   };
 }
-

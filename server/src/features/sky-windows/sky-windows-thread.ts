@@ -12,8 +12,7 @@ export interface SkyWindowsThreadRequest {
 }
 
 export type SkyWindowsThreadReply =
-  | { id: number; ok: true; reports: ReturnType<typeof computeSkyWindowsJob> }
-  | { id: number; ok: false; message: string };
+  { id: number; ok: true; reports: ReturnType<typeof computeSkyWindowsJob> } | { id: number; ok: false; message: string };
 
 if (!parentPort) throw new Error('sky-windows-thread.ts runs inside a worker thread only');
 const port = parentPort;

@@ -42,15 +42,17 @@ export const command: CliCommand = {
       'tau-scale': { type: 'string' },
     });
     const colour = colourOption(values);
-    return withoutHiddenAge(estimateAge({
-      relation: (relationOption(values.relation) ?? defaultRelationFor(colour.system)) as GyroRelationId,
-      colour,
-      reddeningEbvMag: numberOption(values.ebv, 'ebv', 'reddeningEbvMag'),
-      periodDays: numberOption(values.period, 'period', 'periodDays', true) as number,
-      periodUncertaintyDays: numberOption(values['period-error'], 'period-error', 'periodUncertaintyDays'),
-      rangeSigma: numberOption(values.sigma, 'sigma', 'rangeSigma'),
-      turnoverScale: values['tau-scale'] as TurnoverScale | undefined,
-    }));
+    return withoutHiddenAge(
+      estimateAge({
+        relation: (relationOption(values.relation) ?? defaultRelationFor(colour.system)) as GyroRelationId,
+        colour,
+        reddeningEbvMag: numberOption(values.ebv, 'ebv', 'reddeningEbvMag'),
+        periodDays: numberOption(values.period, 'period', 'periodDays', true) as number,
+        periodUncertaintyDays: numberOption(values['period-error'], 'period-error', 'periodUncertaintyDays'),
+        rangeSigma: numberOption(values.sigma, 'sigma', 'rangeSigma'),
+        turnoverScale: values['tau-scale'] as TurnoverScale | undefined,
+      }),
+    );
   },
 };
 

@@ -41,15 +41,17 @@ export const command: CliCommand = {
       'tau-scale': { type: 'string' },
     });
     const colour = colourOption(values);
-    return withoutHiddenPeriod(predictPeriod({
-      relation: (relationOption(values.relation) ?? defaultRelationFor(colour.system)) as GyroRelationId,
-      colour,
-      reddeningEbvMag: numberOption(values.ebv, 'ebv', 'reddeningEbvMag'),
-      ageMyr: numberOption(values.age, 'age', 'ageMyr', true) as number,
-      ageUncertaintyMyr: numberOption(values['age-error'], 'age-error', 'ageUncertaintyMyr'),
-      rangeSigma: numberOption(values.sigma, 'sigma', 'rangeSigma'),
-      turnoverScale: values['tau-scale'] as TurnoverScale | undefined,
-    }));
+    return withoutHiddenPeriod(
+      predictPeriod({
+        relation: (relationOption(values.relation) ?? defaultRelationFor(colour.system)) as GyroRelationId,
+        colour,
+        reddeningEbvMag: numberOption(values.ebv, 'ebv', 'reddeningEbvMag'),
+        ageMyr: numberOption(values.age, 'age', 'ageMyr', true) as number,
+        ageUncertaintyMyr: numberOption(values['age-error'], 'age-error', 'ageUncertaintyMyr'),
+        rangeSigma: numberOption(values.sigma, 'sigma', 'rangeSigma'),
+        turnoverScale: values['tau-scale'] as TurnoverScale | undefined,
+      }),
+    );
   },
 };
 

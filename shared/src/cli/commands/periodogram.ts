@@ -1,6 +1,13 @@
 /** `spincycle periodogram`: Lomb–Scargle periodogram of a light curve (CSV file or stdin). */
 import { readFileSync } from 'node:fs';
-import { analyzePeriodogram, DEFAULT_SAMPLES_PER_PEAK, type FrequencyGrid, type LightCurve, type LombScargleMethod, type ValueKind } from '../../science/index';
+import {
+  analyzePeriodogram,
+  DEFAULT_SAMPLES_PER_PEAK,
+  type FrequencyGrid,
+  type LightCurve,
+  type LombScargleMethod,
+  type ValueKind,
+} from '../../science/index';
 import { ScienceInputError } from '../../science/science-input-error';
 import { type CliCommand, CliUsageError, numberOption, parseCommandArgs } from '../cli-command';
 import { nightlyMeans, parseLightCurveCsv } from '../light-curve-csv';
@@ -78,7 +85,8 @@ function readPlanAnalysis(path: string): PlanAnalysis {
   const r = a as Record<string, unknown>;
   const num = (key: string, ok: (v: number) => boolean, what: string): number => {
     const v = r[key];
-    if (typeof v !== 'number' || !Number.isFinite(v) || !ok(v)) throw new ScienceInputError(`plan.analysis.${key}`, `must be ${what} (got ${JSON.stringify(v)})`);
+    if (typeof v !== 'number' || !Number.isFinite(v) || !ok(v))
+      throw new ScienceInputError(`plan.analysis.${key}`, `must be ${what} (got ${JSON.stringify(v)})`);
     return v;
   };
   if (r.series !== 'nightlyMeans' && r.series !== 'visits') {
@@ -130,7 +138,8 @@ export const command: CliCommand = {
       true,
     );
     if (positionals.length !== 1) throw new CliUsageError('give one input: a CSV file, or - for stdin');
-    if (values['nightly-means'] && values['single-visits']) throw new CliUsageError('give either --nightly-means or --single-visits, not both');
+    if (values['nightly-means'] && values['single-visits'])
+      throw new CliUsageError('give either --nightly-means or --single-visits, not both');
     const fminOption = numberOption(values.fmin, 'fmin', 'minimumFrequencyPerDay');
     const fmaxOption = numberOption(values.fmax, 'fmax', 'maximumFrequencyPerDay');
     const fapOption = numberOption(values.fap, 'fap', 'falseAlarmProbability');
@@ -160,7 +169,9 @@ export const command: CliCommand = {
       seriesFrom = 'options';
       useNightly = values['nightly-means'] === true;
       if (plan && (plan.series === 'nightlyMeans') !== useNightly) {
-        notes.push(`${useNightly ? '--nightly-means' : '--single-visits'} overrides the plan's series "${plan.series}": its false-alarm level was sized for ${plan.series === 'nightlyMeans' ? 'nightly means' : 'single visits'}`);
+        notes.push(
+          `${useNightly ? '--nightly-means' : '--single-visits'} overrides the plan's series "${plan.series}": its false-alarm level was sized for ${plan.series === 'nightlyMeans' ? 'nightly means' : 'single visits'}`,
+        );
       }
     } else if (plan) {
       seriesFrom = 'plan';
@@ -172,7 +183,8 @@ export const command: CliCommand = {
     // Band: options win over the plan, the plan over the automatic grid.
     const fmin = fminOption ?? plan?.minFrequencyPerDay;
     const fmax = fmaxOption ?? plan?.maxFrequencyPerDay;
-    const searchFrom: 'plan' | 'options' | 'default' = fminOption !== undefined || fmaxOption !== undefined ? 'options' : plan ? 'plan' : 'default';
+    const searchFrom: 'plan' | 'options' | 'default' =
+      fminOption !== undefined || fmaxOption !== undefined ? 'options' : plan ? 'plan' : 'default';
     if (plan && searchFrom === 'options') {
       const given = [fminOption !== undefined ? '--fmin' : null, fmaxOption !== undefined ? '--fmax' : null].filter(Boolean).join(' and ');
       notes.push(
@@ -184,7 +196,10 @@ export const command: CliCommand = {
     const result = analyzePeriodogram(analysed, {
       valueKind: (values.kind ?? 'mag') as ValueKind,
       // The plan's band is searched end to end (the automatic grid may stop up to half a step short of fmax).
-      grid: searchFrom === 'plan' && plan ? gridSpanning(analysed, plan.minFrequencyPerDay, plan.maxFrequencyPerDay, samplesPerPeak) : undefined,
+      grid:
+        searchFrom === 'plan' && plan
+          ? gridSpanning(analysed, plan.minFrequencyPerDay, plan.maxFrequencyPerDay, samplesPerPeak)
+          : undefined,
       minimumFrequencyPerDay: fmin,
       maximumFrequencyPerDay: fmax,
       samplesPerPeak,

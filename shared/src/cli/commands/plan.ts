@@ -135,7 +135,9 @@ export const command: CliCommand = {
       },
     );
     if (!values.summary) {
-      const methods = Object.fromEntries(Object.keys(plan.quantities).map((k) => [k, `docs/science.md#${methodsAnchorFor(k) ?? 'overview'}`]));
+      const methods = Object.fromEntries(
+        Object.keys(plan.quantities).map((k) => [k, `docs/science.md#${methodsAnchorFor(k) ?? 'overview'}`]),
+      );
       return { ...plan, methods };
     }
     // Everything but the noise terms of one exposure; `analysis` stays exact (periodogram --plan reads it).
@@ -143,7 +145,10 @@ export const command: CliCommand = {
     return {
       ...head,
       quantities: Object.fromEntries(
-        Object.entries(quantities).map(([k, q]) => [k, q.value === null ? null : q.unit === '1' ? roundForSummary(q.value) : `${roundForSummary(q.value)} ${q.unit}`]),
+        Object.entries(quantities).map(([k, q]) => [
+          k,
+          q.value === null ? null : q.unit === '1' ? roundForSummary(q.value) : `${roundForSummary(q.value)} ${q.unit}`,
+        ]),
       ),
       flags: flags.map((f) => `${f.severity}: ${f.code}: ${f.message}`),
     };

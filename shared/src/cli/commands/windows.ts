@@ -101,7 +101,9 @@ function requirementFrom(values: Record<string, string | boolean | undefined>): 
   const given = keys.filter((k) => values[k] !== undefined);
   if (given.length === 0) return null;
   if (given.length < keys.length) {
-    throw new CliUsageError(`a requirement needs all of --${keys.join(', --')} (missing --${keys.filter((k) => !given.includes(k)).join(', --')})`);
+    throw new CliUsageError(
+      `a requirement needs all of --${keys.join(', --')} (missing --${keys.filter((k) => !given.includes(k)).join(', --')})`,
+    );
   }
   const num = (k: (typeof keys)[number], field: string) => numberOption(values[k] as string, k, field, true) as number;
   return {

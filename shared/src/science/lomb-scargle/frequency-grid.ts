@@ -37,9 +37,12 @@ export function autoFrequencyGrid(baselineDays: number, pointCount: number, opti
   const spp = requirePositive(options.samplesPerPeak ?? DEFAULT_SAMPLES_PER_PEAK, 'samplesPerPeak');
   const nyq = requirePositive(options.nyquistFactor ?? DEFAULT_NYQUIST_FACTOR, 'nyquistFactor');
   const df = 1 / T / spp;
-  const fmin = options.minimumFrequencyPerDay === undefined ? 0.5 * df : requireNonNegative(options.minimumFrequencyPerDay, 'minimumFrequencyPerDay');
+  const fmin =
+    options.minimumFrequencyPerDay === undefined ? 0.5 * df : requireNonNegative(options.minimumFrequencyPerDay, 'minimumFrequencyPerDay');
   const fmax =
-    options.maximumFrequencyPerDay === undefined ? nyq * 0.5 * pointCount / T : requirePositive(options.maximumFrequencyPerDay, 'maximumFrequencyPerDay');
+    options.maximumFrequencyPerDay === undefined
+      ? (nyq * 0.5 * pointCount) / T
+      : requirePositive(options.maximumFrequencyPerDay, 'maximumFrequencyPerDay');
   if (fmax <= fmin) throw new ScienceInputError('maximumFrequencyPerDay', `must exceed the minimum frequency ${fmin}`);
   const count = 1 + Math.round((fmax - fmin) / df);
   if (count > MAX_FREQUENCIES) {

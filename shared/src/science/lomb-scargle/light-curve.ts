@@ -67,8 +67,10 @@ export function prepareLightCurve(lc: LightCurve): PreparedLightCurve {
   for (let i = 0; i < n; i++) {
     const ti = src[i];
     const yi = vals[i];
-    if (typeof ti !== 'number' || !Number.isFinite(ti)) throw new ScienceInputError(`series[${i}].timeDays`, `must be a finite number (got ${String(ti)})`);
-    if (typeof yi !== 'number' || !Number.isFinite(yi)) throw new ScienceInputError(`series[${i}].value`, `must be a finite number (got ${String(yi)})`);
+    if (typeof ti !== 'number' || !Number.isFinite(ti))
+      throw new ScienceInputError(`series[${i}].timeDays`, `must be a finite number (got ${String(ti)})`);
+    if (typeof yi !== 'number' || !Number.isFinite(yi))
+      throw new ScienceInputError(`series[${i}].value`, `must be a finite number (got ${String(yi)})`);
     let wi = 1;
     if (errs) {
       const e = errs[i];

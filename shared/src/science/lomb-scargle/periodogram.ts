@@ -51,7 +51,15 @@ export function fitSinusoid(lc: LightCurve | PreparedLightCurve, frequencyPerDay
   if (f <= 0) throw new ScienceInputError('frequencyPerDay', `must be positive (got ${f})`);
   const { n, t, y, w } = data;
   // Normal equations with weights w (the scale of w cancels).
-  let s1 = 0, ss = 0, sc = 0, sss = 0, ssc = 0, scc = 0, sy = 0, ssy = 0, scy = 0;
+  let s1 = 0,
+    ss = 0,
+    sc = 0,
+    sss = 0,
+    ssc = 0,
+    scc = 0,
+    sy = 0,
+    ssy = 0,
+    scy = 0;
   const omega = 2 * Math.PI * f;
   for (let i = 0; i < n; i++) {
     const wi = w[i];
@@ -220,7 +228,11 @@ export function analyzePeriodogram(lc: LightCurve, options: PeriodogramOptions =
  * Maximises the exact power on [f − df, f + df] by golden-section search (the grid's
  * neighbours bracket the peak; common practice, no source).
  */
-export function refinePeak(data: PreparedLightCurve, frequencyPerDay: number, stepPerDay: number): { frequencyPerDay: number; power: number } {
+export function refinePeak(
+  data: PreparedLightCurve,
+  frequencyPerDay: number,
+  stepPerDay: number,
+): { frequencyPerDay: number; power: number } {
   const g = (Math.sqrt(5) - 1) / 2;
   let a = Math.max(frequencyPerDay - stepPerDay, frequencyPerDay * 1e-3);
   let b = frequencyPerDay + stepPerDay;

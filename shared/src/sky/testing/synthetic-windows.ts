@@ -51,8 +51,7 @@ export function syntheticWindows(spec: SyntheticWindowsSpec): TargetWindows {
     arrays.usableHours[n] = 0;
   }
   const nightDates =
-    spec.nightDates ??
-    spec.usableHours.map((_, n) => new Date(SYNTHETIC_FIRST_NIGHT_UTC_MS + n * MS_PER_DAY).toISOString().slice(0, 10));
+    spec.nightDates ?? spec.usableHours.map((_, n) => new Date(SYNTHETIC_FIRST_NIGHT_UTC_MS + n * MS_PER_DAY).toISOString().slice(0, 10));
   const w = targetWindowsOver({ name: spec.name ?? 'synthetic', raDeg: 0, decDeg: 0 }, 0, nightDates, arrays);
   if (spec.summarize) summarizeTargetWindows(w, 0);
   return w;

@@ -6,9 +6,7 @@ import { seedSession, testUser } from '../../../testing/session';
 import { authGuard } from './auth-guard';
 
 function runGuard(url: string) {
-  return TestBed.runInInjectionContext(() =>
-    authGuard({} as ActivatedRouteSnapshot, { url } as RouterStateSnapshot),
-  );
+  return TestBed.runInInjectionContext(() => authGuard({} as ActivatedRouteSnapshot, { url } as RouterStateSnapshot));
 }
 
 describe('authGuard', () => {

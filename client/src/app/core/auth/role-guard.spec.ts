@@ -7,9 +7,7 @@ import { seedSession, testUser } from '../../../testing/session';
 import { roleGuard } from './role-guard';
 
 function runGuard(url: string) {
-  return TestBed.runInInjectionContext(() =>
-    roleGuard('administrator')({} as ActivatedRouteSnapshot, { url } as RouterStateSnapshot),
-  );
+  return TestBed.runInInjectionContext(() => roleGuard('administrator')({} as ActivatedRouteSnapshot, { url } as RouterStateSnapshot));
 }
 
 describe('roleGuard', () => {

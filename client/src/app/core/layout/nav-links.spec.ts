@@ -13,7 +13,14 @@ describe('visibleNavLinks', () => {
   });
 
   it('administrator: also Accounts', () => {
-    expect(labels({ roles: ['proposer', 'administrator'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network', 'Methods', 'Accounts']);
+    expect(labels({ roles: ['proposer', 'administrator'] })).toEqual([
+      'Home',
+      'Proposals',
+      'Target planner',
+      'Network',
+      'Methods',
+      'Accounts',
+    ]);
   });
 
   it('proposer: Proposals; facility manager: Cycles', () => {

@@ -5,10 +5,16 @@ describe('safeReturnUrl', () => {
     expect(safeReturnUrl('/network?sort=code')).toBe('/network?sort=code');
   });
 
-  it.each([undefined, null, '', 'network', 'https://elsewhere.example.net/', '//elsewhere.example.net', '/\\elsewhere.example.net', '/sign-in?returnUrl=%2F'])(
-    'falls back to home for %p',
-    (value) => {
-      expect(safeReturnUrl(value)).toBe('/');
-    },
-  );
+  it.each([
+    undefined,
+    null,
+    '',
+    'network',
+    'https://elsewhere.example.net/',
+    '//elsewhere.example.net',
+    '/\\elsewhere.example.net',
+    '/sign-in?returnUrl=%2F',
+  ])('falls back to home for %p', (value) => {
+    expect(safeReturnUrl(value)).toBe('/');
+  });
 });

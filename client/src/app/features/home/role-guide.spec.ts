@@ -18,13 +18,15 @@ describe('ROLE_GUIDE', () => {
   it('roles without their pages yet (reviewer, billing contact) say what will come and when, in terms of the cycle', () => {
     expect(ROLE_GUIDE.reviewer.upcoming?.what).toMatch(/grading/i);
     expect(ROLE_GUIDE.reviewer.upcoming?.what).toContain("cycle's review tables");
-    expect(ROLE_GUIDE.reviewer.upcoming?.when).toContain("call closes");
+    expect(ROLE_GUIDE.reviewer.upcoming?.when).toContain('call closes');
     expect(ROLE_GUIDE.billing_contact.upcoming?.what).toMatch(/invoices for the node-hours/i);
     expect(ROLE_GUIDE.billing_contact.upcoming?.what).toContain('payment by card');
     expect(ROLE_GUIDE.billing_contact.upcoming?.when).toContain('awards are decided');
     // No calendar promises: the cycle's own steps say when.
     for (const role of ROLES) {
-      expect(ROLE_GUIDE[role].upcoming?.when ?? '').not.toMatch(/\b(20\d\d|January|February|March|April|May|June|July|August|September|October|November|December|soon|next month|next year)\b/);
+      expect(ROLE_GUIDE[role].upcoming?.when ?? '').not.toMatch(
+        /\b(20\d\d|January|February|March|April|May|June|July|August|September|October|November|December|soon|next month|next year)\b/,
+      );
     }
   });
 

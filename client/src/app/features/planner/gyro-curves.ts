@@ -5,13 +5,7 @@
  * Pure functions: the charts only draw what these return. The proposals' cluster chart draws
  * its relations with `periodColourSeries` too.
  */
-import {
-  type ColourValue,
-  type TargetColourSystem,
-  colourLabel,
-  convertColour,
-  deredden,
-} from '@spincycle/shared/science/colour-sequence';
+import { type ColourValue, type TargetColourSystem, colourLabel, convertColour, deredden } from '@spincycle/shared/science/colour-sequence';
 import { fmt } from '@spincycle/shared/science/explained';
 import {
   type GyroRelationId,
@@ -151,7 +145,9 @@ export function gyrochroneSeries(input: GyrochroneInput): GyrochroneSeries {
       const low: CurvePoint[] = [];
       const high: CurvePoint[] = [];
       for (const age of ages) {
-        const range = scienceOrNull(() => predictPeriod({ relation, colour: { value: colour.value, system: input.colour.system }, ageMyr: age }).rangeDays);
+        const range = scienceOrNull(
+          () => predictPeriod({ relation, colour: { value: colour.value, system: input.colour.system }, ageMyr: age }).rangeDays,
+        );
         if (range) {
           low.push({ x: age, y: range.low });
           high.push({ x: age, y: range.high });

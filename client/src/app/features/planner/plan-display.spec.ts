@@ -1,15 +1,45 @@
 import type { NodeSpec, SiteSpec } from '@spincycle/shared/facility/facility-types';
 import { computeTargetPlan } from '@spincycle/shared/science/target-plan';
-import { allQuantityRows, completenessPrices, formatValue, keyRows, ppmToMmag, QUANTITY_LABELS, quantityRow, searchBandSentence } from './plan-display';
+import {
+  allQuantityRows,
+  completenessPrices,
+  formatValue,
+  keyRows,
+  ppmToMmag,
+  QUANTITY_LABELS,
+  quantityRow,
+  searchBandSentence,
+} from './plan-display';
 
 const NODE: NodeSpec = {
-  apertureM: 0.5, obstructionFraction: 0.4, throughput: 0.55, band: 'V', readNoiseE: 9, darkCurrentEPerS: 0.02, gainEPerAdu: 1.3,
-  saturationE: 80000, pixelScaleArcsec: 0.8, seeingFwhmArcsec: 1.6, systematicFloorMmag: 1, scintillationModel: 'young1967',
-  overheadSeconds: 45, minExposureSeconds: 2, maxExposureSeconds: 300, altitudeLimitDeg: 30, sunAltitudeLimitDeg: -18,
-  weatherLossFraction: 0.3, rateMinorPerHour: 4500, currency: 'eur',
+  apertureM: 0.5,
+  obstructionFraction: 0.4,
+  throughput: 0.55,
+  band: 'V',
+  readNoiseE: 9,
+  darkCurrentEPerS: 0.02,
+  gainEPerAdu: 1.3,
+  saturationE: 80000,
+  pixelScaleArcsec: 0.8,
+  seeingFwhmArcsec: 1.6,
+  systematicFloorMmag: 1,
+  scintillationModel: 'young1967',
+  overheadSeconds: 45,
+  minExposureSeconds: 2,
+  maxExposureSeconds: 300,
+  altitudeLimitDeg: 30,
+  sunAltitudeLimitDeg: -18,
+  weatherLossFraction: 0.3,
+  rateMinorPerHour: 4500,
+  currency: 'eur',
 };
 const SITE: SiteSpec = { latitudeDeg: 30, longitudeDeg: -100, elevationM: 2000, timeZone: 'UTC', skyBrightnessMagPerArcsec2: 21.5 };
-const K_DWARF = { colour: { value: 1.1, system: 'BPRP' as const }, ageMyr: 800, ageUncertaintyMyr: 100, magnitude: { value: 11.5, band: 'G' as const } };
+const K_DWARF = {
+  colour: { value: 1.1, system: 'BPRP' as const },
+  ageMyr: 800,
+  ageUncertaintyMyr: 100,
+  magnitude: { value: 11.5, band: 'G' as const },
+};
 
 describe('plan-display', () => {
   it('formatValue: three significant figures, counts whole, tiny values as powers of ten, never NaN', () => {
@@ -67,7 +97,12 @@ describe('plan-display', () => {
     const i = rows.findIndex((r) => r.key === 'completeness');
     expect(rows[i - 1].key).toBe('visits');
     expect(rows[i]).toEqual(
-      expect.objectContaining({ label: 'Completeness', value: `${Math.round(plan.quantities.completeness.value * 100)} %`, unit: '', alternative: 'asked for 90 %' }),
+      expect.objectContaining({
+        label: 'Completeness',
+        value: `${Math.round(plan.quantities.completeness.value * 100)} %`,
+        unit: '',
+        alternative: 'asked for 90 %',
+      }),
     );
     expect(rows[i].why).toBe(plan.quantities.completeness.why);
     expect(quantityRow(plan, 'requestedCompleteness', 'en-US')).toEqual(expect.objectContaining({ value: '90 %', unit: '' }));

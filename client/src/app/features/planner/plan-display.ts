@@ -33,7 +33,11 @@ export function displayUnit(unit: string): string {
  * A number for display: 3 significant figures (whole numbers for counts), a power of ten
  * below 0.001, an em dash for anything not finite. Never prints NaN.
  */
-export function formatValue(value: number | null | undefined, locale: string, options: { integer?: boolean; digits?: number } = {}): string {
+export function formatValue(
+  value: number | null | undefined,
+  locale: string,
+  options: { integer?: boolean; digits?: number } = {},
+): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
   if (options.integer) return new Intl.NumberFormat(locale, { maximumFractionDigits: 0 }).format(value);
   const abs = Math.abs(value);
@@ -47,7 +51,19 @@ export function formatValue(value: number | null | undefined, locale: string, op
   return new Intl.NumberFormat(locale, { maximumSignificantDigits: digits }).format(value);
 }
 
-const SUPERSCRIPTS: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
+const SUPERSCRIPTS: Record<string, string> = {
+  '-': '⁻',
+  '0': '⁰',
+  '1': '¹',
+  '2': '²',
+  '3': '³',
+  '4': '⁴',
+  '5': '⁵',
+  '6': '⁶',
+  '7': '⁷',
+  '8': '⁸',
+  '9': '⁹',
+};
 
 function superscript(n: number): string {
   return String(n)
@@ -130,7 +146,9 @@ export function quantityRow(plan: TargetPlan, key: QuantityKey, locale: string):
 
 /** Every quantity of the plan, in the plan's order (only those with a label: a plan stored by an older model may lack some). */
 export function allQuantityRows(plan: TargetPlan, locale: string): QuantityRow[] {
-  return (Object.keys(plan.quantities) as QuantityKey[]).filter((key) => key in QUANTITY_LABELS).map((key) => quantityRow(plan, key, locale));
+  return (Object.keys(plan.quantities) as QuantityKey[])
+    .filter((key) => key in QUANTITY_LABELS)
+    .map((key) => quantityRow(plan, key, locale));
 }
 
 /** The blocking flag saying that no relation gives the star a period (the proposer must give one), or null. */
@@ -140,7 +158,9 @@ export function noExpectedPeriodFlag(plan: TargetPlan): ScienceFlag | null {
 
 /** Why there is no expected period, as a sentence without the repeated "no expected period:" lead-in. */
 export function noExpectedPeriodReason(flag: ScienceFlag): string {
-  const reason = plainText(flag.message).replace(/^(\s*no expected period\s*:\s*)+/i, '').trim();
+  const reason = plainText(flag.message)
+    .replace(/^(\s*no expected period\s*:\s*)+/i, '')
+    .trim();
   if (!reason) return 'No relation gives this star a period: enter its expected period to plan it.';
   const capital = reason[0].toUpperCase() + reason.slice(1);
   return /[.!?]$/.test(capital) ? capital : `${capital}.`;

@@ -5,18 +5,44 @@ import { formatValue } from './plan-display';
 import { buildPlanSummary, cadenceStory, invalidSummary, uniqueSentences } from './plan-summary';
 
 const NODE: NodeSpec = {
-  apertureM: 0.4, obstructionFraction: 0.35, throughput: 0.6, band: 'V', readNoiseE: 9, darkCurrentEPerS: 0.02, gainEPerAdu: 1.3,
-  saturationE: 60000, pixelScaleArcsec: 1.2, seeingFwhmArcsec: 1.6, systematicFloorMmag: 1.5, scintillationModel: 'young1967',
-  overheadSeconds: 60, minExposureSeconds: 2, maxExposureSeconds: 300, altitudeLimitDeg: 30, sunAltitudeLimitDeg: -12,
-  weatherLossFraction: 0.25, rateMinorPerHour: 4850, currency: 'eur',
+  apertureM: 0.4,
+  obstructionFraction: 0.35,
+  throughput: 0.6,
+  band: 'V',
+  readNoiseE: 9,
+  darkCurrentEPerS: 0.02,
+  gainEPerAdu: 1.3,
+  saturationE: 60000,
+  pixelScaleArcsec: 1.2,
+  seeingFwhmArcsec: 1.6,
+  systematicFloorMmag: 1.5,
+  scintillationModel: 'young1967',
+  overheadSeconds: 60,
+  minExposureSeconds: 2,
+  maxExposureSeconds: 300,
+  altitudeLimitDeg: 30,
+  sunAltitudeLimitDeg: -12,
+  weatherLossFraction: 0.25,
+  rateMinorPerHour: 4850,
+  currency: 'eur',
 };
 const SITE: SiteSpec = { latitudeDeg: 28.76, longitudeDeg: -17.88, elevationM: 2326, timeZone: 'UTC', skyBrightnessMagPerArcsec2: 21.6 };
 const SUMMARY_NODE = { ...NODE, code: 'N1', site: { name: 'Hollin Moor' } };
 const star = (over: Partial<TargetPlanTarget> = {}): TargetPlanTarget => ({
-  colour: { value: 1.1, system: 'BPRP' }, ageMyr: 800, ageUncertaintyMyr: 100, magnitude: { value: 11.5, band: 'G' }, ...over,
+  colour: { value: 1.1, system: 'BPRP' },
+  ageMyr: 800,
+  ageUncertaintyMyr: 100,
+  magnitude: { value: 11.5, band: 'G' },
+  ...over,
 });
 const summaryOf = (target: TargetPlanTarget, combined: NodeTargetPlan | null = null) =>
-  buildPlanSummary({ plan: combined?.plan ?? computeTargetPlan(target, NODE, SITE), node: SUMMARY_NODE, combined, skyStatus: 'Sky window not checked yet.', locale: 'en-US' });
+  buildPlanSummary({
+    plan: combined?.plan ?? computeTargetPlan(target, NODE, SITE),
+    node: SUMMARY_NODE,
+    combined,
+    skyStatus: 'Sky window not checked yet.',
+    locale: 'en-US',
+  });
 
 describe('plan-summary', () => {
   it('a K dwarf: feasible, with the decision numbers in order and the fee as money', () => {
@@ -24,11 +50,23 @@ describe('plan-summary', () => {
     const s = summaryOf(star());
     expect(s.tone).toBe('feasible');
     expect(s.title).toBe('Feasible on N1');
-    expect(s.figures.map((f) => f.key)).toEqual(['period', 'amplitude', 'precision', 'visits', 'cadence', 'baseline', 'nodeHours', 'fee', 'completeness']);
+    expect(s.figures.map((f) => f.key)).toEqual([
+      'period',
+      'amplitude',
+      'precision',
+      'visits',
+      'cadence',
+      'baseline',
+      'nodeHours',
+      'fee',
+      'completeness',
+    ]);
     const q = plan.quantities;
     const fig = (key: string) => s.figures.find((f) => f.key === key)!;
     expect(fig('period').value).toBe(formatValue(q.periodDays.value, 'en-US'));
-    expect(fig('period').detail).toBe(`plausible ${formatValue(q.shortestPeriodDays.value, 'en-US')}–${formatValue(q.longestPeriodDays.value, 'en-US')} d`);
+    expect(fig('period').detail).toBe(
+      `plausible ${formatValue(q.shortestPeriodDays.value, 'en-US')}–${formatValue(q.longestPeriodDays.value, 'en-US')} d`,
+    );
     expect(fig('visits').value).toBe(formatValue(q.visits.value, 'en-US', { integer: true }));
     expect(fig('fee').value).toBe('€517.50');
     expect(fig('fee').detail).toBe('at €48.50 per node-hour');
@@ -84,11 +122,14 @@ describe('plan-summary', () => {
     plan.flags.push({
       code: 'nightsFilled',
       severity: 'caution',
-      message: 'the visits fill 4.1 h of the 6 observable hours on each of 103 nights: this one star would hold the node for most of its nights; 50 % completeness needs 118 visits (6.12 node-hours)',
+      message:
+        'the visits fill 4.1 h of the 6 observable hours on each of 103 nights: this one star would hold the node for most of its nights; 50 % completeness needs 118 visits (6.12 node-hours)',
     });
     const s = buildPlanSummary({ plan, node: SUMMARY_NODE, combined: null, skyStatus: null, locale: 'en-US' });
     expect(s.tone).toBe('warning');
-    expect(s.warnings).toEqual(['The visits fill 4.1 h of the 6 observable hours on each of 103 nights: this one star would hold the node for most of its nights.']);
+    expect(s.warnings).toEqual([
+      'The visits fill 4.1 h of the 6 observable hours on each of 103 nights: this one star would hold the node for most of its nights.',
+    ]);
     expect(s.wayOut[0]).toMatch(/^Ask for 50 % completeness: 118 visits/);
   });
 

@@ -8,7 +8,15 @@ import type { TelescopeNode } from '@spincycle/shared/facility/facility-types';
 import type { NodeTargetPlan } from '@spincycle/shared/planning/node-target-plan';
 import type { TargetPlan } from '@spincycle/shared/science/target-plan';
 import { formatMinorCurrency, formatPercent } from '../../ui/units/format-units';
-import { cadenceStory, type CadenceStory, completenessPrices, formatValue, noExpectedPeriodFlag, noExpectedPeriodReason, ppmToMmag } from './plan-display';
+import {
+  cadenceStory,
+  type CadenceStory,
+  completenessPrices,
+  formatValue,
+  noExpectedPeriodFlag,
+  noExpectedPeriodReason,
+  ppmToMmag,
+} from './plan-display';
 
 export { cadenceStory, type CadenceStory, visitNightWords } from './plan-display';
 import { plainSentence } from '../../ui/text/plan-wording';
@@ -131,12 +139,48 @@ export function buildPlanSummary({ plan, node, combined, skyStatus, locale }: Su
       unit: 'd',
       detail: `plausible ${f(q.shortestPeriodDays.value)}–${f(q.longestPeriodDays.value)} d`,
     },
-    { key: 'amplitude', label: 'Spot amplitude', value: whole(q.amplitudeRperPpm.value), unit: 'ppm', detail: `${f(ppmToMmag(q.amplitudeRperPpm.value))} mmag, smallest plausible` },
-    { key: 'precision', label: 'Per-visit precision', value: whole(q.perVisitPrecisionPpm.value), unit: 'ppm', detail: `${f(q.perVisitPrecisionMmag.value)} mmag` },
-    { key: 'visits', label: 'Visits', value: whole(q.visits.value), unit: '', detail: `${k} per night on ${whole(q.visitNights.value)} visit nights` },
-    { key: 'cadence', label: 'Cadence', value: cadence.visitNights, unit: '', detail: `${k} ${plural(k, 'visit', 'visits')} per night · sample interval ${f(q.sampleIntervalDays.value)} d` },
-    { key: 'baseline', label: 'Baseline', value: whole(q.baselineDays.value), unit: 'd', detail: `${f(q.baselineDays.value / q.longestPeriodDays.value)} rotations of the longest plausible period` },
-    { key: 'nodeHours', label: 'Node-hours', value: f(q.nodeHours.value), unit: 'h', detail: `with ${formatPercent(node.weatherLossFraction, locale)} weather loss` },
+    {
+      key: 'amplitude',
+      label: 'Spot amplitude',
+      value: whole(q.amplitudeRperPpm.value),
+      unit: 'ppm',
+      detail: `${f(ppmToMmag(q.amplitudeRperPpm.value))} mmag, smallest plausible`,
+    },
+    {
+      key: 'precision',
+      label: 'Per-visit precision',
+      value: whole(q.perVisitPrecisionPpm.value),
+      unit: 'ppm',
+      detail: `${f(q.perVisitPrecisionMmag.value)} mmag`,
+    },
+    {
+      key: 'visits',
+      label: 'Visits',
+      value: whole(q.visits.value),
+      unit: '',
+      detail: `${k} per night on ${whole(q.visitNights.value)} visit nights`,
+    },
+    {
+      key: 'cadence',
+      label: 'Cadence',
+      value: cadence.visitNights,
+      unit: '',
+      detail: `${k} ${plural(k, 'visit', 'visits')} per night · sample interval ${f(q.sampleIntervalDays.value)} d`,
+    },
+    {
+      key: 'baseline',
+      label: 'Baseline',
+      value: whole(q.baselineDays.value),
+      unit: 'd',
+      detail: `${f(q.baselineDays.value / q.longestPeriodDays.value)} rotations of the longest plausible period`,
+    },
+    {
+      key: 'nodeHours',
+      label: 'Node-hours',
+      value: f(q.nodeHours.value),
+      unit: 'h',
+      detail: `with ${formatPercent(node.weatherLossFraction, locale)} weather loss`,
+    },
     {
       key: 'fee',
       label: 'Fee',
@@ -151,7 +195,9 @@ export function buildPlanSummary({ plan, node, combined, skyStatus, locale }: Su
       label: 'Completeness',
       value: formatPercent(completeness.value, locale),
       unit: '',
-      detail: requested ? `chance of recovering the period; ${formatPercent(requested.value, locale)} asked for` : 'chance of recovering the period',
+      detail: requested
+        ? `chance of recovering the period; ${formatPercent(requested.value, locale)} asked for`
+        : 'chance of recovering the period',
     });
   }
 
@@ -161,7 +207,9 @@ export function buildPlanSummary({ plan, node, combined, skyStatus, locale }: Su
     warnings.push(`${k} visits per night keep ${node.code} on this one star for ${f(hoursPerNight)} h of every visit night.`);
   }
   if (q.visits.value > VISITS_WARNING) {
-    warnings.push(`${whole(q.visits.value)} visits (${f(q.nodeHours.value)} node-hours) for one star: far more than a period search usually needs.`);
+    warnings.push(
+      `${whole(q.visits.value)} visits (${f(q.nodeHours.value)} node-hours) for one star: far more than a period search usually needs.`,
+    );
   }
 
   const feasible = combined ? combined.feasible : plan.feasible;
@@ -176,19 +224,22 @@ export function buildPlanSummary({ plan, node, combined, skyStatus, locale }: Su
       const n = q[price.key].value;
       return !price.current && price.reachable && n !== null && n < q.visits.value;
     });
-    if (cheaper) ways.push(`Ask for ${cheaper.completeness} completeness: ${cheaper.visits} visits, about ${cheaper.nodeHours} node-hours.`);
+    if (cheaper)
+      ways.push(`Ask for ${cheaper.completeness} completeness: ${cheaper.visits} visits, about ${cheaper.nodeHours} node-hours.`);
   }
   if (combined) {
     ways.push(...combined.suggestions.map((s) => s.message));
   } else if (!feasible) {
     for (const flag of plan.flags) {
-      if (flag.code === 'saturatesAtMinExposure') ways.push('A node with a smaller aperture or a redder band: the star saturates on this one even at the shortest exposure.');
+      if (flag.code === 'saturatesAtMinExposure')
+        ways.push('A node with a smaller aperture or a redder band: the star saturates on this one even at the shortest exposure.');
       if (flag.code === 'saturatesAtChosenExposure') ways.push('A shorter exposure, or the automatic one.');
       if (flag.code === 'amplitudeBelowFloor') ways.push('A node with a lower systematic floor, or a lower completeness.');
       if (flag.code === 'nightlyVisitsDoNotFit') ways.push('Fewer visits per night: a node with a shorter visit (exposure and overhead).');
     }
   }
-  if (warningSentences.length && ways.length < 2) ways.push('A node with a larger aperture or a lower systematic floor needs fewer visits.');
+  if (warningSentences.length && ways.length < 2)
+    ways.push('A node with a larger aperture or a lower systematic floor needs fewer visits.');
 
   const tone: SummaryTone = !feasible ? 'infeasible' : warningSentences.length ? 'warning' : 'feasible';
   const title =

@@ -32,7 +32,9 @@ describe('planner-form', () => {
   it.each([30, 49, 99.5, 100])('completeness: %p %% is refused with the range in percent', (percent) => {
     const form = createPlannerForm();
     form.patchValue({ completenessPercent: percent });
-    expect(missingFields(form.getRawValue())).toEqual({ completenessPercent: `Enter a completeness between 50 % and 99 % (got ${percent} %)` });
+    expect(missingFields(form.getRawValue())).toEqual({
+      completenessPercent: `Enter a completeness between 50 % and 99 % (got ${percent} %)`,
+    });
   });
 
   it('completeness: an empty field asks for it', () => {

@@ -100,7 +100,8 @@ export function missingFields(value: PlannerValue): FieldErrors {
   if (c !== null && !(Number.isFinite(c) && c >= COMPLETENESS_PERCENT_RANGE.min && c <= COMPLETENESS_PERCENT_RANGE.max)) {
     errors.completenessPercent = `${COMPLETENESS_MESSAGE} (got ${c} %)`;
   }
-  if (value.periodDays === null && value.periodUncertaintyDays !== null) errors.periodDays = 'Enter the period as well, or clear its uncertainty';
+  if (value.periodDays === null && value.periodUncertaintyDays !== null)
+    errors.periodDays = 'Enter the period as well, or clear its uncertainty';
   return errors;
 }
 

@@ -38,7 +38,13 @@ describe('PlannerStore', () => {
     const state = store.planState();
     expect(state.kind).toBe('ok');
     const expected = computeTargetPlan(
-      { name: 'Star A-17', colour: { value: 1.1, system: 'BPRP' }, ageMyr: 800, ageUncertaintyMyr: 100, magnitude: { value: 11.5, band: 'G' } },
+      {
+        name: 'Star A-17',
+        colour: { value: 1.1, system: 'BPRP' },
+        ageMyr: 800,
+        ageUncertaintyMyr: 100,
+        magnitude: { value: 11.5, band: 'G' },
+      },
       N1,
       TEST_SITE,
       { falseAlarmProbability: 0.01, completeness: 0.9 },
@@ -59,7 +65,10 @@ describe('PlannerStore', () => {
     const errors = store.fieldErrors();
     expect(Object.keys(errors).sort()).toEqual(['ageMyr', 'colourValue', 'dec', 'magnitude', 'ra']);
     expect(store.plan()).toBeNull();
-    expect(store.summary()).toMatchObject({ tone: 'invalid', lead: 'Fix the 5 fields marked in red: Colour, Age, Magnitude, Right ascension, Declination.' });
+    expect(store.summary()).toMatchObject({
+      tone: 'invalid',
+      lead: 'Fix the 5 fields marked in red: Colour, Age, Magnitude, Right ascension, Declination.',
+    });
     backend.expectNone('/api/sky-windows');
   });
 

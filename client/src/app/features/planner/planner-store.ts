@@ -7,11 +7,24 @@ import type { ApiErrorBody } from '@spincycle/shared/http/api-error';
 import { computeNodeTargetPlan, type NodeTargetPlan, type PlanSuggestion } from '@spincycle/shared/planning/node-target-plan';
 import { targetWindowsFromReport } from '@spincycle/shared/planning/sky-report-adapter';
 import type { SkyWindowsRequest, SkyWindowsResponse } from '@spincycle/shared/planning/sky-windows-request';
-import { colourLabel, deredden, DWARF_SEQUENCE, dwarfSequenceAt, redden, type TargetColourSystem } from '@spincycle/shared/science/colour-sequence';
+import {
+  colourLabel,
+  deredden,
+  DWARF_SEQUENCE,
+  dwarfSequenceAt,
+  redden,
+  type TargetColourSystem,
+} from '@spincycle/shared/science/colour-sequence';
 import type { ScienceFlag } from '@spincycle/shared/science/explained';
 import { GYRO_RELATION_INFO } from '@spincycle/shared/science/gyrochronology';
 import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
-import { computeTargetPlan, defaultRelationFor, type TargetPlan, type TargetPlanOptions, type TargetPlanTarget } from '@spincycle/shared/science/target-plan';
+import {
+  computeTargetPlan,
+  defaultRelationFor,
+  type TargetPlan,
+  type TargetPlanOptions,
+  type TargetPlanTarget,
+} from '@spincycle/shared/science/target-plan';
 import type { CadenceAssessment } from '@spincycle/shared/sky/cadence-assessment';
 import { SkyInputError } from '@spincycle/shared/sky/sky-input-error';
 import type { NightDarkReport, TargetWindowsReport } from '@spincycle/shared/sky/sky-windows-report';
@@ -33,7 +46,15 @@ import {
   toPlanInput,
 } from './planner-form';
 import { PlannerApi } from './planner-api';
-import { between, colourSystemWarning, observedColourRange, rangeNumber, scienceErrorMessage, validatePlannerValue, validateRaDec } from './planner-validation';
+import {
+  between,
+  colourSystemWarning,
+  observedColourRange,
+  rangeNumber,
+  scienceErrorMessage,
+  validatePlannerValue,
+  validateRaDec,
+} from './planner-validation';
 import { SkyWindowsApi } from './sky-windows-api';
 
 /** The plan of the form's current value, or why there is none. */
@@ -43,7 +64,8 @@ export type PlanState =
   | { kind: 'ok'; plan: TargetPlan; node: TelescopeNode; target: TargetPlanTarget; options: TargetPlanOptions };
 
 /** Whether the sky windows can be asked for. */
-type SkyInput = { kind: 'off'; hint: string } | { kind: 'invalid'; fieldErrors: FieldErrors } | { kind: 'ready'; request: SkyWindowsRequest };
+type SkyInput =
+  { kind: 'off'; hint: string } | { kind: 'invalid'; fieldErrors: FieldErrors } | { kind: 'ready'; request: SkyWindowsRequest };
 
 export type SkyState =
   | { kind: 'idle' }
@@ -133,7 +155,9 @@ export class PlannerStore {
   // ---- nodes and cycles ------------------------------------------------------------------
 
   readonly activeNodes = computed(() =>
-    (this.nodes.hasValue() ? this.nodes.value() : []).filter((node) => node.active && node.site).sort((a, b) => a.code.localeCompare(b.code)),
+    (this.nodes.hasValue() ? this.nodes.value() : [])
+      .filter((node) => node.active && node.site)
+      .sort((a, b) => a.code.localeCompare(b.code)),
   );
   private readonly nodeById = computed(() => new Map(this.activeNodes().map((node) => [node.id, node])));
   readonly selectedNode = computed(() => this.nodeById().get(this.live().nodeId ?? -1) ?? null);
@@ -254,7 +278,13 @@ export class PlannerStore {
   /** The period fields are offered when the plan needs them, and stay while they hold a value. */
   readonly showPeriodFields = computed(() => {
     const v = this.live();
-    return this.noPeriod() !== null || v.periodDays !== null || v.periodUncertaintyDays !== null || !!this.fieldErrors().periodDays || !!this.fieldErrors().periodUncertaintyDays;
+    return (
+      this.noPeriod() !== null ||
+      v.periodDays !== null ||
+      v.periodUncertaintyDays !== null ||
+      !!this.fieldErrors().periodDays ||
+      !!this.fieldErrors().periodUncertaintyDays
+    );
   });
 
   /** The plan's notices that are not reasons it fails (those are in the summary), in plain words. */
@@ -273,7 +303,10 @@ export class PlannerStore {
     const state = this.planState();
     if (state.kind === 'waiting') return null;
     // Every field in trouble is listed, the sky-window fields included.
-    if (state.kind === 'invalid') return invalidSummary(Object.keys(state.fieldErrors).length ? describeErrors({ ...this.fieldErrors(), ...state.fieldErrors }) : state.message);
+    if (state.kind === 'invalid')
+      return invalidSummary(
+        Object.keys(state.fieldErrors).length ? describeErrors({ ...this.fieldErrors(), ...state.fieldErrors }) : state.message,
+      );
     return buildPlanSummary({
       plan: this.plan() ?? state.plan,
       node: state.node,
@@ -306,13 +339,23 @@ export class PlannerStore {
   readonly gyrochrone = computed(() => {
     const state = this.planState();
     if (state.kind !== 'ok') return null;
-    return gyrochroneSeries({ colour: state.target.colour, reddeningEbvMag: state.target.reddeningEbvMag, relation: state.plan.relation, star: this.star() });
+    return gyrochroneSeries({
+      colour: state.target.colour,
+      reddeningEbvMag: state.target.reddeningEbvMag,
+      relation: state.plan.relation,
+      star: this.star(),
+    });
   });
 
   readonly periodColour = computed(() => {
     const state = this.planState();
     if (state.kind !== 'ok') return null;
-    return periodColourSeries({ system: state.target.colour.system, ageMyr: state.target.ageMyr, relation: state.plan.relation, star: this.star() });
+    return periodColourSeries({
+      system: state.target.colour.system,
+      ageMyr: state.target.ageMyr,
+      relation: state.plan.relation,
+      star: this.star(),
+    });
   });
 
   // ---- sky windows ---------------------------------------------------------------------------
@@ -364,7 +407,9 @@ export class PlannerStore {
     const state = this.sky();
     if (state.kind !== 'error') return null;
     const onFields = Object.keys(state.error.fieldErrors ?? {}).some((key) => controlForSkyField(key) !== null);
-    return onFields ? 'The sky window could not be computed: see the fields marked in red.' : `The sky window could not be computed. ${state.error.message}`;
+    return onFields
+      ? 'The sky window could not be computed: see the fields marked in red.'
+      : `The sky window could not be computed. ${state.error.message}`;
   });
 
   readonly skyPanels = computed<SkyPanel[]>(() => {
@@ -460,7 +505,9 @@ export class PlannerStore {
       case 'error':
         return 'The sky window could not be computed.';
       default:
-        return this.skyInput().kind === 'ready' ? 'Sky window not checked yet.' : 'Sky window not checked yet: give the position and a cycle under Sky window.';
+        return this.skyInput().kind === 'ready'
+          ? 'Sky window not checked yet.'
+          : 'Sky window not checked yet: give the position and a cycle under Sky window.';
     }
   }
 

@@ -11,7 +11,16 @@ describe('planner-validation', () => {
 
   it('every bad field at once, each with the value the user typed and one range notation', () => {
     const errors = validatePlannerValue(
-      value({ colourValue: 5, ageMyr: -5, magnitude: 30, completenessPercent: 30, falseAlarmProbability: 0.7, reddeningEbv: 4, exposureMode: 'fixed', exposureSeconds: 1000 }),
+      value({
+        colourValue: 5,
+        ageMyr: -5,
+        magnitude: 30,
+        completenessPercent: 30,
+        falseAlarmProbability: 0.7,
+        reddeningEbv: 4,
+        exposureMode: 'fixed',
+        exposureSeconds: 1000,
+      }),
       NODE,
     );
     expect(errors).toEqual({
@@ -31,7 +40,10 @@ describe('planner-validation', () => {
   });
 
   it('missing numbers are asked for', () => {
-    const errors = validatePlannerValue(value({ colourValue: null, ageMyr: null, magnitude: null, falseAlarmProbability: null, completenessPercent: null }), NODE);
+    const errors = validatePlannerValue(
+      value({ colourValue: null, ageMyr: null, magnitude: null, falseAlarmProbability: null, completenessPercent: null }),
+      NODE,
+    );
     expect(Object.keys(errors).sort()).toEqual(['ageMyr', 'colourValue', 'completenessPercent', 'falseAlarmProbability', 'magnitude']);
     expect(errors.colourValue).toBe('Enter the BP−RP colour.');
   });
@@ -54,7 +66,9 @@ describe('planner-validation', () => {
   });
 
   it('a range error of the science core is said without passing its converted value off as typed', () => {
-    expect(scienceErrorMessage('must be between −2 and 25 (got 25.3)')).toBe('Enter a value between −2 and 25; after conversion the plan got 25.3.');
+    expect(scienceErrorMessage('must be between −2 and 25 (got 25.3)')).toBe(
+      'Enter a value between −2 and 25; after conversion the plan got 25.3.',
+    );
     expect(scienceErrorMessage('must be positive (got -5)')).toBe('Must be positive (got -5).');
     expect(between(-2, 25, 'mag')).toBe('between −2 and 25 mag');
   });

@@ -54,12 +54,21 @@ export function colourSystemWarning(value: PlannerValue): string | null {
   const v = value.colourValue;
   const ebv = usableReddening(value);
   // A colour no relation takes in either system gets its error under the field; said once.
-  if (v !== null && Number.isFinite(v) && !inColourRange(v, value.colourSystem, ebv) && !inColourRange(v, OTHER_SYSTEM[value.colourSystem], ebv)) return null;
+  if (
+    v !== null &&
+    Number.isFinite(v) &&
+    !inColourRange(v, value.colourSystem, ebv) &&
+    !inColourRange(v, OTHER_SYSTEM[value.colourSystem], ebv)
+  )
+    return null;
   return colourPlausibilityWarning(v, value.colourSystem, ebv);
 }
 
 /** Every bad field of the star, node and detection inputs, in the user's own numbers. */
-export function validatePlannerValue(value: PlannerValue, node: Pick<TelescopeNode, 'code' | 'minExposureSeconds' | 'maxExposureSeconds'> | null): FieldErrors {
+export function validatePlannerValue(
+  value: PlannerValue,
+  node: Pick<TelescopeNode, 'code' | 'minExposureSeconds' | 'maxExposureSeconds'> | null,
+): FieldErrors {
   const errors: FieldErrors = {};
   const typed = (v: number) => ` (you typed ${String(v)})`;
   const set = (field: PlannerField, message: string) => {
@@ -78,7 +87,10 @@ export function validatePlannerValue(value: PlannerValue, node: Pick<TelescopeNo
       const reddened = ebv > 0 ? ` with E(B−V) = ${rangeNumber(ebv)}` : '';
       const edge = r.minExclusive && c === r.min ? `, ${rangeNumber(r.min)} itself excluded` : '';
       // A value of the other system is said once, beside the system toggle (colourSystemWarning).
-      set('colourValue', `Enter a ${label} colour ${between(Math.round(r.min * 100) / 100, Math.round(r.max * 100) / 100, 'mag')}${reddened}${edge}${typed(c)}.`);
+      set(
+        'colourValue',
+        `Enter a ${label} colour ${between(Math.round(r.min * 100) / 100, Math.round(r.max * 100) / 100, 'mag')}${reddened}${edge}${typed(c)}.`,
+      );
     }
   }
 
@@ -108,27 +120,37 @@ export function validatePlannerValue(value: PlannerValue, node: Pick<TelescopeNo
     set('periodDays', `Enter a period ${between(PERIOD_RANGE_DAYS.min, PERIOD_RANGE_DAYS.max, 'd')}${typed(p)}.`);
   } else if (p === null && ps !== null) set('periodDays', 'Enter the period as well, or clear its uncertainty.');
   if (ps !== null && !(Number.isFinite(ps) && ps >= PERIOD_UNCERTAINTY_RANGE_DAYS.min && ps <= PERIOD_UNCERTAINTY_RANGE_DAYS.max)) {
-    set('periodUncertaintyDays', `Enter a period uncertainty ${between(PERIOD_UNCERTAINTY_RANGE_DAYS.min, PERIOD_UNCERTAINTY_RANGE_DAYS.max, 'd')}${typed(ps)}.`);
+    set(
+      'periodUncertaintyDays',
+      `Enter a period uncertainty ${between(PERIOD_UNCERTAINTY_RANGE_DAYS.min, PERIOD_UNCERTAINTY_RANGE_DAYS.max, 'd')}${typed(ps)}.`,
+    );
   }
 
   if (value.exposureMode === 'fixed') {
     const t = value.exposureSeconds;
     if (t === null) set('exposureSeconds', 'Enter the exposure, or choose automatic.');
     else if (node && !(Number.isFinite(t) && t >= node.minExposureSeconds && t <= node.maxExposureSeconds)) {
-      set('exposureSeconds', `Enter an exposure ${between(node.minExposureSeconds, node.maxExposureSeconds, 's')} on ${node.code}${typed(t)}.`);
+      set(
+        'exposureSeconds',
+        `Enter an exposure ${between(node.minExposureSeconds, node.maxExposureSeconds, 's')} on ${node.code}${typed(t)}.`,
+      );
     }
   }
 
   const fap = value.falseAlarmProbability;
   if (fap === null) set('falseAlarmProbability', 'Enter the false-alarm probability.');
   else if (!(Number.isFinite(fap) && fap > FALSE_ALARM_RANGE.min && fap < FALSE_ALARM_RANGE.max)) {
-    set('falseAlarmProbability', `Enter a false-alarm probability ${between(FALSE_ALARM_RANGE.min, FALSE_ALARM_RANGE.max)}, both excluded${typed(fap)}.`);
+    set(
+      'falseAlarmProbability',
+      `Enter a false-alarm probability ${between(FALSE_ALARM_RANGE.min, FALSE_ALARM_RANGE.max)}, both excluded${typed(fap)}.`,
+    );
   }
 
   const pc = value.completenessPercent;
   const { min, max } = COMPLETENESS_PERCENT_RANGE;
   if (pc === null) set('completenessPercent', `Enter a completeness ${between(min, max, '%')}.`);
-  else if (!(Number.isFinite(pc) && pc >= min && pc <= max)) set('completenessPercent', `Enter a completeness ${between(min, max, '%')}${typed(pc)}.`);
+  else if (!(Number.isFinite(pc) && pc >= min && pc <= max))
+    set('completenessPercent', `Enter a completeness ${between(min, max, '%')}${typed(pc)}.`);
   return errors;
 }
 
@@ -158,7 +180,9 @@ export function validateRaDec(raText: string, decText: string): FieldErrors {
       parseDec(dec);
     } catch (error) {
       if (!(error instanceof SkyInputError)) throw error;
-      errors.dec = /must be (within|between)/.test(error.reason) ? `Enter a declination ${between(-90, 90, '°')} (you typed ${dec}).` : plainSentence(error.reason);
+      errors.dec = /must be (within|between)/.test(error.reason)
+        ? `Enter a declination ${between(-90, 90, '°')} (you typed ${dec}).`
+        : plainSentence(error.reason);
     }
   }
   return errors;

@@ -1,7 +1,5 @@
 import { Routes } from '@angular/router';
 
-const plannerRoutes: Routes = [
-  { path: '', title: 'Target planner', loadComponent: () => import('./target-planner/target-planner') },
-];
+const plannerRoutes: Routes = [{ path: '', title: 'Target planner', loadComponent: () => import('./target-planner/target-planner') }];
 
 export default plannerRoutes;

@@ -14,7 +14,10 @@ describe('SkyWindowsApi', () => {
     const call = backend.expectOne('/api/sky-windows');
     expect(call.request.method).toBe('POST');
     expect(call.request.body).toEqual(request);
-    const response: SkyWindowsResponse = { cycle: { id: 3, code: 'C3', campaignStart: '2027-01-01', campaignEnd: '2027-02-01' }, nodes: [] };
+    const response: SkyWindowsResponse = {
+      cycle: { id: 3, code: 'C3', campaignStart: '2027-01-01', campaignEnd: '2027-02-01' },
+      nodes: [],
+    };
     call.flush(response);
     expect(await answer).toEqual(response);
     backend.verify();

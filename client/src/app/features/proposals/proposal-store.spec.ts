@@ -18,7 +18,10 @@ describe('ProposalStore', () => {
   it('changedFields: only what differs, node ids compared as a set', () => {
     const base = { title: 'A', abstract: 'x', category: null, nodeIds: [1, 2], completeness: 0.9 };
     expect(changedFields(base, { ...base, nodeIds: [2, 1] })).toEqual({});
-    expect(changedFields(base, { ...base, abstract: 'y', category: 'Open clusters' })).toEqual({ abstract: 'y', category: 'Open clusters' });
+    expect(changedFields(base, { ...base, abstract: 'y', category: 'Open clusters' })).toEqual({
+      abstract: 'y',
+      category: 'Open clusters',
+    });
     expect(changedFields(base, { ...base, completeness: 0.95 })).toEqual({ completeness: 0.95 });
   });
 
@@ -30,7 +33,13 @@ describe('ProposalStore', () => {
     backend.expectOne('/api/proposals/5').flush(testProposal());
     await Promise.resolve();
     store.rebase(testProposal());
-    store.edit({ title: 'Spin-down of the Lantern cluster', abstract: 'Typed just before leaving.', category: 'Open clusters', nodeIds: [1], completeness: 0.9 });
+    store.edit({
+      title: 'Spin-down of the Lantern cluster',
+      abstract: 'Typed just before leaving.',
+      category: 'Open clusters',
+      nodeIds: [1],
+      completeness: 0.9,
+    });
     backend.expectNone((req) => req.method === 'PATCH');
 
     injector.destroy();
@@ -46,7 +55,13 @@ describe('ProposalStore', () => {
     backend.expectOne('/api/proposals/5').flush(testProposal());
     await Promise.resolve();
     store.rebase(testProposal());
-    store.edit({ title: '  ', abstract: 'Rotation periods of forty K dwarfs.', category: 'Open clusters', nodeIds: [1], completeness: 0.9 });
+    store.edit({
+      title: '  ',
+      abstract: 'Rotation periods of forty K dwarfs.',
+      category: 'Open clusters',
+      nodeIds: [1],
+      completeness: 0.9,
+    });
     store.flush();
     backend.expectNone((req) => req.method === 'PATCH');
     expect(store.saveState()).toBe('error');
@@ -64,7 +79,12 @@ describe('ProposalStore', () => {
     backend.expectOne('/api/proposals/5').flush(testProposal());
     await Promise.resolve();
     store.rebase(testProposal());
-    const values = { title: 'Spin-down of the Lantern cluster', abstract: 'Rotation periods of forty K dwarfs.', category: 'Open clusters', nodeIds: [1] };
+    const values = {
+      title: 'Spin-down of the Lantern cluster',
+      abstract: 'Rotation periods of forty K dwarfs.',
+      category: 'Open clusters',
+      nodeIds: [1],
+    };
     for (const completeness of [0.3, 1, null]) {
       store.edit({ ...values, completeness });
       store.flush();
@@ -85,7 +105,13 @@ describe('ProposalStore', () => {
     backend.expectOne('/api/proposals/5').flush(testProposal());
     await Promise.resolve();
     store.rebase(testProposal());
-    store.edit({ title: 'Spin-down of the Lantern cluster', abstract: 'Rotation periods of forty K dwarfs.', category: 'Open clusters', nodeIds: [1], completeness: 0.95 });
+    store.edit({
+      title: 'Spin-down of the Lantern cluster',
+      abstract: 'Rotation periods of forty K dwarfs.',
+      category: 'Open clusters',
+      nodeIds: [1],
+      completeness: 0.95,
+    });
     store.flush();
     const patch = backend.expectOne((req) => req.method === 'PATCH');
     expect(patch.request.body).toEqual({ version: 3, completeness: 0.95 });

@@ -70,7 +70,14 @@ export function curveStyle(colour: string, options: { main?: boolean; dashed?: b
 
 /** Dataset options of the upper edge of a shaded ±1σ band (filled down to the next dataset, its lower edge). */
 export function bandStyle(colour: string) {
-  return { borderWidth: 0, borderColor: withAlpha(colour, 0.18), backgroundColor: withAlpha(colour, 0.18), pointRadius: 0, pointHitRadius: 0, fill: '+1' as const };
+  return {
+    borderWidth: 0,
+    borderColor: withAlpha(colour, 0.18),
+    backgroundColor: withAlpha(colour, 0.18),
+    pointRadius: 0,
+    pointHitRadius: 0,
+    fill: '+1' as const,
+  };
 }
 
 /** The parts of a dataset its legend entry is drawn from. */
@@ -111,7 +118,14 @@ export function legendItemFor(dataset: LegendSource, datasetIndex: number, theme
     return { ...base, pointStyle: 'rect', fillStyle: colour, strokeStyle: colour, lineWidth: 0, lineDash: [] };
   }
   const colour = asColour(dataset.borderColor, theme.text);
-  return { ...base, pointStyle: 'line', fillStyle: colour, strokeStyle: colour, lineWidth: Math.max(2, dataset.borderWidth ?? 2), lineDash: dataset.borderDash ?? [] };
+  return {
+    ...base,
+    pointStyle: 'line',
+    fillStyle: colour,
+    strokeStyle: colour,
+    lineWidth: Math.max(2, dataset.borderWidth ?? 2),
+    lineDash: dataset.borderDash ?? [],
+  };
 }
 
 /**
@@ -128,7 +142,9 @@ export function curveChartLegend(theme: ChartTheme, leaveOut: (datasetIndex: num
       boxHeight: 10,
       padding: 14,
       generateLabels: (chart: Chart) =>
-        (chart.data.datasets as ChartDataset[]).map((dataset, index) => legendItemFor(dataset as LegendSource, index, theme, !chart.isDatasetVisible(index))),
+        (chart.data.datasets as ChartDataset[]).map((dataset, index) =>
+          legendItemFor(dataset as LegendSource, index, theme, !chart.isDatasetVisible(index)),
+        ),
       filter: (item: LegendItem) => item.text !== '' && !leaveOut(item.datasetIndex ?? -1),
     },
   };

@@ -32,7 +32,26 @@ describe('ticks125', () => {
 
   it('every tick is labelled, plainly (no exponent, no 0.30000000000000004)', () => {
     expect(ticks125(0.01, 20_000).map((v) => logTickLabel(v, 'en-GB'))).toEqual([
-      '0.01', '0.02', '0.05', '0.1', '0.2', '0.5', '1', '2', '5', '10', '20', '50', '100', '200', '500', '1,000', '2,000', '5,000', '10,000', '20,000',
+      '0.01',
+      '0.02',
+      '0.05',
+      '0.1',
+      '0.2',
+      '0.5',
+      '1',
+      '2',
+      '5',
+      '10',
+      '20',
+      '50',
+      '100',
+      '200',
+      '500',
+      '1,000',
+      '2,000',
+      '5,000',
+      '10,000',
+      '20,000',
     ]);
     expect(logTickLabel(3, 'en-GB')).toBe('');
   });
@@ -40,7 +59,14 @@ describe('ticks125', () => {
 
 describe('logAxis125Hooks', () => {
   function fakeScale(min: number, max: number, horizontal: boolean, length: number) {
-    return { min, max, ticks: [] as { value: number; major?: boolean }[], width: horizontal ? length : 40, height: horizontal ? 30 : length, isHorizontal: () => horizontal };
+    return {
+      min,
+      max,
+      ticks: [] as { value: number; major?: boolean }[],
+      width: horizontal ? length : 40,
+      height: horizontal ? 30 : length,
+      isHorizontal: () => horizontal,
+    };
   }
 
   it('widens the data range to 1–2–5 ends and puts the ticks (and so the grid lines) on 1–2–5 values only', () => {

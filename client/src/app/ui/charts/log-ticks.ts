@@ -76,7 +76,8 @@ export function logAxis125Hooks() {
     afterBuildTicks: (scale: Scale) => {
       const horizontal = scale.isHorizontal();
       const length = horizontal ? scale.width : scale.height;
-      const maxTicks = length > 0 ? Math.max(2, Math.floor(length / (horizontal ? TICK_SPACING_PX.horizontal : TICK_SPACING_PX.vertical)) + 1) : undefined;
+      const maxTicks =
+        length > 0 ? Math.max(2, Math.floor(length / (horizontal ? TICK_SPACING_PX.horizontal : TICK_SPACING_PX.vertical)) + 1) : undefined;
       const values = ticks125(scale.min, scale.max, maxTicks);
       if (values.length) scale.ticks = values.map((value) => ({ value, major: Number.isInteger(Math.log10(value)) }));
     },

@@ -3,25 +3,50 @@ import { computeTargetPlan } from '@spincycle/shared/science/target-plan';
 import { plainFlag, plainReference, plainSentence, plainText, provenanceKind, provenanceOf } from './plan-wording';
 
 const NODE: NodeSpec = {
-  apertureM: 0.4, obstructionFraction: 0.35, throughput: 0.6, band: 'V', readNoiseE: 9, darkCurrentEPerS: 0.02, gainEPerAdu: 1.3,
-  saturationE: 60000, pixelScaleArcsec: 1.2, seeingFwhmArcsec: 1.6, systematicFloorMmag: 1.5, scintillationModel: 'young1967',
-  overheadSeconds: 60, minExposureSeconds: 2, maxExposureSeconds: 300, altitudeLimitDeg: 30, sunAltitudeLimitDeg: -12,
-  weatherLossFraction: 0.25, rateMinorPerHour: 4850, currency: 'eur',
+  apertureM: 0.4,
+  obstructionFraction: 0.35,
+  throughput: 0.6,
+  band: 'V',
+  readNoiseE: 9,
+  darkCurrentEPerS: 0.02,
+  gainEPerAdu: 1.3,
+  saturationE: 60000,
+  pixelScaleArcsec: 1.2,
+  seeingFwhmArcsec: 1.6,
+  systematicFloorMmag: 1.5,
+  scintillationModel: 'young1967',
+  overheadSeconds: 60,
+  minExposureSeconds: 2,
+  maxExposureSeconds: 300,
+  altitudeLimitDeg: 30,
+  sunAltitudeLimitDeg: -12,
+  weatherLossFraction: 0.25,
+  rateMinorPerHour: 4850,
+  currency: 'eur',
 };
 const SITE: SiteSpec = { latitudeDeg: 28.76, longitudeDeg: -17.88, elevationM: 2326, timeZone: 'UTC', skyBrightnessMagPerArcsec2: 21.6 };
 
 /** Developer wording that must never reach a user. */
-const DEVELOPER_WORDING = /from memory|our choice|Spincycle['’]s choice|no source|\[derived|\b(max|min)Exposure\b|saturationE|young1967|osborn2015|angus2019\b|barnes2007\b|noyes1984\b/;
+const DEVELOPER_WORDING =
+  /from memory|our choice|Spincycle['’]s choice|no source|\[derived|\b(max|min)Exposure\b|saturationE|young1967|osborn2015|angus2019\b|barnes2007\b|noyes1984\b/;
 
 describe('plan-wording', () => {
   it('plainText: provenance notes, code names and citation keys become plain words', () => {
-    expect(plainText('CCD equation (Howell 2006; Merline & Howell 1995, from memory) + scintillation')).toBe('CCD equation (Howell 2006; Merline & Howell 1995) + scintillation');
-    expect(plainText('Noyes et al. (1984), ApJ 279, 763, eq. 4 (equation number from memory)')).toBe('Noyes et al. (1984), ApJ 279, 763, eq. 4');
-    expect(plainText('Barnes (2003), ApJ 586, 464; Curtis et al. (2020), ApJ 904, 140 (both from memory)')).toBe('Barnes (2003), ApJ 586, 464; Curtis et al. (2020), ApJ 904, 140');
+    expect(plainText('CCD equation (Howell 2006; Merline & Howell 1995, from memory) + scintillation')).toBe(
+      'CCD equation (Howell 2006; Merline & Howell 1995) + scintillation',
+    );
+    expect(plainText('Noyes et al. (1984), ApJ 279, 763, eq. 4 (equation number from memory)')).toBe(
+      'Noyes et al. (1984), ApJ 279, 763, eq. 4',
+    );
+    expect(plainText('Barnes (2003), ApJ 586, 464; Curtis et al. (2020), ApJ 904, 140 (both from memory)')).toBe(
+      'Barnes (2003), ApJ 586, 464; Curtis et al. (2020), ApJ 904, 140',
+    );
     expect(plainText('limited by maxExposure')).toBe("limited by the node's longest exposure");
-    expect(plainText('4 exposures of 16 s (capped by saturation) need the least node time')).toBe('4 exposures of 16 s (capped by saturation of the star) need the least node time');
+    expect(plainText('4 exposures of 16 s (capped by saturation) need the least node time')).toBe(
+      '4 exposures of 16 s (capped by saturation of the star) need the least node time',
+    );
     expect(plainText('scintillation (young1967)')).toBe('scintillation (Young (1967))');
-    expect(plainText('rounding: Spincycle\'s choice, no source')).toBe('rounding: an assumption of Spincycle');
+    expect(plainText("rounding: Spincycle's choice, no source")).toBe('rounding: an assumption of Spincycle');
     expect(plainText('peak pixel against the node saturationE')).toBe("peak pixel against the node's saturation level");
     expect(plainText('5–95 % range of a sinusoid [derived]')).toBe('5–95 % range of a sinusoid');
   });
@@ -50,8 +75,17 @@ describe('plan-wording', () => {
   });
 
   it('a whole plan: no why line, source or notice carries developer wording', () => {
-    for (const [ageMyr, colour, magnitude] of [[800, 1.1, 11.5], [4000, 1.1, 15], [800, 1.1, 8], [150, 2.0, 13]] as const) {
-      const plan = computeTargetPlan({ colour: { value: colour, system: 'BPRP' }, ageMyr, ageUncertaintyMyr: 100, magnitude: { value: magnitude, band: 'G' } }, NODE, SITE);
+    for (const [ageMyr, colour, magnitude] of [
+      [800, 1.1, 11.5],
+      [4000, 1.1, 15],
+      [800, 1.1, 8],
+      [150, 2.0, 13],
+    ] as const) {
+      const plan = computeTargetPlan(
+        { colour: { value: colour, system: 'BPRP' }, ageMyr, ageUncertaintyMyr: 100, magnitude: { value: magnitude, band: 'G' } },
+        NODE,
+        SITE,
+      );
       for (const q of Object.values(plan.quantities)) {
         expect(plainText(q.why)).not.toMatch(DEVELOPER_WORDING);
         expect(provenanceOf(q).reference).not.toMatch(DEVELOPER_WORDING);

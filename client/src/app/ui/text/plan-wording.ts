@@ -126,7 +126,8 @@ export function plainSentence(text: string): string {
 /** A citation in the text: "Author (2019)", "Author et al. 2015", "Author & Other (1991)". */
 const CITATION = /[A-Z][A-Za-zÀ-ÿ'’-]+(?: et al\.| & [A-Z][A-Za-zÀ-ÿ'’-]+)?,? \(?(1[89]|20)\d{2}\)?/;
 /** Sources that name the user's input. */
-const INPUT_SOURCE = /\b(your input|your period|the proposer['’]s value|the user['’]s choice|the proposal['’]s setting|the target colour)\b/i;
+const INPUT_SOURCE =
+  /\b(your input|your period|the proposer['’]s value|the user['’]s choice|the proposal['’]s setting|the target colour)\b/i;
 /** Sources that are a definition or plain arithmetic. */
 const DEFINITION_SOURCE = /^(definition of|ro = p\/τc$)/i;
 

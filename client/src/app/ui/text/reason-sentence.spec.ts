@@ -7,7 +7,11 @@ describe('reasonSentence', () => {
   });
 
   it('a lead-in repeated by nested layers is said once', () => {
-    expect(reasonSentence("no expected period: no expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr. Give the star's expected period to plan it")).toBe(
+    expect(
+      reasonSentence(
+        "no expected period: no expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr. Give the star's expected period to plan it",
+      ),
+    ).toBe(
       "No expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr. Give the star's expected period to plan it.",
     );
   });

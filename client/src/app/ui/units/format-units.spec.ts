@@ -1,4 +1,12 @@
-import { explainFee, formatHours, formatHoursTimesRate, formatLatitude, formatLongitude, formatMinorCurrency, formatPercent } from './format-units';
+import {
+  explainFee,
+  formatHours,
+  formatHoursTimesRate,
+  formatLatitude,
+  formatLongitude,
+  formatMinorCurrency,
+  formatPercent,
+} from './format-units';
 
 describe('format-units', () => {
   it('formatLatitude: hemisphere letter from the sign, magnitude with 3 decimals', () => {

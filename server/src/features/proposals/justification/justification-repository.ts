@@ -8,13 +8,24 @@ export async function findJustificationMeta(db: Knex, proposalId: number): Promi
     .where({ 'f.proposal_id': proposalId, 'f.kind': 'justification' })
     .first('f.filename', 'f.size_bytes', 'f.sha256', 'f.uploaded_at', 'a.display_name');
   return row
-    ? { filename: row.filename, sizeBytes: row.size_bytes, sha256: row.sha256, uploadedAt: row.uploaded_at.toISOString(), uploadedBy: row.display_name ?? 'a former member' }
+    ? {
+        filename: row.filename,
+        sizeBytes: row.size_bytes,
+        sha256: row.sha256,
+        uploadedAt: row.uploaded_at.toISOString(),
+        uploadedBy: row.display_name ?? 'a former member',
+      }
     : null;
 }
 
 /** The justification file with its bytes. */
-export async function findJustificationContent(db: Knex, proposalId: number): Promise<{ filename: string; contentType: string; content: Buffer } | undefined> {
-  const row = await db('proposal_files').where({ proposal_id: proposalId, kind: 'justification' }).first('filename', 'content_type', 'content');
+export async function findJustificationContent(
+  db: Knex,
+  proposalId: number,
+): Promise<{ filename: string; contentType: string; content: Buffer } | undefined> {
+  const row = await db('proposal_files')
+    .where({ proposal_id: proposalId, kind: 'justification' })
+    .first('filename', 'content_type', 'content');
   return row ? { filename: row.filename, contentType: row.content_type, content: row.content } : undefined;
 }
 

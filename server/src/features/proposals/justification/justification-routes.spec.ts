@@ -1,6 +1,15 @@
 import { createHash } from 'node:crypto';
 import { startHarness, type Harness } from '../../../../../test/support/api-harness';
-import { addCoInvestigator, binaryBody, countRows, createTestNetwork, proposerWithDraft, tinyPdf, uploadFile, type TestNetwork } from '../../../../../test/api/support/proposal-kit';
+import {
+  addCoInvestigator,
+  binaryBody,
+  countRows,
+  createTestNetwork,
+  proposerWithDraft,
+  tinyPdf,
+  uploadFile,
+  type TestNetwork,
+} from '../../../../../test/api/support/proposal-kit';
 import { cleanFilename, looksLikePdf } from './justification-service';
 
 let h: Harness;
@@ -41,13 +50,23 @@ describe('PUT/GET /api/proposals/:id/justification', () => {
 
   it('judges by content: a PDF declared as text/plain with another name is accepted; a non-PDF named .pdf is 415 naming it', async () => {
     const { browser, proposal } = await proposerWithDraft(h, net.cycleId);
-    const disguised = await uploadFile(browser, 'put', `/api/proposals/${proposal.id}/justification`, tinyPdf(), 'notes.txt', { contentType: 'text/plain' });
+    const disguised = await uploadFile(browser, 'put', `/api/proposals/${proposal.id}/justification`, tinyPdf(), 'notes.txt', {
+      contentType: 'text/plain',
+    });
     expect(disguised.status).toBe(200);
-    const fake = await uploadFile(browser, 'put', `/api/proposals/${proposal.id}/justification`, Buffer.from('PK\u0003\u0004 a word document, not a PDF'), 'justification.pdf');
+    const fake = await uploadFile(
+      browser,
+      'put',
+      `/api/proposals/${proposal.id}/justification`,
+      Buffer.from('PK\u0003\u0004 a word document, not a PDF'),
+      'justification.pdf',
+    );
     expect(fake.status).toBe(415);
     expect(fake.body).toMatchObject({ code: 'not_a_pdf', message: expect.stringContaining('“justification.pdf” is not a PDF') });
     const truncated = tinyPdf().subarray(0, 60);
-    expect((await uploadFile(browser, 'put', `/api/proposals/${proposal.id}/justification`, truncated, 'cut.pdf')).body.code).toBe('not_a_pdf');
+    expect((await uploadFile(browser, 'put', `/api/proposals/${proposal.id}/justification`, truncated, 'cut.pdf')).body.code).toBe(
+      'not_a_pdf',
+    );
     // Stored under the type found in the content: the extension follows (see cleanFilename).
     expect((await browser.get(`/api/proposals/${proposal.id}`)).body.justification.filename).toBe('notes.pdf');
   });
@@ -57,7 +76,11 @@ describe('PUT/GET /api/proposals/:id/justification', () => {
     const big = Buffer.concat([Buffer.from('%PDF-1.4\n'), Buffer.alloc(10 * 1024 * 1024 + 10, 32), Buffer.from('\n%%EOF\n')]);
     const res = await uploadFile(browser, 'put', `/api/proposals/${proposal.id}/justification`, big, 'huge.pdf');
     expect(res.status).toBe(413);
-    expect(res.body).toEqual({ code: 'file_too_large', message: 'The justification PDF is larger than 10 MB', fieldErrors: { file: ['The justification PDF is larger than 10 MB'] } });
+    expect(res.body).toEqual({
+      code: 'file_too_large',
+      message: 'The justification PDF is larger than 10 MB',
+      fieldErrors: { file: ['The justification PDF is larger than 10 MB'] },
+    });
     expect(await countRows(h, 'proposal_files', { proposal_id: proposal.id })).toBe(0);
   });
 

@@ -10,7 +10,11 @@ import { createJustificationController } from './justification-controller';
  */
 export function createJustificationRoutes(ctx: AppContext): Router {
   const justification = createJustificationController(ctx);
-  const pdfUpload = singleFileUpload({ field: 'file', maxBytes: JUSTIFICATION_MAX_BYTES, tooLargeMessage: 'The justification PDF is larger than 10 MB' });
+  const pdfUpload = singleFileUpload({
+    field: 'file',
+    maxBytes: JUSTIFICATION_MAX_BYTES,
+    tooLargeMessage: 'The justification PDF is larger than 10 MB',
+  });
   // Who may upload is settled before the multipart body is read (proposal-access.ts).
   const uploadAccess = requireEditableProposalBeforeUpload(ctx);
 

@@ -15,7 +15,10 @@ import { findJustificationContent, findJustificationMeta, upsertJustification } 
  */
 export function looksLikePdf(content: Buffer): boolean {
   if (content.length < 16 || content.subarray(0, 5).toString('latin1') !== '%PDF-') return false;
-  return content.subarray(Math.max(0, content.length - 1024)).toString('latin1').includes('%%EOF');
+  return content
+    .subarray(Math.max(0, content.length - 1024))
+    .toString('latin1')
+    .includes('%%EOF');
 }
 
 /** The last path segment of an uploaded name without controls, quotes and invisible format characters (as named in messages). */
@@ -41,7 +44,10 @@ export function visibleFilename(name: string | undefined): string {
  * the bytes are not.
  */
 export function cleanFilename(name: string | undefined): string {
-  const stem = visibleFilename(name).replace(/\.[^.]{0,10}$/, '').replace(/[.\s]+$/, '').slice(0, 196);
+  const stem = visibleFilename(name)
+    .replace(/\.[^.]{0,10}$/, '')
+    .replace(/[.\s]+$/, '')
+    .slice(0, 196);
   return `${stem || 'justification'}.pdf`;
 }
 
@@ -70,14 +76,25 @@ export async function uploadJustification(
   await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });
     requireEditable(access, ctx.now());
-    await upsertJustification(trx, { proposalId: id, filename, contentType: 'application/pdf', content: file.buffer, sha256, uploadedBy: viewer.id });
+    await upsertJustification(trx, {
+      proposalId: id,
+      filename,
+      contentType: 'application/pdf',
+      content: file.buffer,
+      sha256,
+      uploadedBy: viewer.id,
+    });
     await touchProposal(trx, id);
   });
   return (await findJustificationMeta(ctx.db, id))!;
 }
 
 /** GET /api/proposals/:id/justification (team members): the stored PDF. */
-export async function downloadJustification(ctx: AppContext, viewer: SessionUser, id: number): Promise<{ filename: string; contentType: string; content: Buffer }> {
+export async function downloadJustification(
+  ctx: AppContext,
+  viewer: SessionUser,
+  id: number,
+): Promise<{ filename: string; contentType: string; content: Buffer }> {
   await accessProposal(ctx.db, viewer, id);
   const file = await findJustificationContent(ctx.db, id);
   if (!file) throw new AppError('justification_not_found', 'No justification PDF has been uploaded yet', 404);

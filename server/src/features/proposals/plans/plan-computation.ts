@@ -135,7 +135,9 @@ function nameOtherNodes(targetRows: PlanRowInsert[], nodes: TelescopeNode[]): vo
         // whether the cycle has nodes this proposal did not request is for the screen to add.
         return { ...s, message: 'None of the requested nodes can carry this target as planned.' };
       }
-      const list = elsewhere.map((r) => `${code(r.nodeId)} (${r.result!.nodeHours.toFixed(1)} node-hours; ${r.result!.skyVerdict.split(';')[0]})`).join(', ');
+      const list = elsewhere
+        .map((r) => `${code(r.nodeId)} (${r.result!.nodeHours.toFixed(1)} node-hours; ${r.result!.skyVerdict.split(';')[0]})`)
+        .join(', ');
       return { ...s, message: `Feasible on ${list}.` };
     });
     result.suggestions = named.filter((s, i) => named.findIndex((o) => o.message === s.message) === i);

@@ -3,7 +3,14 @@ import type { AppContext } from '../../../app-context';
 import { idParamSchema, nodeIdQuerySchema, targetParamsSchema } from '../../../http/params';
 import { jsonWithRawMember } from '../../../http/raw-json';
 import { planListQuerySchema } from '@spincycle/shared/proposals/plan-types';
-import { getPlanExplanation, getPlanMarkers, getPlanRunStatus, getProposalPlans, getTargetSky, recomputeProposalPlans } from './plan-service';
+import {
+  getPlanExplanation,
+  getPlanMarkers,
+  getPlanRunStatus,
+  getProposalPlans,
+  getTargetSky,
+  recomputeProposalPlans,
+} from './plan-service';
 
 /** Handlers of the plan routes (plans, run status, recompute, sky windows of a target). */
 export function createPlanController(ctx: AppContext) {

@@ -41,7 +41,12 @@ export async function loadPlanInputsOf(
   const proposalId = proposal.id;
   const [nodeIds, targets] = await inParallel(db, [() => listProposalNodeIds(db, proposalId), () => listTargets(db, proposalId)] as const);
   const nodes = nodeIds.length ? await listNodes(db, nodeIds) : [];
-  return { campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, nodes, targets, completeness: proposal.completeness };
+  return {
+    campaign: { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd },
+    nodes,
+    targets,
+    completeness: proposal.completeness,
+  };
 }
 
 /**

@@ -29,7 +29,9 @@ interface Row {
 /** A draft on the north V node and the south node with five targets; Star G-5 (Dec −80°) never rises from the north. */
 async function computedDraft() {
   const d = await proposerWithDraft(h, net.cycleId, 'Paged plans');
-  expect((await d.browser.patch(`/api/proposals/${d.proposal.id}`, { version: 1, nodeIds: [net.nodeIds[0], net.nodeIds[2]] })).status).toBe(200);
+  expect((await d.browser.patch(`/api/proposals/${d.proposal.id}`, { version: 1, nodeIds: [net.nodeIds[0], net.nodeIds[2]] })).status).toBe(
+    200,
+  );
   for (let i = 1; i <= 5; i++) {
     const extra = i === 5 ? { decDeg: -80 } : { colour: 0.8 + i * 0.3, magnitude: 10 + i };
     expect((await d.browser.post(`/api/proposals/${d.proposal.id}/targets`, target({ name: `Star G-${i}`, ...extra }))).status).toBe(201);
@@ -78,7 +80,9 @@ describe('GET /api/proposals/:id/plans: pages, filters and sort on the server', 
     const south = (await browser.get(url(`nodeId=${net.nodeIds[2]}`))).body;
     expect(south.matched).toBe(5);
     expect(south.plans.every((p: Row) => p.nodeId === net.nodeIds[2])).toBe(true);
-    expect((await browser.get(url(`nodeId=${net.nodeIds[2]}&feasible=false&q=g-5`))).body.matched).toBe(all.filter((p) => p.nodeId === net.nodeIds[2] && !p.feasible && p.targetName === 'Star G-5').length);
+    expect((await browser.get(url(`nodeId=${net.nodeIds[2]}&feasible=false&q=g-5`))).body.matched).toBe(
+      all.filter((p) => p.nodeId === net.nodeIds[2] && !p.feasible && p.targetName === 'Star G-5').length,
+    );
 
     const named = (await browser.get(url('q=g-3'))).body;
     expect(named.plans.map((p: Row) => p.targetName)).toEqual(['Star G-3', 'Star G-3']);
@@ -127,7 +131,12 @@ describe('GET /api/proposals/:id/plans/markers: every plan for the chart, unpage
   it('lists each stored plan once with its feasibility and period, whatever the list page', async () => {
     const { browser, proposal } = await computedDraft();
     const all = (await browser.get(`/api/proposals/${proposal.id}/plans?pageSize=200`)).body.plans as Row[];
-    const markers = (await browser.get(`/api/proposals/${proposal.id}/plans/markers`)).body as { targetId: number; nodeId: number; feasible: boolean; periodDays: number }[];
+    const markers = (await browser.get(`/api/proposals/${proposal.id}/plans/markers`)).body as {
+      targetId: number;
+      nodeId: number;
+      feasible: boolean;
+      periodDays: number;
+    }[];
     expect(markers).toHaveLength(all.length);
     const key = (r: { targetId: number; nodeId: number }) => `${r.targetId}:${r.nodeId}`;
     const byKey = new Map(all.map((r) => [key(r), r]));
@@ -150,10 +159,21 @@ describe('GET /api/proposals/:id/plans/status', () => {
     };
     const list = (await browser.get(`/api/proposals/${proposal.id}/plans?pageSize=1`)).body;
     expect(await status()).toEqual(list.run);
-    expect(await status()).toEqual({ state: 'idle', total: 5, done: 5, startedAt: expect.any(String), finishedAt: expect.any(String), error: null, current: true });
+    expect(await status()).toEqual({
+      state: 'idle',
+      total: 5,
+      done: 5,
+      startedAt: expect.any(String),
+      finishedAt: expect.any(String),
+      error: null,
+      current: true,
+    });
 
     const [t] = (await browser.get(`/api/proposals/${proposal.id}/targets`)).body;
-    await browser.put(`/api/proposals/${proposal.id}/targets/${t.id}`, { version: t.version, target: target({ name: t.name, ageMyr: 1500 }) });
+    await browser.put(`/api/proposals/${proposal.id}/targets/${t.id}`, {
+      version: t.version,
+      target: target({ name: t.name, ageMyr: 1500 }),
+    });
     expect(await status()).toMatchObject({ state: 'queued', current: false });
     // Asked again (the cached hash now at hand): the same answer.
     expect(await status()).toMatchObject({ state: 'queued', current: false });
@@ -163,7 +183,9 @@ describe('GET /api/proposals/:id/plans/status', () => {
     // A node's value changed behind the API's back (no markPlansRequested): the trigger still clears the cache.
     const db = h.created.ctx.db;
     const [{ throughput }] = await db('nodes').where({ id: net.nodeIds[0] }).select('throughput');
-    await db('nodes').where({ id: net.nodeIds[0] }).update({ throughput: throughput * 0.9 });
+    await db('nodes')
+      .where({ id: net.nodeIds[0] })
+      .update({ throughput: throughput * 0.9 });
     try {
       expect(await status()).toMatchObject({ current: false });
     } finally {
@@ -172,7 +194,9 @@ describe('GET /api/proposals/:id/plans/status', () => {
     expect(await status()).toMatchObject({ current: true });
 
     const [{ campaign_end: end }] = await db('cycles').where({ id: net.cycleId }).select('campaign_end');
-    await db('cycles').where({ id: net.cycleId }).update({ campaign_end: db.raw("campaign_end - interval '1 day'") });
+    await db('cycles')
+      .where({ id: net.cycleId })
+      .update({ campaign_end: db.raw("campaign_end - interval '1 day'") });
     try {
       expect(await status()).toMatchObject({ current: false });
     } finally {
@@ -183,7 +207,10 @@ describe('GET /api/proposals/:id/plans/status', () => {
 
   it('the worker path stores each plan’s summary (the table row) apart from its explained numbers', async () => {
     const { browser, proposal } = await computedDraft();
-    const rows = await h.created.ctx.db('target_plans').where({ proposal_id: proposal.id }).select('target_id', 'node_id', 'summary', 'result');
+    const rows = await h.created.ctx
+      .db('target_plans')
+      .where({ proposal_id: proposal.id })
+      .select('target_id', 'node_id', 'summary', 'result');
     expect(rows).toHaveLength(10);
     const listed: Row[] = (await browser.get(`/api/proposals/${proposal.id}/plans?pageSize=200`)).body.plans;
     for (const r of rows) {
@@ -205,7 +232,11 @@ describe('the request per node counts only feasible plans', () => {
     const { browser, proposal } = await computedDraft();
     const plans = (await browser.get(`/api/proposals/${proposal.id}/plans?pageSize=200`)).body.plans as Row[];
     expect(plans.some((p) => !p.feasible)).toBe(true);
-    const request = (await browser.get(`/api/proposals/${proposal.id}`)).body.request as { nodeId: number; nodeHours: number; infeasibleTargets: number }[];
+    const request = (await browser.get(`/api/proposals/${proposal.id}`)).body.request as {
+      nodeId: number;
+      nodeHours: number;
+      infeasibleTargets: number;
+    }[];
     for (const r of request) {
       const feasibleHours = plans.filter((p) => p.nodeId === r.nodeId && p.feasible).reduce((sum, p) => sum + p.nodeHours, 0);
       expect(r.nodeHours).toBeCloseTo(feasibleHours, 2);

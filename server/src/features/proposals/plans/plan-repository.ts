@@ -1,7 +1,14 @@
 import type { Knex } from 'knex';
 import { inParallel } from '../../../db/in-parallel';
 import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
-import type { PlanExplanation, PlanListQuery, PlanMarker, PlanRunStatus, PlanSortKey, TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import type {
+  PlanExplanation,
+  PlanListQuery,
+  PlanMarker,
+  PlanRunStatus,
+  PlanSortKey,
+  TargetPlanRow,
+} from '@spincycle/shared/proposals/plan-types';
 
 /** The computed part of a plan row, stored as `target_plans.result` (with every explained number). */
 export type StoredPlanResult = Omit<TargetPlanRow, 'targetId' | 'targetName' | 'nodeId' | 'nodeCode'> & Pick<PlanExplanation, 'quantities'>;
@@ -61,7 +68,11 @@ export async function findPlanRun(db: Knex, proposalId: number): Promise<StoredP
  * Caches the hash of today's inputs, unless they changed since `inputsVersion` was read (the
  * version is read before the inputs, so a change committed in between also raises it).
  */
-export async function storeCurrentInputsHash(db: Knex, proposalId: number, input: { hash: string; model: string; inputsVersion: number }): Promise<void> {
+export async function storeCurrentInputsHash(
+  db: Knex,
+  proposalId: number,
+  input: { hash: string; model: string; inputsVersion: number },
+): Promise<void> {
   await db('plan_runs')
     .where({ proposal_id: proposalId, inputs_version: input.inputsVersion })
     .update({ current_hash: input.hash, current_hash_model: input.model });
@@ -104,15 +115,28 @@ export async function updatePlanProgress(db: Knex, proposalId: number, done: num
 }
 
 /** The run ended with its plans stored; `state` is `queued` when the inputs changed meanwhile. */
-export async function finishPlanRun(db: Knex, proposalId: number, input: { inputsHash: string; total: number; state: 'idle' | 'queued' }): Promise<void> {
+export async function finishPlanRun(
+  db: Knex,
+  proposalId: number,
+  input: { inputsHash: string; total: number; state: 'idle' | 'queued' },
+): Promise<void> {
   await db('plan_runs')
     .where({ proposal_id: proposalId })
-    .update({ state: input.state, total: input.total, done: input.total, inputs_hash: input.inputsHash, finished_at: db.raw('clock_timestamp()'), error: null });
+    .update({
+      state: input.state,
+      total: input.total,
+      done: input.total,
+      inputs_hash: input.inputsHash,
+      finished_at: db.raw('clock_timestamp()'),
+      error: null,
+    });
 }
 
 /** The run failed: state `failed` with a message for the team. */
 export async function failPlanRun(db: Knex, proposalId: number, message: string): Promise<void> {
-  await db('plan_runs').where({ proposal_id: proposalId }).update({ state: 'failed', error: message, finished_at: db.raw('clock_timestamp()') });
+  await db('plan_runs')
+    .where({ proposal_id: proposalId })
+    .update({ state: 'failed', error: message, finished_at: db.raw('clock_timestamp()') });
 }
 
 /** Runs left `queued` or `running` (e.g. by a worker that stopped), to queue again. */
@@ -213,7 +237,14 @@ export async function listPlanPageJson(db: Knex, proposalId: number, query: Plan
     .orderByRaw(`${SORT_SQL[key]} ${descending ? 'DESC' : 'ASC'} NULLS LAST, t.position, t.id, n.code`)
     .limit(query.pageSize)
     .offset((query.page - 1) * query.pageSize)
-    .select('tp.target_id', 'tp.node_id', 't.name as target_name', 'n.code as node_code', db.raw('tp.summary::text AS summary_json'), db.raw('count(*) OVER () AS matched'));
+    .select(
+      'tp.target_id',
+      'tp.node_id',
+      't.name as target_name',
+      'n.code as node_code',
+      db.raw('tp.summary::text AS summary_json'),
+      db.raw('count(*) OVER () AS matched'),
+    );
   // A page past the end has no row to carry the count: count separately then (rare).
   let matched = rows.length ? Number(rows[0].matched) : 0;
   if (!rows.length && query.page > 1) {
@@ -227,7 +258,8 @@ export async function listPlanPageJson(db: Knex, proposalId: number, query: Plan
 function toPlanRowJson(r: { target_id: number; node_id: number; target_name: string; node_code: string; summary_json: string }): string {
   const head = `"targetId":${r.target_id},"targetName":${JSON.stringify(r.target_name)},"nodeId":${r.node_id},"nodeCode":${JSON.stringify(r.node_code)}`;
   const body = r.summary_json.trim();
-  if (!body.startsWith('{') || !body.endsWith('}')) throw new Error(`stored plan summary of target ${r.target_id} on node ${r.node_id} is not a JSON object`);
+  if (!body.startsWith('{') || !body.endsWith('}'))
+    throw new Error(`stored plan summary of target ${r.target_id} on node ${r.node_id} is not a JSON object`);
   const members = body.slice(1, -1).trim();
   return members ? `{${head},${members}}` : `{${head}}`;
 }
@@ -242,7 +274,10 @@ export async function planCountsAndErrors(
     () =>
       db('target_plans')
         .where({ proposal_id: proposalId })
-        .first(db.raw('count(*) FILTER (WHERE summary IS NOT NULL) AS plans'), db.raw('count(*) FILTER (WHERE NOT feasible) AS infeasible')) as Promise<{ plans: string; infeasible: string }>,
+        .first(
+          db.raw('count(*) FILTER (WHERE summary IS NOT NULL) AS plans'),
+          db.raw('count(*) FILTER (WHERE NOT feasible) AS infeasible'),
+        ) as Promise<{ plans: string; infeasible: string }>,
     () => {
       const q = db('target_plans as tp')
         .join('targets as t', 't.id', 'tp.target_id')
@@ -250,7 +285,9 @@ export async function planCountsAndErrors(
         .where('tp.proposal_id', proposalId)
         .whereNotNull('tp.error');
       if (nodeId !== undefined) q.where('tp.node_id', nodeId);
-      return q.orderBy(['t.position', 't.id', 'n.code']).select('tp.target_id', 'tp.node_id', 'tp.error') as Promise<{ target_id: number; node_id: number; error: string }[]>;
+      return q.orderBy(['t.position', 't.id', 'n.code']).select('tp.target_id', 'tp.node_id', 'tp.error') as Promise<
+        { target_id: number; node_id: number; error: string }[]
+      >;
     },
   ] as const);
   return {
@@ -283,7 +320,12 @@ export async function listStoredPlans(
 }
 
 /** Every explained number of one stored plan, or undefined when there is none (not computed, or an error row). */
-export async function findPlanExplanation(db: Knex, proposalId: number, targetId: number, nodeId: number): Promise<PlanExplanation | undefined> {
+export async function findPlanExplanation(
+  db: Knex,
+  proposalId: number,
+  targetId: number,
+  nodeId: number,
+): Promise<PlanExplanation | undefined> {
   const row = await db('target_plans as tp')
     .join('targets as t', 't.id', 'tp.target_id')
     .join('nodes as n', 'n.id', 'tp.node_id')
@@ -326,16 +368,27 @@ export async function nodeRequestTotals(db: Knex, proposalId: number): Promise<N
       // Shown apart from the request, so that the team sees what the infeasible targets would cost.
       db.raw('coalesce(sum(tp.node_hours) FILTER (WHERE NOT tp.feasible), 0) AS infeasible_node_hours'),
     );
-  return rows.map((r: { node_id: number; code: string; currency: string; node_hours: number; fee_minor: number; targets: number; infeasible: number; infeasible_node_hours: number }) => ({
-    nodeId: r.node_id,
-    nodeCode: r.code,
-    nodeHours: Math.round(r.node_hours * 100) / 100,
-    feeMinor: r.fee_minor,
-    currency: r.currency,
-    targets: r.targets,
-    infeasibleTargets: r.infeasible,
-    infeasibleNodeHours: Math.round(r.infeasible_node_hours * 100) / 100,
-  }));
+  return rows.map(
+    (r: {
+      node_id: number;
+      code: string;
+      currency: string;
+      node_hours: number;
+      fee_minor: number;
+      targets: number;
+      infeasible: number;
+      infeasible_node_hours: number;
+    }) => ({
+      nodeId: r.node_id,
+      nodeCode: r.code,
+      nodeHours: Math.round(r.node_hours * 100) / 100,
+      feeMinor: r.fee_minor,
+      currency: r.currency,
+      targets: r.targets,
+      infeasibleTargets: r.infeasible,
+      infeasibleNodeHours: Math.round(r.infeasible_node_hours * 100) / 100,
+    }),
+  );
 }
 
 /** How many stored plans of the proposal are errors. */

@@ -1,7 +1,14 @@
 import { PLAN_TABLE_QUANTITIES } from '@spincycle/shared/proposals/plan-types';
 import { startPlanWorker } from '../../../jobs/plan-worker';
 import { startHarness, type Harness } from '../../../../../test/support/api-harness';
-import { createTestNetwork, CSV_HEADER, proposerWithDraft, target, uploadFile, type TestNetwork } from '../../../../../test/api/support/proposal-kit';
+import {
+  createTestNetwork,
+  CSV_HEADER,
+  proposerWithDraft,
+  target,
+  uploadFile,
+  type TestNetwork,
+} from '../../../../../test/api/support/proposal-kit';
 import { computeAndStoreProposalPlans, PROGRESS_EVERY_TARGETS } from './plan-service';
 
 let h: Harness;
@@ -16,15 +23,39 @@ afterAll(async () => {
 });
 
 const TARGET_PLAN_ROW_KEYS = [
-  'targetId', 'targetName', 'nodeId', 'nodeCode', 'feasible', 'reasons', 'suggestions', 'skyVerdict', 'periodDays', 'shortestPeriodDays',
-  'longestPeriodDays', 'amplitudePpm', 'perVisitPrecisionPpm', 'exposureSeconds', 'visits', 'completeness', 'visitsPerNight', 'cadenceDays', 'baselineDays',
-  'usableNights', 'nodeHours', 'feeMinor', 'currency', 'why', 'flags', 'relationLabel',
+  'targetId',
+  'targetName',
+  'nodeId',
+  'nodeCode',
+  'feasible',
+  'reasons',
+  'suggestions',
+  'skyVerdict',
+  'periodDays',
+  'shortestPeriodDays',
+  'longestPeriodDays',
+  'amplitudePpm',
+  'perVisitPrecisionPpm',
+  'exposureSeconds',
+  'visits',
+  'completeness',
+  'visitsPerNight',
+  'cadenceDays',
+  'baselineDays',
+  'usableNights',
+  'nodeHours',
+  'feeMinor',
+  'currency',
+  'why',
+  'flags',
+  'relationLabel',
 ].sort();
 
 async function draftWithTargets(names: string[], nodeIds = [net.nodeIds[0], net.nodeIds[2]], extra: Parameters<typeof target>[0] = {}) {
   const d = await proposerWithDraft(h, net.cycleId, 'Plans');
   expect((await d.browser.patch(`/api/proposals/${d.proposal.id}`, { version: 1, nodeIds })).status).toBe(200);
-  for (const name of names) expect((await d.browser.post(`/api/proposals/${d.proposal.id}/targets`, target({ name, ...extra }))).status).toBe(201);
+  for (const name of names)
+    expect((await d.browser.post(`/api/proposals/${d.proposal.id}/targets`, target({ name, ...extra }))).status).toBe(201);
   return d;
 }
 
@@ -38,13 +69,38 @@ describe('plan service called in-process', () => {
 
     const res = await browser.get(`/api/proposals/${proposal.id}/plans`);
     expect(res.status).toBe(200);
-    expect(res.body.run).toEqual({ state: 'idle', total: 3, done: 3, startedAt: expect.any(String), finishedAt: expect.any(String), error: null, current: true });
+    expect(res.body.run).toEqual({
+      state: 'idle',
+      total: 3,
+      done: 3,
+      startedAt: expect.any(String),
+      finishedAt: expect.any(String),
+      error: null,
+      current: true,
+    });
     expect(res.body.errors).toEqual([]);
     expect(res.body.plans).toHaveLength(6);
     const first = res.body.plans[0];
     expect(Object.keys(first).sort()).toEqual(TARGET_PLAN_ROW_KEYS);
-    expect(first).toMatchObject({ targetName: 'Star P-1', currency: 'eur', relationLabel: expect.any(String), skyVerdict: expect.stringMatching(/\d+ of 60 nights can hold the/) });
-    for (const key of ['periodDays', 'shortestPeriodDays', 'longestPeriodDays', 'amplitudePpm', 'perVisitPrecisionPpm', 'exposureSeconds', 'visits', 'visitsPerNight', 'cadenceDays', 'baselineDays', 'nodeHours']) {
+    expect(first).toMatchObject({
+      targetName: 'Star P-1',
+      currency: 'eur',
+      relationLabel: expect.any(String),
+      skyVerdict: expect.stringMatching(/\d+ of 60 nights can hold the/),
+    });
+    for (const key of [
+      'periodDays',
+      'shortestPeriodDays',
+      'longestPeriodDays',
+      'amplitudePpm',
+      'perVisitPrecisionPpm',
+      'exposureSeconds',
+      'visits',
+      'visitsPerNight',
+      'cadenceDays',
+      'baselineDays',
+      'nodeHours',
+    ]) {
       expect(Number.isFinite(first[key]) && first[key] > 0).toBe(true);
     }
     expect(Number.isInteger(first.feeMinor)).toBe(true);
@@ -54,26 +110,51 @@ describe('plan service called in-process', () => {
     expect(Object.keys(first.why).sort()).toEqual([...PLAN_TABLE_QUANTITIES].sort());
     const explained = await browser.get(`/api/proposals/${proposal.id}/targets/${first.targetId}/plan?nodeId=${first.nodeId}`);
     expect(explained.status).toBe(200);
-    expect(explained.body).toMatchObject({ targetId: first.targetId, nodeId: first.nodeId, targetName: 'Star P-1', currency: 'eur', relationLabel: first.relationLabel });
-    expect(explained.body.quantities.periodDays).toEqual({ value: first.periodDays, unit: 'd', why: first.why.periodDays, source: expect.any(String), tag: expect.any(String) });
+    expect(explained.body).toMatchObject({
+      targetId: first.targetId,
+      nodeId: first.nodeId,
+      targetName: 'Star P-1',
+      currency: 'eur',
+      relationLabel: first.relationLabel,
+    });
+    expect(explained.body.quantities.periodDays).toEqual({
+      value: first.periodDays,
+      unit: 'd',
+      why: first.why.periodDays,
+      source: expect.any(String),
+      tag: expect.any(String),
+    });
     expect(explained.body.quantities.nodeHours.value).toBe(first.nodeHours);
     expect(Object.keys(explained.body.quantities).length).toBeGreaterThan(30);
     // Not computed (another node of the cycle, not requested) → 404.
     expect((await browser.get(`/api/proposals/${proposal.id}/targets/${first.targetId}/plan?nodeId=${net.nodeIds[1]}`)).status).toBe(404);
     // Ordered by list position, then node code.
-    expect(res.body.plans.map((p: { targetName: string }) => p.targetName)).toEqual(['Star P-1', 'Star P-1', 'Star P-2', 'Star P-2', 'Star P-3', 'Star P-3']);
+    expect(res.body.plans.map((p: { targetName: string }) => p.targetName)).toEqual([
+      'Star P-1',
+      'Star P-1',
+      'Star P-2',
+      'Star P-2',
+      'Star P-3',
+      'Star P-3',
+    ]);
 
     // The proposal's request sums the plans per node.
     const proposalBody = (await browser.get(`/api/proposals/${proposal.id}`)).body;
     for (const r of proposalBody.request) {
       const onNode = res.body.plans.filter((p: { nodeId: number }) => p.nodeId === r.nodeId);
       expect(r.targets).toBe(3);
-      expect(r.nodeHours).toBeCloseTo(onNode.reduce((s: number, p: { nodeHours: number }) => s + p.nodeHours, 0), 6);
+      expect(r.nodeHours).toBeCloseTo(
+        onNode.reduce((s: number, p: { nodeHours: number }) => s + p.nodeHours, 0),
+        6,
+      );
       expect(r.feeMinor).toBe(onNode.reduce((s: number, p: { feeMinor: number }) => s + p.feeMinor, 0));
       expect(r.infeasibleTargets).toBe(onNode.filter((p: { feasible: boolean }) => !p.feasible).length);
     }
     const summary = (await browser.get('/api/proposals')).body[0];
-    expect(summary.requestedNodeHours).toBeCloseTo(proposalBody.request.reduce((s: number, r: { nodeHours: number }) => s + r.nodeHours, 0), 6);
+    expect(summary.requestedNodeHours).toBeCloseTo(
+      proposalBody.request.reduce((s: number, r: { nodeHours: number }) => s + r.nodeHours, 0),
+      6,
+    );
   });
 
   it('stores a target the science core refuses as an error row, not a failed run', async () => {
@@ -85,7 +166,11 @@ describe('plan service called in-process', () => {
     expect(res.run).toMatchObject({ state: 'idle', current: true, error: null });
     expect(res.plans.map((p: { targetName: string }) => p.targetName)).toEqual(['Star P-ok', 'Star P-ok']);
     expect(res.errors).toEqual([
-      { targetId: expect.any(Number), nodeId: expect.any(Number), message: expect.stringMatching(/^target\.colour\.value: BP−RP 5\.5 is outside all supported relations/) },
+      {
+        targetId: expect.any(Number),
+        nodeId: expect.any(Number),
+        message: expect.stringMatching(/^target\.colour\.value: BP−RP 5\.5 is outside all supported relations/),
+      },
       expect.objectContaining({ message: expect.stringContaining('BP−RP 5.5') }),
     ]);
     const readiness = (await browser.get(`/api/proposals/${proposal.id}/readiness`)).body;
@@ -96,12 +181,18 @@ describe('plan service called in-process', () => {
     const { browser, proposal } = await draftWithTargets(['Star P-4']);
     await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
     const [t] = (await browser.get(`/api/proposals/${proposal.id}/targets`)).body;
-    await browser.put(`/api/proposals/${proposal.id}/targets/${t.id}`, { version: t.version, target: target({ name: 'Star P-4', ageMyr: 2000 }) });
+    await browser.put(`/api/proposals/${proposal.id}/targets/${t.id}`, {
+      version: t.version,
+      target: target({ name: 'Star P-4', ageMyr: 2000 }),
+    });
     expect((await browser.get(`/api/proposals/${proposal.id}/plans`)).body.run).toMatchObject({ state: 'queued', current: false });
     // Renaming changes no number: the stored plans stay current.
     await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
     const [t2] = (await browser.get(`/api/proposals/${proposal.id}/targets`)).body;
-    await browser.put(`/api/proposals/${proposal.id}/targets/${t2.id}`, { version: t2.version, target: target({ name: 'Star P-4 renamed', ageMyr: 2000 }) });
+    await browser.put(`/api/proposals/${proposal.id}/targets/${t2.id}`, {
+      version: t2.version,
+      target: target({ name: 'Star P-4 renamed', ageMyr: 2000 }),
+    });
     expect((await browser.get(`/api/proposals/${proposal.id}/plans`)).body.run.current).toBe(true);
   });
 
@@ -195,8 +286,18 @@ describe('the plan job through pg-boss', () => {
       const count = PROGRESS_EVERY_TARGETS * 2 + 5;
       const { browser, proposal } = await proposerWithDraft(app, net.cycleId, 'Queued plans');
       expect((await browser.patch(`/api/proposals/${proposal.id}`, { version: 1, nodeIds: net.nodeIds })).status).toBe(200);
-      const lines = Array.from({ length: count }, (_, i) => `Star Q-${i + 1},${(150 + i * 0.3).toFixed(2)},${(20 + (i % 30)).toFixed(1)},${(10 + (i % 6)).toFixed(1)},V,${(0.7 + (i % 15) * 0.12).toFixed(2)},BPRP,,650,60,,,,`);
-      const up = await uploadFile(browser, 'post', `/api/proposals/${proposal.id}/targets/upload`, [CSV_HEADER, ...lines].join('\n'), 'q.csv');
+      const lines = Array.from(
+        { length: count },
+        (_, i) =>
+          `Star Q-${i + 1},${(150 + i * 0.3).toFixed(2)},${(20 + (i % 30)).toFixed(1)},${(10 + (i % 6)).toFixed(1)},V,${(0.7 + (i % 15) * 0.12).toFixed(2)},BPRP,,650,60,,,,`,
+      );
+      const up = await uploadFile(
+        browser,
+        'post',
+        `/api/proposals/${proposal.id}/targets/upload`,
+        [CSV_HEADER, ...lines].join('\n'),
+        'q.csv',
+      );
       expect(up.status).toBe(200);
 
       const seen = new Set<string>();
@@ -215,12 +316,19 @@ describe('the plan job through pg-boss', () => {
       expect(plans.plans).toHaveLength(count * 3);
       expect(plans.matched).toBe(count * 3);
       // The worker stored each row's summary beside its explained result.
-      const stored = await app.created.ctx.db('target_plans').where({ proposal_id: proposal.id }).whereNull('summary').count<{ n: string }[]>({ n: '*' });
+      const stored = await app.created.ctx
+        .db('target_plans')
+        .where({ proposal_id: proposal.id })
+        .whereNull('summary')
+        .count<{ n: string }[]>({ n: '*' });
       expect(Number(stored[0].n)).toBe(0);
       expect(seen.has('queued') || seen.has('running')).toBe(true);
 
       // pg-boss recorded a completed job for this proposal.
-      const rows = await app.created.ctx.db.raw('SELECT state FROM pgboss.job WHERE name = ? AND singleton_key = ?', [queue, String(proposal.id)]);
+      const rows = await app.created.ctx.db.raw('SELECT state FROM pgboss.job WHERE name = ? AND singleton_key = ?', [
+        queue,
+        String(proposal.id),
+      ]);
       expect(rows.rows.map((r: { state: string }) => r.state)).toContain('completed');
     } finally {
       await worker.stop(5000);

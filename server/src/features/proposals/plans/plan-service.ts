@@ -56,7 +56,11 @@ export interface PlanComputationResult {
  * changed while it ran (a target edited meanwhile), the run ends `queued`, since that change
  * queued another job. Returns null when the proposal no longer exists.
  */
-export async function computeAndStoreProposalPlans(db: Knex, proposalId: number, options: { logger?: Logger } = {}): Promise<PlanComputationResult | null> {
+export async function computeAndStoreProposalPlans(
+  db: Knex,
+  proposalId: number,
+  options: { logger?: Logger } = {},
+): Promise<PlanComputationResult | null> {
   const inputs = await loadPlanInputs(db, proposalId);
   if (!inputs) return null;
   const inputsHash = planInputsHash(inputs);
@@ -84,13 +88,17 @@ export async function computeAndStoreProposalPlans(db: Knex, proposalId: number,
     const currentHash = planInputsHash(now!);
     const changed = currentHash !== inputsHash;
     await finishPlanRun(trx, proposalId, { inputsHash, total, state: changed ? 'queued' : 'idle' });
-    if (inputsVersion !== undefined) await storeCurrentInputsHash(trx, proposalId, { hash: currentHash, model: String(PLAN_MODEL_VERSION), inputsVersion });
+    if (inputsVersion !== undefined)
+      await storeCurrentInputsHash(trx, proposalId, { hash: currentHash, model: String(PLAN_MODEL_VERSION), inputsVersion });
     return true;
   });
   const writeMs = performance.now() - t1;
   if (!written) return null;
   const errors = rows.filter((r) => r.error !== undefined).length;
-  options.logger?.info({ proposalId, targets: total, nodes: inputs.nodes.length, errors, computeMs: Math.round(computeMs), writeMs: Math.round(writeMs) }, 'target plans stored');
+  options.logger?.info(
+    { proposalId, targets: total, nodes: inputs.nodes.length, errors, computeMs: Math.round(computeMs), writeMs: Math.round(writeMs) },
+    'target plans stored',
+  );
   return { proposalId, targets: total, nodes: inputs.nodes.length, plans: rows.length - errors, errors, computeMs, writeMs, inputsHash };
 }
 
@@ -103,7 +111,11 @@ export async function runPlanJob(db: Knex, proposalId: number, logger: Logger): 
     await computeAndStoreProposalPlans(db, proposalId, { logger });
   } catch (err) {
     logger.error({ err, proposalId }, 'plan computation failed');
-    await failPlanRun(db, proposalId, 'The plan computation failed unexpectedly; it has been logged. Ask for a recomputation, or contact the facility if it fails again.').catch(() => undefined);
+    await failPlanRun(
+      db,
+      proposalId,
+      'The plan computation failed unexpectedly; it has been logged. Ask for a recomputation, or contact the facility if it fails again.',
+    ).catch(() => undefined);
     throw err;
   }
 }
@@ -121,7 +133,11 @@ function toRunStatus(run: StoredPlanRun | undefined, currentHash: string): PlanR
  * completeness, campaign, node or site), else computed from the inputs and cached for the
  * next request. Only the first request after a change loads every target.
  */
-async function currentInputsHash(db: Knex, access: Pick<ProposalAccess, 'proposal' | 'cycle'>, run: StoredPlanRun | undefined): Promise<string> {
+async function currentInputsHash(
+  db: Knex,
+  access: Pick<ProposalAccess, 'proposal' | 'cycle'>,
+  run: StoredPlanRun | undefined,
+): Promise<string> {
   const model = String(PLAN_MODEL_VERSION);
   if (run?.currentHash && run.currentHashModel === model) return run.currentHash;
   // `run` was read before the inputs: storeCurrentInputsHash skips the write if they changed since.
@@ -158,7 +174,10 @@ export async function getProposalPlans(
     () => listPlanPageJson(ctx.db, id, query),
     () => planCountsAndErrors(ctx.db, id, query.nodeId),
   ] as const);
-  return { head: { run, page: query.page, pageSize: query.pageSize, matched: page.matched, counts: totals.counts, errors: totals.errors }, plansJson: page.rowsJson };
+  return {
+    head: { run, page: query.page, pageSize: query.pageSize, matched: page.matched, counts: totals.counts, errors: totals.errors },
+    plansJson: page.rowsJson,
+  };
 }
 
 /** GET /api/proposals/:id/plans/markers (team members): every plan as a chart marker, unpaged. */
@@ -180,7 +199,13 @@ export async function recomputeProposalPlans(ctx: AppContext, viewer: SessionUse
 }
 
 /** GET /api/proposals/:id/targets/:targetId/plan?nodeId=N: every number of the stored plan, explained. */
-export async function getPlanExplanation(ctx: AppContext, viewer: SessionUser, id: number, targetId: number, nodeId: number): Promise<PlanExplanation> {
+export async function getPlanExplanation(
+  ctx: AppContext,
+  viewer: SessionUser,
+  id: number,
+  targetId: number,
+  nodeId: number,
+): Promise<PlanExplanation> {
   await accessProposal(ctx.db, viewer, id);
   const explanation = await findPlanExplanation(ctx.db, id, targetId, nodeId);
   if (!explanation) throw new AppError('plan_not_found', `No computed plan of target ${targetId} on node ${nodeId} in proposal ${id}`, 404);
@@ -193,7 +218,13 @@ export async function getPlanExplanation(ctx: AppContext, viewer: SessionUser, i
  * the cycle (to compare before requesting it). When the target can be planned on it, the
  * report carries the assessment of the plan's cadence against the windows.
  */
-export async function getTargetSky(ctx: AppContext, viewer: SessionUser, id: number, targetId: number, nodeId: number): Promise<SkyWindowsReport> {
+export async function getTargetSky(
+  ctx: AppContext,
+  viewer: SessionUser,
+  id: number,
+  targetId: number,
+  nodeId: number,
+): Promise<SkyWindowsReport> {
   const { cycle, proposal } = await accessProposal(ctx.db, viewer, id);
   const target = await findTarget(ctx.db, id, targetId);
   if (!target) throw new AppError('target_not_found', `No target ${targetId} in proposal ${id}`, 404);

@@ -38,7 +38,13 @@ describe('GET /api/proposals/:id/readiness', () => {
     const res = await browser.get(`/api/proposals/${proposal.id}/readiness`);
     expect(res.status).toBe(200);
     expect(res.body.ready).toBe(false);
-    expect(res.body.problems.map((p: { field: string }) => p.field)).toEqual(['abstract', 'category', 'nodeIds', 'targets', 'justification']);
+    expect(res.body.problems.map((p: { field: string }) => p.field)).toEqual([
+      'abstract',
+      'category',
+      'nodeIds',
+      'targets',
+      'justification',
+    ]);
     expect(res.body.problems[0].message).toMatch(/at least 100 characters \(it has 0\)/);
     expect(res.body.warnings).toEqual([]);
   });
@@ -62,7 +68,7 @@ describe('GET /api/proposals/:id/readiness', () => {
   });
 });
 
-describe('readiness against the cycle\'s capacity', () => {
+describe("readiness against the cycle's capacity", () => {
   /** A ready draft on node 0 of a fresh cycle whose capacity there is below the draft's request. */
   async function overCapacity(rule?: 'warn' | 'block') {
     const cycle = await net.createCycle({ closesInMs: 3 * 86400_000 });
@@ -80,7 +86,10 @@ describe('readiness against the cycle\'s capacity', () => {
     const res = (await browser.get(`/api/proposals/${id}/readiness`)).body;
     expect(res).toMatchObject({ ready: true, problems: [] });
     expect(res.warnings.filter((w: { field: string }) => w.field === 'request')).toEqual([
-      { field: 'request', message: `${Math.round(requested * 100) / 100} node-hours are requested on ${net.nodes[0].code}, more than the ${capacity} the cycle offers there; it can be submitted, and the panel sees the overrun` },
+      {
+        field: 'request',
+        message: `${Math.round(requested * 100) / 100} node-hours are requested on ${net.nodes[0].code}, more than the ${capacity} the cycle offers there; it can be submitted, and the panel sees the overrun`,
+      },
     ]);
     expect((await browser.post(`/api/proposals/${id}/submit`)).status).toBe(200);
   });
@@ -89,7 +98,12 @@ describe('readiness against the cycle\'s capacity', () => {
     const { browser, id } = await overCapacity('block');
     const res = (await browser.get(`/api/proposals/${id}/readiness`)).body;
     expect(res.ready).toBe(false);
-    expect(res.problems).toEqual([{ field: 'request', message: expect.stringMatching(/^[\d.]+ node-hours are requested on .*; this cycle accepts no request above a node's capacity/) }]);
+    expect(res.problems).toEqual([
+      {
+        field: 'request',
+        message: expect.stringMatching(/^[\d.]+ node-hours are requested on .*; this cycle accepts no request above a node's capacity/),
+      },
+    ]);
     const submit = await browser.post(`/api/proposals/${id}/submit`);
     expect(submit.status).toBe(422);
     expect(submit.body).toMatchObject({ code: 'not_ready', fieldErrors: { request: [expect.any(String)] } });
@@ -103,13 +117,16 @@ describe('readiness against the cycle\'s capacity', () => {
     expect(res.warnings.filter((w: { field: string }) => w.field === 'request')).toEqual([]);
   });
 
-  it('the proposal\'s request shows the infeasible plans\' node-hours apart from the requested ones', async () => {
+  it("the proposal's request shows the infeasible plans' node-hours apart from the requested ones", async () => {
     const { browser, proposal } = await proposerWithDraft(h, net.cycleId);
     await makeReady(h, browser, proposal.id, [net.nodeIds[0]], [target(), target({ decDeg: -80, raDeg: 90 })]);
     const [r] = (await browser.get(`/api/proposals/${proposal.id}`)).body.request;
     expect(r.infeasibleTargets).toBe(1);
     expect(r.infeasibleNodeHours).toBeGreaterThan(0);
-    const plans = (await h.created.ctx.db('target_plans').where({ proposal_id: proposal.id, node_id: net.nodeIds[0] }).select('node_hours', 'feasible')) as { node_hours: number; feasible: boolean }[];
+    const plans = (await h.created.ctx
+      .db('target_plans')
+      .where({ proposal_id: proposal.id, node_id: net.nodeIds[0] })
+      .select('node_hours', 'feasible')) as { node_hours: number; feasible: boolean }[];
     const sum = (feasible: boolean) => plans.filter((p) => p.feasible === feasible).reduce((s, p) => s + p.node_hours, 0);
     expect(r.nodeHours).toBeCloseTo(sum(true), 2);
     expect(r.infeasibleNodeHours).toBeCloseTo(sum(false), 2);
@@ -234,7 +251,10 @@ describe('POST /api/proposals/:id/submit', () => {
     setClock(cycle.callClosesAt.getTime());
     const late = await pi.post(`/api/proposals/${proposal.id}/withdraw`);
     expect(late.status).toBe(422);
-    expect(late.body).toMatchObject({ code: 'call_closed', message: expect.stringMatching(/closed at .* UTC; the proposal can no longer be withdrawn$/) });
+    expect(late.body).toMatchObject({
+      code: 'call_closed',
+      message: expect.stringMatching(/closed at .* UTC; the proposal can no longer be withdrawn$/),
+    });
   });
 });
 
@@ -270,7 +290,9 @@ function pdfTextRuns(pdf: Buffer): TextRun[] {
   for (const kid of kids) {
     const page = objects.get(kid) ?? '';
     const resources = /\/Resources <</.test(page) ? page : (objects.get(ref(page, 'Resources')) ?? '');
-    const fonts = new Map([...(/\/Font <<([\s\S]*?)>>/.exec(resources)?.[1] ?? '').matchAll(/\/(\w+) (\d+) 0 R/g)].map((f) => [f[1], f[2]]));
+    const fonts = new Map(
+      [...(/\/Font <<([\s\S]*?)>>/.exec(resources)?.[1] ?? '').matchAll(/\/(\w+) (\d+) 0 R/g)].map((f) => [f[1], f[2]]),
+    );
     const content = /stream\r?\n([\s\S]*?)\r?\nendstream/.exec(objects.get(ref(page, 'Contents')) ?? '')?.[1] ?? '';
     let font = '';
     let size = 0;
@@ -320,14 +342,22 @@ describe('GET /api/proposals/:id/summary.pdf', () => {
   it('any member downloads a PDF that shows the title, the team and the target names', async () => {
     const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId, 'Printable summary');
     const coi = await addCoInvestigator(h, pi, proposal.id);
-    await makeReady(h, pi, proposal.id, [net.nodeIds[0], net.nodeIds[2]], [target({ name: 'Star Print-1' }), target({ name: 'Star Print-2', raDeg: 10.5, decDeg: -45.25 })]);
+    await makeReady(
+      h,
+      pi,
+      proposal.id,
+      [net.nodeIds[0], net.nodeIds[2]],
+      [target({ name: 'Star Print-1' }), target({ name: 'Star Print-2', raDeg: 10.5, decDeg: -45.25 })],
+    );
     const res = await coi.browser.get(`/api/proposals/${proposal.id}/summary.pdf`).buffer(true).parse(binaryBody);
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('application/pdf');
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename="?proposal-\d+-summary\.pdf"?$/);
     const pdf = res.body as Buffer;
     expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
-    const texts = pdfTextRuns(pdf).map((r) => r.text).join('\n');
+    const texts = pdfTextRuns(pdf)
+      .map((r) => r.text)
+      .join('\n');
     expect(texts).toContain('Printable summary');
     expect(texts).toContain('Star Print-1');
     expect(texts).toContain('00:42:00.0');
@@ -340,7 +370,13 @@ describe('GET /api/proposals/:id/summary.pdf', () => {
 
   it('submitted: the state line says it once with its date; no word is doubled and every heading word is whole', async () => {
     const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId, 'Printed once');
-    await makeReady(h, pi, proposal.id, [net.nodeIds[0], net.nodeIds[2]], [target({ name: 'Star Whole-1' }), target({ name: 'Star Whole-2', raDeg: 10.5, decDeg: -45.25 })]);
+    await makeReady(
+      h,
+      pi,
+      proposal.id,
+      [net.nodeIds[0], net.nodeIds[2]],
+      [target({ name: 'Star Whole-1' }), target({ name: 'Star Whole-2', raDeg: 10.5, decDeg: -45.25 })],
+    );
     expect((await pi.post(`/api/proposals/${proposal.id}/submit`)).status).toBe(200);
     const res = await pi.get(`/api/proposals/${proposal.id}/summary.pdf`).buffer(true).parse(binaryBody);
     expect(res.status).toBe(200);

@@ -46,22 +46,32 @@ async function checkReadiness(db: Knex, access: ProposalAccess): Promise<Submiss
   const abstractLength = proposal.abstract.trim().length;
   if (!proposal.title.trim()) problems.push({ field: 'title', message: 'give the proposal a title' });
   if (abstractLength < MIN_ABSTRACT_CHARACTERS) {
-    problems.push({ field: 'abstract', message: `write an abstract of at least ${MIN_ABSTRACT_CHARACTERS} characters (it has ${abstractLength})` });
+    problems.push({
+      field: 'abstract',
+      message: `write an abstract of at least ${MIN_ABSTRACT_CHARACTERS} characters (it has ${abstractLength})`,
+    });
   }
   if (!proposal.category) problems.push({ field: 'category', message: 'choose a science category' });
-  else if (!cycle.categories.includes(proposal.category)) problems.push({ field: 'category', message: `choose one of the cycle's categories: ${cycle.categories.join('; ')}` });
+  else if (!cycle.categories.includes(proposal.category))
+    problems.push({ field: 'category', message: `choose one of the cycle's categories: ${cycle.categories.join('; ')}` });
   if (!nodeIds.length) problems.push({ field: 'nodeIds', message: 'request at least one node' });
   if (!targetCount) problems.push({ field: 'targets', message: 'add at least one target' });
   if (!justification) problems.push({ field: 'justification', message: 'upload the justification PDF' });
   if (nodeIds.length && targetCount) {
     if (run.state === 'queued' || run.state === 'running') {
-      problems.push({ field: 'plans', message: `the target plans are being computed (${run.done} of ${run.total} targets); submit once they are ready` });
+      problems.push({
+        field: 'plans',
+        message: `the target plans are being computed (${run.done} of ${run.total} targets); submit once they are ready`,
+      });
     } else if (run.state === 'failed') {
       problems.push({ field: 'plans', message: 'the plan computation failed: ask for a recomputation' });
     } else if (!run.current) {
       problems.push({ field: 'plans', message: 'the target plans are out of date: recompute them' });
     } else if (planErrors) {
-      problems.push({ field: 'plans', message: `${planErrors} target plan${planErrors > 1 ? 's' : ''} could not be computed from their input: fix those targets (see the plans)` });
+      problems.push({
+        field: 'plans',
+        message: `${planErrors} target plan${planErrors > 1 ? 's' : ''} could not be computed from their input: fix those targets (see the plans)`,
+      });
     }
   }
   const offered = new Map(capacity.map((n) => [n.nodeId, n.nodeHoursAvailable]));
@@ -70,7 +80,10 @@ async function checkReadiness(db: Knex, access: ProposalAccess): Promise<Submiss
     if (available === undefined || r.nodeHours <= available) continue;
     const over = `${hours(r.nodeHours)} node-hours are requested on ${r.nodeCode}, more than the ${hours(available)} the cycle offers there`;
     if (cycle.capacityOverrun === 'block') {
-      problems.push({ field: 'request', message: `${over}; this cycle accepts no request above a node's capacity: drop targets or visits on ${r.nodeCode}` });
+      problems.push({
+        field: 'request',
+        message: `${over}; this cycle accepts no request above a node's capacity: drop targets or visits on ${r.nodeCode}`,
+      });
     } else {
       warnings.push({ field: 'request', message: `${over}; it can be submitted, and the panel sees the overrun` });
     }
@@ -78,7 +91,10 @@ async function checkReadiness(db: Knex, access: ProposalAccess): Promise<Submiss
   const infeasible = request.reduce((n, r) => n + r.infeasibleTargets, 0);
   const planned = request.reduce((n, r) => n + r.targets, 0);
   if (infeasible) {
-    warnings.push({ field: 'plans', message: `${infeasible} of ${planned} target plans are infeasible as they stand (see the plans); they are submitted with the rest` });
+    warnings.push({
+      field: 'plans',
+      message: `${infeasible} of ${planned} target plans are infeasible as they stand (see the plans); they are submitted with the rest`,
+    });
   }
   return { ready: problems.length === 0, problems, warnings };
 }
@@ -108,7 +124,8 @@ export async function submitProposal(ctx: AppContext, viewer: SessionUser, id: n
     if (proposal.state !== 'draft') throw new AppError('not_editable', 'This proposal has been submitted already', 409);
     const status = callStatusAt(cycle, now);
     if (status === 'closed') throw callClosed(cycle.code, cycle.callClosesAt);
-    if (status === 'upcoming') throw new AppError('call_not_open', `The call for ${cycle.code} opens at ${formatUtc(cycle.callOpensAt)}`, 422);
+    if (status === 'upcoming')
+      throw new AppError('call_not_open', `The call for ${cycle.code} opens at ${formatUtc(cycle.callOpensAt)}`, 422);
     const check = await checkReadiness(trx, access);
     if (!check.ready) {
       const fieldErrors: Record<string, string[]> = {};
@@ -146,7 +163,8 @@ export async function withdrawProposal(ctx: AppContext, viewer: SessionUser, id:
     requirePi(access, 'withdraw the proposal');
     const { proposal, cycle } = access;
     if (proposal.state !== 'submitted') throw new AppError('not_submitted', 'Only a submitted proposal can be withdrawn', 409);
-    if (callStatusAt(cycle, ctx.now()) !== 'open') throw callClosed(cycle.code, cycle.callClosesAt, '; the proposal can no longer be withdrawn');
+    if (callStatusAt(cycle, ctx.now()) !== 'open')
+      throw callClosed(cycle.code, cycle.callClosesAt, '; the proposal can no longer be withdrawn');
     await setProposalState(trx, id, 'draft', null);
   });
   return getProposal(ctx, viewer, id);
@@ -163,7 +181,13 @@ export async function proposalSummaryPdf(ctx: AppContext, viewer: SessionUser, i
   ]);
   const requested = new Set(proposal.nodeIds);
   const pdf = await renderProposalSummaryPdf(
-    { proposal, targets: targets.map(toTargetRow), plans: stored.plans.filter((p) => requested.has(p.nodeId)), plansCurrent: run.current, generatedAt: ctx.now() },
+    {
+      proposal,
+      targets: targets.map(toTargetRow),
+      plans: stored.plans.filter((p) => requested.has(p.nodeId)),
+      plansCurrent: run.current,
+      generatedAt: ctx.now(),
+    },
     // Uncompressed under test, so that the content can be searched.
     { compress: ctx.config.NODE_ENV !== 'test' },
   );

@@ -10,7 +10,14 @@ describe('readTargetCsv', () => {
     expect(rows).toHaveLength(9);
     expect(rows[0]).toEqual({
       row: 1,
-      values: expect.objectContaining({ name: 'Lantern 12', colourSystem: 'BPRP', reddeningEbv: 0.02, periodPrecisionDays: null, periodDays: null, periodUncertaintyDays: null }),
+      values: expect.objectContaining({
+        name: 'Lantern 12',
+        colourSystem: 'BPRP',
+        reddeningEbv: 0.02,
+        periodPrecisionDays: null,
+        periodDays: null,
+        periodUncertaintyDays: null,
+      }),
     });
     expect(rows[3].values).toMatchObject({ name: 'Lantern 58', periodDays: 0.62, periodUncertaintyDays: 0.05 });
     expect(rows[2].values.raDeg).toBeCloseTo(163.508333, 5);
@@ -19,14 +26,22 @@ describe('readTargetCsv', () => {
   });
 
   it('accepts a tab-separated file and header names with spaces or capitals', () => {
-    const text = [HEADER.replace('colour_system', 'Colour System').replace(/,/g, '\t'), 'Star T-1\t10\t-10\t11\tv\t0.7\tbv\t\t900\t\t\t\t\t'].join('\n');
+    const text = [
+      HEADER.replace('colour_system', 'Colour System').replace(/,/g, '\t'),
+      'Star T-1\t10\t-10\t11\tv\t0.7\tbv\t\t900\t\t\t\t\t',
+    ].join('\n');
     const { rows, errors } = readTargetCsv(text);
     expect(errors).toEqual([]);
     expect(rows[0].values).toMatchObject({ name: 'Star T-1', magnitudeBand: 'V', colourSystem: 'BV', decDeg: -10 });
   });
 
   it('reports every problem of a row with its column, and a name listed twice at its second row', () => {
-    const text = [HEADER, 'Star A,10,100,x,V,1,BPRP,,0,,,,,', 'Star B,10,10,11,V,1,BPRP,,500,,,,,', 'star a,10,10,11,V,1,BPRP,,500,,,,,'].join('\n');
+    const text = [
+      HEADER,
+      'Star A,10,100,x,V,1,BPRP,,0,,,,,',
+      'Star B,10,10,11,V,1,BPRP,,500,,,,,',
+      'star a,10,10,11,V,1,BPRP,,500,,,,,',
+    ].join('\n');
     const { rows, errors } = readTargetCsv(text);
     expect(rows.map((r) => r.values.name)).toEqual(['Star B']);
     expect(errors).toEqual([
@@ -62,7 +77,12 @@ describe('readTargetCsv', () => {
     expect(errors).toEqual([]);
     expect(rows).toHaveLength(2);
     expect(notes).toEqual([
-      { row: 1, field: 'colour', message: 'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.' },
+      {
+        row: 1,
+        field: 'colour',
+        message:
+          'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.',
+      },
     ]);
     expect(readTargetCsv(EXAMPLE_TARGET_CSV).notes).toEqual([]);
   });
@@ -70,7 +90,9 @@ describe('readTargetCsv', () => {
   it('refuses a file without rows, with too many rows, or without its required columns', () => {
     expect(() => readTargetCsv('  \n ')).toThrow(AppError);
     expect(() => readTargetCsv(`${HEADER}\n`)).toThrow(/header row but no targets/);
-    expect(() => readTargetCsv([HEADER, 'a,1,1,1,V,1,BV,,1,,,,,', 'b,1,1,1,V,1,BV,,1,,,,,'].join('\n'), 1)).toThrow(/The list has more than 1 targets; a proposal holds at most 1/);
+    expect(() => readTargetCsv([HEADER, 'a,1,1,1,V,1,BV,,1,,,,,', 'b,1,1,1,V,1,BV,,1,,,,,'].join('\n'), 1)).toThrow(
+      /The list has more than 1 targets; a proposal holds at most 1/,
+    );
     expect(() => readTargetCsv('name,ra,dec\nx,1,1')).toThrow(/missing required columns magnitude, band, colour, colour_system, age_myr/);
   });
 });
@@ -78,10 +100,18 @@ describe('readTargetCsv', () => {
 describe('readTargetCsvStream', () => {
   it('reads a list like readTargetCsv: the example, a semicolon file, every row problem', async () => {
     expect(await readTargetCsvStream(EXAMPLE_TARGET_CSV)).toEqual(readTargetCsv(EXAMPLE_TARGET_CSV));
-    const semicolons = [HEADER.replace(/,/g, ';'), 'Star S-1;10;-10;11;V;0.7;BV;;900;;;;;', 'Star S-2;10;100;11;V;0.7;BV;;900;;;;;'].join('\r\n');
+    const semicolons = [HEADER.replace(/,/g, ';'), 'Star S-1;10;-10;11;V;0.7;BV;;900;;;;;', 'Star S-2;10;100;11;V;0.7;BV;;900;;;;;'].join(
+      '\r\n',
+    );
     expect(await readTargetCsvStream(semicolons)).toEqual(readTargetCsv(semicolons));
     // Many rows: several parser chunks and yields.
-    const many = [HEADER, ...Array.from({ length: 1500 }, (_, i) => `Star M-${i + 1},${(i * 0.2) % 360},${i % 2 ? '' : '-'}12.5,11,V,0.7,BV,,900,,,,,${'n'.repeat(i % 300)}`)].join('\n');
+    const many = [
+      HEADER,
+      ...Array.from(
+        { length: 1500 },
+        (_, i) => `Star M-${i + 1},${(i * 0.2) % 360},${i % 2 ? '' : '-'}12.5,11,V,0.7,BV,,900,,,,,${'n'.repeat(i % 300)}`,
+      ),
+    ].join('\n');
     const streamed = await readTargetCsvStream(many);
     expect(streamed.rows).toHaveLength(1500);
     expect(streamed).toEqual(readTargetCsv(many));
@@ -91,14 +121,23 @@ describe('readTargetCsvStream', () => {
     // 300 kB of rows, then an unclosed quote: parsing that far would report the quote instead.
     const rows = Array.from({ length: 4000 }, (_, i) => `Star R-${i + 1},1,1,1,V,1,BV,,1,,,,,padding padding padding padding`);
     const text = [HEADER, ...rows, '"never closed,1,1'].join('\n');
-    await expect(readTargetCsvStream(text, 2)).rejects.toMatchObject({ status: 400, code: 'too_many_targets', message: 'The list has more than 2 targets; a proposal holds at most 2' });
-    await expect(readTargetCsvStream(text, 10_000)).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/^row 4001, columns: cannot be read: a quoted value is never closed/) });
+    await expect(readTargetCsvStream(text, 2)).rejects.toMatchObject({
+      status: 400,
+      code: 'too_many_targets',
+      message: 'The list has more than 2 targets; a proposal holds at most 2',
+    });
+    await expect(readTargetCsvStream(text, 10_000)).rejects.toMatchObject({
+      status: 400,
+      message: expect.stringMatching(/^row 4001, columns: cannot be read: a quoted value is never closed/),
+    });
   });
 
   it('refuses an empty file, a header without rows and an unreadable header like readTargetCsv', async () => {
     await expect(readTargetCsvStream('  \n ')).rejects.toMatchObject({ code: 'empty_target_list' });
     await expect(readTargetCsvStream(`${HEADER}\n,,,\n`)).rejects.toThrow(/header row but no targets/);
-    await expect(readTargetCsvStream('name,ra,dec\nx,1,1')).rejects.toThrow(/missing required columns magnitude, band, colour, colour_system, age_myr/);
+    await expect(readTargetCsvStream('name,ra,dec\nx,1,1')).rejects.toThrow(
+      /missing required columns magnitude, band, colour, colour_system, age_myr/,
+    );
   });
 });
 
@@ -115,8 +154,38 @@ describe('escapeFormulaCell and writeTargetCsv', () => {
     for (const s of ['=1+1', '+1', '-1', '@SUM(A1)', '\tx', '\rx']) expect(escapeFormulaCell(s)).toBe(`'${s}`);
     expect(escapeFormulaCell('Star 1 = bright')).toBe('Star 1 = bright');
     const csv = writeTargetCsv([
-      { name: '-Star', raDeg: 1, decDeg: -5, magnitude: 10, magnitudeBand: 'V', colour: 0.6, colourSystem: 'BV', reddeningEbv: null, ageMyr: 100, ageUncertaintyMyr: null, periodPrecisionDays: null, periodDays: null, periodUncertaintyDays: null, notes: '' },
-      { name: 'Star M', raDeg: 2, decDeg: 5, magnitude: 14, magnitudeBand: 'G', colour: 3.1, colourSystem: 'BPRP', reddeningEbv: null, ageMyr: 800, ageUncertaintyMyr: null, periodPrecisionDays: null, periodDays: 0.5, periodUncertaintyDays: 0.02, notes: '' },
+      {
+        name: '-Star',
+        raDeg: 1,
+        decDeg: -5,
+        magnitude: 10,
+        magnitudeBand: 'V',
+        colour: 0.6,
+        colourSystem: 'BV',
+        reddeningEbv: null,
+        ageMyr: 100,
+        ageUncertaintyMyr: null,
+        periodPrecisionDays: null,
+        periodDays: null,
+        periodUncertaintyDays: null,
+        notes: '',
+      },
+      {
+        name: 'Star M',
+        raDeg: 2,
+        decDeg: 5,
+        magnitude: 14,
+        magnitudeBand: 'G',
+        colour: 3.1,
+        colourSystem: 'BPRP',
+        reddeningEbv: null,
+        ageMyr: 800,
+        ageUncertaintyMyr: null,
+        periodPrecisionDays: null,
+        periodDays: 0.5,
+        periodUncertaintyDays: 0.02,
+        notes: '',
+      },
     ]);
     expect(csv).toBe(`${HEADER}\r\n'-Star,1,-5,10,V,0.6,BV,,100,,,,,\r\nStar M,2,5,14,G,3.1,BPRP,,800,,,0.5,0.02,\r\n`);
   });

@@ -73,8 +73,12 @@ const wrongEncoding = (filename: string, what: string) =>
  * the line; a UTF-8 byte-order mark is dropped.
  */
 export function decodeCsvText(buffer: Buffer, filename: string): string {
-  if (buffer.length === 0) throw new AppError('empty_target_list', `“${filename}” is empty: the list needs a header row and at least one target`, 400, { file: ['the file is empty'] });
-  if ((buffer[0] === 0xff && buffer[1] === 0xfe) || (buffer[0] === 0xfe && buffer[1] === 0xff)) throw wrongEncoding(filename, 'it is UTF-16');
+  if (buffer.length === 0)
+    throw new AppError('empty_target_list', `“${filename}” is empty: the list needs a header row and at least one target`, 400, {
+      file: ['the file is empty'],
+    });
+  if ((buffer[0] === 0xff && buffer[1] === 0xfe) || (buffer[0] === 0xfe && buffer[1] === 0xff))
+    throw wrongEncoding(filename, 'it is UTF-16');
   if (buffer.includes(0)) throw wrongEncoding(filename, 'it contains NUL bytes, as UTF-16 files do');
   let text: string;
   try {
@@ -90,7 +94,11 @@ export function decodeCsvText(buffer: Buffer, filename: string): string {
 /** The delimiter of the header line: comma, or semicolon / tab as some spreadsheets export. */
 function detectDelimiter(text: string): string {
   // Only the start of the text: splitting a whole large file into lines would hold the event loop.
-  const firstLine = text.slice(0, 64 * 1024).split(/\r?\n/).find((l) => l.trim() !== '') ?? '';
+  const firstLine =
+    text
+      .slice(0, 64 * 1024)
+      .split(/\r?\n/)
+      .find((l) => l.trim() !== '') ?? '';
   const counts = [',', ';', '\t'].map((d) => ({ d, n: firstLine.split(d).length - 1 }));
   counts.sort((a, b) => b.n - a.n);
   return counts[0].n > 0 ? counts[0].d : ',';
@@ -98,7 +106,10 @@ function detectDelimiter(text: string): string {
 
 /** A header cell as a column name: case, spaces and hyphens do not matter; aliases name their column. */
 const normalizeHeader = (h: string) => {
-  const name = h.trim().toLowerCase().replace(/[\s-]+/g, '_');
+  const name = h
+    .trim()
+    .toLowerCase()
+    .replace(/[\s-]+/g, '_');
   return TARGET_CSV_HEADER_ALIASES[name] ?? name;
 };
 
@@ -116,7 +127,10 @@ export function rowErrorsToAppError(errors: CsvRowError[]): AppError {
   const label = (e: CsvRowError) => (e.row === 0 ? `header: ${e.message}` : `row ${e.row}, ${e.field}: ${e.message}`);
   const fieldErrors: Record<string, string[]> = {};
   for (const e of sorted) (fieldErrors[e.row === 0 ? 'header' : `rows.${e.row}.${e.field}`] ??= []).push(label(e));
-  const more = sorted.length > 1 ? ` (and ${sorted.length - 1} more problem${sorted.length > 2 ? 's' : ''}; nothing was saved)` : ' (nothing was saved)';
+  const more =
+    sorted.length > 1
+      ? ` (and ${sorted.length - 1} more problem${sorted.length > 2 ? 's' : ''}; nothing was saved)`
+      : ' (nothing was saved)';
   return new AppError('invalid_target_list', label(sorted[0]) + more, 400, fieldErrors, { rows: sorted });
 }
 
@@ -128,11 +142,16 @@ const MAX_MS_BETWEEN_YIELDS = 5;
  */
 const PARSE_CHUNK_CHARS = 4 * 1024;
 
-const emptyList = () => new AppError('empty_target_list', 'The file is empty: the list needs a header row and at least one target', 400, { file: ['the file is empty'] });
+const emptyList = () =>
+  new AppError('empty_target_list', 'The file is empty: the list needs a header row and at least one target', 400, {
+    file: ['the file is empty'],
+  });
 
 /** 400 `too_many_targets` as soon as the row after the limit is read (the rest of the file is not parsed). */
 const tooManyRows = (maxRows: number) =>
-  new AppError('too_many_targets', `The list has more than ${maxRows} targets; a proposal holds at most ${maxRows}`, 400, { file: [`at most ${maxRows} targets`] });
+  new AppError('too_many_targets', `The list has more than ${maxRows} targets; a proposal holds at most ${maxRows}`, 400, {
+    file: [`at most ${maxRows} targets`],
+  });
 
 /** csv-parse's error (unclosed quote, bad quoting) as the file's 400, naming the row. */
 function parseErrorToAppError(err: unknown): unknown {
@@ -144,7 +163,13 @@ function parseErrorToAppError(err: unknown): unknown {
   return rowErrorsToAppError([{ row, field: 'columns', message: `cannot be read: ${why}` }]);
 }
 
-const parseOptions = (text: string) => ({ delimiter: detectDelimiter(text), relax_column_count: true, skip_empty_lines: true, trim: true, bom: true });
+const parseOptions = (text: string) => ({
+  delimiter: detectDelimiter(text),
+  relax_column_count: true,
+  skip_empty_lines: true,
+  trim: true,
+  bom: true,
+});
 
 /**
  * Takes the parsed records one at a time: the header first, then the data rows. Rows that
@@ -176,7 +201,10 @@ class TargetListCollector {
 
   finish(): ReadTargetList {
     if (!this.header) throw emptyList();
-    if (this.dataRows === 0) throw new AppError('empty_target_list', 'The file has a header row but no targets', 400, { file: ['no target rows after the header'] });
+    if (this.dataRows === 0)
+      throw new AppError('empty_target_list', 'The file has a header row but no targets', 400, {
+        file: ['no target rows after the header'],
+      });
     return { rows: this.rows, errors: this.errors, notes: this.notes };
   }
 
@@ -184,14 +212,22 @@ class TargetListCollector {
     const header = record.map(normalizeHeader);
     const known = new Set<string>(COLUMN_NAMES);
     if (!header.some((h) => known.has(h))) {
-      throw headerError(`the first row must name the columns (${COLUMN_NAMES.join(', ')}); it reads ${record.slice(0, 4).map((c) => JSON.stringify(c)).join(', ')}`);
+      throw headerError(
+        `the first row must name the columns (${COLUMN_NAMES.join(', ')}); it reads ${record
+          .slice(0, 4)
+          .map((c) => JSON.stringify(c))
+          .join(', ')}`,
+      );
     }
     const unknown = header.filter((h) => !known.has(h));
     const missing = REQUIRED.filter((c) => !header.includes(c));
     const repeated = header.filter((h, i) => header.indexOf(h) !== i);
     const problems: string[] = [];
     if (missing.length) problems.push(`missing required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')}`);
-    if (unknown.length) problems.push(`unknown column${unknown.length > 1 ? 's' : ''} ${unknown.map((u) => JSON.stringify(u)).join(', ')} (the columns are ${COLUMN_NAMES.join(', ')})`);
+    if (unknown.length)
+      problems.push(
+        `unknown column${unknown.length > 1 ? 's' : ''} ${unknown.map((u) => JSON.stringify(u)).join(', ')} (the columns are ${COLUMN_NAMES.join(', ')})`,
+      );
     if (repeated.length) problems.push(`column${repeated.length > 1 ? 's' : ''} ${[...new Set(repeated)].join(', ')} listed twice`);
     if (problems.length) throw headerError(problems.join('; '));
     this.header = header;
@@ -346,10 +382,18 @@ function readRow(row: number, cell: (c: ColumnName) => string): { values?: Targe
       if (reported.has(column)) continue;
       reported.add(column);
       const typed = cell(column as ColumnName);
-      fail(column as ColumnName, typed !== '' && issue.message.includes('(you typed ') ? replaceTyped(issue.message, typed) : issue.message);
+      fail(
+        column as ColumnName,
+        typed !== '' && issue.message.includes('(you typed ') ? replaceTyped(issue.message, typed) : issue.message,
+      );
     }
   }
-  if (errors.length || !parsed.success) return { values: typeof candidate.name === 'string' && candidate.name ? ({ name: candidate.name } as TargetValues) : undefined, errors, notes: [] };
+  if (errors.length || !parsed.success)
+    return {
+      values: typeof candidate.name === 'string' && candidate.name ? ({ name: candidate.name } as TargetValues) : undefined,
+      errors,
+      notes: [],
+    };
   const warning = colourPlausibilityWarning(parsed.data.colour, parsed.data.colourSystem, parsed.data.reddeningEbv);
   return { values: parsed.data, errors, notes: warning ? [{ row, field: 'colour', message: warning }] : [] };
 }
@@ -369,8 +413,10 @@ export function escapeFormulaCell(text: string): string {
  * keep their tabs and line breaks, which the CSV quoting carries.
  */
 function textCell(text: string, multiLine = false): string {
-  // eslint-disable-next-line no-control-regex
-  const clean = multiLine ? text.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f\u202a-\u202e\u2066-\u2069]/gu, '') : stripControlCharacters(text);
+  const clean = multiLine
+    ? // eslint-disable-next-line no-control-regex -- control characters are what this strips
+      text.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f\u202a-\u202e\u2066-\u2069]/gu, '')
+    : stripControlCharacters(text);
   return escapeFormulaCell(clean);
 }
 
@@ -400,15 +446,16 @@ export function writeTargetCsv(targets: TargetValues[]): string {
  * sexagesimal positions, and the optional columns both used and left empty (one M dwarf with
  * an expected period of its own).
  */
-export const EXAMPLE_TARGET_CSV = [
-  'name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,period,period_error,notes',
-  'Lantern 12,163.41,31.72,11.8,V,0.82,BPRP,0.02,650,60,,,,cluster member; G dwarf',
-  'Lantern 27,10:53:12.5,+31:18:40,13.6,G,1.45,BPRP,0.02,650,60,0.1,,,K dwarf; period precision requested',
-  'Lantern 41,10h54m02s,+32d05m11s,15.1,G,2.31,BPRP,,650,60,,,,early M dwarf',
-  'Lantern 58,10:51:40,+31:02:10,16.2,G,3.05,BPRP,,650,60,,0.62,0.05,fast-rotating M dwarf beyond the relations: expected period given',
-  'Star F-3,84.125,-12.5,9.7,V,0.64,BV,,2400,400,,,,field G dwarf',
-  'Star F-8,05:41:30,-12:02:15,10.9,V,0.95,BV,0.05,4100,900,0.5,,,field K dwarf with a known planet candidate',
-  'Star F-11,201.7,-47.25,12.4,R,1.12,BV,,1200,,,,,southern field star; no age uncertainty given',
-  'Star F-14,18.5h,+5:30:00,8.9,V,0.58,BV,,3000,500,,,,bright: check saturation on the larger nodes',
-  'Star F-19,277.4,62.8,11.1,G,1.05,BPRP,0.01,800,150,,,,',
-].join('\r\n') + '\r\n';
+export const EXAMPLE_TARGET_CSV =
+  [
+    'name,ra,dec,magnitude,band,colour,colour_system,ebv,age_myr,age_err_myr,period_precision_d,period,period_error,notes',
+    'Lantern 12,163.41,31.72,11.8,V,0.82,BPRP,0.02,650,60,,,,cluster member; G dwarf',
+    'Lantern 27,10:53:12.5,+31:18:40,13.6,G,1.45,BPRP,0.02,650,60,0.1,,,K dwarf; period precision requested',
+    'Lantern 41,10h54m02s,+32d05m11s,15.1,G,2.31,BPRP,,650,60,,,,early M dwarf',
+    'Lantern 58,10:51:40,+31:02:10,16.2,G,3.05,BPRP,,650,60,,0.62,0.05,fast-rotating M dwarf beyond the relations: expected period given',
+    'Star F-3,84.125,-12.5,9.7,V,0.64,BV,,2400,400,,,,field G dwarf',
+    'Star F-8,05:41:30,-12:02:15,10.9,V,0.95,BV,0.05,4100,900,0.5,,,field K dwarf with a known planet candidate',
+    'Star F-11,201.7,-47.25,12.4,R,1.12,BV,,1200,,,,,southern field star; no age uncertainty given',
+    'Star F-14,18.5h,+5:30:00,8.9,V,0.58,BV,,3000,500,,,,bright: check saturation on the larger nodes',
+    'Star F-19,277.4,62.8,11.1,G,1.05,BPRP,0.01,800,150,,,,',
+  ].join('\r\n') + '\r\n';

@@ -84,7 +84,12 @@ export async function listTargets(db: Knex, proposalId: number): Promise<StoredT
 }
 
 /** One target of the proposal; `forUpdate` locks its row. */
-export async function findTarget(db: Knex, proposalId: number, targetId: number, options: { forUpdate?: boolean } = {}): Promise<StoredTarget | undefined> {
+export async function findTarget(
+  db: Knex,
+  proposalId: number,
+  targetId: number,
+  options: { forUpdate?: boolean } = {},
+): Promise<StoredTarget | undefined> {
   const q = db<TargetDbRow>('targets').where({ proposal_id: proposalId, id: targetId }).first();
   if (options.forUpdate) q.forUpdate();
   const row = await q;
@@ -117,7 +122,9 @@ export async function insertTargets(db: Knex, proposalId: number, values: Target
 
 /** Inserts one target at a position; returns its id. */
 export async function insertTarget(db: Knex, proposalId: number, values: TargetValues, position: number): Promise<number> {
-  const [row] = await db('targets').insert({ ...columnsOf(values), proposal_id: proposalId, position }).returning('id');
+  const [row] = await db('targets')
+    .insert({ ...columnsOf(values), proposal_id: proposalId, position })
+    .returning('id');
   return row.id;
 }
 

@@ -12,7 +12,11 @@ import { createTargetController } from './target-controller';
  */
 export function createTargetRoutes(ctx: AppContext): Router {
   const targets = createTargetController(ctx);
-  const csvUpload = singleFileUpload({ field: 'file', maxBytes: TARGET_CSV_MAX_BYTES, tooLargeMessage: 'The target list is larger than 5 MB' });
+  const csvUpload = singleFileUpload({
+    field: 'file',
+    maxBytes: TARGET_CSV_MAX_BYTES,
+    tooLargeMessage: 'The target list is larger than 5 MB',
+  });
   // Who may upload is settled before the multipart body is read (proposal-access.ts).
   const uploadAccess = requireEditableProposalBeforeUpload(ctx);
 

@@ -51,7 +51,11 @@ export async function addTarget(ctx: AppContext, viewer: SessionUser, id: number
     requireEditable(access, ctx.now());
     const names = await targetNamesOf(trx, id);
     if (names.size >= MAX_TARGETS_PER_PROPOSAL) {
-      throw new AppError('too_many_targets', `The list holds ${names.size} targets already; a proposal holds at most ${MAX_TARGETS_PER_PROPOSAL}`, 409);
+      throw new AppError(
+        'too_many_targets',
+        `The list holds ${names.size} targets already; a proposal holds at most ${MAX_TARGETS_PER_PROPOSAL}`,
+        409,
+      );
     }
     if (names.has(values.name.toLowerCase())) throw nameTaken(values.name, 'name');
     const newId = await insertTarget(trx, id, values, (await maxTargetPosition(trx, id)) + 1);
@@ -67,7 +71,13 @@ export async function addTarget(ctx: AppContext, viewer: SessionUser, id: number
  * PUT /api/proposals/:id/targets/:targetId with the row's version: someone else's change in
  * between → 409 `version_conflict`, nothing written.
  */
-export async function updateTarget(ctx: AppContext, viewer: SessionUser, id: number, targetId: number, update: TargetUpdate): Promise<TargetRow> {
+export async function updateTarget(
+  ctx: AppContext,
+  viewer: SessionUser,
+  id: number,
+  targetId: number,
+  update: TargetUpdate,
+): Promise<TargetRow> {
   try {
     await ctx.db.transaction(async (trx) => {
       const access = await accessProposal(trx, viewer, id, { forUpdate: true });
@@ -101,7 +111,8 @@ export async function deleteTarget(ctx: AppContext, viewer: SessionUser, id: num
   await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });
     requireEditable(access, ctx.now());
-    if (!(await findTarget(trx, id, targetId, { forUpdate: true }))) throw new AppError('target_not_found', `No target ${targetId} in proposal ${id}`, 404);
+    if (!(await findTarget(trx, id, targetId, { forUpdate: true })))
+      throw new AppError('target_not_found', `No target ${targetId} in proposal ${id}`, 404);
     await deleteTargetRow(trx, targetId);
     await markPlansRequested(trx, [id]);
     await touchProposal(trx, id);
@@ -138,7 +149,8 @@ export async function uploadTargets(
     if (mode === 'append') {
       const existing = await targetNamesOf(trx, id);
       for (const r of list.rows) {
-        if (existing.has(r.values.name.toLowerCase())) errors.push({ row: r.row, field: 'name', message: `“${r.values.name}” is already in the target list` });
+        if (existing.has(r.values.name.toLowerCase()))
+          errors.push({ row: r.row, field: 'name', message: `“${r.values.name}” is already in the target list` });
       }
       const total = existing.size + list.rows.length;
       if (!errors.length && total > MAX_TARGETS_PER_PROPOSAL) {
@@ -153,7 +165,12 @@ export async function uploadTargets(
     }
     if (errors.length) throw rowErrorsToAppError(errors);
     if (mode === 'replace') removed = await deleteAllTargets(trx, id);
-    await insertTargets(trx, id, list.rows.map((r) => r.values), after);
+    await insertTargets(
+      trx,
+      id,
+      list.rows.map((r) => r.values),
+      after,
+    );
     await markPlansRequested(trx, [id]);
     await touchProposal(trx, id);
     return { mode, added: list.rows.length, removed };

@@ -10,12 +10,23 @@ export async function lastInvitationMailAt(db: Knex, proposalId: number, email: 
 }
 
 /** Notes an invitation mail (the throttle's record). */
-export async function recordInvitationMail(db: Knex, input: { proposalId: number; email: string; sentBy: number; sentAt: Date }): Promise<void> {
-  await db('proposal_invitation_mails').insert({ proposal_id: input.proposalId, email: input.email, sent_by: input.sentBy, sent_at: input.sentAt });
+export async function recordInvitationMail(
+  db: Knex,
+  input: { proposalId: number; email: string; sentBy: number; sentAt: Date },
+): Promise<void> {
+  await db('proposal_invitation_mails').insert({
+    proposal_id: input.proposalId,
+    email: input.email,
+    sent_by: input.sentBy,
+    sent_at: input.sentAt,
+  });
 }
 
 /** A pending invitation behind a token hash, locked for acceptance, with the instant its link was sent. */
-export async function findPendingInvitation(db: Knex, tokenHash: string): Promise<{ id: number; proposalId: number; email: string; invitedAt: Date } | undefined> {
+export async function findPendingInvitation(
+  db: Knex,
+  tokenHash: string,
+): Promise<{ id: number; proposalId: number; email: string; invitedAt: Date } | undefined> {
   const row = await db('proposal_members')
     .where({ invite_token_hash: tokenHash })
     .whereNull('accepted_at')

@@ -36,7 +36,17 @@ function toMember(r: MemberRow): StoredMember {
 function membersQuery(db: Knex) {
   return db('proposal_members as m')
     .leftJoin('accounts as a', 'a.id', 'm.account_id')
-    .select('m.id', 'm.proposal_id', 'm.account_id', 'm.email', 'm.role', 'm.invited_at', 'm.accepted_at', 'a.display_name', 'a.email as account_email');
+    .select(
+      'm.id',
+      'm.proposal_id',
+      'm.account_id',
+      'm.email',
+      'm.role',
+      'm.invited_at',
+      'm.accepted_at',
+      'a.display_name',
+      'a.email as account_email',
+    );
 }
 
 /** The team: the PI first, then active co-investigators, then pending invitations, each by date. */
@@ -57,13 +67,19 @@ export async function findMemberById(db: Knex, proposalId: number, memberId: num
 
 /** The account's role on the proposal when it is an active member, else undefined. */
 export async function findActiveRole(db: Knex, proposalId: number, accountId: number): Promise<MemberRole | undefined> {
-  const row = await db('proposal_members').where({ proposal_id: proposalId, account_id: accountId }).whereNotNull('accepted_at').first('role');
+  const row = await db('proposal_members')
+    .where({ proposal_id: proposalId, account_id: accountId })
+    .whereNotNull('accepted_at')
+    .first('role');
   return row?.role;
 }
 
 /** The team row with this invitation address (case-insensitive), pending or active. */
 export async function findMemberByEmail(db: Knex, proposalId: number, email: string): Promise<{ id: number; active: boolean } | undefined> {
-  const row = await db('proposal_members').where({ proposal_id: proposalId }).whereRaw('lower(email) = lower(?)', [email]).first('id', 'accepted_at');
+  const row = await db('proposal_members')
+    .where({ proposal_id: proposalId })
+    .whereRaw('lower(email) = lower(?)', [email])
+    .first('id', 'accepted_at');
   return row ? { id: row.id, active: row.accepted_at !== null } : undefined;
 }
 
@@ -81,21 +97,40 @@ export async function insertPiMember(db: Knex, proposalId: number, account: { id
 }
 
 /** A pending co-investigator invitation; returns the team row id. */
-export async function insertInvitation(db: Knex, input: { proposalId: number; email: string; tokenHash: string; invitedBy: number }): Promise<number> {
+export async function insertInvitation(
+  db: Knex,
+  input: { proposalId: number; email: string; tokenHash: string; invitedBy: number },
+): Promise<number> {
   const [row] = await db('proposal_members')
-    .insert({ proposal_id: input.proposalId, email: input.email, role: 'coi', invite_token_hash: input.tokenHash, invited_by: input.invitedBy })
+    .insert({
+      proposal_id: input.proposalId,
+      email: input.email,
+      role: 'coi',
+      invite_token_hash: input.tokenHash,
+      invited_by: input.invitedBy,
+    })
     .returning('id');
   return row.id;
 }
 
 /** A new token for a pending invitation (the old link stops working). */
 export async function renewInvitation(db: Knex, memberId: number, tokenHash: string, invitedBy: number): Promise<void> {
-  await db('proposal_members').where({ id: memberId }).whereNull('accepted_at').update({ invite_token_hash: tokenHash, invited_by: invitedBy, invited_at: db.fn.now() });
+  await db('proposal_members')
+    .where({ id: memberId })
+    .whereNull('accepted_at')
+    .update({ invite_token_hash: tokenHash, invited_by: invitedBy, invited_at: db.fn.now() });
 }
 
 /** The pending invitation behind a token hash, locked for acceptance. */
-export async function findInvitationByTokenHash(db: Knex, tokenHash: string): Promise<{ id: number; proposalId: number; email: string } | undefined> {
-  const row = await db('proposal_members').where({ invite_token_hash: tokenHash }).whereNull('accepted_at').forUpdate().first('id', 'proposal_id', 'email');
+export async function findInvitationByTokenHash(
+  db: Knex,
+  tokenHash: string,
+): Promise<{ id: number; proposalId: number; email: string } | undefined> {
+  const row = await db('proposal_members')
+    .where({ invite_token_hash: tokenHash })
+    .whereNull('accepted_at')
+    .forUpdate()
+    .first('id', 'proposal_id', 'email');
   return row ? { id: row.id, proposalId: row.proposal_id, email: row.email } : undefined;
 }
 
@@ -106,7 +141,11 @@ export async function acceptInvitationRow(db: Knex, memberId: number, accountId:
 
 /** Other pending invitations of the same proposal to the account's address (they are now moot). */
 export async function deletePendingInvitationsTo(db: Knex, proposalId: number, email: string): Promise<void> {
-  await db('proposal_members').where({ proposal_id: proposalId }).whereNull('accepted_at').whereRaw('lower(email) = lower(?)', [email]).del();
+  await db('proposal_members')
+    .where({ proposal_id: proposalId })
+    .whereNull('accepted_at')
+    .whereRaw('lower(email) = lower(?)', [email])
+    .del();
 }
 
 /** Removes a team row (member or pending invitation). */

@@ -13,7 +13,10 @@ afterAll(async () => {
 });
 
 const tokenIn = (text: string, kind: 'invitations' | 'sign-up') =>
-  (kind === 'invitations' ? /http:\/\/spincycle\.test\/invitations\/([A-Za-z0-9_-]+)/ : /http:\/\/spincycle\.test\/sign-up\?invite=([A-Za-z0-9_-]+)/).exec(text)?.[1];
+  (kind === 'invitations'
+    ? /http:\/\/spincycle\.test\/invitations\/([A-Za-z0-9_-]+)/
+    : /http:\/\/spincycle\.test\/sign-up\?invite=([A-Za-z0-9_-]+)/
+  ).exec(text)?.[1];
 
 describe('POST /api/proposals/:id/members', () => {
   it('mails an account holder a link to /invitations/<token>; accepting makes them an active co-I', async () => {
@@ -73,7 +76,10 @@ describe('POST /api/proposals/:id/members', () => {
     expect((await browser.post('/api/invitations/accept', { token })).status).toBe(200);
     const team = (await pi.get(`/api/proposals/${proposal.id}`)).body.team;
     // An active member is listed with their account's address.
-    expect(team).toEqual([expect.objectContaining({ role: 'pi' }), expect.objectContaining({ accountId: account.id, email: account.email, status: 'active' })]);
+    expect(team).toEqual([
+      expect.objectContaining({ role: 'pi' }),
+      expect.objectContaining({ accountId: account.id, email: account.email, status: 'active' }),
+    ]);
   });
 
   it('inviting a pending address again sends a fresh link (the old one stops working); a member gets 409', async () => {
@@ -83,7 +89,10 @@ describe('POST /api/proposals/:id/members', () => {
     const oldToken = tokenIn((await h.mail.waitFor((m) => m.to.includes(invitee.email))).text, 'invitations')!;
     h.mail.clear();
     // At most one mail per address and proposal every 10 minutes: let them pass.
-    await h.created.ctx.db('proposal_invitation_mails').where({ proposal_id: proposal.id }).update({ sent_at: new Date(Date.now() - 11 * 60_000) });
+    await h.created.ctx
+      .db('proposal_invitation_mails')
+      .where({ proposal_id: proposal.id })
+      .update({ sent_at: new Date(Date.now() - 11 * 60_000) });
     const second = await pi.post(`/api/proposals/${proposal.id}/members`, { email: invitee.email });
     expect(second.status).toBe(200);
     expect(second.body.id).toBe(first.body.id);
@@ -149,7 +158,10 @@ describe('POST /api/proposals/:id/members: a reviewer invited as co-investigator
     const { browser: pi, proposal } = await proposerWithDraft(h, net.cycleId);
     const reviewer = await createAccount(h, ['reviewer']);
     expect((await pi.post(`/api/proposals/${proposal.id}/members`, { email: reviewer.email })).body.warnings).toHaveLength(1);
-    await h.created.ctx.db('proposal_invitation_mails').where({ proposal_id: proposal.id }).update({ sent_at: new Date(Date.now() - 11 * 60_000) });
+    await h.created.ctx
+      .db('proposal_invitation_mails')
+      .where({ proposal_id: proposal.id })
+      .update({ sent_at: new Date(Date.now() - 11 * 60_000) });
     const again = await pi.post(`/api/proposals/${proposal.id}/members`, { email: reviewer.email });
     expect(again.status).toBe(200);
     expect(again.body.warnings.map((w: { code: string }) => w.code)).toEqual(['reviewer_conflict']);

@@ -37,7 +37,12 @@ import {
  * the row carries `warnings`: `reviewer_conflict` when the invited address belongs to a reviewer
  * (see review-conflict.ts). The invitation goes ahead either way.
  */
-export async function inviteMember(ctx: AppContext, viewer: SessionUser, id: number, input: InviteMemberInput): Promise<{ member: InvitedMember; created: boolean }> {
+export async function inviteMember(
+  ctx: AppContext,
+  viewer: SessionUser,
+  id: number,
+  input: InviteMemberInput,
+): Promise<{ member: InvitedMember; created: boolean }> {
   const token = newLinkToken();
   const { memberId, created, title, hasAccount, warnings } = await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });
@@ -87,14 +92,24 @@ export async function acceptInvitation(ctx: AppContext, viewer: SessionUser, tok
   return ctx.db.transaction(async (trx) => {
     const invitation = await findPendingInvitation(trx, hashLinkToken(token));
     if (!invitation) {
-      throw new AppError('invalid_invitation', 'This invitation link is not valid: it was used already, or the PI withdrew it. Ask the PI for a new one.', 400, {
-        token: ['used, withdrawn or unknown'],
-      });
+      throw new AppError(
+        'invalid_invitation',
+        'This invitation link is not valid: it was used already, or the PI withdrew it. Ask the PI for a new one.',
+        400,
+        {
+          token: ['used, withdrawn or unknown'],
+        },
+      );
     }
     if (ctx.now().getTime() - invitation.invitedAt.getTime() > INVITATION_VALID_DAYS * 86_400_000) {
-      throw new AppError('invitation_expired', `This invitation link has expired: links work for ${INVITATION_VALID_DAYS} days. Ask the PI to invite you again.`, 400, {
-        token: ['expired'],
-      });
+      throw new AppError(
+        'invitation_expired',
+        `This invitation link has expired: links work for ${INVITATION_VALID_DAYS} days. Ask the PI to invite you again.`,
+        400,
+        {
+          token: ['expired'],
+        },
+      );
     }
     if (await findActiveRole(trx, invitation.proposalId, viewer.id)) {
       throw new AppError('already_member', 'You are already on the team of this proposal', 409);

@@ -96,11 +96,7 @@ describe('AccountList', () => {
       .flush({ code: 'conflict', message: 'The account changed meanwhile.' }, { status: 409, statusText: 'Conflict' });
     await fixture.whenStable();
     expect(await toggle.isChecked()).toBe(true);
-    expect(snackOpen).toHaveBeenCalledWith(
-      'Bram Oakes was not changed: The account changed meanwhile.',
-      'Dismiss',
-      expect.anything(),
-    );
+    expect(snackOpen).toHaveBeenCalledWith('Bram Oakes was not changed: The account changed meanwhile.', 'Dismiss', expect.anything());
   });
 
   it('own account: the administrator switch and the disable button are locked', async () => {

@@ -24,18 +24,7 @@ function sameAsPassword(control: AbstractControl): ValidationErrors | null {
 @Component({
   selector: 'app-reset-password',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [
-    MatButton,
-    MatCard,
-    MatError,
-    MatFormField,
-    MatHint,
-    MatInput,
-    MatLabel,
-    MatProgressBar,
-    ReactiveFormsModule,
-    RouterLink,
-  ],
+  imports: [MatButton, MatCard, MatError, MatFormField, MatHint, MatInput, MatLabel, MatProgressBar, ReactiveFormsModule, RouterLink],
   templateUrl: './reset-password.html',
   styleUrl: '../auth-page.scss',
 })

@@ -63,9 +63,7 @@ describe('SignUp', () => {
     expect(await email.getTextErrors()).toEqual(['An account already uses this address']);
     expect(await name.getTextErrors()).toEqual(['Use at most 120 characters']);
     expect(await password.getTextErrors()).toEqual([]);
-    expect(fixture.nativeElement.querySelector('[data-testid=server-error]').textContent).toContain(
-      'Some fields need attention.',
-    );
+    expect(fixture.nativeElement.querySelector('[data-testid=server-error]').textContent).toContain('Some fields need attention.');
     expect(navigateByUrl).not.toHaveBeenCalled();
   });
 

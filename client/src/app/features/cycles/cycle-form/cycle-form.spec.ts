@@ -31,7 +31,10 @@ const CYCLE: CycleSummary = {
   nodes: [{ nodeId: 1, nodeCode: 'KRG-50', nodeHoursAvailable: 400 }],
 };
 
-const NODES = [{ id: 1, code: 'KRG-50', name: 'Korrig fifty' }, { id: 2, code: 'VHM-40', name: 'Vellham forty' }] as TelescopeNode[];
+const NODES = [
+  { id: 1, code: 'KRG-50', name: 'Korrig fifty' },
+  { id: 2, code: 'VHM-40', name: 'Vellham forty' },
+] as TelescopeNode[];
 
 describe('CycleForm', () => {
   let fixture: ComponentFixture<CycleForm>;
@@ -84,9 +87,7 @@ describe('CycleForm', () => {
       '23:59',
     );
     expect(text()).toContain('Open clusters');
-    expect(fixture.nativeElement.querySelector('[data-testid=closes-local] time').getAttribute('datetime')).toBe(
-      '2027-01-15T23:59:00Z',
-    );
+    expect(fixture.nativeElement.querySelector('[data-testid=closes-local] time').getAttribute('datetime')).toBe('2027-01-15T23:59:00Z');
     // The instant written once, in UTC; the time is a plain 24-hour text field, not a browser time picker.
     expect(fixture.nativeElement.querySelector('[data-testid=closes-utc]').textContent).toBe('15 Jan 2027, 23:59 UTC');
     // The person's own time only when it reads differently (none on a clock that reads as UTC).
@@ -219,7 +220,11 @@ describe('CycleForm', () => {
     expect(await dialog.getContentText()).toContain('KRG-50: submitted proposals request 809.68 node-hours; the new capacity is 300.');
     await (await root.getHarness(MatButtonHarness.with({ text: 'Cut capacity', selector: 'mat-dialog-actions button' }))).click();
     const again = backend.expectOne('/api/cycles/7');
-    expect(again.request.body).toMatchObject({ version: 3, confirmCapacityCut: true, cycle: { nodes: [{ nodeId: 1, nodeHoursAvailable: 300 }] } });
+    expect(again.request.body).toMatchObject({
+      version: 3,
+      confirmCapacityCut: true,
+      cycle: { nodes: [{ nodeId: 1, nodeHoursAvailable: 300 }] },
+    });
     again.flush({ ...CYCLE, version: 4, nodes: [{ nodeId: 1, nodeCode: 'KRG-50', nodeHoursAvailable: 300 }] });
     await fixture.whenStable();
     expect(navigateByUrl).toHaveBeenCalledWith('/cycles');
@@ -228,9 +233,14 @@ describe('CycleForm', () => {
   it('a capacity cut declined: nothing more is sent and the form says it was not saved', async () => {
     await openExisting();
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Save cycle' }))).click();
-    backend
-      .expectOne('/api/cycles/7')
-      .flush({ code: 'capacity_below_requests', message: 'below', nodes: [{ nodeCode: 'KRG-50', requestedNodeHours: 500, nodeHoursAvailable: 400 }] }, { status: 409, statusText: 'Conflict' });
+    backend.expectOne('/api/cycles/7').flush(
+      {
+        code: 'capacity_below_requests',
+        message: 'below',
+        nodes: [{ nodeCode: 'KRG-50', requestedNodeHours: 500, nodeHoursAvailable: 400 }],
+      },
+      { status: 409, statusText: 'Conflict' },
+    );
     await fixture.whenStable();
     await (await root.getHarness(MatButtonHarness.with({ text: 'Cancel', selector: 'mat-dialog-actions button' }))).click();
     await fixture.whenStable();
@@ -245,7 +255,10 @@ describe('CycleForm', () => {
     ).toEqual({ callOpensDate: ['a'], callClosesDate: ['b'], categories: ['c'], 'nodes.1.nodeId': ['d'], nodes: ['e'] });
     // With the date there and the time wrong, the message goes to the time field.
     expect(
-      toFormErrorPaths({ callClosesAt: ['x'] }, { callOpensDate: '2027-01-01', callOpensTime: '00:00', callClosesDate: '2027-01-15', callClosesTime: '7pm' }),
+      toFormErrorPaths(
+        { callClosesAt: ['x'] },
+        { callOpensDate: '2027-01-01', callOpensTime: '00:00', callClosesDate: '2027-01-15', callClosesTime: '7pm' },
+      ),
     ).toEqual({ callClosesTime: ['x'] });
   });
 });

@@ -78,7 +78,8 @@ export function toFormErrorPaths(
     const head = key.split('.')[0];
     if (FIELD_TO_CONTROL[head]) {
       key = FIELD_TO_CONTROL[head];
-      const [date, time] = head === 'callOpensAt' ? [values?.callOpensDate, values?.callOpensTime] : [values?.callClosesDate, values?.callClosesTime];
+      const [date, time] =
+        head === 'callOpensAt' ? [values?.callOpensDate, values?.callOpensTime] : [values?.callClosesDate, values?.callClosesTime];
       if (values && date && !TIME_PATTERN.test(time ?? '')) key = key.replace(/Date$/, 'Time');
     }
     if (head === 'categories') key = 'categories';
@@ -295,7 +296,8 @@ export default class CycleForm {
 
   private confirmCapacityCut(input: CycleInput, cuts: CapacityCut[], fallback: string): void {
     const list = cuts.map(
-      (c) => `${c.nodeCode}: submitted proposals request ${formatHours(c.requestedNodeHours)} node-hours; the new capacity is ${formatHours(c.nodeHoursAvailable)}.`,
+      (c) =>
+        `${c.nodeCode}: submitted proposals request ${formatHours(c.requestedNodeHours)} node-hours; the new capacity is ${formatHours(c.nodeHoursAvailable)}.`,
     );
     confirmAction(this.dialog, {
       title: 'Cut capacity below the requests?',
@@ -401,7 +403,8 @@ export function emptyFieldMessage(path: string, values: EmptyCheckValues): strin
   switch (head) {
     case 'callOpensAt':
     case 'callClosesAt': {
-      const [date, time] = head === 'callOpensAt' ? [values.callOpensDate, values.callOpensTime] : [values.callClosesDate, values.callClosesTime];
+      const [date, time] =
+        head === 'callOpensAt' ? [values.callOpensDate, values.callOpensTime] : [values.callClosesDate, values.callClosesTime];
       if (joinUtcInstant(date, time)) return null;
       if (!date) return 'Enter a date (YYYY-MM-DD)';
       return TIME_MESSAGE;

@@ -33,7 +33,10 @@ describe('CycleList', () => {
   let backend: HttpTestingController;
 
   beforeEach(() => {
-    TestBed.configureTestingModule({ imports: [CycleList], providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
+    TestBed.configureTestingModule({
+      imports: [CycleList],
+      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
+    });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(CycleList);
     TestBed.tick();

@@ -34,14 +34,22 @@ const COLUMNS = ['code', 'title', 'callOpensAt', 'callClosesAt', 'campaign', 'st
 
 function cycleValue(cycle: CycleSummary, column: string): SortValue {
   switch (column) {
-    case 'code': return cycle.code;
-    case 'title': return cycle.title;
-    case 'callOpensAt': return Date.parse(cycle.callOpensAt);
-    case 'callClosesAt': return Date.parse(cycle.callClosesAt);
-    case 'campaign': return cycle.campaignStart;
-    case 'status': return cycle.status;
-    case 'nodes': return cycle.nodes.reduce((sum, n) => sum + n.nodeHoursAvailable, 0);
-    default: return null;
+    case 'code':
+      return cycle.code;
+    case 'title':
+      return cycle.title;
+    case 'callOpensAt':
+      return Date.parse(cycle.callOpensAt);
+    case 'callClosesAt':
+      return Date.parse(cycle.callClosesAt);
+    case 'campaign':
+      return cycle.campaignStart;
+    case 'status':
+      return cycle.status;
+    case 'nodes':
+      return cycle.nodes.reduce((sum, n) => sum + n.nodeHoursAvailable, 0);
+    default:
+      return null;
   }
 }
 

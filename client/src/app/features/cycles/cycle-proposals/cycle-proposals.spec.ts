@@ -32,8 +32,24 @@ const REPORT: CycleProposalsReport = {
   cycle: CYCLE,
   draftCount: 2,
   nodes: [
-    { nodeId: 1, nodeCode: 'KRG-50', nodeHoursAvailable: 620, requestedNodeHours: 905.18, infeasibleNodeHours: 41.2, proposals: 2, pressure: 1.46 },
-    { nodeId: 2, nodeCode: 'VHM-40', nodeHoursAvailable: 480, requestedNodeHours: 212.5, infeasibleNodeHours: 0, proposals: 1, pressure: 0.443 },
+    {
+      nodeId: 1,
+      nodeCode: 'KRG-50',
+      nodeHoursAvailable: 620,
+      requestedNodeHours: 905.18,
+      infeasibleNodeHours: 41.2,
+      proposals: 2,
+      pressure: 1.46,
+    },
+    {
+      nodeId: 2,
+      nodeCode: 'VHM-40',
+      nodeHoursAvailable: 480,
+      requestedNodeHours: 212.5,
+      infeasibleNodeHours: 0,
+      proposals: 1,
+      pressure: 0.443,
+    },
   ],
   proposals: [
     {
@@ -45,8 +61,26 @@ const REPORT: CycleProposalsReport = {
       totalNodeHours: 1022.18,
       overCapacity: true,
       request: [
-        { nodeId: 1, nodeCode: 'KRG-50', nodeHours: 809.68, infeasibleNodeHours: 41.2, targets: 60, infeasibleTargets: 3, nodeHoursAvailable: 620, overCapacity: true },
-        { nodeId: 2, nodeCode: 'VHM-40', nodeHours: 212.5, infeasibleNodeHours: 0, targets: 60, infeasibleTargets: 0, nodeHoursAvailable: 480, overCapacity: false },
+        {
+          nodeId: 1,
+          nodeCode: 'KRG-50',
+          nodeHours: 809.68,
+          infeasibleNodeHours: 41.2,
+          targets: 60,
+          infeasibleTargets: 3,
+          nodeHoursAvailable: 620,
+          overCapacity: true,
+        },
+        {
+          nodeId: 2,
+          nodeCode: 'VHM-40',
+          nodeHours: 212.5,
+          infeasibleNodeHours: 0,
+          targets: 60,
+          infeasibleTargets: 0,
+          nodeHoursAvailable: 480,
+          overCapacity: false,
+        },
       ],
     },
     {
@@ -57,7 +91,18 @@ const REPORT: CycleProposalsReport = {
       submittedAt: '2026-12-01T08:00:00Z',
       totalNodeHours: 95.5,
       overCapacity: false,
-      request: [{ nodeId: 1, nodeCode: 'KRG-50', nodeHours: 95.5, infeasibleNodeHours: 0, targets: 8, infeasibleTargets: 0, nodeHoursAvailable: 620, overCapacity: false }],
+      request: [
+        {
+          nodeId: 1,
+          nodeCode: 'KRG-50',
+          nodeHours: 95.5,
+          infeasibleNodeHours: 0,
+          targets: 8,
+          infeasibleTargets: 0,
+          nodeHoursAvailable: 620,
+          overCapacity: false,
+        },
+      ],
     },
   ],
 };
@@ -67,7 +112,10 @@ describe('CycleProposals', () => {
   let backend: HttpTestingController;
 
   function render(id = '7'): void {
-    TestBed.configureTestingModule({ imports: [CycleProposals], providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
+    TestBed.configureTestingModule({
+      imports: [CycleProposals],
+      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
+    });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(CycleProposals);
     fixture.componentRef.setInput('id', id);
@@ -132,7 +180,12 @@ describe('CycleProposals', () => {
 
   it('empty: the empty message, and the pressure still shows the offered capacity', async () => {
     render();
-    backend.expectOne('/api/cycles/7/proposals').flush({ ...REPORT, proposals: [], draftCount: 0, nodes: REPORT.nodes.map((n) => ({ ...n, requestedNodeHours: 0, infeasibleNodeHours: 0, proposals: 0, pressure: 0 })) });
+    backend.expectOne('/api/cycles/7/proposals').flush({
+      ...REPORT,
+      proposals: [],
+      draftCount: 0,
+      nodes: REPORT.nodes.map((n) => ({ ...n, requestedNodeHours: 0, infeasibleNodeHours: 0, proposals: 0, pressure: 0 })),
+    });
     await fixture.whenStable();
     expect(el().textContent).toContain('No proposal has been submitted to this cycle yet.');
     expect(el().querySelector('[data-testid=cycle-proposals-table]')).toBeNull();
@@ -141,7 +194,9 @@ describe('CycleProposals', () => {
 
   it('error: the message and a retry', async () => {
     render();
-    backend.expectOne('/api/cycles/7/proposals').flush({ code: 'cycle_not_found', message: 'No cycle 7' }, { status: 404, statusText: 'Not Found' });
+    backend
+      .expectOne('/api/cycles/7/proposals')
+      .flush({ code: 'cycle_not_found', message: 'No cycle 7' }, { status: 404, statusText: 'Not Found' });
     await fixture.whenStable();
     expect(text('[role=alert]')).toContain('The proposals of this cycle could not be loaded. No cycle 7');
   });

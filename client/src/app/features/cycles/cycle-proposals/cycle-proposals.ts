@@ -32,13 +32,20 @@ const MAX_SCALE = 2;
 
 function proposalValue(p: CycleProposalItem, column: string): SortValue {
   switch (column) {
-    case 'title': return p.title;
-    case 'pi': return p.piName;
-    case 'state': return p.state;
-    case 'request': return p.overCapacity ? 1 : 0;
-    case 'total': return p.totalNodeHours;
-    case 'submittedAt': return p.submittedAt ? Date.parse(p.submittedAt) : null;
-    default: return null;
+    case 'title':
+      return p.title;
+    case 'pi':
+      return p.piName;
+    case 'state':
+      return p.state;
+    case 'request':
+      return p.overCapacity ? 1 : 0;
+    case 'total':
+      return p.totalNodeHours;
+    case 'submittedAt':
+      return p.submittedAt ? Date.parse(p.submittedAt) : null;
+    default:
+      return null;
   }
 }
 
@@ -94,7 +101,9 @@ export default class CycleProposals {
   protected readonly nodes = computed(() => this.data()?.nodes ?? []);
   /** One scale for every node's bar: the highest pressure, at least 100 %. */
   protected readonly scaleMax = computed(() => Math.min(MAX_SCALE, Math.max(1, ...this.nodes().map((n) => n.pressure ?? 1))));
-  protected readonly overNodes = computed(() => this.nodes().filter((n) => n.pressure === null ? n.requestedNodeHours > 0 : n.pressure > 1));
+  protected readonly overNodes = computed(() =>
+    this.nodes().filter((n) => (n.pressure === null ? n.requestedNodeHours > 0 : n.pressure > 1)),
+  );
   protected readonly overProposals = computed(() => (this.data()?.proposals ?? []).filter((p) => p.overCapacity).length);
 
   protected readonly error = computed(() => {

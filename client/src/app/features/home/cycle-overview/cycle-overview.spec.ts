@@ -50,10 +50,9 @@ describe('CycleOverview', () => {
   });
 
   it('open cycle: countdown in days, closing time in UTC, and the closed cycle left out', async () => {
-    backend.expectOne('/api/cycles').flush([
-      cycle(1, 'open', { title: 'Spring call', anonymousReview: true }),
-      cycle(2, 'closed', { title: 'Old call' }),
-    ]);
+    backend
+      .expectOne('/api/cycles')
+      .flush([cycle(1, 'open', { title: 'Spring call', anonymousReview: true }), cycle(2, 'closed', { title: 'Old call' })]);
     await fixture.whenStable();
     const cards = all('[data-testid=cycle-open]');
     expect(cards).toHaveLength(1);

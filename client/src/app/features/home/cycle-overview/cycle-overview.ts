@@ -12,7 +12,19 @@ import { DayPipe, LocalInstantPipe, UtcInstantPipe } from '../../../ui/time/date
 @Component({
   selector: 'app-cycle-overview',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [DayPipe, LocalInstantPipe, UtcInstantPipe, LoadStatus, MatCard, MatCardContent, MatCardHeader, MatCardSubtitle, MatCardTitle, MatChip, MatChipSet],
+  imports: [
+    DayPipe,
+    LocalInstantPipe,
+    UtcInstantPipe,
+    LoadStatus,
+    MatCard,
+    MatCardContent,
+    MatCardHeader,
+    MatCardSubtitle,
+    MatCardTitle,
+    MatChip,
+    MatChipSet,
+  ],
   templateUrl: './cycle-overview.html',
   styleUrl: './cycle-overview.scss',
 })

@@ -26,14 +26,16 @@ describe('YourProposals', () => {
   afterEach(() => backend.verify());
 
   it('open drafts first, by deadline, with their countdown; then the others by last update; at most five', async () => {
-    backend.expectOne('/api/proposals').flush([
-      testSummary(1, { title: 'Reviewed one', state: 'in_review', updatedAt: '2026-12-20T09:00:00Z' }),
-      testSummary(2, { title: 'Later draft', callClosesAt: '2027-02-01T12:00:00Z' }),
-      testSummary(3, { title: 'Sooner draft', callClosesAt: '2027-01-15T12:00:00Z' }),
-      testSummary(4, { title: 'Older award', state: 'awarded', updatedAt: '2026-06-01T09:00:00Z' }),
-      testSummary(5, { title: 'Recent submission', state: 'submitted', updatedAt: '2026-12-30T09:00:00Z' }),
-      testSummary(6, { title: 'Oldest', state: 'not_awarded', updatedAt: '2025-06-01T09:00:00Z' }),
-    ]);
+    backend
+      .expectOne('/api/proposals')
+      .flush([
+        testSummary(1, { title: 'Reviewed one', state: 'in_review', updatedAt: '2026-12-20T09:00:00Z' }),
+        testSummary(2, { title: 'Later draft', callClosesAt: '2027-02-01T12:00:00Z' }),
+        testSummary(3, { title: 'Sooner draft', callClosesAt: '2027-01-15T12:00:00Z' }),
+        testSummary(4, { title: 'Older award', state: 'awarded', updatedAt: '2026-06-01T09:00:00Z' }),
+        testSummary(5, { title: 'Recent submission', state: 'submitted', updatedAt: '2026-12-30T09:00:00Z' }),
+        testSummary(6, { title: 'Oldest', state: 'not_awarded', updatedAt: '2025-06-01T09:00:00Z' }),
+      ]);
     await fixture.whenStable();
     const items = Array.from(fixture.nativeElement.querySelectorAll('[data-testid=home-proposals] li')) as HTMLElement[];
     expect(items.map((li) => li.querySelector('.title')?.textContent)).toEqual([

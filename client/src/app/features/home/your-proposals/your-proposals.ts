@@ -34,7 +34,9 @@ export const HOME_PROPOSAL_COUNT = 5;
             <li>
               <a [routerLink]="['/proposals', p.id]" class="title">{{ p.title }}</a>
               <app-proposal-state-chip [state]="p.state" />
-              <span class="meta">{{ p.cycleCode }} · {{ p.targetCount | number }} targets · {{ p.requestedNodeHours | number: '1.0-1' }} node-hours</span>
+              <span class="meta"
+                >{{ p.cycleCode }} · {{ p.targetCount | number }} targets · {{ p.requestedNodeHours | number: '1.0-1' }} node-hours</span
+              >
               @if (p.state === 'draft') {
                 <span class="due" [class.closed]="isClosed(p.callClosesAt)">
                   {{ isClosed(p.callClosesAt) ? 'Call closed' : 'Call closes ' + countdown(p.callClosesAt) }}

@@ -23,8 +23,7 @@ describe('YourRoles', () => {
 
   it('accounts link only on the administrator card', async () => {
     const host = await render(['reviewer', 'administrator']);
-    const hrefs = (role: string) =>
-      Array.from(host.querySelectorAll(`[data-role=${role}] a`)).map((a) => a.getAttribute('href'));
+    const hrefs = (role: string) => Array.from(host.querySelectorAll(`[data-role=${role}] a`)).map((a) => a.getAttribute('href'));
     expect(hrefs('administrator')).toContain('/admin/accounts');
     expect(hrefs('reviewer')).not.toContain('/admin/accounts');
   });

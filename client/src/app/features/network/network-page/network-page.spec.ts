@@ -130,7 +130,11 @@ describe('NetworkPage', () => {
 
   it('sorting by rate orders by the amount, not by its text', async () => {
     await answer(
-      [node(1, 'A', NORTH, { rateMinorPerHour: 12000 }), node(2, 'B', NORTH, { rateMinorPerHour: 900 }), node(3, 'C', SOUTH, { rateMinorPerHour: 4500 })],
+      [
+        node(1, 'A', NORTH, { rateMinorPerHour: 12000 }),
+        node(2, 'B', NORTH, { rateMinorPerHour: 900 }),
+        node(3, 'C', SOUTH, { rateMinorPerHour: 4500 }),
+      ],
       [NORTH, SOUTH],
     );
     const header = await loader.getHarness(MatSortHeaderHarness.with({ label: 'Rate per node-hour' }));
@@ -150,9 +154,7 @@ describe('NetworkPage', () => {
 
   it('states where the altitude and Sun limits come from', async () => {
     await answer([node(1, 'N1', NORTH)], [NORTH]);
-    expect(fixture.nativeElement.textContent).toContain(
-      "The altitude and Sun limits come from each node's own safety configuration.",
-    );
+    expect(fixture.nativeElement.textContent).toContain("The altitude and Sun limits come from each node's own safety configuration.");
   });
 
   it('no nodes: empty message, no table', async () => {

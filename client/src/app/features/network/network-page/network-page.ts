@@ -43,33 +43,55 @@ const SITE_COLUMNS = ['code', 'name', 'latitude', 'longitude', 'elevation', 'tim
 
 function nodeValue(node: TelescopeNode, column: string): SortValue {
   switch (column) {
-    case 'code': return node.code;
-    case 'name': return node.name;
-    case 'site': return node.site?.name;
-    case 'latitude': return node.site?.latitudeDeg;
-    case 'longitude': return node.site?.longitudeDeg;
-    case 'elevation': return node.site?.elevationM;
-    case 'aperture': return node.apertureM;
-    case 'band': return node.band;
-    case 'altitudeLimit': return node.altitudeLimitDeg;
-    case 'sunLimit': return node.sunAltitudeLimitDeg;
-    case 'weatherLoss': return node.weatherLossFraction;
-    case 'rate': return node.rateMinorPerHour;
-    case 'active': return node.active;
-    default: return null;
+    case 'code':
+      return node.code;
+    case 'name':
+      return node.name;
+    case 'site':
+      return node.site?.name;
+    case 'latitude':
+      return node.site?.latitudeDeg;
+    case 'longitude':
+      return node.site?.longitudeDeg;
+    case 'elevation':
+      return node.site?.elevationM;
+    case 'aperture':
+      return node.apertureM;
+    case 'band':
+      return node.band;
+    case 'altitudeLimit':
+      return node.altitudeLimitDeg;
+    case 'sunLimit':
+      return node.sunAltitudeLimitDeg;
+    case 'weatherLoss':
+      return node.weatherLossFraction;
+    case 'rate':
+      return node.rateMinorPerHour;
+    case 'active':
+      return node.active;
+    default:
+      return null;
   }
 }
 
 function siteValue(site: Site, column: string): SortValue {
   switch (column) {
-    case 'code': return site.code;
-    case 'name': return site.name;
-    case 'latitude': return site.latitudeDeg;
-    case 'longitude': return site.longitudeDeg;
-    case 'elevation': return site.elevationM;
-    case 'timeZone': return site.timeZone;
-    case 'sky': return site.skyBrightnessMagPerArcsec2;
-    default: return null;
+    case 'code':
+      return site.code;
+    case 'name':
+      return site.name;
+    case 'latitude':
+      return site.latitudeDeg;
+    case 'longitude':
+      return site.longitudeDeg;
+    case 'elevation':
+      return site.elevationM;
+    case 'timeZone':
+      return site.timeZone;
+    case 'sky':
+      return site.skyBrightnessMagPerArcsec2;
+    default:
+      return null;
   }
 }
 

@@ -60,7 +60,15 @@ export class GyrochroneChart {
         order: 3,
       });
       hidden.add(datasets.length);
-      datasets.push({ label: `−1σ of ${s.band.label}`, data: s.band.low, borderWidth: 0, pointRadius: 0, pointHitRadius: 0, fill: false, order: 3 });
+      datasets.push({
+        label: `−1σ of ${s.band.label}`,
+        data: s.band.low,
+        borderWidth: 0,
+        pointRadius: 0,
+        pointHitRadius: 0,
+        fill: false,
+        order: 3,
+      });
     }
     for (const curve of s.curves) {
       const { min, max } = curve.calibratedAgeMyr;
@@ -79,16 +87,21 @@ export class GyrochroneChart {
     }
     if (s.star) {
       const st = s.star;
-      const star = starDatasets(theme, `This star: ${formatValue(st.ageMyr, this.locale)} Myr, ${formatValue(st.periodDays, this.locale)} d`, { x: st.ageMyr, y: st.periodDays }, [
+      const star = starDatasets(
+        theme,
+        `This star: ${formatValue(st.ageMyr, this.locale)} Myr, ${formatValue(st.periodDays, this.locale)} d`,
+        { x: st.ageMyr, y: st.periodDays },
         [
-          { x: st.ageLowMyr, y: st.periodDays },
-          { x: st.ageHighMyr, y: st.periodDays },
+          [
+            { x: st.ageLowMyr, y: st.periodDays },
+            { x: st.ageHighMyr, y: st.periodDays },
+          ],
+          [
+            { x: st.ageMyr, y: st.periodLowDays },
+            { x: st.ageMyr, y: st.periodHighDays },
+          ],
         ],
-        [
-          { x: st.ageMyr, y: st.periodLowDays },
-          { x: st.ageMyr, y: st.periodHighDays },
-        ],
-      ]);
+      );
       datasets.push(star.marker);
       for (const bar of star.bars) {
         hidden.add(datasets.length);
@@ -136,7 +149,9 @@ export class GyrochroneChart {
       parts.push(list ? `At ${formatValue(s.star.ageMyr, this.locale)} Myr: ${list}.` : '');
     }
     if (s.band) parts.push(`Shaded: ±1σ of ${s.band.label} from its coefficients.`);
-    if (s.curves.some((c) => c.calibratedAgeMyr.min > GYROCHRONE_AGE_RANGE_MYR.min || c.calibratedAgeMyr.max < GYROCHRONE_AGE_RANGE_MYR.max)) {
+    if (
+      s.curves.some((c) => c.calibratedAgeMyr.min > GYROCHRONE_AGE_RANGE_MYR.min || c.calibratedAgeMyr.max < GYROCHRONE_AGE_RANGE_MYR.max)
+    ) {
       parts.push('Dashed: outside a relation’s calibrated ages.');
     }
     if (!s.curves.length) parts.push('No relation is calibrated for this colour.');

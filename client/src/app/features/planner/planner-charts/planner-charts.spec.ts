@@ -21,7 +21,10 @@ describe('PlannerCharts', () => {
   });
 
   it('with series: both charts, each with its accessible description', async () => {
-    fixture.componentRef.setInput('gyrochrone', gyrochroneSeries({ colour: { value: 1.1, system: 'BPRP' }, relation: 'angus2019', star: null }));
+    fixture.componentRef.setInput(
+      'gyrochrone',
+      gyrochroneSeries({ colour: { value: 1.1, system: 'BPRP' }, relation: 'angus2019', star: null }),
+    );
     fixture.componentRef.setInput('periodColour', periodColourSeries({ system: 'BPRP', ageMyr: 800, relation: 'angus2019', star: null }));
     await fixture.whenStable();
     expect(q('app-gyrochrone-chart canvas')?.getAttribute('aria-label')).toContain('Expected rotation period against age');
@@ -29,7 +32,15 @@ describe('PlannerCharts', () => {
   });
 
   it('both charts: period on a log axis with 1–2–5 ticks, the star as the one solid diamond, the shared legend style', async () => {
-    const star = { ageMyr: 800, ageLowMyr: 600, ageHighMyr: 1000, periodDays: 9, periodLowDays: 7, periodHighDays: 11, colour: { value: 1.1, system: 'BPRP' as const } };
+    const star = {
+      ageMyr: 800,
+      ageLowMyr: 600,
+      ageHighMyr: 1000,
+      periodDays: 9,
+      periodLowDays: 7,
+      periodHighDays: 11,
+      colour: { value: 1.1, system: 'BPRP' as const },
+    };
     fixture.componentRef.setInput('gyrochrone', gyrochroneSeries({ colour: { value: 1.1, system: 'BPRP' }, relation: 'angus2019', star }));
     fixture.componentRef.setInput('periodColour', periodColourSeries({ system: 'BPRP', ageMyr: 800, relation: 'angus2019', star }));
     await fixture.whenStable();

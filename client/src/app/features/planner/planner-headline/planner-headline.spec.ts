@@ -7,7 +7,11 @@ import { PlannerHeadline } from './planner-headline';
 const N1 = testNode(1, 'N1');
 const summaryFor = (ageMyr: number, magnitude: number) =>
   buildPlanSummary({
-    plan: computeTargetPlan({ colour: { value: 1.1, system: 'BPRP' }, ageMyr, ageUncertaintyMyr: 100, magnitude: { value: magnitude, band: 'G' } }, N1, TEST_SITE),
+    plan: computeTargetPlan(
+      { colour: { value: 1.1, system: 'BPRP' }, ageMyr, ageUncertaintyMyr: 100, magnitude: { value: magnitude, band: 'G' } },
+      N1,
+      TEST_SITE,
+    ),
     node: N1,
     combined: null,
     skyStatus: 'Sky window not checked yet.',
@@ -37,7 +41,15 @@ describe('PlannerHeadline', () => {
     expect(q('[data-testid=headline]')?.getAttribute('data-tone')).toBe('feasible');
     expect(q('[data-testid=verdict]')?.textContent).toContain('Feasible on N1');
     expect(all('[data-testid=summary-figures] dt').map((dt) => dt.textContent?.trim())).toEqual([
-      'Expected period', 'Spot amplitude', 'Per-visit precision', 'Visits', 'Cadence', 'Baseline', 'Node-hours', 'Fee', 'Completeness',
+      'Expected period',
+      'Spot amplitude',
+      'Per-visit precision',
+      'Visits',
+      'Cadence',
+      'Baseline',
+      'Node-hours',
+      'Fee',
+      'Completeness',
     ]);
     expect(q('[data-key=fee] .num')?.textContent).toBe('€517.50');
     expect(q('[data-key=period] .unit')?.textContent?.trim()).toBe('d');

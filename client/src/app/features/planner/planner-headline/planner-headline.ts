@@ -2,7 +2,12 @@ import { ChangeDetectionStrategy, Component, computed, input } from '@angular/co
 import { MatIcon } from '@angular/material/icon';
 import type { PlanSummary, SummaryTone } from '../plan-summary';
 
-const ICONS: Readonly<Record<SummaryTone, string>> = { feasible: 'check_circle', warning: 'warning', infeasible: 'block', invalid: 'edit_note' };
+const ICONS: Readonly<Record<SummaryTone, string>> = {
+  feasible: 'check_circle',
+  warning: 'warning',
+  infeasible: 'block',
+  invalid: 'edit_note',
+};
 
 /**
  * The summary block at the top of the results: the verdict, the numbers a proposer decides on,

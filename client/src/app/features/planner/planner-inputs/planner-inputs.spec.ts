@@ -75,7 +75,9 @@ describe('PlannerInputs', () => {
     await settle();
     await type('colour-input', '2.5');
     await settle();
-    expect(q('[data-testid=colour-warning]')?.textContent).toContain('A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.');
+    expect(q('[data-testid=colour-warning]')?.textContent).toContain(
+      'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.',
+    );
     expect(q('.colour-row mat-label')?.textContent).toContain('B−V colour');
   });
 

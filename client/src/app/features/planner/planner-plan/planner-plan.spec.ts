@@ -6,7 +6,11 @@ import { TEST_SITE, testNode } from '../planner-test-data';
 import { PlannerPlan } from './planner-plan';
 
 const N1 = testNode(1, 'N1');
-const PLAN = computeTargetPlan({ colour: { value: 1.1, system: 'BPRP' }, ageMyr: 800, ageUncertaintyMyr: 100, magnitude: { value: 11.5, band: 'G' } }, N1, TEST_SITE);
+const PLAN = computeTargetPlan(
+  { colour: { value: 1.1, system: 'BPRP' }, ageMyr: 800, ageUncertaintyMyr: 100, magnitude: { value: 11.5, band: 'G' } },
+  N1,
+  TEST_SITE,
+);
 
 describe('PlannerPlan', () => {
   let fixture: ComponentFixture<PlannerPlan>;
@@ -25,8 +29,19 @@ describe('PlannerPlan', () => {
   it('one collapsed panel per decision number, the cadence told once in one panel', () => {
     const keys = Array.from(host().querySelectorAll('mat-expansion-panel.explanation')).map((p) => p.getAttribute('data-key'));
     expect(keys).toEqual([
-      'periodDays', 'rossbyNumber', 'amplitudeRperPpm', 'perVisitPrecisionPpm', 'exposureSeconds', 'visits', 'completeness',
-      'cadence', 'baselineDays', 'skyBrightnessMagPerArcsec2', 'worstSkyBrightnessMagPerArcsec2', 'nodeHours', 'feeMinor',
+      'periodDays',
+      'rossbyNumber',
+      'amplitudeRperPpm',
+      'perVisitPrecisionPpm',
+      'exposureSeconds',
+      'visits',
+      'completeness',
+      'cadence',
+      'baselineDays',
+      'skyBrightnessMagPerArcsec2',
+      'worstSkyBrightnessMagPerArcsec2',
+      'nodeHours',
+      'feeMinor',
     ]);
     const cadence = q('[data-key=cadence]')!;
     expect(cadence.querySelector('.num')?.textContent).toBe('Every night');
@@ -60,7 +75,9 @@ describe('PlannerPlan', () => {
 
   it('no developer wording anywhere: provenance notes, code names, raw citation keys, minor units', () => {
     const text = host().textContent ?? '';
-    expect(text).not.toMatch(/from memory|our choice|Spincycle['’]s choice|no source|\[derived|maxExposure|minor units|young1967|R_per|NaN/);
+    expect(text).not.toMatch(
+      /from memory|our choice|Spincycle['’]s choice|no source|\[derived|maxExposure|minor units|young1967|R_per|NaN/,
+    );
     expect(q('[data-key=nodeHours] .tag-chip')?.textContent).toBe('Spincycle assumption');
     expect(q('[data-key=feeMinor] .tag-chip')?.textContent).toBe('Node parameter');
     expect(q('[data-key=feeMinor] .num')?.textContent).toBe('€517.50');

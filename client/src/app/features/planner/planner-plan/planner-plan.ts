@@ -1,11 +1,26 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, LOCALE_ID } from '@angular/core';
-import { MatAccordion, MatExpansionPanel, MatExpansionPanelDescription, MatExpansionPanelHeader, MatExpansionPanelTitle } from '@angular/material/expansion';
+import {
+  MatAccordion,
+  MatExpansionPanel,
+  MatExpansionPanelDescription,
+  MatExpansionPanelHeader,
+  MatExpansionPanelTitle,
+} from '@angular/material/expansion';
 import { MatIcon } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
 import { methodsAnchorFor } from '@spincycle/shared/science/method-docs';
 import type { ScienceFlag } from '@spincycle/shared/science/explained';
 import type { TargetPlan } from '@spincycle/shared/science/target-plan';
-import { allQuantityRows, cadenceStory, completenessPrices, keyRows, noExpectedPeriodFlag, type QuantityRow, searchBandSentence, SEVERITY_LABELS } from '../plan-display';
+import {
+  allQuantityRows,
+  cadenceStory,
+  completenessPrices,
+  keyRows,
+  noExpectedPeriodFlag,
+  type QuantityRow,
+  searchBandSentence,
+  SEVERITY_LABELS,
+} from '../plan-display';
 import { PROVENANCE_DESCRIPTIONS, PROVENANCE_LABELS } from '../../../ui/text/plan-wording';
 
 /** The cadence quantities, explained together in one panel. */
@@ -35,7 +50,15 @@ export interface ExplanationPanel {
 @Component({
   selector: 'app-planner-plan',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [MatAccordion, MatExpansionPanel, MatExpansionPanelDescription, MatExpansionPanelHeader, MatExpansionPanelTitle, MatIcon, RouterLink],
+  imports: [
+    MatAccordion,
+    MatExpansionPanel,
+    MatExpansionPanelDescription,
+    MatExpansionPanelHeader,
+    MatExpansionPanelTitle,
+    MatIcon,
+    RouterLink,
+  ],
   templateUrl: './planner-plan.html',
   styleUrl: './planner-plan.scss',
 })

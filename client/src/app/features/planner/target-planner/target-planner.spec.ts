@@ -85,7 +85,10 @@ const DEFAULT_TARGET: TargetPlanTarget = {
   ageUncertaintyMyr: PLANNER_DEFAULTS.ageUncertaintyMyr,
   magnitude: { value: PLANNER_DEFAULTS.magnitude, band: PLANNER_DEFAULTS.band },
 };
-const DEFAULT_OPTIONS = { falseAlarmProbability: PLANNER_DEFAULTS.falseAlarmProbability, completeness: PLANNER_DEFAULTS.completenessPercent / 100 };
+const DEFAULT_OPTIONS = {
+  falseAlarmProbability: PLANNER_DEFAULTS.falseAlarmProbability,
+  completeness: PLANNER_DEFAULTS.completenessPercent / 100,
+};
 
 describe('TargetPlanner', () => {
   let fixture: ComponentFixture<TargetPlanner>;
@@ -93,7 +96,10 @@ describe('TargetPlanner', () => {
   let loader: HarnessLoader;
 
   beforeEach(() => {
-    TestBed.configureTestingModule({ imports: [TargetPlanner], providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
+    TestBed.configureTestingModule({
+      imports: [TargetPlanner],
+      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
+    });
     backend = TestBed.inject(HttpTestingController);
     fixture = TestBed.createComponent(TargetPlanner);
     loader = TestbedHarnessEnvironment.loader(fixture);
@@ -144,7 +150,14 @@ describe('TargetPlanner', () => {
     return JSON.parse(
       JSON.stringify({
         cycle: { id: 7, code: 'C7', campaignStart: CYCLE.campaignStart, campaignEnd: CYCLE.campaignEnd },
-        nodes: [N1, N2].map((n) => ({ nodeId: n.id, nodeCode: n.code, nodeName: n.name, siteName: SITE.name, weatherLossFraction: n.weatherLossFraction, report: report(n) })),
+        nodes: [N1, N2].map((n) => ({
+          nodeId: n.id,
+          nodeCode: n.code,
+          nodeName: n.name,
+          siteName: SITE.name,
+          weatherLossFraction: n.weatherLossFraction,
+          report: report(n),
+        })),
       }),
     );
   }
@@ -175,7 +188,9 @@ describe('TargetPlanner', () => {
     expect(q('[data-testid=verdict]')?.getAttribute('aria-live')).toBe('polite');
     const headline = q('[data-testid=headline]')!;
     expect(headline.textContent).toContain(plan.feasible ? 'Feasible on N1' : 'Not feasible on N1');
-    expect(q('[data-testid=summary-figures] [data-key=visits] .num')?.textContent).toBe(formatValue(q0.visits.value, 'en-US', { integer: true }));
+    expect(q('[data-testid=summary-figures] [data-key=visits] .num')?.textContent).toBe(
+      formatValue(q0.visits.value, 'en-US', { integer: true }),
+    );
     expect(q('[data-testid=summary-figures] [data-key=fee] .num')?.textContent).toBe('€517.50');
     // Explanations open on demand: collapsed panels whose headers are buttons.
     const header = row.querySelector('mat-expansion-panel-header')!;
@@ -188,7 +203,9 @@ describe('TargetPlanner', () => {
     const prices = q('[data-testid=completeness-prices]')!;
     expect(prices.querySelectorAll('tbody tr')).toHaveLength(3);
     expect(prices.querySelector('tr.current th')?.textContent).toContain('90 %');
-    expect(prices.querySelector('[data-key=visitsForCompleteness99] td')?.textContent).toBe(formatValue(q0.visitsForCompleteness99.value, 'en-US', { integer: true }));
+    expect(prices.querySelector('[data-key=visitsForCompleteness99] td')?.textContent).toBe(
+      formatValue(q0.visitsForCompleteness99.value, 'en-US', { integer: true }),
+    );
     expect(q('[data-testid=search-band]')?.textContent).toContain(
       `Search the light curve for periods between ${formatValue(1 / plan.analysis.maxFrequencyPerDay, 'en-US')} and ${formatValue(1 / plan.analysis.minFrequencyPerDay, 'en-US')} d at false-alarm probability 0.01`,
     );
@@ -316,7 +333,9 @@ describe('TargetPlanner', () => {
   });
 
   it('nodes fail to load: error state with a retry that asks again', async () => {
-    backend.expectOne('/api/nodes').flush({ code: 'unavailable', message: 'Down for maintenance.' }, { status: 503, statusText: 'Unavailable' });
+    backend
+      .expectOne('/api/nodes')
+      .flush({ code: 'unavailable', message: 'Down for maintenance.' }, { status: 503, statusText: 'Unavailable' });
     backend.expectOne('/api/cycles').flush([CYCLE]);
     await fixture.whenStable();
     expect(text()).toContain('The nodes could not be loaded.');
@@ -341,7 +360,9 @@ describe('TargetPlanner', () => {
     await type('ra-input', '25h');
     await type('dec-input', '-20');
     await settle();
-    expect(q('[data-testid=ra-error]')?.textContent).toContain('Enter a right ascension between 0 and 24 h (or between 0° and 360°) (you typed 25h).');
+    expect(q('[data-testid=ra-error]')?.textContent).toContain(
+      'Enter a right ascension between 0 and 24 h (or between 0° and 360°) (you typed 25h).',
+    );
     backend.expectNone('/api/sky-windows');
   });
 
@@ -410,15 +431,23 @@ describe('TargetPlanner', () => {
     expect(sky.value).toBeLessThan(SITE.skyBrightnessMagPerArcsec2);
     expect(q('[data-key=skyBrightnessMagPerArcsec2] .num')?.textContent).toBe(formatValue(sky.value, 'en-US'));
     const why = q('[data-key=skyBrightnessMagPerArcsec2] .why')?.textContent ?? '';
-    expect(why).toContain(`median sky with the Moon over the ${windows.usableHoursByNight.filter((h) => h > 0).length} nights the target is observable`);
+    expect(why).toContain(
+      `median sky with the Moon over the ${windows.usableHoursByNight.filter((h) => h > 0).length} nights the target is observable`,
+    );
     expect(why).not.toContain('no sky windows given');
     expect(q('[data-key=skyBrightnessMagPerArcsec2] .source')?.textContent).toContain('Krisciunas & Schaefer (1991)');
-    expect(q('[data-key=worstSkyBrightnessMagPerArcsec2] .num')?.textContent).toBe(formatValue(onSky.plan.quantities.worstSkyBrightnessMagPerArcsec2.value, 'en-US'));
+    expect(q('[data-key=worstSkyBrightnessMagPerArcsec2] .num')?.textContent).toBe(
+      formatValue(onSky.plan.quantities.worstSkyBrightnessMagPerArcsec2.value, 'en-US'),
+    );
     // The headline and key rows give the proposal's numbers.
     const qs = onSky.plan.quantities;
     expect(keyValue('visits')).toBe(formatValue(qs.visits.value, 'en-US', { integer: true }));
-    expect(q('[data-testid=summary-figures] [data-key=visits] .num')?.textContent).toBe(formatValue(qs.visits.value, 'en-US', { integer: true }));
-    expect(q('[data-testid=summary-figures] [data-key=baseline] .num')?.textContent).toBe(formatValue(qs.baselineDays.value, 'en-US', { integer: true }));
+    expect(q('[data-testid=summary-figures] [data-key=visits] .num')?.textContent).toBe(
+      formatValue(qs.visits.value, 'en-US', { integer: true }),
+    );
+    expect(q('[data-testid=summary-figures] [data-key=baseline] .num')?.textContent).toBe(
+      formatValue(qs.baselineDays.value, 'en-US', { integer: true }),
+    );
     expect(q('[data-testid=headline]')?.textContent).toContain(onSky.feasible ? 'Feasible on N1' : 'Not feasible on N1');
     expect(text()).not.toMatch(/NaN|Infinity|undefined/);
   });
@@ -446,12 +475,14 @@ describe('TargetPlanner', () => {
     await type('ra-input', '101.25');
     await type('dec-input', '-16.7');
     await settle();
-    backend
-      .expectOne('/api/sky-windows')
-      .flush(
-        { code: 'validation_failed', message: 'Check the targets.', fieldErrors: { 'targets.0.dec': ['declination is not accepted here'] } },
-        { status: 400, statusText: 'Bad Request' },
-      );
+    backend.expectOne('/api/sky-windows').flush(
+      {
+        code: 'validation_failed',
+        message: 'Check the targets.',
+        fieldErrors: { 'targets.0.dec': ['declination is not accepted here'] },
+      },
+      { status: 400, statusText: 'Bad Request' },
+    );
     await fixture.whenStable();
     expect(q('[data-testid=dec-error]')?.textContent).toContain('Declination is not accepted here.');
     expect(text()).toContain('The sky window could not be computed');
@@ -473,7 +504,9 @@ describe('TargetPlanner', () => {
     for (const id of ['colour-input', 'age-input', 'magnitude-input', 'ra-input', 'dec-input']) {
       expect(q(`[data-testid=${id}]`)?.getAttribute('aria-invalid')).toBe('true');
     }
-    expect(q('[data-testid=headline]')?.textContent).toContain('Fix the 5 fields marked in red: Colour, Age, Magnitude, Right ascension, Declination.');
+    expect(q('[data-testid=headline]')?.textContent).toContain(
+      'Fix the 5 fields marked in red: Colour, Age, Magnitude, Right ascension, Declination.',
+    );
     backend.expectNone('/api/sky-windows');
   });
 

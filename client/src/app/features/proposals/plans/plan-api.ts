@@ -49,9 +49,7 @@ export class PlanApi {
   explanationResource(query: () => SkyWindowQuery | null) {
     return httpResource<PlanExplanation>(() => {
       const q = query();
-      return q === null
-        ? undefined
-        : { url: `/api/proposals/${q.proposalId}/targets/${q.targetId}/plan`, params: { nodeId: q.nodeId } };
+      return q === null ? undefined : { url: `/api/proposals/${q.proposalId}/targets/${q.targetId}/plan`, params: { nodeId: q.nodeId } };
     });
   }
 
@@ -59,9 +57,7 @@ export class PlanApi {
   skyWindowResource(query: () => SkyWindowQuery | null) {
     return httpResource<SkyWindowsReport>(() => {
       const q = query();
-      return q === null
-        ? undefined
-        : { url: `/api/proposals/${q.proposalId}/targets/${q.targetId}/sky`, params: { nodeId: q.nodeId } };
+      return q === null ? undefined : { url: `/api/proposals/${q.proposalId}/targets/${q.targetId}/sky`, params: { nodeId: q.nodeId } };
     });
   }
 }

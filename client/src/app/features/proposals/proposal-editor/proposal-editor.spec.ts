@@ -56,7 +56,9 @@ describe('ProposalEditor', () => {
     expect(el().querySelector('[data-testid=closes-utc]')?.textContent).toBe('15 Jan 2027, 23:59 UTC');
     const local = formatLocalInstant('2027-01-15T23:59:00Z', 'en-US');
     expect(el().querySelector('[data-testid=closes-your-time]')?.textContent ?? '').toBe(local);
-    expect(squash(el().querySelector('.deadline')?.textContent)).toBe(`Call closes in 5 days: 15 Jan 2027, 23:59 UTC${local && ` (your time: ${local})`}`);
+    expect(squash(el().querySelector('.deadline')?.textContent)).toBe(
+      `Call closes in 5 days: 15 Jan 2027, 23:59 UTC${local && ` (your time: ${local})`}`,
+    );
     expect(el().querySelector('app-proposal-overview textarea')).not.toBeNull();
     expect(el().querySelector('[data-testid=read-only-banner]')).toBeNull();
   });
@@ -64,9 +66,7 @@ describe('ProposalEditor', () => {
   it('submitted: a banner says when, and that every tab is read-only', async () => {
     await harness.navigateByUrl('/proposals/5/overview');
     TestBed.tick();
-    backend
-      .expectOne('/api/proposals/5')
-      .flush(testProposal({ state: 'submitted', editable: false, submittedAt: '2027-01-09T16:45:00Z' }));
+    backend.expectOne('/api/proposals/5').flush(testProposal({ state: 'submitted', editable: false, submittedAt: '2027-01-09T16:45:00Z' }));
     await harness.fixture.whenStable();
     const banner = el().querySelector('[data-testid=read-only-banner]') as HTMLElement;
     expect(banner.textContent).toContain('Submitted on');
@@ -81,7 +81,9 @@ describe('ProposalEditor', () => {
   it('not on the team (404): says so instead of the tabs', async () => {
     await harness.navigateByUrl('/proposals/99/overview');
     TestBed.tick();
-    backend.expectOne('/api/proposals/99').flush({ code: 'proposal_not_found', message: 'No proposal 99' }, { status: 404, statusText: 'Not Found' });
+    backend
+      .expectOne('/api/proposals/99')
+      .flush({ code: 'proposal_not_found', message: 'No proposal 99' }, { status: 404, statusText: 'Not Found' });
     await harness.fixture.whenStable();
     expect(el().textContent).toContain('This proposal does not exist, or you are not on its team.');
     expect(el().querySelector('nav')).toBeNull();

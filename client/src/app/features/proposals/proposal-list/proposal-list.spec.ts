@@ -88,7 +88,11 @@ describe('ProposalList', () => {
     TestBed.tick();
     backend
       .expectOne('/api/cycles')
-      .flush([testCycle({ id: 11 }), testCycle({ id: 12, code: '2026B', status: 'closed' }), testCycle({ id: 13, code: '2027B', title: 'Ember season' })]);
+      .flush([
+        testCycle({ id: 11 }),
+        testCycle({ id: 12, code: '2026B', status: 'closed' }),
+        testCycle({ id: 13, code: '2027B', title: 'Ember season' }),
+      ]);
     await fixture.whenStable();
 
     const select = await root.getHarness(MatSelectHarness);
@@ -117,7 +121,10 @@ describe('ProposalList', () => {
     await (await root.getHarness(MatButtonHarness.with({ text: 'Create draft' }))).click();
     const post = backend.expectOne((req) => req.method === 'POST' && req.url === '/api/proposals');
     expect(post.request.body).toEqual({ cycleId: 11, title: 'Late idea' });
-    post.flush({ code: 'call_not_open', message: 'The call of 2027A closed on 15 Jan 2027 at 23:59 UTC.' }, { status: 422, statusText: 'Unprocessable' });
+    post.flush(
+      { code: 'call_not_open', message: 'The call of 2027A closed on 15 Jan 2027 at 23:59 UTC.' },
+      { status: 422, statusText: 'Unprocessable' },
+    );
     await fixture.whenStable();
     expect(document.querySelector('[data-testid=server-error]')?.textContent).toContain('closed on 15 Jan 2027');
     expect(navigate).not.toHaveBeenCalled();

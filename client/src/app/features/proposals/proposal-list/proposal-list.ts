@@ -35,15 +35,24 @@ const COLUMNS = ['title', 'cycle', 'state', 'role', 'targets', 'hours', 'updated
 
 function summaryValue(row: ProposalSummary, column: string): SortValue {
   switch (column) {
-    case 'title': return row.title;
-    case 'cycle': return row.cycleCode;
-    case 'state': return row.state;
-    case 'role': return row.myRole;
-    case 'targets': return row.targetCount;
-    case 'hours': return row.requestedNodeHours;
-    case 'updated': return Date.parse(row.updatedAt);
-    case 'closes': return Date.parse(row.callClosesAt);
-    default: return null;
+    case 'title':
+      return row.title;
+    case 'cycle':
+      return row.cycleCode;
+    case 'state':
+      return row.state;
+    case 'role':
+      return row.myRole;
+    case 'targets':
+      return row.targetCount;
+    case 'hours':
+      return row.requestedNodeHours;
+    case 'updated':
+      return Date.parse(row.updatedAt);
+    case 'closes':
+      return Date.parse(row.callClosesAt);
+    default:
+      return null;
   }
 }
 

@@ -92,7 +92,9 @@ describe('ProposalOverview', () => {
     await completeness.blur();
     await pause();
     backend.expectNone(isPatch);
-    expect(fixture.nativeElement.querySelector('[data-testid=error-completeness]')?.textContent).toContain('completeness must be between 50 % and 99 %');
+    expect(fixture.nativeElement.querySelector('[data-testid=error-completeness]')?.textContent).toContain(
+      'completeness must be between 50 % and 99 %',
+    );
     expect(status()).toContain('Completeness must be between 50 % and 99 % to save it.');
   });
 
@@ -100,14 +102,18 @@ describe('ProposalOverview', () => {
     const completeness = await loader.getHarness(MatInputHarness.with({ selector: '[data-testid=completeness]' }));
     await completeness.setValue('80');
     await pause();
-    backend
-      .expectOne(isPatch)
-      .flush(
-        { code: 'invalid_input', message: 'Check the highlighted fields', fieldErrors: { completeness: ['completeness refused by the server'] } },
-        { status: 400, statusText: 'Bad Request' },
-      );
+    backend.expectOne(isPatch).flush(
+      {
+        code: 'invalid_input',
+        message: 'Check the highlighted fields',
+        fieldErrors: { completeness: ['completeness refused by the server'] },
+      },
+      { status: 400, statusText: 'Bad Request' },
+    );
     await fixture.whenStable();
-    expect(fixture.nativeElement.querySelector('[data-testid=error-completeness]')?.textContent).toContain('completeness refused by the server');
+    expect(fixture.nativeElement.querySelector('[data-testid=error-completeness]')?.textContent).toContain(
+      'completeness refused by the server',
+    );
   });
 
   it('409: shows the banner with the server message, keeps the typed text and sends nothing more', async () => {
@@ -116,10 +122,7 @@ describe('ProposalOverview', () => {
     await pause();
     backend
       .expectOne(isPatch)
-      .flush(
-        { code: 'version_conflict', message: 'Someone else saved this proposal at 14:01.' },
-        { status: 409, statusText: 'Conflict' },
-      );
+      .flush({ code: 'version_conflict', message: 'Someone else saved this proposal at 14:01.' }, { status: 409, statusText: 'Conflict' });
     await fixture.whenStable();
 
     const banner = fixture.nativeElement.querySelector('[data-testid=conflict-banner]') as HTMLElement;
@@ -178,15 +181,38 @@ describe('ProposalOverview request table', () => {
     }),
     nodeIds: [1, 2],
     request: [
-      { nodeId: 1, nodeCode: 'KRG-50', nodeHours: 809.68, feeMinor: 3643560, currency: 'eur', targets: 60, infeasibleTargets: 3, infeasibleNodeHours: 41.2 },
-      { nodeId: 2, nodeCode: 'VHM-40', nodeHours: 212.5, feeMinor: 637500, currency: 'eur', targets: 60, infeasibleTargets: 0, infeasibleNodeHours: 0 },
+      {
+        nodeId: 1,
+        nodeCode: 'KRG-50',
+        nodeHours: 809.68,
+        feeMinor: 3643560,
+        currency: 'eur',
+        targets: 60,
+        infeasibleTargets: 3,
+        infeasibleNodeHours: 41.2,
+      },
+      {
+        nodeId: 2,
+        nodeCode: 'VHM-40',
+        nodeHours: 212.5,
+        feeMinor: 637500,
+        currency: 'eur',
+        targets: 60,
+        infeasibleTargets: 0,
+        infeasibleNodeHours: 0,
+      },
     ],
   });
 
   async function render(proposal = OVER): Promise<void> {
     TestBed.configureTestingModule({
       imports: [ProposalOverview],
-      providers: [ProposalStore, provideHttpClient(), provideHttpClientTesting(), { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } }],
+      providers: [
+        ProposalStore,
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+      ],
     });
     backend = TestBed.inject(HttpTestingController);
     TestBed.inject(ProposalStore).id.set(5);

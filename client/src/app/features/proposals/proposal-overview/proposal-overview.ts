@@ -218,6 +218,12 @@ export default class ProposalOverview {
 
   private values(): OverviewValues {
     const v = this.form.getRawValue();
-    return { title: v.title, abstract: v.abstract, category: v.category, nodeIds: v.nodeIds, completeness: completenessFromPercent(v.completeness) };
+    return {
+      title: v.title,
+      abstract: v.abstract,
+      category: v.category,
+      nodeIds: v.nodeIds,
+      completeness: completenessFromPercent(v.completeness),
+    };
   }
 }

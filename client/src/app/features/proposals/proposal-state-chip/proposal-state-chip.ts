@@ -40,13 +40,17 @@ export class ProposalStateChip {
   protected readonly label = computed(() => PROPOSAL_STATE_LABELS[this.state()]);
   protected readonly tone = computed(() => {
     switch (this.state()) {
-      case 'draft': return 'chip draft';
+      case 'draft':
+        return 'chip draft';
       case 'submitted':
       case 'in_review':
-      case 'ranked': return 'chip active';
+      case 'ranked':
+        return 'chip active';
       case 'awarded':
-      case 'reserve': return 'chip good';
-      default: return 'chip ended';
+      case 'reserve':
+        return 'chip good';
+      default:
+        return 'chip ended';
     }
   });
 }

@@ -1,11 +1,6 @@
 import { HttpClient, HttpEvent, httpResource } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
-import type {
-  TargetInput,
-  TargetRow,
-  TargetUploadMode,
-  TargetUploadResult,
-} from '@spincycle/shared/proposals/target-schemas';
+import type { TargetInput, TargetRow, TargetUploadMode, TargetUploadResult } from '@spincycle/shared/proposals/target-schemas';
 import { Observable } from 'rxjs';
 
 export type { TargetUploadMode, TargetUploadResult };

@@ -56,7 +56,16 @@ export function testProposal(overrides: Partial<Proposal> = {}): Proposal {
     justification: null,
     targetCount: 2,
     request: [
-      { nodeId: 1, nodeCode: 'KRG-50', nodeHours: 42.5, feeMinor: 206125, currency: 'eur', targets: 2, infeasibleTargets: 1, infeasibleNodeHours: 18.25 },
+      {
+        nodeId: 1,
+        nodeCode: 'KRG-50',
+        nodeHours: 42.5,
+        feeMinor: 206125,
+        currency: 'eur',
+        targets: 2,
+        infeasibleTargets: 1,
+        infeasibleNodeHours: 18.25,
+      },
     ],
     myRole: 'pi',
     editable: true,

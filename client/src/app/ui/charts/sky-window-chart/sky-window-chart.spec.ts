@@ -77,7 +77,8 @@ describe('SkyWindowChart', () => {
   });
 
   it('with an assessment: shows its verdict and whether the cadence fits', async () => {
-    const verdict = '26 of 30 nights can hold the visit; longest gap 3 nights; cadence does not fit: a gap of 3 nights without the target is longer than the cadence allows';
+    const verdict =
+      '26 of 30 nights can hold the visit; longest gap 3 nights; cadence does not fit: a gap of 3 nights without the target is longer than the cadence allows';
     const host = await render({ fits: false, verdict } as CadenceAssessment);
     const line = host.querySelector('[data-testid=sky-verdict]')!;
     expect(line.textContent).toContain(verdict);
@@ -114,8 +115,12 @@ describe('sky-window-series', () => {
 
   it('says "no gap" for consecutive nights and nothing about gaps with one night (gap = nights missed in between)', () => {
     const { target } = report();
-    expect(summaryVerdict({ ...target, summary: { ...target.summary, usableNights: 30, longestGapNights: 0 } })).toBe('observable on 30 of 30 nights; no gap');
-    expect(summaryVerdict({ ...target, summary: { ...target.summary, usableNights: 1, longestGapNights: null } })).toBe('observable on 1 of 30 nights');
+    expect(summaryVerdict({ ...target, summary: { ...target.summary, usableNights: 30, longestGapNights: 0 } })).toBe(
+      'observable on 30 of 30 nights; no gap',
+    );
+    expect(summaryVerdict({ ...target, summary: { ...target.summary, usableNights: 1, longestGapNights: null } })).toBe(
+      'observable on 1 of 30 nights',
+    );
   });
 
   it('a target never observable says so', () => {

@@ -52,7 +52,8 @@ export class SkyWindowChart {
 
   protected readonly summaryText = computed(() => {
     const s = this.target().summary;
-    if (!s.firstUsableNight || !s.lastUsableNight) return 'The target never rises above the node’s altitude limit in darkness during the campaign.';
+    if (!s.firstUsableNight || !s.lastUsableNight)
+      return 'The target never rises above the node’s altitude limit in darkness during the campaign.';
     const number = (value: number, digits: number) => new Intl.NumberFormat(this.locale, { maximumFractionDigits: digits }).format(value);
     return (
       `First usable night ${formatNightDate(s.firstUsableNight, this.locale, true)}, last ${formatNightDate(s.lastUsableNight, this.locale, true)}; ` +

@@ -26,7 +26,10 @@ describe('ProposalJustification', () => {
   let backend: HttpTestingController;
 
   beforeEach(async () => {
-    TestBed.configureTestingModule({ imports: [ProposalJustification], providers: [ProposalStore, provideHttpClient(), provideHttpClientTesting()] });
+    TestBed.configureTestingModule({
+      imports: [ProposalJustification],
+      providers: [ProposalStore, provideHttpClient(), provideHttpClientTesting()],
+    });
     backend = TestBed.inject(HttpTestingController);
     TestBed.inject(ProposalStore).id.set(5);
     fixture = TestBed.createComponent(ProposalJustification);

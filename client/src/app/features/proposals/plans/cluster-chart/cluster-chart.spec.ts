@@ -7,7 +7,10 @@ import { ClusterChart, ClusterPointSelection } from './cluster-chart';
 describe('ClusterChart', () => {
   let fixture: ComponentFixture<ClusterChart>;
 
-  async function render(targets = [testTarget(1, { colour: 0.8 }), testTarget(2, { colour: 1.2 })], plans = [testPlanRow(1, 1), testPlanRow(2, 1, { feasible: false }), testPlanRow(2, 2, { feasible: false })]) {
+  async function render(
+    targets = [testTarget(1, { colour: 0.8 }), testTarget(2, { colour: 1.2 })],
+    plans = [testPlanRow(1, 1), testPlanRow(2, 1, { feasible: false }), testPlanRow(2, 2, { feasible: false })],
+  ) {
     TestBed.configureTestingModule({ imports: [ClusterChart] });
     fixture = TestBed.createComponent(ClusterChart);
     fixture.componentRef.setInput('targets', targets);
@@ -35,16 +38,23 @@ describe('ClusterChart', () => {
     expect(scales['y'].title.text).toBe('Expected rotation period (d)');
   });
 
-  it('period on a log axis with 1–2–5 ticks, markers and legend in the charts\' one style', async () => {
+  it("period on a log axis with 1–2–5 ticks, markers and legend in the charts' one style", async () => {
     await render();
     const options = chart().options!;
-    const y = (options.scales as Record<string, { type: string; afterBuildTicks?: unknown; ticks: { callback: (v: number) => string } }>)['y'];
+    const y = (options.scales as Record<string, { type: string; afterBuildTicks?: unknown; ticks: { callback: (v: number) => string } }>)[
+      'y'
+    ];
     expect(y.type).toBe('logarithmic');
     expect(y.afterBuildTicks).toEqual(expect.any(Function));
     expect([0.5, 1, 2, 3, 5, 10].map((v) => y.ticks.callback(v))).toEqual(['0.5', '1', '2', '', '5', '10']);
     expect(options.plugins?.legend?.position).toBe('bottom');
     expect(options.plugins?.legend?.labels?.usePointStyle).toBe(true);
-    const datasets = (chart().data?.datasets ?? []) as { label?: string; pointStyle?: string; pointRadius?: number; borderDash?: number[] }[];
+    const datasets = (chart().data?.datasets ?? []) as {
+      label?: string;
+      pointStyle?: string;
+      pointRadius?: number;
+      borderDash?: number[];
+    }[];
     const byLabel = (label: string) => datasets.find((d) => d.label === label)!;
     expect(byLabel('Target: feasible on every planned node')).toMatchObject({ pointStyle: 'circle', pointRadius: 6 });
     expect(byLabel('Target: infeasible on every node')).toMatchObject({ pointStyle: 'crossRot', pointRadius: 6 });

@@ -75,9 +75,12 @@ export function clusterSeries(targets: readonly TargetRow[], plans: readonly Pla
   const defaultRelation = defaultRelationFor(system);
 
   // The curves are the planner's period–colour curves at the shared age (the default relation selected).
-  const curves: ClusterCurve[] = periodColourSeries({ system, ageMyr, relation: defaultRelation, star: null }).curves.map(
-    (curve) => ({ relation: curve.relation, label: curve.label, isDefault: curve.selected, points: curve.points }),
-  );
+  const curves: ClusterCurve[] = periodColourSeries({ system, ageMyr, relation: defaultRelation, star: null }).curves.map((curve) => ({
+    relation: curve.relation,
+    label: curve.label,
+    isDefault: curve.selected,
+    points: curve.points,
+  }));
 
   let band: ClusterSeries['band'] = null;
   const defaultCurve = curves.find((c) => c.isDefault);
@@ -87,8 +90,12 @@ export function clusterSeries(targets: readonly TargetRow[], plans: readonly Pla
     for (const { x } of defaultCurve.points) {
       const range = scienceOrNull(
         () =>
-          predictPeriod({ relation: defaultRelation, colour: { value: x, system }, ageMyr, ageUncertaintyMyr: ageUncertaintyMyr || undefined })
-            .rangeDays,
+          predictPeriod({
+            relation: defaultRelation,
+            colour: { value: x, system },
+            ageMyr,
+            ageUncertaintyMyr: ageUncertaintyMyr || undefined,
+          }).rangeDays,
       );
       if (range) {
         low.push({ x, y: range.low });

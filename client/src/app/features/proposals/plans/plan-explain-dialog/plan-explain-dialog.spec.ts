@@ -13,7 +13,9 @@ describe('explainRows', () => {
       'eur',
     );
     expect(rows.map((r) => r.label)).toEqual(['Expected rotation period', 'Baseline for the period precision', 'Fee', 'Something new']);
-    expect(rows[0]).toEqual(expect.objectContaining({ value: '10.23', unit: 'd', tagLabel: 'Published relation', methodsAnchor: 'gyrochronology' }));
+    expect(rows[0]).toEqual(
+      expect.objectContaining({ value: '10.23', unit: 'd', tagLabel: 'Published relation', methodsAnchor: 'gyrochronology' }),
+    );
     expect(rows[1].value).toBe('—');
     expect(rows[2]).toEqual(expect.objectContaining({ value: '€194.00', unit: '' }));
     expect(rows[3]).toEqual(expect.objectContaining({ unit: '', tagLabel: 'Spincycle assumption', methodsAnchor: null }));
@@ -45,10 +47,20 @@ describe('explainRows', () => {
       { periodDays: { value: 74.4, unit: 'd', why: 'Relation.', source: 'Angus et al. (2019)', tag: 'paper' } },
       'en-US',
       'eur',
-      [{ code: 'noExpectedPeriod', severity: 'blocking', message: 'no expected period: no expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr' }],
+      [
+        {
+          code: 'noExpectedPeriod',
+          severity: 'blocking',
+          message: 'no expected period: no expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr',
+        },
+      ],
     );
     expect(rows[0]).toEqual(
-      expect.objectContaining({ value: 'No expected period', unit: '', why: 'No expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr.' }),
+      expect.objectContaining({
+        value: 'No expected period',
+        unit: '',
+        why: 'No expected period: the given age 14000 Myr exceeds the age of the universe, 13787 Myr.',
+      }),
     );
   });
 });
@@ -64,7 +76,12 @@ describe('PlanExplainDialog', () => {
     const { provideRouter } = await import('@angular/router');
     TestBed.configureTestingModule({
       imports: [PlanExplainDialog],
-      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(3, 1) } }],
+      providers: [
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(3, 1) } },
+      ],
     });
     const backend = TestBed.inject(HttpTestingController);
     const fixture = TestBed.createComponent(PlanExplainDialog);
@@ -72,26 +89,45 @@ describe('PlanExplainDialog', () => {
     const req = backend.expectOne((r) => r.url === '/api/proposals/5/targets/3/plan' && r.params.get('nodeId') === '1');
     expect((fixture.nativeElement as HTMLElement).querySelector('mat-progress-bar')).not.toBeNull();
     req.flush({
-      targetId: 3, targetName: 'Lantern 3', nodeId: 1, nodeCode: 'KRG-50', currency: 'eur', relationLabel: 'Barnes (2007)', flags: [],
-      quantities: { periodDays: { value: 10.2, unit: 'd', why: 'Expected period.', source: 'Barnes (2007), ApJ 669, 1167, eqs. 1–3', tag: 'paper' } },
+      targetId: 3,
+      targetName: 'Lantern 3',
+      nodeId: 1,
+      nodeCode: 'KRG-50',
+      currency: 'eur',
+      relationLabel: 'Barnes (2007)',
+      flags: [],
+      quantities: {
+        periodDays: { value: 10.2, unit: 'd', why: 'Expected period.', source: 'Barnes (2007), ApJ 669, 1167, eqs. 1–3', tag: 'paper' },
+      },
     });
     await fixture.whenStable();
     const text = (fixture.nativeElement as HTMLElement).querySelector('[data-testid=quantities]')!.textContent!;
     expect(text).toContain('Expected rotation period');
     expect(text).toContain('Barnes (2007), ApJ 669, 1167');
-    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid=quantities] .methods-link')?.getAttribute('href')).toBe('/methods#gyrochronology');
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid=quantities] .methods-link')?.getAttribute('href')).toBe(
+      '/methods#gyrochronology',
+    );
     backend.verify();
 
     TestBed.resetTestingModule();
     TestBed.configureTestingModule({
       imports: [PlanExplainDialog],
-      providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(4, 1) } }],
+      providers: [
+        provideRouter([]),
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: MAT_DIALOG_DATA, useValue: { proposalId: 5, row: testPlanRow(4, 1) } },
+      ],
     });
     const backend2 = TestBed.inject(HttpTestingController);
     const failing = TestBed.createComponent(PlanExplainDialog);
     TestBed.tick();
-    backend2.expectOne((r) => r.url === '/api/proposals/5/targets/4/plan').flush({ code: 'plan_not_found', message: 'No computed plan' }, { status: 404, statusText: 'Not Found' });
+    backend2
+      .expectOne((r) => r.url === '/api/proposals/5/targets/4/plan')
+      .flush({ code: 'plan_not_found', message: 'No computed plan' }, { status: 404, statusText: 'Not Found' });
     await failing.whenStable();
-    expect((failing.nativeElement as HTMLElement).querySelector('[role=alert]')?.textContent).toMatch(/could not be loaded.*No computed plan/);
+    expect((failing.nativeElement as HTMLElement).querySelector('[role=alert]')?.textContent).toMatch(
+      /could not be loaded.*No computed plan/,
+    );
   });
 });

@@ -17,7 +17,10 @@ import { PlanApi } from '../plan-api';
 
 /** `periodDays` → `Period days` for a quantity without a label. */
 function humanize(key: string): string {
-  const words = key.replace(/([A-Z])/g, ' $1').toLowerCase().trim();
+  const words = key
+    .replace(/([A-Z])/g, ' $1')
+    .toLowerCase()
+    .trim();
   return words.charAt(0).toUpperCase() + words.slice(1);
 }
 
@@ -65,7 +68,8 @@ export function explainRows(
   const whole = new Intl.NumberFormat(locale, { maximumFractionDigits: 0 });
   return [...known, ...others].map((key) => {
     const q = quantities[key];
-    let value = q.value === null || !Number.isFinite(q.value) ? '—' : Number.isInteger(q.value) ? whole.format(q.value) : format.format(q.value);
+    let value =
+      q.value === null || !Number.isFinite(q.value) ? '—' : Number.isInteger(q.value) ? whole.format(q.value) : format.format(q.value);
     let unit = q.unit === '1' ? '' : q.unit;
     if (key === 'feeMinor' && q.value !== null) {
       value = formatMinorCurrency(q.value, currency, locale);
@@ -76,7 +80,17 @@ export function explainRows(
     } else if (key === 'periodDays' && noPeriod) {
       const source = noPeriod.source ?? q.source;
       const p = provenanceOf({ source, tag: q.tag });
-      return { key, label: QUANTITY_LABELS.periodDays, value: 'No expected period', unit: '', why: plainSentence(reasonSentence(noPeriod.message)), source: p.reference, tag: q.tag, tagLabel: p.label, methodsAnchor: methodsAnchorFor(key) };
+      return {
+        key,
+        label: QUANTITY_LABELS.periodDays,
+        value: 'No expected period',
+        unit: '',
+        why: plainSentence(reasonSentence(noPeriod.message)),
+        source: p.reference,
+        tag: q.tag,
+        tagLabel: p.label,
+        methodsAnchor: methodsAnchorFor(key),
+      };
     }
     const p = provenanceOf(q);
     return {

@@ -128,7 +128,9 @@ describe('ProposalPlans', () => {
 
     it('shows the completeness of each plan as a percentage, a dash where the row does not carry it', () => {
       // A soft hyphen lets the header break as "Complete-/ness" (the table fits 1440 px).
-      const headers = Array.from(el().querySelectorAll('[data-testid=plans-table] th')).map((th) => th.textContent?.replace(/\u00ad/g, '').trim());
+      const headers = Array.from(el().querySelectorAll('[data-testid=plans-table] th')).map((th) =>
+        th.textContent?.replace(/\u00ad/g, '').trim(),
+      );
       expect(headers.indexOf('Completeness')).toBe(headers.indexOf('Visits') + 1);
       const cells = Array.from(el().querySelectorAll('[data-testid=completeness-cell]')).map((td) => td.textContent?.trim());
       expect(cells).toEqual(['90 %', '—']);
@@ -148,7 +150,13 @@ describe('ProposalPlans', () => {
       expect(dialogOpen.mock.calls[0][1].data).toEqual({ proposalId: 5, row: expect.objectContaining({ targetId: 1, nodeId: 1 }) });
       buttons[3].click();
       expect(dialogOpen.mock.calls[1][1].data).toEqual(
-        expect.objectContaining({ proposalId: 5, targetId: 2, nodeId: 1, targetName: 'Lantern 2', nodes: [{ nodeId: 1, nodeCode: 'KRG-50' }] }),
+        expect.objectContaining({
+          proposalId: 5,
+          targetId: 2,
+          nodeId: 1,
+          targetName: 'Lantern 2',
+          nodes: [{ nodeId: 1, nodeCode: 'KRG-50' }],
+        }),
       );
     });
 
@@ -156,7 +164,9 @@ describe('ProposalPlans', () => {
       expect(markerCalls).toBe(1);
       expect(el().querySelector('[data-testid=cluster-chart]')).not.toBeNull();
       expect(el().querySelector('[data-testid=cluster-summary]')?.textContent).toContain('2 targets of one age, 650 Myr');
-      expect(el().querySelector('canvas')?.getAttribute('aria-label')).toContain('expected rotation period in days against Intrinsic colour (B−V)₀ (mag) at 650 Myr');
+      expect(el().querySelector('canvas')?.getAttribute('aria-label')).toContain(
+        'expected rotation period in days against Intrinsic colour (B−V)₀ (mag) at 650 Myr',
+      );
     });
   });
 
@@ -239,7 +249,9 @@ describe('ProposalPlans', () => {
     backend.expectOne(STATUS_URL).flush(run({ state: 'idle', done: 4, total: 4, finishedAt: '2030-01-01T10:00:00Z' }));
     TestBed.tick();
     // The run ended: the list once, with the plans.
-    backend.expectOne(plansList).flush(body({ run: run({ finishedAt: '2030-01-01T10:00:00Z' }), plans: [testPlanRow(1, 1), testPlanRow(2, 1)] }));
+    backend
+      .expectOne(plansList)
+      .flush(body({ run: run({ finishedAt: '2030-01-01T10:00:00Z' }), plans: [testPlanRow(1, 1), testPlanRow(2, 1)] }));
     await Promise.resolve();
     TestBed.tick();
     expect(el().querySelector('[data-testid=plan-progress]')).toBeNull();
@@ -277,15 +289,17 @@ describe('ProposalPlans', () => {
     expect(el().querySelector('.mat-mdc-paginator-range-label')?.textContent?.trim()).toBe('26 – 50 of 60');
 
     // Sorting by node-hours, descending: back to page 1, sorted by the server.
-    const header = Array.from(el().querySelectorAll('[data-testid=plans-table] th')).find((th) => th.textContent?.includes('Node-hours')) as HTMLElement;
-    (header.querySelector('.mat-sort-header-container') as HTMLElement ?? header).click();
+    const header = Array.from(el().querySelectorAll('[data-testid=plans-table] th')).find((th) =>
+      th.textContent?.includes('Node-hours'),
+    ) as HTMLElement;
+    ((header.querySelector('.mat-sort-header-container') as HTMLElement) ?? header).click();
     TestBed.tick();
     let sorted = backend.expectOne(plansList);
     expect(sorted.request.params.get('sort')).toBe('nodeHours');
     expect(sorted.request.params.get('page')).toBe('1');
     sorted.flush(body({ plans: rows, matched: 60, counts: { plans: 60, infeasible: 7 } }));
     await fixture.whenStable();
-    (header.querySelector('.mat-sort-header-container') as HTMLElement ?? header).click();
+    ((header.querySelector('.mat-sort-header-container') as HTMLElement) ?? header).click();
     TestBed.tick();
     sorted = backend.expectOne(plansList);
     expect(sorted.request.params.get('sort')).toBe('-nodeHours');

@@ -25,7 +25,14 @@ import {
   MatTable,
 } from '@angular/material/table';
 import { MatTooltip } from '@angular/material/tooltip';
-import { PLAN_SORT_KEYS, type PlanListParams, type PlanRunStatus, type PlanTableQuantity, type ProposalPlans as ProposalPlansBody, type TargetPlanRow } from '@spincycle/shared/proposals/plan-types';
+import {
+  PLAN_SORT_KEYS,
+  type PlanListParams,
+  type PlanRunStatus,
+  type PlanTableQuantity,
+  type ProposalPlans as ProposalPlansBody,
+  type TargetPlanRow,
+} from '@spincycle/shared/proposals/plan-types';
 import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
 import { debounceTime, map } from 'rxjs';
 import { loadErrorText, readApiError } from '../../../../core/http/api-error-message';
@@ -67,7 +74,13 @@ export const CELL_QUANTITY: Readonly<Record<string, string>> = {
 const inProgress = (run: PlanRunStatus | null | undefined) => run?.state === 'queued' || run?.state === 'running';
 
 /** The list query of the table's state: the column ids are the server's sort keys. */
-export function planListParams(state: { pageIndex: number; pageSize: number; sort: Sort; text: string; infeasibleOnly: boolean }): PlanListParams {
+export function planListParams(state: {
+  pageIndex: number;
+  pageSize: number;
+  sort: Sort;
+  text: string;
+  infeasibleOnly: boolean;
+}): PlanListParams {
   return {
     page: state.pageIndex + 1,
     pageSize: state.pageSize,

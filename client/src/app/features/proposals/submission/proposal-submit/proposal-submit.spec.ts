@@ -80,16 +80,20 @@ describe('ProposalSubmit', () => {
     expect(summary?.getAttribute('href')).toBe('/api/proposals/5/summary.pdf');
   });
 
-  it('capacity: a request above the cycle\'s capacity is a caution of its own, apart from the infeasible targets, and Submit stays on', async () => {
+  it("capacity: a request above the cycle's capacity is a caution of its own, apart from the infeasible targets, and Submit stays on", async () => {
     await render({
       ...READY,
       warnings: [
-        { field: 'request', message: '809.68 node-hours are requested on KRG-50, more than the 620 the cycle offers there; it can be submitted, and the panel sees the overrun' },
+        {
+          field: 'request',
+          message:
+            '809.68 node-hours are requested on KRG-50, more than the 620 the cycle offers there; it can be submitted, and the panel sees the overrun',
+        },
         { field: 'plans', message: '3 of 120 target plans are infeasible as they stand (see the plans)' },
       ],
     });
     const capacity = el().querySelector('[data-testid=capacity-caution]') as HTMLElement;
-    expect(capacity.textContent).toContain('Over the cycle\'s capacity');
+    expect(capacity.textContent).toContain("Over the cycle's capacity");
     expect(capacity.textContent).toContain('809.68 node-hours are requested on KRG-50, more than the 620 the cycle offers there');
     expect(capacity.querySelector('a')?.getAttribute('href')).toBe('/overview');
     const infeasible = el().querySelector('[data-testid=infeasible-caution]') as HTMLElement;
@@ -101,7 +105,13 @@ describe('ProposalSubmit', () => {
   it('capacity: when the cycle blocks overruns, the overrun is on the checklist and Submit stays off', async () => {
     await render({
       ready: false,
-      problems: [{ field: 'request', message: "809.68 node-hours are requested on KRG-50, more than the 620 the cycle offers there; this cycle accepts no request above a node's capacity" }],
+      problems: [
+        {
+          field: 'request',
+          message:
+            "809.68 node-hours are requested on KRG-50, more than the 620 the cycle offers there; this cycle accepts no request above a node's capacity",
+        },
+      ],
       warnings: [],
     });
     const item = el().querySelector('[data-testid=problems] li') as HTMLElement;

@@ -102,8 +102,7 @@ export default class ProposalSubmit {
     if (!proposal || !this.canWithdraw()) return;
     confirmAction(this.dialog, {
       title: 'Withdraw this proposal?',
-      message:
-        `It returns to draft and will not be reviewed unless it is submitted again before the call closes on ${this.deadline(proposal)}.`,
+      message: `It returns to draft and will not be reviewed unless it is submitted again before the call closes on ${this.deadline(proposal)}.`,
       confirmLabel: 'Withdraw',
       destructive: true,
     }).subscribe((confirmed) => {

@@ -11,11 +11,32 @@ import { SkyWindowDialog, SkyWindowDialogData } from './sky-window-dialog';
 function report(usableNights: number): SkyWindowsReport {
   return {
     site: { latitudeDeg: 28.76, longitudeDeg: -17.88, elevationM: 2326, timeZone: 'Atlantic/Canary' },
-    limits: { altitudeLimitDeg: 30, geometricAltitudeLimitDeg: 29.97, sunAltitudeLimitDeg: -12, moonSeparationMinDeg: null, minUsableHours: 0, refraction: 'normal' },
+    limits: {
+      altitudeLimitDeg: 30,
+      geometricAltitudeLimitDeg: 29.97,
+      sunAltitudeLimitDeg: -12,
+      moonSeparationMinDeg: null,
+      minUsableHours: 0,
+      refraction: 'normal',
+    },
     campaign: { firstNight: '2027-03-01', lastNight: '2027-03-02' },
     nights: [
-      { nightDate: '2027-03-01', darkness: 'partial', darkStartUtc: '2027-03-01T19:40:00Z', darkEndUtc: '2027-03-02T06:10:00Z', darkHours: 10.5, moonIllumination: 0.4 },
-      { nightDate: '2027-03-02', darkness: 'partial', darkStartUtc: '2027-03-02T19:41:00Z', darkEndUtc: '2027-03-03T06:09:00Z', darkHours: 10.47, moonIllumination: 0.5 },
+      {
+        nightDate: '2027-03-01',
+        darkness: 'partial',
+        darkStartUtc: '2027-03-01T19:40:00Z',
+        darkEndUtc: '2027-03-02T06:10:00Z',
+        darkHours: 10.5,
+        moonIllumination: 0.4,
+      },
+      {
+        nightDate: '2027-03-02',
+        darkness: 'partial',
+        darkStartUtc: '2027-03-02T19:41:00Z',
+        darkEndUtc: '2027-03-03T06:09:00Z',
+        darkHours: 10.47,
+        moonIllumination: 0.5,
+      },
     ],
     targets: [
       {
@@ -33,8 +54,26 @@ function report(usableNights: number): SkyWindowsReport {
           visibility: 'rises-and-sets',
         },
         nights: [
-          { nightDate: '2027-03-01', darkStartUtc: null, darkEndUtc: null, usableHours: 3.5, intervals: [], altitudeAtMidDarkDeg: 50, moonSeparationDeg: 80, moonIllumination: 0.4 },
-          { nightDate: '2027-03-02', darkStartUtc: null, darkEndUtc: null, usableHours: 4, intervals: [], altitudeAtMidDarkDeg: 49, moonSeparationDeg: 70, moonIllumination: 0.5 },
+          {
+            nightDate: '2027-03-01',
+            darkStartUtc: null,
+            darkEndUtc: null,
+            usableHours: 3.5,
+            intervals: [],
+            altitudeAtMidDarkDeg: 50,
+            moonSeparationDeg: 80,
+            moonIllumination: 0.4,
+          },
+          {
+            nightDate: '2027-03-02',
+            darkStartUtc: null,
+            darkEndUtc: null,
+            usableHours: 4,
+            intervals: [],
+            altitudeAtMidDarkDeg: 49,
+            moonSeparationDeg: 70,
+            moonIllumination: 0.5,
+          },
         ],
       },
     ],

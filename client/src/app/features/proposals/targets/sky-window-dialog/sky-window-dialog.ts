@@ -49,20 +49,15 @@ export interface SkyWindowDialogData {
           }
         </mat-button-toggle-group>
       }
-      <app-load-status
-        [loading]="report.isLoading()"
-        loadingLabel="Computing the sky window"
-        [error]="error()"
-        (retry)="report.reload()"
-      />
+      <app-load-status [loading]="report.isLoading()" loadingLabel="Computing the sky window" [error]="error()" (retry)="report.reload()" />
       @if (report.hasValue() && report.value().targets[0]; as target) {
         <app-sky-window-chart [target]="target" [nights]="report.value().nights" [heading]="heading()" />
         @if (planVerdict(); as verdict) {
           <p class="plan-verdict">Target plan on {{ nodeCode() }}: {{ verdict }}.</p>
         }
         <p class="note">
-          Usable time is dark time (Sun at or below {{ report.value().limits.sunAltitudeLimitDeg }}°) with the target at or above
-          the node's altitude limit of {{ report.value().limits.altitudeLimitDeg }}°, from the node's own safety configuration.
+          Usable time is dark time (Sun at or below {{ report.value().limits.sunAltitudeLimitDeg }}°) with the target at or above the node's
+          altitude limit of {{ report.value().limits.altitudeLimitDeg }}°, from the node's own safety configuration.
         </p>
       }
     </mat-dialog-content>

@@ -36,7 +36,8 @@ describe('TargetDialog', () => {
 
   afterEach(() => backend.verify());
 
-  const set = async (name: string, value: string) => (await loader.getHarness(MatInputHarness.with({ selector: `[formControlName=${name}]` }))).setValue(value);
+  const set = async (name: string, value: string) =>
+    (await loader.getHarness(MatInputHarness.with({ selector: `[formControlName=${name}]` }))).setValue(value);
   const text = (selector: string) => (fixture.nativeElement.querySelector(selector) as HTMLElement | null)?.textContent?.trim() ?? null;
   const submit = async () => (await loader.getHarness(MatButtonHarness.with({ text: 'Add target' }))).click();
 
@@ -61,7 +62,9 @@ describe('TargetDialog', () => {
     const toggle = await loader.getHarness(MatButtonToggleGroupHarness);
     await (await toggle.getToggles({ text: 'B−V' }))[0].check();
     await set('colour', '2.5');
-    expect(text('[data-testid=colour-warning]')).toContain('A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.');
+    expect(text('[data-testid=colour-warning]')).toContain(
+      'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.',
+    );
     expect(fixture.nativeElement.querySelector('.colour-field').textContent).toContain('Colour index B−V (mag)');
 
     // Switching back to BP−RP: 2.5 is a plausible BP−RP, the warning goes.
@@ -102,7 +105,10 @@ describe('TargetDialog', () => {
       {
         code: 'validation_failed',
         message: 'magnitude: Enter a magnitude between −2 and 22 mag (you typed 30).',
-        fieldErrors: { magnitude: ['Enter a magnitude between −2 and 22 mag (you typed 30).'], raDeg: ['Enter a right ascension between 0° and 360°, 360° excluded (you typed 400).'] },
+        fieldErrors: {
+          magnitude: ['Enter a magnitude between −2 and 22 mag (you typed 30).'],
+          raDeg: ['Enter a right ascension between 0° and 360°, 360° excluded (you typed 400).'],
+        },
       },
       { status: 400, statusText: 'Bad Request' },
     );

@@ -98,10 +98,12 @@ function coordinateValidator(kind: CoordinateKind): ValidatorFn {
 }
 
 type NumberField = 'reddeningEbv' | 'ageUncertaintyMyr' | 'periodPrecisionDays' | 'periodDays' | 'periodUncertaintyDays';
-const optionalNumber = (field: NumberField) => new FormControl<number | null>(null, { validators: [zodValidator(targetInputSchema.shape[field])] });
+const optionalNumber = (field: NumberField) =>
+  new FormControl<number | null>(null, { validators: [zodValidator(targetInputSchema.shape[field])] });
 
 /** When a proposer should give a period of their own (shown under the field and in the table's header tooltip). */
-export const EXPECTED_PERIOD_HINT = 'Only for stars without an expected period from their colour and age (fast rotators, M dwarfs beyond the relations)';
+export const EXPECTED_PERIOD_HINT =
+  'Only for stars without an expected period from their colour and age (fast rotators, M dwarfs beyond the relations)';
 
 /**
  * Adds or edits one target. RA and Dec are typed as text in any of the forms the shared
@@ -166,14 +168,26 @@ export class TargetDialog {
   protected readonly raReading = toSignal(
     this.form.controls.ra.valueChanges.pipe(
       startWith(this.form.controls.ra.value),
-      map((text) => readBack(text, (t) => parseRa(t), (deg) => `${deg.toFixed(5)}° = ${formatRaHms(deg)}`)),
+      map((text) =>
+        readBack(
+          text,
+          (t) => parseRa(t),
+          (deg) => `${deg.toFixed(5)}° = ${formatRaHms(deg)}`,
+        ),
+      ),
     ),
     { initialValue: '' },
   );
   protected readonly decReading = toSignal(
     this.form.controls.dec.valueChanges.pipe(
       startWith(this.form.controls.dec.value),
-      map((text) => readBack(text, (t) => parseDec(t), (deg) => `${deg.toFixed(5)}° = ${formatDecDms(deg)}`)),
+      map((text) =>
+        readBack(
+          text,
+          (t) => parseDec(t),
+          (deg) => `${deg.toFixed(5)}° = ${formatDecDms(deg)}`,
+        ),
+      ),
     ),
     { initialValue: '' },
   );
@@ -189,7 +203,9 @@ export class TargetDialog {
     { initialValue: { colour: null, system: DEFAULT_COLOUR_SYSTEM, ebv: null } },
   );
   /** The colour system's short label, shown inside the colour field. */
-  protected readonly colourSystemLabel = computed(() => COLOUR_SYSTEM_CHOICES.find((c) => c.system === this.colourInputs().system)?.label ?? '');
+  protected readonly colourSystemLabel = computed(
+    () => COLOUR_SYSTEM_CHOICES.find((c) => c.system === this.colourInputs().system)?.label ?? '',
+  );
   /** A warning, not an error: the colour is implausible for a dwarf in the chosen system. */
   protected readonly colourWarning = computed(() => {
     const { colour, system, ebv } = this.colourInputs();

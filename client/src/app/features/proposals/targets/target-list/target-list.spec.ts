@@ -41,7 +41,10 @@ describe('TargetList', () => {
     backend.expectOne('/api/proposals/5').flush(testProposal());
     backend
       .expectOne('/api/proposals/5/targets')
-      .flush([testTarget(1), testTarget(2, { name: 'Lantern 2', raDeg: 187.5, decDeg: -5.341667, periodDays: 0.62, periodUncertaintyDays: 0.05 })]);
+      .flush([
+        testTarget(1),
+        testTarget(2, { name: 'Lantern 2', raDeg: 187.5, decDeg: -5.341667, periodDays: 0.62, periodUncertaintyDays: 0.05 }),
+      ]);
     await fixture.whenStable();
   });
 
@@ -60,7 +63,9 @@ describe('TargetList', () => {
     expect(box.classList).toContain('table-fit');
     expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more columns');
     for (const column of ['name', 'notes']) {
-      const cell = (fixture.nativeElement as HTMLElement).querySelector(`[data-testid=targets-table] td.mat-column-${column} .cell-truncate`);
+      const cell = (fixture.nativeElement as HTMLElement).querySelector(
+        `[data-testid=targets-table] td.mat-column-${column} .cell-truncate`,
+      );
       expect(cell?.classList).toContain('mat-mdc-tooltip-trigger');
     }
   });
@@ -76,7 +81,9 @@ describe('TargetList', () => {
     expect(headers['period']).toBe('Period (d)');
     expect(headers['periodErr']).toBe('± period uncertainty (d)');
     expect(fixture.nativeElement.textContent).toContain('period_error');
-    const hrefs = Array.from(fixture.nativeElement.querySelectorAll('a[download]')).map((a) => (a as HTMLAnchorElement).getAttribute('href'));
+    const hrefs = Array.from(fixture.nativeElement.querySelectorAll('a[download]')).map((a) =>
+      (a as HTMLAnchorElement).getAttribute('href'),
+    );
     expect(hrefs).toEqual(['/api/proposals/5/targets.csv', '/api/target-lists/example.csv']);
     expect(fixture.nativeElement.textContent).toContain('colour_system');
   });
@@ -135,15 +142,24 @@ describe('TargetList', () => {
     backend.expectOne('/api/proposals/5/targets').flush([testTarget(1), testTarget(2), testTarget(3)]);
     backend.expectOne('/api/proposals/5').flush(testProposal({ targetCount: 3 }));
     await fixture.whenStable();
-    expect(fixture.nativeElement.querySelector('[data-testid=upload-results]').textContent).toContain('3 targets now make up the list (2 removed)');
+    expect(fixture.nativeElement.querySelector('[data-testid=upload-results]').textContent).toContain(
+      '3 targets now make up the list (2 removed)',
+    );
   });
 
   it('upload accepted with notes: the rows stored with a colour warning are listed with row, column and warning', async () => {
     chooseFile();
     await fixture.whenStable();
     await (await loader.getHarness(MatButtonHarness.with({ text: /Upload/ }))).click();
-    const note = { row: 2, field: 'colour', message: 'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.' };
-    backend.expectOne((r) => r.url === '/api/proposals/5/targets/upload').flush({ mode: 'append', added: 2, removed: 0, notes: [note], targets: [] });
+    const note = {
+      row: 2,
+      field: 'colour',
+      message:
+        'A B−V of 2.5 mag is outside the F5V–M5V dwarfs (between 0.44 and 1.83 mag), but a plausible BP−RP: check the colour system.',
+    };
+    backend
+      .expectOne((r) => r.url === '/api/proposals/5/targets/upload')
+      .flush({ mode: 'append', added: 2, removed: 0, notes: [note], targets: [] });
     TestBed.tick();
     backend.expectOne('/api/proposals/5/targets').flush([testTarget(1), testTarget(2)]);
     backend.expectOne('/api/proposals/5').flush(testProposal());
@@ -216,7 +232,10 @@ describe('TargetList', () => {
     await (await root.getHarness(MatButtonHarness.with({ text: 'Add target' }))).click();
     const post = backend.expectOne((r) => r.method === 'POST' && r.url === '/api/proposals/5/targets');
     expect(post.request.body).toMatchObject({ name: 'Lantern M', colour: 3.05, periodDays: 0.62, periodUncertaintyDays: 0.05 });
-    post.flush(testTarget(10, { name: 'Lantern M', periodDays: 0.62, periodUncertaintyDays: 0.05 }), { status: 201, statusText: 'Created' });
+    post.flush(testTarget(10, { name: 'Lantern M', periodDays: 0.62, periodUncertaintyDays: 0.05 }), {
+      status: 201,
+      statusText: 'Created',
+    });
     await new Promise((resolve) => setTimeout(resolve));
     TestBed.tick();
     backend.expectOne('/api/proposals/5').flush(testProposal({ targetCount: 3 }));
@@ -225,7 +244,8 @@ describe('TargetList', () => {
 
   it('edit a target: the dialog is filled with its expected period and uncertainty', async () => {
     await (await loader.getHarness(MatButtonHarness.with({ selector: '[aria-label="Edit Lantern 2"]' }))).click();
-    const value = async (name: string) => (await root.getHarness(MatInputHarness.with({ selector: `[formControlName=${name}]` }))).getValue();
+    const value = async (name: string) =>
+      (await root.getHarness(MatInputHarness.with({ selector: `[formControlName=${name}]` }))).getValue();
     expect(await value('periodDays')).toBe('0.62');
     expect(await value('periodUncertaintyDays')).toBe('0.05');
     await (await root.getHarness(MatButtonHarness.with({ text: 'Cancel' }))).click();

@@ -55,22 +55,38 @@ const COLUMNS = [
 
 function targetValue(row: TargetRow, column: string): SortValue {
   switch (column) {
-    case 'name': return row.name;
-    case 'ra': return row.raDeg;
-    case 'dec': return row.decDeg;
-    case 'magnitude': return row.magnitude;
-    case 'band': return row.magnitudeBand;
-    case 'colour': return row.colour;
-    case 'colourSystem': return row.colourSystem;
-    case 'ebv': return row.reddeningEbv;
-    case 'age': return row.ageMyr;
-    case 'ageErr': return row.ageUncertaintyMyr;
-    case 'precision': return row.periodPrecisionDays;
-    case 'period': return row.periodDays;
-    case 'periodErr': return row.periodUncertaintyDays;
-    case 'notes': return row.notes;
-    case 'position': return row.position;
-    default: return null;
+    case 'name':
+      return row.name;
+    case 'ra':
+      return row.raDeg;
+    case 'dec':
+      return row.decDeg;
+    case 'magnitude':
+      return row.magnitude;
+    case 'band':
+      return row.magnitudeBand;
+    case 'colour':
+      return row.colour;
+    case 'colourSystem':
+      return row.colourSystem;
+    case 'ebv':
+      return row.reddeningEbv;
+    case 'age':
+      return row.ageMyr;
+    case 'ageErr':
+      return row.ageUncertaintyMyr;
+    case 'precision':
+      return row.periodPrecisionDays;
+    case 'period':
+      return row.periodDays;
+    case 'periodErr':
+      return row.periodUncertaintyDays;
+    case 'notes':
+      return row.notes;
+    case 'position':
+      return row.position;
+    default:
+      return null;
   }
 }
 

@@ -121,7 +121,13 @@ export class TargetUpload {
             this.progress.set(event.total ? Math.round((100 * event.loaded) / event.total) : 0);
           } else if (event.type === HttpEventType.Response && event.body) {
             this.progress.set(null);
-            this.outcome.set({ kind: 'imported', added: event.body.added, removed: event.body.removed, mode, notes: event.body.notes ?? [] });
+            this.outcome.set({
+              kind: 'imported',
+              added: event.body.added,
+              removed: event.body.removed,
+              mode,
+              notes: event.body.notes ?? [],
+            });
             this.uploaded.emit(event.body);
             // Stored: clear the chosen file so that it is not sent twice by mistake.
             this.file.set(null);

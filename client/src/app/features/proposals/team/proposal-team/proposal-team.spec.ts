@@ -74,12 +74,14 @@ describe('ProposalTeam', () => {
     await render(testProposal({ team: TEAM }));
     await (await loader.getHarness(MatInputHarness.with({ selector: '[type=email]' }))).setValue('bram.oakes@example.org');
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
-    backend
-      .expectOne('/api/proposals/5/members')
-      .flush(
-        { code: 'already_member', message: 'bram.oakes@example.org is already on the team', fieldErrors: { email: ['already on the team'] } },
-        { status: 409, statusText: 'Conflict' },
-      );
+    backend.expectOne('/api/proposals/5/members').flush(
+      {
+        code: 'already_member',
+        message: 'bram.oakes@example.org is already on the team',
+        fieldErrors: { email: ['already on the team'] },
+      },
+      { status: 409, statusText: 'Conflict' },
+    );
     await fixture.whenStable();
     const field = await loader.getHarness(MatFormFieldHarness.with({ floatingLabelText: "Co-investigator's e-mail" }));
     expect(await field.getTextErrors()).toEqual(['already on the team']);
@@ -142,7 +144,10 @@ describe('ProposalTeam', () => {
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
     backend
       .expectOne('/api/proposals/5/members')
-      .flush({ ...testMember(3, { accountId: null, displayName: null, email: 'tamsin.rook@example.org', status: 'invited' }), warnings: [] }, { status: 201, statusText: 'Created' });
+      .flush(
+        { ...testMember(3, { accountId: null, displayName: null, email: 'tamsin.rook@example.org', status: 'invited' }), warnings: [] },
+        { status: 201, statusText: 'Created' },
+      );
     await fixture.whenStable();
     expect(fixture.nativeElement.querySelector('[data-testid=reviewer-conflict]')).toBeNull();
     expect(fixture.nativeElement.textContent).toContain('Invitation sent to tamsin.rook@example.org.');
@@ -155,7 +160,10 @@ describe('ProposalTeam', () => {
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
     backend
       .expectOne('/api/proposals/5/members')
-      .flush({ ...pending, warnings: [{ code: 'reviewer_conflict', message: 'ines.marl@example.org is a reviewer in Spincycle.' }] }, { status: 200, statusText: 'OK' });
+      .flush(
+        { ...pending, warnings: [{ code: 'reviewer_conflict', message: 'ines.marl@example.org is a reviewer in Spincycle.' }] },
+        { status: 200, statusText: 'OK' },
+      );
     await fixture.whenStable();
     const host = fixture.nativeElement as HTMLElement;
     expect((await (await loader.getHarness(MatTableHarness)).getCellTextByColumnName())['member'].text).toHaveLength(3);
