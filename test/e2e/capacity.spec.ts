@@ -113,9 +113,11 @@ describe('capacity in view', () => {
         .getByRole('link', { name: /^Edit / })
         .first()
         .click();
-      await page.getByTestId('closes-utc').waitFor();
+      await page.locator('app-cycle-form').getByTestId('closes-utc').waitFor();
       // UTC written once per instant; the times are 24-hour text fields.
-      await expect(page.getByTestId('closes-utc').textContent()).resolves.toMatch(/^\d{1,2} \w{3} \d{4}, \d\d:\d\d UTC$/);
+      await expect(page.locator('app-cycle-form').getByTestId('closes-utc').textContent()).resolves.toMatch(
+        /^\d{1,2} \w{3} \d{4}, \d\d:\d\d UTC$/,
+      );
       await expect(page.getByLabel('Closes at').getAttribute('type')).resolves.toBe('text');
       await shots(page, 'cycle-form');
       await expectAxeClean(page);
