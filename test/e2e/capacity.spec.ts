@@ -180,6 +180,12 @@ describe('capacity in view', () => {
       await shots(page, 'request-table');
       await expectAxeClean(page);
 
+      // The Plans tab's request table flags the same node, and only it.
+      await page.getByRole('tab', { name: 'Plans' }).click();
+      const plansRequest = page.getByTestId('request-table');
+      await plansRequest.getByTestId('request-KRG-50').getByTestId('over-capacity-flag').waitFor();
+      await expect(plansRequest.getByTestId('request-VHM-40').getByTestId('over-capacity-flag').count()).resolves.toBe(0);
+
       // The draft's submit checklist: a warning (the demo cycle warns, it does not block).
       await openProposal(page, draft);
       await page.getByRole('tab', { name: 'Submit' }).click();

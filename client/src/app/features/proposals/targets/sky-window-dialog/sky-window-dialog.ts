@@ -56,8 +56,9 @@ export interface SkyWindowDialogData {
           <p class="plan-verdict">Target plan on {{ nodeCode() }}: {{ verdict }}.</p>
         }
         <p class="note">
-          Usable time is dark time (Sun at or below {{ report.value().limits.sunAltitudeLimitDeg }}°) with the target at or above the node's
-          altitude limit of {{ report.value().limits.altitudeLimitDeg }}°, from the node's own safety configuration.
+          The sky window is the target's visibility at night. Usable time is dark time (Sun at or below
+          {{ report.value().limits.sunAltitudeLimitDeg }}°) with the target at or above the node's altitude limit of
+          {{ report.value().limits.altitudeLimitDeg }}°, from the node's own safety configuration.
         </p>
       }
     </mat-dialog-content>
