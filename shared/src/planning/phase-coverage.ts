@@ -15,6 +15,7 @@
  *   campaign; the baseline that first reaches the threshold at every scanned period is the
  *   required baseline.
  */
+import { fmt } from '../science/explained';
 import { SkyInputError, requireFiniteInRange } from '../sky/sky-input-error';
 import type { TargetWindows } from '../sky/sky-types';
 import { planVisitTimes, validateVisitRequest, type VisitRequest, type VisitTimeOptions } from './visit-times';
@@ -202,7 +203,7 @@ export function assessPhaseCoverage(
       commensurate: commensurateHarmonic(periods[0], r.baselineDays),
       action: 'otherLongitude',
       requiredBaselineDays: null,
-      reason: `no night of the campaign can take a ${r.visitHours} h visit of this target from this site, so no phase of any period is covered: another node must observe it`,
+      reason: `no night of the campaign can take a ${fmt(r.visitHours * 60)}-minute visit of this target from this site, so no phase of any period is covered: another node must observe it`,
       periodsScanned: periods.length,
       visits: 0,
     };
