@@ -31,6 +31,13 @@ const DEVELOPER_WORDING =
   /from memory|our choice|Spincycle['’]s choice|no source|\[derived|\b(max|min)Exposure\b|saturationE|young1967|osborn2015|angus2019\b|barnes2007\b|noyes1984\b/;
 
 describe('plan-wording', () => {
+  it('says "saturation of the star" once, whether or not the core already says it', () => {
+    expect(plainText('limited by saturation')).toBe('limited by saturation of the star');
+    expect(plainText('best 1620 ppm at 32.5 s, limited by saturation of the star')).toBe(
+      'best 1620 ppm at 32.5 s, limited by saturation of the star',
+    );
+  });
+
   it('plainText: provenance notes, code names and citation keys become plain words', () => {
     expect(plainText('CCD equation (Howell 2006; Merline & Howell 1995, from memory) + scintillation')).toBe(
       'CCD equation (Howell 2006; Merline & Howell 1995) + scintillation',

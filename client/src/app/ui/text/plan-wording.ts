@@ -55,7 +55,7 @@ const CODE_WORDS: readonly [RegExp, string][] = [
   [/\b(limited|capped) by maxExposure\b/g, "$1 by the node's longest exposure"],
   [/\b(limited|capped) by minExposure\b/g, "$1 by the node's shortest exposure"],
   [/\b(limited|capped) by targetPrecision\b/g, '$1 by the precision goal'],
-  [/\b(limited|capped) by saturation\b/g, '$1 by saturation of the star'],
+  [/\b(limited|capped) by saturation\b(?! of the star)/g, '$1 by saturation of the star'],
   [/\bmaxExposureSeconds\b|\bmaxExposure\b/g, "the node's longest exposure"],
   [/\bminExposureSeconds\b|\bminExposure\b/g, "the node's shortest exposure"],
   [/\bthe node saturationE\b/g, "the node's saturation level"],
