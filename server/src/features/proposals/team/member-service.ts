@@ -13,7 +13,8 @@ import { accessProposal, requireEditable, requirePi } from '../proposal-access';
 import { touchProposal } from '../proposal-repository';
 import { invitationMail } from './invitation-mail';
 import { findPendingInvitation, lastInvitationMailAt, recordInvitationMail } from './invitation-repository';
-import { reviewerConflictWarning, type InvitedMember } from './review-conflict';
+import type { InvitedMember } from '@spincycle/shared/proposals/team-warnings';
+import { reviewerConflictWarning } from './review-conflict';
 import {
   acceptInvitationRow,
   deleteMemberRow,

@@ -1,19 +1,4 @@
-import type { ProposalMember } from '@spincycle/shared/proposals/proposal-schemas';
-
-/**
- * A caution given with a team change that went through: the PI may go ahead, and the
- * facility's own rules decide what follows. (Kept beside the team service until the shared
- * proposal contract takes it; the client mirrors it in its team folder.)
- */
-export interface TeamWarning {
-  code: 'reviewer_conflict';
-  message: string;
-}
-
-/** POST /api/proposals/:id/members answers the team row with the cautions that apply to it. */
-export interface InvitedMember extends ProposalMember {
-  warnings: TeamWarning[];
-}
+import type { TeamWarning } from '@spincycle/shared/proposals/team-warnings';
 
 /**
  * Why: a reviewer on a proposing team cannot grade that proposal, and the facility may need to

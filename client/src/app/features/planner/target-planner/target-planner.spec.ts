@@ -6,7 +6,6 @@ import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MatButtonToggleHarness } from '@angular/material/button-toggle/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
-import type { CycleSummary, Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
 import { computeNodeTargetPlan } from '@spincycle/shared/planning/node-target-plan';
 import { targetWindowsFromReport } from '@spincycle/shared/planning/sky-report-adapter';
 import type { SkyWindowsResponse } from '@spincycle/shared/planning/sky-windows-request';
@@ -15,68 +14,17 @@ import { computeSkyWindows } from '@spincycle/shared/sky/sky-windows';
 import { skyLimitsForNode, toSkyWindowsReport } from '@spincycle/shared/sky/sky-windows-report';
 import { formatValue } from '../plan-display';
 import { PLANNER_DEFAULTS, RECOMPUTE_DEBOUNCE_MS } from '../planner-form';
+import type { CycleSummary, TelescopeNode } from '@spincycle/shared/facility/facility-types';
+import { TEST_CYCLE, TEST_SITE, testNode } from '../planner-test-data';
 import TargetPlanner from './target-planner';
 
-const SITE: Site = {
-  id: 1,
-  code: 'HLM',
-  name: 'Hollin Moor',
-  latitudeDeg: 28.76,
-  longitudeDeg: -17.88,
-  elevationM: 2326,
-  timeZone: 'Atlantic/Canary',
-  skyBrightnessMagPerArcsec2: 21.6,
-};
-
-function node(id: number, code: string, overrides: Partial<TelescopeNode> = {}): TelescopeNode {
-  return {
-    id,
-    code,
-    name: `Node ${code}`,
-    siteId: SITE.id,
-    site: SITE,
-    active: true,
-    apertureM: 0.4,
-    obstructionFraction: 0.35,
-    throughput: 0.6,
-    band: 'V',
-    readNoiseE: 9,
-    darkCurrentEPerS: 0.02,
-    gainEPerAdu: 1.3,
-    saturationE: 60000,
-    pixelScaleArcsec: 1.2,
-    seeingFwhmArcsec: 1.6,
-    systematicFloorMmag: 1.5,
-    scintillationModel: 'young1967',
-    overheadSeconds: 60,
-    minExposureSeconds: 2,
-    maxExposureSeconds: 300,
-    altitudeLimitDeg: 30,
-    sunAltitudeLimitDeg: -12,
-    weatherLossFraction: 0.25,
-    rateMinorPerHour: 4850,
-    currency: 'eur',
-    ...overrides,
-  };
-}
+const SITE = TEST_SITE;
+const node = testNode;
 
 const N1 = node(1, 'N1');
 const N2 = node(2, 'N2', { apertureM: 1.0, band: 'R' });
 
-const CYCLE: CycleSummary = {
-  id: 7,
-  code: 'C7',
-  title: 'Cycle of the Lantern cluster',
-  callOpensAt: '2026-01-01T12:00:00Z',
-  callClosesAt: '2026-12-01T12:00:00Z',
-  campaignStart: '2027-01-01',
-  campaignEnd: '2027-03-01',
-  anonymousReview: false,
-  categories: [],
-  version: 1,
-  status: 'open',
-  nodes: [],
-};
+const CYCLE = TEST_CYCLE;
 
 const DEFAULT_TARGET: TargetPlanTarget = {
   name: PLANNER_DEFAULTS.starName,

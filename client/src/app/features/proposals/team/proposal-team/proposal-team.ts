@@ -27,7 +27,7 @@ import { ProposalApi } from '../../proposal-api';
 import { MEMBER_ROLE_LABELS } from '../../proposal-list/proposal-list';
 import { ProposalStore } from '../../proposal-store';
 import { DayPipe } from '../../../../ui/time/date-pipes';
-import { warningsOf, type TeamWarning } from '../team-warning';
+import { warningsOf, type TeamWarning } from '@spincycle/shared/proposals/team-warnings';
 
 /** A caution about one team row, kept on screen until the row goes or the PI dismisses it. */
 interface MemberCaution {
