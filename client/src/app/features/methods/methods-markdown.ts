@@ -1,4 +1,5 @@
 import { Marked } from 'marked';
+import { forReaders } from './methods-text';
 
 /** One parser for the page, GitHub-flavoured (tables), without the global marked options. */
 const parser = new Marked({ gfm: true, breaks: false, async: false });
@@ -8,5 +9,5 @@ const parser = new Marked({ gfm: true, breaks: false, async: false });
  * unchanged, so `/methods#completeness` finds its section.
  */
 export function renderMethodsMarkdown(markdown: string): string {
-  return parser.parse(markdown, { async: false });
+  return parser.parse(forReaders(markdown), { async: false });
 }
