@@ -113,7 +113,11 @@ function cpuSecondsOf(pid: number): number {
 }
 const CLOCK_TICKS = 100;
 
+/** BENCH_API_ONLY: measure only the endpoints whose label contains this text (e.g. `first page`). */
+const ONLY = process.env.BENCH_API_ONLY;
+
 async function load(base: string, label: string, urlPath: string, cookie: string, serverPid: number): Promise<void> {
+  if (ONLY && !label.includes(ONLY)) return;
   await new Promise<void>((resolve, reject) => {
     autocannon(
       {

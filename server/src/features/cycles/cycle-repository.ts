@@ -42,6 +42,21 @@ function toCycle(r: CycleRow): StoredCycle {
   };
 }
 
+/**
+ * A cycle read as `row_to_json(c.*)` (when joined to another table's row): the same columns,
+ * with instants as ISO text.
+ */
+export function toCycleFromJson(
+  r: Omit<CycleRow, 'call_opens_at' | 'call_closes_at' | 'updated_at'> & Record<'call_opens_at' | 'call_closes_at' | 'updated_at', string>,
+): StoredCycle {
+  return toCycle({
+    ...r,
+    call_opens_at: new Date(r.call_opens_at),
+    call_closes_at: new Date(r.call_closes_at),
+    updated_at: new Date(r.updated_at),
+  });
+}
+
 /** Strips the repository-only `updatedAt` from a stored cycle. */
 export function toPublicCycle({ updatedAt: _hidden, ...cycle }: StoredCycle): Cycle {
   return cycle;

@@ -7,10 +7,9 @@ import { isEditableState, PROPOSAL_STATE_LABELS } from '@spincycle/shared/propos
 import { idParamSchema } from '@spincycle/shared/http/ids';
 import type { AppContext } from '../../app-context';
 import { AppError } from '../../http/app-error';
-import { findCycleById, type StoredCycle } from '../cycles/cycle-repository';
+import { toCycleFromJson, type StoredCycle } from '../cycles/cycle-repository';
 import { formatUtc } from '../cycles/cycle-service';
-import { findProposalById, type StoredProposal } from './proposal-repository';
-import { findActiveRole } from './team/member-repository';
+import { toProposal, type ProposalRow, type StoredProposal } from './proposal-repository';
 
 /** A proposal as one of its team members reaches it. */
 export interface ProposalAccess {
@@ -24,6 +23,7 @@ export interface ProposalAccess {
  * (other proposers, reviewers, managers, administrators) gets the same 404 as for a proposal
  * that does not exist: its existence is not revealed. `forUpdate` locks the proposal row for
  * the rest of the transaction, so that edits, submission and withdrawal never interleave.
+ * One query (proposal, cycle and the viewer's active membership): every proposal route runs it.
  */
 export async function accessProposal(
   db: Knex,
@@ -31,11 +31,19 @@ export async function accessProposal(
   id: number,
   options: { forUpdate?: boolean } = {},
 ): Promise<ProposalAccess> {
-  const proposal = await findProposalById(db, id, options);
-  const role = proposal ? await findActiveRole(db, id, viewer.id) : undefined;
-  if (!proposal || !role) throw new AppError('proposal_not_found', `No proposal ${id}`, 404);
-  const cycle = (await findCycleById(db, proposal.cycleId))!;
-  return { proposal, cycle, role };
+  const q = db('proposals as p')
+    .join('cycles as c', 'c.id', 'p.cycle_id')
+    .leftJoin('proposal_members as m', (on) => {
+      on.on('m.proposal_id', 'p.id')
+        .andOn('m.account_id', db.raw('?', [viewer.id]))
+        .andOnNotNull('m.accepted_at');
+    })
+    .where('p.id', id)
+    .first('p.*', 'm.role as viewer_role', db.raw('row_to_json(c.*) AS cycle_row'));
+  if (options.forUpdate) q.forUpdate('p');
+  const row = (await q) as (ProposalRow & { viewer_role: MemberRole | null; cycle_row: Parameters<typeof toCycleFromJson>[0] }) | undefined;
+  if (!row?.viewer_role) throw new AppError('proposal_not_found', `No proposal ${id}`, 404);
+  return { proposal: toProposal(row), cycle: toCycleFromJson(row.cycle_row), role: row.viewer_role };
 }
 
 /** 403 `pi_only` unless the viewer is the proposal's PI. */

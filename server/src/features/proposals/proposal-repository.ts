@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import type { MemberRole, ProposalSummary } from '@spincycle/shared/proposals/proposal-schemas';
 import type { ProposalState } from '@spincycle/shared/proposals/proposal-states';
 
-interface ProposalRow {
+export interface ProposalRow {
   id: number;
   cycle_id: number;
   pi_account_id: number;
@@ -34,7 +34,7 @@ export interface StoredProposal {
   updatedAt: string;
 }
 
-function toProposal(r: ProposalRow): StoredProposal {
+export function toProposal(r: ProposalRow): StoredProposal {
   return {
     id: r.id,
     cycleId: r.cycle_id,

@@ -234,3 +234,34 @@ describe('GET /api/proposals/:id', () => {
     expect(bad.body.fieldErrors.id).toBeDefined();
   });
 });
+
+describe('accessProposal (one query for proposal, cycle and membership)', () => {
+  it('reads the same proposal and cycle as their own repositories, and 404s a non-member and an invited but not yet active one', async () => {
+    const { accessProposal } = await import('./proposal-access');
+    const { findProposalById } = await import('./proposal-repository');
+    const { findCycleById } = await import('../cycles/cycle-repository');
+    const db = h.created.ctx.db;
+    const { account, proposal } = await proposerWithDraft(h, net.cycleId, 'Access');
+    const access = await accessProposal(db, { ...account, roles: ['proposer'] } as never, proposal.id);
+    expect(access.role).toBe('pi');
+    expect(access.proposal).toEqual(await findProposalById(db, proposal.id));
+    expect(access.cycle).toEqual(await findCycleById(db, net.cycleId));
+    const other = await signedIn(h, ['proposer']);
+    await expect(accessProposal(db, { ...other.account, roles: ['proposer'] } as never, proposal.id)).rejects.toMatchObject({
+      status: 404,
+    });
+    // A membership row not yet accepted gives no access either.
+    await db('proposal_members').insert({
+      proposal_id: proposal.id,
+      account_id: other.account.id,
+      email: other.account.email,
+      role: 'coi',
+    });
+    await expect(accessProposal(db, { ...other.account, roles: ['proposer'] } as never, proposal.id)).rejects.toMatchObject({
+      status: 404,
+    });
+    await db('proposal_members').where({ proposal_id: proposal.id, account_id: other.account.id }).update({ accepted_at: db.fn.now() });
+    expect((await accessProposal(db, { ...other.account, roles: ['proposer'] } as never, proposal.id)).role).toBe('coi');
+    await expect(accessProposal(db, { ...account, roles: ['proposer'] } as never, 987654321)).rejects.toMatchObject({ status: 404 });
+  });
+});

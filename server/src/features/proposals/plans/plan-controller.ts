@@ -1,7 +1,6 @@
 import type { Request, Response } from 'express';
 import type { AppContext } from '../../../app-context';
 import { idParamSchema, nodeIdQuerySchema, targetParamsSchema } from '../../../http/params';
-import { jsonWithRawMember } from '../../../http/raw-json';
 import { planListQuerySchema } from '@spincycle/shared/proposals/plan-types';
 import {
   getPlanExplanation,
@@ -11,15 +10,18 @@ import {
   getTargetSky,
   recomputeProposalPlans,
 } from './plan-service';
+import { PlanPageCache } from './plan-page-cache';
 
 /** Handlers of the plan routes (plans, run status, recompute, sky windows of a target). */
 export function createPlanController(ctx: AppContext) {
+  const pages = new PlanPageCache();
   return {
     async plans(req: Request, res: Response) {
       const { id } = idParamSchema.parse(req.params);
       const query = planListQuerySchema.parse(req.query);
-      const { head, plansJson } = await getProposalPlans(ctx, req.user!, id, query);
-      res.type('application/json').send(jsonWithRawMember(head, 'plans', plansJson));
+      const page = await getProposalPlans(ctx, req.user!, id, query, pages);
+      // With its ETag set, send answers 304 to a request that already holds this page.
+      res.set('ETag', page.etag).type('application/json').send(page.body);
     },
     async status(req: Request, res: Response) {
       const { id } = idParamSchema.parse(req.params);

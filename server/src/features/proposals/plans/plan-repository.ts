@@ -31,6 +31,7 @@ interface PlanRunRow {
   inputs_version: number;
   current_hash: string | null;
   current_hash_model: string | null;
+  plans_version: number;
 }
 
 export interface StoredPlanRun extends Omit<PlanRunStatus, 'current'> {
@@ -41,6 +42,8 @@ export interface StoredPlanRun extends Omit<PlanRunStatus, 'current'> {
   /** Cached hash of today's inputs at `inputsVersion`, computed with model `currentHashModel`; null when not known. */
   currentHash: string | null;
   currentHashModel: string | null;
+  /** Raised (by triggers) by every write of the proposal's `target_plans` rows. */
+  plansVersion: number;
 }
 
 function toRun(r: PlanRunRow): StoredPlanRun {
@@ -55,6 +58,7 @@ function toRun(r: PlanRunRow): StoredPlanRun {
     inputsVersion: r.inputs_version,
     currentHash: r.current_hash,
     currentHashModel: r.current_hash_model,
+    plansVersion: r.plans_version,
   };
 }
 

@@ -244,6 +244,63 @@ describe('plan service called in-process', () => {
   });
 });
 
+describe('the plans list kept by the web process', () => {
+  it('answers an unchanged list from the kept page (same ETag; 304 when the client holds it)', async () => {
+    const { browser, proposal } = await draftWithTargets(['Star P-k1', 'Star P-k2']);
+    await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
+    const url = `/api/proposals/${proposal.id}/plans`;
+    const first = await browser.get(url);
+    const again = await browser.get(url);
+    expect(again.status).toBe(200);
+    expect(again.headers.etag).toBe(first.headers.etag);
+    expect(again.body).toEqual(first.body);
+    expect((await browser.get(url).set('If-None-Match', first.headers.etag)).status).toBe(304);
+    // Another query is another page.
+    const page2 = await browser.get(`${url}?pageSize=1&page=2`);
+    expect(page2.body.plans).toHaveLength(1);
+    expect(page2.headers.etag).not.toBe(first.headers.etag);
+  });
+
+  it('shows at once a renamed target, a renamed node, a deleted target and a new run, never the kept page', async () => {
+    const { browser, proposal } = await draftWithTargets(['Star P-r1', 'Star P-r2']);
+    await computeAndStoreProposalPlans(h.created.ctx.db, proposal.id);
+    const url = `/api/proposals/${proposal.id}/plans`;
+    const names = async () => [...new Set((await browser.get(url)).body.plans.map((p: { targetName: string }) => p.targetName))].sort();
+    const nodeCodes = async () => [...new Set((await browser.get(url)).body.plans.map((p: { nodeCode: string }) => p.nodeCode))].sort();
+    expect(await names()).toEqual(['Star P-r1', 'Star P-r2']);
+
+    const targets = (await browser.get(`/api/proposals/${proposal.id}/targets`)).body;
+    const put = await browser.put(`/api/proposals/${proposal.id}/targets/${targets[0].id}`, {
+      version: targets[0].version,
+      target: target({ name: 'Star P-r1 renamed' }),
+    });
+    expect(put.status).toBe(200);
+    expect(await names()).toEqual(['Star P-r1 renamed', 'Star P-r2']);
+
+    const db = h.created.ctx.db;
+    const node = await db('nodes').where({ id: net.nodeIds[0] }).first('code');
+    try {
+      await db('nodes')
+        .where({ id: net.nodeIds[0] })
+        .update({ code: `${node.code}-X` });
+      expect(await nodeCodes()).toContain(`${node.code}-X`);
+    } finally {
+      await db('nodes').where({ id: net.nodeIds[0] }).update({ code: node.code });
+    }
+    expect(await nodeCodes()).toContain(node.code);
+
+    expect((await browser.delete(`/api/proposals/${proposal.id}/targets/${targets[1].id}`)).status).toBe(204);
+    expect(await names()).toEqual(['Star P-r1 renamed']);
+
+    // A run that writes the plans again (its inputs unchanged, so only the plans' own version moves).
+    const before = (await browser.get(url)).body.run.finishedAt;
+    await computeAndStoreProposalPlans(db, proposal.id);
+    const after = (await browser.get(url)).body.run;
+    expect(after.finishedAt).not.toBe(before);
+    expect(after).toMatchObject({ state: 'idle', current: true });
+  });
+});
+
 describe('GET /api/proposals/:id/targets/:targetId/sky?nodeId=', () => {
   it('returns the target’s windows night by night from the node’s site, with the plan’s cadence assessed', async () => {
     const { browser, proposal } = await draftWithTargets(['Star P-sky']);

@@ -7,6 +7,7 @@ import { isScienceInputError } from '@spincycle/shared/science/science-input-err
 import { SkyInputError, toSkyWindowsReport, type SkyWindowsReport } from '@spincycle/shared/sky/index';
 import type { AppContext } from '../../../app-context';
 import { inParallel } from '../../../db/in-parallel';
+import { jsonWithRawMember } from '../../../http/raw-json';
 import { AppError, invalidField } from '../../../http/app-error';
 import { listCycleNodes } from '../../cycles/cycle-repository';
 import { listNodes } from '../../facility/facility-repository';
@@ -27,6 +28,7 @@ import {
   updatePlanProgress,
   type StoredPlanRun,
 } from './plan-repository';
+import type { PlanPageBody, PlanPageCache } from './plan-page-cache';
 import { queuePlanComputations } from './plan-requests';
 import { accessProposal, requireEditable, type ProposalAccess } from '../proposal-access';
 import { findProposalById } from '../proposal-repository';
@@ -123,7 +125,7 @@ export async function runPlanJob(db: Knex, proposalId: number, logger: Logger): 
 /** The run status as the API shows it; `current` compares the stored plans' inputs with today's. */
 function toRunStatus(run: StoredPlanRun | undefined, currentHash: string): PlanRunStatus {
   if (!run) return { state: 'idle', total: 0, done: 0, startedAt: null, finishedAt: null, error: null, current: false };
-  const { inputsHash, inputsVersion: _v, currentHash: _h, currentHashModel: _m, ...rest } = run;
+  const { inputsHash, inputsVersion: _v, currentHash: _h, currentHashModel: _m, plansVersion: _p, ...rest } = run;
   return { ...rest, current: inputsHash === currentHash };
 }
 
@@ -159,25 +161,37 @@ export async function getPlanRunStatus(ctx: AppContext, viewer: SessionUser, id:
 
 /**
  * GET /api/proposals/:id/plans?page=&pageSize=&feasible=&nodeId=&q=&sort= (team members): one
- * page of the plans. The page's rows come as JSON text (see listPlanPageJson); the answer is
- * a {@link ProposalPlans} once `plansJson` is its `plans` member.
+ * page of the plans, a {@link ProposalPlans} as JSON bytes. The page's rows come as JSON text
+ * (see listPlanPageJson). Answers are kept in `pages` under the proposal, its plan run row
+ * (whose versions rise with every write of the plans and of their inputs, names included) and
+ * the query: a poll of an unchanged list costs the access check and one read of the run.
  */
 export async function getProposalPlans(
   ctx: AppContext,
   viewer: SessionUser,
   id: number,
   query: PlanListQuery,
-): Promise<{ head: Omit<ProposalPlans, 'plans'>; plansJson: string }> {
+  pages: PlanPageCache,
+): Promise<PlanPageBody> {
   const access = await accessProposal(ctx.db, viewer, id);
-  const [run, page, totals] = await inParallel(ctx.db, [
-    () => planRunStatusOf(ctx.db, access),
-    () => listPlanPageJson(ctx.db, id, query),
-    () => planCountsAndErrors(ctx.db, id, query.nodeId),
-  ] as const);
-  return {
-    head: { run, page: query.page, pageSize: query.pageSize, matched: page.matched, counts: totals.counts, errors: totals.errors },
-    plansJson: page.rowsJson,
-  };
+  const stored = await findPlanRun(ctx.db, id);
+  const key = stored ? JSON.stringify([id, stored, query]) : undefined;
+  return pages.get(key, async () => {
+    const [run, page, totals] = await inParallel(ctx.db, [
+      async () => toRunStatus(stored, await currentInputsHash(ctx.db, access, stored)),
+      () => listPlanPageJson(ctx.db, id, query),
+      () => planCountsAndErrors(ctx.db, id, query.nodeId),
+    ] as const);
+    const head: Omit<ProposalPlans, 'plans'> = {
+      run,
+      page: query.page,
+      pageSize: query.pageSize,
+      matched: page.matched,
+      counts: totals.counts,
+      errors: totals.errors,
+    };
+    return jsonWithRawMember(head, 'plans', page.rowsJson);
+  });
 }
 
 /** GET /api/proposals/:id/plans/markers (team members): every plan as a chart marker, unpaged. */
