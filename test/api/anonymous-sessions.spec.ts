@@ -59,7 +59,7 @@ describe('signed-out requests', () => {
     const res = await b.post('/api/auth/sign-in', { email: a.email, password: TEST_PASSWORD });
     expect(res.status).toBe(200);
     const row = await storedSession(sessionIdOf(res)!);
-    expect(row.sess.passport.user).toBe(a.id);
+    expect(row.sess.passport.user).toMatchObject({ id: a.id });
     expect(typeof row.sess.createdAt).toBe('number');
     expect(await anonymousRows()).toBe(before);
   });

@@ -111,7 +111,7 @@ export async function recordSignIn(db: Knex, accountId: number): Promise<void> {
 
 /** Ends every stored session of an account (after a password reset or when it is disabled). */
 export async function deleteSessionsOf(db: Knex, accountId: number): Promise<void> {
-  await db('sessions').whereRaw("(sess -> 'passport' ->> 'user')::int = ?", [accountId]).del();
+  await db('sessions').whereRaw('session_account_id(sess) = ?', [accountId]).del();
 }
 
 export async function insertResetToken(db: Knex, accountId: number, tokenHash: string, expiresAt: Date): Promise<void> {
