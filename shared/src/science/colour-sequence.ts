@@ -144,14 +144,15 @@ export function dwarfSequenceAt(quantity: SequenceQuantity, value: number, field
   const a = rows[i];
   const b = rows[i + 1];
   const f = (value - a[col]) / (b[col] - a[col]);
-  const lerp = (k: keyof Omit<SequenceRow, 'spectralType'>) => (k === col ? value : a[k] + f * (b[k] - a[k]));
+  // The quantity given is returned as given; the others are interpolated (no closure here: the
+  // runtime's loader names each closure it creates, a cost on this hot path).
   return {
-    bvMag: lerp('bvMag'),
-    bpRpMag: lerp('bpRpMag'),
-    vKsMag: lerp('vKsMag'),
-    teffK: lerp('teffK'),
-    massSolar: lerp('massSolar'),
-    absMagV: lerp('absMagV'),
+    bvMag: col === 'bvMag' ? value : a.bvMag + f * (b.bvMag - a.bvMag),
+    bpRpMag: col === 'bpRpMag' ? value : a.bpRpMag + f * (b.bpRpMag - a.bpRpMag),
+    vKsMag: col === 'vKsMag' ? value : a.vKsMag + f * (b.vKsMag - a.vKsMag),
+    teffK: col === 'teffK' ? value : a.teffK + f * (b.teffK - a.teffK),
+    massSolar: col === 'massSolar' ? value : a.massSolar + f * (b.massSolar - a.massSolar),
+    absMagV: col === 'absMagV' ? value : a.absMagV + f * (b.absMagV - a.absMagV),
     nearestSpectralType: f < 0.5 ? a.spectralType : b.spectralType,
   };
 }

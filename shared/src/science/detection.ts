@@ -169,30 +169,23 @@ export function detectionThreshold(
   const w = fmax * t * Math.sqrt(Math.PI / 3);
   const gw = baluevGamma(nh) * w;
   const lnP = Math.log(p);
-  /** ln FAP(z) − ln p: decreasing in z. */
-  const h = (z: number) => {
-    const l = Math.log1p(-z);
-    const single = Math.exp(0.5 * (count - 3) * l);
-    const tau = gw * Math.exp(0.5 * (count - 4) * l) * Math.sqrt(0.5 * nh * z);
-    return Math.log(-Math.expm1(-tau) + single * Math.exp(-tau)) - lnP;
-  };
   // Bracket from the large-N guess z0 ≈ ln(W/p) + 2, Z ≈ 1 − e^(−2·z0/(N−3)); then regula
   // falsi with the Illinois modification (common practice, no source).
   let lo = 0;
   let hLo = -lnP;
   let hi = Math.min(1 - 1e-12, -Math.expm1((-2 * (Math.log(Math.max(1, w) / p) + 2)) / (count - 3)));
-  let hHi = h(hi);
+  let hHi = lnFapAbove(hi, count, gw, lnP);
   while (hHi > 0 && hi < 1 - 1e-12) {
     lo = hi;
     hLo = hHi;
     hi = 1 - (1 - hi) / 4;
-    hHi = h(hi);
+    hHi = lnFapAbove(hi, count, gw, lnP);
   }
   if (!Number.isFinite(hHi)) {
     // FAP underflowed at hi: fall back to bisection on the sign.
     for (let i = 0; i < 60 && hi - lo > 1e-12; i++) {
       const mid = 0.5 * (lo + hi);
-      if (h(mid) > 0) lo = mid;
+      if (lnFapAbove(mid, count, gw, lnP) > 0) lo = mid;
       else hi = mid;
     }
     return { power: hi, points: n, effectiveFrequencies: Math.max(1, w), falseAlarmProbability: p };
@@ -200,7 +193,7 @@ export function detectionThreshold(
   let side = 0;
   for (let i = 0; i < 100 && hi - lo > 1e-11; i++) {
     const x = (lo * hHi - hi * hLo) / (hHi - hLo);
-    const hx = h(x);
+    const hx = lnFapAbove(x, count, gw, lnP);
     if (Math.abs(hx) < 1e-11) {
       hi = x;
       break;
@@ -441,4 +434,12 @@ export function baselineForPeriodPrecision(input: {
   const p = requirePositive(input.periodDays, 'periodDays');
   const sp = requirePositive(input.periodPrecisionDays, 'periodPrecisionDays');
   return (p * p * Math.sqrt(6 / n) * s) / (Math.PI * a * sp);
+}
+
+/** ln FAP(z) − ln p of the threshold search in detectionThreshold (decreasing in z); gw = γ(N−1)·W. */
+function lnFapAbove(z: number, count: number, gw: number, lnP: number): number {
+  const l = Math.log1p(-z);
+  const single = Math.exp(0.5 * (count - 3) * l);
+  const tau = gw * Math.exp(0.5 * (count - 4) * l) * Math.sqrt(0.5 * (count - 1) * z);
+  return Math.log(-Math.expm1(-tau) + single * Math.exp(-tau)) - lnP;
 }

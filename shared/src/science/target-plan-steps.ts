@@ -338,140 +338,158 @@ export interface VisitSizing {
  * visits (nightly means would average the signal away) and the floor counts per visit.
  */
 export function sizeVisits(input: VisitSizingInput): VisitSizing {
-  const A = input.semiAmplitudePpm;
-  const w2 = input.whitePpm ** 2;
-  const f2 = input.floorPpm ** 2;
-  const c = input.completeness;
-  const nightly = input.series === 'nightlyMeans';
-  const thresholds = input.thresholdCache ?? new Map<number, DetectionThreshold>();
-  const thresholdFor = (points: number, T: number) => {
+  return new VisitSizer(input).size();
+}
+
+/**
+ * The state of one {@link sizeVisits} call. A class rather than closures inside the function:
+ * the runtime's TypeScript loader names every closure it creates (a property definition per
+ * closure per call), which cost a sixth of the plan benchmark when sizing made seven per call.
+ */
+class VisitSizer {
+  private readonly A: number;
+  private readonly w2: number;
+  private readonly f2: number;
+  private readonly c: number;
+  private readonly nightly: boolean;
+  private readonly thresholds: Map<number, DetectionThreshold>;
+  private readonly detections: Map<number, number>;
+  private readonly kMax: number;
+  private readonly kUseful: number;
+  private readonly tMax: number;
+
+  constructor(private readonly input: VisitSizingInput) {
+    this.A = input.semiAmplitudePpm;
+    this.w2 = input.whitePpm ** 2;
+    this.f2 = input.floorPpm ** 2;
+    this.c = input.completeness;
+    this.nightly = input.series === 'nightlyMeans';
+    this.thresholds = input.thresholdCache ?? new Map<number, DetectionThreshold>();
+    this.detections = input.detectionCache ?? new Map<number, number>();
+    const k0 = input.visitsPerNight;
+    this.kMax = Math.max(k0, input.maxVisitsPerNight);
+    this.kUseful = this.f2 > 0 ? Math.max(k0, Math.min(this.kMax, Math.ceil(this.w2 / this.f2))) : this.kMax;
+    this.tMax = Math.max(input.baselineDays, Math.ceil(input.maxBaselineDays));
+  }
+
+  private thresholdFor(points: number, T: number): DetectionThreshold {
     const key = points * 4096 + T;
-    let th = thresholds.get(key);
+    let th = this.thresholds.get(key);
     if (!th) {
-      th = detectionThreshold(points, T, input.maxFrequencyPerDay, input.falseAlarmProbability);
-      thresholds.set(key, th);
+      th = detectionThreshold(points, T, this.input.maxFrequencyPerDay, this.input.falseAlarmProbability);
+      this.thresholds.set(key, th);
     }
     return th;
-  };
-  const detections = input.detectionCache ?? new Map<number, number>();
+  }
+
   /** Detection probability of the campaign (T, s, k), once per plan (whole T, s and k: exact keys). */
-  const pdOf = (T: number, s: number, k: number, n: number, points: number, var1: number): number => {
+  private pdOf(T: number, s: number, k: number, points: number, var1: number): number {
     const cacheable = Number.isInteger(T) && Number.isInteger(s) && Number.isInteger(k) && T < 2 ** 20 && s < 2 ** 12 && k < 2 ** 20;
     const key = cacheable ? (T * 4096 + s) * 2 ** 20 + k : -1;
-    let pd = cacheable ? detections.get(key) : undefined;
+    let pd = cacheable ? this.detections.get(key) : undefined;
     if (pd === undefined) {
-      pd = detectionProbability((points * A * A) / (2 * var1), thresholdFor(points, T));
-      if (cacheable) detections.set(key, pd);
+      pd = detectionProbability((points * this.A * this.A) / (2 * var1), this.thresholdFor(points, T));
+      if (cacheable) this.detections.set(key, pd);
     }
     return pd;
-  };
-  const evaluate = (T: number, s: number, k: number) => {
+  }
+
+  /** Noise variance of one value of the analysed series with k visits a night. */
+  private var1(k: number): number {
+    return this.nightly ? this.w2 / k + this.f2 : this.w2 + this.f2;
+  }
+
+  private ok(T: number, s: number, k: number): boolean {
     const n = visitNightCount(T, s);
-    const points = nightly ? n : n * k;
-    const var1 = nightly ? w2 / k + f2 : w2 + f2;
-    const sigma = Math.sqrt(var1);
-    const lam = (points * A * A) / (2 * var1);
-    const th = thresholdFor(points, T);
-    return { n, points, sigma, lam, th, pd: pdOf(T, s, k, n, points, var1) };
-  };
-  const ok = (T: number, s: number, k: number) => {
-    const n = visitNightCount(T, s);
-    const points = nightly ? n : n * k;
-    return pdOf(T, s, k, n, points, nightly ? w2 / k + f2 : w2 + f2) >= c;
-  };
+    return this.pdOf(T, s, k, this.nightly ? n : n * k, this.var1(k)) >= this.c;
+  }
+
   /** Smallest whole k in [lo, hi] with ok, or null (ok is monotone in k). */
-  const smallestK = (T: number, s: number, lo: number, hi: number): number | null => {
-    if (nightly && hi - lo > 16) {
+  private smallestK(T: number, s: number, lo: number, hi: number): number | null {
+    const { A, w2, f2 } = this;
+    if (this.nightly && hi - lo > 16) {
       // Wide range: the threshold does not depend on k, so λ needed once, then k in closed form from
       // n·A²/(2·(w²/k + f²)) ≥ λ.
       const n = visitNightCount(T, s);
-      const allowed = (n * A * A) / (2 * noncentralityForCompleteness(c, thresholdFor(n, T))) - f2;
+      const allowed = (n * A * A) / (2 * noncentralityForCompleteness(this.c, this.thresholdFor(n, T))) - f2;
       if (!(allowed > 0)) return null;
       const k = Math.max(lo, w2 === 0 ? 1 : Math.ceil(w2 / allowed - 1e-9));
       if (k > hi) return null;
       // Guard the rounding at the boundary with the direct check.
-      return ok(T, s, k) ? k : k + 1 <= hi ? k + 1 : null;
+      return this.ok(T, s, k) ? k : k + 1 <= hi ? k + 1 : null;
     }
-    if (!ok(T, s, hi)) return null;
+    if (!this.ok(T, s, hi)) return null;
     while (hi - lo > 0) {
       const mid = Math.floor((lo + hi) / 2);
-      if (ok(T, s, mid)) hi = mid;
+      if (this.ok(T, s, mid)) hi = mid;
       else lo = mid + 1;
     }
     return hi;
-  };
-  const T0 = input.baselineDays;
-  const k0 = input.visitsPerNight;
-  const kMax = Math.max(k0, input.maxVisitsPerNight);
-  const kUseful = f2 > 0 ? Math.max(k0, Math.min(kMax, Math.ceil(w2 / f2))) : kMax;
-  const tMax = Math.max(T0, Math.ceil(input.maxBaselineDays));
-  const detail = input.detail ?? true;
-  const result = (T: number, s: number, k: number, drivenBy: VisitSizing['drivenBy']): VisitSizing => {
-    const e = evaluate(T, s, k);
-    const limits = { usefulVisitsPerNight: kUseful, longestBaselineDays: tMax, mostVisitsPerNight: kMax };
-    if (!detail) {
-      return {
-        baselineDays: T,
-        nightStepDays: s,
-        visitsPerNight: k,
-        nights: e.n,
-        visits: e.n * k,
-        threshold: e.th,
-        noncentrality: e.lam,
-        seriesSigmaPpm: e.sigma,
-        completeness: e.pd,
-        drivenBy,
-        amplitudeLimitPpm: Number.NaN,
-        floorAmplitudeLimitPpm: Number.NaN,
-        ...limits,
-      };
-    }
-    // Both limits share the longest campaign's threshold, hence one inversion.
-    let lamMax: number | undefined;
-    const limitAt = (sigma: number) => {
-      const nMax = visitNightCount(tMax, 1);
-      const points = nightly ? nMax : nMax * kMax;
-      lamMax ??= noncentralityForCompleteness(c, thresholdFor(points, tMax));
-      return Math.sqrt((2 * lamMax * sigma * sigma) / points);
-    };
+  }
+
+  /** Semi-amplitude the completeness reaches over the longest campaign with series noise sigma (both limits share its threshold). */
+  private limitAt(sigma: number, lamMax: { value?: number }): number {
+    const nMax = visitNightCount(this.tMax, 1);
+    const points = this.nightly ? nMax : nMax * this.kMax;
+    lamMax.value ??= noncentralityForCompleteness(this.c, this.thresholdFor(points, this.tMax));
+    return Math.sqrt((2 * lamMax.value * sigma * sigma) / points);
+  }
+
+  private result(T: number, s: number, k: number, drivenBy: VisitSizing['drivenBy']): VisitSizing {
+    const n = visitNightCount(T, s);
+    const points = this.nightly ? n : n * k;
+    const var1 = this.var1(k);
+    const th = this.thresholdFor(points, T);
+    const unreachable = drivenBy === 'unreachable' && (this.input.detail ?? true);
+    const lamMax: { value?: number } = {};
     return {
       baselineDays: T,
       nightStepDays: s,
       visitsPerNight: k,
-      nights: e.n,
-      visits: e.n * k,
-      threshold: e.th,
-      noncentrality: e.lam,
-      seriesSigmaPpm: e.sigma,
-      completeness: e.pd,
+      nights: n,
+      visits: n * k,
+      threshold: th,
+      noncentrality: (points * this.A * this.A) / (2 * var1),
+      seriesSigmaPpm: Math.sqrt(var1),
+      completeness: this.pdOf(T, s, k, points, var1),
       drivenBy,
-      amplitudeLimitPpm: drivenBy === 'unreachable' ? limitAt(nightly ? Math.sqrt(w2 / kMax + f2) : Math.sqrt(w2 + f2)) : Number.NaN,
-      floorAmplitudeLimitPpm: drivenBy === 'unreachable' ? limitAt(Math.sqrt(f2)) : Number.NaN,
-      ...limits,
+      amplitudeLimitPpm: unreachable
+        ? this.limitAt(this.nightly ? Math.sqrt(this.w2 / this.kMax + this.f2) : Math.sqrt(this.w2 + this.f2), lamMax)
+        : Number.NaN,
+      floorAmplitudeLimitPpm: unreachable ? this.limitAt(Math.sqrt(this.f2), lamMax) : Number.NaN,
+      usefulVisitsPerNight: this.kUseful,
+      longestBaselineDays: this.tMax,
+      mostVisitsPerNight: this.kMax,
     };
-  };
-  // 1. The cadence as it stands.
-  if (ok(T0, input.nightStepDays, k0)) return result(T0, input.nightStepDays, k0, 'cadence');
-  // Nothing reaches it: the longest baseline with the most visits a night falls short. The
-  // plan then keeps the cadence's own campaign and says what completeness that gives: showing
-  // the largest campaign tried (every night, the night full of visits) would price thousands
-  // of visits that cannot reach the goal either.
-  if (!ok(tMax, 1, kMax)) return result(T0, input.nightStepDays, k0, 'unreachable');
-  // 2. Every night, up to the useful visits per night.
-  const kEvery = smallestK(T0, 1, k0, kUseful);
-  if (kEvery !== null) return result(T0, 1, kEvery, 'visitsPerNight');
-  // 3. A longer baseline at the useful visits per night (ok rises with T).
-  if (tMax > T0 && ok(tMax, 1, kUseful)) {
-    let lo = T0;
-    let hi = tMax;
-    while (hi - lo > 1) {
-      const mid = Math.floor((lo + hi) / 2);
-      if (ok(mid, 1, kUseful)) hi = mid;
-      else lo = mid;
-    }
-    return result(hi, 1, smallestK(hi, 1, k0, kUseful) ?? kUseful, 'baseline');
   }
-  // 4. The longest baseline, more visits per night up to what fits.
-  const kLong = kUseful < kMax ? smallestK(tMax, 1, kUseful + 1, kMax) : kMax;
-  return result(tMax, 1, kLong ?? kMax, 'visitsPerNight');
+
+  size(): VisitSizing {
+    const { input, kUseful, kMax, tMax } = this;
+    const T0 = input.baselineDays;
+    const k0 = input.visitsPerNight;
+    // 1. The cadence as it stands.
+    if (this.ok(T0, input.nightStepDays, k0)) return this.result(T0, input.nightStepDays, k0, 'cadence');
+    // Nothing reaches it: the longest baseline with the most visits a night falls short. The
+    // plan then keeps the cadence's own campaign and says what completeness that gives: showing
+    // the largest campaign tried (every night, the night full of visits) would price thousands
+    // of visits that cannot reach the goal either.
+    if (!this.ok(tMax, 1, kMax)) return this.result(T0, input.nightStepDays, k0, 'unreachable');
+    // 2. Every night, up to the useful visits per night.
+    const kEvery = this.smallestK(T0, 1, k0, kUseful);
+    if (kEvery !== null) return this.result(T0, 1, kEvery, 'visitsPerNight');
+    // 3. A longer baseline at the useful visits per night (ok rises with T).
+    if (tMax > T0 && this.ok(tMax, 1, kUseful)) {
+      let lo = T0;
+      let hi = tMax;
+      while (hi - lo > 1) {
+        const mid = Math.floor((lo + hi) / 2);
+        if (this.ok(mid, 1, kUseful)) hi = mid;
+        else lo = mid;
+      }
+      return this.result(hi, 1, this.smallestK(hi, 1, k0, kUseful) ?? kUseful, 'baseline');
+    }
+    // 4. The longest baseline, more visits per night up to what fits.
+    const kLong = kUseful < kMax ? this.smallestK(tMax, 1, kUseful + 1, kMax) : kMax;
+    return this.result(tMax, 1, kLong ?? kMax, 'visitsPerNight');
+  }
 }

@@ -114,7 +114,7 @@ export function erf(x: number): number {
 /** Validates a node's instrument description; each problem names `node.<field>`. */
 export function validateNodeSpec(node: NodeSpec, field = 'node'): NodeSpec {
   if (typeof node !== 'object' || node === null) throw new ScienceInputError(field, 'is missing');
-  const f = (k: keyof NodeSpec) => `${field}.${k}`;
+  const f = subField.bind(null, field);
   requirePositive(node.apertureM, f('apertureM'));
   requireInRange(node.obstructionFraction, f('obstructionFraction'), 0, 0.6);
   requireInRange(node.throughput, f('throughput'), 0, 1);
@@ -417,4 +417,9 @@ export function chooseExposure(
   validateNodeSpec(node);
   validateSiteSpec(site);
   return chooseExposureFromSetup(photometrySetup(node, site, input.magnitude, input.airmass, options), node, input.targetPrecisionPpm);
+}
+
+/** `node.<k>`: the field name of one member of a validated object. */
+function subField(field: string, k: string): string {
+  return `${field}.${k}`;
 }
