@@ -13,6 +13,7 @@ import { createAccountRoutes } from './features/accounts/account-routes';
 import { createAuthRoutes } from './features/auth/auth-routes';
 import { createPassport } from './features/auth/passport-setup';
 import { createCycleRoutes } from './features/cycles/cycle-routes';
+import { createReviewRoutes } from './features/review/review-routes';
 import { createFacilityRoutes } from './features/facility/facility-routes';
 import { createHealthRoutes } from './features/health/health-routes';
 import { createProposalRoutes } from './features/proposals/proposal-routes';
@@ -101,6 +102,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   api.use('/proposals', createProposalRoutes(ctx));
   api.use('/invitations', createInvitationRoutes(ctx));
   api.use('/target-lists', createTargetListRoutes(ctx));
+  api.use('/review', createReviewRoutes(ctx));
   api.use('/', createFacilityRoutes(ctx));
   app.use('/api', api);
   app.use('/api', apiNotFound);

@@ -49,6 +49,12 @@ export const routes: Routes = [
     loadChildren: () => import('./features/cycles/cycles.routes'),
   },
   {
+    // The committee's journey: grading, panels and assignment, statistics and standing.
+    path: 'review',
+    canActivate: [authGuard],
+    loadChildren: () => import('./features/review/review.routes'),
+  },
+  {
     path: 'admin',
     canActivate: [authGuard, roleGuard('administrator')],
     loadChildren: () => import('./features/admin/admin.routes'),

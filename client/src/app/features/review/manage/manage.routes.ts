@@ -1,0 +1,6 @@
+import { Routes } from '@angular/router';
+
+/** Pages of review's manage/ part (loaded by review.routes.ts). */
+const routes: Routes = [];
+
+export default routes;

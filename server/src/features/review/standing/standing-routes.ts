@@ -1,0 +1,8 @@
+import { Router } from 'express';
+import type { AppContext } from '../../../app-context';
+
+/** Routes of review's standing/ sub-feature (mounted by review-routes.ts under /api/review). */
+export function createStandingRoutes(_ctx: AppContext): Router {
+  const router = Router();
+  return router;
+}
