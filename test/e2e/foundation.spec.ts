@@ -11,7 +11,7 @@ beforeAll(async () => {
 afterAll(() => browser?.close());
 
 describe('each demo account', () => {
-  it.each(demo.accounts.map((a) => [a.roles[0], a]))('%s signs in and sees its own home, accessible', async (role, account) => {
+  it.each(demo.accounts.map((a) => [a.email.split('@')[0], a]))('%s signs in and sees its own home, accessible', async (role, account) => {
     const { context, page } = await newPage(browser);
     try {
       await signIn(page, account.email);
