@@ -109,12 +109,12 @@ async function seedReview(knex: Knex): Promise<void> {
   const manager = (await findAccountByEmail(knex, 'manager@halcyon.example'))!;
   const demoReviewer = (await findAccountByEmail(knex, 'reviewer@halcyon.example'))!;
   const demoChair = (await findAccountByEmail(knex, 'chair@halcyon.example'))!;
-  const reviewerIds = [];
+  const reviewerIds: number[] = [];
   for (const r of REVIEWERS) reviewerIds.push(await accountFor(knex, r, 'reviewer'));
   await knex('accounts')
     .whereIn('id', [demoReviewer.id, demoChair.id, ...reviewerIds])
     .update({ expertise: knex.raw('?::text[]', [[CATEGORIES[0], CATEGORIES[2]]]) });
-  const proposerIds = [];
+  const proposerIds: { id: number; email: string }[] = [];
   for (const p of PROPOSERS) proposerIds.push({ id: await accountFor(knex, p, 'proposer'), email: p.email });
 
   const nodes: { id: number; code: string }[] = await knex('nodes').select('id', 'code').orderBy('id');
