@@ -1,0 +1,286 @@
+import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
+import type {
+  DeclareConflictInput,
+  MyReviewCycle,
+  MyReviewRow,
+  MyReviews,
+  ReviewLock,
+  ReviewProposal,
+  SaveReviewInput,
+  SubmitReviewsResult,
+} from '@spincycle/shared/review/reviewing';
+import { assessProposal, summarizeAssessment, type TechnicalAssessment } from '@spincycle/shared/review/technical-assessment';
+import type { AppContext } from '../../../app-context';
+import { AppError } from '../../../http/app-error';
+import { formatUtc } from '../../cycles/cycle-service';
+import { findJustificationContent } from '../../proposals/justification/justification-repository';
+import {
+  findAssignment,
+  hasJustification,
+  listAssessmentInputs,
+  listAssignmentsOf,
+  listFacilityManagerEmails,
+  listRequestedNodes,
+  listTargetsWithPlans,
+  lockAssignmentsOfCycle,
+  markSubmitted,
+  recordConflict,
+  updateReview,
+  type StoredAssignment,
+} from './reviewing-repository';
+
+/**
+ * The same 404 for a proposal that does not exist, one the reviewer is not assigned to, and one
+ * they declared a conflict with: the reviewer learns nothing about proposals outside their list.
+ */
+const notAssigned = (id: number) => new AppError('proposal_not_found', `No proposal ${id} is assigned to you`, 404);
+
+/** Why the review can no longer change at `now`: submitted, or the cycle's review deadline passed. */
+export function lockOf(a: Pick<StoredAssignment, 'submittedAt' | 'reviewDeadline'>, now: Date): ReviewLock {
+  if (a.submittedAt) return 'submitted';
+  if (a.reviewDeadline && a.reviewDeadline.getTime() <= now.getTime()) return 'deadline';
+  return null;
+}
+
+function lockedError(a: StoredAssignment, lock: Exclude<ReviewLock, null>, what: string): AppError {
+  return lock === 'submitted'
+    ? new AppError(
+        'review_locked',
+        `Your reviews for ${a.cycleCode} were submitted at ${formatUtc(a.submittedAt!.toISOString())}; ${what}`,
+        409,
+      )
+    : new AppError(
+        'review_locked',
+        `The review deadline of ${a.cycleCode} passed at ${formatUtc(a.reviewDeadline!.toISOString())}; ${what}`,
+        409,
+      );
+}
+
+function assessmentOf(a: StoredAssignment, inputs: Awaited<ReturnType<typeof listAssessmentInputs>>): TechnicalAssessment {
+  const entry = inputs.get(a.proposalId) ?? { targets: [], plans: [] };
+  return assessProposal({ ...entry, campaignDays: a.campaignDays, completenessGoal: a.completenessGoal });
+}
+
+function toRow(a: StoredAssignment, assessment: TechnicalAssessment, now: Date): MyReviewRow {
+  const lock = lockOf(a, now);
+  return {
+    proposalId: a.proposalId,
+    title: a.title,
+    category: a.category,
+    abstractShort: a.abstractShort,
+    cycleId: a.cycleId,
+    cycleCode: a.cycleCode,
+    reviewDeadline: a.reviewDeadline?.toISOString() ?? null,
+    locked: lock !== null,
+    lockedBecause: lock,
+    grade: a.grade,
+    strengths: a.strengths,
+    weaknesses: a.weaknesses,
+    committeeNote: a.committeeNote,
+    savedAt: a.savedAt?.toISOString() ?? null,
+    submittedAt: a.submittedAt?.toISOString() ?? null,
+    version: a.version,
+    assessment: summarizeAssessment(assessment),
+    team: a.anonymousReview ? null : a.team,
+  };
+}
+
+/**
+ * GET /api/review/my (reviewers): the reviewer's own assignments and nothing of anyone else's
+ * reviews. Two queries whatever the number of rows: the assignments, then every target and the
+ * assessment's numbers of their plans for all those proposals at once.
+ */
+export async function listMyReviews(ctx: AppContext, viewer: SessionUser, cycleId?: number): Promise<MyReviews> {
+  const assignments = await listAssignmentsOf(ctx.db, viewer.id, cycleId);
+  const inputs = await listAssessmentInputs(
+    ctx.db,
+    assignments.map((a) => a.proposalId),
+  );
+  const now = ctx.now();
+  const reviews = assignments.map((a) => toRow(a, assessmentOf(a, inputs), now));
+  const cycles = new Map<number, MyReviewCycle>();
+  for (const a of assignments) {
+    const c = cycles.get(a.cycleId) ?? {
+      id: a.cycleId,
+      code: a.cycleCode,
+      title: a.cycleTitle,
+      reviewDeadline: a.reviewDeadline?.toISOString() ?? null,
+      anonymousReview: a.anonymousReview,
+      assigned: 0,
+      graded: 0,
+      submitted: 0,
+    };
+    c.assigned++;
+    if (a.grade !== null) c.graded++;
+    if (a.submittedAt) c.submitted++;
+    cycles.set(a.cycleId, c);
+  }
+  return { cycles: [...cycles.values()], reviews };
+}
+
+/** The visible assignment or 404. */
+async function requireAssignment(ctx: AppContext, viewer: SessionUser, proposalId: number): Promise<StoredAssignment> {
+  const a = await findAssignment(ctx.db, viewer.id, proposalId, { withAbstract: true });
+  if (!a) throw notAssigned(proposalId);
+  return a;
+}
+
+/** GET /api/review/my/:proposalId: the proposal as its reviewer reads it, with the full assessment. */
+export async function getReviewProposal(ctx: AppContext, viewer: SessionUser, proposalId: number): Promise<ReviewProposal> {
+  const a = await requireAssignment(ctx, viewer, proposalId);
+  const [inputs, nodes, targets, justification] = await Promise.all([
+    listAssessmentInputs(ctx.db, [proposalId]),
+    listRequestedNodes(ctx.db, proposalId),
+    listTargetsWithPlans(ctx.db, proposalId),
+    hasJustification(ctx.db, proposalId),
+  ]);
+  const assessment = assessmentOf(a, inputs);
+  return {
+    review: toRow(a, assessment, ctx.now()),
+    abstract: a.abstract,
+    completenessGoal: a.completenessGoal,
+    nodes,
+    targets,
+    assessment,
+    justificationUrl: justification ? `/api/review/my/${proposalId}/justification` : null,
+    team: a.anonymousReview ? null : a.team,
+  };
+}
+
+/**
+ * GET /api/review/my/:proposalId/justification: the PDF under a neutral name that never carries
+ * the uploaded file's name (which may name the team).
+ */
+export async function getReviewJustification(
+  ctx: AppContext,
+  viewer: SessionUser,
+  proposalId: number,
+): Promise<{ filename: string; content: Buffer }> {
+  await requireAssignment(ctx, viewer, proposalId);
+  const file = await findJustificationContent(ctx.db, proposalId);
+  if (!file) throw new AppError('justification_not_found', 'The team has not uploaded a justification PDF', 404);
+  return { filename: `proposal-${proposalId}-justification.pdf`, content: file.content };
+}
+
+/**
+ * PUT /api/review/my/:proposalId/review: saves the reviewer's grade and comments on one row.
+ * 409 `review_locked` after submission or the deadline; 409 `version_conflict` (with the stored
+ * row) when another tab saved first.
+ */
+export async function saveReview(ctx: AppContext, viewer: SessionUser, proposalId: number, input: SaveReviewInput): Promise<MyReviewRow> {
+  return ctx.db.transaction(async (trx) => {
+    const a = await findAssignment(trx, viewer.id, proposalId, { forUpdate: true });
+    if (!a) throw notAssigned(proposalId);
+    const now = ctx.now();
+    const lock = lockOf(a, now);
+    if (lock) throw lockedError(a, lock, 'grades can no longer change');
+    if (a.version !== input.version) {
+      const inputs = await listAssessmentInputs(trx, [proposalId]);
+      throw new AppError(
+        'version_conflict',
+        'This review was saved elsewhere (another tab or window) since you opened it: the saved version is shown',
+        409,
+        undefined,
+        { current: toRow(a, assessmentOf(a, inputs), now) },
+      );
+    }
+    const saved = await updateReview(trx, a.assignmentId, input.version, input, now);
+    if (!saved) throw new AppError('version_conflict', 'This review changed while saving; reload it', 409);
+    const inputs = await listAssessmentInputs(trx, [proposalId]);
+    const updated: StoredAssignment = {
+      ...a,
+      grade: input.grade,
+      strengths: input.strengths,
+      weaknesses: input.weaknesses,
+      committeeNote: input.committeeNote,
+      savedAt: saved.savedAt,
+      version: saved.version,
+    };
+    return toRow(updated, assessmentOf(updated, inputs), now);
+  });
+}
+
+/**
+ * POST /api/review/my/submit: submits every review of the reviewer in the cycle at once, after
+ * which they lock. 400 `grades_missing` naming the proposals without a grade; 404 when the
+ * reviewer has nothing assigned in the cycle; 409 after the deadline or when already submitted.
+ */
+export async function submitReviews(ctx: AppContext, viewer: SessionUser, cycleId: number): Promise<SubmitReviewsResult> {
+  return ctx.db.transaction(async (trx) => {
+    const rows = await lockAssignmentsOfCycle(trx, viewer.id, cycleId);
+    if (!rows.length) throw new AppError('cycle_not_found', `No proposals of cycle ${cycleId} are assigned to you`, 404);
+    const now = ctx.now();
+    const open = rows.filter((a) => !a.submittedAt);
+    if (!open.length) throw lockedError(rows[0], 'submitted', 'there is nothing left to submit');
+    const lock = lockOf(open[0], now);
+    if (lock) throw lockedError(open[0], lock, 'reviews can no longer be submitted');
+    const missing = open.filter((a) => a.grade === null);
+    if (missing.length) {
+      const list = missing.map((a) => `#${a.proposalId} “${a.title}”`).join(', ');
+      throw new AppError(
+        'grades_missing',
+        `Give a grade to every proposal before submitting; without a grade: ${list}`,
+        400,
+        { grade: missing.map((a) => `proposal ${a.proposalId} has no grade`) },
+        { proposalIds: missing.map((a) => a.proposalId) },
+      );
+    }
+    await markSubmitted(
+      trx,
+      open.map((a) => a.assignmentId),
+      now,
+    );
+    return { cycleId, submitted: open.length, submittedAt: now.toISOString() };
+  });
+}
+
+/**
+ * POST /api/review/my/:proposalId/conflict: the reviewer declares a conflict of interest (any
+ * time before their review locks, without having to open the proposal). The assignment and any
+ * grade go in the same transaction as the conflict is recorded; the facility managers are told
+ * by mail after the commit (a failed mail is logged, the conflict stands). From then on every
+ * route about the proposal answers this reviewer 404.
+ */
+export async function declareConflict(
+  ctx: AppContext,
+  viewer: SessionUser,
+  proposalId: number,
+  input: DeclareConflictInput,
+): Promise<{ proposalId: number; declaredAt: string }> {
+  const now = ctx.now();
+  const a = await ctx.db.transaction(async (trx) => {
+    const found = await findAssignment(trx, viewer.id, proposalId, { forUpdate: true });
+    if (!found) throw notAssigned(proposalId);
+    const lock = lockOf(found, now);
+    if (lock) throw lockedError(found, lock, 'ask the facility managers to record a conflict now');
+    await recordConflict(trx, {
+      assignmentId: found.assignmentId,
+      proposalId,
+      reviewerId: viewer.id,
+      reason: input.reason,
+      declaredAt: now,
+    });
+    return found;
+  });
+  try {
+    const to = await listFacilityManagerEmails(ctx.db);
+    if (to.length) {
+      await ctx.mailer.send({
+        to,
+        subject: `Conflict declared: proposal #${proposalId} (${a.cycleCode})`,
+        text: [
+          'Hello,',
+          '',
+          `${viewer.displayName} (${viewer.email}) declared a conflict of interest with proposal #${proposalId} “${a.title}” of cycle ${a.cycleCode}.`,
+          '',
+          `Reason given: ${input.reason}`,
+          '',
+          'The assignment and any grade were removed. The proposal may need another reviewer.',
+        ].join('\n'),
+      });
+    }
+  } catch (err) {
+    ctx.logger.error({ err, proposalId }, 'conflict mail to the facility managers could not be sent');
+  }
+  return { proposalId, declaredAt: now.toISOString() };
+}
