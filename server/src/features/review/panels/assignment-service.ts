@@ -1,0 +1,287 @@
+import type { Knex } from 'knex';
+import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
+import { assignReviewers, expertiseMatches } from '@spincycle/shared/review/assignment';
+import type {
+  AssignmentInfeasibleDetails,
+  AssignmentMatrix,
+  AssignmentToggleInput,
+  AutomaticAssignmentResult,
+  MatrixCell,
+  ReviewerAccount,
+} from '@spincycle/shared/review/panels';
+import type { AppContext } from '../../../app-context';
+import { AppError } from '../../../http/app-error';
+import { formatUtc } from '../../cycles/cycle-service';
+import { loadEligibility } from './eligibility';
+import {
+  assignmentsOfPanel,
+  deleteAssignments,
+  findCycleReview,
+  insertAssignments,
+  listProposalsOfPanel,
+  listReviewerAccounts,
+  markNotified,
+  membersOfPanels,
+  setAssignmentSource,
+  touchPanel,
+  type CycleReview,
+} from './panel-repository';
+import { requireCycle, requirePanel, requireUnlocked } from './panel-service';
+
+const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
+
+/** The panel's members who still hold the reviewer role, by name. */
+async function membersOf(db: Knex, panelId: number): Promise<ReviewerAccount[]> {
+  const ids = (await membersOfPanels(db, [panelId])).get(panelId) ?? [];
+  return listReviewerAccounts(db, ids);
+}
+
+/** GET /api/review/panels/:panelId/matrix (facility managers). */
+export async function getMatrix(ctx: AppContext, panelId: number, db: Knex = ctx.db): Promise<AssignmentMatrix> {
+  const panel = await requirePanel(db, panelId);
+  const cycle = (await findCycleReview(db, panel.cycleId))!;
+  const reviewers = await membersOf(db, panelId);
+  const proposals = await listProposalsOfPanel(db, panelId);
+  const assignments = await assignmentsOfPanel(db, panelId);
+  const eligibility = await loadEligibility(
+    db,
+    proposals.map((p) => p.id),
+    reviewers,
+  );
+  const byPair = new Map(assignments.map((a) => [`${a.proposalId}:${a.reviewerId}`, a]));
+  const loads = new Map<number, number>();
+  for (const a of assignments) loads.set(a.reviewerId, (loads.get(a.reviewerId) ?? 0) + 1);
+  const memberLoads = reviewers.map((r) => loads.get(r.id) ?? 0);
+  return {
+    panel: {
+      id: panel.id,
+      name: panel.name,
+      cycleId: cycle.id,
+      cycleCode: cycle.code,
+      version: panel.version,
+      standingLocked: panel.standingLocked,
+    },
+    reviewersPerProposal: cycle.reviewersPerProposal,
+    reviewDeadline: cycle.reviewDeadline,
+    reviewers: reviewers.map((r, i) => ({
+      id: r.id,
+      displayName: r.displayName,
+      affiliation: r.affiliation,
+      expertise: r.expertise,
+      chair: r.id === panel.chairId,
+      load: memberLoads[i],
+    })),
+    proposals: proposals.map((p) => ({
+      id: p.id,
+      title: p.title,
+      category: p.category,
+      state: p.state,
+      piName: p.piName,
+      count: assignments.filter((a) => a.proposalId === p.id).length,
+      notDiscussed: p.notDiscussed,
+      cells: reviewers.map((r): MatrixCell => {
+        const a = byPair.get(`${p.id}:${r.id}`);
+        const match = expertiseMatches(p.category, r.expertise);
+        if (a) return { state: 'assigned', source: a.source, graded: a.graded, expertiseMatch: match };
+        return eligibility.refusal(p.id, r.id) ?? { state: 'free', expertiseMatch: match };
+      }),
+    })),
+    loadRange: { lowest: memberLoads.length ? Math.min(...memberLoads) : 0, highest: memberLoads.length ? Math.max(...memberLoads) : 0 },
+  };
+}
+
+/**
+ * PUT /api/review/panels/:panelId/assignments: assigns or unassigns one reviewer by hand.
+ * The reviewer must be a member and eligible (409 `reviewer_ineligible` with the reason);
+ * an automatic cell that is set by hand becomes manual (so automatic runs keep it); a graded
+ * cell cannot be unassigned (409 `assignment_graded`). A newly assigned reviewer is e-mailed.
+ */
+export async function toggleAssignment(
+  ctx: AppContext,
+  actor: SessionUser,
+  panelId: number,
+  input: AssignmentToggleInput,
+): Promise<AssignmentMatrix> {
+  const added = await ctx.db.transaction(async (trx) => {
+    const panel = await requirePanel(trx, panelId, { forUpdate: true });
+    requireUnlocked(panel);
+    const proposal = (await listProposalsOfPanel(trx, panelId)).find((p) => p.id === input.proposalId);
+    if (!proposal) {
+      throw new AppError('proposal_not_in_panel', `proposalId: proposal ${input.proposalId} is not in panel ${panel.name}`, 409, {
+        proposalId: [`not in panel ${panel.name}`],
+      });
+    }
+    const reviewer = (await membersOf(trx, panelId)).find((r) => r.id === input.reviewerId);
+    if (!reviewer) {
+      throw new AppError('reviewer_not_member', `reviewerId: account ${input.reviewerId} is not a reviewer of panel ${panel.name}`, 409, {
+        reviewerId: [`not a member of panel ${panel.name}`],
+      });
+    }
+    const existing = (await assignmentsOfPanel(trx, panelId)).find((a) => a.proposalId === proposal.id && a.reviewerId === reviewer.id);
+    if (!input.assigned) {
+      if (!existing) return [];
+      if (existing.graded) {
+        throw new AppError('assignment_graded', `${reviewer.displayName} has graded “${proposal.title}”; the assignment stays`, 409);
+      }
+      await deleteAssignments(trx, [existing.id]);
+      await touchPanel(trx, panelId);
+      return [];
+    }
+    if (existing) {
+      if (existing.source === 'automatic') await setAssignmentSource(trx, existing.id, 'manual', actor.id);
+      return [];
+    }
+    const refusal = (await loadEligibility(trx, [proposal.id], [reviewer])).refusal(proposal.id, reviewer.id);
+    if (refusal) {
+      const why = refusal.state === 'conflict' ? `declared a conflict (${refusal.reason})` : refusal.label.toLowerCase();
+      throw new AppError('reviewer_ineligible', `${reviewer.displayName} cannot review “${proposal.title}”: ${why}`, 409, {
+        reviewerId: [refusal.state === 'conflict' ? 'declared a conflict' : refusal.label],
+      });
+    }
+    const ids = await insertAssignments(trx, [{ proposalId: proposal.id, reviewerId: reviewer.id }], 'manual', actor.id);
+    await touchPanel(trx, panelId);
+    return ids;
+  });
+  await notifyAssigned(ctx, added);
+  return getMatrix(ctx, panelId);
+}
+
+/**
+ * POST /api/review/panels/:panelId/assign-automatically: k reviewers per proposal of the panel
+ * (shared/src/review/assignment.ts). Manual cells, team cells and graded cells stay and count;
+ * earlier automatic cells without a grade are replaced. When the constraints cannot all hold,
+ * 409 `assignment_infeasible` names the proposals (and reviewers) at fault, and nothing changes.
+ */
+export async function assignAutomatically(ctx: AppContext, actor: SessionUser, panelId: number): Promise<AutomaticAssignmentResult> {
+  const outcome = await ctx.db.transaction(async (trx) => {
+    const panel = await requirePanel(trx, panelId, { forUpdate: true });
+    requireUnlocked(panel);
+    const cycle = await requireCycle(trx, panel.cycleId);
+    const reviewers = await membersOf(trx, panelId);
+    const proposals = await listProposalsOfPanel(trx, panelId);
+    const assignments = await assignmentsOfPanel(trx, panelId);
+    if (!proposals.length) throw new AppError('panel_empty', `Panel ${panel.name} has no proposals to assign`, 409);
+    const replaced = assignments.filter((a) => a.source === 'automatic' && !a.graded);
+    const fixed = assignments.filter((a) => !(a.source === 'automatic' && !a.graded));
+    const eligibility = await loadEligibility(
+      trx,
+      proposals.map((p) => p.id),
+      reviewers,
+    );
+    const expertise = new Map(reviewers.map((r) => [r.id, r.expertise]));
+    const category = new Map(proposals.map((p) => [p.id, p.category]));
+    const result = assignReviewers({
+      proposals,
+      reviewers,
+      reviewersPerProposal: cycle.reviewersPerProposal,
+      fixed,
+      eligible: eligibility.eligible,
+      prefers: (p, r) => expertiseMatches(category.get(p) ?? null, expertise.get(r) ?? []),
+    });
+    if (!result.ok) throw infeasible(cycle, proposals, reviewers, result);
+    // Unchanged automatic pairs keep their row (and notified_at); only the difference is written.
+    const keep = new Set(result.assignments.map((a) => `${a.proposalId}:${a.reviewerId}`));
+    const removed = replaced.filter((a) => !keep.has(`${a.proposalId}:${a.reviewerId}`));
+    const before = new Set(replaced.map((a) => `${a.proposalId}:${a.reviewerId}`));
+    const fresh = result.assignments.filter((a) => !before.has(`${a.proposalId}:${a.reviewerId}`));
+    await deleteAssignments(
+      trx,
+      removed.map((a) => a.id),
+    );
+    const ids = await insertAssignments(trx, fresh, 'automatic', actor.id);
+    if (ids.length || removed.length) await touchPanel(trx, panelId);
+    return {
+      ids,
+      added: fresh.length,
+      removed: removed.length,
+      expertiseMatches: result.assignments.filter((a) => a.expertiseMatch).length,
+    };
+  });
+  await notifyAssigned(ctx, outcome.ids);
+  return {
+    added: outcome.added,
+    removed: outcome.removed,
+    expertiseMatches: outcome.expertiseMatches,
+    matrix: await getMatrix(ctx, panelId),
+  };
+}
+
+function infeasible(
+  cycle: CycleReview,
+  proposals: { id: number; title: string }[],
+  reviewers: ReviewerAccount[],
+  result: Extract<ReturnType<typeof assignReviewers>, { ok: false }>,
+): AppError {
+  const titles = new Map(proposals.map((p) => [p.id, p.title]));
+  const names = new Map(reviewers.map((r) => [r.id, r.displayName]));
+  const details: AssignmentInfeasibleDetails = {
+    proposals: result.proposals.map((p) => ({ ...p, title: titles.get(p.id) ?? `#${p.id}` })),
+    reviewers: result.reviewers.map((r) => ({ ...r, displayName: names.get(r.id) ?? `#${r.id}` })),
+  };
+  const parts: string[] = [];
+  if (details.proposals.length) {
+    const list = details.proposals.map((p) => `“${p.title}” (${p.eligibleReviewers} eligible)`).join(', ');
+    parts.push(`these proposals cannot get ${plural(cycle.reviewersPerProposal, 'eligible reviewer')} with balanced loads: ${list}`);
+  }
+  const over = details.reviewers.filter((r) => r.problem === 'over');
+  if (over.length) {
+    parts.push(
+      `these reviewers hold more assignments by hand than a balanced load allows (at most ${over[0].highest}): ${over.map((r) => `${r.displayName} (${r.load})`).join(', ')}`,
+    );
+  }
+  const under = details.reviewers.filter((r) => r.problem === 'under');
+  if (under.length) {
+    parts.push(
+      `these reviewers are eligible for too few proposals to reach a balanced load of ${under[0].lowest}: ${under.map((r) => `${r.displayName} (${r.load})`).join(', ')}`,
+    );
+  }
+  const message = `No assignment meets the rules: ${parts.join('; ')}. Add reviewers to the panel, lower the reviewers per proposal, or change the cells set by hand.`;
+  return new AppError('assignment_infeasible', message, 409, undefined, { ...details });
+}
+
+/**
+ * E-mails each reviewer of the new assignments once (after the transaction committed) and
+ * marks the rows notified. A failed send is logged and does not fail the request. The mail
+ * names the cycle, the number of proposals and the deadline, never a team.
+ */
+export async function notifyAssigned(ctx: AppContext, assignmentIds: number[]): Promise<void> {
+  if (!assignmentIds.length) return;
+  const rows = await ctx
+    .db('review_assignments as ra')
+    .join('proposals as p', 'p.id', 'ra.proposal_id')
+    .join('cycles as c', 'c.id', 'p.cycle_id')
+    .join('accounts as a', 'a.id', 'ra.reviewer_account_id')
+    .whereIn('ra.id', assignmentIds)
+    .select('ra.id', 'ra.reviewer_account_id', 'a.email', 'a.display_name', 'p.title', 'c.code', 'c.review_deadline');
+  const byReviewer = new Map<number, typeof rows>();
+  for (const r of rows) byReviewer.set(r.reviewer_account_id, [...(byReviewer.get(r.reviewer_account_id) ?? []), r]);
+  await Promise.all(
+    [...byReviewer.values()].map(async (list) => {
+      const first = list[0];
+      const cycles = [...new Set(list.map((r) => r.code as string))].join(', ');
+      const deadline = first.review_deadline
+        ? `Grades are due by ${formatUtc((first.review_deadline as Date).toISOString())}.`
+        : 'The review deadline will be announced.';
+      const text = [
+        `Hello ${first.display_name},`,
+        '',
+        `You have been asked to review ${plural(list.length, 'proposal')} in cycle ${cycles}:`,
+        ...list.map((r) => `- ${r.title}`),
+        '',
+        deadline,
+        `Your reviews: ${ctx.config.publicUrl}/review/my`,
+        '',
+        'If you cannot review one of them fairly, declare a conflict there.',
+      ].join('\n');
+      try {
+        await ctx.mailer.send({ to: first.email, subject: `Proposals to review in ${cycles}`, text });
+        await markNotified(
+          ctx.db,
+          list.map((r) => r.id as number),
+        );
+      } catch (err) {
+        ctx.logger.error({ err, reviewerId: first.reviewer_account_id }, 'assignment mail could not be sent');
+      }
+    }),
+  );
+}
