@@ -177,6 +177,7 @@ const ROUTES: RouteCase[] = [
     ok: 200,
     call: async (b) => b.post(`/api/review/panels/${(await panelFixture()).panelId}/assign-automatically`),
   },
+  { name: 'GET /api/review/me/panels', roles: ['reviewer'], ok: 200, call: (b) => b.get('/api/review/me/panels') },
   { name: 'GET /api/review/me/expertise', roles: ['reviewer'], ok: 200, call: (b) => b.get('/api/review/me/expertise') },
   {
     name: 'PUT /api/review/me/expertise',

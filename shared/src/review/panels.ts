@@ -271,3 +271,19 @@ export interface Expertise {
   /** Category names of the cycles (suggestions). */
   suggestions: string[];
 }
+
+/** GET /api/review/me/panels: a panel the signed-in reviewer sits on (as member or chair). */
+export interface MyPanel {
+  panelId: number;
+  panelName: string;
+  cycleId: number;
+  cycleCode: string;
+  cycleTitle: string;
+  isChair: boolean;
+  /** The cycle's review deadline (ISO instant), null until the manager sets it. */
+  reviewDeadline: string | null;
+  /** True once the deadline has passed: the chair then sees the panel's grades and standing. */
+  panelStage: boolean;
+  standingLockedAt: string | null;
+  proposals: number;
+}

@@ -7,8 +7,8 @@ describe('visibleNavLinks', () => {
     expect(labels(null)).toEqual([]);
   });
 
-  it('any signed-in person: Home, Target planner, Network and Methods', () => {
-    expect(labels({ roles: ['reviewer'] })).toEqual(['Home', 'Target planner', 'Network', 'Methods']);
+  it('any signed-in person: Home, Target planner, Network and Methods; a reviewer also My reviews', () => {
+    expect(labels({ roles: ['reviewer'] })).toEqual(['Home', 'My reviews', 'Target planner', 'Network', 'Methods']);
     expect(labels({ roles: [] })).toEqual(['Home', 'Target planner', 'Network', 'Methods']);
   });
 
@@ -23,8 +23,8 @@ describe('visibleNavLinks', () => {
     ]);
   });
 
-  it('proposer: Proposals; facility manager: Cycles', () => {
+  it('proposer: Proposals; facility manager: Cycles and Review', () => {
     expect(labels({ roles: ['proposer'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network', 'Methods']);
-    expect(labels({ roles: ['facility_manager'] })).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles']);
+    expect(labels({ roles: ['facility_manager'] })).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles', 'Review']);
   });
 });

@@ -16,10 +16,12 @@ export interface NavLink {
 export const NAV_LINKS: readonly NavLink[] = [
   { path: '/', label: 'Home', icon: 'home', exact: true },
   { path: '/proposals', label: 'Proposals', icon: 'description', roles: ['proposer'] },
+  { path: '/review/my', label: 'My reviews', icon: 'rate_review', roles: ['reviewer'] },
   { path: '/planner', label: 'Target planner', icon: 'query_stats' },
   { path: '/network', label: 'Network', icon: 'hub' },
   { path: '/methods', label: 'Methods', icon: 'menu_book' },
   { path: '/cycles', label: 'Cycles', icon: 'event_repeat', roles: ['facility_manager'] },
+  { path: '/review/manage', label: 'Review', icon: 'groups', roles: ['facility_manager'] },
   { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['administrator'] },
 ];
 

@@ -19,6 +19,7 @@ import {
   createPanel,
   deletePanel,
   getExpertise,
+  getMyPanels,
   getPanel,
   getReviewSettings,
   listCycleReviewProposals,
@@ -111,6 +112,9 @@ export function createPanelController(ctx: AppContext) {
     async teamReviewers(req: Request, res: Response) {
       const { cycleId } = cycleParamsSchema.parse(req.params);
       res.json(await listTeamReviewers(ctx, cycleId));
+    },
+    async myPanels(req: Request, res: Response) {
+      res.json(await getMyPanels(ctx, req.user!));
     },
     async getExpertise(req: Request, res: Response) {
       res.json(await getExpertise(ctx, req.user!));

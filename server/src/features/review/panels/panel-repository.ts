@@ -474,3 +474,41 @@ export async function setAside(db: Knex, ids: number[]): Promise<number> {
   if (!ids.length) return 0;
   return db('proposals').whereIn('id', ids).where('set_aside', false).update({ set_aside: true, updated_at: db.fn.now() });
 }
+
+/** The panels an account sits on (member or chair), newest cycle first, with their proposal counts. */
+export async function panelsOfAccount(
+  db: Knex,
+  accountId: number,
+): Promise<
+  {
+    panel_id: number;
+    panel_name: string;
+    cycle_id: number;
+    cycle_code: string;
+    cycle_title: string;
+    chair_account_id: number | null;
+    review_deadline: Date | null;
+    standing_locked_at: Date | null;
+    proposals: number;
+  }[]
+> {
+  return db('panels as p')
+    .join('cycles as c', 'c.id', 'p.cycle_id')
+    .where((w) =>
+      w
+        .where('p.chair_account_id', accountId)
+        .orWhereExists(db('panel_members as m').whereRaw('m.panel_id = p.id').where('m.account_id', accountId)),
+    )
+    .orderBy([{ column: 'c.call_closes_at', order: 'desc' }, { column: 'p.name' }])
+    .select(
+      'p.id as panel_id',
+      'p.name as panel_name',
+      'c.id as cycle_id',
+      'c.code as cycle_code',
+      'c.title as cycle_title',
+      'p.chair_account_id',
+      'c.review_deadline',
+      'p.standing_locked_at',
+      db.raw("(SELECT count(*)::int FROM proposals pr WHERE pr.panel_id = p.id AND pr.state <> 'draft') AS proposals"),
+    );
+}

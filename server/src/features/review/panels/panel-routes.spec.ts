@@ -430,3 +430,22 @@ describe('expertise', () => {
     expect(empty.status).toBe(400);
   });
 });
+
+describe('GET /api/review/me/panels', () => {
+  it("lists the panels a reviewer sits on, says which they chair and when each reaches its panel stage; others' panels are not listed", async () => {
+    const chair = await insertReviewer(h);
+    const member = await insertReviewer(h);
+    const outsider = await insertReviewer(h);
+    const inReview = await newCycle();
+    const atPanelStage = await newCycle({ reviewDeadline: new Date(Date.now() - 3600_000) });
+    const a = await createPanel(inReview.id, [chair.id, member.id]);
+    const b = await createPanel(atPanelStage.id, [member.id, chair.id]);
+    const chairBrowser = await new Browser(h).signIn(chair.email);
+    const mine = (await chairBrowser.get('/api/review/me/panels')).body as { panelId: number; isChair: boolean; panelStage: boolean }[];
+    expect(mine.find((p) => p.panelId === a.id)).toMatchObject({ isChair: true, panelStage: false, cycleId: inReview.id });
+    expect(mine.find((p) => p.panelId === b.id)).toMatchObject({ isChair: false, panelStage: true, cycleId: atPanelStage.id });
+    const outsiderBrowser = await new Browser(h).signIn(outsider.email);
+    expect((await outsiderBrowser.get('/api/review/me/panels')).body).toEqual([]);
+    expect((await manager.get('/api/review/me/panels')).status).toBe(403);
+  });
+});

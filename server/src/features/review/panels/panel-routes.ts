@@ -30,6 +30,7 @@ export function createPanelRoutes(ctx: AppContext): Router {
   router.post('/panels/:panelId/assign-automatically', manager, c.assignAutomatically);
   router.get('/proposals/:proposalId/team-reviewer', requireSignedIn, c.getTeamReviewer);
   router.put('/proposals/:proposalId/team-reviewer', requireSignedIn, c.putTeamReviewer);
+  router.get('/me/panels', requireRole('reviewer'), c.myPanels);
   router.get('/me/expertise', requireRole('reviewer'), c.getExpertise);
   router.put('/me/expertise', requireRole('reviewer'), c.putExpertise);
   return router;

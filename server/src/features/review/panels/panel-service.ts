@@ -5,6 +5,7 @@ import { PROPOSAL_STATE_LABELS } from '@spincycle/shared/proposals/proposal-stat
 import type {
   CycleReviewProposal,
   Expertise,
+  MyPanel,
   ExpertiseInput,
   Panel,
   PanelInput,
@@ -34,6 +35,7 @@ import {
   listReviewerAccounts,
   listSubmittedOfCycle,
   membersOfPanels,
+  panelsOfAccount,
   proposalCounts,
   replacePanelMembers,
   setPanelOfProposals,
@@ -143,6 +145,23 @@ export async function getExpertise(ctx: AppContext, viewer: SessionUser): Promis
 export async function putExpertise(ctx: AppContext, viewer: SessionUser, input: ExpertiseInput): Promise<Expertise> {
   await updateExpertise(ctx.db, viewer.id, input.expertise);
   return getExpertise(ctx, viewer);
+}
+
+/** GET /api/review/me/panels (reviewers): the panels the viewer sits on, and whether each has reached its panel stage. */
+export async function getMyPanels(ctx: AppContext, viewer: SessionUser): Promise<MyPanel[]> {
+  const now = ctx.now().getTime();
+  return (await panelsOfAccount(ctx.db, viewer.id)).map((r) => ({
+    panelId: r.panel_id,
+    panelName: r.panel_name,
+    cycleId: r.cycle_id,
+    cycleCode: r.cycle_code,
+    cycleTitle: r.cycle_title,
+    isChair: r.chair_account_id === viewer.id,
+    reviewDeadline: r.review_deadline?.toISOString() ?? null,
+    panelStage: r.review_deadline !== null && r.review_deadline.getTime() <= now,
+    standingLockedAt: r.standing_locked_at?.toISOString() ?? null,
+    proposals: r.proposals,
+  }));
 }
 
 /* ---------- panels ---------- */

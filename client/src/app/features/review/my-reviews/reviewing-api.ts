@@ -1,6 +1,7 @@
 import { HttpClient, httpResource } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import type { MyReviewRow, MyReviews, ReviewProposal, SaveReviewInput, SubmitReviewsResult } from '@spincycle/shared/review/reviewing';
+import type { MyPanel } from '@spincycle/shared/review/panels';
 import { Observable } from 'rxjs';
 
 /** All HTTP of the reviewer's pages (/review/my). Resources must be created in an injection context. */
@@ -11,6 +12,11 @@ export class ReviewingApi {
   /** GET /api/review/my → the reviewer's assignments across cycles with their own reviews. */
   myReviewsResource() {
     return httpResource<MyReviews>(() => '/api/review/my');
+  }
+
+  /** GET /api/review/me/panels → the panels the reviewer sits on (as member or chair). */
+  myPanelsResource() {
+    return httpResource<MyPanel[]>(() => '/api/review/me/panels');
   }
 
   /** GET /api/review/my/:proposalId → what the reviewer reads, or nothing while `id()` is null. */

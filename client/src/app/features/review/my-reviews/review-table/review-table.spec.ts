@@ -14,7 +14,7 @@ describe('ReviewTable', () => {
   let fixture: ComponentFixture<ReviewTable>;
   let backend: HttpTestingController;
 
-  async function render(body = MY_REVIEWS): Promise<void> {
+  async function render(body = MY_REVIEWS, panels: unknown[] = []): Promise<void> {
     TestBed.configureTestingModule({
       imports: [ReviewTable],
       providers: [
@@ -28,10 +28,17 @@ describe('ReviewTable', () => {
     fixture = TestBed.createComponent(ReviewTable);
     TestBed.tick();
     backend.expectOne('/api/review/my').flush(body);
+    flushPanels(panels);
     await fixture.whenStable();
   }
 
+  /** The "Your panels" list above the table: none unless a test gives some. */
+  function flushPanels(panels: unknown[] = []): void {
+    for (const req of backend.match('/api/review/me/panels')) req.flush(panels);
+  }
+
   afterEach(() => {
+    flushPanels();
     backend.verify();
     jest.useRealTimers();
   });
@@ -61,6 +68,7 @@ describe('ReviewTable', () => {
     fixture.detectChanges();
     expect(el().querySelector('mat-progress-bar')).not.toBeNull();
     backend.expectOne('/api/review/my').flush(MY_REVIEWS);
+    flushPanels();
     await fixture.whenStable();
     expect(el().querySelector('mat-progress-bar')).toBeNull();
     const rows = el().querySelectorAll('tr.mat-mdc-row');
@@ -72,6 +80,42 @@ describe('ReviewTable', () => {
     expect(rows[2].textContent).toContain('Ilsabet Morrow-Fane, Hollowcrest Observatory');
     expect(rows[0].textContent).not.toContain('Ilsabet');
     expect(el().querySelector('[data-testid=cycle-2027A]')?.textContent).toContain('1 of 2 graded');
+  });
+
+  it("lists the reviewer's panels above the table, with the way to a panel's grades for its chair at the panel stage only", async () => {
+    await render({ cycles: [], reviews: [] }, [
+      {
+        panelId: 3,
+        panelName: 'Lower Meadow',
+        cycleId: 1,
+        cycleCode: 'R1',
+        cycleTitle: 'Round 1',
+        isChair: true,
+        reviewDeadline: '2026-11-01T00:00:00Z',
+        panelStage: true,
+        standingLockedAt: null,
+        proposals: 8,
+      },
+      {
+        panelId: 4,
+        panelName: 'Upper Meadow',
+        cycleId: 2,
+        cycleCode: 'R2',
+        cycleTitle: 'Round 2',
+        isChair: false,
+        reviewDeadline: '2027-01-01T00:00:00Z',
+        panelStage: false,
+        standingLockedAt: null,
+        proposals: 6,
+      },
+    ]);
+    fixture.detectChanges();
+    const lower = el().querySelector('[data-testid=my-panel-3]')!;
+    expect(lower.textContent).toContain('you chair it');
+    expect(lower.querySelector('a')?.getAttribute('href')).toBe('/review/panels/3');
+    const upper = el().querySelector('[data-testid=my-panel-4]')!;
+    expect(upper.textContent).toContain('Grades due');
+    expect(upper.querySelector('a')).toBeNull();
   });
 
   it('empty and error states', async () => {
@@ -94,6 +138,7 @@ describe('ReviewTable', () => {
     fixture = TestBed.createComponent(ReviewTable);
     TestBed.tick();
     backend.expectOne('/api/review/my').flush({ code: 'x', message: 'Database down.' }, { status: 503, statusText: 'Unavailable' });
+    flushPanels();
     await fixture.whenStable();
     expect(el().querySelector('[role=alert]')?.textContent).toContain('Your assigned proposals could not be loaded.');
   });
@@ -202,6 +247,7 @@ describe('ReviewTable', () => {
     await new Promise((resolve) => setTimeout(resolve, 50));
     TestBed.tick();
     backend.expectOne('/api/review/my').flush({ ...MY_REVIEWS, reviews: MY_REVIEWS.reviews.slice(1) });
+    flushPanels();
     await fixture.whenStable();
     expect(el().querySelector('[data-testid=notice]')?.textContent).toContain('Conflict declared');
     expect(el().querySelectorAll('tr.mat-mdc-row')).toHaveLength(2);
