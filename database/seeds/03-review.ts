@@ -17,9 +17,10 @@ import { DEMO_PASSWORD } from '../demo-accounts';
  *   proposals, three reviewers each, every grade in and submitted; the standing not yet locked;
  * - "<year>-R2", in review (deadline in two weeks, anonymous): panel "Upper Meadow" chaired by
  *   another reviewer, with the demo reviewer and the demo chair; eight proposals, three
- *   reviewers each, some grades saved, the demo reviewer's partly done.
+ *   reviewers each, some grades saved; the demo reviewer has graded one of five.
  * Proposals are small invented target lists by invented proposers (plans computed in-process).
- * Every name is invented. Runs after 02-proposals; resets its own rows.
+ * Every name is invented. Runs after 02-proposals (whose truncation, with 01-demo's, clears
+ * what this seed wrote before).
  */
 
 const REVIEWERS = [
@@ -220,7 +221,7 @@ async function seedReview(knex: Knex): Promise<void> {
         const reviewer = members[(i * 3 + j) % members.length];
         // One proposal splits the panel: a spread the chair's threshold flags.
         const split = i === 2 ? (j === 0 ? -3.2 : j === 1 ? 1.8 : 0) : 0;
-        const graded = allGraded || (reviewer !== demoReviewer.id ? (i + j) % 2 === 0 : i % 3 !== 2);
+        const graded = allGraded || (reviewer !== demoReviewer.id ? (i + j) % 2 === 0 : i === 0);
         const grade = Math.round(Math.max(0, Math.min(10, quality + bias.get(reviewer)! + split + grades.uniform(-0.6, 0.6))) * 10) / 10;
         await knex('review_assignments').insert({
           proposal_id: id,
