@@ -5,6 +5,7 @@
  * reviewer's declared expertise.
  */
 import { z } from 'zod';
+import type { MemberRole } from '../proposals/proposal-schemas';
 import { idParam, idSchema, versionSchema } from '../http/ids';
 import { safeText } from '../http/text';
 import type { ProposalState } from '../proposals/proposal-states';
@@ -241,6 +242,12 @@ export interface TeamReviewer {
   proposalId: number;
   reviewer: { id: number; displayName: string; email: string } | null;
   namedAt: string | null;
+  /** The cycle's review mode: a team names its reviewer only in distributed review. */
+  reviewMode: ReviewMode;
+  reviewDeadline: string | null;
+  deadlinePassed: boolean;
+  /** The viewer's part in the team (only the PI may name the reviewer). */
+  myRole: MemberRole;
 }
 
 /** One row of GET /api/review/cycles/:cycleId/team-reviewers. */

@@ -449,3 +449,16 @@ describe('GET /api/review/me/panels', () => {
     expect((await manager.get('/api/review/me/panels')).status).toBe(403);
   });
 });
+
+describe('GET /api/review/proposals/:id/team-reviewer', () => {
+  it("tells the team the cycle's review mode, deadline and the viewer's part, so that only distributed review asks for a name", async () => {
+    const panelCycle = await newCycle();
+    const inPanel = await insertProposal(h, panelCycle.id);
+    const panelAnswer = (await (await inPanel.signIn()).get(`/api/review/proposals/${inPanel.id}/team-reviewer`)).body;
+    expect(panelAnswer).toMatchObject({ proposalId: inPanel.id, reviewer: null, reviewMode: 'panel', myRole: 'pi', deadlinePassed: false });
+    const distributed = await newCycle({ mode: 'distributed', reviewDeadline: new Date(Date.now() - 60_000) });
+    const late = await insertProposal(h, distributed.id);
+    const lateAnswer = (await (await late.signIn()).get(`/api/review/proposals/${late.id}/team-reviewer`)).body;
+    expect(lateAnswer).toMatchObject({ reviewMode: 'distributed', deadlinePassed: true, reviewDeadline: expect.any(String) });
+  });
+});

@@ -3,7 +3,7 @@ import { assignReviewers } from '@spincycle/shared/review/assignment';
 import type { DistributionResult, TeamReviewer, TeamReviewerInput, TeamReviewerRow } from '@spincycle/shared/review/panels';
 import type { AppContext } from '../../../app-context';
 import { AppError, invalidField } from '../../../http/app-error';
-import { accessProposal, requirePi } from '../../proposals/proposal-access';
+import { accessProposal, requirePi, type ProposalAccess } from '../../proposals/proposal-access';
 import { notifyAssigned } from './assignment-service';
 import { loadEligibility } from './eligibility';
 import {
@@ -29,21 +29,29 @@ function requireDistributed(cycle: CycleReview): void {
   }
 }
 
-async function teamReviewerOf(ctx: AppContext, proposalId: number): Promise<TeamReviewer> {
+async function teamReviewerOf(ctx: AppContext, access: ProposalAccess): Promise<TeamReviewer> {
+  const proposalId = access.proposal.id;
+  const cycle = await requireCycle(ctx.db, access.proposal.cycleId);
+  const context = {
+    reviewMode: cycle.reviewMode,
+    reviewDeadline: cycle.reviewDeadline,
+    deadlinePassed: !!cycle.reviewDeadline && ctx.now().getTime() >= Date.parse(cycle.reviewDeadline),
+    myRole: access.role,
+  };
   const [entry] = await teamReviewersOfProposals(ctx.db, [proposalId]);
-  if (!entry) return { proposalId, reviewer: null, namedAt: null };
+  if (!entry) return { proposalId, reviewer: null, namedAt: null, ...context };
   const [account] = await listReviewerAccounts(ctx.db, [entry.reviewerId]);
   return {
     proposalId,
     reviewer: account ? { id: account.id, displayName: account.displayName, email: account.email } : null,
     namedAt: entry.namedAt,
+    ...context,
   };
 }
 
 /** GET /api/review/proposals/:proposalId/team-reviewer (the team; 404 for everyone else). */
 export async function getTeamReviewer(ctx: AppContext, viewer: SessionUser, proposalId: number): Promise<TeamReviewer> {
-  await accessProposal(ctx.db, viewer, proposalId);
-  return teamReviewerOf(ctx, proposalId);
+  return teamReviewerOf(ctx, await accessProposal(ctx.db, viewer, proposalId));
 }
 
 /**
@@ -57,10 +65,10 @@ export async function putTeamReviewer(
   proposalId: number,
   input: TeamReviewerInput,
 ): Promise<TeamReviewer> {
-  await ctx.db.transaction(async (trx) => {
-    const access = await accessProposal(trx, viewer, proposalId, { forUpdate: true });
-    requirePi(access, 'name the team’s reviewer');
-    const cycle = await requireCycle(trx, access.proposal.cycleId);
+  const access = await ctx.db.transaction(async (trx) => {
+    const locked = await accessProposal(trx, viewer, proposalId, { forUpdate: true });
+    requirePi(locked, 'name the team’s reviewer');
+    const cycle = await requireCycle(trx, locked.proposal.cycleId);
     requireDistributed(cycle);
     if (cycle.reviewDeadline && ctx.now().getTime() >= Date.parse(cycle.reviewDeadline)) {
       throw new AppError('deadline_passed', 'The review deadline has passed; the team’s reviewer can no longer change', 409);
@@ -68,8 +76,9 @@ export async function putTeamReviewer(
     const reviewer = await findReviewerByEmail(trx, input.email);
     if (!reviewer) throw invalidField('email', 'no reviewer account has this e-mail address');
     await upsertTeamReviewer(trx, proposalId, reviewer.id, viewer.id);
+    return locked;
   });
-  return teamReviewerOf(ctx, proposalId);
+  return teamReviewerOf(ctx, access);
 }
 
 /**

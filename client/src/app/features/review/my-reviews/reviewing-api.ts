@@ -1,7 +1,7 @@
 import { HttpClient, httpResource } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import type { MyReviewRow, MyReviews, ReviewProposal, SaveReviewInput, SubmitReviewsResult } from '@spincycle/shared/review/reviewing';
-import type { MyPanel } from '@spincycle/shared/review/panels';
+import type { Expertise, ExpertiseInput, MyPanel } from '@spincycle/shared/review/panels';
 import { Observable } from 'rxjs';
 
 /** All HTTP of the reviewer's pages (/review/my). Resources must be created in an injection context. */
@@ -45,5 +45,15 @@ export class ReviewingApi {
   /** POST /api/review/my/:proposalId/conflict → the assignment is removed. */
   declareConflict(proposalId: number, reason: string): Observable<{ proposalId: number; declaredAt: string }> {
     return this.http.post<{ proposalId: number; declaredAt: string }>(`/api/review/my/${proposalId}/conflict`, { reason });
+  }
+
+  /** GET /api/review/me/expertise → the categories the reviewer declared, and every cycle's categories as suggestions. */
+  expertiseResource() {
+    return httpResource<Expertise>(() => '/api/review/me/expertise');
+  }
+
+  /** PUT /api/review/me/expertise → the stored list; 400 with `fieldErrors['expertise.<i>']` naming the bad entry. */
+  saveExpertise(input: ExpertiseInput): Observable<Expertise> {
+    return this.http.put<Expertise>('/api/review/me/expertise', input);
   }
 }

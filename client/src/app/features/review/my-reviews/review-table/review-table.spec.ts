@@ -28,17 +28,18 @@ describe('ReviewTable', () => {
     fixture = TestBed.createComponent(ReviewTable);
     TestBed.tick();
     backend.expectOne('/api/review/my').flush(body);
-    flushPanels(panels);
+    flushCards(panels);
     await fixture.whenStable();
   }
 
-  /** The "Your panels" list above the table: none unless a test gives some. */
-  function flushPanels(panels: unknown[] = []): void {
+  /** The cards above the table: "Your panels" (none unless a test gives some) and "Your expertise" (none listed). */
+  function flushCards(panels: unknown[] = []): void {
     for (const req of backend.match('/api/review/me/panels')) req.flush(panels);
+    for (const req of backend.match('/api/review/me/expertise')) req.flush({ expertise: [], suggestions: [] });
   }
 
   afterEach(() => {
-    flushPanels();
+    flushCards();
     backend.verify();
     jest.useRealTimers();
   });
@@ -68,7 +69,7 @@ describe('ReviewTable', () => {
     fixture.detectChanges();
     expect(el().querySelector('mat-progress-bar')).not.toBeNull();
     backend.expectOne('/api/review/my').flush(MY_REVIEWS);
-    flushPanels();
+    flushCards();
     await fixture.whenStable();
     expect(el().querySelector('mat-progress-bar')).toBeNull();
     const rows = el().querySelectorAll('tr.mat-mdc-row');
@@ -138,7 +139,7 @@ describe('ReviewTable', () => {
     fixture = TestBed.createComponent(ReviewTable);
     TestBed.tick();
     backend.expectOne('/api/review/my').flush({ code: 'x', message: 'Database down.' }, { status: 503, statusText: 'Unavailable' });
-    flushPanels();
+    flushCards();
     await fixture.whenStable();
     expect(el().querySelector('[role=alert]')?.textContent).toContain('Your assigned proposals could not be loaded.');
   });
@@ -247,7 +248,7 @@ describe('ReviewTable', () => {
     await new Promise((resolve) => setTimeout(resolve, 50));
     TestBed.tick();
     backend.expectOne('/api/review/my').flush({ ...MY_REVIEWS, reviews: MY_REVIEWS.reviews.slice(1) });
-    flushPanels();
+    flushCards();
     await fixture.whenStable();
     expect(el().querySelector('[data-testid=notice]')?.textContent).toContain('Conflict declared');
     expect(el().querySelectorAll('tr.mat-mdc-row')).toHaveLength(2);

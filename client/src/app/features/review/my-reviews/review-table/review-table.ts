@@ -28,6 +28,7 @@ import { LoadStatus } from '../../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../../ui/table/sort-rows';
 import { UtcInstantPipe } from '../../../../ui/time/date-pipes';
 import { ConflictDialog, ConflictDialogData } from '../conflict-dialog/conflict-dialog';
+import { ExpertiseCard } from '../expertise/expertise-card';
 import { MyPanels } from '../my-panels/my-panels';
 import { parseGrade, ReviewSaver } from '../review-saver';
 import { ReviewingApi } from '../reviewing-api';
@@ -61,6 +62,7 @@ function rowValue(r: MyReviewRow, column: string): SortValue {
   selector: 'app-review-table',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
+    ExpertiseCard,
     LoadStatus,
     MyPanels,
     MatButton,
