@@ -55,9 +55,9 @@ describe('AppShell', () => {
     expect(Array.from(host.querySelectorAll('a')).some((a) => a.textContent?.trim() === 'Sign in')).toBe(true);
   });
 
-  it('reviewer: Home, Target planner, Network and Methods only', async () => {
+  it('reviewer: Home, My reviews, Target planner, Network and Methods only', async () => {
     await seedSession(testUser(['reviewer']));
-    expect(navLabels(await render())).toEqual(['Home', 'Target planner', 'Network', 'Methods']);
+    expect(navLabels(await render())).toEqual(['Home', 'My reviews', 'Target planner', 'Network', 'Methods']);
   });
 
   it('administrator: Accounts appears', async () => {

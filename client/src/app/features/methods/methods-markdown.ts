@@ -9,5 +9,7 @@ const parser = new Marked({ gfm: true, breaks: false, async: false });
  * unchanged, so `/methods#completeness` finds its section.
  */
 export function renderMethodsMarkdown(markdown: string): string {
-  return parser.parse(forReaders(markdown), { async: false });
+  // A wide table scrolls sideways on a phone (see the page's styles): focusable, so that a
+  // keyboard can scroll it too.
+  return parser.parse(forReaders(markdown), { async: false }).replace(/<table>/g, '<table tabindex="0">');
 }

@@ -2,7 +2,10 @@
 
 const SHORT_DATE = new Map<string, Intl.DateTimeFormat>();
 
-/** `2026-03-04` → `4 Mar` (or the locale's order); the date is a calendar date, no time zone. */
+/**
+ * `2026-03-04` → `4 Mar` (`4 Mar 2026` with the year): the product's one date format (see
+ * ui/time/date-format), whatever order the locale would give; a calendar date, no time zone.
+ */
 export function formatNightDate(nightDate: string, locale: string, withYear = false): string {
   const key = `${locale}|${withYear}`;
   let format = SHORT_DATE.get(key);
@@ -11,7 +14,11 @@ export function formatNightDate(nightDate: string, locale: string, withYear = fa
     SHORT_DATE.set(key, format);
   }
   const ms = Date.parse(`${nightDate}T00:00:00Z`);
-  return Number.isFinite(ms) ? format.format(ms) : nightDate;
+  if (!Number.isFinite(ms)) return nightDate;
+  const parts = format.formatToParts(ms);
+  const part = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? '';
+  const dayMonth = `${part('day')} ${part('month').replace(/\.$/, '')}`;
+  return withYear ? `${dayMonth} ${part('year')}` : dayMonth;
 }
 
 /**
