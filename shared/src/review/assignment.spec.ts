@@ -1,5 +1,12 @@
 import fc from 'fast-check';
-import { assignReviewers, expertiseMatches, ineligibleReason, normalizeAffiliation, type AssignmentProblem } from './assignment';
+import {
+  assignReviewers,
+  expertiseMatcher,
+  expertiseMatches,
+  ineligibleReason,
+  normalizeAffiliation,
+  type AssignmentProblem,
+} from './assignment';
 
 /** A random problem: P proposals, R reviewers, a random ineligibility matrix, some fixed pairs. */
 const problemArb = fc
@@ -228,5 +235,15 @@ describe('ineligibleReason', () => {
   it('expertiseMatches compares names case-insensitively; no category never matches', () => {
     expect(expertiseMatches('Open clusters', ['open clusters'])).toBe(true);
     expect(expertiseMatches(null, ['open clusters'])).toBe(false);
+  });
+  it('expertiseMatcher answers as expertiseMatches for every category (worked by hand in this test)', () => {
+    const expertise = [' Open Clusters', 'methods ', '  '];
+    const matches = expertiseMatcher(expertise);
+    for (const category of ['open clusters', 'OPEN CLUSTERS  ', 'Methods', 'Field stars', '', '   ', null]) {
+      expect(matches(category)).toBe(expertiseMatches(category, expertise));
+    }
+    expect(matches('methods')).toBe(true);
+    expect(matches('Field stars')).toBe(false);
+    expect(expertiseMatcher([])('Methods')).toBe(false);
   });
 });

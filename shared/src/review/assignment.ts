@@ -51,11 +51,25 @@ export interface AssignmentReviewer {
   id: number;
 }
 
+/** The form in which a category and an expertise entry compare (exact name, case-insensitive). */
+export function normalizeCategory(name: string): string {
+  return name.trim().toLowerCase();
+}
+
 /** Whether a reviewer's declared expertise contains the proposal's category (exact name, case-insensitive). */
 export function expertiseMatches(category: string | null, expertise: readonly string[]): boolean {
   if (!category) return false;
-  const c = category.trim().toLowerCase();
-  return expertise.some((e) => e.trim().toLowerCase() === c);
+  const c = normalizeCategory(category);
+  return expertise.some((e) => normalizeCategory(e) === c);
+}
+
+/**
+ * {@link expertiseMatches} for many proposals against one reviewer: the reviewer's expertise
+ * normalized once. `matches(category)` answers as `expertiseMatches(category, expertise)` does.
+ */
+export function expertiseMatcher(expertise: readonly string[]): (category: string | null) => boolean {
+  const names = new Set(expertise.map(normalizeCategory));
+  return (category) => !!category && names.has(normalizeCategory(category));
 }
 
 export interface AssignmentProblem {

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
-import { assignReviewers, expertiseMatches } from '@spincycle/shared/review/assignment';
+import { assignReviewers, expertiseMatcher, expertiseMatches } from '@spincycle/shared/review/assignment';
 import type {
   AssignmentInfeasibleDetails,
   AssignmentMatrix,
@@ -12,12 +12,13 @@ import type {
 import type { AppContext } from '../../../app-context';
 import { AppError } from '../../../http/app-error';
 import { formatUtc } from '../../cycles/cycle-service';
-import { loadEligibility } from './eligibility';
+import { loadEligibility, refusalOf } from './eligibility';
 import {
   assignmentsOfPanel,
   deleteAssignments,
-  findCycleReview,
   insertAssignments,
+  parseMatrixSource,
+  readMatrixSource,
   listProposalsOfPanel,
   listReviewerAccounts,
   markNotified,
@@ -25,7 +26,9 @@ import {
   setAssignmentSource,
   touchPanel,
   type CycleReview,
+  type MatrixSource,
 } from './panel-repository';
+import type { MatrixBody, MatrixCache } from './matrix-cache';
 import { requireCycle, requirePanel, requireUnlocked } from './panel-service';
 
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -36,33 +39,48 @@ async function membersOf(db: Knex, panelId: number): Promise<ReviewerAccount[]> 
   return listReviewerAccounts(db, ids);
 }
 
-/** GET /api/review/panels/:panelId/matrix (facility managers). */
-export async function getMatrix(ctx: AppContext, panelId: number, db: Knex = ctx.db): Promise<AssignmentMatrix> {
-  const panel = await requirePanel(db, panelId);
-  const cycle = (await findCycleReview(db, panel.cycleId))!;
-  const reviewers = await membersOf(db, panelId);
-  const proposals = await listProposalsOfPanel(db, panelId);
-  const assignments = await assignmentsOfPanel(db, panelId);
-  const eligibility = await loadEligibility(
-    db,
-    proposals.map((p) => p.id),
-    reviewers,
-  );
-  const byPair = new Map(assignments.map((a) => [`${a.proposalId}:${a.reviewerId}`, a]));
-  const loads = new Map<number, number>();
-  for (const a of assignments) loads.set(a.reviewerId, (loads.get(a.reviewerId) ?? 0) + 1);
-  const memberLoads = reviewers.map((r) => loads.get(r.id) ?? 0);
+/** The cells of assigned pairs, one read-only object per combination (no object per cell). */
+const ASSIGNED_CELLS = new Map<string, MatrixCell>(
+  (['manual', 'automatic', 'team'] as const).flatMap((source) =>
+    [false, true].flatMap((graded) =>
+      [false, true].map((expertiseMatch): [string, MatrixCell] => [
+        `${source}:${graded}:${expertiseMatch}`,
+        Object.freeze({ state: 'assigned', source, graded, expertiseMatch }),
+      ]),
+    ),
+  ),
+);
+const FREE_CELLS: Record<'true' | 'false', MatrixCell> = {
+  true: Object.freeze({ state: 'free', expertiseMatch: true }),
+  false: Object.freeze({ state: 'free', expertiseMatch: false }),
+};
+
+/** The panel's matrix from its source texts (404 `panel_not_found` when there is no such panel). */
+function buildMatrix(panelId: number, source: MatrixSource): AssignmentMatrix {
+  const found = parseMatrixSource(source);
+  if (!found) throw new AppError('panel_not_found', `No panel ${panelId}`, 404);
+  const { reviewers, proposals } = found;
+  const { panel } = found;
+  const column = new Map(reviewers.map((r, i) => [r.id, i]));
+  const matchers = reviewers.map((r) => expertiseMatcher(r.expertise));
+  const memberLoads = reviewers.map(() => 0);
+  for (const p of proposals) {
+    for (const a of p.assignments) {
+      const i = column.get(a.reviewerId);
+      if (i !== undefined) memberLoads[i]++;
+    }
+  }
   return {
     panel: {
       id: panel.id,
       name: panel.name,
-      cycleId: cycle.id,
-      cycleCode: cycle.code,
+      cycleId: panel.cycleId,
+      cycleCode: found.cycleCode,
       version: panel.version,
       standingLocked: panel.standingLocked,
     },
-    reviewersPerProposal: cycle.reviewersPerProposal,
-    reviewDeadline: cycle.reviewDeadline,
+    reviewersPerProposal: found.reviewersPerProposal,
+    reviewDeadline: found.reviewDeadline,
     reviewers: reviewers.map((r, i) => ({
       id: r.id,
       displayName: r.displayName,
@@ -71,23 +89,50 @@ export async function getMatrix(ctx: AppContext, panelId: number, db: Knex = ctx
       chair: r.id === panel.chairId,
       load: memberLoads[i],
     })),
-    proposals: proposals.map((p) => ({
-      id: p.id,
-      title: p.title,
-      category: p.category,
-      state: p.state,
-      piName: p.piName,
-      count: assignments.filter((a) => a.proposalId === p.id).length,
-      notDiscussed: p.notDiscussed,
-      cells: reviewers.map((r): MatrixCell => {
-        const a = byPair.get(`${p.id}:${r.id}`);
-        const match = expertiseMatches(p.category, r.expertise);
-        if (a) return { state: 'assigned', source: a.source, graded: a.graded, expertiseMatch: match };
-        return eligibility.refusal(p.id, r.id) ?? { state: 'free', expertiseMatch: match };
-      }),
-    })),
+    proposals: proposals.map((p) => {
+      const cells: (MatrixCell | undefined)[] = new Array(reviewers.length);
+      for (const a of p.assignments) {
+        const i = column.get(a.reviewerId);
+        if (i !== undefined && cells[i] === undefined) cells[i] = ASSIGNED_CELLS.get(`${a.source}:${a.graded}:${matchers[i](p.category)}`);
+      }
+      for (let i = 0; i < reviewers.length; i++) {
+        if (cells[i] !== undefined) continue;
+        const conflict = p.conflicts.find((c) => c.reviewerId === reviewers[i].id);
+        cells[i] = refusalOf(reviewers[i], p.team, conflict?.reason) ?? FREE_CELLS[`${matchers[i](p.category)}`];
+      }
+      return {
+        id: p.id,
+        title: p.title,
+        category: p.category,
+        state: p.state,
+        piName: p.piName,
+        count: p.assignments.length,
+        notDiscussed: p.notDiscussed,
+        cells: cells as MatrixCell[],
+      };
+    }),
     loadRange: { lowest: memberLoads.length ? Math.min(...memberLoads) : 0, highest: memberLoads.length ? Math.max(...memberLoads) : 0 },
   };
+}
+
+/**
+ * The matrix of a panel (the answer of GET …/matrix, and of the assignment writes). One read of
+ * everything it shows (readMatrixSource: the panel with its cycle, its members, its proposals
+ * each with its assignments, conflicts and team, aggregated in SQL); then each cell from maps
+ * (the shared eligibility rule per free pair, the expertise of each member normalized once).
+ */
+export async function getMatrix(ctx: AppContext, panelId: number, db: Knex = ctx.db): Promise<AssignmentMatrix> {
+  return buildMatrix(panelId, await readMatrixSource(db, panelId));
+}
+
+/**
+ * GET /api/review/panels/:panelId/matrix (facility managers) as JSON bytes with their ETag: the
+ * source is read on every request, and the answer built from an equal source is sent again
+ * from `cache` without building it (see matrix-cache.ts).
+ */
+export async function getMatrixBody(ctx: AppContext, panelId: number, cache: MatrixCache): Promise<MatrixBody> {
+  const source = await readMatrixSource(ctx.db, panelId);
+  return cache.get(panelId, source, () => JSON.stringify(buildMatrix(panelId, source)));
 }
 
 /**

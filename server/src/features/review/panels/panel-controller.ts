@@ -14,7 +14,8 @@ import {
   teamReviewerSchema,
 } from '@spincycle/shared/review/panels';
 import type { AppContext } from '../../../app-context';
-import { assignAutomatically, getMatrix, toggleAssignment } from './assignment-service';
+import { assignAutomatically, getMatrixBody, toggleAssignment } from './assignment-service';
+import { MatrixCache } from './matrix-cache';
 import {
   createPanel,
   deletePanel,
@@ -43,6 +44,8 @@ const deleteQuerySchema = z.object({
 
 /** Handlers of the panels sub-feature: parse, call the service, choose the status. */
 export function createPanelController(ctx: AppContext) {
+  /** The last matrix answer of each panel with what it was built from (see matrix-cache.ts). */
+  const matrices = new MatrixCache();
   return {
     async reviewers(_req: Request, res: Response) {
       res.json(await listReviewers(ctx));
@@ -87,7 +90,9 @@ export function createPanelController(ctx: AppContext) {
     },
     async matrix(req: Request, res: Response) {
       const { panelId } = panelParamsSchema.parse(req.params);
-      res.json(await getMatrix(ctx, panelId));
+      const matrix = await getMatrixBody(ctx, panelId, matrices);
+      // With its ETag set, send answers 304 to a request that already holds this answer.
+      res.set('ETag', matrix.etag).type('application/json').send(matrix.body);
     },
     async toggle(req: Request, res: Response) {
       const { panelId } = panelParamsSchema.parse(req.params);

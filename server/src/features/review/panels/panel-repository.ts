@@ -512,3 +512,125 @@ export async function panelsOfAccount(
       db.raw("(SELECT count(*)::int FROM proposals pr WHERE pr.panel_id = p.id AND pr.state <> 'draft') AS proposals"),
     );
 }
+
+/* ---------- the assignment matrix ---------- */
+
+/**
+ * Everything the assignment matrix shows, read in one query as three JSON texts: the panel
+ * with its cycle's settings (null when there is no such panel); its members who are enabled
+ * reviewers, by name (as listReviewerAccounts orders them); its proposals by title, each with
+ * every assignment (members or not), declared conflict and team member row (active or invited,
+ * with the account's affiliation), in compact arrays. The answer is a function of these texts
+ * alone, so an unchanged text is an unchanged answer.
+ */
+export interface MatrixSource {
+  panel: string | null;
+  reviewers: string;
+  proposals: string;
+}
+
+export async function readMatrixSource(db: Knex, panelId: number): Promise<MatrixSource> {
+  const { rows } = await db.raw<{ rows: MatrixSource[] }>(
+    `SELECT
+       (SELECT row_to_json(x)::text FROM (
+          SELECT p.id, p.cycle_id, p.name, p.chair_account_id, p.standing_locked_at IS NOT NULL AS standing_locked, p.version,
+                 c.code AS cycle_code, c.reviewers_per_proposal, c.review_deadline
+            FROM panels p JOIN cycles c ON c.id = p.cycle_id
+           WHERE p.id = :panelId) x) AS panel,
+       (SELECT coalesce(json_agg(json_build_array(a.id, a.display_name, a.email, a.affiliation, a.expertise)
+                                 ORDER BY a.display_name, a.id), '[]')::text
+          FROM panel_members m JOIN accounts a ON a.id = m.account_id
+         WHERE m.panel_id = :panelId AND a.disabled_at IS NULL
+           AND EXISTS (SELECT 1 FROM account_roles r WHERE r.account_id = a.id AND r.role = 'reviewer')) AS reviewers,
+       (SELECT coalesce(json_agg(json_build_array(
+                 p.id, p.title, p.category, p.state, pi.display_name, p.not_discussed,
+                 (SELECT coalesce(json_agg(json_build_array(ra.reviewer_account_id, ra.source, ra.grade IS NOT NULL) ORDER BY ra.id), '[]')
+                    FROM review_assignments ra WHERE ra.proposal_id = p.id),
+                 (SELECT coalesce(json_agg(json_build_array(rc.reviewer_account_id, rc.reason) ORDER BY rc.reviewer_account_id), '[]')
+                    FROM review_conflicts rc WHERE rc.proposal_id = p.id),
+                 (SELECT coalesce(json_agg(json_build_array(tm.account_id, tm.email, tm.accepted_at IS NOT NULL, ta.affiliation) ORDER BY tm.id), '[]')
+                    FROM proposal_members tm LEFT JOIN accounts ta ON ta.id = tm.account_id WHERE tm.proposal_id = p.id))
+               ORDER BY p.title, p.id), '[]')::text
+          FROM proposals p JOIN accounts pi ON pi.id = p.pi_account_id
+         WHERE p.panel_id = :panelId) AS proposals`,
+    { panelId },
+  );
+  return rows[0];
+}
+
+/** One proposal of the matrix with its assignments, declared conflicts and team. */
+export interface MatrixProposalRow {
+  id: number;
+  title: string;
+  category: string | null;
+  state: ProposalState;
+  piName: string;
+  notDiscussed: boolean;
+  assignments: { reviewerId: number; source: AssignmentSource; graded: boolean }[];
+  conflicts: { reviewerId: number; reason: string }[];
+  team: Omit<TeamMemberRow, 'proposalId'>[];
+}
+
+/** The matrix's inputs as objects (parsed from {@link readMatrixSource}'s texts); undefined without the panel. */
+export function parseMatrixSource(source: MatrixSource):
+  | {
+      panel: Omit<StoredPanel, 'updatedAt'>;
+      cycleCode: string;
+      reviewersPerProposal: number;
+      reviewDeadline: string | null;
+      reviewers: ReviewerAccount[];
+      proposals: MatrixProposalRow[];
+    }
+  | undefined {
+  if (source.panel === null) return undefined;
+  const p = JSON.parse(source.panel) as {
+    id: number;
+    cycle_id: number;
+    name: string;
+    chair_account_id: number | null;
+    standing_locked: boolean;
+    version: number;
+    cycle_code: string;
+    reviewers_per_proposal: number;
+    review_deadline: string | null;
+  };
+  const reviewers = JSON.parse(source.reviewers) as [number, string, string, string | null, string[]][];
+  const proposals = JSON.parse(source.proposals) as [
+    number,
+    string,
+    string | null,
+    ProposalState,
+    string,
+    boolean,
+    [number, AssignmentSource, boolean][],
+    [number, string][],
+    [number | null, string, boolean, string | null][],
+  ][];
+  return {
+    panel: {
+      id: p.id,
+      cycleId: p.cycle_id,
+      name: p.name,
+      chairId: p.chair_account_id,
+      standingLocked: p.standing_locked,
+      version: p.version,
+    },
+    cycleCode: p.cycle_code,
+    reviewersPerProposal: p.reviewers_per_proposal,
+    reviewDeadline: p.review_deadline === null ? null : new Date(p.review_deadline).toISOString(),
+    reviewers: reviewers.map(([id, displayName, email, affiliation, expertise]) =>
+      toReviewerAccount({ id, display_name: displayName, email, affiliation, expertise }),
+    ),
+    proposals: proposals.map(([id, title, category, state, piName, notDiscussed, assignments, conflicts, team]) => ({
+      id,
+      title,
+      category,
+      state,
+      piName,
+      notDiscussed,
+      assignments: assignments.map(([reviewerId, source, graded]) => ({ reviewerId, source, graded })),
+      conflicts: conflicts.map(([reviewerId, reason]) => ({ reviewerId, reason })),
+      team: team.map(([accountId, email, active, affiliation]) => ({ accountId, email, active, affiliation })),
+    })),
+  };
+}

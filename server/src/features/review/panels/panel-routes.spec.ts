@@ -338,6 +338,52 @@ describe('matrix', () => {
   });
 });
 
+describe('the matrix kept by the web process', () => {
+  it('sends a kept answer again only while nothing it shows changed: grades, assignments, conflicts, teams and members show at once', async () => {
+    const cycle = await newCycle();
+    const a = await insertReviewer(h, { expertise: ['Open clusters'] });
+    const b = await insertReviewer(h);
+    const p = await insertProposal(h, cycle.id, { title: 'Kept matrix proposal' });
+    const panel = await createPanel(cycle.id, [a.id, b.id]);
+    await manager.put(`/api/review/panels/${panel.id}/proposals`, { proposalIds: [p.id] });
+    const url = `/api/review/panels/${panel.id}/matrix`;
+    const cells = async () => (await matrixOf(panel.id)).proposals[0].cells;
+    const column = (m: AssignmentMatrix, id: number) => m.reviewers.findIndex((r) => r.id === id);
+
+    const first = await manager.get(url);
+    const again = await manager.get(url);
+    expect(again.headers.etag).toBe(first.headers.etag);
+    expect(again.body).toEqual(first.body);
+    expect((await manager.get(url).set('If-None-Match', first.headers.etag)).status).toBe(304);
+    const m0 = first.body as AssignmentMatrix;
+    expect(m0.proposals[0].cells[column(m0, a.id)]).toEqual({ state: 'free', expertiseMatch: true });
+
+    // An assignment by hand, then a grade written by the reviewer (not through the manager's routes).
+    expect(
+      (await manager.put(`/api/review/panels/${panel.id}/assignments`, { proposalId: p.id, reviewerId: a.id, assigned: true })).status,
+    ).toBe(200);
+    expect((await cells())[column(m0, a.id)]).toEqual({ state: 'assigned', source: 'manual', graded: false, expertiseMatch: true });
+    await gradeAssignment(h, p.id, a.id, 6.4);
+    const graded = await manager.get(url);
+    expect(graded.headers.etag).not.toBe(first.headers.etag);
+    expect((graded.body as AssignmentMatrix).proposals[0].cells[column(m0, a.id)]).toMatchObject({ graded: true });
+
+    // A conflict declared, a reviewer joining the team, a member's affiliation, a member losing the role.
+    await db()('review_conflicts').insert({ proposal_id: p.id, reviewer_account_id: b.id, reason: 'Shared an office with the PI' });
+    expect((await cells())[column(m0, b.id)]).toEqual({ state: 'conflict', reason: 'Shared an office with the PI' });
+    await db()('review_conflicts').where({ proposal_id: p.id, reviewer_account_id: b.id }).del();
+    expect((await cells())[column(m0, b.id)]).toEqual({ state: 'free', expertiseMatch: false });
+    await db()('accounts').whereIn('id', [b.id, p.pi.id]).update({ affiliation: 'Kept Matrix Institute' });
+    expect((await cells())[column(m0, b.id)]).toMatchObject({ state: 'ineligible', reason: 'same_affiliation' });
+    await db()('proposal_members').insert({ proposal_id: p.id, account_id: b.id, email: b.email, role: 'coi', accepted_at: null });
+    expect((await cells())[column(m0, b.id)]).toMatchObject({ state: 'ineligible', reason: 'team_member' });
+    await db()('account_roles').where({ account_id: b.id, role: 'reviewer' }).del();
+    const left = await matrixOf(panel.id);
+    expect(left.reviewers.map((r) => r.id)).toEqual([a.id]);
+    expect(left.proposals[0].cells).toHaveLength(1);
+  });
+});
+
 describe('distributed review', () => {
   it('the PI names a reviewer (co-I 403, outsider 404), the manager distributes k each, late teams are set aside', async () => {
     const cycle = await newCycle({ mode: 'distributed', k: 1 });

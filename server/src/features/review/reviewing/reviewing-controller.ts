@@ -7,18 +7,21 @@ import {
   submitReviewsSchema,
 } from '@spincycle/shared/review/reviewing';
 import type { AppContext } from '../../../app-context';
+import { AssessmentCache } from './assessment-cache';
 import { declareConflict, getReviewJustification, getReviewProposal, listMyReviews, saveReview, submitReviews } from './reviewing-service';
 
 /** Handlers of /api/review/my… (the reviewer's own reviews). */
 export function createReviewingController(ctx: AppContext) {
+  /** Technical assessments computed once per version of a proposal's plans (see assessment-cache.ts). */
+  const assessments = new AssessmentCache();
   return {
     async list(req: Request, res: Response) {
       const { cycleId } = myReviewsQuerySchema.parse(req.query);
-      res.json(await listMyReviews(ctx, req.user!, cycleId));
+      res.json(await listMyReviews(ctx, req.user!, cycleId, assessments));
     },
     async get(req: Request, res: Response) {
       const { proposalId } = reviewProposalParamsSchema.parse(req.params);
-      res.json(await getReviewProposal(ctx, req.user!, proposalId));
+      res.json(await getReviewProposal(ctx, req.user!, proposalId, assessments));
     },
     async justification(req: Request, res: Response) {
       const { proposalId } = reviewProposalParamsSchema.parse(req.params);

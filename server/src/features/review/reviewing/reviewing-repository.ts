@@ -31,6 +31,11 @@ export interface StoredAssignment {
   version: number;
   /** Null in an anonymous cycle (the query never reads the team there). */
   team: ReviewTeam | null;
+  /**
+   * `inputs_version:plans_version` of the proposal's plan run row: they change with anything
+   * the technical assessment reads (see assessment-cache.ts); null without a plan run row.
+   */
+  planVersions: string | null;
 }
 
 interface AssignmentRow {
@@ -55,6 +60,7 @@ interface AssignmentRow {
   submitted_at: Date | null;
   version: number;
   team: { piName: string; affiliations: string[] | null } | null;
+  plan_versions: string | null;
 }
 
 function toAssignment(r: AssignmentRow): StoredAssignment {
@@ -81,6 +87,7 @@ function toAssignment(r: AssignmentRow): StoredAssignment {
     version: r.version,
     // Anonymity is decided in SQL as well (the CASE below); this keeps a stray team out regardless.
     team: r.anonymous_review || !r.team ? null : { piName: r.team.piName, affiliations: r.team.affiliations ?? [] },
+    planVersions: r.plan_versions,
   };
 }
 
@@ -96,6 +103,7 @@ function assignmentsQuery(db: Knex, reviewerId: number, options: { withAbstract?
   return db('review_assignments as ra')
     .join('proposals as p', 'p.id', 'ra.proposal_id')
     .join('cycles as c', 'c.id', 'p.cycle_id')
+    .leftJoin('plan_runs as pr', 'pr.proposal_id', 'p.id')
     .where('ra.reviewer_account_id', reviewerId)
     .whereNot('p.state', 'draft')
     .whereNotExists(
@@ -127,6 +135,7 @@ function assignmentsQuery(db: Knex, reviewerId: number, options: { withAbstract?
       'ra.saved_at',
       'ra.submitted_at',
       'ra.version',
+      db.raw(`CASE WHEN pr.proposal_id IS NULL THEN NULL ELSE pr.inputs_version || ':' || pr.plans_version END AS plan_versions`),
       db.raw(`CASE WHEN c.anonymous_review THEN NULL ELSE json_build_object(
           'piName', (SELECT a.display_name FROM accounts a WHERE a.id = p.pi_account_id),
           'affiliations', (SELECT array_agg(DISTINCT btrim(a.affiliation) ORDER BY btrim(a.affiliation))
@@ -162,85 +171,67 @@ export async function lockAssignmentsOfCycle(db: Knex, reviewerId: number, cycle
   return rows.map(toAssignment);
 }
 
+/** What the technical assessment reads of one proposal. */
+export interface AssessmentInputs {
+  targets: { id: number; name: string }[];
+  plans: AssessedPlan[];
+}
+
 /**
  * What the technical assessment reads of the proposals' plans, one query for any number of
  * proposals: every target (with or without a plan), and the plans on requested nodes with the
  * few numbers the assessment needs picked out of the stored summary in SQL (not the ~4 kB
- * summaries themselves). Infeasible plans bring their reasons; feasible ones have none.
+ * summaries themselves). Each summary is decompressed once (`jsonb_to_record` takes every
+ * number in one pass, where one `->>` per number would decompress it for each); the flag codes
+ * and reasons come as JSON. Infeasible plans bring their reasons; feasible ones have none.
  */
-export async function listAssessmentInputs(
-  db: Knex,
-  proposalIds: number[],
-): Promise<Map<number, { targets: { id: number; name: string }[]; plans: AssessedPlan[] }>> {
-  const out = new Map<number, { targets: { id: number; name: string }[]; plans: AssessedPlan[] }>();
+export async function listAssessmentInputs(db: Knex, proposalIds: number[]): Promise<Map<number, AssessmentInputs>> {
+  const out = new Map<number, AssessmentInputs>();
   for (const id of proposalIds) out.set(id, { targets: [], plans: [] });
   if (!proposalIds.length) return out;
-  const rows: {
-    proposal_id: number;
-    target_id: number;
-    target_name: string;
-    node_id: number | null;
-    node_code: string | null;
-    feasible: boolean | null;
-    node_hours: number | null;
-    amplitude_ppm: number | null;
-    precision_ppm: number | null;
-    longest_period_days: number | null;
-    baseline_days: number | null;
-    cadence_days: number | null;
-    usable_nights: number | null;
-    completeness: number | null;
-    flag_codes: string[] | null;
-    reasons: string[] | null;
-  }[] = await db('targets as t')
-    .leftJoin(
-      db('target_plans as tp')
-        .join('proposal_nodes as pn', function () {
-          this.on('pn.proposal_id', 'tp.proposal_id').andOn('pn.node_id', 'tp.node_id');
-        })
-        .join('nodes as n', 'n.id', 'tp.node_id')
-        .whereIn('tp.proposal_id', proposalIds)
-        .whereNotNull('tp.summary')
-        .select(
-          'tp.target_id',
-          'tp.node_id',
-          'n.code as node_code',
-          'tp.feasible',
-          db.raw('tp.node_hours::float8 AS node_hours'),
-          db.raw("(tp.summary->>'amplitudePpm')::float8 AS amplitude_ppm"),
-          db.raw("(tp.summary->>'perVisitPrecisionPpm')::float8 AS precision_ppm"),
-          db.raw("(tp.summary->>'longestPeriodDays')::float8 AS longest_period_days"),
-          db.raw("(tp.summary->>'baselineDays')::float8 AS baseline_days"),
-          db.raw("(tp.summary->>'cadenceDays')::float8 AS cadence_days"),
-          db.raw("(tp.summary->>'usableNights')::float8 AS usable_nights"),
-          db.raw("(tp.summary->>'completeness')::float8 AS completeness"),
-          db.raw("ARRAY(SELECT jsonb_array_elements(tp.summary->'flags')->>'code') AS flag_codes"),
-          db.raw("CASE WHEN tp.feasible THEN NULL ELSE ARRAY(SELECT jsonb_array_elements_text(tp.summary->'reasons')) END AS reasons"),
-        )
-        .as('x'),
-      'x.target_id',
-      't.id',
-    )
-    .whereIn('t.proposal_id', proposalIds)
-    .orderBy([{ column: 't.proposal_id' }, { column: 't.position' }, { column: 't.id' }, { column: 'x.node_code' }])
-    .select(
-      't.proposal_id',
-      't.id as target_id',
-      't.name as target_name',
-      'x.node_id',
-      'x.node_code',
-      'x.feasible',
-      'x.node_hours',
-      'x.amplitude_ppm',
-      'x.precision_ppm',
-      'x.longest_period_days',
-      'x.baseline_days',
-      'x.cadence_days',
-      'x.usable_nights',
-      'x.completeness',
-      'x.flag_codes',
-      'x.reasons',
-    );
+  const { rows } = await db.raw<{
+    rows: {
+      proposal_id: number;
+      target_id: number;
+      target_name: string;
+      node_id: number | null;
+      node_code: string | null;
+      feasible: boolean | null;
+      node_hours: number | null;
+      amplitude_ppm: number | null;
+      precision_ppm: number | null;
+      longest_period_days: number | null;
+      baseline_days: number | null;
+      cadence_days: number | null;
+      usable_nights: number | null;
+      completeness: number | null;
+      flag_codes: string[] | null;
+      reasons: string[] | null;
+    }[];
+  }>(
+    `SELECT t.proposal_id, t.id AS target_id, t.name AS target_name, x.node_id, x.node_code, x.feasible, x.node_hours,
+            x.amplitude_ppm, x.precision_ppm, x.longest_period_days, x.baseline_days, x.cadence_days, x.usable_nights,
+            x.completeness, x.flag_codes, x.reasons
+       FROM targets t
+       LEFT JOIN (
+         SELECT tp.target_id, tp.node_id, n.code AS node_code, tp.feasible, tp.node_hours::float8 AS node_hours,
+                s."amplitudePpm" AS amplitude_ppm, s."perVisitPrecisionPpm" AS precision_ppm,
+                s."longestPeriodDays" AS longest_period_days, s."baselineDays" AS baseline_days,
+                s."cadenceDays" AS cadence_days, s."usableNights" AS usable_nights, s.completeness,
+                (SELECT jsonb_agg(f->'code') FROM jsonb_array_elements(s.flags) f) AS flag_codes,
+                CASE WHEN tp.feasible THEN NULL ELSE s.reasons END AS reasons
+           FROM target_plans tp
+           JOIN proposal_nodes pn ON pn.proposal_id = tp.proposal_id AND pn.node_id = tp.node_id
+           JOIN nodes n ON n.id = tp.node_id
+           CROSS JOIN LATERAL jsonb_to_record(tp.summary) AS s(
+             "amplitudePpm" float8, "perVisitPrecisionPpm" float8, "longestPeriodDays" float8, "baselineDays" float8,
+             "cadenceDays" float8, "usableNights" float8, completeness float8, flags jsonb, reasons jsonb)
+          WHERE tp.proposal_id = ANY(?::int[]) AND tp.summary IS NOT NULL
+       ) x ON x.target_id = t.id
+      WHERE t.proposal_id = ANY(?::int[])
+      ORDER BY t.proposal_id, t.position, t.id, x.node_code`,
+    [proposalIds, proposalIds],
+  );
   for (const r of rows) {
     const entry = out.get(r.proposal_id)!;
     const last = entry.targets[entry.targets.length - 1];

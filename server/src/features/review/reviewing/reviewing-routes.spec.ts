@@ -1,6 +1,7 @@
 import type { MyReviewRow, MyReviews, ReviewProposal } from '@spincycle/shared/review/reviewing';
 import { createAccount, signedIn, type Harness, startHarness, Browser } from '../../../../../test/support/api-harness';
 import { binaryBody, createTestNetwork, tinyPdf, type TestNetwork } from '../../../../../test/api/support/proposal-kit';
+import { computeAndStoreProposalPlans } from '../../proposals/plans/plan-service';
 import { assign, closeCall, submittedProposal } from './testing/review-fixtures';
 
 let h: Harness;
@@ -9,6 +10,9 @@ let net: TestNetwork;
 let p: Awaited<ReturnType<typeof submittedProposal>>[];
 let other: Awaited<ReturnType<typeof submittedProposal>>;
 let otherCycle: { id: number; code: string };
+/** Proposals of the first cycle whose plans the test of kept assessments rewrites (no other test reads them). */
+let keptOwn: Awaited<ReturnType<typeof submittedProposal>>;
+let keptExtra: Awaited<ReturnType<typeof submittedProposal>>;
 
 beforeAll(async () => {
   h = await startHarness();
@@ -16,6 +20,8 @@ beforeAll(async () => {
   const nodes = [net.nodeIds[0], net.nodeIds[2]];
   p = [];
   for (let i = 0; i < 3; i++) p.push(await submittedProposal(h, net.cycleId, nodes, `Reviewed proposal ${i}`));
+  keptOwn = await submittedProposal(h, net.cycleId, nodes, 'Kept assessment proposal');
+  keptExtra = await submittedProposal(h, net.cycleId, [net.nodeIds[0]], 'Kept assessment second proposal');
   otherCycle = await net.createCycle();
   other = await submittedProposal(h, otherCycle.id, [net.nodeIds[1]], 'Other cycle proposal');
   await closeCall(h, net.cycleId);
@@ -111,6 +117,85 @@ describe('GET /api/review/my', () => {
     } finally {
       h.created.ctx.now = realNow;
     }
+  });
+});
+
+describe('the technical assessments kept by the web process', () => {
+  it('never answers from a kept assessment after a plan is written, a target renamed or the plans recomputed; grades, assignments and conflicts show at once', async () => {
+    const own = keptOwn;
+    const extra = keptExtra;
+    const me = await reviewer();
+    await assign(h, own.id, me.account.id);
+    const reading = async () => (await me.browser.get(`/api/review/my/${own.id}`)).body as ReviewProposal;
+    /** What the assessment must say, counted in this test from the stored rows (worked by hand in this test). */
+    const expected = async () => {
+      const plans: { target_id: number; feasible: boolean | null }[] = await db()('target_plans')
+        .where({ proposal_id: own.id })
+        .whereNotNull('summary')
+        .select('target_id', 'feasible');
+      const targets: { id: number; name: string }[] = await db()('targets')
+        .where({ proposal_id: own.id })
+        .orderBy('position')
+        .select('id', 'name');
+      return {
+        feasibleTargets: targets.filter((t) => plans.some((x) => x.target_id === t.id && x.feasible === true)).length,
+        unplanned: targets.filter((t) => !plans.some((x) => x.target_id === t.id)).map((t) => t.name),
+      };
+    };
+
+    const first = await rowOf(me.browser, own.id);
+    const before = await expected();
+    expect(before.feasibleTargets).toBeGreaterThan(0);
+    expect(first.assessment.feasibleTargets).toBe(before.feasibleTargets);
+    expect((await rowOf(me.browser, own.id)).assessment).toEqual(first.assessment);
+
+    // A write of the plans (every plan of the proposal made infeasible): the table shows it on the next request.
+    const [t1] = await db()('targets').where({ proposal_id: own.id }).orderBy('position').select('id', 'name');
+    await db()('target_plans')
+      .where({ proposal_id: own.id })
+      .update({ feasible: false, summary: db().raw(`jsonb_set(summary, '{feasible}', 'false')`) });
+    expect((await rowOf(me.browser, own.id)).assessment).toMatchObject({ feasibleTargets: 0, neededNodeHours: 0 });
+    expect((await reading()).assessment.feasibleTargets).toBe(0);
+
+    // A target's plans removed, then the target renamed: the reading page names it under its new name.
+    await db()('target_plans').where({ target_id: t1.id }).del();
+    expect((await reading()).assessment.targetsAtRisk.find((r) => r.targetId === t1.id)).toMatchObject({
+      targetName: t1.name,
+      risks: [expect.objectContaining({ kind: 'notPlanned' })],
+    });
+    await db()('targets')
+      .where({ id: t1.id })
+      .update({ name: `${t1.name} renamed` });
+    expect((await reading()).assessment.targetsAtRisk.find((r) => r.targetId === t1.id)!.targetName).toBe(`${t1.name} renamed`);
+    expect((await expected()).unplanned).toEqual([`${t1.name} renamed`]);
+    expect((await rowOf(me.browser, own.id)).assessment.targetCount).toBe(2);
+
+    // The plans computed again: back to what the stored rows say, in the table and on the reading page.
+    await computeAndStoreProposalPlans(db(), own.id);
+    const after = await expected();
+    expect(after.unplanned).toEqual([]);
+    const row = await rowOf(me.browser, own.id);
+    expect(row.assessment.feasibleTargets).toBe(after.feasibleTargets);
+    expect(row.assessment).toEqual(first.assessment);
+    expect((await reading()).assessment.targetsAtRisk.flatMap((r) => r.risks.map((k) => k.kind))).not.toContain('notPlanned');
+
+    // Grades, assignments and conflicts are read on every request.
+    expect(
+      (
+        await me.browser.put(`/api/review/my/${own.id}/review`, {
+          version: row.version,
+          grade: 6.1,
+          strengths: '',
+          weaknesses: '',
+          committeeNote: '',
+        })
+      ).status,
+    ).toBe(200);
+    expect((await rowOf(me.browser, own.id)).grade).toBe(6.1);
+    await assign(h, extra.id, me.account.id);
+    expect((await rowOf(me.browser, extra.id)).assessment.targetCount).toBe(2);
+    expect((await me.browser.post(`/api/review/my/${extra.id}/conflict`, { reason: 'Shared a grant with the PI' })).status).toBe(201);
+    expect(((await me.browser.get('/api/review/my')).body as MyReviews).reviews.map((r) => r.proposalId)).toEqual([own.id]);
   });
 });
 

@@ -1,3 +1,4 @@
+import type { Knex } from 'knex';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
 import type {
   DeclareConflictInput,
@@ -9,11 +10,12 @@ import type {
   SaveReviewInput,
   SubmitReviewsResult,
 } from '@spincycle/shared/review/reviewing';
-import { assessProposal, summarizeAssessment, type TechnicalAssessment } from '@spincycle/shared/review/technical-assessment';
+import { assessProposal, type TechnicalAssessmentSummary } from '@spincycle/shared/review/technical-assessment';
 import type { AppContext } from '../../../app-context';
 import { AppError } from '../../../http/app-error';
 import { formatUtc } from '../../cycles/cycle-service';
 import { findJustificationContent } from '../../proposals/justification/justification-repository';
+import { AssessmentCache, keepAssessment, type AssessmentWanted, type KeptAssessment } from './assessment-cache';
 import {
   findAssignment,
   hasJustification,
@@ -26,6 +28,7 @@ import {
   markSubmitted,
   recordConflict,
   updateReview,
+  type AssessmentInputs,
   type StoredAssignment,
 } from './reviewing-repository';
 
@@ -56,12 +59,32 @@ function lockedError(a: StoredAssignment, lock: Exclude<ReviewLock, null>, what:
       );
 }
 
-function assessmentOf(a: StoredAssignment, inputs: Awaited<ReturnType<typeof listAssessmentInputs>>): TechnicalAssessment {
+function assessmentOf(a: StoredAssignment, inputs: Map<number, AssessmentInputs>): KeptAssessment {
   const entry = inputs.get(a.proposalId) ?? { targets: [], plans: [] };
-  return assessProposal({ ...entry, campaignDays: a.campaignDays, completenessGoal: a.completenessGoal });
+  return keepAssessment(assessProposal({ ...entry, campaignDays: a.campaignDays, completenessGoal: a.completenessGoal }));
 }
 
-function toRow(a: StoredAssignment, assessment: TechnicalAssessment, now: Date): MyReviewRow {
+/** The key of everything the assessment of the assignment's proposal depends on (see assessment-cache.ts). */
+function assessmentWanted(a: StoredAssignment): AssessmentWanted {
+  return {
+    proposalId: a.proposalId,
+    key: a.planVersions === null ? undefined : `${a.proposalId}:${a.planVersions}:${a.campaignDays}:${a.completenessGoal}`,
+  };
+}
+
+/**
+ * The assessments of the assignments' proposals, by proposal id: those `cache` keeps, and the
+ * others computed from one batched read of their plans (and kept).
+ */
+async function assessmentsOf(db: Knex, assignments: StoredAssignment[], cache: AssessmentCache): Promise<Map<number, KeptAssessment>> {
+  const byProposal = new Map(assignments.map((a) => [a.proposalId, a]));
+  return cache.getMany([...byProposal.values()].map(assessmentWanted), async (ids) => {
+    const inputs = await listAssessmentInputs(db, ids);
+    return new Map(ids.map((id) => [id, assessmentOf(byProposal.get(id)!, inputs)]));
+  });
+}
+
+function toRow(a: StoredAssignment, assessment: TechnicalAssessmentSummary, now: Date): MyReviewRow {
   const lock = lockOf(a, now);
   return {
     proposalId: a.proposalId,
@@ -80,24 +103,28 @@ function toRow(a: StoredAssignment, assessment: TechnicalAssessment, now: Date):
     savedAt: a.savedAt?.toISOString() ?? null,
     submittedAt: a.submittedAt?.toISOString() ?? null,
     version: a.version,
-    assessment: summarizeAssessment(assessment),
+    assessment,
     team: a.anonymousReview ? null : a.team,
   };
 }
 
 /**
  * GET /api/review/my (reviewers): the reviewer's own assignments and nothing of anyone else's
- * reviews. Two queries whatever the number of rows: the assignments, then every target and the
- * assessment's numbers of their plans for all those proposals at once.
+ * reviews. One query for the assignments (with their reviews, read on every request) and the
+ * versions of their proposals' plans; the technical assessments come from `cache`, and those it
+ * does not keep from one more query for every target and the assessment's numbers of their
+ * plans for all those proposals at once.
  */
-export async function listMyReviews(ctx: AppContext, viewer: SessionUser, cycleId?: number): Promise<MyReviews> {
+export async function listMyReviews(
+  ctx: AppContext,
+  viewer: SessionUser,
+  cycleId?: number,
+  cache = new AssessmentCache(),
+): Promise<MyReviews> {
   const assignments = await listAssignmentsOf(ctx.db, viewer.id, cycleId);
-  const inputs = await listAssessmentInputs(
-    ctx.db,
-    assignments.map((a) => a.proposalId),
-  );
+  const assessments = await assessmentsOf(ctx.db, assignments, cache);
   const now = ctx.now();
-  const reviews = assignments.map((a) => toRow(a, assessmentOf(a, inputs), now));
+  const reviews = assignments.map((a) => toRow(a, assessments.get(a.proposalId)!.summary, now));
   const cycles = new Map<number, MyReviewCycle>();
   for (const a of assignments) {
     const c = cycles.get(a.cycleId) ?? {
@@ -126,17 +153,22 @@ async function requireAssignment(ctx: AppContext, viewer: SessionUser, proposalI
 }
 
 /** GET /api/review/my/:proposalId: the proposal as its reviewer reads it, with the full assessment. */
-export async function getReviewProposal(ctx: AppContext, viewer: SessionUser, proposalId: number): Promise<ReviewProposal> {
+export async function getReviewProposal(
+  ctx: AppContext,
+  viewer: SessionUser,
+  proposalId: number,
+  cache = new AssessmentCache(),
+): Promise<ReviewProposal> {
   const a = await requireAssignment(ctx, viewer, proposalId);
-  const [inputs, nodes, targets, justification] = await Promise.all([
-    listAssessmentInputs(ctx.db, [proposalId]),
+  const [assessments, nodes, targets, justification] = await Promise.all([
+    assessmentsOf(ctx.db, [a], cache),
     listRequestedNodes(ctx.db, proposalId),
     listTargetsWithPlans(ctx.db, proposalId),
     hasJustification(ctx.db, proposalId),
   ]);
-  const assessment = assessmentOf(a, inputs);
+  const { assessment, summary } = assessments.get(proposalId)!;
   return {
-    review: toRow(a, assessment, ctx.now()),
+    review: toRow(a, summary, ctx.now()),
     abstract: a.abstract,
     completenessGoal: a.completenessGoal,
     nodes,
@@ -181,7 +213,7 @@ export async function saveReview(ctx: AppContext, viewer: SessionUser, proposalI
         'This review was saved elsewhere (another tab or window) since you opened it: the saved version is shown',
         409,
         undefined,
-        { current: toRow(a, assessmentOf(a, inputs), now) },
+        { current: toRow(a, assessmentOf(a, inputs).summary, now) },
       );
     }
     const saved = await updateReview(trx, a.assignmentId, input.version, input, now);
@@ -196,7 +228,7 @@ export async function saveReview(ctx: AppContext, viewer: SessionUser, proposalI
       savedAt: saved.savedAt,
       version: saved.version,
     };
-    return toRow(updated, assessmentOf(updated, inputs), now);
+    return toRow(updated, assessmentOf(updated, inputs).summary, now);
   });
 }
 
