@@ -290,17 +290,17 @@ describe('file buttons and the team warning', () => {
   });
 });
 
-describe('home cards of roles without their pages yet', () => {
-  it('reviewer: says grading comes to the review tables after the call closes, with no link to it', async () => {
+describe('home cards of the roles', () => {
+  it('reviewer: the card leads to My reviews, the planner and the network', async () => {
     const { context, page } = await newPage(browser);
     try {
       await page.setViewportSize(DESKTOP);
       await signIn(page, 'reviewer@halcyon.example');
       const card = page.locator('[data-role=reviewer]');
       await card.waitFor();
-      expect(await card.getByTestId('upcoming').innerText()).toContain("cycle's review tables");
+      expect(await card.getByTestId('upcoming').count()).toBe(0);
       const hrefs = await card.locator('a').evaluateAll((links) => links.map((a) => a.getAttribute('href')));
-      expect(hrefs.sort()).toEqual(['/network', '/planner']);
+      expect(hrefs.sort()).toEqual(['/network', '/planner', '/review/my']);
       await shot(page, 'home-reviewer-1440');
       expect(describeViolations(await axeViolations(page))).toBe('');
     } finally {

@@ -15,10 +15,7 @@ describe('ROLE_GUIDE', () => {
     }
   });
 
-  it('roles without their pages yet (reviewer, billing contact) say what will come and when, in terms of the cycle', () => {
-    expect(ROLE_GUIDE.reviewer.upcoming?.what).toMatch(/grading/i);
-    expect(ROLE_GUIDE.reviewer.upcoming?.what).toContain("cycle's review tables");
-    expect(ROLE_GUIDE.reviewer.upcoming?.when).toContain('call closes');
+  it('a role without its pages yet (billing contact) says what will come and when, in terms of the cycle', () => {
     expect(ROLE_GUIDE.billing_contact.upcoming?.what).toMatch(/invoices for the node-hours/i);
     expect(ROLE_GUIDE.billing_contact.upcoming?.what).toContain('payment by card');
     expect(ROLE_GUIDE.billing_contact.upcoming?.when).toContain('awards are decided');
@@ -30,8 +27,10 @@ describe('ROLE_GUIDE', () => {
     }
   });
 
-  it('roles with their pages have no "not yet" note', () => {
+  it('roles with their pages have no "not yet" note; the reviewer\'s card leads to My reviews', () => {
     expect(ROLE_GUIDE.proposer.upcoming).toBeUndefined();
+    expect(ROLE_GUIDE.reviewer.upcoming).toBeUndefined();
+    expect(ROLE_GUIDE.reviewer.links[0]).toEqual({ label: 'My reviews', path: '/review/my' });
     expect(ROLE_GUIDE.administrator.upcoming).toBeUndefined();
   });
 });

@@ -42,16 +42,12 @@ export const ROLE_GUIDE: Record<Role, RoleGuide> = {
   reviewer: {
     summary:
       'Review the proposals of a cycle on a panel: declare your conflicts, grade the proposals assigned to you from 0.0 to 10.0 and comment on them; a panel chair also agrees the standing.',
-    upcoming: {
-      what: "Grading of the proposals assigned to you, in the cycle's review tables: your conflicts first, then a grade and a comment for each proposal.",
-      when: "After a cycle's call closes and the facility manager has formed its panels.",
-    },
-    links: [PLANNER, NETWORK],
+    links: [{ label: 'My reviews', path: '/review/my' }, PLANNER, NETWORK],
   },
   facility_manager: {
     summary:
       'Keep nodes and sites up to date, open cycles with node-hours per node, form panels, decide awards against capacity and turn awards into night plans.',
-    links: [CYCLES, PLANNER, NETWORK],
+    links: [CYCLES, { label: 'Review', path: '/review/manage' }, PLANNER, NETWORK],
   },
   billing_contact: {
     summary: "Settle the fees of your teams' programs: the invoices for awarded node-hours, payment by card and the receipts.",

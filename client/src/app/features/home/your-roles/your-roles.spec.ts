@@ -34,21 +34,19 @@ describe('YourRoles', () => {
     expect(host.textContent).toContain('Your account holds no role yet.');
   });
 
-  it('reviewer and billing contact: say what is not there yet and when in the cycle it comes, with no link to it', async () => {
+  it('billing contact: says what is not there yet and when in the cycle it comes, with no link to it; the reviewer links to My reviews', async () => {
     const host = await render(['reviewer', 'billing_contact']);
-    const reviewer = host.querySelector('[data-role=reviewer] [data-testid=upcoming]')!;
-    expect(reviewer.getAttribute('role')).toBe('note');
-    expect(reviewer.textContent).toContain('Not in Spincycle yet');
-    expect(reviewer.textContent).toContain("Grading of the proposals assigned to you, in the cycle's review tables");
-    expect(reviewer.textContent).toContain("When: After a cycle's call closes");
+    expect(host.querySelector('[data-role=reviewer] [data-testid=upcoming]')).toBeNull();
     const billing = host.querySelector('[data-role=billing_contact] [data-testid=upcoming]')!;
+    expect(billing.getAttribute('role')).toBe('note');
+    expect(billing.textContent).toContain('Not in Spincycle yet');
     expect(billing.textContent).toContain('Invoices for the node-hours awarded');
     expect(billing.textContent).toContain('payment by card');
     expect(billing.textContent).toContain("When: After a cycle's awards are decided.");
     // Nothing in the note is a link or a button; the cards link only to existing pages.
     expect(host.querySelectorAll('[data-testid=upcoming] a, [data-testid=upcoming] button')).toHaveLength(0);
     const hrefs = Array.from(host.querySelectorAll('a')).map((a) => a.getAttribute('href'));
-    expect(hrefs.sort()).toEqual(['/network', '/network', '/planner']);
+    expect(hrefs.sort()).toEqual(['/network', '/network', '/planner', '/review/my']);
   });
 
   it('roles with their pages (proposer, administrator): no "not yet" note', async () => {

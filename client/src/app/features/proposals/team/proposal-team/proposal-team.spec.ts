@@ -1,3 +1,5 @@
+import { CUSTOM_ELEMENTS_SCHEMA } from '@angular/core';
+import { TeamReviewerCard } from '../../../review/team-reviewer/team-reviewer-card';
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { HarnessLoader } from '@angular/cdk/testing';
@@ -25,6 +27,8 @@ describe('ProposalTeam', () => {
   let backend: HttpTestingController;
 
   async function render(proposal: Proposal): Promise<void> {
+    // The team-reviewer card (distributed review) has its own spec; here it is left out.
+    TestBed.overrideComponent(ProposalTeam, { remove: { imports: [TeamReviewerCard] }, add: { schemas: [CUSTOM_ELEMENTS_SCHEMA] } });
     TestBed.configureTestingModule({
       imports: [ProposalTeam],
       providers: [

@@ -25,6 +25,7 @@ import { controlErrorMessage } from '../../../../ui/forms/server-errors';
 import { zodValidator } from '../../../../ui/forms/zod-validator';
 import { ProposalApi } from '../../proposal-api';
 import { MEMBER_ROLE_LABELS } from '../../proposal-list/proposal-list';
+import { TeamReviewerCard } from '../../../review/team-reviewer/team-reviewer-card';
 import { ProposalStore } from '../../proposal-store';
 import { DayPipe } from '../../../../ui/time/date-pipes';
 import { warningsOf, type TeamWarning } from '@spincycle/shared/proposals/team-warnings';
@@ -46,6 +47,7 @@ interface MemberCaution {
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
     DayPipe,
+    TeamReviewerCard,
     MatButton,
     MatCell,
     MatCellDef,
