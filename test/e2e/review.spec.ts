@@ -71,6 +71,7 @@ describe('review', () => {
         await page.keyboard.type(g);
         await page.keyboard.press('Enter');
       }
+      await screenshot(page, 'review-my-typed');
       for (const title of toGrade) {
         const describedBy = await page.getByLabel(`Grade for ${title}`).getAttribute('aria-describedby');
         await page.locator(`#${describedBy}`).getByText('Saved').waitFor();
@@ -125,7 +126,8 @@ describe('review', () => {
       await dialog.getByLabel('Reason for the move').fill('The panel agreed its case is the stronger of the two.');
       await dialog.getByRole('button', { name: 'Move' }).click();
       await dialog.waitFor({ state: 'detached' });
-      await expect(list.locator('li').first().getAttribute('data-testid')).resolves.toBe(secondId);
+      // The moved proposal now heads the list.
+      await list.locator('li').first().and(page.getByTestId(secondId!)).waitFor();
       await page.getByTestId('standing-moves').getByText('The panel agreed its case is the stronger of the two.').waitFor();
       expect(await page.getByTestId('standing-moves').innerText()).toContain(title);
       await screenshot(page, 'review-panel-standing');

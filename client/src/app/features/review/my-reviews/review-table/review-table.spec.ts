@@ -164,6 +164,9 @@ describe('ReviewTable', () => {
     req.flush(reviewRow({ grade: 7.2, version: 2, savedAt: '2027-01-21T10:00:00Z' }));
     await fixture.whenStable();
     expect(stateOf(41)).toBe('Saved');
+    // The saved row keeps its field (not rebuilt under the person typing): same element, same text.
+    expect(gradeInputs()[0]).toBe(first);
+    expect(first.value).toBe('7.2');
   });
 
   it('saves on its own after a quiet moment while typing', async () => {

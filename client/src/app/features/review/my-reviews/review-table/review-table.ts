@@ -152,6 +152,12 @@ export default class ReviewTable {
     return s;
   }
 
+  /**
+   * Rows keep their elements across saves (a saved row is a new object): without this the
+   * table would rebuild a row under the person typing, taking the focus and the typed text.
+   */
+  protected readonly trackRow = (_index: number, row: MyReviewRow): number => row.proposalId;
+
   /** Grades as the list was loaded, by proposal: the input shows them and is then left to the person typing. */
   private readonly loadedGrades = computed(
     () => new Map((this.data.hasValue() ? this.data.value().reviews : []).map((r) => [r.proposalId, r.grade] as const)),

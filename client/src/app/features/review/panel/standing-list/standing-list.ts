@@ -86,7 +86,7 @@ export interface MoveRequest {
             >
             <span class="who"
               >{{ m.movedBy ?? 'Someone no longer registered' }},
-              <time [attr.datetime]="m.movedAt">{{ (m.movedAt | localInstant) ?? (m.movedAt | utcInstant) }}</time></span
+              <time [attr.datetime]="m.movedAt">{{ (m.movedAt | localInstant) || (m.movedAt | utcInstant) }}</time></span
             >
             <span class="reason">“{{ m.reason }}”</span>
           </li>
