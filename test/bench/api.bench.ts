@@ -3,10 +3,12 @@
  * 3 nodes (180 plans; `?pageSize=200` so that the whole list comes back, as before the list
  * was paged, and the default first page), plus the run status the plans tab polls. Each at a
  * fixed 200 requests per second for 30 s (BENCH_API_SECONDS to change it) from autocannon over
- * loopback (after 3 s of the same load, not counted), against a web server of its own on the test database. The server runs as
+ * loopback (after 3 s of the same load, not counted), in two arrival patterns (paced: evenly
+ * spaced requests from 200 clients; bursts: each second's 200 requests at once on 20
+ * connections — see api-load.ts), against a web server of its own on the test database. The server runs as
  * `npm start` runs it — its own process (server/src/server.ts), logging at info — so that the
  * load generator's own work does not share its event loop. Prints p50/p95/p99 and errors;
- * target: p95 ≤ 50 ms with 0 errors. Creates throw-away rows and deletes them at the end.
+ * target: p95 ≤ 50 ms with 0 errors (read on the paced pattern). Creates throw-away rows and deletes them at the end.
  */
 import { randomUUID } from 'node:crypto';
 import { stopChild } from '../../server/scripts/processes.cjs';

@@ -9,7 +9,9 @@
  *    Target: ≤ 2 s for 2000 proposals.
  * 2. The reviewer's table (`GET /api/review/my`, 100 rows) and a panel's matrix
  *    (`GET /api/review/panels/:id/matrix`, 200 × 6) at 200 requests per second for 30 s
- *    (BENCH_API_SECONDS) from autocannon over loopback, against a web server of its own.
+ *    (BENCH_API_SECONDS) from autocannon over loopback, against a web server of its own, in
+ *    two arrival patterns: paced (evenly spaced requests from 200 clients) and bursts (each
+ *    second's 200 requests at once on 20 connections); see api-load.ts.
  *    Target: p95 ≤ 50 ms with 0 errors.
  * Creates throw-away rows and deletes them at the end.
  *

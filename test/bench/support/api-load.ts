@@ -64,7 +64,6 @@ export function freePort(): Promise<number> {
 const percentile = (sorted: number[], p: number) =>
   sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] : NaN;
 
-/** One endpoint at a fixed rate: latency percentiles of every answer, non-2xx and socket errors. */
 /** Seconds of the same load before each measurement, not counted (JIT, connection pools, caches). */
 const WARM_UP_SECONDS = 3;
 
@@ -79,41 +78,87 @@ const CLOCK_TICKS = 100;
 /** BENCH_API_ONLY: measure only the endpoints whose label contains this text (e.g. `first page`). */
 const ONLY = process.env.BENCH_API_ONLY;
 
+/** What one run of a load pattern saw. */
+interface Seen {
+  latencies: number[];
+  bytes: number;
+  errors: number;
+  non2xx: number;
+  timeouts: number;
+}
+
+/**
+ * One autocannon instance (`connections` keep-alive connections sharing `rate` requests per
+ * second), its answers' latencies added to `seen`.
+ */
+function cannon(url: string, cookie: string, connections: number, rate: number, seconds: number, seen?: Seen): Promise<void> {
+  return new Promise<void>((resolve, reject) => {
+    const instance = autocannon(
+      { url, connections, overallRate: rate, duration: seconds, headers: { cookie, accept: 'application/json' } },
+      (err, res) => {
+        if (err) return reject(err);
+        if (seen) {
+          seen.errors += res.errors;
+          seen.timeouts += res.timeouts;
+          seen.non2xx += res.non2xx;
+        }
+        resolve();
+      },
+    );
+    if (seen)
+      instance.on('response', (_client, _status, resBytes, responseTime) => {
+        seen.latencies.push(responseTime);
+        seen.bytes += resBytes;
+      });
+  });
+}
+
+/**
+ * The two arrival patterns, each at RATE requests per second:
+ * - **paced**: RATE clients, each on its own keep-alive connection sending one request a second,
+ *   their start times spread evenly over the second (one autocannon instance each, started
+ *   1000 / RATE ms apart), so requests arrive every 1000 / RATE ms, as from many independent
+ *   users. This is the figure the targets are read on.
+ * - **bursts**: one autocannon instance with 20 connections and `overallRate`. autocannon limits
+ *   the rate by letting each connection send its share of the second back to back as soon as the
+ *   second begins (httpClient.js: a counter reset by a 1 s interval), so all RATE requests of a
+ *   second arrive at once, 20 at a time; the latency is then about 20 × the per-request cost.
+ *   Printed as well, as the harsher pattern.
+ */
+async function run(pattern: 'paced' | 'bursts', url: string, cookie: string, seconds: number, seen?: Seen): Promise<void> {
+  if (pattern === 'bursts') return cannon(url, cookie, 20, RATE, seconds, seen);
+  const gap = 1000 / RATE;
+  const clients: Promise<void>[] = [];
+  for (let i = 0; i < RATE; i++) {
+    clients.push(cannon(url, cookie, 1, 1, seconds, seen));
+    await new Promise((resolve) => setTimeout(resolve, gap));
+  }
+  await Promise.all(clients);
+}
+
+/**
+ * One endpoint at RATE requests per second, in each arrival pattern (see `run`): latency
+ * percentiles of every answer, non-2xx and socket errors, answer size, and the server's CPU
+ * time per request.
+ */
 export async function load(base: string, label: string, urlPath: string, cookie: string, serverPid: number): Promise<void> {
   if (ONLY && !label.includes(ONLY)) return;
-  await new Promise<void>((resolve, reject) => {
-    autocannon(
-      {
-        url: `${base}${urlPath}`,
-        connections: 20,
-        overallRate: RATE,
-        duration: WARM_UP_SECONDS,
-        headers: { cookie, accept: 'application/json' },
-      },
-      (err) => (err ? reject(err) : resolve()),
+  const url = `${base}${urlPath}`;
+  for (const pattern of ['paced', 'bursts'] as const) {
+    await run(pattern, url, cookie, WARM_UP_SECONDS);
+    const seen: Seen = { latencies: [], bytes: 0, errors: 0, non2xx: 0, timeouts: 0 };
+    const cpuBefore = cpuSecondsOf(serverPid);
+    await run(pattern, url, cookie, SECONDS, seen);
+    const { latencies } = seen;
+    const cpuMsPerRequest = ((cpuSecondsOf(serverPid) - cpuBefore) * 1000) / Math.max(1, latencies.length);
+    latencies.sort((a, b) => a - b);
+    const errors = seen.errors + seen.timeouts + seen.non2xx;
+    const f = (v: number) => `${v.toFixed(1).padStart(7)} ms`;
+    console.log(
+      `${label.padEnd(34)} ${pattern.padEnd(6)} ${String(latencies.length).padStart(6)} req  p50 ${f(percentile(latencies, 50))}  p95 ${f(percentile(latencies, 95))}  p99 ${f(percentile(latencies, 99))}  ` +
+        `errors ${errors} (non-2xx ${seen.non2xx}, socket ${seen.errors}, timeouts ${seen.timeouts})  ${(seen.bytes / Math.max(1, latencies.length) / 1024).toFixed(1)} kB/answer  server CPU ${cpuMsPerRequest.toFixed(2)} ms/request`,
     );
-  });
-  const latencies: number[] = [];
-  let bytes = 0;
-  const cpuBefore = cpuSecondsOf(serverPid);
-  const result = await new Promise<autocannon.Result>((resolve, reject) => {
-    const instance = autocannon(
-      { url: `${base}${urlPath}`, connections: 20, overallRate: RATE, duration: SECONDS, headers: { cookie, accept: 'application/json' } },
-      (err, res) => (err ? reject(err) : resolve(res)),
-    );
-    instance.on('response', (_client, _status, resBytes, responseTime) => {
-      latencies.push(responseTime);
-      bytes += resBytes;
-    });
-  });
-  const cpuMsPerRequest = ((cpuSecondsOf(serverPid) - cpuBefore) * 1000) / Math.max(1, latencies.length);
-  latencies.sort((a, b) => a - b);
-  const errors = result.errors + result.timeouts + result.non2xx;
-  const f = (v: number) => `${v.toFixed(1).padStart(7)} ms`;
-  console.log(
-    `${label.padEnd(34)} ${String(latencies.length).padStart(6)} req  p50 ${f(percentile(latencies, 50))}  p95 ${f(percentile(latencies, 95))}  p99 ${f(percentile(latencies, 99))}  ` +
-      `errors ${errors} (non-2xx ${result.non2xx}, socket ${result.errors}, timeouts ${result.timeouts})  ${(bytes / Math.max(1, latencies.length) / 1024).toFixed(1)} kB/answer  server CPU ${cpuMsPerRequest.toFixed(2)} ms/request`,
-  );
+  }
 }
 
 /**

@@ -28,7 +28,8 @@ import {
   type CycleReview,
   type MatrixSource,
 } from './panel-repository';
-import type { MatrixBody, MatrixCache } from './matrix-cache';
+import type { KeptAnswers, KeptBody } from '../kept-answers';
+import { readReviewVersions } from '../review-read-version';
 import { requireCycle, requirePanel, requireUnlocked } from './panel-service';
 
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -126,13 +127,15 @@ export async function getMatrix(ctx: AppContext, panelId: number, db: Knex = ctx
 }
 
 /**
- * GET /api/review/panels/:panelId/matrix (facility managers) as JSON bytes with their ETag: the
- * source is read on every request, and the answer built from an equal source is sent again
- * from `cache` without building it (see matrix-cache.ts).
+ * GET /api/review/panels/:panelId/matrix (facility managers) as JSON bytes with their ETag. The
+ * review's read versions are read first; while they are those a kept answer of the panel was
+ * built under, it is sent again without reading its source (see kept-answers.ts).
  */
-export async function getMatrixBody(ctx: AppContext, panelId: number, cache: MatrixCache): Promise<MatrixBody> {
-  const source = await readMatrixSource(ctx.db, panelId);
-  return cache.get(panelId, source, () => JSON.stringify(buildMatrix(panelId, source)));
+export async function getMatrixBody(ctx: AppContext, panelId: number, kept: KeptAnswers): Promise<KeptBody> {
+  const versions = await readReviewVersions(ctx.db);
+  return kept.get(`panel:${panelId}`, versions, ctx.now().getTime(), async () => ({
+    json: JSON.stringify(buildMatrix(panelId, await readMatrixSource(ctx.db, panelId))),
+  }));
 }
 
 /**

@@ -15,7 +15,7 @@ import {
 } from '@spincycle/shared/review/panels';
 import type { AppContext } from '../../../app-context';
 import { assignAutomatically, getMatrixBody, toggleAssignment } from './assignment-service';
-import { MatrixCache } from './matrix-cache';
+import { KeptAnswers } from '../kept-answers';
 import {
   createPanel,
   deletePanel,
@@ -44,8 +44,8 @@ const deleteQuerySchema = z.object({
 
 /** Handlers of the panels sub-feature: parse, call the service, choose the status. */
 export function createPanelController(ctx: AppContext) {
-  /** The last matrix answer of each panel with what it was built from (see matrix-cache.ts). */
-  const matrices = new MatrixCache();
+  /** Matrix answers kept while the review's read versions are unchanged (see kept-answers.ts). */
+  const matrices = new KeptAnswers();
   return {
     async reviewers(_req: Request, res: Response) {
       res.json(await listReviewers(ctx));

@@ -7,17 +7,29 @@ import {
   submitReviewsSchema,
 } from '@spincycle/shared/review/reviewing';
 import type { AppContext } from '../../../app-context';
+import { KeptAnswers } from '../kept-answers';
 import { AssessmentCache } from './assessment-cache';
-import { declareConflict, getReviewJustification, getReviewProposal, listMyReviews, saveReview, submitReviews } from './reviewing-service';
+import {
+  declareConflict,
+  getMyReviewsBody,
+  getReviewJustification,
+  getReviewProposal,
+  saveReview,
+  submitReviews,
+} from './reviewing-service';
 
 /** Handlers of /api/review/my… (the reviewer's own reviews). */
 export function createReviewingController(ctx: AppContext) {
   /** Technical assessments computed once per version of a proposal's plans (see assessment-cache.ts). */
   const assessments = new AssessmentCache();
+  /** Grading tables kept while the review's read versions are unchanged (see kept-answers.ts). */
+  const tables = new KeptAnswers();
   return {
     async list(req: Request, res: Response) {
       const { cycleId } = myReviewsQuerySchema.parse(req.query);
-      res.json(await listMyReviews(ctx, req.user!, cycleId, assessments));
+      const table = await getMyReviewsBody(ctx, req.user!, cycleId, assessments, tables);
+      // With its ETag set, send answers 304 to a request that already holds this answer.
+      res.set('ETag', table.etag).type('application/json').send(table.body);
     },
     async get(req: Request, res: Response) {
       const { proposalId } = reviewProposalParamsSchema.parse(req.params);

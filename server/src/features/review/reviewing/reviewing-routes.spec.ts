@@ -120,6 +120,56 @@ describe('GET /api/review/my', () => {
   });
 });
 
+describe('the grading table kept by the web process', () => {
+  it('is sent again only while nothing it shows changed: grades, titles, names, anonymity, conflicts and the deadline show at once', async () => {
+    const me = await reviewer();
+    await assign(h, p[2].id, me.account.id);
+    await assign(h, other.id, me.account.id);
+    const first = await me.browser.get('/api/review/my');
+    const again = await me.browser.get('/api/review/my');
+    expect(again.headers.etag).toBe(first.headers.etag);
+    expect(again.body).toEqual(first.body);
+    expect((await me.browser.get('/api/review/my').set('If-None-Match', first.headers.etag)).status).toBe(304);
+
+    // Written straight into the database, as another process (or a colleague's request) would.
+    await db()('review_assignments').where({ proposal_id: p[2].id, reviewer_account_id: me.account.id }).update({ grade: 4.2 });
+    expect((await rowOf(me.browser, p[2].id)).grade).toBe(4.2);
+    const title = (await db()('proposals').where({ id: p[2].id }).first('title')).title as string;
+    await db()('proposals').where({ id: p[2].id }).update({ title: 'Retitled while kept' });
+    try {
+      expect((await rowOf(me.browser, p[2].id)).title).toBe('Retitled while kept');
+    } finally {
+      await db()('proposals').where({ id: p[2].id }).update({ title });
+    }
+    const pi = (await db()('proposals').where({ id: other.id }).first('pi_account_id')).pi_account_id as number;
+    const piName = (await db()('accounts').where({ id: pi }).first('display_name')).display_name as string;
+    await db()('accounts').where({ id: pi }).update({ display_name: 'Renamed While Kept' });
+    try {
+      expect((await rowOf(me.browser, other.id)).team?.piName).toBe('Renamed While Kept');
+      await db()('cycles').where({ id: otherCycle.id }).update({ anonymous_review: true });
+      expect((await rowOf(me.browser, other.id)).team).toBeNull();
+      expect(JSON.stringify((await me.browser.get('/api/review/my')).body)).not.toContain('Renamed While Kept');
+    } finally {
+      await db()('cycles').where({ id: otherCycle.id }).update({ anonymous_review: false });
+      await db()('accounts').where({ id: pi }).update({ display_name: piName });
+    }
+    await db()('review_conflicts').insert({ proposal_id: other.id, reviewer_account_id: me.account.id, reason: 'Kept-table test' });
+    const mine = (await me.browser.get('/api/review/my')).body as MyReviews;
+    expect(mine.reviews.map((r) => r.proposalId)).toEqual([p[2].id]);
+
+    // The deadline passes with nothing written: the kept table is not sent after it.
+    expect((await rowOf(me.browser, p[2].id)).locked).toBe(false);
+    const deadline = (await db()('cycles').where({ id: net.cycleId }).first('review_deadline')).review_deadline as Date;
+    const realNow = h.created.ctx.now;
+    h.created.ctx.now = () => new Date(deadline.getTime() + 1);
+    try {
+      expect(await rowOf(me.browser, p[2].id)).toMatchObject({ locked: true, lockedBecause: 'deadline' });
+    } finally {
+      h.created.ctx.now = realNow;
+    }
+  });
+});
+
 describe('the technical assessments kept by the web process', () => {
   it('never answers from a kept assessment after a plan is written, a target renamed or the plans recomputed; grades, assignments and conflicts show at once', async () => {
     const own = keptOwn;

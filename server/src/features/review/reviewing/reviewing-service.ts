@@ -15,6 +15,8 @@ import type { AppContext } from '../../../app-context';
 import { AppError } from '../../../http/app-error';
 import { formatUtc } from '../../cycles/cycle-service';
 import { findJustificationContent } from '../../proposals/justification/justification-repository';
+import type { KeptAnswers, KeptBody } from '../kept-answers';
+import { readReviewVersions } from '../review-read-version';
 import { AssessmentCache, keepAssessment, type AssessmentWanted, type KeptAssessment } from './assessment-cache';
 import {
   findAssignment,
@@ -143,6 +145,37 @@ export async function listMyReviews(
     cycles.set(a.cycleId, c);
   }
   return { cycles: [...cycles.values()], reviews };
+}
+
+/** The first time after `now` (epoch ms) at which a row of `mine` locks by its deadline passing; undefined when none will. */
+export function nextDeadlineLock(mine: MyReviews, now: number): number | undefined {
+  let next: number | undefined;
+  for (const r of mine.reviews) {
+    if (r.locked || r.reviewDeadline === null) continue;
+    const at = Date.parse(r.reviewDeadline);
+    if (at > now && (next === undefined || at < next)) next = at;
+  }
+  return next;
+}
+
+/**
+ * GET /api/review/my as JSON bytes with their ETag. The review's read versions are read first;
+ * while they are those a kept answer of this reviewer (and cycle filter) was built under, and no
+ * deadline has passed since, it is sent again without reading the assignments (kept-answers.ts).
+ */
+export async function getMyReviewsBody(
+  ctx: AppContext,
+  viewer: SessionUser,
+  cycleId: number | undefined,
+  assessments: AssessmentCache,
+  kept: KeptAnswers,
+): Promise<KeptBody> {
+  const versions = await readReviewVersions(ctx.db);
+  const now = ctx.now().getTime();
+  return kept.get(`my:${viewer.id}:${cycleId ?? ''}`, versions, now, async () => {
+    const mine = await listMyReviews(ctx, viewer, cycleId, assessments);
+    return { json: JSON.stringify(mine), validUntil: nextDeadlineLock(mine, now) };
+  });
 }
 
 /** The visible assignment or 404. */
