@@ -203,7 +203,7 @@ function placeNight(timeline: NightTimeline, t: SchedulerTarget, n: number, iv: 
 }
 
 /** Whether the target's visits of a night fit its usable intervals `iv` with nothing else planned that night. */
-function fitsAlone(t: SchedulerTarget, n: number, iv: ArrayLike<number>): boolean {
+export function fitsOnEmptyNight(t: SchedulerTarget, n: number, iv: ArrayLike<number>): boolean {
   if (iv.length < 2) return false;
   let room = 0;
   for (let k = 0; k + 1 < iv.length; k += 2) room += Math.floor((iv[k + 1] - iv[k]) / t.visitMs + 1e-9);
@@ -286,7 +286,7 @@ export function scheduleNights(input: ScheduleInput): ScheduleResult {
       const nightMs = t.visitMs * t.visitsPerNight;
       if (s.usedMs + nightMs > t.budgetMs + 1e-6) continue;
       const iv = t.intervals(n);
-      if (!fitsAlone(t, n, iv)) continue;
+      if (!fitsOnEmptyNight(t, n, iv)) continue;
       const last = lastNight(s, n);
       if (last !== undefined && n - last < t.stepNights - t.toleranceNights) continue;
       // A fixed visit night ahead (a done visit after a re-plan start) must not come too close either.
@@ -301,7 +301,7 @@ export function scheduleNights(input: ScheduleInput): ScheduleResult {
         for (let m = Math.max(a, n + 1); m <= Math.min(b, nights.length - 1); m++) {
           const other = nights[m];
           if (other.lost || other.darkStartMs === null) continue;
-          if (fitsAlone(t, m, t.intervals(m))) count++;
+          if (fitsOnEmptyNight(t, m, t.intervals(m))) count++;
         }
         return count;
       };
