@@ -16,12 +16,15 @@
  *    so that cadences keep their step when nothing stands in the way.
  * 2. They are ranked: first those for which this night is the last chance to keep the cadence
  *    (no other usable night before the last visit night + step + tolerance, or already late),
- *    then the others that are due; within a rank, by value per visit night, then by how few
+ *    then the others that are due; within a rank, by value per hour of the night (the value of
+ *    a visit night over the time its visits take: a knapsack's density order), then by how few
  *    other usable nights they have, then by the earliest end of their usable time (earliest
  *    deadline first).
  * 3. In that order each target's visits of the night are placed in the free time of its usable
- *    intervals, spread over its usable time when it has several visits a night; a target whose
- *    visits do not all fit gets none that night (its time is given back).
+ *    intervals, spread over its usable time when it has several visits a night. When they do not
+ *    fit, the night is packed again from scratch with the new target: every visit of the night
+ *    in order of its deadline, each at its earliest free time (fixed visits stay). A target
+ *    whose visits still do not all fit gets none that night.
  * Visits fixed beforehand (done, or kept by a re-plan) stay exactly where they are and count for
  * their target's cadence and award; re-planning from a night plans only that night onwards.
  *
@@ -166,6 +169,11 @@ interface TargetState {
   nights: number[];
   visits: number;
   usedMs: number;
+  /**
+   * usable[m + 1] − usable[a] = nights in a…m (from the first planned night) that are not lost,
+   * have dark time and can take the target's visits on their own: the look-ahead, computed once.
+   */
+  usable?: Int32Array;
 }
 
 /**
@@ -200,6 +208,37 @@ function placeNight(timeline: NightTimeline, t: SchedulerTarget, n: number, iv: 
     from = visit.endMs;
   }
   return placed;
+}
+
+/**
+ * Packs a night again from scratch: the fixed visits stay; every visit of the given targets is
+ * placed in order of its deadline (the latest start its usable intervals allow), each at the
+ * earliest free time in its intervals (Jackson's earliest-deadline rule, with release times a
+ * heuristic). Returns the new placement, or null when some visit does not fit.
+ */
+function repackNight(
+  fixed: readonly PlannedVisit[],
+  entries: readonly { s: TargetState; iv: ArrayLike<number>; placed: PlannedVisit[] }[],
+  n: number,
+): { entries: { s: TargetState; iv: ArrayLike<number>; placed: PlannedVisit[] }[]; timeline: NightTimeline } | null {
+  const timeline = new NightTimeline();
+  for (const v of fixed) timeline.add(v.startMs, v.endMs);
+  const jobs: { e: number; deadline: number }[] = [];
+  entries.forEach((entry, e) => {
+    const deadline = entry.iv[entry.iv.length - 1] - entry.s.t.visitMs;
+    for (let j = 0; j < entry.s.t.visitsPerNight; j++) jobs.push({ e, deadline });
+  });
+  jobs.sort((a, b) => a.deadline - b.deadline || a.e - b.e);
+  const placed: PlannedVisit[][] = entries.map(() => []);
+  for (const job of jobs) {
+    const { s, iv } = entries[job.e];
+    let start = NaN;
+    for (let q = 0; q + 1 < iv.length && Number.isNaN(start); q += 2) start = timeline.earliestFit(iv[q], iv[q], iv[q + 1], s.t.visitMs);
+    if (Number.isNaN(start)) return null;
+    timeline.add(start, start + s.t.visitMs);
+    placed[job.e].push({ targetId: s.t.id, night: n, startMs: start, endMs: start + s.t.visitMs });
+  }
+  return { entries: entries.map((entry, e) => ({ ...entry, placed: placed[e].sort((a, b) => a.startMs - b.startMs) })), timeline };
 }
 
 /** Whether the target's visits of a night fit its usable intervals `iv` with nothing else planned that night. */
@@ -267,6 +306,17 @@ export function scheduleNights(input: ScheduleInput): ScheduleResult {
     for (const n of s.nights) if (n > after && (next === undefined || n < next)) next = n;
     return next;
   };
+  const usableNights = (s: TargetState): Int32Array => {
+    if (s.usable) return s.usable;
+    const prefix = new Int32Array(nights.length + 1);
+    for (let m = 0; m < nights.length; m++) {
+      const night = nights[m];
+      const ok = m >= fromNight && !night.lost && night.darkStartMs !== null && fitsOnEmptyNight(s.t, m, s.t.intervals(m));
+      prefix[m + 1] = prefix[m] + (ok ? 1 : 0);
+    }
+    s.usable = prefix;
+    return prefix;
+  };
   const total = nights.length - fromNight;
   let done = 0;
 
@@ -276,17 +326,18 @@ export function scheduleNights(input: ScheduleInput): ScheduleResult {
       input.onProgress?.(++done, total);
       continue;
     }
-    const timeline = new NightTimeline();
+    let timeline = new NightTimeline();
     for (const v of fixedByNight.get(n) ?? []) timeline.add(v.startMs, v.endMs);
 
-    const candidates: { s: TargetState; iv: ArrayLike<number>; tier: number; alternatives: number; end: number }[] = [];
+    const candidates: { s: TargetState; iv: ArrayLike<number>; tier: number; alternatives: number; end: number; density: number }[] = [];
     for (const s of states.values()) {
       const t = s.t;
       if (s.nights.length >= t.visitNights || s.nights.includes(n)) continue;
       const nightMs = t.visitMs * t.visitsPerNight;
       if (s.usedMs + nightMs > t.budgetMs + 1e-6) continue;
+      const usable = usableNights(s);
+      if (usable[n + 1] === usable[n]) continue;
       const iv = t.intervals(n);
-      if (!fitsOnEmptyNight(t, n, iv)) continue;
       const last = lastNight(s, n);
       if (last !== undefined && n - last < t.stepNights - t.toleranceNights) continue;
       // A fixed visit night ahead (a done visit after a re-plan start) must not come too close either.
@@ -295,15 +346,11 @@ export function scheduleNights(input: ScheduleInput): ScheduleResult {
       const due = last === undefined ? n : last + t.stepNights;
       // A target not started yet looks one step ahead: a start on any of those nights keeps its cadence.
       const latest = last === undefined ? n + t.stepNights - 1 : last + t.stepNights + t.toleranceNights;
-      // Usable nights for this target from `a` to `b` (the look-ahead; nights already lost count as none).
+      // Usable nights for this target from `a` to `b` after tonight (the look-ahead).
       const usableBetween = (a: number, b: number) => {
-        let count = 0;
-        for (let m = Math.max(a, n + 1); m <= Math.min(b, nights.length - 1); m++) {
-          const other = nights[m];
-          if (other.lost || other.darkStartMs === null) continue;
-          if (fitsOnEmptyNight(t, m, t.intervals(m))) count++;
-        }
-        return count;
+        const lo = Math.max(a, n + 1);
+        const hi = Math.min(b, nights.length - 1);
+        return hi < lo ? 0 : usable[hi + 1] - usable[lo];
       };
       let tier: number;
       let alternatives: number;
@@ -316,19 +363,30 @@ export function scheduleNights(input: ScheduleInput): ScheduleResult {
         alternatives = n >= latest ? 0 : usableBetween(n + 1, latest);
         tier = alternatives === 0 ? 0 : 1;
       }
-      candidates.push({ s, iv, tier, alternatives, end: iv[iv.length - 1] });
+      candidates.push({ s, iv, tier, alternatives, end: iv[iv.length - 1], density: t.weight / nightMs });
     }
     candidates.sort(
-      (a, b) => a.tier - b.tier || b.s.t.weight - a.s.t.weight || a.alternatives - b.alternatives || a.end - b.end || a.s.t.id - b.s.t.id,
+      (a, b) => a.tier - b.tier || b.density - a.density || a.alternatives - b.alternatives || a.end - b.end || a.s.t.id - b.s.t.id,
     );
+    let tonight: { s: TargetState; iv: ArrayLike<number>; placed: PlannedVisit[] }[] = [];
+    const fixedTonight = fixedByNight.get(n) ?? [];
     for (const c of candidates) {
-      const placed = placeNight(timeline, c.s.t, n, c.iv);
-      if (!placed) continue;
+      let placed = placeNight(timeline, c.s.t, n, c.iv);
+      if (placed) {
+        tonight.push({ s: c.s, iv: c.iv, placed });
+      } else {
+        // The night as placed has no room: try all of tonight's visits again, packed by deadline.
+        const repacked = repackNight(fixedTonight, [...tonight, { s: c.s, iv: c.iv, placed: [] }], n);
+        if (!repacked) continue;
+        tonight = repacked.entries;
+        timeline = repacked.timeline;
+        placed = tonight[tonight.length - 1].placed;
+      }
       c.s.nights.push(n);
       c.s.visits += placed.length;
       c.s.usedMs += placed.length * c.s.t.visitMs;
-      visits.push(...placed);
     }
+    for (const e of tonight) visits.push(...e.placed);
     input.onProgress?.(++done, total);
   }
 

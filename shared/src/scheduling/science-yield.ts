@@ -67,10 +67,11 @@ export function scienceYield(plan: TargetPlan, visitTimesDays: readonly number[]
   for (let i = 0; i < options.trials; i++) {
     const kept: number[] = [];
     for (const n of nights) if (rng.next() >= options.weatherLossFraction) kept.push(...nightsOf.get(n)!);
-    if (kept.length < 3) continue;
+    // The periodogram needs four points at least: a trial left with fewer by the weather finds nothing.
+    if (kept.length < 4) continue;
     const campaign = simulatePlanCampaign(plan, rng, { visitTimesDays: kept, periodDays, semiAmplitudePpm: options.semiAmplitudePpm });
     const series = plan.analysis.series === 'nightlyMeans' ? campaign.nightlyMeans : campaign.visits;
-    if (series.timeDays.length < 3) continue;
+    if (series.timeDays.length < 4) continue;
     const result = analyzePeriodogram(series, {
       valueKind: 'flux',
       minimumFrequencyPerDay: plan.analysis.minFrequencyPerDay,
