@@ -88,6 +88,13 @@ describe('CycleReview', () => {
       'Spot lifetimes in young K dwarfs',
     ]);
     expect(rows[1].textContent).toContain('—');
+    // The table scrolls in its own labelled, focusable box, which says so.
+    const box = el().querySelector('[data-testid=proposal-panels]')!.parentElement!;
+    expect(box.classList).toContain('table-scroll');
+    expect(box.getAttribute('tabindex')).toBe('0');
+    expect(box.getAttribute('role')).toBe('region');
+    expect(box.getAttribute('aria-label')).toBe('Proposals and their panels table');
+    expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more columns');
   });
 
   it('saving the settings sends the deadline as a UTC instant and shows a server field error beside the date', async () => {
@@ -132,6 +139,12 @@ describe('CycleReview', () => {
     expect(row.textContent).toContain('None named');
     expect(row.textContent).toContain('Late');
     expect(row.textContent).toContain('set aside');
+    const box = el().querySelector('[data-testid=team-reviewers]')!.parentElement!;
+    expect(box.classList).toContain('table-scroll');
+    expect(box.getAttribute('tabindex')).toBe('0');
+    expect(box.getAttribute('role')).toBe('region');
+    expect(box.getAttribute('aria-label')).toBe('Team reviewers table');
+    expect(box.querySelector(':scope > .table-scroll-hint')).not.toBeNull();
   });
 
   it('error: the message when the settings cannot be read', async () => {

@@ -64,6 +64,13 @@ describe('PanelMatrix', () => {
     expect(el().querySelector('td.num.short')?.textContent?.trim()).toBe('1 / 2');
     expect(el().querySelector('[data-testid=load-21]')?.textContent?.trim()).toBe('1');
     expect(el().querySelector('[data-testid=load-22]')?.textContent?.trim()).toBe('0');
+    // The matrix scrolls in its own labelled, focusable box, which says so.
+    const box = el().querySelector('[data-testid=matrix]')!.parentElement!;
+    expect(box.classList).toContain('table-scroll');
+    expect(box.getAttribute('tabindex')).toBe('0');
+    expect(box.getAttribute('role')).toBe('region');
+    expect(box.getAttribute('aria-label')).toBe('Assignment matrix table');
+    expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more reviewers');
   });
 
   it('unticking a cell sends the change and shows the matrix the server returns', async () => {

@@ -38,7 +38,7 @@ import { ReviewingApi } from '../reviewing-api';
               </span>
               @if (p.isChair && p.panelStage) {
                 <a mat-stroked-button [routerLink]="['/review/panels', p.panelId]">
-                  <mat-icon>leaderboard</mat-icon>
+                  <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">leaderboard</mat-icon>
                   Grades and standing of {{ p.panelName }}
                 </a>
               } @else if (p.isChair) {

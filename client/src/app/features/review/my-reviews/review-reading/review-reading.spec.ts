@@ -52,6 +52,13 @@ describe('ReviewReading', () => {
       ['Star A', 'N1', 'Yes', '80', '1', '40', '12.5', '90%'],
       ['Star B', 'No plan on the requested nodes.'],
     ]);
+    // The plans scroll in their own labelled, focusable box, which says so.
+    const box = el().querySelector('table.plans')!.parentElement!;
+    expect(box.classList).toContain('table-scroll');
+    expect(box.getAttribute('tabindex')).toBe('0');
+    expect(box.getAttribute('role')).toBe('region');
+    expect(box.getAttribute('aria-label')).toBe('Targets and their plans table');
+    expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more columns');
     expect(el().querySelector('[data-testid=team]')).toBeNull();
   });
 

@@ -3,6 +3,7 @@ import { ChangeDetectionStrategy, Component, computed, DestroyRef, effect, injec
 import { MatButton } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
+import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import { DomSanitizer, SafeResourceUrl } from '@angular/platform-browser';
 import { Router, RouterLink } from '@angular/router';
@@ -24,7 +25,19 @@ import { ReviewingApi } from '../reviewing-api';
 @Component({
   selector: 'app-review-reading',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [DecimalPipe, LoadStatus, MatButton, MatFormField, MatHint, MatInput, MatLabel, PercentPipe, RouterLink, UtcInstantPipe],
+  imports: [
+    DecimalPipe,
+    LoadStatus,
+    MatButton,
+    MatFormField,
+    MatHint,
+    MatIcon,
+    MatInput,
+    MatLabel,
+    PercentPipe,
+    RouterLink,
+    UtcInstantPipe,
+  ],
   templateUrl: './review-reading.html',
   styleUrl: './review-reading.scss',
 })

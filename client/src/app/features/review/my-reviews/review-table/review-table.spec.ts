@@ -81,6 +81,13 @@ describe('ReviewTable', () => {
     expect(rows[2].textContent).toContain('Ilsabet Morrow-Fane, Hollowcrest Observatory');
     expect(rows[0].textContent).not.toContain('Ilsabet');
     expect(el().querySelector('[data-testid=cycle-2027A]')?.textContent).toContain('1 of 2 graded');
+    // On a narrow screen the table scrolls in its own labelled, focusable box, which says so.
+    const box = el().querySelector<HTMLElement>('.table-scroll')!;
+    expect(box.getAttribute('tabindex')).toBe('0');
+    expect(box.getAttribute('role')).toBe('region');
+    expect(box.getAttribute('aria-label')).toBe('Assigned proposals table');
+    expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more columns');
+    expect(box.querySelector(':scope > table.reviews')).not.toBeNull();
   });
 
   it("lists the reviewer's panels above the table, with the way to a panel's grades for its chair at the panel stage only", async () => {
@@ -113,6 +120,11 @@ describe('ReviewTable', () => {
     fixture.detectChanges();
     const lower = el().querySelector('[data-testid=my-panel-3]')!;
     expect(lower.textContent).toContain('you chair it');
+    expect(lower.querySelector('a')?.getAttribute('href')).toBe('/review/panels/3');
+    // The link's icon is drawn from the icon font, not spelled out as a word beside the label.
+    const icon = lower.querySelector('a mat-icon')!;
+    expect(icon.classList).toContain('material-symbols-outlined');
+    expect(icon.getAttribute('aria-hidden')).toBe('true');
     expect(lower.querySelector('a')?.getAttribute('href')).toBe('/review/panels/3');
     const upper = el().querySelector('[data-testid=my-panel-4]')!;
     expect(upper.textContent).toContain('Grades due');

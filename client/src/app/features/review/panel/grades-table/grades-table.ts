@@ -5,8 +5,10 @@ import { MatTooltip } from '@angular/material/tooltip';
 import type { PanelStatisticsReport, StatisticsRow } from '@spincycle/shared/review/standing';
 
 /**
- * The panel's grades: one row per proposal (best normalised mean first), each reviewer's grade
- * and its normalised value side by side, then the mean, median, normalised mean and spread.
+ * The panel's grades: one row per proposal (best normalised mean first), its mean, median,
+ * normalised mean, spread and notes, then each reviewer's grade and its normalised value side
+ * by side. The figures come first so that they show without scrolling however many reviewers
+ * the panel has; the proposal column stays in place while the reviewers' columns scroll.
  * Rows whose grades spread more than the threshold are flagged; rows not discussed are greyed.
  */
 @Component({
@@ -15,21 +17,24 @@ import type { PanelStatisticsReport, StatisticsRow } from '@spincycle/shared/rev
   imports: [DecimalPipe, MatIcon, MatTooltip],
   template: `
     <div class="table-scroll" tabindex="0" role="region" aria-label="Grades of the panel">
+      <p class="table-scroll-hint">
+        <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">swipe</mat-icon>Scroll sideways for more columns
+      </p>
       <table class="grades" data-testid="grades-table">
         <caption class="visually-hidden">
-          Grades of each proposal: each reviewer's grade and its normalised value, then the proposal's figures
+          Grades of each proposal: the proposal's figures, then each reviewer's grade and its normalised value
         </caption>
         <thead>
           <tr>
-            <th scope="col" rowspan="2">Proposal</th>
-            @for (r of report().reviewers; track r.id) {
-              <th scope="colgroup" colspan="2" class="reviewer">{{ r.displayName }}</th>
-            }
+            <th scope="col" rowspan="2" class="title">Proposal</th>
             <th scope="col" rowspan="2" class="num">Mean grade</th>
             <th scope="col" rowspan="2" class="num">Median grade</th>
             <th scope="col" rowspan="2" class="num">Normalised mean</th>
             <th scope="col" rowspan="2" class="num">Spread (grade points)</th>
-            <th scope="col" rowspan="2">Notes</th>
+            <th scope="col" rowspan="2" class="notes">Notes</th>
+            @for (r of report().reviewers; track r.id) {
+              <th scope="colgroup" colspan="2" class="reviewer">{{ r.displayName }}</th>
+            }
           </tr>
           <tr>
             @for (r of report().reviewers; track r.id) {
@@ -47,15 +52,6 @@ import type { PanelStatisticsReport, StatisticsRow } from '@spincycle/shared/rev
                   <span class="team">{{ team.piName }}{{ team.piAffiliation ? ', ' + team.piAffiliation : '' }}</span>
                 }
               </th>
-              @for (r of report().reviewers; track r.id) {
-                @if (gradeOf(row, r.id); as g) {
-                  <td class="num">{{ g.raw | number: '1.1-1' }}</td>
-                  <td class="num normalised">{{ g.normalised | number: '1.2-2' }}</td>
-                } @else {
-                  <td class="num none" aria-label="no grade">—</td>
-                  <td class="num none" aria-label="no grade">—</td>
-                }
-              }
               <td class="num">{{ row.mean === null ? '—' : (row.mean | number: '1.2-2') }}</td>
               <td class="num">{{ row.median === null ? '—' : (row.median | number: '1.1-2') }}</td>
               <td class="num strong">{{ row.normalisedMean === null ? '—' : (row.normalisedMean | number: '1.2-2') }}</td>
@@ -74,6 +70,15 @@ import type { PanelStatisticsReport, StatisticsRow } from '@spincycle/shared/rev
                   <span class="muted">No grades yet</span>
                 }
               </td>
+              @for (r of report().reviewers; track r.id) {
+                @if (gradeOf(row, r.id); as g) {
+                  <td class="num">{{ g.raw | number: '1.1-1' }}</td>
+                  <td class="num normalised">{{ g.normalised | number: '1.2-2' }}</td>
+                } @else {
+                  <td class="num none" aria-label="no grade">—</td>
+                  <td class="num none" aria-label="no grade">—</td>
+                }
+              }
             </tr>
           }
         </tbody>
@@ -88,9 +93,6 @@ import type { PanelStatisticsReport, StatisticsRow } from '@spincycle/shared/rev
     </p>
   `,
   styles: `
-    .table-scroll {
-      overflow-x: auto;
-    }
     table {
       border-collapse: collapse;
       font-variant-numeric: tabular-nums;
@@ -108,14 +110,44 @@ import type { PanelStatisticsReport, StatisticsRow } from '@spincycle/shared/rev
       text-align: end;
       white-space: nowrap;
     }
+    /* A figure's header may wrap onto two lines, so that the columns stay as narrow as their numbers. */
+    thead .num {
+      white-space: normal;
+      text-wrap: balance;
+      min-inline-size: 4.5em;
+    }
+    /* The proposal keeps a readable width, and its place, when the table scrolls sideways. */
+    .title {
+      min-inline-size: 14em;
+      position: sticky;
+      inset-inline-start: 0;
+      z-index: 1;
+      background: var(--table-scroll-surface, var(--mat-sys-surface));
+      box-shadow: inset -1px 0 0 var(--mat-sys-outline-variant);
+    }
+    @media (max-width: 599.98px) {
+      .title {
+        min-inline-size: 9em;
+      }
+    }
+    .notes {
+      min-inline-size: 10em;
+    }
     .sub {
       font: var(--mat-sys-label-small);
+    }
+    /* The box's own border closes the table. */
+    tbody tr:last-child > * {
+      border-block-end: 0;
     }
     .reviewer {
       text-align: center;
     }
     .title span {
       display: block;
+    }
+    .team {
+      font: var(--mat-sys-body-small);
     }
     .team,
     .muted,
@@ -125,10 +157,11 @@ import type { PanelStatisticsReport, StatisticsRow } from '@spincycle/shared/rev
     .strong {
       font-weight: 600;
     }
-    tr.not-discussed {
+    /* Greyed by colour, not by opacity: the sticky proposal cell must stay opaque. */
+    tr.not-discussed,
+    tr.not-discussed .title {
       color: var(--mat-sys-on-surface-variant);
       background: var(--mat-sys-surface-container);
-      opacity: 0.7;
     }
     .flag {
       display: inline-flex;
@@ -136,6 +169,7 @@ import type { PanelStatisticsReport, StatisticsRow } from '@spincycle/shared/rev
       gap: 4px;
       color: var(--mat-sys-tertiary);
       font-weight: 600;
+      white-space: nowrap;
     }
     .notes span {
       display: block;

@@ -60,6 +60,30 @@ describe('PanelPage', () => {
     expect(el.textContent).not.toContain('Not discussed: lowest share');
   });
 
+  it('grades table: scrolls in its own labelled, focusable box with a hint; the figures come before the reviewers', async () => {
+    const el = await render();
+    backend.expectOne('/api/review/panels/5/statistics').flush(STATISTICS);
+    await fixture.whenStable();
+    const box = el.querySelector<HTMLElement>('app-grades-table .table-scroll')!;
+    expect(box.getAttribute('tabindex')).toBe('0');
+    expect(box.getAttribute('role')).toBe('region');
+    expect(box.getAttribute('aria-label')).toBe('Grades of the panel');
+    expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more columns');
+    expect(box.querySelector(':scope > table[data-testid="grades-table"]')).not.toBeNull();
+    // First header row: the proposal, its figures and notes, then one group per reviewer.
+    const headers = Array.from(box.querySelectorAll('thead tr:first-child th')).map((th) => th.textContent?.trim());
+    expect(headers).toEqual([
+      'Proposal',
+      'Mean grade',
+      'Median grade',
+      'Normalised mean',
+      'Spread (grade points)',
+      'Notes',
+      'Reviewer Ash',
+      'Reviewer Birch',
+    ]);
+  });
+
   it('shows the error state when the panel is refused', async () => {
     const el = await render();
     backend
@@ -136,5 +160,14 @@ describe('PanelPage', () => {
     expect(ra.textContent).toContain('0–2 h');
     expect(ra.textContent).toContain('300%');
     expect(el.querySelectorAll('canvas')).toHaveLength(2);
+    // Each table scrolls in its own labelled, focusable box if it is too wide.
+    for (const testId of ['node-pressure-table', 'ra-pressure-table']) {
+      const box = el.querySelector(`[data-testid="${testId}"]`)!.parentElement!;
+      expect(box.classList).toContain('table-scroll');
+      expect(box.getAttribute('tabindex')).toBe('0');
+      expect(box.getAttribute('role')).toBe('region');
+      expect(box.getAttribute('aria-label')).toMatch(/pressure table$/);
+      expect(box.querySelector(':scope > .table-scroll-hint')).not.toBeNull();
+    }
   });
 });

@@ -1,5 +1,6 @@
 import { DecimalPipe, PercentPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
+import { MatIcon } from '@angular/material/icon';
 import type { CyclePressureReport } from '@spincycle/shared/review/pressure';
 import type { ChartData, ChartOptions } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
@@ -20,7 +21,7 @@ export function raBinLabel(bin: { startHours: number; endHours: number }): strin
 @Component({
   selector: 'app-pressure-charts',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [BaseChartDirective, DecimalPipe, PercentPipe],
+  imports: [BaseChartDirective, DecimalPipe, MatIcon, PercentPipe],
   providers: [provideSpincycleCharts()],
   template: `
     <p class="lead">
@@ -33,52 +34,62 @@ export function raBinLabel(bin: { startHours: number; endHours: number }): strin
       <div class="canvas-box">
         <canvas baseChart [type]="'bar'" [data]="nodeData()" [options]="nodeOptions()" role="img" [attr.aria-label]="nodeLabel()"></canvas>
       </div>
-      <table data-testid="node-pressure-table">
-        <thead>
-          <tr>
-            <th scope="col">Node</th>
-            <th scope="col" class="num">Requested (node-hours)</th>
-            <th scope="col" class="num">Available (node-hours)</th>
-            <th scope="col" class="num">Pressure</th>
-          </tr>
-        </thead>
-        <tbody>
-          @for (n of report().nodes; track n.nodeId) {
-            <tr [class.over]="n.pressure !== null && n.pressure > 1">
-              <th scope="row">{{ n.nodeCode }}</th>
-              <td class="num">{{ n.requestedNodeHours | number: '1.0-1' }}</td>
-              <td class="num">{{ n.availableNodeHours | number: '1.0-1' }}</td>
-              <td class="num">{{ n.pressure === null ? 'no capacity' : (n.pressure | percent: '1.0-0') }}</td>
+      <div class="table-scroll" tabindex="0" role="region" aria-label="Per node pressure table">
+        <p class="table-scroll-hint">
+          <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">swipe</mat-icon>Scroll sideways for more columns
+        </p>
+        <table data-testid="node-pressure-table">
+          <thead>
+            <tr>
+              <th scope="col">Node</th>
+              <th scope="col" class="num">Requested (node-hours)</th>
+              <th scope="col" class="num">Available (node-hours)</th>
+              <th scope="col" class="num">Pressure</th>
             </tr>
-          }
-        </tbody>
-      </table>
+          </thead>
+          <tbody>
+            @for (n of report().nodes; track n.nodeId) {
+              <tr [class.over]="n.pressure !== null && n.pressure > 1">
+                <th scope="row">{{ n.nodeCode }}</th>
+                <td class="num">{{ n.requestedNodeHours | number: '1.0-1' }}</td>
+                <td class="num">{{ n.availableNodeHours | number: '1.0-1' }}</td>
+                <td class="num">{{ n.pressure === null ? 'no capacity' : (n.pressure | percent: '1.0-0') }}</td>
+              </tr>
+            }
+          </tbody>
+        </table>
+      </div>
     </section>
     <section class="pair" aria-labelledby="ra-pressure-heading">
       <h3 id="ra-pressure-heading">Per right ascension: requested node-hours against dark hours</h3>
       <div class="canvas-box">
         <canvas baseChart [type]="'bar'" [data]="raData()" [options]="raOptions()" role="img" [attr.aria-label]="raLabel()"></canvas>
       </div>
-      <table data-testid="ra-pressure-table">
-        <thead>
-          <tr>
-            <th scope="col">Right ascension</th>
-            <th scope="col" class="num">Requested (node-hours)</th>
-            <th scope="col" class="num">Dark hours</th>
-            <th scope="col" class="num">Pressure</th>
-          </tr>
-        </thead>
-        <tbody>
-          @for (b of report().raBins; track b.bin) {
-            <tr [class.over]="b.pressure !== null && b.pressure > 1">
-              <th scope="row">{{ label(b) }}</th>
-              <td class="num">{{ b.requestedNodeHours | number: '1.0-1' }}</td>
-              <td class="num">{{ b.darkHours | number: '1.0-1' }}</td>
-              <td class="num">{{ b.pressure === null ? '—' : (b.pressure | percent: '1.0-0') }}</td>
+      <div class="table-scroll" tabindex="0" role="region" aria-label="Per right ascension pressure table">
+        <p class="table-scroll-hint">
+          <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">swipe</mat-icon>Scroll sideways for more columns
+        </p>
+        <table data-testid="ra-pressure-table">
+          <thead>
+            <tr>
+              <th scope="col">Right ascension</th>
+              <th scope="col" class="num">Requested (node-hours)</th>
+              <th scope="col" class="num">Dark hours</th>
+              <th scope="col" class="num">Pressure</th>
             </tr>
-          }
-        </tbody>
-      </table>
+          </thead>
+          <tbody>
+            @for (b of report().raBins; track b.bin) {
+              <tr [class.over]="b.pressure !== null && b.pressure > 1">
+                <th scope="row">{{ label(b) }}</th>
+                <td class="num">{{ b.requestedNodeHours | number: '1.0-1' }}</td>
+                <td class="num">{{ b.darkHours | number: '1.0-1' }}</td>
+                <td class="num">{{ b.pressure === null ? '—' : (b.pressure | percent: '1.0-0') }}</td>
+              </tr>
+            }
+          </tbody>
+        </table>
+      </div>
       <p class="explain">
         Dark hours of a range of right ascension: for every night of the campaign and every node, the hours when the Sun is more than 18°
         below the horizon and a star in the middle of the range, passing overhead at the node's site, stands above the node's altitude limit
@@ -110,6 +121,14 @@ export function raBinLabel(bin: { startHours: number; endHours: number }): strin
     table {
       border-collapse: collapse;
       font-variant-numeric: tabular-nums;
+      inline-size: 100%;
+    }
+    th[scope='row'] {
+      white-space: nowrap;
+    }
+    /* The box's own border closes the table. */
+    tbody tr:last-child > * {
+      border-block-end: 0;
     }
     th,
     td {
@@ -136,6 +155,12 @@ export class PressureCharts {
   private readonly scheme = inject(ColorScheme);
   protected readonly label = raBinLabel;
 
+  /**
+   * The colour of what is available (node-hours, dark hours): the darker blue on the light
+   * scheme, the sky blue on the dark one, so that the bars stand out (3:1 or more) from either ground.
+   */
+  private readonly capacityColour = computed(() => (this.scheme.isDark() ? OKABE_ITO.skyBlue : OKABE_ITO.blue));
+
   protected readonly nodeData = computed<ChartData<'bar', number[], string>>(() => ({
     labels: this.report().nodes.map((n) => n.nodeCode),
     datasets: [
@@ -144,7 +169,11 @@ export class PressureCharts {
         data: this.report().nodes.map((n) => n.requestedNodeHours),
         backgroundColor: OKABE_ITO.vermillion,
       },
-      { label: 'Available (node-hours)', data: this.report().nodes.map((n) => n.availableNodeHours), backgroundColor: OKABE_ITO.blue },
+      {
+        label: 'Available (node-hours)',
+        data: this.report().nodes.map((n) => n.availableNodeHours),
+        backgroundColor: this.capacityColour(),
+      },
     ],
   }));
 
@@ -156,7 +185,7 @@ export class PressureCharts {
         data: this.report().raBins.map((b) => b.requestedNodeHours),
         backgroundColor: OKABE_ITO.vermillion,
       },
-      { label: 'Dark hours (h)', data: this.report().raBins.map((b) => b.darkHours), backgroundColor: OKABE_ITO.skyBlue },
+      { label: 'Dark hours (h)', data: this.report().raBins.map((b) => b.darkHours), backgroundColor: this.capacityColour() },
     ],
   }));
 

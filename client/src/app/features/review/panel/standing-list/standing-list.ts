@@ -134,6 +134,14 @@ export interface MoveRequest {
       opacity: 0.7;
       background: var(--mat-sys-surface-container);
     }
+    h3 {
+      font: var(--mat-sys-title-medium);
+      margin-block: 16px 8px;
+    }
+    .moves {
+      padding-inline-start: 0;
+      list-style: none;
+    }
     .moves li {
       display: flex;
       flex-direction: column;
