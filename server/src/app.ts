@@ -11,6 +11,7 @@ import { loadConfig, type Config, type ConfigOverrides } from './config';
 import { createDb } from './db/knex';
 import { createAccountRoutes } from './features/accounts/account-routes';
 import { createAuthRoutes } from './features/auth/auth-routes';
+import { createAwardRoutes } from './features/awards/award-routes';
 import { createPassport } from './features/auth/passport-setup';
 import { createCycleRoutes } from './features/cycles/cycle-routes';
 import { createReviewRoutes } from './features/review/review-routes';
@@ -103,6 +104,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   api.use('/invitations', createInvitationRoutes(ctx));
   api.use('/target-lists', createTargetListRoutes(ctx));
   api.use('/review', createReviewRoutes(ctx));
+  api.use('/awards', createAwardRoutes(ctx));
   api.use('/', createFacilityRoutes(ctx));
   app.use('/api', api);
   app.use('/api', apiNotFound);

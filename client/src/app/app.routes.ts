@@ -55,6 +55,12 @@ export const routes: Routes = [
     loadChildren: () => import('./features/review/review.routes'),
   },
   {
+    // The facility manager's award board: node-hours per node from the panels' locked standings.
+    path: 'awards',
+    canActivate: [authGuard, roleGuard('facility_manager')],
+    loadChildren: () => import('./features/awards/awards.routes'),
+  },
+  {
     path: 'admin',
     canActivate: [authGuard, roleGuard('administrator')],
     loadChildren: () => import('./features/admin/admin.routes'),

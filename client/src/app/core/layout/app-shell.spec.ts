@@ -65,6 +65,14 @@ describe('AppShell', () => {
     expect(navLabels(await render())).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Accounts']);
   });
 
+  it('facility manager: Cycles, Review and Awards, each a link to its page', async () => {
+    await seedSession(testUser(['facility_manager']));
+    const host = await render();
+    expect(navLabels(host)).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles', 'Review', 'Awards']);
+    const awards = Array.from(host.querySelectorAll('nav a')).find((a) => a.textContent?.includes('Awards'));
+    expect(awards?.getAttribute('href')).toBe('/awards');
+  });
+
   it('the menu names the person and their roles, and Sign out posts and goes to sign-in', async () => {
     await seedSession(testUser(['proposer', 'billing_contact']));
     const navigateByUrl = jest.spyOn(TestBed.inject(Router), 'navigateByUrl').mockResolvedValue(true);

@@ -23,8 +23,8 @@ describe('visibleNavLinks', () => {
     ]);
   });
 
-  it('proposer: Proposals; facility manager: Cycles and Review', () => {
+  it('proposer: Proposals; facility manager: Cycles, Review and Awards', () => {
     expect(labels({ roles: ['proposer'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network', 'Methods']);
-    expect(labels({ roles: ['facility_manager'] })).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles', 'Review']);
+    expect(labels({ roles: ['facility_manager'] })).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles', 'Review', 'Awards']);
   });
 });

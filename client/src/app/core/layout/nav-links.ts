@@ -22,6 +22,7 @@ export const NAV_LINKS: readonly NavLink[] = [
   { path: '/methods', label: 'Methods', icon: 'menu_book' },
   { path: '/cycles', label: 'Cycles', icon: 'event_repeat', roles: ['facility_manager'] },
   { path: '/review/manage', label: 'Review', icon: 'groups', roles: ['facility_manager'] },
+  { path: '/awards', label: 'Awards', icon: 'workspace_premium', roles: ['facility_manager'] },
   { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['administrator'] },
 ];
 

@@ -33,4 +33,12 @@ describe('ROLE_GUIDE', () => {
     expect(ROLE_GUIDE.reviewer.links[0]).toEqual({ label: 'My reviews', path: '/review/my' });
     expect(ROLE_GUIDE.administrator.upcoming).toBeUndefined();
   });
+
+  it("the facility manager's card leads to Cycles, Review, then Awards", () => {
+    expect(ROLE_GUIDE.facility_manager.links.slice(0, 3)).toEqual([
+      { label: 'Cycles', path: '/cycles' },
+      { label: 'Review', path: '/review/manage' },
+      { label: 'Awards', path: '/awards' },
+    ]);
+  });
 });

@@ -6,6 +6,8 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MatCheckboxHarness } from '@angular/material/checkbox/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { MatInputHarness } from '@angular/material/input/testing';
+import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
+import { testTeamDecision } from '../../awards/testing/award-fixtures';
 import { AUTOSAVE_DEBOUNCE_MS, ProposalStore } from '../proposal-store';
 import { testCycle, testProposal } from '../testing/fixtures';
 import ProposalOverview, { requestRows } from './proposal-overview';
@@ -265,5 +267,48 @@ describe('ProposalOverview request table', () => {
     expect(rows[0]).toMatchObject({ nodeCode: 'KRG-50', nodeHoursAvailable: 620, overCapacity: true });
     expect(rows[0].share).toBeCloseTo(1.306, 3);
     expect(rows[1]).toMatchObject({ nodeCode: 'VHM-40', nodeHoursAvailable: null, share: null, overCapacity: false });
+  });
+});
+
+describe('ProposalOverview decision card', () => {
+  let fixture: ComponentFixture<ProposalOverview>;
+  let backend: HttpTestingController;
+
+  async function render(state: Proposal['state']): Promise<void> {
+    TestBed.configureTestingModule({
+      imports: [ProposalOverview],
+      providers: [
+        ProposalStore,
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+      ],
+    });
+    backend = TestBed.inject(HttpTestingController);
+    TestBed.inject(ProposalStore).id.set(5);
+    fixture = TestBed.createComponent(ProposalOverview);
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal({ state, editable: false }));
+    // Not whenStable: the decision's read, when there is one, holds it off until answered.
+    await new Promise((resolve) => setTimeout(resolve));
+    TestBed.tick();
+  }
+
+  afterEach(() => backend.verify());
+
+  it('a released decision shows at the top of the overview', async () => {
+    await render('awarded');
+    backend.expectOne('/api/awards/proposals/5/decision').flush(testTeamDecision());
+    await fixture.whenStable();
+    const card = fixture.nativeElement.querySelector('[data-testid=decision-card]') as HTMLElement;
+    expect(card.textContent).toContain('Your proposal was awarded node-hours.');
+    expect(fixture.nativeElement.firstElementChild?.tagName.toLowerCase()).toBe('app-decision-card');
+  });
+
+  it('before the release (a ranked proposal) nothing is asked and no card shows', async () => {
+    await render('ranked');
+    await fixture.whenStable();
+    backend.expectNone('/api/awards/proposals/5/decision');
+    expect(fixture.nativeElement.querySelector('app-decision-card')).toBeNull();
   });
 });

@@ -17,11 +17,13 @@ import {
   updateProposalSchema,
 } from '@spincycle/shared/proposals/proposal-schemas';
 import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
+import { AWARD_OUTCOMES } from '@spincycle/shared/awards/awards';
 import { map } from 'rxjs';
 import { CapacityMeter } from '../../../ui/capacity-meter/capacity-meter';
 import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/server-errors';
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { formatClockTime } from '../../../ui/time/date-format';
+import { DecisionCard } from '../../awards/decision-card/decision-card';
 import { OverviewValues, overviewOf, ProposalStore } from '../proposal-store';
 
 /** One row of the request table: the proposal's request on a node against the cycle's capacity there. */
@@ -83,6 +85,7 @@ function completenessPercentValidator(control: AbstractControl<number | null>): 
   imports: [
     CapacityMeter,
     DecimalPipe,
+    DecisionCard,
     MatButton,
     MatCheckbox,
     MatError,
@@ -129,6 +132,15 @@ export default class ProposalOverview {
   protected readonly nodeIds = toSignal(this.form.controls.nodeIds.valueChanges, { initialValue: [] as number[] });
   /** The text that was on screen when the person reloaded after a conflict, offered for copying. */
   protected readonly discarded = signal<OverviewValues | null>(null);
+
+  /**
+   * The team's decision card, once the cycle's decisions are released: the release moves the
+   * proposal to awarded, reserve or not awarded, so earlier states do not ask for it.
+   */
+  protected readonly decided = computed(() => {
+    const state = this.proposal()?.state;
+    return state !== undefined && (AWARD_OUTCOMES as readonly string[]).includes(state);
+  });
 
   protected readonly requestedHours = computed(() => {
     const proposal = this.proposal();
