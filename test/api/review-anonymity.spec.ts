@@ -77,6 +77,11 @@ async function everythingTheReviewerSees(b: Browser, proposalId: number, cycleId
   const reading = await b.get(`/api/review/my/${proposalId}`);
   json('reading', reading);
   const version = reading.body.review.version as number;
+  for (const t of reading.body.targets as { id: number; plans: { nodeId: number }[] }[]) {
+    for (const p of t.plans)
+      json(`sky window of target ${t.id}`, await b.get(`/api/review/my/${proposalId}/targets/${t.id}/sky?nodeId=${p.nodeId}`));
+  }
+  expect(texts.some((t) => t.what.startsWith('sky window'))).toBe(true);
   json('save', await b.put(`/api/review/my/${proposalId}/review`, { version, grade: 6, strengths: '', weaknesses: '', committeeNote: '' }));
   json(
     'stale save (409 with the stored row)',

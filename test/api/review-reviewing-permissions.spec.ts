@@ -31,7 +31,10 @@ type Caller =
 
 interface RouteCase {
   name: string;
-  call(b: Browser, ids: { proposalId: number; cycleId: number; version: number }): Promise<{ status: number }>;
+  call(
+    b: Browser,
+    ids: { proposalId: number; cycleId: number; version: number; targetId: number; nodeId: number },
+  ): Promise<{ status: number }>;
   /** The assigned reviewer's status (2xx). */
   ok: number;
   /** A reviewer with nothing to do with the proposal: 404 for proposal routes; the list is simply empty. */
@@ -52,6 +55,13 @@ const ROUTES: RouteCase[] = [
   {
     name: 'GET /api/review/my/:proposalId/justification',
     call: (b, i) => b.get(`/api/review/my/${i.proposalId}/justification`),
+    ok: 200,
+    notAssigned: 404,
+    conflicted: 404,
+  },
+  {
+    name: 'GET /api/review/my/:proposalId/targets/:targetId/sky',
+    call: (b, i) => b.get(`/api/review/my/${i.proposalId}/targets/${i.targetId}/sky?nodeId=${i.nodeId}`),
     ok: 200,
     notAssigned: 404,
     conflicted: 404,
@@ -129,7 +139,8 @@ const CALLERS: Caller[] = ['signedOut', 'proposer', 'notAssigned', 'assigned', '
 describe.each(ROUTES)('$name', (route) => {
   it.each(CALLERS)('%s', async (caller) => {
     const { browser, version } = await callerBrowser(caller);
-    const res = await route.call(browser, { proposalId: proposal.id, cycleId: net.cycleId, version });
+    const targetId = (await h.created.ctx.db('targets').where({ proposal_id: proposal.id }).orderBy('id').first('id')).id as number;
+    const res = await route.call(browser, { proposalId: proposal.id, cycleId: net.cycleId, version, targetId, nodeId: net.nodeIds[0] });
     expect({ caller, status: res.status }).toEqual({ caller, status: expected(route, caller) });
   });
 });

@@ -69,6 +69,10 @@ export const myReviewsQuerySchema = z.object({ cycleId: idParam.optional() });
 /** `:proposalId` route parameter. */
 export const reviewProposalParamsSchema = z.object({ proposalId: idParam });
 
+/** GET /api/review/my/:proposalId/targets/:targetId/sky?nodeId=: a target's sky windows from a node. */
+export const reviewTargetParamsSchema = z.object({ proposalId: idParam, targetId: idParam });
+export const reviewSkyQuerySchema = z.object({ nodeId: idParam });
+
 /** Why a review can no longer change. */
 export type ReviewLock = 'submitted' | 'deadline' | null;
 
@@ -146,6 +150,12 @@ export interface ReviewTarget {
   decDeg: number;
   magnitude: number;
   magnitudeBand: string;
+  /** Colour, its system, reddening and age (for the period–colour chart of a cluster). */
+  colour: number;
+  colourSystem: 'BV' | 'BPRP';
+  reddeningEbv: number | null;
+  ageMyr: number;
+  ageUncertaintyMyr: number | null;
   /** The stored plans on the requested nodes, by node code. */
   plans: ReviewPlan[];
 }

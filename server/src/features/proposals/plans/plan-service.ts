@@ -240,6 +240,21 @@ export async function getTargetSky(
   nodeId: number,
 ): Promise<SkyWindowsReport> {
   const { cycle, proposal } = await accessProposal(ctx.db, viewer, id);
+  return targetSkyReport(ctx, { cycle, proposalId: id, completeness: proposal.completeness }, targetId, nodeId);
+}
+
+/**
+ * One target's sky windows from one node of the proposal's cycle over its campaign, with the
+ * cadence its plan asks for (shared by the team's route and the reviewer's; the caller has
+ * checked access to the proposal).
+ */
+export async function targetSkyReport(
+  ctx: AppContext,
+  of: { cycle: { id: number; code: string; campaignStart: string; campaignEnd: string }; proposalId: number; completeness: number },
+  targetId: number,
+  nodeId: number,
+): Promise<SkyWindowsReport> {
+  const { cycle, proposalId: id } = of;
   const target = await findTarget(ctx.db, id, targetId);
   if (!target) throw new AppError('target_not_found', `No target ${targetId} in proposal ${id}`, 404);
   if (!(await listCycleNodes(ctx.db, cycle.id)).some((n) => n.nodeId === nodeId)) {
@@ -249,7 +264,7 @@ export async function getTargetSky(
   const result = nodeSkyWindows(node, { firstNight: cycle.campaignStart, lastNight: cycle.campaignEnd }, [target]);
   let requirement: ReturnType<typeof requirementFromPlan> | undefined;
   try {
-    const plan = computeNodeTargetPlan(toPlanTarget(target), node, node.site, result.targets[0], { completeness: proposal.completeness });
+    const plan = computeNodeTargetPlan(toPlanTarget(target), node, node.site, result.targets[0], { completeness: of.completeness });
     requirement = requirementFromPlan(plan.plan);
   } catch (err) {
     // Without a plan the windows are still worth showing; the plan's error is on the plans page.

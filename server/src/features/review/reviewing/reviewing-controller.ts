@@ -3,6 +3,8 @@ import {
   declareConflictSchema,
   myReviewsQuerySchema,
   reviewProposalParamsSchema,
+  reviewSkyQuerySchema,
+  reviewTargetParamsSchema,
   saveReviewSchema,
   submitReviewsSchema,
 } from '@spincycle/shared/review/reviewing';
@@ -14,6 +16,7 @@ import {
   getMyReviewsBody,
   getReviewJustification,
   getReviewProposal,
+  getReviewTargetSky,
   saveReview,
   submitReviews,
 } from './reviewing-service';
@@ -42,6 +45,11 @@ export function createReviewingController(ctx: AppContext) {
       res.type('application/pdf').setHeader('Content-Disposition', `inline; filename="${file.filename}"`);
       res.setHeader('Cache-Control', 'no-store');
       res.send(file.content);
+    },
+    async sky(req: Request, res: Response) {
+      const { proposalId, targetId } = reviewTargetParamsSchema.parse(req.params);
+      const { nodeId } = reviewSkyQuerySchema.parse(req.query);
+      res.json(await getReviewTargetSky(ctx, req.user!, proposalId, targetId, nodeId));
     },
     async save(req: Request, res: Response) {
       const { proposalId } = reviewProposalParamsSchema.parse(req.params);

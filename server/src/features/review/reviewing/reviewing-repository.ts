@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import type { ReviewPlan, ReviewTeam } from '@spincycle/shared/review/reviewing';
+import type { ReviewPlan, ReviewTarget, ReviewTeam } from '@spincycle/shared/review/reviewing';
 import type { AssessedPlan } from '@spincycle/shared/review/technical-assessment';
 
 /**
@@ -267,16 +267,36 @@ export async function listRequestedNodes(db: Knex, proposalId: number): Promise<
 }
 
 /** The targets of a proposal (list order) with their stored plans on the requested nodes. */
-export async function listTargetsWithPlans(
-  db: Knex,
-  proposalId: number,
-): Promise<{ id: number; name: string; raDeg: number; decDeg: number; magnitude: number; magnitudeBand: string; plans: ReviewPlan[] }[]> {
-  const targets: { id: number; name: string; ra_deg: number; dec_deg: number; magnitude: number; magnitude_band: string }[] = await db(
-    'targets',
-  )
+export async function listTargetsWithPlans(db: Knex, proposalId: number): Promise<ReviewTarget[]> {
+  const targets: {
+    id: number;
+    name: string;
+    ra_deg: number;
+    dec_deg: number;
+    magnitude: number;
+    magnitude_band: string;
+    colour: number;
+    colour_system: 'BV' | 'BPRP';
+    reddening_ebv: number | null;
+    age_myr: number;
+    age_uncertainty_myr: number | null;
+  }[] = await db('targets')
     .where({ proposal_id: proposalId })
     .orderBy(['position', 'id'])
-    .select('id', 'name', 'ra_deg', 'dec_deg', 'magnitude', 'magnitude_band');
+    // Never `notes`: free text the team wrote, which may name it.
+    .select(
+      'id',
+      'name',
+      'ra_deg',
+      'dec_deg',
+      'magnitude',
+      'magnitude_band',
+      'colour',
+      'colour_system',
+      'reddening_ebv',
+      'age_myr',
+      'age_uncertainty_myr',
+    );
   const plans: { target_id: number; node_id: number; node_code: string; plan: Omit<ReviewPlan, 'nodeId' | 'nodeCode'> }[] = await db(
     'target_plans as tp',
   )
@@ -313,6 +333,11 @@ export async function listTargetsWithPlans(
     decDeg: t.dec_deg,
     magnitude: t.magnitude,
     magnitudeBand: t.magnitude_band,
+    colour: t.colour,
+    colourSystem: t.colour_system,
+    reddeningEbv: t.reddening_ebv,
+    ageMyr: t.age_myr,
+    ageUncertaintyMyr: t.age_uncertainty_myr,
     plans: byTarget.get(t.id) ?? [],
   }));
 }

@@ -7,7 +7,8 @@ import { createReviewingController } from './reviewing-controller';
  * Routes of review's reviewing/ sub-feature (mounted by review-routes.ts under /api/review), all
  * for the reviewer role and about the signed-in reviewer's own assignments only:
  * GET /my (grading table), POST /my/submit, GET /my/:proposalId (reading),
- * GET /my/:proposalId/justification (PDF inline), PUT /my/:proposalId/review (save),
+ * GET /my/:proposalId/justification (PDF inline), GET /my/:proposalId/targets/:targetId/sky
+ * (a target's sky windows from a node), PUT /my/:proposalId/review (save),
  * POST /my/:proposalId/conflict (declare a conflict).
  */
 export function createReviewingRoutes(ctx: AppContext): Router {
@@ -18,6 +19,7 @@ export function createReviewingRoutes(ctx: AppContext): Router {
   router.post('/my/submit', reviewer, c.submit);
   router.get('/my/:proposalId', reviewer, c.get);
   router.get('/my/:proposalId/justification', reviewer, c.justification);
+  router.get('/my/:proposalId/targets/:targetId/sky', reviewer, c.sky);
   router.put('/my/:proposalId/review', reviewer, c.save);
   router.post('/my/:proposalId/conflict', reviewer, c.conflict);
   return router;

@@ -11,9 +11,12 @@ import type {
   SubmitReviewsResult,
 } from '@spincycle/shared/review/reviewing';
 import { assessProposal, type TechnicalAssessmentSummary } from '@spincycle/shared/review/technical-assessment';
+import type { SkyWindowsReport } from '@spincycle/shared/sky/index';
 import type { AppContext } from '../../../app-context';
 import { AppError } from '../../../http/app-error';
+import { findCycleById } from '../../cycles/cycle-repository';
 import { formatUtc } from '../../cycles/cycle-service';
+import { targetSkyReport } from '../../proposals/plans/plan-service';
 import { findJustificationContent } from '../../proposals/justification/justification-repository';
 import type { KeptAnswers, KeptBody } from '../kept-answers';
 import { readReviewVersions } from '../review-read-version';
@@ -210,6 +213,23 @@ export async function getReviewProposal(
     justificationUrl: justification ? `/api/review/my/${proposalId}/justification` : null,
     team: a.anonymousReview ? null : a.team,
   };
+}
+
+/**
+ * GET /api/review/my/:proposalId/targets/:targetId/sky?nodeId=: a target's sky windows from a
+ * node of the cycle, for the reviewer assigned to the proposal (404 otherwise, as every route).
+ */
+export async function getReviewTargetSky(
+  ctx: AppContext,
+  viewer: SessionUser,
+  proposalId: number,
+  targetId: number,
+  nodeId: number,
+): Promise<SkyWindowsReport> {
+  const a = await requireAssignment(ctx, viewer, proposalId);
+  const cycle = await findCycleById(ctx.db, a.cycleId);
+  if (!cycle) throw notAssigned(proposalId);
+  return targetSkyReport(ctx, { cycle, proposalId, completeness: a.completenessGoal }, targetId, nodeId);
 }
 
 /**

@@ -9,6 +9,8 @@ export interface SkyWindowQuery {
   proposalId: number;
   targetId: number;
   nodeId: number;
+  /** Read through the reviewer's route (/api/review/my/…) rather than the team's. */
+  reviewing?: boolean;
 }
 
 /** All HTTP of a proposal's target plans and sky windows. */
@@ -57,7 +59,11 @@ export class PlanApi {
   skyWindowResource(query: () => SkyWindowQuery | null) {
     return httpResource<SkyWindowsReport>(() => {
       const q = query();
-      return q === null ? undefined : { url: `/api/proposals/${q.proposalId}/targets/${q.targetId}/sky`, params: { nodeId: q.nodeId } };
+      if (q === null) return undefined;
+      const url = q.reviewing
+        ? `/api/review/my/${q.proposalId}/targets/${q.targetId}/sky`
+        : `/api/proposals/${q.proposalId}/targets/${q.targetId}/sky`;
+      return { url, params: { nodeId: q.nodeId } };
     });
   }
 }

@@ -1,7 +1,6 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, LOCALE_ID, output } from '@angular/core';
 import type { PlanMarker } from '@spincycle/shared/proposals/plan-types';
-import type { TargetRow } from '@spincycle/shared/proposals/target-schemas';
 import type { ActiveElement, ChartData, ChartDataset, ChartOptions } from 'chart.js';
 import { BaseChartDirective } from 'ng2-charts';
 import { ColorScheme } from '../../../../core/layout/color-scheme';
@@ -11,7 +10,7 @@ import { chartTheme, RELATION_COLOURS } from '../../../../ui/charts/chart-palett
 import { provideSpincycleCharts } from '../../../../ui/charts/chart-setup';
 import { logAxis125Hooks } from '../../../../ui/charts/log-ticks';
 import type { CurvePoint } from '../../../planner/gyro-curves';
-import { ClusterTargetPoint, clusterSeries, TargetFeasibility } from './cluster-curves';
+import { type ClusterTarget, ClusterTargetPoint, clusterSeries, TargetFeasibility } from './cluster-curves';
 
 /**
  * Feasibility is told by marker shape as well as colour (the charts' one marker style,
@@ -49,7 +48,7 @@ export interface ClusterPointSelection {
   styleUrl: './cluster-chart.scss',
 })
 export class ClusterChart {
-  readonly targets = input.required<readonly TargetRow[]>();
+  readonly targets = input.required<readonly ClusterTarget[]>();
   readonly plans = input.required<readonly PlanMarker[]>();
   readonly pointSelected = output<ClusterPointSelection>();
 

@@ -64,7 +64,10 @@ export function feasibilityOf(plans: readonly Pick<PlanMarker, 'feasible'>[]): T
 }
 
 /** The series of the chart, or null when the targets do not share one age. */
-export function clusterSeries(targets: readonly TargetRow[], plans: readonly PlanMarker[]): ClusterSeries | null {
+/** What the chart reads of a target (a proposal's target row, or the reviewer's view of one). */
+export type ClusterTarget = Pick<TargetRow, 'id' | 'name' | 'colour' | 'colourSystem' | 'reddeningEbv' | 'ageMyr' | 'ageUncertaintyMyr'>;
+
+export function clusterSeries(targets: readonly ClusterTarget[], plans: readonly PlanMarker[]): ClusterSeries | null {
   const ageMyr = sharedAgeMyr(targets);
   if (ageMyr === null) return null;
 

@@ -16,6 +16,8 @@ export interface SkyWindowDialogData {
   nodeId?: number;
   /** The plan's own one-line sky verdict per node, when known. */
   verdicts?: Record<number, string>;
+  /** Opened by a reviewer: the windows come through the reviewer's route. */
+  reviewing?: boolean;
 }
 
 /** One target's sky window from one node's site over the campaign, night by night. */
@@ -86,6 +88,7 @@ export class SkyWindowDialog {
     proposalId: this.data.proposalId,
     targetId: this.data.targetId,
     nodeId: this.nodeId(),
+    reviewing: this.data.reviewing,
   }));
   protected readonly heading = computed(() => `${this.data.targetName} from node ${this.nodeCode()}`);
   protected readonly planVerdict = computed(() => this.data.verdicts?.[this.nodeId()] ?? null);

@@ -49,8 +49,8 @@ describe('ReviewReading', () => {
       [...tr.querySelectorAll('th, td')].map((c) => (c.textContent ?? '').trim()),
     );
     expect(cells).toEqual([
-      ['Star A', 'N1', 'Yes', '80', '1', '40', '12.5', '90%'],
-      ['Star B', 'No plan on the requested nodes.'],
+      ['Star A', 'N1', 'Yes', '80', '1', '40', '12.5', '90%', 'nights_stay'],
+      ['Star B', 'No plan on the requested nodes.', 'nights_stay'],
     ]);
     // The plans scroll in their own labelled, focusable box, which says so.
     const box = el().querySelector('table.plans')!.parentElement!;
@@ -60,6 +60,18 @@ describe('ReviewReading', () => {
     expect(box.getAttribute('aria-label')).toBe('Targets and their plans table');
     expect(box.querySelector(':scope > .table-scroll-hint')?.textContent).toContain('Scroll sideways for more columns');
     expect(el().querySelector('[data-testid=team]')).toBeNull();
+  });
+
+  it('targets of one age show the period–colour chart; the sky window comes through the reviewer’s route', async () => {
+    await render();
+    expect(el().querySelector('[data-testid=cluster-chart]')).not.toBeNull();
+    expect(text('#cluster-chart-heading')).toBe('Period against colour at 650 Myr');
+    const sky = el().querySelector<HTMLButtonElement>('button[aria-label="Sky window of Star A from N1"]')!;
+    sky.click();
+    TestBed.tick();
+    const req = backend.expectOne((r) => r.url === '/api/review/my/41/targets/1/sky');
+    expect(req.request.params.get('nodeId')).toBe('5');
+    req.flush({}, { status: 500, statusText: 'Server Error' });
   });
 
   it('shows the PI and affiliations when the cycle is not anonymous', async () => {

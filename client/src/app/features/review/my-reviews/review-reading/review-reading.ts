@@ -1,6 +1,6 @@
 import { DecimalPipe, PercentPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, DestroyRef, effect, inject, input, signal } from '@angular/core';
-import { MatButton } from '@angular/material/button';
+import { MatButton, MatIconButton } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
@@ -12,6 +12,9 @@ import { RISK_LABELS, type TargetRisk } from '@spincycle/shared/review/technical
 import { loadErrorText } from '../../../../core/http/api-error-message';
 import { LoadStatus } from '../../../../ui/load-status/load-status';
 import { UtcInstantPipe } from '../../../../ui/time/date-pipes';
+import { ClusterChart, type ClusterPointSelection } from '../../../proposals/plans/cluster-chart/cluster-chart';
+import { SkyWindowDialog, type SkyWindowDialogData } from '../../../proposals/targets/sky-window-dialog/sky-window-dialog';
+import type { PlanMarker } from '@spincycle/shared/proposals/plan-types';
 import { ConflictDialog, ConflictDialogData } from '../conflict-dialog/conflict-dialog';
 import { parseGrade, ReviewSaver, type ReviewDraft } from '../review-saver';
 import { ReviewingApi } from '../reviewing-api';
@@ -26,9 +29,11 @@ import { ReviewingApi } from '../reviewing-api';
   selector: 'app-review-reading',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
+    ClusterChart,
     DecimalPipe,
     LoadStatus,
     MatButton,
+    MatIconButton,
     MatFormField,
     MatHint,
     MatIcon,
@@ -54,6 +59,37 @@ export default class ReviewReading {
   private readonly sanitizer = inject(DomSanitizer);
   protected readonly proposal = this.api.proposalResource(this.id);
   protected readonly data = computed<ReviewProposal | null>(() => (this.proposal.hasValue() ? this.proposal.value() : null));
+  /** Plan markers of the period–colour chart (feasibility and period per target and node). */
+  protected readonly markers = computed<PlanMarker[]>(() =>
+    (this.data()?.targets ?? []).flatMap((t) =>
+      t.plans.map((p) => ({ targetId: t.id, nodeId: p.nodeId, feasible: p.feasible, periodDays: p.periodDays })),
+    ),
+  );
+
+  /** Opens a target's sky window from the nodes it was planned on (the requested nodes when none). */
+  protected openSkyWindow(targetId: number, nodeId?: number): void {
+    const d = this.data();
+    const t = d?.targets.find((x) => x.id === targetId);
+    if (!d || !t) return;
+    const planned = t.plans.map((p) => ({ nodeId: p.nodeId, nodeCode: p.nodeCode }));
+    const nodes = planned.length ? planned : d.nodes.map((n) => ({ nodeId: n.id, nodeCode: n.code }));
+    if (!nodes.length) return;
+    const data: SkyWindowDialogData = {
+      proposalId: d.review.proposalId,
+      targetId,
+      targetName: t.name,
+      nodes,
+      nodeId: nodeId ?? nodes[0].nodeId,
+      verdicts: Object.fromEntries(t.plans.map((p) => [p.nodeId, p.skyVerdict])),
+      reviewing: true,
+    };
+    this.dialog.open(SkyWindowDialog, { data, width: '880px', maxWidth: '95vw' });
+  }
+
+  protected onPointSelected(selection: ClusterPointSelection): void {
+    this.openSkyWindow(selection.targetId, selection.nodeIds[0]);
+  }
+
   protected readonly error = computed(() => {
     if (this.id() === null) return 'There is no proposal at this address.';
     return loadErrorText(this.proposal.error(), 'This proposal could not be loaded.');
