@@ -17,7 +17,10 @@ import { DEMO_PASSWORD } from '../demo-accounts';
  *   proposals, three reviewers each, every grade in and submitted; the standing not yet locked;
  * - "<year>-R2", in review (deadline in two weeks, anonymous): panel "Upper Meadow" chaired by
  *   another reviewer, with the demo reviewer and the demo chair; eight proposals, three
- *   reviewers each, some grades saved; the demo reviewer has graded one of five.
+ *   reviewers each, some grades saved; the demo reviewer has graded one of five;
+ * - "<year>-R0", an earlier round whose review ended weeks ago and whose campaign began twenty
+ *   nights ago: panel "Willow Ford" of five other reviewers, eight proposals, every grade in
+ *   (04-awards locks its standing and decides its awards).
  * Proposals are small invented target lists by invented proposers (plans computed in-process).
  * Every name is invented. Runs after 02-proposals (whose truncation, with 01-demo's, clears
  * what this seed wrote before).
@@ -62,6 +65,14 @@ const SUBJECTS: [string, string, number][] = [
   ['Spot evolution in active K dwarfs', 'How quickly do spot patterns of active K dwarfs change between rotations?', 2],
   ['Periods across the fully convective boundary', 'Mid M dwarfs near the fully convective boundary, with ages from companions.', 1],
   ['A rotation census of the Sorrel group', 'Every cool member of an invented 500 Myr group brighter than V = 14.', 0],
+  ['Rotation of the Tansy cluster’s K dwarfs', 'K dwarfs of an invented 600 Myr cluster, for the slope of the relation.', 0],
+  ['Old suns near the galactic plane', 'Solar-type field stars with asteroseismic-like ages from an invented catalogue.', 1],
+  ['Two-site cadence for half-day periods', 'Does a second site break the one-day alias for periods near half a day?', 2],
+  ['The Gorse association at 40 Myr', 'Pre-main-sequence rotators of an invented young association.', 0],
+  ['Rotation of wide companions to white dwarfs', 'Cool companions whose ages come from their white dwarfs.', 1],
+  ['Spot lifetimes from a long season', 'One season of dense sampling to measure how long spot groups live.', 2],
+  ['Late K dwarfs of the Yarrow cluster', 'Late K members of an invented 2.5 Gyr cluster, where the relation is least tested.', 0],
+  ['Periods of nearby high-velocity dwarfs', 'Old thick-disc-like dwarfs: do they spin as slowly as their kinematics say?', 1],
 ];
 
 /** A small invented target list: cool dwarfs around one position, one age (a group) or several (field). */
@@ -173,6 +184,16 @@ async function seedReview(knex: Knex): Promise<void> {
     anonymous: true,
   });
 
+  const r0 = await makeCycle({
+    code: `${year}-R0`,
+    title: 'Pilot rotation round 0',
+    opens: -150,
+    closes: -100,
+    deadline: -60,
+    start: -20,
+    anonymous: false,
+  });
+
   const makePanel = async (cycleId: number, name: string, chairId: number, memberIds: number[]) => {
     const [panel] = await knex('panels')
       .insert({ cycle_id: cycleId, name, chair_account_id: chairId, spread_threshold: 3 })
@@ -185,6 +206,9 @@ async function seedReview(knex: Knex): Promise<void> {
   const panelBMembers = [reviewerIds[3], demoReviewer.id, demoChair.id, reviewerIds[4], reviewerIds[1]];
   const panelA = await makePanel(r1, 'Lower Meadow', demoChair.id, panelAMembers);
   const panelB = await makePanel(r2, 'Upper Meadow', reviewerIds[3], panelBMembers);
+  // Panel C (round 0): five reviewers other than the demo reviewer and chair, so that their own pages stay as above.
+  const panelCMembers = [reviewerIds[2], reviewerIds[0], reviewerIds[1], reviewerIds[3], reviewerIds[4]];
+  const panelC = await makePanel(r0, 'Willow Ford', reviewerIds[2], panelCMembers);
 
   const grades = seededRandom(4242);
   // A reviewer's habit: some grade high, some low, which the normalised grades take out.
@@ -240,5 +264,6 @@ async function seedReview(knex: Knex): Promise<void> {
     }
   };
   await seedCycle(r1, panelA, panelAMembers, SUBJECTS.slice(0, 8), 0, true);
-  await seedCycle(r2, panelB, panelBMembers, SUBJECTS.slice(8), 8, false);
+  await seedCycle(r2, panelB, panelBMembers, SUBJECTS.slice(8, 16), 8, false);
+  await seedCycle(r0, panelC, panelCMembers, SUBJECTS.slice(16, 24), 16, true);
 }

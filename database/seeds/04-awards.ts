@@ -5,7 +5,7 @@ import { initialStandingOrder } from '../../shared/src/review/standing';
 import { findAccountByEmail } from '../../server/src/features/accounts/account-repository';
 
 /**
- * Demo awards: the "<year>-R1" cycle of 03-review gets its panel's standing locked (from the
+ * Demo awards: the "<year>-R0" cycle of 03-review gets its panel's standing locked (from the
  * normalised grades, as the chair would lock it) the day before yesterday, which makes its
  * proposals ranked, and the demo manager's decisions on five of its eight proposals, within
  * each node's capacity: two awarded what their feasible plans need, one partial award (its
@@ -38,12 +38,11 @@ const NOTES = {
 
 async function seedAwards(knex: Knex): Promise<void> {
   const year = startOfDay(new Date()).getUTCFullYear();
-  const cycle = (await knex('cycles').where('code', `${year}-R1`).first('id')) as { id: number } | undefined;
-  if (!cycle) throw new Error(`04-awards needs the cycle ${year}-R1 of 03-review`);
+  const cycle = (await knex('cycles').where('code', `${year}-R0`).first('id')) as { id: number } | undefined;
+  if (!cycle) throw new Error(`04-awards needs the cycle ${year}-R0 of 03-review`);
   const manager = (await findAccountByEmail(knex, 'manager@halcyon.example'))!;
-  const chair = (await findAccountByEmail(knex, 'chair@halcyon.example'))!;
-  const panel = (await knex('panels').where('cycle_id', cycle.id).orderBy('id').first('id', 'standing_locked_at')) as
-    { id: number; standing_locked_at: Date | null } | undefined;
+  const panel = (await knex('panels').where('cycle_id', cycle.id).orderBy('id').first('id', 'standing_locked_at', 'chair_account_id')) as
+    { id: number; standing_locked_at: Date | null; chair_account_id: number } | undefined;
   if (!panel) throw new Error('04-awards needs the panel of 03-review');
 
   // Start over with this seed's own rows.
@@ -84,7 +83,12 @@ async function seedAwards(knex: Knex): Promise<void> {
     );
     await knex('panels')
       .where('id', panel.id)
-      .update({ standing_locked_at: lockedAt, standing_locked_by: chair.id, version: knex.raw('version + 1'), updated_at: knex.fn.now() });
+      .update({
+        standing_locked_at: lockedAt,
+        standing_locked_by: panel.chair_account_id,
+        version: knex.raw('version + 1'),
+        updated_at: knex.fn.now(),
+      });
   }
   await knex('proposals')
     .whereIn('id', order)
