@@ -17,6 +17,7 @@ import { createCycleRoutes } from './features/cycles/cycle-routes';
 import { createReviewRoutes } from './features/review/review-routes';
 import { createFacilityRoutes } from './features/facility/facility-routes';
 import { createHealthRoutes } from './features/health/health-routes';
+import { createNightPlanRoutes } from './features/night-plans/night-plan-routes';
 import { createProposalRoutes } from './features/proposals/proposal-routes';
 import { createTargetListRoutes } from './features/proposals/targets/target-routes';
 import { createInvitationRoutes } from './features/proposals/team/member-routes';
@@ -25,6 +26,7 @@ import { createCsrf } from './http/csrf';
 import { apiNotFound, errorHandler } from './http/error-handler';
 import { createRequestLogger } from './http/request-logger';
 import { endSessionsOlderThan, storeSignedInSessionsOnly, throttleSessionTouch } from './http/session-lifetime';
+import { createPgBossNightPlanQueue } from './jobs/night-plan-queue';
 import { createPgBossPlanQueue } from './jobs/plan-queue';
 import { createLogger } from './logger';
 import { createSmtpMailer } from './mail/mailer';
@@ -46,6 +48,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
     db: overrides.ctx?.db ?? createDb(config, logger),
     mailer: overrides.ctx?.mailer ?? createSmtpMailer(config),
     planQueue: overrides.ctx?.planQueue ?? createPgBossPlanQueue(config, logger),
+    nightPlanQueue: overrides.ctx?.nightPlanQueue ?? createPgBossNightPlanQueue(config, logger),
     now: overrides.ctx?.now ?? (() => new Date()),
   };
   const production = config.NODE_ENV === 'production';
@@ -105,6 +108,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   api.use('/target-lists', createTargetListRoutes(ctx));
   api.use('/review', createReviewRoutes(ctx));
   api.use('/awards', createAwardRoutes(ctx));
+  api.use('/night-plans', createNightPlanRoutes(ctx));
   api.use('/', createFacilityRoutes(ctx));
   app.use('/api', api);
   app.use('/api', apiNotFound);
@@ -127,6 +131,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
     async close() {
       ctx.mailer.close();
       await ctx.planQueue.close().catch((err) => logger.error({ err }, 'closing the plan queue failed'));
+      await ctx.nightPlanQueue?.close().catch((err) => logger.error({ err }, 'closing the night-plan queue failed'));
       await Promise.allSettled([ctx.db.destroy(), sessionPool.end()]);
     },
   };

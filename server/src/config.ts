@@ -69,6 +69,17 @@ const envSchema = z.object({
     .string()
     .regex(/^[A-Za-z0-9_.-]+$/)
     .default('proposal-plans'),
+  /**
+   * Whether the worker process works the target-plan queue (`on`, the default). `off` runs only
+   * the night-plan worker: for a test that spawns worker processes on the shared test database,
+   * whose plan worker would otherwise queue again (and compute) other suites' unfinished plan runs.
+   */
+  PLAN_WORKER: z.enum(['on', 'off']).default('on'),
+  /** pg-boss queue of the night-plan node jobs (tests use their own name to keep their jobs apart). */
+  NIGHT_PLAN_QUEUE: z
+    .string()
+    .regex(/^[A-Za-z0-9_.-]+$/)
+    .default('night-plans'),
   /** How often an idle plan worker looks for new jobs, seconds. */
   PLAN_WORKER_POLL_SECONDS: z.coerce.number().min(0.5).max(60).default(1),
   /**

@@ -1,12 +1,13 @@
 import { loadConfig } from './config';
 import { createDb } from './db/knex';
 import { instanceId } from './features/health/instance-id';
+import { startNightPlanWorker } from './jobs/night-plan-worker';
 import { startPlanWorker } from './jobs/plan-worker';
 import { createLogger } from './logger';
 
 /**
- * The background worker process: computes target plans from the pg-boss queue in the
- * application's database. Started by `npm start` beside the web server; any number may run,
+ * The background worker process: computes target plans and night plans (one job per node of a
+ * build) from the pg-boss queues in the application's database (PLAN_WORKER=off: night plans only). Started by `npm start` beside the web server; any number may run,
  * on any machine that reaches the database. SIGINT/SIGTERM let a running job finish first
  * (pg-boss graceful stop, up to 20 s; a job cut off then is queued again at the next start).
  * Started with an IPC channel (by `npm start` or the browser suite), it reports
@@ -18,7 +19,11 @@ const db = createDb(config, logger);
 
 let stopping = false;
 async function main(): Promise<void> {
-  const worker = await startPlanWorker({ config, db, logger });
+  const plans = config.PLAN_WORKER === 'on' ? await startPlanWorker({ config, db, logger }) : null;
+  const nightPlans = await startNightPlanWorker({ config, db, logger });
+  const worker = {
+    stop: (timeoutMs: number) => Promise.all([plans?.stop(timeoutMs), nightPlans.stop(timeoutMs)]),
+  };
   const shutdown = (signal: string) => {
     if (stopping) return;
     stopping = true;

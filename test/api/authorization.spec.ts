@@ -437,12 +437,12 @@ describe('coverage', () => {
         return `${method} /api/proposals${rest}`;
       }),
     ]);
-    // Review's and awards' routes have their own matrices (test/api/review-*-permissions.spec.ts,
-    // test/api/awards-permissions.spec.ts: reviewers assigned, conflicted, chairs and teams need
-    // fixtures of their own); each path must appear there, with its parameters written as
-    // `:name` or as a template value.
+    // Review's, awards' and night plans' routes have their own matrices (test/api/review-*-permissions.spec.ts,
+    // test/api/awards-permissions.spec.ts, test/api/night-plans-permissions.spec.ts: reviewers
+    // assigned, conflicted, chairs and teams need fixtures of their own); each path must appear
+    // there, with its parameters written as `:name` or as a template value.
     const reviewMatrices = readdirSync(__dirname)
-      .filter((f) => /^(review|awards)-.*-permissions\.spec\.ts$|^awards-permissions\.spec\.ts$/.test(f))
+      .filter((f) => /^(review|awards)-.*-permissions\.spec\.ts$|^(awards|night-plans)-permissions\.spec\.ts$/.test(f))
       .map((f) => readFileSync(path.join(__dirname, f), 'utf8'))
       .join('\n');
     const inReviewMatrices = (route: string) => {
@@ -453,7 +453,7 @@ describe('coverage', () => {
         .join('');
       return new RegExp(`${pattern}(?![\\w/.])`).test(reviewMatrices);
     };
-    const review = found.filter((r) => /^\/api\/(review|awards)\//.test(r.split(' ')[1]));
+    const review = found.filter((r) => /^\/api\/(review|awards|night-plans)\//.test(r.split(' ')[1]));
     expect(review.filter((r) => !inReviewMatrices(r))).toEqual([]);
     const others = found.filter((r) => !review.includes(r));
     expect(others.length).toBeGreaterThan(30);

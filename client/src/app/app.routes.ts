@@ -61,6 +61,12 @@ export const routes: Routes = [
     loadChildren: () => import('./features/awards/awards.routes'),
   },
   {
+    // The facility manager's night plans: each node's visits night by night, lost nights, execution and program progress.
+    path: 'night-plans',
+    canActivate: [authGuard, roleGuard('facility_manager')],
+    loadChildren: () => import('./features/night-plans/night-plans.routes'),
+  },
+  {
     path: 'admin',
     canActivate: [authGuard, roleGuard('administrator')],
     loadChildren: () => import('./features/admin/admin.routes'),

@@ -40,7 +40,9 @@ const problemArb = fc
 function feasibleByBruteForce(problem: AssignmentProblem): boolean {
   const k = problem.reviewersPerProposal;
   const R = problem.reviewers.map((r) => r.id);
-  const fixedLoad = new Map(R.map((r) => [r, problem.fixed.filter((f) => f.reviewerId === r).length]));
+  // A pair fixed twice is one assignment (the database holds each pair once).
+  const fixed = [...new Map(problem.fixed.map((f) => [`${f.proposalId}:${f.reviewerId}`, f])).values()];
+  const fixedLoad = new Map(R.map((r) => [r, fixed.filter((f) => f.reviewerId === r).length]));
   const fixedOf = (p: number) => new Set(problem.fixed.filter((f) => f.proposalId === p).map((f) => f.reviewerId));
   const choices = problem.proposals.map((p) => {
     const need = Math.max(0, k - fixedOf(p.id).size);

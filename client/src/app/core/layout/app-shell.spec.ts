@@ -65,12 +65,14 @@ describe('AppShell', () => {
     expect(navLabels(await render())).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Accounts']);
   });
 
-  it('facility manager: Cycles, Review and Awards, each a link to its page', async () => {
+  it('facility manager: Cycles, Review, Awards and Night plans, each a link to its page', async () => {
     await seedSession(testUser(['facility_manager']));
     const host = await render();
-    expect(navLabels(host)).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles', 'Review', 'Awards']);
+    expect(navLabels(host)).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles', 'Review', 'Awards', 'Night plans']);
     const awards = Array.from(host.querySelectorAll('nav a')).find((a) => a.textContent?.includes('Awards'));
     expect(awards?.getAttribute('href')).toBe('/awards');
+    const nightPlans = Array.from(host.querySelectorAll('nav a')).find((a) => a.textContent?.includes('Night plans'));
+    expect(nightPlans?.getAttribute('href')).toBe('/night-plans');
   });
 
   it('the menu names the person and their roles, and Sign out posts and goes to sign-in', async () => {

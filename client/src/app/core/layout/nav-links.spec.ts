@@ -23,8 +23,17 @@ describe('visibleNavLinks', () => {
     ]);
   });
 
-  it('proposer: Proposals; facility manager: Cycles, Review and Awards', () => {
+  it('proposer: Proposals; facility manager: Cycles, Review, Awards and Night plans', () => {
     expect(labels({ roles: ['proposer'] })).toEqual(['Home', 'Proposals', 'Target planner', 'Network', 'Methods']);
-    expect(labels({ roles: ['facility_manager'] })).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles', 'Review', 'Awards']);
+    expect(labels({ roles: ['facility_manager'] })).toEqual([
+      'Home',
+      'Target planner',
+      'Network',
+      'Methods',
+      'Cycles',
+      'Review',
+      'Awards',
+      'Night plans',
+    ]);
   });
 });

@@ -23,6 +23,7 @@ export const NAV_LINKS: readonly NavLink[] = [
   { path: '/cycles', label: 'Cycles', icon: 'event_repeat', roles: ['facility_manager'] },
   { path: '/review/manage', label: 'Review', icon: 'groups', roles: ['facility_manager'] },
   { path: '/awards', label: 'Awards', icon: 'workspace_premium', roles: ['facility_manager'] },
+  { path: '/night-plans', label: 'Night plans', icon: 'bedtime', roles: ['facility_manager'] },
   { path: '/admin/accounts', label: 'Accounts', icon: 'manage_accounts', roles: ['administrator'] },
 ];
 

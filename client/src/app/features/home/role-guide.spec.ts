@@ -34,11 +34,12 @@ describe('ROLE_GUIDE', () => {
     expect(ROLE_GUIDE.administrator.upcoming).toBeUndefined();
   });
 
-  it("the facility manager's card leads to Cycles, Review, then Awards", () => {
-    expect(ROLE_GUIDE.facility_manager.links.slice(0, 3)).toEqual([
+  it("the facility manager's card leads to Cycles, Review, Awards, then Night plans", () => {
+    expect(ROLE_GUIDE.facility_manager.links.slice(0, 4)).toEqual([
       { label: 'Cycles', path: '/cycles' },
       { label: 'Review', path: '/review/manage' },
       { label: 'Awards', path: '/awards' },
+      { label: 'Night plans', path: '/night-plans' },
     ]);
   });
 });

@@ -47,7 +47,14 @@ export const ROLE_GUIDE: Record<Role, RoleGuide> = {
   facility_manager: {
     summary:
       'Keep nodes and sites up to date, open cycles with node-hours per node, form panels, decide awards against capacity and turn awards into night plans.',
-    links: [CYCLES, { label: 'Review', path: '/review/manage' }, { label: 'Awards', path: '/awards' }, PLANNER, NETWORK],
+    links: [
+      CYCLES,
+      { label: 'Review', path: '/review/manage' },
+      { label: 'Awards', path: '/awards' },
+      { label: 'Night plans', path: '/night-plans' },
+      PLANNER,
+      NETWORK,
+    ],
   },
   billing_contact: {
     summary: "Settle the fees of your teams' programs: the invoices for awarded node-hours, payment by card and the receipts.",

@@ -8,6 +8,7 @@ import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { MatInputHarness } from '@angular/material/input/testing';
 import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
 import { testTeamDecision } from '../../awards/testing/award-fixtures';
+import { testProgram } from '../../night-plans/testing/night-plan-fixtures';
 import { AUTOSAVE_DEBOUNCE_MS, ProposalStore } from '../proposal-store';
 import { testCycle, testProposal } from '../testing/fixtures';
 import ProposalOverview, { requestRows } from './proposal-overview';
@@ -299,16 +300,39 @@ describe('ProposalOverview decision card', () => {
   it('a released decision shows at the top of the overview', async () => {
     await render('awarded');
     backend.expectOne('/api/awards/proposals/5/decision').flush(testTeamDecision());
+    backend
+      .expectOne('/api/night-plans/programs/5')
+      .flush({ code: 'not_found', message: 'No plan yet.' }, { status: 404, statusText: 'Not Found' });
     await fixture.whenStable();
     const card = fixture.nativeElement.querySelector('[data-testid=decision-card]') as HTMLElement;
     expect(card.textContent).toContain('Your proposal was awarded node-hours.');
     expect(fixture.nativeElement.firstElementChild?.tagName.toLowerCase()).toBe('app-decision-card');
   });
 
+  it('an awarded proposal shows its program progress below the decision', async () => {
+    await render('awarded');
+    backend.expectOne('/api/awards/proposals/5/decision').flush(testTeamDecision());
+    backend.expectOne('/api/night-plans/programs/5').flush(testProgram({ proposalId: 5 }));
+    await fixture.whenStable();
+    const card = fixture.nativeElement.querySelector('[data-testid=program-progress-card]') as HTMLElement;
+    expect(card.textContent).toContain('6 of 34 planned visits done so far.');
+    const order = [...(fixture.nativeElement as HTMLElement).children].map((c) => c.tagName.toLowerCase());
+    expect(order.indexOf('app-program-progress-card')).toBe(order.indexOf('app-decision-card') + 1);
+  });
+
+  it('a reserve proposal has no program: its progress is not asked', async () => {
+    await render('reserve');
+    backend.expectOne('/api/awards/proposals/5/decision').flush(testTeamDecision({ outcome: 'reserve' }));
+    await fixture.whenStable();
+    backend.expectNone('/api/night-plans/programs/5');
+    expect(fixture.nativeElement.querySelector('app-program-progress-card')).toBeNull();
+  });
+
   it('before the release (a ranked proposal) nothing is asked and no card shows', async () => {
     await render('ranked');
     await fixture.whenStable();
     backend.expectNone('/api/awards/proposals/5/decision');
+    backend.expectNone('/api/night-plans/programs/5');
     expect(fixture.nativeElement.querySelector('app-decision-card')).toBeNull();
   });
 });

@@ -24,6 +24,7 @@ import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/s
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { formatClockTime } from '../../../ui/time/date-format';
 import { DecisionCard } from '../../awards/decision-card/decision-card';
+import { ProgramProgressCard } from '../../night-plans/program-progress-card/program-progress-card';
 import { OverviewValues, overviewOf, ProposalStore } from '../proposal-store';
 
 /** One row of the request table: the proposal's request on a node against the cycle's capacity there. */
@@ -101,6 +102,7 @@ function completenessPercentValidator(control: AbstractControl<number | null>): 
     MatSelect,
     MatSuffix,
     PercentPipe,
+    ProgramProgressCard,
     ReactiveFormsModule,
   ],
   templateUrl: './proposal-overview.html',

@@ -24,6 +24,7 @@ import { isApiErrorBody } from '@spincycle/shared/http/api-error';
 import { filter, of, switchMap } from 'rxjs';
 import { readApiError } from '../../../../core/http/api-error-message';
 import { confirmAction } from '../../../../ui/confirm-dialog/confirm-dialog';
+import { CsvRowErrors } from '../../../../ui/csv-row-errors/csv-row-errors';
 import { TargetApi, TargetUploadMode, TargetUploadResult } from '../target-api';
 
 /** What the results panel shows after an upload. */
@@ -46,6 +47,7 @@ function rowErrorsOf(error: unknown): CsvRowError[] {
   selector: 'app-target-upload',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
+    CsvRowErrors,
     DecimalPipe,
     MatButton,
     MatCell,

@@ -1,0 +1,187 @@
+import { HttpErrorResponse } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { MatButton } from '@angular/material/button';
+import { MatCard } from '@angular/material/card';
+import { MatIcon } from '@angular/material/icon';
+import { PROGRAM_STATE_LABELS } from '@spincycle/shared/awards/awards';
+import type { ProgramProgress } from '@spincycle/shared/night-plans/night-plans';
+import { loadErrorText } from '../../../core/http/api-error-message';
+import { LoadStatus } from '../../../ui/load-status/load-status';
+import { NightPlansApi } from '../night-plans-api';
+import { RECOVERY_EXPLANATION } from '../night-plan-format';
+import { risksOf } from '../programs-table/programs-table';
+import { RecoveryBar } from '../programs-table/recovery-bar';
+
+let nextId = 0;
+
+/**
+ * The team's view of its program once the facility plans its nights: visits done, planned
+ * and required, the chance that the planned visits reveal the targets' periods (explained on
+ * demand), and the targets at risk with the reasons. Shows nothing while there is no program
+ * or no plan (404).
+ */
+@Component({
+  selector: 'app-program-progress-card',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+  imports: [LoadStatus, MatButton, MatCard, MatIcon, RecoveryBar],
+  template: `
+    @if (program(); as p) {
+      <mat-card appearance="outlined" class="progress-card" data-testid="program-progress-card">
+        <section [attr.aria-labelledby]="uid + '-title'">
+          <h2 [id]="uid + '-title'">Program progress</h2>
+          <p class="muted">Program {{ stateLabel(p) }}. The facility plans your visits night by night on its nodes.</p>
+          <p data-testid="program-visits">
+            <strong>{{ p.visitsDone }} of {{ p.visitsPlanned }}</strong> planned {{ p.visitsPlanned === 1 ? 'visit' : 'visits' }} done so
+            far.
+            {{ needed(p) }}
+          </p>
+          <div class="bar" aria-hidden="true">
+            <span class="done" [style.inline-size.%]="share(p.visitsDone, p)"></span>
+            <span class="planned" [style.inline-size.%]="share(p.visitsPlanned - p.visitsDone, p)"></span>
+          </div>
+
+          <h3>Chance of measuring the periods</h3>
+          <p class="recovery">
+            <app-recovery-bar [fraction]="p.recoveryFraction" />
+            <button
+              matButton
+              type="button"
+              (click)="explain.set(!explain())"
+              [attr.aria-expanded]="explain()"
+              [attr.aria-controls]="uid + '-why'"
+              data-testid="program-recovery-why"
+            >
+              What does this mean?
+            </button>
+          </p>
+          @if (explain()) {
+            <p class="muted explanation" [id]="uid + '-why'" data-testid="program-recovery-explanation">{{ meaning }}</p>
+          }
+
+          <h3>Targets at risk</h3>
+          @if (risks(p); as r) {
+            @if (r.length) {
+              <ul class="risks" data-testid="program-risks">
+                @for (x of r; track x.target) {
+                  <li>
+                    <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">warning</mat-icon>
+                    <span
+                      ><strong>{{ x.target }}</strong
+                      >: {{ x.reasons.join(' ') }}</span
+                    >
+                  </li>
+                }
+              </ul>
+            } @else {
+              <p class="muted" data-testid="program-risks">None: every target's visits keep their cadence as planned.</p>
+            }
+          }
+        </section>
+      </mat-card>
+    } @else if (error(); as e) {
+      <app-load-status [error]="e" (retry)="resource.reload()" data-testid="program-progress-error" />
+    }
+  `,
+  styles: `
+    :host {
+      display: block;
+    }
+    .progress-card {
+      margin: 0 0 16px;
+    }
+    section {
+      padding: 12px 16px 16px;
+    }
+    h2 {
+      font: var(--mat-sys-title-medium);
+      margin: 0 0 8px;
+    }
+    h3 {
+      font: var(--mat-sys-title-small);
+      margin: 16px 0 4px;
+    }
+    .muted {
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .explanation {
+      max-inline-size: 80ch;
+    }
+    .bar {
+      display: flex;
+      block-size: 10px;
+      max-inline-size: 480px;
+      border-radius: 5px;
+      overflow: hidden;
+      background: var(--mat-sys-surface-container-highest);
+      outline: 1px solid var(--mat-sys-outline-variant);
+    }
+    .bar .done {
+      background: var(--mat-sys-primary);
+    }
+    .bar .planned {
+      background: color-mix(in srgb, var(--mat-sys-primary) 35%, transparent);
+    }
+    .recovery {
+      display: flex;
+      flex-wrap: wrap;
+      align-items: center;
+      gap: 8px;
+      margin: 0;
+    }
+    .risks {
+      margin: 0;
+      padding: 0;
+      list-style: none;
+    }
+    .risks li {
+      display: flex;
+      gap: 6px;
+      align-items: flex-start;
+      margin-block: 4px;
+    }
+    .risks mat-icon {
+      flex: none;
+      font-size: 18px;
+      inline-size: 18px;
+      block-size: 18px;
+      color: var(--mat-sys-error);
+    }
+  `,
+})
+export class ProgramProgressCard {
+  /** The awarded proposal whose program this is. */
+  readonly proposalId = input.required<number>();
+  private readonly api = inject(NightPlansApi);
+
+  protected readonly uid = `program-progress-${++nextId}`;
+  protected readonly resource = this.api.programResource(() => this.proposalId());
+  protected readonly program = computed<ProgramProgress | null>(() => (this.resource.hasValue() ? this.resource.value() : null));
+  /** No program or no plan yet (404): nothing to show. Any other failure: a small error state. */
+  protected readonly error = computed(() => {
+    const err = this.resource.error();
+    if (!err) return null;
+    const cause = err instanceof HttpErrorResponse ? err : (err as { cause?: unknown }).cause;
+    if (cause instanceof HttpErrorResponse && cause.status === 404) return null;
+    return loadErrorText(err, 'The progress of your program could not be loaded.');
+  });
+  protected readonly explain = signal(false);
+  protected readonly meaning = RECOVERY_EXPLANATION;
+  protected readonly risks = risksOf;
+
+  protected stateLabel(p: ProgramProgress): string {
+    return PROGRAM_STATE_LABELS[p.programState].toLowerCase();
+  }
+
+  /** "Your targets need 40 visits in all; 6 could not be fitted into the nights awarded." */
+  protected needed(p: ProgramProgress): string {
+    const all = `Your targets need ${p.visitsRequired} ${p.visitsRequired === 1 ? 'visit' : 'visits'} in all`;
+    const short = p.visitsRequired - p.visitsPlanned;
+    return short > 0 ? `${all}; ${short} could not be fitted into the nights awarded.` : `${all}, and all of them are planned.`;
+  }
+
+  /** Percent of the visits required (the bar's scale). */
+  protected share(visits: number, p: ProgramProgress): number {
+    const scale = Math.max(p.visitsRequired, p.visitsPlanned);
+    return scale > 0 ? (Math.max(0, visits) / scale) * 100 : 0;
+  }
+}
