@@ -245,8 +245,8 @@ export interface AuditEntry {
   at: string;
   /** Display name of who did it; null when that account no longer exists. */
   actorName: string | null;
-  /** What changed: `award` (a decision), `release`, `program`. */
-  entity: 'award' | 'release' | 'program';
+  /** What changed: `award` (a decision), `release`, `program`; from night plans `night_plan` (a build), `lost_night`, `visit`. */
+  entity: 'award' | 'release' | 'program' | 'night_plan' | 'lost_night' | 'visit';
   entityId: number;
   /** The proposal's title when the entry concerns one. */
   proposalTitle: string | null;

@@ -447,11 +447,14 @@ export async function writeAward(
   }
 }
 
-/** One audit entry to write. */
+/** What an audit entry is about: awards (this feature) and night plans (features/night-plans). */
+export type AuditEntity = 'award' | 'release' | 'program' | 'night_plan' | 'lost_night' | 'visit';
+
+/** One audit entry to write (the audit log of every feature of a cycle). */
 export interface AuditInsert {
   actorAccountId: number | null;
   cycleId: number;
-  entity: 'award' | 'release' | 'program';
+  entity: AuditEntity;
   entityId: number;
   action: string;
   before: unknown;
@@ -483,7 +486,7 @@ export interface StoredAuditEntry {
   id: number;
   at: Date;
   actorName: string | null;
-  entity: 'award' | 'release' | 'program';
+  entity: AuditEntity;
   entityId: number;
   proposalTitle: string | null;
   action: string;

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { insertAudit, type AuditEntity, type AuditInsert } from '../awards/award-repository';
 import type { NightPlanBuildKind, NightPlanBuildState, NightPlanBuildStatus, VisitStatus } from '@spincycle/shared/night-plans/night-plans';
 import type { ProgramState } from '@spincycle/shared/awards/awards';
 
@@ -413,31 +414,17 @@ export async function listLostNights(db: Knex, cycleId: number, nodeId: number) 
 }
 
 /** One audit entry of the night plans. */
-export interface NightPlanAudit {
-  actorAccountId: number;
-  cycleId: number;
-  entity: 'night_plan' | 'lost_night' | 'visit';
-  entityId: number;
-  action: string;
+export interface NightPlanAudit extends Omit<AuditInsert, 'entity' | 'before' | 'after' | 'reason'> {
+  entity: Extract<AuditEntity, 'night_plan' | 'lost_night' | 'visit'>;
   before?: unknown;
   after?: unknown;
   reason?: string | null;
-  at: Date;
 }
 
+/** Writes night-plan entries into the cycle's audit log (awards' insertAudit). */
 export async function insertNightPlanAudit(db: Knex, entries: NightPlanAudit[]): Promise<void> {
-  if (!entries.length) return;
-  await db('audit_log').insert(
-    entries.map((e) => ({
-      at: e.at,
-      actor_account_id: e.actorAccountId,
-      cycle_id: e.cycleId,
-      entity: e.entity,
-      entity_id: e.entityId,
-      action: e.action,
-      before: e.before === undefined || e.before === null ? null : JSON.stringify(e.before),
-      after: e.after === undefined || e.after === null ? null : JSON.stringify(e.after),
-      reason: e.reason ?? null,
-    })),
+  await insertAudit(
+    db,
+    entries.map((e) => ({ ...e, before: e.before ?? null, after: e.after ?? null, reason: e.reason ?? null })),
   );
 }

@@ -24,3 +24,15 @@ export function readApiError(error: unknown): ApiErrorBody {
 export function loadErrorText(error: unknown, lead: string): string | null {
   return error ? `${lead} ${readApiError(error).message}` : null;
 }
+
+/**
+ * As loadErrorText, but null for a 404 too: for a card that shows nothing when there is nothing
+ * yet (a decision not released, a program not planned). Reads the status from the error or, for
+ * a resource's error, from its cause.
+ */
+export function loadErrorTextUnlessMissing(error: unknown, lead: string): string | null {
+  if (!error) return null;
+  const cause = error instanceof HttpErrorResponse ? error : (error as { cause?: unknown }).cause;
+  if (cause instanceof HttpErrorResponse && cause.status === 404) return null;
+  return loadErrorText(error, lead);
+}

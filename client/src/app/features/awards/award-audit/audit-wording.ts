@@ -26,6 +26,9 @@ const ACTIONS: Record<AuditEntry['entity'], Record<string, string>> = {
     reinstated: 'Reinstated the program',
     withdrawn: 'Withdrew the program',
   },
+  night_plan: { build: 'Built the night plans' },
+  lost_night: { mark_lost: 'Marked a night lost', unmark_lost: 'Marked a night usable again' },
+  visit: { set_status: 'Changed a visit', execution_upload: 'Uploaded an execution log' },
 };
 
 /** `mailFailures` → `mail failures`; `program_state` → `program state`. */

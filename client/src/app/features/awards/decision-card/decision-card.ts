@@ -1,10 +1,9 @@
-import { HttpErrorResponse } from '@angular/common/http';
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { MatCard } from '@angular/material/card';
 import { MatIcon } from '@angular/material/icon';
 import { PROGRAM_STATE_LABELS, type AwardOutcome, type TeamDecision } from '@spincycle/shared/awards/awards';
-import { loadErrorText } from '../../../core/http/api-error-message';
+import { loadErrorTextUnlessMissing } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { LocalInstantPipe, UtcInstantPipe } from '../../../ui/time/date-pipes';
 import { AwardsApi } from '../awards-api';
@@ -196,13 +195,9 @@ export class DecisionCard {
   protected readonly resource = this.api.decisionResource(() => this.proposalId());
   protected readonly decision = computed<TeamDecision | null>(() => (this.resource.hasValue() ? this.resource.value() : null));
   /** Not released yet (404): nothing to show. Any other failure: a small error state. */
-  protected readonly error = computed(() => {
-    const err = this.resource.error();
-    if (!err) return null;
-    const cause = err instanceof HttpErrorResponse ? err : (err as { cause?: unknown }).cause;
-    if (cause instanceof HttpErrorResponse && cause.status === 404) return null;
-    return loadErrorText(err, 'The decision on this proposal could not be loaded.');
-  });
+  protected readonly error = computed(() =>
+    loadErrorTextUnlessMissing(this.resource.error(), 'The decision on this proposal could not be loaded.'),
+  );
 
   protected headline(outcome: AwardOutcome): string {
     return HEADLINES[outcome];

@@ -1,11 +1,10 @@
-import { HttpErrorResponse } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatCard } from '@angular/material/card';
 import { MatIcon } from '@angular/material/icon';
 import { PROGRAM_STATE_LABELS } from '@spincycle/shared/awards/awards';
 import type { ProgramProgress } from '@spincycle/shared/night-plans/night-plans';
-import { loadErrorText } from '../../../core/http/api-error-message';
+import { loadErrorTextUnlessMissing } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { NightPlansApi } from '../night-plans-api';
 import { RECOVERY_EXPLANATION } from '../night-plan-format';
@@ -157,13 +156,9 @@ export class ProgramProgressCard {
   protected readonly resource = this.api.programResource(() => this.proposalId());
   protected readonly program = computed<ProgramProgress | null>(() => (this.resource.hasValue() ? this.resource.value() : null));
   /** No program or no plan yet (404): nothing to show. Any other failure: a small error state. */
-  protected readonly error = computed(() => {
-    const err = this.resource.error();
-    if (!err) return null;
-    const cause = err instanceof HttpErrorResponse ? err : (err as { cause?: unknown }).cause;
-    if (cause instanceof HttpErrorResponse && cause.status === 404) return null;
-    return loadErrorText(err, 'The progress of your program could not be loaded.');
-  });
+  protected readonly error = computed(() =>
+    loadErrorTextUnlessMissing(this.resource.error(), 'The progress of your program could not be loaded.'),
+  );
   protected readonly explain = signal(false);
   protected readonly meaning = RECOVERY_EXPLANATION;
   protected readonly risks = risksOf;
