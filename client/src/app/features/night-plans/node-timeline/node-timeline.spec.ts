@@ -43,8 +43,8 @@ describe('NodeTimeline', () => {
     const nights = [...el().querySelectorAll('button.night')] as HTMLButtonElement[];
     expect(nights.map((b) => b.dataset['testid'])).toEqual(['night-2027-03-01', 'night-2027-03-02', 'night-2027-03-03']);
     // Site time is UTC−3 (fixtures): the done visit at 02:00–03:00 UTC reads 23:00–00:00.
-    expect(nights[0].getAttribute('aria-label')).toBe('1 Mar 2027, 2 visits (1 done, 1 missed), dark 20:00–06:00, Moon 10 % lit');
-    expect(nights[1].getAttribute('aria-label')).toContain('lost: Cloud over the ridge');
+    expect(nights[0].getAttribute('aria-label')).toBe('1 Mon: 1 Mar 2027, 2 visits (1 done, 1 missed), dark 20:00–06:00, Moon 10 % lit');
+    expect(nights[1].getAttribute('aria-label')).toContain('Lost 2 Tue: 2 Mar 2027, lost: Cloud over the ridge');
     expect(nights[1].classList).toContain('lost');
     expect(nights[1].querySelector('[data-testid=lost-label]')?.textContent).toBe('Lost');
     expect(nights[0].querySelector('[data-testid=lost-label]')).toBeNull();

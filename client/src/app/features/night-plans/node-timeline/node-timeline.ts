@@ -167,13 +167,17 @@ export class NodeTimeline {
         moonText,
       ].filter((p): p is string => p !== null);
       const date = new Date(`${night.date}T00:00:00Z`);
+      const day = String(date.getUTCDate());
+      const weekdayText = weekday.format(date);
+      // The name starts with what the button shows, in its order ("Lost", day, weekday), as WCAG's label-in-name asks.
+      const shown = `${night.lost ? 'Lost ' : ''}${day} ${weekdayText}`;
       return {
         night,
-        day: String(date.getUTCDate()),
-        weekday: weekday.format(date),
+        day,
+        weekday: weekdayText,
         dark,
         visits,
-        label: parts.join(', '),
+        label: `${shown}: ${parts.join(', ')}`,
         darkText,
         moonText,
       };
