@@ -30,6 +30,7 @@ interface VisitDb {
   id: number;
   node_id: number;
   target_id: number;
+  proposal_id: number;
   night_date: string;
   start_at: Date;
   end_at: Date;
@@ -239,9 +240,18 @@ describe('after the build', () => {
     const lostDate = nights[Math.floor(nights.length / 2)];
     // A later visit is done already.
     const later = before.find((v) => v.night_date > lostDate)!;
+    const program = await h.created.ctx.db('programs').where({ proposal_id: later.proposal_id }).first('state');
     const put = await manager.put(`/api/night-plans/visits/${later.id}`, { status: 'done' });
     expect(put.status).toBe(200);
     expect(put.body.status).toBe('done');
+    // Its program's first visit done: scheduled → observing, with its audit row.
+    expect(program.state).toBe('scheduled');
+    expect((await h.created.ctx.db('programs').where({ proposal_id: later.proposal_id }).first('state')).state).toBe('observing');
+    expect(
+      await h.created.ctx
+        .db('audit_log')
+        .where({ cycle_id: f.cycleId, entity: 'program', entity_id: later.proposal_id, action: 'observing' }),
+    ).toHaveLength(1);
     const kept = (await visitsOf(nodeId)).filter((v) => v.night_date < lostDate || v.status === 'done');
     const onLost = before.filter((v) => v.night_date === lostDate).map((v) => v.id);
 

@@ -29,6 +29,7 @@ import type { Knex } from 'knex';
 import type { AppContext } from '../../app-context';
 import { AppError, invalidField } from '../../http/app-error';
 import { requireUploadedFile } from '../../http/upload-limits';
+import { insertAudit } from '../awards/award-repository';
 import { listNodes } from '../facility/facility-repository';
 import { accessProposal } from '../proposals/proposal-access';
 import { executionErrors, readExecutionCsv } from './execution-csv';
@@ -502,6 +503,36 @@ export async function unmarkLostNight(ctx: AppContext, viewer: SessionUser, cycl
   });
 }
 
+/**
+ * A program whose first visit is done starts observing (scheduled → observing), in the
+ * transaction that marks the visit, with its audit row. Returns the programs moved.
+ */
+async function startObserving(trx: Knex, cycleId: number, doneVisitIds: number[], actorId: number, at: Date): Promise<number[]> {
+  if (!doneVisitIds.length) return [];
+  const moved = (await trx('programs')
+    .where('cycle_id', cycleId)
+    .where('state', 'scheduled')
+    .whereIn('proposal_id', trx('night_plan_visits').whereIn('id', doneVisitIds).select('proposal_id'))
+    .update({ state: 'observing', version: trx.raw('version + 1'), updated_at: at })
+    .returning('proposal_id')) as { proposal_id: number }[];
+  const ids = moved.map((m) => m.proposal_id);
+  await insertAudit(
+    trx,
+    ids.map((id) => ({
+      actorAccountId: actorId,
+      cycleId,
+      entity: 'program' as const,
+      entityId: id,
+      action: 'observing',
+      before: { state: 'scheduled' },
+      after: { state: 'observing' },
+      reason: 'Its first visit was done.',
+      at,
+    })),
+  );
+  return ids;
+}
+
 /** PUT /visits/:visitId. */
 export async function setVisitStatus(ctx: AppContext, viewer: SessionUser, visitId: number, status: VisitStatus): Promise<TimelineVisit> {
   await ctx.db.transaction(async (trx) => {
@@ -524,6 +555,7 @@ export async function setVisitStatus(ctx: AppContext, viewer: SessionUser, visit
         at,
       },
     ]);
+    if (status === 'done') await startObserving(trx, row.cycle_id, [visitId], viewer.id, at);
   });
   const v = await ctx
     .db('night_plan_visits as v')
@@ -613,6 +645,8 @@ export async function uploadExecution(
       at,
     }));
     for (let i = 0; i < audit.length; i += 1000) await insertNightPlanAudit(trx, audit.slice(i, i + 1000));
+    const done = [...changes].filter(([, c]) => c.status === 'done').map(([id]) => id);
+    for (let i = 0; i < done.length; i += 1000) await startObserving(trx, cycleId, done.slice(i, i + 1000), viewer.id, at);
   });
   return { updated: changes.size, rows: rows.length };
 }

@@ -25,6 +25,7 @@ const ACTIONS: Record<AuditEntry['entity'], Record<string, string>> = {
     created: 'Created the program',
     reinstated: 'Reinstated the program',
     withdrawn: 'Withdrew the program',
+    observing: 'The program started observing',
   },
   night_plan: { build: 'Built the night plans' },
   lost_night: { mark_lost: 'Marked a night lost', unmark_lost: 'Marked a night usable again' },
