@@ -45,28 +45,52 @@ export interface AwardedTargetInput {
   windows: TargetWindows;
   /** Value of one visit night (from the standing: higher is more important). */
   weight: number;
-  /** Clear-weather node-hours the award gives this target on the node (Infinity: its plan's own). */
-  awardedClearHours?: number;
+  /**
+   * Node-hours the award gives this target on the node, weather allowance included (what the
+   * plan asks: its clear hours / (1 − weather loss)); undefined: what its plan asks.
+   */
+  awardedNodeHours?: number;
+  /** Share of the node's nights expected lost to weather, 0 ≤ f < 1 (default 0). */
+  weatherLossFraction?: number;
+}
+
+/**
+ * Visit nights to schedule for `clearNights` clear ones on a node losing `weatherLossFraction`
+ * of its nights: clear / (1 − loss), rounded up — the plan counts clear nights, so the night
+ * plan books the nights weather is expected to take as well.
+ */
+export function nightsWithWeatherAllowance(clearNights: number, weatherLossFraction: number): number {
+  if (clearNights <= 0) return 0;
+  return Math.ceil(clearNights / (1 - weatherLossFraction) - 1e-9);
 }
 
 /**
  * The scheduler's target for one awarded target: its plan's visits per night, visit nights and
- * nights between them. An award of fewer clear hours than the plan needs keeps the plan's
- * baseline and spaces fewer visit nights over it (the longest period still needs the baseline;
- * fewer samples lower the completeness, which the science yield then shows).
+ * nights between them.
+ * - The plan counts clear visit nights. A full award books them with the weather allowance
+ *   (nightsWithWeatherAllowance), over the plan's baseline: the step shrinks to fit them in
+ *   (a step of one night lengthens the baseline instead, as the plan says: weather adds calendar
+ *   time), so that after the expected weather the plan's clear nights remain.
+ * - An award of fewer node-hours books fewer visit nights over the same baseline (the longest
+ *   period still needs the baseline; fewer samples lower the completeness, which the science
+ *   yield then shows).
  */
 export function schedulerTarget(input: AwardedTargetInput): SchedulerTarget {
   const q = input.plan.quantities;
+  const loss = input.weatherLossFraction ?? 0;
   const planStep = Math.max(1, Math.round(q.nightStepDays.value));
   const visitMs = q.visitSeconds.value * 1000;
   const visitsPerNight = Math.max(1, Math.round(q.visitsPerNight.value));
   const planNights = Math.max(0, Math.round(q.visitNights.value));
+  const wantedNights = nightsWithWeatherAllowance(planNights, loss);
   const nightMs = visitsPerNight * visitMs;
-  const awardedMs = input.awardedClearHours === undefined ? Number.POSITIVE_INFINITY : input.awardedClearHours * 3_600_000;
-  const visitNights = Math.min(planNights, Math.floor(awardedMs / nightMs + 1e-9));
+  const awardedMs = input.awardedNodeHours === undefined ? Number.POSITIVE_INFINITY : input.awardedNodeHours * 3_600_000;
+  const visitNights = Math.min(wantedNights, Math.floor(awardedMs / nightMs + 1e-9));
   const baselineNights = Math.max(planStep * Math.max(0, planNights - 1), Math.round(q.baselineDays.value));
-  const stepNights =
-    visitNights < planNights && visitNights > 1 ? Math.max(planStep, Math.floor(baselineNights / (visitNights - 1))) : planStep;
+  let stepNights = planStep;
+  if (visitNights > 1 && visitNights < planNights) stepNights = Math.max(planStep, Math.floor(baselineNights / (visitNights - 1)));
+  else if (visitNights > planNights && visitNights > 1)
+    stepNights = Math.max(1, Math.min(planStep, Math.round(baselineNights / (visitNights - 1))));
   return {
     id: input.id,
     weight: input.weight,

@@ -26,6 +26,16 @@ describe('scienceYield (injection–recovery on planned visit times)', () => {
     expect(y.recovered).toBeLessThanOrEqual(2);
   });
 
+  it('never drops the nights already observed for weather; the nights still to come are', () => {
+    const times = everyNight(90);
+    const options = { trials: 20, seed: 5, weatherLossFraction: 0.97, semiAmplitudePpm: 20_000 };
+    // With 97 % of nights lost, about 3 of 90 nights remain: too few for the period in most trials.
+    expect(scienceYield(plan, times, options).recovered).toBeLessThan(10);
+    const observed = scienceYield(plan, times, { ...options, observedTimesDays: times });
+    expect(observed.recovered).toBe(20);
+    expect(observed.explanation).toContain('not the 90 already observed');
+  });
+
   it('is reproducible with a seed', () => {
     const options = { trials: 15, seed: 20261203, weatherLossFraction: 0.25 };
     const times = everyNight(40).filter((_, i) => i % 2 === 0);

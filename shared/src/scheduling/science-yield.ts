@@ -29,6 +29,8 @@ export interface YieldOptions {
   periodDays?: number;
   /** Injected semi-amplitude, ppm (default: the plan's sizing amplitude); 0 injects pure noise. */
   semiAmplitudePpm?: number;
+  /** Visits already done (same days as the planned ones): their nights are never dropped for weather. */
+  observedTimesDays?: readonly number[];
 }
 
 export interface TargetYield {
@@ -50,6 +52,7 @@ export interface TargetYield {
  */
 export function scienceYield(plan: TargetPlan, visitTimesDays: readonly number[], options: YieldOptions): TargetYield {
   const nightsOf = new Map<number, number[]>();
+  const observedNights = new Set((options.observedTimesDays ?? []).map((t) => Math.floor(t + 0.5)));
   for (const t of visitTimesDays) {
     const night = Math.floor(t + 0.5);
     const list = nightsOf.get(night) ?? [];
@@ -66,7 +69,11 @@ export function scienceYield(plan: TargetPlan, visitTimesDays: readonly number[]
   let recovered = 0;
   for (let i = 0; i < options.trials; i++) {
     const kept: number[] = [];
-    for (const n of nights) if (rng.next() >= options.weatherLossFraction) kept.push(...nightsOf.get(n)!);
+    for (const n of nights) {
+      // One draw per night whatever happens, so that the draws do not depend on which nights were observed.
+      const clear = rng.next() >= options.weatherLossFraction;
+      if (clear || observedNights.has(n)) kept.push(...nightsOf.get(n)!);
+    }
     // The periodogram needs four points at least: a trial left with fewer by the weather finds nothing.
     if (kept.length < 4) continue;
     const campaign = simulatePlanCampaign(plan, rng, { visitTimesDays: kept, periodDays, semiAmplitudePpm: options.semiAmplitudePpm });
@@ -86,6 +93,7 @@ export function scienceYield(plan: TargetPlan, visitTimesDays: readonly number[]
   const fraction = recovered / options.trials;
   const percent = Math.round(fraction * 100);
   const weather = Math.round(options.weatherLossFraction * 100);
+  const observed = nights.filter((n) => observedNights.has(n)).length;
   return {
     ...base,
     trials: options.trials,
@@ -93,7 +101,8 @@ export function scienceYield(plan: TargetPlan, visitTimesDays: readonly number[]
     fraction,
     explanation:
       `In ${options.trials} simulated campaigns on these ${base.visits} planned visits over ${base.visitNights} nights, ` +
-      `with ${weather} % of nights lost to weather, the period of ${formatDays(periodDays)} was found within 10 % ` +
+      `with ${weather} % of ${observed ? `the nights still to come (not the ${observed} already observed)` : 'nights'} lost to weather, ` +
+      `the period of ${formatDays(periodDays)} was found within 10 % ` +
       `and with a false-alarm probability below 1 % in ${recovered} (${percent} %).`,
   };
 }

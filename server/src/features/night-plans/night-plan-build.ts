@@ -21,7 +21,7 @@ import { Observer } from 'astronomy-engine';
 import type { TelescopeNode } from '@spincycle/shared/facility/facility-types';
 import { computeNodeTargetPlan, type NodeTargetPlan } from '@spincycle/shared/planning/node-target-plan';
 import { scheduleNights, type PlannedVisit, type SchedulerTarget } from '@spincycle/shared/scheduling/night-scheduler';
-import { schedulerNights, schedulerTarget, visitDays } from '@spincycle/shared/scheduling/scheduler-inputs';
+import { nightsWithWeatherAllowance, schedulerNights, schedulerTarget, visitDays } from '@spincycle/shared/scheduling/scheduler-inputs';
 import { scienceYield } from '@spincycle/shared/scheduling/science-yield';
 import { isScienceInputError } from '@spincycle/shared/science/science-input-error';
 import { utDaysFromMs } from '@spincycle/shared/sky/astro-time';
@@ -82,6 +82,8 @@ export interface NodeTarget {
   programTitle: string;
   combined: NodeTargetPlan;
   scheduler: SchedulerTarget;
+  /** Visit nights its full plan needs on the node with the weather allowance. */
+  nightsWithAllowance: number;
 }
 
 /** Clear hours a plan needs on the node (visit nights × visits per night × visit length). */
@@ -130,11 +132,10 @@ export async function loadNodeTargets(
       skipped.push({ targetId: target.id, reason: err instanceof Error ? err.message : String(err) });
     }
   });
-  // Each program's clear hours on the node, shared in proportion to what each target's plan needs.
+  // Each program's node-hours on the node, shared in proportion to what each target's plan needs.
   const needByProgram = new Map<number, number>();
   for (const p of planned)
     needByProgram.set(p.program.proposalId, (needByProgram.get(p.program.proposalId) ?? 0) + planClearHours(p.combined));
-  const clearFraction = 1 - node.weatherLossFraction;
   const targets = planned.map(({ program, target, combined, index }) => {
     const awardedHours = program.nodes.find((n) => n.nodeId === node.id)!.nodeHours;
     const need = needByProgram.get(program.proposalId) ?? 0;
@@ -144,12 +145,17 @@ export async function loadNodeTargets(
       proposalId: program.proposalId,
       programTitle: program.title,
       combined,
+      nightsWithAllowance: nightsWithWeatherAllowance(
+        Math.max(0, Math.round(combined.plan.quantities.visitNights.value)),
+        node.weatherLossFraction,
+      ),
       scheduler: schedulerTarget({
         id: target.id,
         plan: combined.plan,
         windows: windows.targets[index],
         weight: weights.get(program.proposalId) ?? 1,
-        awardedClearHours: awardedHours * clearFraction * share,
+        awardedNodeHours: awardedHours * share,
+        weatherLossFraction: node.weatherLossFraction,
       }),
     };
   });
@@ -176,9 +182,14 @@ function atRiskReasons(
 ): string[] {
   const reasons: string[] = [];
   const planNights = Math.max(0, Math.round(t.combined.plan.quantities.visitNights.value));
+  const wanted = t.nightsWithAllowance;
   if (!t.combined.feasible) reasons.push('Its plan cannot be carried out as it stands on this node.');
   if (outcome.visitNights < planNights) {
-    reasons.push(`Only ${outcome.visitNights} of the ${planNights} visit nights its plan needs are planned.`);
+    reasons.push(`Only ${outcome.visitNights} of the ${planNights} clear visit nights its plan needs are planned, before any weather.`);
+  } else if (outcome.visitNights < wanted) {
+    reasons.push(
+      `${outcome.visitNights} visit nights are planned: its plan needs ${planNights} clear ones, and ${wanted} with the usual allowance for bad weather on this node.`,
+    );
   }
   const s = t.scheduler;
   if (outcome.largestGapNights !== null && outcome.largestGapNights > s.stepNights + s.toleranceNights) {
@@ -220,12 +231,15 @@ export async function runNightPlanNodeJob(
     const existing = await listNodeVisits(db, cycle.id, nodeId);
     const known = new Set(targets.map((t) => t.target.id));
     const fixed: PlannedVisit[] = [];
+    const doneVisits: PlannedVisit[] = [];
     for (const v of existing) {
       const night = nightIndex.get(v.nightDate);
       if (night === undefined) continue;
       const keptPlanned = v.status === 'planned' && build.fromNight !== null && v.nightDate < build.fromNight;
       if (v.status === 'done' || keptPlanned) {
-        fixed.push({ targetId: known.has(v.targetId) ? v.targetId : -v.id, night, startMs: v.startMs, endMs: v.endMs });
+        const visit = { targetId: known.has(v.targetId) ? v.targetId : -v.id, night, startMs: v.startMs, endMs: v.endMs };
+        fixed.push(visit);
+        if (v.status === 'done') doneVisits.push(visit);
       } else if (v.status === 'missed') {
         fixed.push({ targetId: -v.id, night, startMs: v.startMs, endMs: v.endMs });
       }
@@ -293,12 +307,15 @@ export async function runNightPlanNodeJob(
     // The science yield on the planned and done visits (missed ones will not give data).
     const byTarget = new Map<number, PlannedVisit[]>();
     for (const v of result.visits) if (v.targetId > 0) byTarget.set(v.targetId, [...(byTarget.get(v.targetId) ?? []), v]);
+    const doneByTarget = new Map<number, PlannedVisit[]>();
+    for (const v of doneVisits) if (v.targetId > 0) doneByTarget.set(v.targetId, [...(doneByTarget.get(v.targetId) ?? []), v]);
     let sinceProgress = 0;
     for (const t of targets) {
       const y = scienceYield(t.combined.plan, visitDays(byTarget.get(t.target.id) ?? [], windows), {
         trials: YIELD_TRIALS,
         seed: t.target.id,
         weatherLossFraction: node.weatherLossFraction,
+        observedTimesDays: visitDays(doneByTarget.get(t.target.id) ?? [], windows),
       });
       const o = outcomes.get(t.target.id)!;
       await storeTargetYield(db, nodeId, t.target.id, {
