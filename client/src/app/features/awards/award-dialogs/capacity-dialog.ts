@@ -1,17 +1,10 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
-import { MatButton } from '@angular/material/button';
-import {
-  MAT_DIALOG_DATA,
-  MatDialogActions,
-  MatDialogClose,
-  MatDialogContent,
-  MatDialogRef,
-  MatDialogTitle,
-} from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
+import { DialogShell } from '../../../ui/dialog-shell/dialog-shell';
 
 export interface CapacityDialogData {
   title: string;
@@ -29,24 +22,16 @@ const REASON_MAX = 1000;
 @Component({
   selector: 'app-capacity-dialog',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [
-    MatButton,
-    MatDialogActions,
-    MatDialogClose,
-    MatDialogContent,
-    MatDialogTitle,
-    MatError,
-    MatFormField,
-    MatHint,
-    MatIcon,
-    MatInput,
-    MatLabel,
-    ReactiveFormsModule,
-  ],
+  imports: [DialogShell, MatError, MatFormField, MatHint, MatIcon, MatInput, MatLabel, ReactiveFormsModule],
   template: `
-    <h2 mat-dialog-title>Past capacity</h2>
-    <form [formGroup]="form" (ngSubmit)="submit()">
-      <mat-dialog-content>
+    <app-dialog-shell
+      heading="Past capacity"
+      confirmLabel="Award past capacity"
+      tone="destructive"
+      form="capacity-form"
+      [confirmDisabled]="reason.invalid"
+    >
+      <form id="capacity-form" [formGroup]="form" (ngSubmit)="submit()">
         <p>Awarding “{{ data.title }}” as entered takes more node-hours than the cycle offers:</p>
         <ul class="messages" data-testid="capacity-messages">
           @for (m of data.messages; track $index) {
@@ -68,12 +53,8 @@ const REASON_MAX = 1000;
             <mat-error>Give the reason to exceed capacity (up to {{ max }} characters).</mat-error>
           }
         </mat-form-field>
-      </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button matButton type="button" [mat-dialog-close]="undefined">Cancel</button>
-        <button matButton="filled" type="submit" class="destructive" [disabled]="reason.invalid">Award past capacity</button>
-      </mat-dialog-actions>
-    </form>
+      </form>
+    </app-dialog-shell>
   `,
   styles: `
     .reason {

@@ -1,14 +1,7 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
-import { MatButton } from '@angular/material/button';
 import { MatCheckbox } from '@angular/material/checkbox';
-import {
-  MAT_DIALOG_DATA,
-  MatDialogActions,
-  MatDialogClose,
-  MatDialogContent,
-  MatDialogRef,
-  MatDialogTitle,
-} from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
+import { DialogShell } from '../../../ui/dialog-shell/dialog-shell';
 
 export interface ReleaseDialogData {
   cycleCode: string;
@@ -25,10 +18,16 @@ export interface ReleaseDialogData {
 @Component({
   selector: 'app-release-dialog',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [MatButton, MatCheckbox, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle],
+  imports: [DialogShell, MatCheckbox],
   template: `
-    <h2 mat-dialog-title>Release the decisions of {{ data.cycleCode }}?</h2>
-    <mat-dialog-content>
+    <app-dialog-shell
+      [heading]="'Release the decisions of ' + data.cycleCode + '?'"
+      confirmLabel="Release decisions"
+      tone="cta"
+      [cancelResult]="false"
+      [confirmDisabled]="!agreed()"
+      (confirmed)="ref.close(true)"
+    >
       <p data-testid="release-counts">
         {{ data.awarded }} awarded, {{ data.reserve }} on reserve, {{ data.notAwarded }} not awarded. When you release them:
       </p>
@@ -44,11 +43,7 @@ export interface ReleaseDialogData {
       <mat-checkbox [checked]="agreed()" (change)="agreed.set($event.checked)" data-testid="release-confirm">
         These decisions follow the consortium's allocation rules
       </mat-checkbox>
-    </mat-dialog-content>
-    <mat-dialog-actions align="end">
-      <button matButton type="button" [mat-dialog-close]="false">Cancel</button>
-      <button matButton="filled" type="button" class="cta" [disabled]="!agreed()" (click)="ref.close(true)">Release decisions</button>
-    </mat-dialog-actions>
+    </app-dialog-shell>
   `,
 })
 export class ReleaseDialog {

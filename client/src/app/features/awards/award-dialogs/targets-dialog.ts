@@ -1,18 +1,12 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatCheckbox } from '@angular/material/checkbox';
-import {
-  MAT_DIALOG_DATA,
-  MatDialogActions,
-  MatDialogClose,
-  MatDialogContent,
-  MatDialogRef,
-  MatDialogTitle,
-} from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import { MatFormField, MatLabel } from '@angular/material/form-field';
 import { MatIcon } from '@angular/material/icon';
 import { MatInput } from '@angular/material/input';
 import type { AwardBoardRow } from '@spincycle/shared/awards/awards';
+import { DialogShell } from '../../../ui/dialog-shell/dialog-shell';
 
 export interface TargetsDialogData {
   title: string;
@@ -36,21 +30,9 @@ const FILTER_FROM = 12;
 @Component({
   selector: 'app-targets-dialog',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [
-    MatButton,
-    MatCheckbox,
-    MatDialogActions,
-    MatDialogClose,
-    MatDialogContent,
-    MatDialogTitle,
-    MatFormField,
-    MatIcon,
-    MatInput,
-    MatLabel,
-  ],
+  imports: [DialogShell, MatButton, MatCheckbox, MatFormField, MatIcon, MatInput, MatLabel],
   template: `
-    <h2 mat-dialog-title>Targets awarded</h2>
-    <mat-dialog-content>
+    <app-dialog-shell heading="Targets awarded" confirmLabel="Use these targets" [confirmDisabled]="!chosen().length" (confirmed)="done()">
       <p class="lead">
         “{{ data.title }}”: keep every target, or award only some of them. The node-hours are not changed for you: adjust them in the row to
         the targets you keep.
@@ -91,11 +73,7 @@ const FILTER_FROM = 12;
       @if (!chosen().length) {
         <p class="problem" role="alert">Choose at least one target, or choose Not awarded for the proposal.</p>
       }
-    </mat-dialog-content>
-    <mat-dialog-actions align="end">
-      <button matButton type="button" [mat-dialog-close]="undefined">Cancel</button>
-      <button matButton="filled" type="button" [disabled]="!chosen().length" (click)="done()">Use these targets</button>
-    </mat-dialog-actions>
+    </app-dialog-shell>
   `,
   styles: `
     .lead,

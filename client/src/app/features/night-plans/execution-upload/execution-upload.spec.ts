@@ -32,6 +32,23 @@ describe('ExecutionUpload', () => {
     const hint = el().querySelector('#execution-columns')!.textContent!.replace(/\s+/g, ' ');
     expect(hint).toContain('target, node, utc_time, status');
     expect(hint).toContain('within 30 minutes');
+    // The hint describes the file button, after the chosen file's name.
+    const choose = el().querySelector('[data-testid=choose-execution]') as HTMLButtonElement;
+    expect(choose.textContent).toContain('Choose a CSV file');
+    expect(choose.getAttribute('aria-describedby')).toBe('execution-file-name execution-columns');
+  });
+
+  it('a log over the server limit (2 MB) is refused before upload and Upload stays off', async () => {
+    const big = new File(['target,node,utc_time,status\n'], 'whole-season.csv', { type: 'text/csv' });
+    Object.defineProperty(big, 'size', { value: 3 * 1024 * 1024 });
+    const input = el().querySelector('[data-testid=execution-input]') as HTMLInputElement;
+    Object.defineProperty(input, 'files', { value: [big] });
+    input.dispatchEvent(new Event('change'));
+    await fixture.whenStable();
+    expect(el().querySelector('[data-testid=execution-problem]')?.textContent).toContain(
+      'whole-season.csv is 3 MB, more than the 2 MB allowed.',
+    );
+    expect((el().querySelector('[data-testid=execution-upload]') as HTMLButtonElement).disabled).toBe(true);
   });
 
   it('sends the file as multipart `file` and says how many visits changed', async () => {
@@ -47,6 +64,9 @@ describe('ExecutionUpload', () => {
       '12 rows read; 11 visits changed.',
     );
     expect(emitted).toEqual([{ updated: 11, rows: 12 }]);
+    // Stored: the file is cleared so that it is not sent twice.
+    expect(el().querySelector('[data-testid=execution-file-name]')?.textContent?.trim()).toBe('No file chosen');
+    expect((el().querySelector('[data-testid=execution-upload]') as HTMLButtonElement).disabled).toBe(true);
   });
 
   it('a 400 lists every bad row with its column and message, and says nothing was stored', async () => {

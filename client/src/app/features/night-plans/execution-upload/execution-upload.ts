@@ -1,23 +1,19 @@
-import { HttpErrorResponse } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, ElementRef, inject, input, output, signal, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input, output, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
-import { CsvRowErrors } from '../../../ui/csv-row-errors/csv-row-errors';
-import { MatProgressBar } from '@angular/material/progress-bar';
-import { isApiErrorBody } from '@spincycle/shared/http/api-error';
 import { EXECUTION_CSV_COLUMNS, EXECUTION_MATCH_MINUTES, type ExecutionUploadResult } from '@spincycle/shared/night-plans/night-plans';
 import type { CsvRowError } from '@spincycle/shared/proposals/target-schemas';
 import { readApiError } from '../../../core/http/api-error-message';
+import { CsvRowErrors } from '../../../ui/csv-row-errors/csv-row-errors';
+import { FilePicker } from '../../../ui/file-picker/file-picker';
+import { UploadProgress } from '../../../ui/file-picker/upload-progress';
+import { csvRowErrorsOf, UploadRefusal } from '../../../ui/file-picker/upload-refusal';
 import { NightPlansApi } from '../night-plans-api';
 
 type UploadOutcome = { kind: 'stored'; result: ExecutionUploadResult } | { kind: 'refused'; message: string; rows: CsvRowError[] };
 
-/** The `rows` of a 400 body, tolerating their absence. */
-function rowErrorsOf(error: unknown): CsvRowError[] {
-  if (!(error instanceof HttpErrorResponse) || !isApiErrorBody(error.error)) return [];
-  const rows = (error.error as { rows?: unknown }).rows;
-  return Array.isArray(rows) ? (rows as CsvRowError[]) : [];
-}
+/** Largest execution log the server takes (EXECUTION_CSV_MAX_BYTES in server/src/features/night-plans/execution-csv.ts). */
+const MAX_EXECUTION_CSV_BYTES = 2 * 1024 * 1024;
 
 /**
  * Uploads the nodes' execution log (a CSV): each row marks a planned visit done or missed.
@@ -26,7 +22,7 @@ function rowErrorsOf(error: unknown): CsvRowError[] {
 @Component({
   selector: 'app-execution-upload',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [CsvRowErrors, MatButton, MatIcon, MatProgressBar],
+  imports: [CsvRowErrors, FilePicker, MatButton, MatIcon, UploadProgress, UploadRefusal],
   template: `
     <p class="hint" id="execution-columns">
       A CSV file with the columns
@@ -37,42 +33,22 @@ function rowErrorsOf(error: unknown): CsvRowError[] {
       marks the planned visit of that target on that node at that time (or starting within {{ matchMinutes }} minutes of it).
     </p>
     <div class="controls">
-      <div class="file-picker">
-        <input
-          #fileInput
-          type="file"
-          hidden
-          accept=".csv,text/csv"
-          (change)="chooseFile($event)"
-          [disabled]="uploading()"
-          aria-label="Execution CSV file"
-          data-testid="execution-input"
-        />
-        <button
-          matButton="outlined"
-          type="button"
-          (click)="fileInput.click()"
-          [disabled]="uploading()"
-          aria-describedby="execution-file-name execution-columns"
-          data-testid="choose-execution"
-        >
-          <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">attach_file</mat-icon>
-          {{ file() ? 'Choose another CSV file' : 'Choose a CSV file' }}
-        </button>
-        <span id="execution-file-name" class="file-name" [class.none]="!file()" data-testid="execution-file-name">
-          {{ file() ? file()!.name : 'No file chosen' }}
-        </span>
-      </div>
+      <app-file-picker
+        accept=".csv,text/csv"
+        label="CSV file"
+        [maxBytes]="maxBytes"
+        describedBy="execution-columns"
+        testId="execution"
+        [file]="file()"
+        (fileChange)="chooseFile($event)"
+        [disabled]="uploading()"
+      />
       <button matButton="filled" type="button" (click)="upload()" [disabled]="!file() || uploading()" data-testid="execution-upload">
         <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">upload</mat-icon>
         Upload
       </button>
     </div>
-    <div class="bar-slot">
-      @if (uploading()) {
-        <mat-progress-bar mode="indeterminate" aria-label="Uploading the execution log" />
-      }
-    </div>
+    <app-upload-progress [progress]="uploading() ? 'unknown' : null" label="Uploading the execution log" />
     <div class="results" aria-live="polite" aria-atomic="true" data-testid="execution-results">
       @if (outcome(); as o) {
         @if (o.kind === 'stored') {
@@ -82,16 +58,7 @@ function rowErrorsOf(error: unknown): CsvRowError[] {
             {{ o.result.updated === 1 ? 'visit' : 'visits' }} changed.
           </p>
         } @else {
-          <div class="refused" role="alert">
-            <p>
-              <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">error</mat-icon>
-              {{ o.message }}
-              @if (o.rows.length) {
-                Nothing was stored: fix the {{ o.rows.length }} {{ o.rows.length === 1 ? 'problem' : 'problems' }} below and upload the file
-                again.
-              }
-            </p>
-          </div>
+          <app-upload-refusal [message]="o.message" [problems]="o.rows.length" />
         }
       }
     </div>
@@ -116,39 +83,11 @@ function rowErrorsOf(error: unknown): CsvRowError[] {
       align-items: center;
       gap: 8px 24px;
     }
-    .file-picker {
-      display: flex;
-      align-items: center;
-      gap: 12px;
-      min-inline-size: 0;
-      max-inline-size: 100%;
-    }
-    .file-name {
-      min-inline-size: 0;
-      max-inline-size: 32ch;
-      overflow: hidden;
-      text-overflow: ellipsis;
-      white-space: nowrap;
-    }
-    .file-name.none {
-      color: var(--mat-sys-on-surface-variant);
-    }
-    .bar-slot {
-      min-block-size: 4px;
-      margin-block: 8px;
-    }
-    .ok,
-    .refused p {
+    .ok {
       display: flex;
       align-items: center;
       gap: 8px;
       margin: 4px 0;
-    }
-    .refused {
-      padding: 8px 12px;
-      border-radius: var(--mat-sys-corner-medium);
-      background: var(--mat-sys-error-container);
-      color: var(--mat-sys-on-error-container);
     }
   `,
 })
@@ -160,14 +99,13 @@ export class ExecutionUpload {
 
   protected readonly columns = EXECUTION_CSV_COLUMNS;
   protected readonly matchMinutes = EXECUTION_MATCH_MINUTES;
+  protected readonly maxBytes = MAX_EXECUTION_CSV_BYTES;
   protected readonly file = signal<File | null>(null);
   protected readonly uploading = signal(false);
   protected readonly outcome = signal<UploadOutcome | null>(null);
-  private readonly fileInput = viewChild<ElementRef<HTMLInputElement>>('fileInput');
 
-  protected chooseFile(event: Event): void {
-    const files = (event.target as HTMLInputElement).files;
-    this.file.set(files && files.length ? files[0] : null);
+  protected chooseFile(file: File | null): void {
+    this.file.set(file);
     this.outcome.set(null);
   }
 
@@ -183,12 +121,10 @@ export class ExecutionUpload {
         this.uploaded.emit(result);
         // Stored: clear the chosen file so that it is not sent twice by mistake.
         this.file.set(null);
-        const el = this.fileInput()?.nativeElement;
-        if (el) el.value = '';
       },
       error: (error: unknown) => {
         this.uploading.set(false);
-        this.outcome.set({ kind: 'refused', message: readApiError(error).message, rows: rowErrorsOf(error) });
+        this.outcome.set({ kind: 'refused', message: readApiError(error).message, rows: csvRowErrorsOf(error) });
       },
     });
   }

@@ -2,10 +2,9 @@ import { HttpEventType, provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import type { JustificationFile } from '@spincycle/shared/proposals/proposal-schemas';
-import { MAX_JUSTIFICATION_BYTES } from '../../proposal-api';
 import { ProposalStore } from '../../proposal-store';
 import { testProposal } from '../../testing/fixtures';
-import ProposalJustification, { checkJustificationFile, formatFileSize } from './proposal-justification';
+import ProposalJustification, { checkJustificationFile } from './proposal-justification';
 
 const STORED: JustificationFile = {
   filename: 'lantern-case.pdf',
@@ -48,43 +47,41 @@ describe('ProposalJustification', () => {
     input.dispatchEvent(new Event('change'));
   }
 
-  it('checkJustificationFile: only PDFs up to 10 MB', () => {
+  it("checkJustificationFile: only non-empty PDFs (a file with no type counts by its .pdf name); the size is the picker's", () => {
     expect(checkJustificationFile(pdf())).toBeNull();
+    expect(checkJustificationFile(pdf('case.pdf', 1000, ''))).toBeNull();
     expect(checkJustificationFile(pdf('case.docx', 1000, 'application/msword'))).toContain('is not a PDF');
-    expect(checkJustificationFile(pdf('case.pdf', MAX_JUSTIFICATION_BYTES + 1))).toContain('at most 10 MB');
+    expect(checkJustificationFile(pdf('case.pdf', 0))).toBe('case.pdf is empty.');
   });
 
-  it('formatFileSize: bytes, kB, MB', () => {
-    expect(formatFileSize(80, 'en-US')).toBe('80 bytes');
-    expect(formatFileSize(2500, 'en-US')).toBe('2.4 kB');
-    expect(formatFileSize(482_304, 'en-US')).toBe('471 kB');
-    expect(formatFileSize(3.5 * 1024 * 1024, 'en-US')).toBe('3.5 MB');
-  });
-
-  it('file button: the native input is hidden, a Material button with an accessible name opens it, the chosen name shows', async () => {
+  // The file button itself (hidden input, keyboard, chosen name) is tested in ui/file-picker/file-picker.spec.ts.
+  it('file picker: offers PDFs behind "Choose a PDF", described by the chosen name (the ids the browser tests read)', async () => {
     const native = el().querySelector('[data-testid=pdf-input]') as HTMLInputElement;
-    expect(native.hidden).toBe(true);
-    const click = jest.spyOn(native, 'click').mockImplementation(() => undefined);
+    expect(native.accept).toBe('application/pdf,.pdf');
     const button = el().querySelector('[data-testid=choose-pdf]') as HTMLButtonElement;
-    expect(button.tagName).toBe('BUTTON');
-    expect(button.type).toBe('button');
     expect(button.textContent?.trim()).toContain('Choose a PDF');
     expect(button.getAttribute('aria-describedby')).toBe('pdf-file-name');
-    expect(el().querySelector('#pdf-file-name')?.textContent?.trim()).toBe('No file chosen');
-    button.click();
-    expect(click).toHaveBeenCalledTimes(1);
     choose(pdf('lantern-case.pdf'));
     await fixture.whenStable();
     expect(el().querySelector('#pdf-file-name')?.textContent?.trim()).toBe('lantern-case.pdf');
     expect(button.textContent?.trim()).toContain('Choose another PDF');
   });
 
-  it('a file that is too large is refused before upload', async () => {
+  it('a file over 10 MB is refused before upload, in plain words', async () => {
     choose(pdf('big.pdf', 12 * 1024 * 1024));
     await fixture.whenStable();
-    expect(el().querySelector('[data-testid=pdf-result]')?.textContent).toContain('big.pdf is 12.0 MB');
+    expect(el().querySelector('[data-testid=pdf-problem]')?.textContent?.trim()).toBe(
+      'big.pdf is 12 MB, more than the 10 MB allowed. Choose a smaller file.',
+    );
+    expect(el().querySelector('#pdf-file-name')?.textContent?.trim()).toBe('No file chosen');
     const upload = Array.from(el().querySelectorAll('button')).find((b) => b.textContent?.includes('Upload')) as HTMLButtonElement;
     expect(upload.disabled).toBe(true);
+  });
+
+  it('a file that is not a PDF is refused before upload', async () => {
+    choose(pdf('case.docx', 1000, 'application/msword'));
+    await fixture.whenStable();
+    expect(el().querySelector('[data-testid=pdf-problem]')?.textContent).toContain('case.docx is not a PDF.');
   });
 
   it('uploads with progress, then shows the stored file with its hash, uploader and download link', async () => {

@@ -1,11 +1,10 @@
 import { DecimalPipe } from '@angular/common';
-import { HttpErrorResponse, HttpEventType } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, computed, ElementRef, inject, input, output, signal, viewChild } from '@angular/core';
+import { HttpEventType } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIcon } from '@angular/material/icon';
-import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatRadioButton, MatRadioGroup } from '@angular/material/radio';
 import {
   MatCell,
@@ -19,12 +18,14 @@ import {
   MatRowDef,
   MatTable,
 } from '@angular/material/table';
-import type { CsvRowError, TargetListErrorBody } from '@spincycle/shared/proposals/target-schemas';
-import { isApiErrorBody } from '@spincycle/shared/http/api-error';
+import type { CsvRowError } from '@spincycle/shared/proposals/target-schemas';
 import { filter, of, switchMap } from 'rxjs';
 import { readApiError } from '../../../../core/http/api-error-message';
 import { confirmAction } from '../../../../ui/confirm-dialog/confirm-dialog';
 import { CsvRowErrors } from '../../../../ui/csv-row-errors/csv-row-errors';
+import { FilePicker } from '../../../../ui/file-picker/file-picker';
+import { UploadProgress } from '../../../../ui/file-picker/upload-progress';
+import { csvRowErrorsOf, UploadRefusal } from '../../../../ui/file-picker/upload-refusal';
 import { TargetApi, TargetUploadMode, TargetUploadResult } from '../target-api';
 
 /** What the results panel shows after an upload. */
@@ -32,12 +33,8 @@ export type UploadOutcome =
   | { kind: 'imported'; added: number; removed: number; mode: TargetUploadMode; notes: CsvRowError[] }
   | { kind: 'refused'; message: string; rows: CsvRowError[] };
 
-/** Reads the `rows` of a 400 `invalid_target_list` body, tolerating their absence. */
-function rowErrorsOf(error: unknown): CsvRowError[] {
-  if (!(error instanceof HttpErrorResponse) || !isApiErrorBody(error.error)) return [];
-  const rows = (error.error as Partial<TargetListErrorBody>).rows;
-  return Array.isArray(rows) ? (rows as CsvRowError[]) : [];
-}
+/** Largest target-list CSV the server takes (TARGET_CSV_MAX_BYTES in server/src/http/upload-limits.ts). */
+export const MAX_TARGET_CSV_BYTES = 5 * 1024 * 1024;
 
 /**
  * Uploads a target-list CSV (replacing or appending), with a determinate progress bar, and
@@ -49,6 +46,7 @@ function rowErrorsOf(error: unknown): CsvRowError[] {
   imports: [
     CsvRowErrors,
     DecimalPipe,
+    FilePicker,
     MatButton,
     MatCell,
     MatCellDef,
@@ -58,13 +56,14 @@ function rowErrorsOf(error: unknown): CsvRowError[] {
     MatHeaderRow,
     MatHeaderRowDef,
     MatIcon,
-    MatProgressBar,
     MatRadioButton,
     MatRadioGroup,
     MatRow,
     MatRowDef,
     MatTable,
     ReactiveFormsModule,
+    UploadProgress,
+    UploadRefusal,
   ],
   templateUrl: './target-upload.html',
   styleUrl: './target-upload.scss',
@@ -86,11 +85,10 @@ export class TargetUpload {
   protected readonly outcome = signal<UploadOutcome | null>(null);
   protected readonly uploading = computed(() => this.progress() !== null);
   protected readonly rowColumns = ['row', 'field', 'message'];
-  private readonly fileInput = viewChild<ElementRef<HTMLInputElement>>('fileInput');
+  protected readonly maxBytes = MAX_TARGET_CSV_BYTES;
 
-  protected chooseFile(event: Event): void {
-    const files = (event.target as HTMLInputElement).files;
-    this.file.set(files && files.length ? files[0] : null);
+  protected chooseFile(file: File | null): void {
+    this.file.set(file);
     this.outcome.set(null);
   }
 
@@ -133,13 +131,11 @@ export class TargetUpload {
             this.uploaded.emit(event.body);
             // Stored: clear the chosen file so that it is not sent twice by mistake.
             this.file.set(null);
-            const input = this.fileInput()?.nativeElement;
-            if (input) input.value = '';
           }
         },
         error: (error: unknown) => {
           this.progress.set(null);
-          this.outcome.set({ kind: 'refused', message: readApiError(error).message, rows: rowErrorsOf(error) });
+          this.outcome.set({ kind: 'refused', message: readApiError(error).message, rows: csvRowErrorsOf(error) });
         },
       });
   }

@@ -1,18 +1,11 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
-import { MatButton } from '@angular/material/button';
-import {
-  MAT_DIALOG_DATA,
-  MatDialogActions,
-  MatDialogClose,
-  MatDialogContent,
-  MatDialogRef,
-  MatDialogTitle,
-} from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { CONFLICT_REASON_MAX } from '@spincycle/shared/review/reviewing';
 import { readApiError } from '../../../../core/http/api-error-message';
+import { DialogShell } from '../../../../ui/dialog-shell/dialog-shell';
 import { ReviewingApi } from '../reviewing-api';
 
 export interface ConflictDialogData {
@@ -27,23 +20,18 @@ export interface ConflictDialogData {
 @Component({
   selector: 'app-conflict-dialog',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [
-    MatButton,
-    MatDialogActions,
-    MatDialogClose,
-    MatDialogContent,
-    MatDialogTitle,
-    MatError,
-    MatFormField,
-    MatHint,
-    MatInput,
-    MatLabel,
-    ReactiveFormsModule,
-  ],
+  imports: [DialogShell, MatError, MatFormField, MatHint, MatInput, MatLabel, ReactiveFormsModule],
   template: `
-    <h2 mat-dialog-title>Declare a conflict of interest</h2>
-    <form [formGroup]="form" (ngSubmit)="declare()">
-      <mat-dialog-content>
+    <app-dialog-shell
+      heading="Declare a conflict of interest"
+      confirmLabel="Declare conflict"
+      form="conflict-form"
+      [cancelResult]="false"
+      [busy]="busy()"
+      busyLabel="Declaring the conflict"
+      [error]="error()"
+    >
+      <form id="conflict-form" [formGroup]="form" (ngSubmit)="declare()">
         <p>
           You will no longer review “{{ data.title }}”: it leaves your list, with any grade you gave it, and the facility managers are told
           so that they can find another reviewer.
@@ -56,22 +44,12 @@ export interface ConflictDialogData {
             <mat-error>Give a reason, for example a recent collaboration with the team.</mat-error>
           }
         </mat-form-field>
-        @if (error(); as error) {
-          <p class="error" role="alert">{{ error }}</p>
-        }
-      </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button matButton type="button" [mat-dialog-close]="false">Cancel</button>
-        <button matButton="filled" type="submit" [disabled]="busy()">Declare conflict</button>
-      </mat-dialog-actions>
-    </form>
+      </form>
+    </app-dialog-shell>
   `,
   styles: `
     .reason {
       inline-size: 100%;
-    }
-    .error {
-      color: var(--mat-sys-error);
     }
   `,
 })

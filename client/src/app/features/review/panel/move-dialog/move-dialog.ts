@@ -1,16 +1,9 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
-import { MatButton } from '@angular/material/button';
-import {
-  MAT_DIALOG_DATA,
-  MatDialogActions,
-  MatDialogClose,
-  MatDialogContent,
-  MatDialogRef,
-  MatDialogTitle,
-} from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
+import { DialogShell } from '../../../../ui/dialog-shell/dialog-shell';
 
 export interface MoveDialogData {
   title: string;
@@ -29,23 +22,10 @@ export interface MoveDialogResult {
 @Component({
   selector: 'app-move-dialog',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [
-    MatButton,
-    MatDialogActions,
-    MatDialogClose,
-    MatDialogContent,
-    MatDialogTitle,
-    MatError,
-    MatFormField,
-    MatHint,
-    MatInput,
-    MatLabel,
-    ReactiveFormsModule,
-  ],
+  imports: [DialogShell, MatError, MatFormField, MatHint, MatInput, MatLabel, ReactiveFormsModule],
   template: `
-    <h2 mat-dialog-title>Move “{{ data.title }}”</h2>
-    <form [formGroup]="form" (ngSubmit)="submit()">
-      <mat-dialog-content>
+    <app-dialog-shell [heading]="'Move “' + data.title + '”'" confirmLabel="Move" form="move-form" [confirmDisabled]="form.invalid">
+      <form id="move-form" [formGroup]="form" (ngSubmit)="submit()">
         <p>It is at position {{ data.from }} of {{ data.size }}. The proposals in between shift by one place.</p>
         <mat-form-field>
           <mat-label>New position</mat-label>
@@ -62,12 +42,8 @@ export interface MoveDialogResult {
             <mat-error>Give the reason for the move (up to 500 characters).</mat-error>
           }
         </mat-form-field>
-      </mat-dialog-content>
-      <mat-dialog-actions align="end">
-        <button matButton type="button" [mat-dialog-close]="undefined">Cancel</button>
-        <button matButton="filled" type="submit" [disabled]="form.invalid">Move</button>
-      </mat-dialog-actions>
-    </form>
+      </form>
+    </app-dialog-shell>
   `,
   styles: `
     mat-form-field {

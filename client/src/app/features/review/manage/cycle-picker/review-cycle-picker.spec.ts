@@ -2,19 +2,19 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
-import CyclePicker from './cycle-picker';
+import ReviewCyclePicker from './review-cycle-picker';
 
-describe('CyclePicker', () => {
-  let fixture: ComponentFixture<CyclePicker>;
+describe('ReviewCyclePicker', () => {
+  let fixture: ComponentFixture<ReviewCyclePicker>;
   let backend: HttpTestingController;
 
   function render(): void {
     TestBed.configureTestingModule({
-      imports: [CyclePicker],
+      imports: [ReviewCyclePicker],
       providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
     });
     backend = TestBed.inject(HttpTestingController);
-    fixture = TestBed.createComponent(CyclePicker);
+    fixture = TestBed.createComponent(ReviewCyclePicker);
     TestBed.tick();
   }
   afterEach(() => backend.verify());
@@ -30,10 +30,11 @@ describe('CyclePicker', () => {
     const links = [...el().querySelectorAll('[data-testid=cycle-list] a')] as HTMLAnchorElement[];
     expect(links.map((a) => a.getAttribute('href'))).toEqual(['/review/manage/4', '/review/manage/3']);
     expect(links[0].textContent).toContain('2027B · Ember season');
-    expect(links[0].textContent).toContain('call closed');
+    expect(links[0].textContent).toContain('call closed; closes 16 Jan 2027, 00:00 UTC');
+    expect(links[1].textContent).toContain('call open; closes 16 Jun 2027, 00:00 UTC');
   });
 
-  it('empty and error states', async () => {
+  it('empty: says there are no cycles', async () => {
     render();
     backend.expectOne('/api/cycles').flush([]);
     await fixture.whenStable();
