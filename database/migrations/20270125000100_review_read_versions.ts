@@ -61,10 +61,42 @@ const WATCHED: { table: string; via: keyof typeof CYCLE_OF | 'all'; columns?: st
   { table: 'account_roles', via: 'all' },
 ];
 
-const bump = (cycleIds: string) => `
+/**
+ * The statement raising the counters of some cycles. `lock` (migration 20270226000100) takes a
+ * key-share lock on the cycles read, so that a cycle deleted by a concurrent transaction is waited
+ * for and skipped rather than inserted against its foreign key.
+ */
+const bump = (cycleIds: string, lock = false) => `
   INSERT INTO review_read_versions AS v (cycle_id, version)
-  SELECT c.id, 1 FROM cycles c WHERE c.id IN (${cycleIds})
+  SELECT c.id, 1 FROM cycles c WHERE c.id IN (${cycleIds})${lock ? ' FOR KEY SHARE OF c' : ''}
   ON CONFLICT (cycle_id) DO UPDATE SET version = v.version + 1`;
+
+/** The trigger functions' definitions (`create`: CREATE, or CREATE OR REPLACE for a later migration). */
+export function readVersionFunctions(create: 'CREATE' | 'CREATE OR REPLACE', lock: boolean): string[] {
+  const all = `
+    ${create} FUNCTION review_read_bump_all() RETURNS trigger LANGUAGE plpgsql AS $$
+    BEGIN
+      ${bump('SELECT id FROM cycles', lock)};
+      RETURN NULL;
+    END $$;
+  `;
+  const byVia = Object.entries(CYCLE_OF).map(
+    ([via, cycleOf]) => `
+      ${create} FUNCTION review_read_bump_by_${via}() RETURNS trigger LANGUAGE plpgsql AS $$
+      BEGIN
+        IF TG_OP = 'INSERT' THEN
+          ${bump(cycleOf.insert, lock)};
+        ELSIF TG_OP = 'DELETE' THEN
+          ${bump(cycleOf.delete, lock)};
+        ELSE
+          ${bump(cycleOf.update, lock)};
+        END IF;
+        RETURN NULL;
+      END $$;
+    `,
+  );
+  return [all, ...byVia];
+}
 
 export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable('review_read_versions', (t) => {
@@ -72,28 +104,7 @@ export async function up(knex: Knex): Promise<void> {
     t.bigInteger('version').notNullable().defaultTo(1);
   });
   await knex.raw('INSERT INTO review_read_versions (cycle_id) SELECT id FROM cycles');
-  await knex.raw(`
-    CREATE FUNCTION review_read_bump_all() RETURNS trigger LANGUAGE plpgsql AS $$
-    BEGIN
-      ${bump('SELECT id FROM cycles')};
-      RETURN NULL;
-    END $$;
-  `);
-  for (const [via, cycleOf] of Object.entries(CYCLE_OF)) {
-    await knex.raw(`
-      CREATE FUNCTION review_read_bump_by_${via}() RETURNS trigger LANGUAGE plpgsql AS $$
-      BEGIN
-        IF TG_OP = 'INSERT' THEN
-          ${bump(cycleOf.insert)};
-        ELSIF TG_OP = 'DELETE' THEN
-          ${bump(cycleOf.delete)};
-        ELSE
-          ${bump(cycleOf.update)};
-        END IF;
-        RETURN NULL;
-      END $$;
-    `);
-  }
+  for (const sql of readVersionFunctions('CREATE', false)) await knex.raw(sql);
   for (const { table, via, columns } of WATCHED) {
     const fn = via === 'all' ? 'review_read_bump_all' : `review_read_bump_by_${via}`;
     const update = columns ? `UPDATE OF ${columns.join(', ')}` : 'UPDATE';

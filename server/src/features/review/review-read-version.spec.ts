@@ -101,4 +101,24 @@ describe('the review read versions', () => {
       await raises(cycle, () => db()('proposals').where({ id: draft.id }).update({ state: 'submitted', submitted_at: new Date() })),
     ).toBe(true);
   });
+
+  it('a write raising every cycle waits for a cycle being deleted, and skips it (no foreign-key failure)', async () => {
+    const doomed = (await net.createCycle()).id;
+    const reviewer = await insertReviewer(h);
+    const deleting = await db().transaction();
+    try {
+      await deleting('cycle_nodes').where({ cycle_id: doomed }).del();
+      await deleting('cycles').where({ id: doomed }).del();
+      // Granting a role raises every cycle's counter; it must wait for the deletion, not fail on it.
+      const grant = db()('account_roles').insert({ account_id: reviewer.id, role: 'billing_contact' });
+      const settled = Promise.allSettled([grant]);
+      await new Promise((r) => setTimeout(r, 200));
+      await deleting.commit();
+      const [result] = await settled;
+      expect(result.status).toBe('fulfilled');
+    } finally {
+      if (!deleting.isCompleted()) await deleting.rollback();
+    }
+    expect(await db()('review_read_versions').where({ cycle_id: doomed }).first()).toBeUndefined();
+  });
 });
