@@ -15,6 +15,8 @@ export interface FakeMessage {
   text: string;
   html: string | null;
   attachments: { filename: string; contentType: string; size: number }[];
+  /** The Message-ID header (`<…@…>`), or null without one. */
+  messageId: string | null;
 }
 
 export interface MailFake {
@@ -25,6 +27,11 @@ export interface MailFake {
   messages(): FakeMessage[];
   /** Resolves with the first message (received now or later) that matches. */
   waitFor(match: (m: FakeMessage) => boolean, timeoutMs?: number): Promise<FakeMessage>;
+  /**
+   * Message-IDs of copies that arrived again and were dropped (accepted over SMTP, not kept):
+   * a second delivery of one outbox mail carries the same Message-ID, and a mailbox keeps one.
+   */
+  droppedDuplicates(): string[];
   clear(): void;
   close(): Promise<void>;
 }
@@ -54,6 +61,8 @@ function sameToken(given: string | null, expected: string): boolean {
 /**
  * A local SMTP server standing in for a mail relay: accepts everything on loopback, keeps
  * the last messages in memory, and (with `httpPort`) serves a page and a JSON list of them.
+ * Like a mailbox, it keeps one copy per Message-ID: a message whose Message-ID it has received
+ * before is accepted and dropped (see `droppedDuplicates`).
  *
  * The mailbox holds password-reset and invitation links, so it is guarded: it listens on
  * loopback only (another address is refused), on its own origin (never proxied through the
@@ -70,6 +79,9 @@ export async function startMailFake(
   const messages: FakeMessage[] = [];
   const waiters: { match: (m: FakeMessage) => boolean; resolve: (m: FakeMessage) => void }[] = [];
   let nextId = 1;
+  // Every Message-ID received since the start (not only the kept messages), and the repeats dropped.
+  const seenMessageIds = new Set<string>();
+  const duplicates: string[] = [];
 
   const smtp = new SMTPServer({
     authOptional: true,
@@ -79,6 +91,13 @@ export async function startMailFake(
     onData(stream, session, callback) {
       simpleParser(stream)
         .then((parsed) => {
+          const messageId = parsed.messageId ?? null;
+          if (messageId !== null && seenMessageIds.has(messageId)) {
+            duplicates.push(messageId);
+            callback();
+            return;
+          }
+          if (messageId !== null) seenMessageIds.add(messageId);
           const to = session.envelope.rcptTo.map((r) => r.address);
           const message: FakeMessage = {
             id: nextId++,
@@ -93,6 +112,7 @@ export async function startMailFake(
               contentType: a.contentType,
               size: a.size,
             })),
+            messageId,
           };
           messages.push(message);
           if (messages.length > MAX_KEPT) messages.shift();
@@ -166,6 +186,7 @@ export async function startMailFake(
         waiters.push(waiter);
       });
     },
+    droppedDuplicates: () => [...duplicates],
     clear: () => void messages.splice(0),
     async close() {
       await new Promise<void>((resolve) => smtp.close(() => resolve()));

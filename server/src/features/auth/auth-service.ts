@@ -2,6 +2,7 @@ import type { PasswordResetConfirmInput, SessionUser, SignUpInput } from '@spinc
 import type { AppContext } from '../../app-context';
 import { isUniqueViolation } from '../../db/unique-violation';
 import { AppError } from '../../http/app-error';
+import { deliverMail, enqueueMail } from '../../mail/outbox';
 import {
   consumeResetToken,
   deleteSessionsOf,
@@ -58,16 +59,34 @@ export async function signUp(ctx: AppContext, input: Required<SignUpInput>): Pro
     await sendAccountExistsMail(ctx, existing.email, existing.displayName);
     return;
   }
+  let mailId: number;
   try {
-    await ctx.db.transaction((trx) =>
-      insertAccount(trx, {
+    mailId = await ctx.db.transaction(async (trx) => {
+      await insertAccount(trx, {
         email: input.email,
         displayName: input.displayName,
         affiliation: input.affiliation,
         passwordHash,
         roles: ['proposer'],
-      }),
-    );
+      });
+      return enqueueMail(
+        trx,
+        {
+          to: input.email,
+          subject: 'Welcome to Spincycle',
+          text: [
+            `Hello ${input.displayName},`,
+            '',
+            'Your Spincycle account is ready. It can write proposals; reviewer, manager and billing roles are added by an administrator.',
+            '',
+            `Sign in with this e-mail address and the password you chose: ${ctx.config.publicUrl}/sign-in`,
+            '',
+            `If you did not create this account, someone else used your address: reset the password at ${forgotPasswordUrl(ctx)} and tell an administrator.`,
+          ].join('\n'),
+        },
+        'welcome',
+      );
+    });
   } catch (err) {
     // Two sign-ups for one address at once: the other one created it.
     if (isUniqueViolation(err)) {
@@ -76,23 +95,12 @@ export async function signUp(ctx: AppContext, input: Required<SignUpInput>): Pro
     }
     throw err;
   }
-  await ctx.mailer.send({
-    to: input.email,
-    subject: 'Welcome to Spincycle',
-    text: [
-      `Hello ${input.displayName},`,
-      '',
-      'Your Spincycle account is ready. It can write proposals; reviewer, manager and billing roles are added by an administrator.',
-      '',
-      `Sign in with this e-mail address and the password you chose: ${ctx.config.publicUrl}/sign-in`,
-      '',
-      `If you did not create this account, someone else used your address: reset the password at ${forgotPasswordUrl(ctx)} and tell an administrator.`,
-    ].join('\n'),
-  });
+  await deliverMail(ctx, [mailId]);
 }
 
+/** Nothing changes but the outbox: the mail is the whole of this transaction. */
 async function sendAccountExistsMail(ctx: AppContext, to: string, displayName: string): Promise<void> {
-  await ctx.mailer.send({
+  const mail = {
     to,
     subject: 'Someone tried to sign up to Spincycle with your address',
     text: [
@@ -106,7 +114,9 @@ async function sendAccountExistsMail(ctx: AppContext, to: string, displayName: s
       '',
       'If this was not you, you can ignore this message.',
     ].join('\n'),
-  });
+  };
+  const mailId = await ctx.db.transaction((trx) => enqueueMail(trx, mail, 'sign_up_attempt'));
+  await deliverMail(ctx, [mailId]);
 }
 
 /**
@@ -119,9 +129,8 @@ export async function requestPasswordReset(ctx: AppContext, email: string): Prom
   if (!account || account.disabled) return;
   const token = newLinkToken();
   const minutes = ctx.config.RESET_TOKEN_MINUTES;
-  await insertResetToken(ctx.db, account.id, hashLinkToken(token), new Date(Date.now() + minutes * 60_000));
   const link = `${ctx.config.publicUrl}/reset-password?token=${token}`;
-  await ctx.mailer.send({
+  const mail = {
     to: account.email,
     subject: 'Reset your Spincycle password',
     text: [
@@ -134,7 +143,13 @@ export async function requestPasswordReset(ctx: AppContext, email: string): Prom
       '',
       'If you did not ask for this, ignore this message: your password stays as it is.',
     ].join('\n'),
+  };
+  // The link is a credential: its mail's body is blanked in the outbox once sent.
+  const mailId = await ctx.db.transaction(async (trx) => {
+    await insertResetToken(trx, account.id, hashLinkToken(token), new Date(Date.now() + minutes * 60_000));
+    return enqueueMail(trx, mail, 'password_reset', { holdsSecret: true });
   });
+  await deliverMail(ctx, [mailId]);
 }
 
 /** Sets a new password with a valid link, ends the account's other sessions and spends its other links. */

@@ -1,14 +1,8 @@
 import { AWARD_OUTCOME_LABELS, type AwardOutcome } from '@spincycle/shared/awards/awards';
+import type { Knex } from 'knex';
 import type { AppContext } from '../../app-context';
-import {
-  findAward,
-  listNodeNames,
-  listReviewComments,
-  listTargetIds,
-  listTargetNames,
-  listTeamEmails,
-  markMailed,
-} from './award-repository';
+import { enqueueMail } from '../../mail/outbox';
+import { findAward, listNodeNames, listReviewComments, listTargetIds, listTargetNames, listTeamEmails } from './award-repository';
 
 /** What the team's decision mail says (no reviewer identity, no committee note). */
 export interface DecisionMailContent {
@@ -75,47 +69,45 @@ export function writeDecisionMail(c: DecisionMailContent, publicUrl: string): { 
 }
 
 /**
- * Mails the team (the PI and accepted members, at their account e-mail) the proposal's
- * decision as stored, and sets the award's `mailed_at`. Runs after the decision's transaction
- * committed. A failed send is logged and answered with false; it never fails the request.
+ * Writes the team's decision mail (to the PI and accepted members, at their account e-mail) to
+ * the outbox, inside the transaction that makes or releases the decision, as that transaction
+ * sees it; answers the outbox id (null when there is no award or nobody to mail). The award's
+ * `mailed_at` is set when the mail is handed to the relay: right after the commit
+ * (deliverMail), or by the worker's retries.
  */
-export async function mailDecision(
+export async function enqueueDecisionMail(
   ctx: AppContext,
+  trx: Knex.Transaction,
   proposal: { id: number; title: string },
   cycle: { code: string; title: string },
   changed: boolean,
-): Promise<boolean> {
-  try {
-    const award = await findAward(ctx.db, proposal.id);
-    if (!award) return false;
-    const to = await listTeamEmails(ctx.db, proposal.id);
-    if (!to.length) return false;
-    const names = await listNodeNames(
-      ctx.db,
-      award.nodes.map((n) => n.nodeId),
-    );
-    const allTargets = award.targetIds ? await listTargetIds(ctx.db, proposal.id) : [];
-    const content: DecisionMailContent = {
-      proposalId: proposal.id,
-      proposalTitle: proposal.title,
-      cycleCode: cycle.code,
-      cycleTitle: cycle.title,
-      outcome: award.outcome,
-      nodes: award.nodes.map((n) => ({ ...names.get(n.nodeId)!, nodeHours: n.nodeHours })),
-      awardedTargets: award.targetIds
-        ? await listTargetNames(
-            ctx.db,
-            award.targetIds.filter((id) => allTargets.includes(id)),
-          )
-        : null,
-      comments: await listReviewComments(ctx.db, proposal.id),
-      changed,
-    };
-    await ctx.mailer.send({ to, ...writeDecisionMail(content, ctx.config.publicUrl) });
-    await markMailed(ctx.db, proposal.id, ctx.now());
-    return true;
-  } catch (err) {
-    ctx.logger.error({ err, proposalId: proposal.id }, 'decision mail could not be sent');
-    return false;
-  }
+): Promise<number | null> {
+  const award = await findAward(trx, proposal.id);
+  if (!award) return null;
+  const to = await listTeamEmails(trx, proposal.id);
+  if (!to.length) return null;
+  const names = await listNodeNames(
+    trx,
+    award.nodes.map((n) => n.nodeId),
+  );
+  const allTargets = award.targetIds ? await listTargetIds(trx, proposal.id) : [];
+  const content: DecisionMailContent = {
+    proposalId: proposal.id,
+    proposalTitle: proposal.title,
+    cycleCode: cycle.code,
+    cycleTitle: cycle.title,
+    outcome: award.outcome,
+    nodes: award.nodes.map((n) => ({ ...names.get(n.nodeId)!, nodeHours: n.nodeHours })),
+    awardedTargets: award.targetIds
+      ? await listTargetNames(
+          trx,
+          award.targetIds.filter((id) => allTargets.includes(id)),
+        )
+      : null,
+    comments: await listReviewComments(trx, proposal.id),
+    changed,
+  };
+  return enqueueMail(trx, { to, ...writeDecisionMail(content, ctx.config.publicUrl) }, 'decision', {
+    onSent: { mark: 'award_mailed', proposalId: proposal.id },
+  });
 }

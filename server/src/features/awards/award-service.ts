@@ -21,7 +21,8 @@ import type { AppContext } from '../../app-context';
 import { inParallel } from '../../db/in-parallel';
 import { AppError, invalidField } from '../../http/app-error';
 import { accessProposal } from '../proposals/proposal-access';
-import { anonymiseComments, mailDecision } from './award-mail';
+import { deliverMail } from '../../mail/outbox';
+import { anonymiseComments, enqueueDecisionMail } from './award-mail';
 import {
   awardedHoursByNode,
   BOARD_STATES,
@@ -258,8 +259,8 @@ function checkInput(input: AwardInput, offered: Map<number, number>, cycleCode: 
  * PUT /api/awards/proposals/:proposalId: decides or changes one proposal's award, in one
  * transaction with its audit entry (and, after the release, the proposal's state, its program
  * and their audit entries). The cycle's capacity rows are locked first, so two decisions of one
- * cycle never both take the same remaining node-hours. After the release the team is mailed the
- * changed decision once the transaction has committed.
+ * cycle never both take the same remaining node-hours. After the release the changed decision's
+ * mail to the team goes to the outbox in the same transaction, and out after the commit.
  */
 export async function decideAward(ctx: AppContext, viewer: SessionUser, proposalId: number, input: AwardInput): Promise<AwardBoard> {
   const outcome = await ctx.db.transaction(async (trx) => {
@@ -350,9 +351,10 @@ export async function decideAward(ctx: AppContext, viewer: SessionUser, proposal
     ];
     if (cycle.releasedAt) audit.push(...(await applyReleasedOutcome(trx, viewer, cycle, proposalId, current.state, input.outcome, now)));
     await insertAudit(trx, audit);
-    return { cycle, released: cycle.releasedAt !== null, title: current.title };
+    const mailId = cycle.releasedAt ? await enqueueDecisionMail(ctx, trx, { id: proposalId, title: current.title }, cycle, true) : null;
+    return { cycle, mailId };
   });
-  if (outcome.released) await mailDecision(ctx, { id: proposalId, title: outcome.title }, outcome.cycle, true);
+  if (outcome.mailId !== null) await deliverMail(ctx, [outcome.mailId]);
   return getAwardBoard(ctx, outcome.cycle.id);
 }
 
@@ -410,10 +412,12 @@ const nameList = (names: string[]) =>
 /**
  * POST /api/awards/cycles/:cycleId/release: in one transaction every decided proposal takes
  * its outcome as state, awarded ones get a scheduled program, the cycle is marked released,
- * with an audit entry per proposal and one for the release. Then each team is mailed.
+ * with an audit entry per proposal and one for the release, and each team's mail goes to the
+ * outbox. After the commit the mails go out; `mailed` counts those the relay took now, the
+ * others are retried by the worker.
  */
 export async function releaseAwards(ctx: AppContext, viewer: SessionUser, cycleId: number): Promise<ReleaseResult> {
-  const { cycle, rows, programsCreated } = await ctx.db.transaction(async (trx) => {
+  const { rows, programsCreated, mailIds } = await ctx.db.transaction(async (trx) => {
     const found = await findAwardCycle(trx, cycleId, { lock: true });
     if (!found) throw cycleNotFound(cycleId);
     await lockCycleNodes(trx, cycleId);
@@ -472,16 +476,15 @@ export async function releaseAwards(ctx: AppContext, viewer: SessionUser, cycleI
         at: now,
       },
     ]);
-    return { cycle: found, rows: board.rows, programsCreated: created };
+    const mailIds: number[] = [];
+    for (const r of board.rows) {
+      const mailId = await enqueueDecisionMail(ctx, trx, { id: r.proposalId, title: r.title }, found, false);
+      if (mailId !== null) mailIds.push(mailId);
+    }
+    return { rows: board.rows, programsCreated: created, mailIds };
   });
-  let mailed = 0;
-  let mailFailures = 0;
-  // One team after the other: a few dozen mails through one SMTP transport.
-  for (const r of rows) {
-    if (await mailDecision(ctx, { id: r.proposalId, title: r.title }, cycle, false)) mailed++;
-    else mailFailures++;
-  }
-  return { board: await getAwardBoard(ctx, cycleId), mailed, mailFailures, programsCreated };
+  const mailed = (await deliverMail(ctx, mailIds)).sent.length;
+  return { board: await getAwardBoard(ctx, cycleId), mailed, mailFailures: rows.length - mailed, programsCreated };
 }
 
 /** GET /api/awards/cycles/:cycleId/audit. */

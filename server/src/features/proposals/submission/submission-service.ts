@@ -5,6 +5,7 @@ import type { Proposal, SubmissionCheck } from '@spincycle/shared/proposals/prop
 import type { AppContext } from '../../../app-context';
 import { inParallel } from '../../../db/in-parallel';
 import { AppError } from '../../../http/app-error';
+import { deliverMail, enqueueMail } from '../../../mail/outbox';
 import { listCycleNodes } from '../../cycles/cycle-repository';
 import { formatUtc } from '../../cycles/cycle-service';
 import { findJustificationMeta } from '../justification/justification-repository';
@@ -113,10 +114,11 @@ function callClosed(code: string, closesAt: string, what = '') {
  * POST /api/proposals/:id/submit (the PI). The server's clock decides: at or after the call's
  * closing instant (UTC) → 422 `call_closed` with the deadline. A proposal that is not ready →
  * 422 `not_ready` with the problems as fieldErrors. Then it is submitted (read-only from now
- * on) and every active team member gets a receipt with the request and the fee caution.
+ * on) and every active team member gets a receipt with the request and the fee caution (written
+ * to the outbox in the same transaction, handed to the relay after the commit).
  */
 export async function submitProposal(ctx: AppContext, viewer: SessionUser, id: number): Promise<Proposal> {
-  const submittedAt = await ctx.db.transaction(async (trx) => {
+  const mailId = await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });
     requirePi(access, 'submit the proposal');
     const now = ctx.now();
@@ -134,26 +136,21 @@ export async function submitProposal(ctx: AppContext, viewer: SessionUser, id: n
       throw new AppError('not_ready', `The proposal is not ready to submit: ${check.problems[0].message}${more}`, 422, fieldErrors);
     }
     await setProposalState(trx, id, 'submitted', now);
-    return now;
+    const submitted = await assembleProposal(ctx, trx, access);
+    const team = submitted.team.filter((m) => m.status === 'active');
+    const receipt = receiptMail({
+      to: team.map((m) => m.email),
+      title: submitted.title,
+      piName: team.find((m) => m.role === 'pi')?.displayName ?? viewer.displayName,
+      cycle: submitted.cycle,
+      submittedAt: now.toISOString(),
+      targetCount: submitted.targetCount,
+      request: submitted.request,
+    });
+    return enqueueMail(trx, receipt, 'submission');
   });
-  const proposal = await getProposal(ctx, viewer, id);
-  const team = proposal.team.filter((m) => m.status === 'active');
-  try {
-    await ctx.mailer.send(
-      receiptMail({
-        to: team.map((m) => m.email),
-        title: proposal.title,
-        piName: team.find((m) => m.role === 'pi')?.displayName ?? viewer.displayName,
-        cycle: proposal.cycle,
-        submittedAt: submittedAt.toISOString(),
-        targetCount: proposal.targetCount,
-        request: proposal.request,
-      }),
-    );
-  } catch (err) {
-    ctx.logger.error({ err, proposalId: id }, 'submission receipt could not be sent');
-  }
-  return proposal;
+  await deliverMail(ctx, [mailId]);
+  return getProposal(ctx, viewer, id);
 }
 
 /** POST /api/proposals/:id/withdraw (the PI): a submitted proposal back to draft, only while its call is open. */

@@ -7,6 +7,7 @@ import {
 } from '@spincycle/shared/proposals/proposal-schemas';
 import type { AppContext } from '../../../app-context';
 import { AppError } from '../../../http/app-error';
+import { deliverMail, enqueueMail } from '../../../mail/outbox';
 import { findAccountByEmail } from '../../accounts/account-repository';
 import { hashLinkToken, newLinkToken } from '../../auth/link-token';
 import { accessProposal, requireEditable, requirePi } from '../proposal-access';
@@ -45,7 +46,7 @@ export async function inviteMember(
   input: InviteMemberInput,
 ): Promise<{ member: InvitedMember; created: boolean }> {
   const token = newLinkToken();
-  const { memberId, created, title, hasAccount, warnings } = await ctx.db.transaction(async (trx) => {
+  const { memberId, created, warnings, mailId } = await ctx.db.transaction(async (trx) => {
     const access = await accessProposal(trx, viewer, id, { forUpdate: true });
     requirePi(access, 'invite co-investigators');
     requireEditable(access, ctx.now());
@@ -71,14 +72,14 @@ export async function inviteMember(
     }
     await touchProposal(trx, id);
     const warnings = account?.roles.includes('reviewer') ? [reviewerConflictWarning(input.email, access.cycle.code)] : [];
-    return { memberId: rowId, created: !existing, title: access.proposal.title, hasAccount: account !== undefined, warnings };
+    const hasAccount = account !== undefined;
+    const link = hasAccount ? `${ctx.config.publicUrl}/invitations/${token}` : `${ctx.config.publicUrl}/sign-up?invite=${token}`;
+    // The link is the credential: its mail's body is blanked in the outbox once sent.
+    const mail = invitationMail({ to: input.email, inviter: viewer.displayName, title: access.proposal.title, link, hasAccount });
+    const mailId = await enqueueMail(trx, mail, 'invitation', { holdsSecret: true });
+    return { memberId: rowId, created: !existing, warnings, mailId };
   });
-  const link = hasAccount ? `${ctx.config.publicUrl}/invitations/${token}` : `${ctx.config.publicUrl}/sign-up?invite=${token}`;
-  try {
-    await ctx.mailer.send(invitationMail({ to: input.email, inviter: viewer.displayName, title, link, hasAccount }));
-  } catch (err) {
-    ctx.logger.error({ err, proposalId: id }, 'invitation mail could not be sent');
-  }
+  await deliverMail(ctx, [mailId]);
   const { proposalId: _p, ...member } = (await findMemberById(ctx.db, id, memberId))!;
   return { member: { ...member, warnings }, created };
 }

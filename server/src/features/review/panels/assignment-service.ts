@@ -11,6 +11,7 @@ import type {
 } from '@spincycle/shared/review/panels';
 import type { AppContext } from '../../../app-context';
 import { AppError } from '../../../http/app-error';
+import { deliverMail, enqueueMail } from '../../../mail/outbox';
 import { formatUtc } from '../../cycles/cycle-service';
 import { loadEligibility, refusalOf } from './eligibility';
 import {
@@ -21,7 +22,6 @@ import {
   readMatrixSource,
   listProposalsOfPanel,
   listReviewerAccounts,
-  markNotified,
   membersOfPanels,
   setAssignmentSource,
   touchPanel,
@@ -150,7 +150,7 @@ export async function toggleAssignment(
   panelId: number,
   input: AssignmentToggleInput,
 ): Promise<AssignmentMatrix> {
-  const added = await ctx.db.transaction(async (trx) => {
+  const mailIds = await ctx.db.transaction(async (trx) => {
     const panel = await requirePanel(trx, panelId, { forUpdate: true });
     requireUnlocked(panel);
     const proposal = (await listProposalsOfPanel(trx, panelId)).find((p) => p.id === input.proposalId);
@@ -188,9 +188,9 @@ export async function toggleAssignment(
     }
     const ids = await insertAssignments(trx, [{ proposalId: proposal.id, reviewerId: reviewer.id }], 'manual', actor.id);
     await touchPanel(trx, panelId);
-    return ids;
+    return notifyAssigned(ctx, trx, ids);
   });
-  await notifyAssigned(ctx, added);
+  await deliverMail(ctx, mailIds);
   return getMatrix(ctx, panelId);
 }
 
@@ -239,13 +239,13 @@ export async function assignAutomatically(ctx: AppContext, actor: SessionUser, p
     const ids = await insertAssignments(trx, fresh, 'automatic', actor.id);
     if (ids.length || removed.length) await touchPanel(trx, panelId);
     return {
-      ids,
+      mailIds: await notifyAssigned(ctx, trx, ids),
       added: fresh.length,
       removed: removed.length,
       expertiseMatches: result.assignments.filter((a) => a.expertiseMatch).length,
     };
   });
-  await notifyAssigned(ctx, outcome.ids);
+  await deliverMail(ctx, outcome.mailIds);
   return {
     added: outcome.added,
     removed: outcome.removed,
@@ -288,48 +288,45 @@ function infeasible(
 }
 
 /**
- * E-mails each reviewer of the new assignments once (after the transaction committed) and
- * marks the rows notified. A failed send is logged and does not fail the request. The mail
- * names the cycle, the number of proposals and the deadline, never a team.
+ * Writes one mail per reviewer of the new assignments to the outbox, in the transaction that
+ * made them, and answers the outbox ids (deliverMail after the commit). The rows' `notified_at`
+ * is set when the mail is handed to the relay. The mail names the cycle, the number of
+ * proposals and the deadline, never a team.
  */
-export async function notifyAssigned(ctx: AppContext, assignmentIds: number[]): Promise<void> {
-  if (!assignmentIds.length) return;
-  const rows = await ctx
-    .db('review_assignments as ra')
+export async function notifyAssigned(ctx: AppContext, trx: Knex.Transaction, assignmentIds: number[]): Promise<number[]> {
+  if (!assignmentIds.length) return [];
+  const rows = await trx('review_assignments as ra')
     .join('proposals as p', 'p.id', 'ra.proposal_id')
     .join('cycles as c', 'c.id', 'p.cycle_id')
     .join('accounts as a', 'a.id', 'ra.reviewer_account_id')
     .whereIn('ra.id', assignmentIds)
+    .orderBy('ra.id')
     .select('ra.id', 'ra.reviewer_account_id', 'a.email', 'a.display_name', 'p.title', 'c.code', 'c.review_deadline');
   const byReviewer = new Map<number, typeof rows>();
   for (const r of rows) byReviewer.set(r.reviewer_account_id, [...(byReviewer.get(r.reviewer_account_id) ?? []), r]);
-  await Promise.all(
-    [...byReviewer.values()].map(async (list) => {
-      const first = list[0];
-      const cycles = [...new Set(list.map((r) => r.code as string))].join(', ');
-      const deadline = first.review_deadline
-        ? `Grades are due by ${formatUtc((first.review_deadline as Date).toISOString())}.`
-        : 'The review deadline will be announced.';
-      const text = [
-        `Hello ${first.display_name},`,
-        '',
-        `You have been asked to review ${plural(list.length, 'proposal')} in cycle ${cycles}:`,
-        ...list.map((r) => `- ${r.title}`),
-        '',
-        deadline,
-        `Your reviews: ${ctx.config.publicUrl}/review/my`,
-        '',
-        'If you cannot review one of them fairly, declare a conflict there.',
-      ].join('\n');
-      try {
-        await ctx.mailer.send({ to: first.email, subject: `Proposals to review in ${cycles}`, text });
-        await markNotified(
-          ctx.db,
-          list.map((r) => r.id as number),
-        );
-      } catch (err) {
-        ctx.logger.error({ err, reviewerId: first.reviewer_account_id }, 'assignment mail could not be sent');
-      }
-    }),
-  );
+  const mailIds: number[] = [];
+  for (const list of byReviewer.values()) {
+    const first = list[0];
+    const cycles = [...new Set(list.map((r) => r.code as string))].join(', ');
+    const deadline = first.review_deadline
+      ? `Grades are due by ${formatUtc((first.review_deadline as Date).toISOString())}.`
+      : 'The review deadline will be announced.';
+    const text = [
+      `Hello ${first.display_name},`,
+      '',
+      `You have been asked to review ${plural(list.length, 'proposal')} in cycle ${cycles}:`,
+      ...list.map((r) => `- ${r.title}`),
+      '',
+      deadline,
+      `Your reviews: ${ctx.config.publicUrl}/review/my`,
+      '',
+      'If you cannot review one of them fairly, declare a conflict there.',
+    ].join('\n');
+    mailIds.push(
+      await enqueueMail(trx, { to: first.email, subject: `Proposals to review in ${cycles}`, text }, 'review_assignment', {
+        onSent: { mark: 'assignments_notified', assignmentIds: list.map((r) => r.id as number) },
+      }),
+    );
+  }
+  return mailIds;
 }

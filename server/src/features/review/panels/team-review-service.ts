@@ -3,6 +3,7 @@ import { assignReviewers } from '@spincycle/shared/review/assignment';
 import type { DistributionResult, TeamReviewer, TeamReviewerInput, TeamReviewerRow } from '@spincycle/shared/review/panels';
 import type { AppContext } from '../../../app-context';
 import { AppError, invalidField } from '../../../http/app-error';
+import { deliverMail } from '../../../mail/outbox';
 import { accessProposal, requirePi, type ProposalAccess } from '../../proposals/proposal-access';
 import { notifyAssigned } from './assignment-service';
 import { loadEligibility } from './eligibility';
@@ -228,8 +229,8 @@ export async function distribute(ctx: AppContext, actor: SessionUser, cycleId: n
       'submitted',
       'in_review',
     );
-    return { ids, reviewers: reviewers.length, added: ids.length, removed: removed.length };
+    return { mailIds: await notifyAssigned(ctx, trx, ids), reviewers: reviewers.length, added: ids.length, removed: removed.length };
   });
-  await notifyAssigned(ctx, outcome.ids);
+  await deliverMail(ctx, outcome.mailIds);
   return { reviewers: outcome.reviewers, added: outcome.added, removed: outcome.removed, rows: await listTeamReviewers(ctx, cycleId) };
 }

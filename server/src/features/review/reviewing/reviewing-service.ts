@@ -14,6 +14,7 @@ import { assessProposal, type TechnicalAssessmentSummary } from '@spincycle/shar
 import type { SkyWindowsReport } from '@spincycle/shared/sky/index';
 import type { AppContext } from '../../../app-context';
 import { AppError } from '../../../http/app-error';
+import { deliverMail, enqueueMail } from '../../../mail/outbox';
 import { findCycleById } from '../../cycles/cycle-repository';
 import { formatUtc } from '../../cycles/cycle-service';
 import { targetSkyReport } from '../../proposals/plans/plan-service';
@@ -322,8 +323,9 @@ export async function submitReviews(ctx: AppContext, viewer: SessionUser, cycleI
 /**
  * POST /api/review/my/:proposalId/conflict: the reviewer declares a conflict of interest (any
  * time before their review locks, without having to open the proposal). The assignment and any
- * grade go in the same transaction as the conflict is recorded; the facility managers are told
- * by mail after the commit (a failed mail is logged, the conflict stands). From then on every
+ * grade go in the same transaction as the conflict is recorded, with the mail that tells the
+ * facility managers (through the outbox, handed to the relay after the commit; a failed send is
+ * retried by the worker, the conflict stands). From then on every
  * route about the proposal answers this reviewer 404.
  */
 export async function declareConflict(
@@ -333,7 +335,7 @@ export async function declareConflict(
   input: DeclareConflictInput,
 ): Promise<{ proposalId: number; declaredAt: string }> {
   const now = ctx.now();
-  const a = await ctx.db.transaction(async (trx) => {
+  const mailId = await ctx.db.transaction(async (trx) => {
     const found = await findAssignment(trx, viewer.id, proposalId, { forUpdate: true });
     if (!found) throw notAssigned(proposalId);
     const lock = lockOf(found, now);
@@ -345,27 +347,26 @@ export async function declareConflict(
       reason: input.reason,
       declaredAt: now,
     });
-    return found;
-  });
-  try {
-    const to = await listFacilityManagerEmails(ctx.db);
-    if (to.length) {
-      await ctx.mailer.send({
+    const to = await listFacilityManagerEmails(trx);
+    if (!to.length) return null;
+    return enqueueMail(
+      trx,
+      {
         to,
-        subject: `Conflict declared: proposal #${proposalId} (${a.cycleCode})`,
+        subject: `Conflict declared: proposal #${proposalId} (${found.cycleCode})`,
         text: [
           'Hello,',
           '',
-          `${viewer.displayName} (${viewer.email}) declared a conflict of interest with proposal #${proposalId} “${a.title}” of cycle ${a.cycleCode}.`,
+          `${viewer.displayName} (${viewer.email}) declared a conflict of interest with proposal #${proposalId} “${found.title}” of cycle ${found.cycleCode}.`,
           '',
           `Reason given: ${input.reason}`,
           '',
           'The assignment and any grade were removed. The proposal may need another reviewer.',
         ].join('\n'),
-      });
-    }
-  } catch (err) {
-    ctx.logger.error({ err, proposalId }, 'conflict mail to the facility managers could not be sent');
-  }
+      },
+      'conflict_declared',
+    );
+  });
+  if (mailId !== null) await deliverMail(ctx, [mailId]);
   return { proposalId, declaredAt: now.toISOString() };
 }
