@@ -2,10 +2,13 @@
  * Authorization matrix of the night-plan routes (/api/night-plans): every route × signed out
  * (401), a proposer not on the team, the program's PI, a reviewer, facility manager,
  * administrator, billing contact. The manager's routes answer 403 to every other role; a
- * program's progress answers its team and managers, and 404 to everyone else. Fixtures are
- * written straight into the database (server/src/features/night-plans/testing/); builds are
- * queued on a fake queue (their jobs are not run here).
+ * program's progress answers its team and managers, and 404 to everyone else. The calendar feed
+ * (/api/calendar-feeds/:token.ics) needs no session: whoever holds a working link reads it,
+ * signed out too. Fixtures are written straight into the database
+ * (server/src/features/night-plans/testing/); builds are queued on a fake queue (their jobs are
+ * not run here).
  */
+import { createHash, randomBytes } from 'node:crypto';
 import type { Role } from '@spincycle/shared/accounts/roles';
 import { Browser, startHarness, type Harness } from '../support/api-harness';
 import { createTestNetwork, type TestNetwork } from './support/proposal-kit';
@@ -23,6 +26,8 @@ let net: TestNetwork;
 let shared: NightPlanFixture;
 let visitId: number;
 let managerBrowser: Browser;
+/** The secret of a working calendar link of the shared cycle's node. */
+let feedToken: string;
 
 async function fixture(): Promise<NightPlanFixture> {
   return createNightPlanFixture(h, net, { nodes: [net.nodes[0]], programs: [{ targets: 1, hours: [5] }], campaignNights: 10 });
@@ -46,6 +51,9 @@ beforeAll(async () => {
     requested_at: new Date(),
     finished_at: new Date(),
   });
+  const feed = await managerBrowser.post(`/api/night-plans/cycles/${shared.cycleId}/nodes/${shared.nodeIds[0]}/calendar-feed`);
+  expect(feed.status).toBe(201);
+  feedToken = /\/api\/calendar-feeds\/([\w-]+)\.ics$/.exec(feed.body.url)![1];
 }, 60_000);
 afterAll(async () => {
   await net.cleanUp();
@@ -72,6 +80,8 @@ interface Case {
   upload?: (f: NightPlanFixture) => string;
   /** Run before an allowed call on a fresh fixture. */
   prepare?: (f: NightPlanFixture) => Promise<void>;
+  /** Everyone, signed out too (`allowed` lists every caller). */
+  public?: true;
   allowed: Who[];
   refused: 403 | 404;
   /** `fresh`: a new fixture per allowed call (the call changes it). */
@@ -182,6 +192,43 @@ const CASES: Case[] = [
     on: 'shared',
   },
   {
+    name: 'GET /cycles/:cycleId/nodes/:nodeId/calendar-feed',
+    method: 'get',
+    path: (f) => `/api/night-plans/cycles/${f.cycleId}/nodes/${f.nodeIds[0]}/calendar-feed`,
+    allowed: MANAGER,
+    refused: 403,
+    on: 'shared',
+  },
+  {
+    name: 'POST /cycles/:cycleId/nodes/:nodeId/calendar-feed',
+    method: 'post',
+    path: (f) => `/api/night-plans/cycles/${f.cycleId}/nodes/${f.nodeIds[0]}/calendar-feed`,
+    allowed: MANAGER,
+    refused: 403,
+    on: 'fresh',
+  },
+  {
+    name: 'DELETE /cycles/:cycleId/nodes/:nodeId/calendar-feed',
+    method: 'delete',
+    path: (f) => `/api/night-plans/cycles/${f.cycleId}/nodes/${f.nodeIds[0]}/calendar-feed`,
+    prepare: async (f) => {
+      const hash = createHash('sha256').update(randomBytes(32).toString('base64url')).digest('hex');
+      await h.created.ctx.db('calendar_feeds').insert({ cycle_id: f.cycleId, node_id: f.nodeIds[0], token_hash: hash });
+    },
+    allowed: MANAGER,
+    refused: 403,
+    on: 'fresh',
+  },
+  {
+    name: 'GET /api/calendar-feeds/:token.ics (no session)',
+    method: 'get',
+    path: () => `/api/calendar-feeds/${feedToken}.ics`,
+    public: true,
+    allowed: WHO,
+    refused: 404,
+    on: 'shared',
+  },
+  {
     name: 'GET /programs/:proposalId',
     method: 'get',
     path: (f) => `/api/night-plans/programs/${f.proposalIds[0]}`,
@@ -225,11 +272,14 @@ describe.each(CASES)('$name', (c) => {
     } else if (c.method === 'get') res = await b.get(url);
     else if (c.method === 'delete') res = await b.delete(url);
     else res = await b[c.method](url, c.body ? c.body(f) : {});
-    if (who === 'signed out') {
+    if (c.public) {
+      expect(res.status).toBe(200);
+      expect(res.headers['content-type']).toBe('text/calendar; charset=utf-8');
+    } else if (who === 'signed out') {
       expect(res.status).toBe(401);
       expect(res.body.code).toBe('not_signed_in');
     } else if (allowed) {
-      expect([200, 202, 204]).toContain(res.status);
+      expect([200, 201, 202, 204]).toContain(res.status);
     } else {
       expect(res.status).toBe(c.refused);
       expect(res.body).toEqual(
@@ -264,9 +314,17 @@ describe('refusals that name the problem', () => {
     expect(progress.status).toBe(404);
   });
 
-  it('refused calls changed nothing: the shared cycle keeps one build and no lost night', async () => {
+  it('answers 404 calendar_feed_not_found, signed out, for a link that is not one', async () => {
+    const res = await (await new Browser(h).ready()).get(`/api/calendar-feeds/${'x'.repeat(43)}.ics`);
+    expect(res.status).toBe(404);
+    expect(res.body.code).toBe('calendar_feed_not_found');
+  });
+
+  it('refused calls changed nothing: the shared cycle keeps one build, no lost night and its one working calendar link', async () => {
     const db = h.created.ctx.db;
     expect(await db('night_plan_builds').where('cycle_id', shared.cycleId)).toHaveLength(1);
     expect(await db('lost_nights').where('cycle_id', shared.cycleId)).toHaveLength(0);
+    const feeds = await db('calendar_feeds').where('cycle_id', shared.cycleId);
+    expect(feeds.map((r) => r.revoked_at)).toEqual([null]);
   });
 });

@@ -82,6 +82,9 @@ describe('redactUrl', () => {
     ['/sign-up?invite=abc&next=%2F', '/sign-up?invite=[redacted]&next=%2F'],
     ['/x?Access%5FToken=abc', '/x?Access%5FToken=[redacted]'],
     ['/api/invitations/accept', '/api/invitations/accept'],
+    ['/api/calendar-feeds/Zm9vYmFyYmF6.ics', '/api/calendar-feeds/[redacted]'],
+    ['/fees/contact-invitations/abc', '/fees/contact-invitations/[redacted]'],
+    ['/api/billing/contact-invitations/abc', '/api/billing/contact-invitations/[redacted]'],
     ['/api/proposals/12/targets?page=2', '/api/proposals/12/targets?page=2'],
   ])('%s → %s', (url, logged) => {
     expect(redactUrl(url)).toBe(logged);

@@ -8,8 +8,13 @@ const REDACTED = '[redacted]';
 /** Query parameters whose values are secrets (reset and invitation links carry `token` and `invite`). */
 const SECRET_QUERY_KEY = /token|invite|secret|password|key|code|sig/i;
 
-/** Paths whose next segment is a secret: the client's `/invitations/:token` (and any `/reset/:token`). */
-const SECRET_PATH_SEGMENT = /^(\/(?:invitations|reset|reset-password)\/)(?!accept(?:[/?]|$))[^/?#]+/;
+/**
+ * Paths whose next segment is a secret: the client's `/invitations/:token` (and any `/reset/:token`),
+ * a node's calendar subscription `/api/calendar-feeds/:token.ics`, and a billing contact's
+ * invitation (`/fees/contact-invitations/:token`, `/api/billing/contact-invitations/:token`).
+ */
+const SECRET_PATH_SEGMENT =
+  /^((?:\/api)?\/(?:invitations|reset|reset-password|calendar-feeds|fees\/contact-invitations|billing\/contact-invitations)\/)(?!accept(?:[/?]|$))[^/?#]+/;
 
 /**
  * A URL as it may be logged: the segment after `/invitations/` or `/reset/` and the values of

@@ -72,6 +72,22 @@ export interface TargetProgress {
   atRisk: string[];
 }
 
+/**
+ * Why a program became complete (docs/night-plans.md#complete-programs): every awarded target has
+ * the visit nights its plan needs (`visits_done`), or its cycle's campaign ended
+ * (`campaign_ended`).
+ */
+export type ProgramCompletionCause = 'visits_done' | 'campaign_ended';
+
+/** When and why a program became complete. */
+export interface ProgramCompletion {
+  cause: ProgramCompletionCause;
+  /** The instant it became complete. */
+  at: string;
+  /** The campaign's last night (`YYYY-MM-DD`) when the campaign's end completed it; else null. */
+  campaignEnd: string | null;
+}
+
 /** One program (an awarded proposal) of the cycle. */
 export interface ProgramProgress {
   proposalId: number;
@@ -89,6 +105,8 @@ export interface ProgramProgress {
   visitsDone: number;
   /** Mean of the targets' recovery fractions (null before a build). */
   recoveryFraction: number | null;
+  /** Why and when it became complete; null unless its state is complete (or no reason was recorded). */
+  completion: ProgramCompletion | null;
   targets: TargetProgress[];
 }
 
@@ -231,3 +249,34 @@ export interface ExecutionUploadResult {
   updated: number;
   rows: number;
 }
+
+/**
+ * Calendar subscription link of a node's night plan: a calendar application subscribes to
+ * `GET /api/calendar-feeds/<secret>.ics` without signing in and polls it for the node's visits
+ * (the same iCalendar as the download). Facility managers make, replace and stop the link at
+ * `/api/night-plans/cycles/:cycleId/nodes/:nodeId/calendar-feed`; the secret is shown once,
+ * when the link is made, and only its hash is stored. Making a new link stops the previous one;
+ * a stopped or unknown link answers 404 `calendar_feed_not_found`.
+ */
+
+/** GET …/calendar-feed: whether the node's plan has a working link (never the link itself). */
+export interface CalendarFeedStatus {
+  active: boolean;
+  /** When the working link was made; null when there is none. */
+  createdAt: string | null;
+  /** Display name of who made it; null when there is no link or that account no longer exists. */
+  createdBy: string | null;
+}
+
+/** POST …/calendar-feed (201): the new link, answered this once; the previous link stops working. */
+export interface CalendarFeedLink {
+  /** The address to subscribe to, `<public address>/api/calendar-feeds/<secret>.ics`. */
+  url: string;
+  createdAt: string;
+}
+
+/** Shape of a link's secret: 32 random bytes in base64url (43 characters). Anything else is no link (404). */
+export const calendarFeedTokenSchema = z.string().regex(/^[A-Za-z0-9_-]{43}$/);
+
+/** How long a calendar application or cache may keep the feed before asking again (Cache-Control max-age). */
+export const CALENDAR_FEED_MAX_AGE_SECONDS = 300;

@@ -3,6 +3,7 @@ import { z } from 'zod';
 import { idParam } from '@spincycle/shared/http/ids';
 import { lostNightSchema, timelineQuerySchema, visitStatusSchema } from '@spincycle/shared/night-plans/night-plans';
 import type { AppContext } from '../../app-context';
+import { getCalendarFeed, makeCalendarFeed, stopCalendarFeed } from './calendar-feed-service';
 import {
   exportNodePlan,
   getLatestBuild,
@@ -81,6 +82,22 @@ export function createNightPlanController(ctx: AppContext) {
     },
     planCsv: exportPlan('csv'),
     planIcs: exportPlan('ics'),
+    async calendarFeed(req: Request, res: Response) {
+      const { cycleId, nodeId } = nodeParams.parse(req.params);
+      res.setHeader('Cache-Control', 'no-store');
+      res.json(await getCalendarFeed(ctx, cycleId, nodeId));
+    },
+    async makeCalendarFeed(req: Request, res: Response) {
+      const { cycleId, nodeId } = nodeParams.parse(req.params);
+      // The link's secret is in this answer only: no cache may keep it.
+      res.setHeader('Cache-Control', 'no-store');
+      res.status(201).json(await makeCalendarFeed(ctx, req.user!, cycleId, nodeId));
+    },
+    async stopCalendarFeed(req: Request, res: Response) {
+      const { cycleId, nodeId } = nodeParams.parse(req.params);
+      await stopCalendarFeed(ctx, req.user!, cycleId, nodeId);
+      res.status(204).end();
+    },
     async program(req: Request, res: Response) {
       const { proposalId } = proposalParams.parse(req.params);
       res.json(await getProgramProgress(ctx, req.user!, proposalId));

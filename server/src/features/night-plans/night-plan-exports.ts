@@ -1,6 +1,7 @@
 /**
  * A node's night plan as files: CSV (one row per visit, formula-escaped) and iCalendar (one
- * event per visit, "<target> (<program title>)", times in UTC).
+ * event per visit, "<target> (<program title>)", times in UTC). The iCalendar body is both the
+ * manager's download and the calendar subscription feed (calendar-feed-service.ts).
  */
 import ical from 'ical-generator';
 import { stringify } from 'csv-stringify/sync';
@@ -34,8 +35,20 @@ export function planCsv(visits: ExportVisit[]): string {
   return stringify([[...PLAN_CSV_COLUMNS], ...rows], { record_delimiter: 'windows' });
 }
 
+/**
+ * How often a subscribed calendar application should ask for the plan again (REFRESH-INTERVAL,
+ * RFC 7986, and X-PUBLISHED-TTL). Plans change with a re-plan or a lost night, not by the
+ * minute; an hour is common practice, no source. A downloaded file is imported once and the
+ * hint is ignored.
+ */
+export const PLAN_ICS_REFRESH_SECONDS = 3600;
+
 export function planIcs(name: string, visits: ExportVisit[]): string {
-  const cal = ical({ name, prodId: { company: 'Spincycle', product: 'night-plans', language: 'EN' } });
+  const cal = ical({
+    name,
+    prodId: { company: 'Spincycle', product: 'night-plans', language: 'EN' },
+    ttl: PLAN_ICS_REFRESH_SECONDS,
+  });
   for (const v of visits) {
     cal.createEvent({
       id: `visit-${v.id}@spincycle`,

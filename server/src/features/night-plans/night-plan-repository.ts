@@ -3,7 +3,10 @@ import { insertAudit, type AuditEntity, type AuditInsert } from '../awards/award
 import type { NightPlanBuildKind, NightPlanBuildState, NightPlanBuildStatus, VisitStatus } from '@spincycle/shared/night-plans/night-plans';
 import type { ProgramState } from '@spincycle/shared/awards/awards';
 
-/** Program states whose awarded targets are scheduled. */
+/**
+ * Program states whose awarded targets are scheduled. A complete program is not (see
+ * program-completion.ts): builds leave it out, and its figures stay as they were.
+ */
 export const SCHEDULED_PROGRAM_STATES: ProgramState[] = ['scheduled', 'observing'];
 
 /** A released cycle as the night plans need it. */
@@ -336,7 +339,9 @@ export interface TargetFiguresInsert {
 /**
  * In one transaction (the caller's): the node's planned visits from `fromNight` on (every
  * night for null) are replaced, done and missed visits and those before `fromNight` untouched;
- * the node's target figures are replaced.
+ * the node's target figures are replaced, except those of complete programs (the build leaves
+ * them out, and their figures are the record of what their plans needed and got). A program
+ * that became complete while the build ran gets none of its new visits or figures.
  */
 export async function replaceNodePlan(
   trx: Knex.Transaction,
@@ -346,12 +351,15 @@ export async function replaceNodePlan(
   visits: VisitInsert[],
   figures: TargetFiguresInsert[],
 ): Promise<void> {
+  const complete = new Set<number>(await trx('programs').where({ cycle_id: cycleId, state: 'complete' }).pluck('proposal_id'));
+  const newVisits = visits.filter((v) => !complete.has(v.proposalId));
+  const newFigures = figures.filter((f) => !complete.has(f.proposalId));
   const del = trx('night_plan_visits').where({ cycle_id: cycleId, node_id: nodeId, status: 'planned' });
   if (fromNight) del.where('night_date', '>=', fromNight);
   await del.del();
-  for (let i = 0; i < visits.length; i += 1000) {
+  for (let i = 0; i < newVisits.length; i += 1000) {
     await trx('night_plan_visits').insert(
-      visits.slice(i, i + 1000).map((v) => ({
+      newVisits.slice(i, i + 1000).map((v) => ({
         cycle_id: v.cycleId,
         node_id: v.nodeId,
         proposal_id: v.proposalId,
@@ -365,10 +373,13 @@ export async function replaceNodePlan(
       })),
     );
   }
-  await trx('night_plan_targets').where({ cycle_id: cycleId, node_id: nodeId }).del();
-  for (let i = 0; i < figures.length; i += 1000) {
+  await trx('night_plan_targets')
+    .where({ cycle_id: cycleId, node_id: nodeId })
+    .whereNotIn('proposal_id', [...complete])
+    .del();
+  for (let i = 0; i < newFigures.length; i += 1000) {
     await trx('night_plan_targets').insert(
-      figures.slice(i, i + 1000).map((f) => ({
+      newFigures.slice(i, i + 1000).map((f) => ({
         cycle_id: f.cycleId,
         proposal_id: f.proposalId,
         target_id: f.targetId,

@@ -7,7 +7,10 @@ import { createNightPlanController } from './night-plan-controller';
 
 /**
  * Mounted at /api/night-plans: facility managers' cycles, builds, timelines, nights, lost
- * nights, execution log and exports; a program's progress for its team and facility managers
+ * nights, execution log, exports and each node's calendar subscription link (see whether one
+ * works, make a new one, which stops the previous one, or stop it; the link's secret is answered
+ * once, by the POST, and the feed itself is served without a session by calendar-feed-routes.ts
+ * at /api/calendar-feeds/:token.ics); a program's progress for its team and facility managers
  * (the service answers 404 to everyone else). Every route is listed in
  * test/api/night-plans-permissions.spec.ts.
  */
@@ -30,6 +33,9 @@ export function createNightPlanRoutes(ctx: AppContext): Router {
   router.delete('/cycles/:cycleId/nodes/:nodeId/lost-nights/:date', manager, c.unmarkLost);
   router.get('/cycles/:cycleId/nodes/:nodeId/plan.csv', manager, c.planCsv);
   router.get('/cycles/:cycleId/nodes/:nodeId/plan.ics', manager, c.planIcs);
+  router.get('/cycles/:cycleId/nodes/:nodeId/calendar-feed', manager, c.calendarFeed);
+  router.post('/cycles/:cycleId/nodes/:nodeId/calendar-feed', manager, c.makeCalendarFeed);
+  router.delete('/cycles/:cycleId/nodes/:nodeId/calendar-feed', manager, c.stopCalendarFeed);
   router.post('/cycles/:cycleId/execution', manager, upload, c.execution);
   router.put('/visits/:visitId', manager, c.visitStatus);
   router.get('/programs/:proposalId', requireSignedIn, c.program);

@@ -35,6 +35,7 @@ import { listNodes } from '../facility/facility-repository';
 import { accessProposal } from '../proposals/proposal-access';
 import { executionErrors, readExecutionCsv } from './execution-csv';
 import { planCsv, planIcs, type ExportVisit } from './night-plan-exports';
+import { completeIfCampaignEnded, completeProgramsWithVisitsDone, findCompletions } from './program-completion';
 import {
   failBuild,
   findLatestBuild,
@@ -179,6 +180,10 @@ async function nightPlanNode(
 async function programProgress(db: Knex, programs: ProgramRow[]): Promise<ProgramProgress[]> {
   if (!programs.length) return [];
   const ids = programs.map((p) => p.proposalId);
+  const completions = await findCompletions(
+    db,
+    programs.filter((p) => p.state === 'complete').map((p) => p.proposalId),
+  );
   const figures = await db('night_plan_targets as f')
     .join('targets as t', 't.id', 'f.target_id')
     .join('nodes as n', 'n.id', 'f.node_id')
@@ -229,14 +234,20 @@ async function programProgress(db: Knex, programs: ProgramRow[]): Promise<Progra
       visitsPlanned: targets.reduce((s, t) => s + t.visitsPlanned, 0),
       visitsDone: targets.reduce((s, t) => s + t.visitsDone, 0),
       recoveryFraction: fractions.length ? fractions.reduce((s, f) => s + f, 0) / fractions.length : null,
+      completion: p.state === 'complete' ? (completions.get(p.proposalId) ?? null) : null,
       targets,
     };
   });
 }
 
-/** GET /cycles/:cycleId. */
+/**
+ * GET /cycles/:cycleId. Once the cycle's campaign is over its programs still scheduled or
+ * observing are made complete first (program-completion.ts: idempotent, and nothing at all
+ * while the campaign runs), so that the overview is right even without a running worker.
+ */
 export async function getNightPlanOverview(ctx: AppContext, cycleId: number): Promise<NightPlanOverview> {
   const cycle = await requireCycle(ctx.db, cycleId);
+  await completeIfCampaignEnded(ctx.db, cycle, ctx.now());
   const [build, nodeIds, programs, totals] = await Promise.all([
     findLatestBuild(ctx.db, cycleId),
     listCycleNodeIds(ctx.db, cycleId),
@@ -575,7 +586,11 @@ export async function setVisitStatus(ctx: AppContext, viewer: SessionUser, visit
         at,
       },
     ]);
-    if (status === 'done') await startObserving(trx, row.cycle_id, [visitId], viewer.id, at);
+    if (status === 'done') {
+      await startObserving(trx, row.cycle_id, [visitId], viewer.id, at);
+      // The program may now have every visit night it needs (program-completion.ts).
+      await completeProgramsWithVisitsDone(trx, row.cycle_id, [visitId], viewer.id, at);
+    }
   });
   const v = await ctx
     .db('night_plan_visits as v')
@@ -667,6 +682,8 @@ export async function uploadExecution(
     for (let i = 0; i < audit.length; i += 1000) await insertNightPlanAudit(trx, audit.slice(i, i + 1000));
     const done = [...changes].filter(([, c]) => c.status === 'done').map(([id]) => id);
     for (let i = 0; i < done.length; i += 1000) await startObserving(trx, cycleId, done.slice(i, i + 1000), viewer.id, at);
+    // Programs with every visit night they need are complete (program-completion.ts); one call, so that their rows are locked in one order.
+    await completeProgramsWithVisitsDone(trx, cycleId, done, viewer.id, at);
   });
   return { updated: changes.size, rows: rows.length };
 }
@@ -691,6 +708,9 @@ export async function getProgramProgress(ctx: AppContext, viewer: SessionUser, p
     .whereNotNull('c.awards_released_at')
     .first('g.cycle_id');
   if (!program) throw programNotFound(proposalId);
+  // A campaign that ended completes its programs here too, so the team never waits for the daily job.
+  const ended = await ctx.db('cycles').where('id', program.cycle_id).first('campaign_end');
+  if (ended) await completeIfCampaignEnded(ctx.db, { id: program.cycle_id, campaignEnd: ended.campaign_end }, ctx.now());
   const row = (await listPrograms(ctx.db, program.cycle_id)).find((p) => p.proposalId === proposalId);
   if (!row) throw programNotFound(proposalId);
   const [progress] = await programProgress(ctx.db, [row]);

@@ -1,6 +1,8 @@
 import { HttpClient, httpResource } from '@angular/common/http';
 import { inject, Injectable, InjectionToken } from '@angular/core';
 import type {
+  CalendarFeedLink,
+  CalendarFeedStatus,
   ExecutionUploadResult,
   LostNightInput,
   NightPlan,
@@ -26,6 +28,12 @@ export interface TimelineWindow {
   to: string;
 }
 
+/** One node of one cycle. */
+export interface NodeRef {
+  cycleId: number;
+  nodeId: number;
+}
+
 /** One night of one node. */
 export interface NightRef {
   cycleId: number;
@@ -35,9 +43,9 @@ export interface NightRef {
 
 /**
  * All HTTP of the night plans: the manager's cycle picker, overview, builds, timelines, single
- * nights, lost nights, visit statuses, the execution upload and the exports; and the team's
- * program progress. Resources must be created in an injection context; a getter returning null
- * reads nothing.
+ * nights, lost nights, visit statuses, the execution upload, the exports and each node's
+ * calendar subscription link; and the team's program progress. Resources must be created in an
+ * injection context; a getter returning null reads nothing.
  */
 @Injectable({ providedIn: 'root' })
 export class NightPlansApi {
@@ -69,6 +77,14 @@ export class NightPlansApi {
     return httpResource<NightPlan>(() => {
       const n = night();
       return n === null ? undefined : `${BASE}/cycles/${n.cycleId}/nodes/${n.nodeId}/nights/${n.date}`;
+    });
+  }
+
+  /** GET …/nodes/:nodeId/calendar-feed: whether the node's calendar subscription link works, made when and by whom. */
+  calendarFeedResource(node: () => NodeRef | null) {
+    return httpResource<CalendarFeedStatus>(() => {
+      const n = node();
+      return n === null ? undefined : `${BASE}/cycles/${n.cycleId}/nodes/${n.nodeId}/calendar-feed`;
     });
   }
 
@@ -105,6 +121,16 @@ export class NightPlansApi {
     const body = new FormData();
     body.append('file', file, file.name);
     return this.http.post<ExecutionUploadResult>(`${BASE}/cycles/${cycleId}/execution`, body);
+  }
+
+  /** POST …/nodes/:nodeId/calendar-feed: a new subscription link (answered this once); the previous one stops working. */
+  makeCalendarFeed(cycleId: number, nodeId: number): Observable<CalendarFeedLink> {
+    return this.http.post<CalendarFeedLink>(`${BASE}/cycles/${cycleId}/nodes/${nodeId}/calendar-feed`, {});
+  }
+
+  /** DELETE …/nodes/:nodeId/calendar-feed: the subscription link stops working (404 when none works). */
+  stopCalendarFeed(cycleId: number, nodeId: number): Observable<void> {
+    return this.http.delete<void>(`${BASE}/cycles/${cycleId}/nodes/${nodeId}/calendar-feed`);
   }
 
   /** Download and calendar links of one node's plan. */

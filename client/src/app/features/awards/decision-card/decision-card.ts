@@ -226,7 +226,7 @@ export class DecisionCard {
       case 'observing':
         return ': the nodes are observing your targets.';
       case 'complete':
-        return ': every planned visit has been made.';
+        return ': observing has finished; its progress below says why.';
       case 'withdrawn':
         return ': it will not be observed.';
     }

@@ -5,6 +5,7 @@ import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { MatDialog } from '@angular/material/dialog';
 import { provideRouter } from '@angular/router';
 import type { NightPlanBuildStatus } from '@spincycle/shared/night-plans/night-plans';
+import { CalendarLinkDialog } from '../calendar-link-dialog/calendar-link-dialog';
 import { NightDialog } from '../night-dialog/night-dialog';
 import { NIGHT_PLAN_POLL_MS } from '../night-plans-api';
 import { testBuild, testOverview, testTimeline } from '../testing/night-plan-fixtures';
@@ -65,7 +66,10 @@ describe('NightPlanPage', () => {
     expect(el().querySelector('[data-testid=program-22]')).not.toBeNull();
     expect(el().querySelector('[data-testid=export-csv-3]')?.getAttribute('href')).toBe('/api/night-plans/cycles/7/nodes/3/plan.csv');
     expect(el().querySelector('[data-testid=export-ics-3]')?.getAttribute('href')).toBe('/api/night-plans/cycles/7/nodes/3/plan.ics');
-    expect(text('[data-testid=exports]')).toContain('download its calendar file and open it with your calendar application');
+    expect(text('[data-testid=exports-hint]')).toContain(
+      "subscribe in your calendar application with the node's subscription link: the calendar then updates itself",
+    );
+    expect(text('[data-testid=calendar-link-3]')).toBe('calendar_add_on Subscription link of KRG-50');
     expect(el().querySelector('[data-testid=build-progress]')).toBeNull();
   });
 
@@ -181,6 +185,17 @@ describe('NightPlanPage', () => {
     await settle();
     backend.expectOne(isTimeline).flush(testTimeline());
     await settle();
+  });
+
+  it('a node’s "Subscription link" opens its calendar link dialog', async () => {
+    await render();
+    backend.expectOne(OVERVIEW).flush(testOverview());
+    await settle();
+    backend.expectOne(isTimeline).flush(testTimeline());
+    await settle();
+    const open = jest.spyOn(TestBed.inject(MatDialog), 'open').mockReturnValue({} as never);
+    (el().querySelector('[data-testid=calendar-link-3]') as HTMLButtonElement).click();
+    expect(open).toHaveBeenCalledWith(CalendarLinkDialog, expect.objectContaining({ data: { cycleId: 7, nodeId: 3, nodeCode: 'KRG-50' } }));
   });
 
   it('error: the message, with a retry', async () => {

@@ -21,6 +21,7 @@ import type { NightPlanBuildStatus, NightPlanNode, NightPlanOverview } from '@sp
 import { loadErrorText, readApiError } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { DayPipe, UtcInstantPipe } from '../../../ui/time/date-pipes';
+import { CalendarLinkDialog, type CalendarLinkDialogData } from '../calendar-link-dialog/calendar-link-dialog';
 import { ExecutionUpload } from '../execution-upload/execution-upload';
 import { NightDialog, type NightDialogData } from '../night-dialog/night-dialog';
 import { buildPercent, buildWords, isBuildActive, programColours } from '../night-plan-format';
@@ -35,7 +36,8 @@ const MAX_POLL_FAILURES = 5;
  * /night-plans/:cycleId, for facility managers: the night plans of one released cycle. Build
  * (or re-build) them with a progress bar; each node's nights a month at a time, a night's plan
  * in a dialog (mark visits done or missed, mark the night lost); each program's progress and
- * science yield; the execution log upload; the plan's CSV and calendar per node.
+ * science yield; the execution log upload; the plan's CSV and calendar per node, and its
+ * calendar subscription link (in a dialog).
  */
 @Component({
   selector: 'app-night-plan-page',
@@ -211,6 +213,13 @@ export default class NightPlanPage {
   protected uploaded(): void {
     this.overview.reload();
     this.refresh.update((n) => n + 1);
+  }
+
+  protected openCalendarLink(node: NightPlanNode): void {
+    const id = this.id();
+    if (id === null) return;
+    const data: CalendarLinkDialogData = { cycleId: id, nodeId: node.nodeId, nodeCode: node.code };
+    this.dialog.open(CalendarLinkDialog, { data, width: '640px', maxWidth: '96vw', autoFocus: 'dialog' });
   }
 
   protected exports(nodeId: number): { csv: string; ics: string } {

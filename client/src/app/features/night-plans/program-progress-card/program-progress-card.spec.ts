@@ -1,7 +1,7 @@
 import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { testProgram } from '../testing/night-plan-fixtures';
+import { testCompleteProgram, testProgram } from '../testing/night-plan-fixtures';
 import { ProgramProgressCard } from './program-progress-card';
 
 describe('ProgramProgressCard', () => {
@@ -23,6 +23,10 @@ describe('ProgramProgressCard', () => {
     backend.expectOne('/api/night-plans/programs/21').flush(testProgram());
     await fixture.whenStable();
     expect(text('h2')).toBe('Program progress');
+    expect(text('[data-testid=program-state-chip]')).toBe('Observing');
+    expect(text('[data-testid=program-state] .visually-hidden')).toBe('Program state:');
+    expect(text('[data-testid=program-state] .muted')).toBe('The facility plans your visits night by night on its nodes.');
+    expect(el().querySelector('[data-testid=program-completion]')).toBeNull();
     // 34 planned of 40 required: 6 could not be fitted (worked by hand in this test).
     expect(text('[data-testid=program-visits]')).toBe(
       '6 of 34 planned visits done so far. Your targets need 40 visits in all; 6 could not be fitted into the nights awarded.',
@@ -46,6 +50,38 @@ describe('ProgramProgressCard', () => {
     await fixture.whenStable();
     expect(text('[data-testid=program-visits]')).toContain('Your targets need 40 visits in all, and all of them are planned.');
     expect(text('[data-testid=program-risks]')).toBe("None: every target's visits keep their cadence as planned.");
+  });
+
+  it('complete by its visits: a Complete chip, why, what was done, and no targets at risk any more', async () => {
+    backend.expectOne('/api/night-plans/programs/21').flush(testCompleteProgram('visits'));
+    await fixture.whenStable();
+    expect(text('[data-testid=program-state-chip]')).toBe('Complete');
+    expect(el().querySelector('[data-testid=program-state-chip]')!.classList).toContain('complete');
+    expect(text('[data-testid=program-completion]')).toBe(
+      'Your program is complete: every target has the visit nights its plan needs. No more visits are planned for it.',
+    );
+    expect(text('[data-testid=program-visits]')).toBe("36 visits were done; your targets' plans asked for 40.");
+    expect(el().querySelector('[data-testid=program-risks]')).toBeNull();
+    expect(el().textContent).not.toContain('Targets at risk');
+    // The recovery estimate still shows.
+    expect(text('[data-testid=recovery-value]')).toBe('81 %');
+  });
+
+  it('complete because the campaign ended: says so with the date of its last night', async () => {
+    backend.expectOne('/api/night-plans/programs/21').flush(testCompleteProgram('campaign'));
+    await fixture.whenStable();
+    expect(text('[data-testid=program-state-chip]')).toBe('Complete');
+    // The last night 2027-04-15, written as the `day` pipe writes days (worked by hand in this test).
+    expect(text('[data-testid=program-completion]')).toBe(
+      'Your program is complete: the campaign ended on 15 Apr 2027. No more visits are planned for it.',
+    );
+    expect(text('[data-testid=program-visits]')).toBe("20 visits were done; your targets' plans asked for 40.");
+  });
+
+  it('complete with no recorded reason: says it is complete, nothing more', async () => {
+    backend.expectOne('/api/night-plans/programs/21').flush(testCompleteProgram('visits', { completion: null }));
+    await fixture.whenStable();
+    expect(text('[data-testid=program-completion]')).toBe('Your program is complete. No more visits are planned for it.');
   });
 
   it('404 (no plan yet): shows nothing', async () => {

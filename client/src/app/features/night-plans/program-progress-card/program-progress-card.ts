@@ -1,38 +1,53 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, LOCALE_ID, signal } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatCard } from '@angular/material/card';
 import { MatIcon } from '@angular/material/icon';
-import { PROGRAM_STATE_LABELS } from '@spincycle/shared/awards/awards';
-import type { ProgramProgress } from '@spincycle/shared/night-plans/night-plans';
+import type { ProgramCompletion, ProgramProgress } from '@spincycle/shared/night-plans/night-plans';
 import { loadErrorTextUnlessMissing } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { NightPlansApi } from '../night-plans-api';
 import { RECOVERY_EXPLANATION } from '../night-plan-format';
+import { completionReason } from '../programs-table/completion-reason';
+import { ProgramStateChip } from '../programs-table/program-state-chip';
 import { risksOf } from '../programs-table/programs-table';
 import { RecoveryBar } from '../programs-table/recovery-bar';
 
 let nextId = 0;
 
 /**
- * The team's view of its program once the facility plans its nights: visits done, planned
- * and required, the chance that the planned visits reveal the targets' periods (explained on
- * demand), and the targets at risk with the reasons. Shows nothing while there is no program
- * or no plan (404).
+ * The team's view of its program once the facility plans its nights: its state, visits done,
+ * planned and required, the chance that the planned visits reveal the targets' periods
+ * (explained on demand), and the targets at risk with the reasons. A complete program says why
+ * (every visit night its targets need is done, or the campaign ended) and shows what was done
+ * instead of what is still at risk. Shows nothing while there is no program or no plan (404).
  */
 @Component({
   selector: 'app-program-progress-card',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [LoadStatus, MatButton, MatCard, MatIcon, RecoveryBar],
+  imports: [LoadStatus, MatButton, MatCard, MatIcon, ProgramStateChip, RecoveryBar],
   template: `
     @if (program(); as p) {
       <mat-card appearance="outlined" class="progress-card" data-testid="program-progress-card">
         <section [attr.aria-labelledby]="uid + '-title'">
           <h2 [id]="uid + '-title'">Program progress</h2>
-          <p class="muted">Program {{ stateLabel(p) }}. The facility plans your visits night by night on its nodes.</p>
+          <p class="state-line" data-testid="program-state">
+            <span class="visually-hidden">Program state:</span>
+            <app-program-state-chip [state]="p.programState" />
+            @if (p.programState === 'complete') {
+              <span data-testid="program-completion">{{ completeSentence(p.completion) }} No more visits are planned for it.</span>
+            } @else {
+              <span class="muted">The facility plans your visits night by night on its nodes.</span>
+            }
+          </p>
           <p data-testid="program-visits">
-            <strong>{{ p.visitsDone }} of {{ p.visitsPlanned }}</strong> planned {{ p.visitsPlanned === 1 ? 'visit' : 'visits' }} done so
-            far.
-            {{ needed(p) }}
+            @if (p.programState === 'complete') {
+              <strong>{{ p.visitsDone }}</strong> {{ p.visitsDone === 1 ? 'visit was' : 'visits were' }} done; your targets' plans asked for
+              {{ p.visitsRequired }}.
+            } @else {
+              <strong>{{ p.visitsDone }} of {{ p.visitsPlanned }}</strong> planned {{ p.visitsPlanned === 1 ? 'visit' : 'visits' }} done so
+              far.
+              {{ needed(p) }}
+            }
           </p>
           <div class="bar" aria-hidden="true">
             <span class="done" [style.inline-size.%]="share(p.visitsDone, p)"></span>
@@ -57,22 +72,24 @@ let nextId = 0;
             <p class="muted explanation" [id]="uid + '-why'" data-testid="program-recovery-explanation">{{ meaning }}</p>
           }
 
-          <h3>Targets at risk</h3>
-          @if (risks(p); as r) {
-            @if (r.length) {
-              <ul class="risks" data-testid="program-risks">
-                @for (x of r; track x.target) {
-                  <li>
-                    <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">warning</mat-icon>
-                    <span
-                      ><strong>{{ x.target }}</strong
-                      >: {{ x.reasons.join(' ') }}</span
-                    >
-                  </li>
-                }
-              </ul>
-            } @else {
-              <p class="muted" data-testid="program-risks">None: every target's visits keep their cadence as planned.</p>
+          @if (p.programState !== 'complete') {
+            <h3>Targets at risk</h3>
+            @if (risks(p); as r) {
+              @if (r.length) {
+                <ul class="risks" data-testid="program-risks">
+                  @for (x of r; track x.target) {
+                    <li>
+                      <mat-icon fontSet="material-symbols-outlined" aria-hidden="true">warning</mat-icon>
+                      <span
+                        ><strong>{{ x.target }}</strong
+                        >: {{ x.reasons.join(' ') }}</span
+                      >
+                    </li>
+                  }
+                </ul>
+              } @else {
+                <p class="muted" data-testid="program-risks">None: every target's visits keep their cadence as planned.</p>
+              }
             }
           }
         </section>
@@ -94,6 +111,12 @@ let nextId = 0;
     h2 {
       font: var(--mat-sys-title-medium);
       margin: 0 0 8px;
+    }
+    .state-line {
+      display: flex;
+      flex-wrap: wrap;
+      align-items: baseline;
+      gap: 8px;
     }
     h3 {
       font: var(--mat-sys-title-small);
@@ -163,8 +186,11 @@ export class ProgramProgressCard {
   protected readonly meaning = RECOVERY_EXPLANATION;
   protected readonly risks = risksOf;
 
-  protected stateLabel(p: ProgramProgress): string {
-    return PROGRAM_STATE_LABELS[p.programState].toLowerCase();
+  private readonly locale = inject(LOCALE_ID);
+
+  /** "Your program is complete: the campaign ended on 15 Apr 2027." */
+  protected completeSentence(c: ProgramCompletion | null): string {
+    return c ? `Your program is complete: ${completionReason(c, this.locale)}.` : 'Your program is complete.';
   }
 
   /** "Your targets need 40 visits in all; 6 could not be fitted into the nights awarded." */

@@ -1,5 +1,5 @@
 import { ComponentFixture, TestBed } from '@angular/core/testing';
-import { testOverview } from '../testing/night-plan-fixtures';
+import { testCompleteProgram, testOverview, testProgram } from '../testing/night-plan-fixtures';
 import { ProgramsTable } from './programs-table';
 
 describe('ProgramsTable', () => {
@@ -24,6 +24,33 @@ describe('ProgramsTable', () => {
       'Quill-1 (KRG-50): A gap of 9 nights is longer than the 8 nights the cadence allows.',
     );
     expect(text('[data-testid=program-22] [data-testid=program-risks]')).toBe('None');
+  });
+
+  it('shows each program’s state as a chip; an unfinished one says nothing about completion', () => {
+    expect(text('[data-testid=program-21] [data-testid=program-state-chip]')).toBe('Observing');
+    expect(text('[data-testid=program-21] th.program .muted')).toBe('Mara Quillfeather · Observing');
+    expect(el().querySelector('[data-testid=program-21] [data-testid=program-completion]')).toBeNull();
+  });
+
+  it('a complete program: a Complete chip and why, by its visits or by the campaign’s end', async () => {
+    fixture.componentRef.setInput('programs', [
+      testCompleteProgram('visits'),
+      testCompleteProgram('campaign', { proposalId: 23, title: 'Late spots' }),
+      testProgram({ proposalId: 24, title: 'Quiet stars', programState: 'withdrawn' }),
+      testCompleteProgram('visits', { proposalId: 25, title: 'Old record', completion: null }),
+    ]);
+    await fixture.whenStable();
+    const chip = el().querySelector('[data-testid=program-21] [data-testid=program-state-chip]')!;
+    expect(chip.textContent).toBe('Complete');
+    expect(chip.classList).toContain('complete');
+    expect(text('[data-testid=program-21] [data-testid=program-completion]')).toBe(
+      'Complete because every target has the visit nights its plan needs.',
+    );
+    // The last night 2027-04-15 as the `day` pipe writes it (worked by hand in this test).
+    expect(text('[data-testid=program-23] [data-testid=program-completion]')).toBe('Complete because the campaign ended on 15 Apr 2027.');
+    expect(text('[data-testid=program-24] [data-testid=program-state-chip]')).toBe('Withdrawn');
+    expect(el().querySelector('[data-testid=program-24] [data-testid=program-completion]')).toBeNull();
+    expect(text('[data-testid=program-25] [data-testid=program-completion]')).toBe('Complete.');
   });
 
   it('the recovery fraction is explained on demand', async () => {

@@ -1,9 +1,10 @@
-import { ChangeDetectionStrategy, Component, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input, LOCALE_ID, signal } from '@angular/core';
 import { MatButton, MatIconButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
-import { PROGRAM_STATE_LABELS } from '@spincycle/shared/awards/awards';
-import type { ProgramProgress, TargetProgress } from '@spincycle/shared/night-plans/night-plans';
+import type { ProgramCompletion, ProgramProgress, TargetProgress } from '@spincycle/shared/night-plans/night-plans';
 import { cadenceAchieved, cadenceAsked, cadenceLate, RECOVERY_EXPLANATION } from '../night-plan-format';
+import { completionReason } from './completion-reason';
+import { ProgramStateChip } from './program-state-chip';
 import { RecoveryBar } from './recovery-bar';
 
 /** The targets of a program at risk, with their reasons. */
@@ -12,14 +13,15 @@ export function risksOf(p: ProgramProgress): { target: string; reasons: string[]
 }
 
 /**
- * Each program's progress: visits done, planned and required; the recovery fraction as a bar
- * (what it means on demand); the targets at risk and why. A program opens to its targets, each
- * with its cadence asked and achieved and its own recovery estimate.
+ * Each program's progress: its state (a complete one says why), visits done, planned and
+ * required; the recovery fraction as a bar (what it means on demand); the targets at risk and
+ * why. A program opens to its targets, each with its cadence asked and achieved and its own
+ * recovery estimate.
  */
 @Component({
   selector: 'app-programs-table',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [MatButton, MatIcon, MatIconButton, RecoveryBar],
+  imports: [MatButton, MatIcon, MatIconButton, ProgramStateChip, RecoveryBar],
   templateUrl: './programs-table.html',
   styleUrl: './programs-table.scss',
 })
@@ -32,11 +34,15 @@ export class ProgramsTable {
   protected readonly explained = signal<ReadonlySet<string>>(new Set());
   protected readonly showMeaning = signal(false);
   protected readonly meaning = RECOVERY_EXPLANATION;
-  protected readonly stateLabels = PROGRAM_STATE_LABELS;
   protected readonly risks = risksOf;
   protected readonly asked = cadenceAsked;
   protected readonly achieved = cadenceAchieved;
   protected readonly late = cadenceLate;
+  private readonly locale = inject(LOCALE_ID);
+
+  protected reason(c: ProgramCompletion): string {
+    return completionReason(c, this.locale);
+  }
 
   protected toggle(id: number): void {
     this.open.update((s) => {

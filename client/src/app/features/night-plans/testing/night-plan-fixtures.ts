@@ -81,6 +81,7 @@ export function testProgram(overrides: Partial<ProgramProgress> = {}): ProgramPr
     visitsPlanned: 34,
     visitsDone: 6,
     recoveryFraction: 0.81,
+    completion: null,
     targets: [
       testTarget(),
       testTarget({
@@ -138,6 +139,23 @@ export function testOverview(overrides: Partial<NightPlanOverview> = {}): NightP
     ],
     ...overrides,
   };
+}
+
+/**
+ * A complete program: by its visits (every target's visit nights done on 2 April 2027, its
+ * later planned visits removed: 36 visits planned and done), or, with `campaign`, by the
+ * campaign's end (last night 15 April 2027; 20 of 34 planned visits done).
+ */
+export function testCompleteProgram(cause: 'visits' | 'campaign' = 'visits', overrides: Partial<ProgramProgress> = {}): ProgramProgress {
+  const byCause: Partial<ProgramProgress> =
+    cause === 'visits'
+      ? { visitsPlanned: 36, visitsDone: 36, completion: { cause: 'visits_done', at: '2027-04-02T10:15:00Z', campaignEnd: null } }
+      : {
+          visitsPlanned: 34,
+          visitsDone: 20,
+          completion: { cause: 'campaign_ended', at: '2027-04-17T00:10:00Z', campaignEnd: '2027-04-15' },
+        };
+  return testProgram({ programState: 'complete', ...byCause, ...overrides });
 }
 
 /** March 1–3 of KRG-50: a night with a done and a missed visit, a lost night, a night with one planned visit. */
