@@ -23,7 +23,10 @@ const env = {
   PGDATABASE: process.env.PGDATABASE ?? 'spincycle',
   SMTP_PORT: process.env.SMTP_PORT ?? '2525',
   MAIL_FAKE_HTTP_PORT: process.env.MAIL_FAKE_HTTP_PORT ?? '4399',
+  PAYMENT_FAKE_PORT: process.env.PAYMENT_FAKE_PORT ?? '4397',
 };
+// The web server reaches the payment fake (fakes/payments) through the provider SDK at this URL.
+env.PAYMENT_API_URL = process.env.PAYMENT_API_URL ?? `http://127.0.0.1:${env.PAYMENT_FAKE_PORT}`;
 // The development mailbox (fakes/mail) shows reset links: it listens on 127.0.0.1 only, on its own
 // port, and answers only with this token, new at every start and given to the fakes alone.
 const mailboxToken = process.env.MAILBOX_TOKEN || randomBytes(24).toString('base64url');
@@ -92,6 +95,7 @@ async function main() {
     await assertPortFree(Number(env.PORT), { host: env.HOST, what: 'the web server', envName: 'PORT' });
     await assertPortFree(Number(env.SMTP_PORT), { what: 'the SMTP fake', envName: 'SMTP_PORT' });
     await assertPortFree(Number(env.MAIL_FAKE_HTTP_PORT), { what: 'the development mailbox', envName: 'MAIL_FAKE_HTTP_PORT' });
+    await assertPortFree(Number(env.PAYMENT_FAKE_PORT), { what: 'the payment fake', envName: 'PAYMENT_FAKE_PORT' });
   });
   await step('PostgreSQL', () => {
     cluster = bringUpCluster({ profile: 'dev', log: (m) => console.log(`  ${m}`) });
@@ -107,9 +111,10 @@ async function main() {
     if (!(await ensureClientBuild())) console.log('  unchanged since the last build');
   });
   if (stopping) return;
-  await step('local fakes (SMTP)', async () => {
+  await step('local fakes (SMTP, payments)', async () => {
     const fakes = startChild('fakes/run.ts', { ...env, MAILBOX_TOKEN: mailboxToken }, 'fakes');
     await waitForHttp(`http://127.0.0.1:${env.MAIL_FAKE_HTTP_PORT}/`, 20_000, fakes);
+    await waitForHttp(`http://127.0.0.1:${env.PAYMENT_FAKE_PORT}/_fake/health`, 20_000, fakes);
   });
   await step('web server', async () => {
     const instanceId = randomUUID();

@@ -10,8 +10,11 @@ import type { AppContext } from './app-context';
 import { loadConfig, type Config, type ConfigOverrides } from './config';
 import { createDb } from './db/knex';
 import { createAccountRoutes } from './features/accounts/account-routes';
+import { createMailOutboxRoutes } from './features/admin/mail-outbox-routes';
 import { createAuthRoutes } from './features/auth/auth-routes';
 import { createAwardRoutes } from './features/awards/award-routes';
+import { createBillingRoutes, createPaymentWebhookRoutes } from './features/billing/billing-routes';
+import { createCalendarFeedRoutes } from './features/night-plans/calendar-feed-routes';
 import { createPassport } from './features/auth/passport-setup';
 import { createCycleRoutes } from './features/cycles/cycle-routes';
 import { createReviewRoutes } from './features/review/review-routes';
@@ -78,6 +81,9 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   app.set('trust proxy', config.TRUST_PROXY);
   app.use(createRequestLogger(logger));
   app.use(helmet());
+  // The payment provider's signed events: the raw body (what the signature covers), before the JSON
+  // parser, the session and the CSRF check, none of which the provider has.
+  app.use('/api/billing/webhook', createPaymentWebhookRoutes(ctx));
   app.use(express.json({ limit: '1mb' }));
   app.use(
     session({
@@ -97,10 +103,13 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   app.use(passport.session());
 
   app.use('/api/health', createHealthRoutes(ctx));
+  // Calendar applications poll it without signing in: outside `api`, so no CSRF cookie is issued.
+  app.use('/api/calendar-feeds', createCalendarFeedRoutes(ctx));
   const api = express.Router();
   api.use(csrf.issue, csrf.protect);
   api.use('/auth', createAuthRoutes(ctx, passport, csrf));
   api.use('/admin/accounts', createAccountRoutes(ctx));
+  api.use('/admin/mail-outbox', createMailOutboxRoutes(ctx));
   api.use('/sky-windows', createSkyWindowsRoutes(ctx));
   api.use('/cycles', createCycleRoutes(ctx));
   api.use('/proposals', createProposalRoutes(ctx));
@@ -109,6 +118,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   api.use('/review', createReviewRoutes(ctx));
   api.use('/awards', createAwardRoutes(ctx));
   api.use('/night-plans', createNightPlanRoutes(ctx));
+  api.use('/billing', createBillingRoutes(ctx));
   api.use('/', createFacilityRoutes(ctx));
   app.use('/api', api);
   app.use('/api', apiNotFound);

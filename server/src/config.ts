@@ -60,6 +60,33 @@ const envSchema = z.object({
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().default(2525),
   MAIL_FROM: z.string().default('Spincycle <no-reply@spincycle.test>'),
+  /** pg-boss queue of the mail outbox's sweep jobs (server/src/mail/outbox-worker.ts). */
+  MAIL_QUEUE: z
+    .string()
+    .regex(/^[A-Za-z0-9_.-]+$/)
+    .default('mail-outbox'),
+  /** How often the worker sweeps the mail outbox for due mails, seconds. */
+  MAIL_SWEEP_SECONDS: z.coerce.number().min(1).max(3600).default(30),
+  /**
+   * Wait after a mail's first failed attempt, seconds; it doubles with each further failure up to
+   * MAIL_RETRY_MAX_SECONDS (0: retry at once, for tests).
+   */
+  MAIL_RETRY_BASE_SECONDS: z.coerce.number().min(0).max(3600).default(30),
+  /** Longest wait between two attempts of one mail, seconds. */
+  MAIL_RETRY_MAX_SECONDS: z.coerce.number().min(0).max(86_400).default(3600),
+  /** Attempts of one mail before it is marked failed for an administrator to send again. */
+  MAIL_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(50).default(8),
+  /** A mail claimed for sending longer ago than this (its process stopped) is tried again, seconds. */
+  MAIL_CLAIM_STALE_SECONDS: z.coerce.number().min(1).max(86_400).default(300),
+  /**
+   * The card payment provider's API, reached through its official SDK (host, port and protocol
+   * options): in development and tests the local fake in fakes/payments.
+   */
+  PAYMENT_API_URL: z.url().default('http://127.0.0.1:4397'),
+  /** The provider's secret API key (the fake's test key outside production). */
+  PAYMENT_SECRET_KEY: z.string().min(8).default('sk_test_spincycle_local_fake_key'),
+  /** The signing secret of the provider's events to /api/billing/webhook. */
+  PAYMENT_WEBHOOK_SECRET: z.string().min(8).default('whsec_spincycle_local_fake_secret'),
   CLIENT_DIST: z.string().optional(),
   LOGIN_RATE_LIMIT: z.coerce.number().int().positive().default(10),
   LOGIN_RATE_WINDOW_MINUTES: z.coerce.number().positive().default(15),
@@ -127,6 +154,12 @@ export function loadSettings(env: NodeJS.ProcessEnv = process.env, overrides: Co
 export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: ConfigOverrides = {}): Config {
   const c = loadSettings(env, overrides);
   if (c.NODE_ENV === 'production' && !c.SESSION_SECRET) throw new Error('SESSION_SECRET must be set in production');
+  if (
+    c.NODE_ENV === 'production' &&
+    (c.PAYMENT_SECRET_KEY.startsWith('sk_test_spincycle') || c.PAYMENT_WEBHOOK_SECRET.startsWith('whsec_spincycle'))
+  ) {
+    throw new Error("PAYMENT_SECRET_KEY and PAYMENT_WEBHOOK_SECRET must be set in production (the defaults are the local fake's)");
+  }
   return {
     ...c,
     publicUrl: (c.PUBLIC_URL ?? `http://${c.HOST}:${c.PORT}`).replace(/\/$/, ''),

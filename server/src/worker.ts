@@ -3,11 +3,15 @@ import { createDb } from './db/knex';
 import { instanceId } from './features/health/instance-id';
 import { startNightPlanWorker } from './jobs/night-plan-worker';
 import { startPlanWorker } from './jobs/plan-worker';
+import { startProgramCompletionJob } from './jobs/program-completion-job';
 import { createLogger } from './logger';
+import { startMailOutboxWorker } from './mail/outbox-worker';
 
 /**
  * The background worker process: computes target plans and night plans (one job per node of a
- * build) from the pg-boss queues in the application's database (PLAN_WORKER=off: night plans only). Started by `npm start` beside the web server; any number may run,
+ * build), sweeps the mail outbox and, daily at 00:10 UTC, makes the programs of ended campaigns
+ * complete, from the pg-boss queues in the application's database (PLAN_WORKER=off: night plans
+ * only, no target plans, no mail and no daily completion sweep). Started by `npm start` beside the web server; any number may run,
  * on any machine that reaches the database. SIGINT/SIGTERM let a running job finish first
  * (pg-boss graceful stop, up to 20 s; a job cut off then is queued again at the next start).
  * Started with an IPC channel (by `npm start` or the browser suite), it reports
@@ -19,10 +23,16 @@ const db = createDb(config, logger);
 
 let stopping = false;
 async function main(): Promise<void> {
-  const plans = config.PLAN_WORKER === 'on' ? await startPlanWorker({ config, db, logger }) : null;
-  const nightPlans = await startNightPlanWorker({ config, db, logger });
+  const full = config.PLAN_WORKER === 'on';
+  // One line per part of the worker; each has stop(timeoutMs).
+  const parts = [
+    full ? await startPlanWorker({ config, db, logger }) : null,
+    await startNightPlanWorker({ config, db, logger }),
+    full ? await startMailOutboxWorker({ config, db, logger }) : null,
+    full ? await startProgramCompletionJob({ config, db, logger }) : null,
+  ];
   const worker = {
-    stop: (timeoutMs: number) => Promise.all([plans?.stop(timeoutMs), nightPlans.stop(timeoutMs)]),
+    stop: (timeoutMs: number) => Promise.all(parts.map((part) => part?.stop(timeoutMs))),
   };
   const shutdown = (signal: string) => {
     if (stopping) return;

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import type { Role } from '@spincycle/shared/accounts/roles';
 import { createApp, type CreatedApp } from '../../server/src/app';
+import type { AppContext } from '../../server/src/app-context';
 import type { ConfigOverrides } from '../../server/src/config';
 import { insertAccount } from '../../server/src/features/accounts/account-repository';
 import { hashPassword } from '../../server/src/features/auth/password-hash';
@@ -16,9 +17,9 @@ export interface Harness {
   close(): Promise<void>;
 }
 
-export async function startHarness(config: ConfigOverrides = {}): Promise<Harness> {
+export async function startHarness(config: ConfigOverrides = {}, ctx: Partial<AppContext> = {}): Promise<Harness> {
   const mail = await startMailFake({ smtpPort: 0, httpPort: null });
-  const created = createApp({ config: { SMTP_PORT: mail.smtpPort, PUBLIC_URL: 'http://spincycle.test', ...config } });
+  const created = createApp({ config: { SMTP_PORT: mail.smtpPort, PUBLIC_URL: 'http://spincycle.test', ...config }, ctx });
   return {
     created,
     mail,

@@ -67,6 +67,12 @@ export const routes: Routes = [
     loadChildren: () => import('./features/night-plans/night-plans.routes'),
   },
   {
+    // Fees: payers' invoices and card payments; the facility managers' invoicing under /fees/manage (its own role guard).
+    path: 'fees',
+    canActivate: [authGuard],
+    loadChildren: () => import('./features/fees/fees.routes'),
+  },
+  {
     path: 'admin',
     canActivate: [authGuard, roleGuard('administrator')],
     loadChildren: () => import('./features/admin/admin.routes'),

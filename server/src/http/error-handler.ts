@@ -33,7 +33,8 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
     res.status(400).json(zodToBody(err));
     return;
   }
-  if (err instanceof AppError && err.status < 500) {
+  // 503: a service the request needs (e.g. the card processor) is unreachable; its message is written for users.
+  if (err instanceof AppError && (err.status < 500 || err.status === 503)) {
     const body: ApiErrorBody & Record<string, unknown> = { ...err.details, code: err.code, message: err.message };
     if (err.fieldErrors) body.fieldErrors = err.fieldErrors;
     res.status(err.status).json(body);

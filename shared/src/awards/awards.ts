@@ -245,8 +245,11 @@ export interface AuditEntry {
   at: string;
   /** Display name of who did it; null when that account no longer exists. */
   actorName: string | null;
-  /** What changed: `award` (a decision), `release`, `program`; from night plans `night_plan` (a build), `lost_night`, `visit`. */
-  entity: 'award' | 'release' | 'program' | 'night_plan' | 'lost_night' | 'visit';
+  /**
+   * What changed: `award` (a decision), `release`, `program`; from night plans `night_plan` (a build), `lost_night`, `visit`,
+   * `calendar_feed` (a node's calendar subscription link), `invoice` (billing: issued, voided, paid, refunded).
+   */
+  entity: 'award' | 'release' | 'program' | 'night_plan' | 'lost_night' | 'visit' | 'calendar_feed' | 'invoice';
   entityId: number;
   /** The proposal's title when the entry concerns one. */
   proposalTitle: string | null;

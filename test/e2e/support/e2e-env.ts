@@ -2,6 +2,8 @@
 export const E2E_PORT = Number(process.env.E2E_PORT ?? 4310);
 export const E2E_SMTP_PORT = Number(process.env.E2E_SMTP_PORT ?? 2535);
 export const E2E_MAIL_HTTP_PORT = Number(process.env.E2E_MAIL_HTTP_PORT ?? 4398);
+/** The suite's own payment fake (never the `npm start` one on 4397). */
+export const E2E_PAYMENT_PORT = Number(process.env.E2E_PAYMENT_PORT ?? 4396);
 export const BASE_URL = `http://127.0.0.1:${E2E_PORT}`;
 export const E2E_DB = process.env.SPINCYCLE_E2E_DB ?? 'spincycle_e2e';
 

@@ -1,13 +1,14 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes, randomUUID } from 'node:crypto';
 import path from 'node:path';
+import { rmSync } from 'node:fs';
 // The launcher's set-up runs database/setup.ts under tsx (a child): the demo seeds import the
 // shared code through its path alias, which jest's global set-up would not resolve.
 // @ts-expect-error plain ES module of the launcher scripts, without type declarations
 import { setUpDatabase } from '../../../server/scripts/setup.mjs';
 import { assertPortFree, waitForOwnServer, waitForReadyMessage } from '../../../server/scripts/processes.cjs';
 import { bringUpTestCluster, releaseTestClusterOnSignal } from '../../support/test-cluster';
-import { BASE_URL, E2E_DB, E2E_MAIL_HTTP_PORT, E2E_PORT, E2E_SMTP_PORT } from './e2e-env';
+import { BASE_URL, E2E_DB, E2E_MAIL_HTTP_PORT, E2E_PAYMENT_PORT, E2E_PORT, E2E_SMTP_PORT } from './e2e-env';
 
 const root = path.resolve(__dirname, '../../..');
 
@@ -47,6 +48,7 @@ export default async function globalSetup(): Promise<void> {
   await assertPortFree(E2E_PORT, { what: "the browser suite's web server", envName: 'E2E_PORT' });
   await assertPortFree(E2E_SMTP_PORT, { what: "the browser suite's SMTP fake", envName: 'E2E_SMTP_PORT' });
   await assertPortFree(E2E_MAIL_HTTP_PORT, { what: "the browser suite's mailbox", envName: 'E2E_MAIL_HTTP_PORT' });
+  await assertPortFree(E2E_PAYMENT_PORT, { what: "the browser suite's payment fake", envName: 'E2E_PAYMENT_PORT' });
 
   const cluster = bringUpTestCluster([E2E_DB], 'e2e');
   const state: E2eState = { children: [], lease: cluster.lease, removeSignalHandlers: releaseTestClusterOnSignal(cluster.lease) };
@@ -63,6 +65,11 @@ export default async function globalSetup(): Promise<void> {
     PGDATABASE: E2E_DB,
     SMTP_PORT: String(E2E_SMTP_PORT),
     MAIL_FAKE_HTTP_PORT: String(E2E_MAIL_HTTP_PORT),
+    PAYMENT_FAKE_PORT: String(E2E_PAYMENT_PORT),
+    PAYMENT_API_URL: `http://127.0.0.1:${E2E_PAYMENT_PORT}`,
+    // Its own state, begun afresh with each run (the provider's objects belong to this run's database).
+    PAYMENT_FAKE_STATE: path.join(root, '.data', 'e2e-payment-fake.json'),
+    PAYMENT_WEBHOOK_RETRY_BASE_MS: '200',
     MAILBOX_TOKEN: process.env.SPINCYCLE_E2E_MAILBOX_TOKEN,
     LOG_LEVEL: 'warn',
     LOGIN_RATE_LIMIT: '50',
@@ -84,11 +91,13 @@ export default async function globalSetup(): Promise<void> {
   try {
     const serverId = randomUUID();
     const workerId = randomUUID();
-    const fakes = start('fakes/run.ts', 'mail fake');
+    rmSync(path.join(root, '.data', 'e2e-payment-fake.json'), { force: true });
+    const fakes = start('fakes/run.ts', 'fakes');
     const server = start('server/src/server.ts', 'web server', { SPINCYCLE_INSTANCE_ID: serverId });
     // The plan worker (pg-boss) computes target plans, as beside `npm start`; it reports ready over IPC.
     const worker = start('server/src/worker.ts', 'plan worker', { SPINCYCLE_INSTANCE_ID: workerId }, true);
     await waitForHttp(`http://127.0.0.1:${E2E_MAIL_HTTP_PORT}/`, fakes, 'mail fake');
+    await waitForHttp(`http://127.0.0.1:${E2E_PAYMENT_PORT}/_fake/health`, fakes, 'payment fake');
     await waitForOwnServer(`${BASE_URL}/api/health`, serverId, { timeoutMs: 30_000, child: server, name: 'e2e web server' });
     await waitForReadyMessage(worker, workerId, { timeoutMs: 30_000, name: 'e2e plan worker' });
   } catch (err) {

@@ -447,8 +447,8 @@ export async function writeAward(
   }
 }
 
-/** What an audit entry is about: awards (this feature) and night plans (features/night-plans). */
-export type AuditEntity = 'award' | 'release' | 'program' | 'night_plan' | 'lost_night' | 'visit';
+/** What an audit entry is about: awards (this feature) and night plans (features/night-plans, with its calendar links). */
+export type AuditEntity = 'award' | 'release' | 'program' | 'night_plan' | 'lost_night' | 'visit' | 'calendar_feed' | 'invoice';
 
 /** One audit entry to write (the audit log of every feature of a cycle). */
 export interface AuditInsert {

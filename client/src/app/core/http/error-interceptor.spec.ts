@@ -73,6 +73,13 @@ describe('errorInterceptor', () => {
     expect(snackOpen).toHaveBeenCalledWith(SERVER_FAILURE_MESSAGE, 'Dismiss', expect.anything());
   });
 
+  it('503 with the API body (a service such as the card processor unavailable): no snackbar, the page shows its message', async () => {
+    const body = { code: 'payment_provider_unavailable', message: 'The card processor cannot be reached just now.' };
+    const error = await failWith('/api/billing/invoices/1/payments', 503, body);
+    expect(error.error).toEqual(body);
+    expect(snackOpen).not.toHaveBeenCalled();
+  });
+
   it('other 4xx: no snackbar, the body with fieldErrors reaches the page untouched', async () => {
     const body = { code: 'validation_failed', message: 'Check the form.', fieldErrors: { email: ['Taken'] } };
     const error = await failWith('/api/admin/accounts', 400, body);

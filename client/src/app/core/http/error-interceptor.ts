@@ -1,3 +1,4 @@
+import { isApiErrorBody } from '@spincycle/shared/http/api-error';
 import { HttpErrorResponse, HttpInterceptorFn } from '@angular/common/http';
 import { inject } from '@angular/core';
 import { MatSnackBar } from '@angular/material/snack-bar';
@@ -32,7 +33,8 @@ export const errorInterceptor: HttpInterceptorFn = (req, next) => {
           }
         } else if (error.status === 0) {
           snackBar.open(UNREACHABLE_MESSAGE, 'Dismiss', { duration: 8000 });
-        } else if (error.status >= 500) {
+        } else if (error.status >= 500 && !(error.status === 503 && isApiErrorBody(error.error))) {
+          // A 503 with the API's body says which service is unavailable; the page shows its message.
           snackBar.open(SERVER_FAILURE_MESSAGE, 'Dismiss', { duration: 8000 });
         }
       }

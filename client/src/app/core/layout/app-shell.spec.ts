@@ -60,15 +60,17 @@ describe('AppShell', () => {
     expect(navLabels(await render())).toEqual(['Home', 'My reviews', 'Target planner', 'Network', 'Methods']);
   });
 
-  it('administrator: Accounts appears', async () => {
+  it('administrator: Accounts and Outgoing mail appear', async () => {
     await seedSession(testUser(['administrator']));
-    expect(navLabels(await render())).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Accounts']);
+    expect(navLabels(await render())).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Accounts', 'Outgoing mail']);
   });
 
-  it('facility manager: Cycles, Review, Awards and Night plans, each a link to its page', async () => {
+  it('facility manager: Cycles, Review, Awards, Night plans and Fees, each a link to its page', async () => {
     await seedSession(testUser(['facility_manager']));
     const host = await render();
-    expect(navLabels(host)).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles', 'Review', 'Awards', 'Night plans']);
+    expect(navLabels(host)).toEqual(['Home', 'Target planner', 'Network', 'Methods', 'Cycles', 'Review', 'Awards', 'Night plans', 'Fees']);
+    const fees = Array.from(host.querySelectorAll('nav a')).find((a) => a.textContent?.includes('Fees'));
+    expect(fees?.getAttribute('href')).toBe('/fees/manage');
     const awards = Array.from(host.querySelectorAll('nav a')).find((a) => a.textContent?.includes('Awards'));
     expect(awards?.getAttribute('href')).toBe('/awards');
     const nightPlans = Array.from(host.querySelectorAll('nav a')).find((a) => a.textContent?.includes('Night plans'));

@@ -15,31 +15,31 @@ describe('ROLE_GUIDE', () => {
     }
   });
 
-  it('a role without its pages yet (billing contact) says what will come and when, in terms of the cycle', () => {
-    expect(ROLE_GUIDE.billing_contact.upcoming?.what).toMatch(/invoices for the node-hours/i);
-    expect(ROLE_GUIDE.billing_contact.upcoming?.what).toContain('payment by card');
-    expect(ROLE_GUIDE.billing_contact.upcoming?.when).toContain('awards are decided');
+  it('every role has its pages now: no "not yet" note on any card', () => {
+    for (const role of ROLES) expect(ROLE_GUIDE[role].upcoming).toBeUndefined();
+  });
+
+  it("the billing contact's card leads to Fees first and says when invoices come, in terms of the cycle", () => {
+    expect(ROLE_GUIDE.billing_contact.links[0]).toEqual({ label: 'Fees', path: '/fees' });
+    expect(ROLE_GUIDE.billing_contact.summary).toContain('payment by card');
+    expect(ROLE_GUIDE.billing_contact.summary).toContain("after a cycle's awards are released");
     // No calendar promises: the cycle's own steps say when.
-    for (const role of ROLES) {
-      expect(ROLE_GUIDE[role].upcoming?.when ?? '').not.toMatch(
-        /\b(20\d\d|January|February|March|April|May|June|July|August|September|October|November|December|soon|next month|next year)\b/,
-      );
-    }
+    expect(ROLE_GUIDE.billing_contact.summary).not.toMatch(
+      /\b(20\d\d|January|February|March|April|May|June|July|August|September|October|November|December|soon|next month|next year)\b/,
+    );
   });
 
-  it('roles with their pages have no "not yet" note; the reviewer\'s card leads to My reviews', () => {
-    expect(ROLE_GUIDE.proposer.upcoming).toBeUndefined();
-    expect(ROLE_GUIDE.reviewer.upcoming).toBeUndefined();
+  it("the reviewer's card leads to My reviews", () => {
     expect(ROLE_GUIDE.reviewer.links[0]).toEqual({ label: 'My reviews', path: '/review/my' });
-    expect(ROLE_GUIDE.administrator.upcoming).toBeUndefined();
   });
 
-  it("the facility manager's card leads to Cycles, Review, Awards, then Night plans", () => {
-    expect(ROLE_GUIDE.facility_manager.links.slice(0, 4)).toEqual([
+  it("the facility manager's card leads to Cycles, Review, Awards, Night plans, then Fees", () => {
+    expect(ROLE_GUIDE.facility_manager.links.slice(0, 5)).toEqual([
       { label: 'Cycles', path: '/cycles' },
       { label: 'Review', path: '/review/manage' },
       { label: 'Awards', path: '/awards' },
       { label: 'Night plans', path: '/night-plans' },
+      { label: 'Fees', path: '/fees/manage' },
     ]);
   });
 });

@@ -29,9 +29,9 @@ const PROPOSALS: RoleLink = { label: 'Proposals', path: '/proposals' };
 const CYCLES: RoleLink = { label: 'Cycles', path: '/cycles' };
 
 /**
- * Links only to pages that exist (role-guide.spec.ts checks them against the app's routes); the
- * review and billing pages come with their own features, and until then the cards say what
- * will come and when in the cycle, without a link.
+ * Links only to pages that exist (role-guide.spec.ts checks them against the app's routes). A
+ * role whose pages are still to come would say what will come and when in the cycle, without a
+ * link (`upcoming`); every role has its pages now.
  */
 export const ROLE_GUIDE: Record<Role, RoleGuide> = {
   proposer: {
@@ -46,23 +46,21 @@ export const ROLE_GUIDE: Record<Role, RoleGuide> = {
   },
   facility_manager: {
     summary:
-      'Keep nodes and sites up to date, open cycles with node-hours per node, form panels, decide awards against capacity and turn awards into night plans.',
+      'Keep nodes and sites up to date, open cycles with node-hours per node, form panels, decide awards against capacity, turn awards into night plans and invoice the node-hours awarded.',
     links: [
       CYCLES,
       { label: 'Review', path: '/review/manage' },
       { label: 'Awards', path: '/awards' },
       { label: 'Night plans', path: '/night-plans' },
+      { label: 'Fees', path: '/fees/manage' },
       PLANNER,
       NETWORK,
     ],
   },
   billing_contact: {
-    summary: "Settle the fees of your teams' programs: the invoices for awarded node-hours, payment by card and the receipts.",
-    upcoming: {
-      what: "Invoices for the node-hours awarded to your teams' programs, at each node's published rate, with payment by card and receipts to download.",
-      when: "After a cycle's awards are decided. Until then, the network lists each node's rate per node-hour.",
-    },
-    links: [NETWORK],
+    summary:
+      "Settle the fees of your teams' programs: the invoices for the node-hours awarded, at each node's published rate, payment by card and the receipts. Invoices come after a cycle's awards are released.",
+    links: [{ label: 'Fees', path: '/fees' }, NETWORK],
   },
   administrator: {
     summary: 'Manage accounts: give and take away roles, and disable accounts that should no longer sign in.',

@@ -23,7 +23,7 @@ const FONT_DIR = path.resolve(__dirname, '../../../../../node_modules/@fontsourc
 const FONT_FILES = { regular: 'ibm-plex-sans-latin-400-normal.woff', bold: 'ibm-plex-sans-latin-700-normal.woff' };
 
 /** IBM Plex Sans from @fontsource when present (the app's font), else the PDF standard Helvetica. */
-function fonts(doc: PDFKit.PDFDocument): { regular: string; bold: string } {
+export function fonts(doc: PDFKit.PDFDocument): { regular: string; bold: string } {
   const regular = path.join(FONT_DIR, FONT_FILES.regular);
   const bold = path.join(FONT_DIR, FONT_FILES.bold);
   if (existsSync(regular) && existsSync(bold)) {

@@ -26,10 +26,25 @@ const ACTIONS: Record<AuditEntry['entity'], Record<string, string>> = {
     reinstated: 'Reinstated the program',
     withdrawn: 'Withdrew the program',
     observing: 'The program started observing',
+    complete: 'The program is complete',
+    rate_class: 'Changed the rate the program pays',
   },
   night_plan: { build: 'Built the night plans' },
   lost_night: { mark_lost: 'Marked a night lost', unmark_lost: 'Marked a night usable again' },
   visit: { set_status: 'Changed a visit', execution_upload: 'Uploaded an execution log' },
+  calendar_feed: {
+    make_link: 'Made a calendar subscription link',
+    replace_link: 'Made a new calendar subscription link (the previous one stopped working)',
+    stop_link: 'Stopped a calendar subscription link',
+  },
+  invoice: {
+    issued: 'Issued an invoice',
+    voided: 'Voided an invoice',
+    paid: 'The card payment of an invoice arrived',
+    refund_requested: 'Asked for a refund of an invoice',
+    refunded: 'The refund of an invoice was confirmed',
+    payment_unexpected: 'A card payment arrived that the invoice did not expect',
+  },
 };
 
 /** `mailFailures` → `mail failures`; `program_state` → `program state`. */

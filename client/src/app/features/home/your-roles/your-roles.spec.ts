@@ -34,23 +34,21 @@ describe('YourRoles', () => {
     expect(host.textContent).toContain('Your account holds no role yet.');
   });
 
-  it('billing contact: says what is not there yet and when in the cycle it comes, with no link to it; the reviewer links to My reviews', async () => {
+  it('billing contact: the card links to Fees (its invoices) with no "not yet" note; the reviewer links to My reviews', async () => {
     const host = await render(['reviewer', 'billing_contact']);
-    expect(host.querySelector('[data-role=reviewer] [data-testid=upcoming]')).toBeNull();
-    const billing = host.querySelector('[data-role=billing_contact] [data-testid=upcoming]')!;
-    expect(billing.getAttribute('role')).toBe('note');
-    expect(billing.textContent).toContain('Not in Spincycle yet');
-    expect(billing.textContent).toContain('Invoices for the node-hours awarded');
+    const billing = host.querySelector('[data-role=billing_contact]')!;
+    expect(billing.querySelector('[data-testid=upcoming]')).toBeNull();
     expect(billing.textContent).toContain('payment by card');
-    expect(billing.textContent).toContain("When: After a cycle's awards are decided.");
-    // Nothing in the note is a link or a button; the cards link only to existing pages.
-    expect(host.querySelectorAll('[data-testid=upcoming] a, [data-testid=upcoming] button')).toHaveLength(0);
+    expect(billing.textContent).not.toContain('Not in Spincycle yet');
+    const fees = Array.from(billing.querySelectorAll('a')).find((a) => a.textContent?.trim() === 'Fees');
+    expect(fees?.getAttribute('href')).toBe('/fees');
     const hrefs = Array.from(host.querySelectorAll('a')).map((a) => a.getAttribute('href'));
-    expect(hrefs.sort()).toEqual(['/network', '/network', '/planner', '/review/my']);
+    expect(hrefs.sort()).toEqual(['/fees', '/network', '/network', '/planner', '/review/my']);
   });
 
-  it('roles with their pages (proposer, administrator): no "not yet" note', async () => {
-    const host = await render(['proposer', 'administrator']);
+  it('no role shows a "not yet" note any more', async () => {
+    const host = await render(['proposer', 'reviewer', 'facility_manager', 'billing_contact', 'administrator']);
+    expect(host.querySelectorAll('mat-card')).toHaveLength(5);
     expect(host.querySelectorAll('[data-testid=upcoming]')).toHaveLength(0);
   });
 });

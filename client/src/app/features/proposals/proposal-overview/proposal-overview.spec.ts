@@ -6,8 +6,10 @@ import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MatCheckboxHarness } from '@angular/material/checkbox/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
 import { MatInputHarness } from '@angular/material/input/testing';
+import { provideRouter } from '@angular/router';
 import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
 import { testTeamDecision } from '../../awards/testing/award-fixtures';
+import { testProgramBilling } from '../../fees/testing/fee-fixtures';
 import { testProgram } from '../../night-plans/testing/night-plan-fixtures';
 import { AUTOSAVE_DEBOUNCE_MS, ProposalStore } from '../proposal-store';
 import { testCycle, testProposal } from '../testing/fixtures';
@@ -280,6 +282,8 @@ describe('ProposalOverview decision card', () => {
       imports: [ProposalOverview],
       providers: [
         ProposalStore,
+        // The billing contacts card links to /fees.
+        provideRouter([]),
         provideHttpClient(),
         provideHttpClientTesting(),
         { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
@@ -303,7 +307,12 @@ describe('ProposalOverview decision card', () => {
     backend
       .expectOne('/api/night-plans/programs/5')
       .flush({ code: 'not_found', message: 'No plan yet.' }, { status: 404, statusText: 'Not Found' });
+    backend
+      .expectOne('/api/billing/programs/5')
+      .flush({ code: 'program_not_found', message: 'No program 5' }, { status: 404, statusText: 'Not Found' });
     await fixture.whenStable();
+    // No program for billing yet (404): no billing card.
+    expect(fixture.nativeElement.querySelector('[data-testid=billing-contacts-card]')).toBeNull();
     const card = fixture.nativeElement.querySelector('[data-testid=decision-card]') as HTMLElement;
     expect(card.textContent).toContain('Your proposal was awarded node-hours.');
     expect(fixture.nativeElement.firstElementChild?.tagName.toLowerCase()).toBe('app-decision-card');
@@ -313,6 +322,7 @@ describe('ProposalOverview decision card', () => {
     await render('awarded');
     backend.expectOne('/api/awards/proposals/5/decision').flush(testTeamDecision());
     backend.expectOne('/api/night-plans/programs/5').flush(testProgram({ proposalId: 5 }));
+    backend.expectOne('/api/billing/programs/5').flush(testProgramBilling());
     await fixture.whenStable();
     const card = fixture.nativeElement.querySelector('[data-testid=program-progress-card]') as HTMLElement;
     expect(card.textContent).toContain('6 of 34 planned visits done so far.');
@@ -320,12 +330,26 @@ describe('ProposalOverview decision card', () => {
     expect(order.indexOf('app-program-progress-card')).toBe(order.indexOf('app-decision-card') + 1);
   });
 
+  it("an awarded proposal shows its program's billing contacts below the progress", async () => {
+    await render('awarded');
+    backend.expectOne('/api/awards/proposals/5/decision').flush(testTeamDecision());
+    backend.expectOne('/api/night-plans/programs/5').flush(testProgram({ proposalId: 5 }));
+    backend.expectOne('/api/billing/programs/5').flush(testProgramBilling());
+    await fixture.whenStable();
+    const card = fixture.nativeElement.querySelector('[data-testid=billing-contacts-card]') as HTMLElement;
+    expect(card.textContent).toContain('ledger@greyhollow.example');
+    const order = [...(fixture.nativeElement as HTMLElement).children].map((c) => c.tagName.toLowerCase());
+    expect(order.indexOf('app-billing-contacts-card')).toBe(order.indexOf('app-program-progress-card') + 1);
+  });
+
   it('a reserve proposal has no program: its progress is not asked', async () => {
     await render('reserve');
     backend.expectOne('/api/awards/proposals/5/decision').flush(testTeamDecision({ outcome: 'reserve' }));
     await fixture.whenStable();
     backend.expectNone('/api/night-plans/programs/5');
+    backend.expectNone('/api/billing/programs/5');
     expect(fixture.nativeElement.querySelector('app-program-progress-card')).toBeNull();
+    expect(fixture.nativeElement.querySelector('app-billing-contacts-card')).toBeNull();
   });
 
   it('before the release (a ranked proposal) nothing is asked and no card shows', async () => {

@@ -24,6 +24,7 @@ import { applyServerFieldErrors, controlErrorMessage } from '../../../ui/forms/s
 import { zodValidator } from '../../../ui/forms/zod-validator';
 import { formatClockTime } from '../../../ui/time/date-format';
 import { DecisionCard } from '../../awards/decision-card/decision-card';
+import { BillingContactsCard } from '../../fees/billing-contacts-card/billing-contacts-card';
 import { ProgramProgressCard } from '../../night-plans/program-progress-card/program-progress-card';
 import { OverviewValues, overviewOf, ProposalStore } from '../proposal-store';
 
@@ -84,6 +85,7 @@ function completenessPercentValidator(control: AbstractControl<number | null>): 
   selector: 'app-proposal-overview',
   changeDetection: ChangeDetectionStrategy.OnPush,
   imports: [
+    BillingContactsCard,
     CapacityMeter,
     DecimalPipe,
     DecisionCard,
