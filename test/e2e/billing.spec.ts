@@ -35,7 +35,10 @@ describe('fees', () => {
       await screenshot(page, 'fees-my-invoices');
 
       // An invoice awaiting payment (in the demo data, one of them is past its due date).
-      const row = page.locator('[data-testid^=invoice-row-]').filter({ hasText: /awaiting payment/i }).first();
+      const row = page
+        .locator('[data-testid^=invoice-row-]')
+        .filter({ hasText: /awaiting payment/i })
+        .first();
       const invoiceId = ((await row.getAttribute('data-testid')) ?? '').replace('invoice-row-', '');
       expect(invoiceId).toMatch(/^\d+$/);
       await page.goto(`/fees/invoices/${invoiceId}`);
@@ -93,7 +96,10 @@ describe('fees', () => {
       await page.getByRole('link', { name: /-R0/ }).first().click();
       await page.waitForURL(/\/fees\/manage\/\d+$/);
       await page.getByRole('heading', { level: 1 }).first().waitFor();
-      await page.getByText(/rate card/i).first().waitFor();
+      await page
+        .getByText(/rate card/i)
+        .first()
+        .waitFor();
       await expectAxeClean(page);
       await screenshot(page, 'fees-manage');
     } finally {
