@@ -149,6 +149,13 @@ const ROUTES: RouteCase[] = [
   // facility-routes.ts
   { name: 'GET /api/nodes', access: 'signed-in', ok: 200, call: (b) => b.get('/api/nodes') },
   { name: 'GET /api/sites', access: 'signed-in', ok: 200, call: (b) => b.get('/api/sites') },
+  // A node's external rate: facility managers (null is the node's own default, so nothing else changes).
+  {
+    name: 'PATCH /api/nodes/:id',
+    access: ['facility_manager'],
+    ok: 200,
+    call: (b) => b.patch(`/api/nodes/${net.nodeIds[0]}`, { externalRateMinorPerHour: null }),
+  },
   // sky-windows-routes.ts
   {
     name: 'POST /api/sky-windows',

@@ -53,6 +53,10 @@ describe('fees', () => {
       await page.getByTestId('exp-month').fill('12');
       await page.getByTestId('exp-year').fill(String(new Date().getUTCFullYear() + 3));
       await page.getByTestId('cvc').fill('123');
+      // Every field is valid: no error message may still be on screen (or fading out) when axe looks.
+      await page.getByTestId('pay-amount').click();
+      await page.waitForFunction(() => document.querySelectorAll('mat-error').length === 0, null, { timeout: 5000 });
+      await page.waitForTimeout(300);
       await expectAxeClean(page);
       await screenshot(page, 'fees-pay-dialog');
       await page.getByTestId('pay-submit').click();

@@ -60,7 +60,7 @@ export interface NodeSpec {
   sunAltitudeLimitDeg: number;
   /** Fraction of night time lost to weather over a year, 0–1. */
   weatherLossFraction: number;
-  /** Fee per node-hour in the smallest unit of `currency` (e.g. cents). */
+  /** Fee per node-hour in the smallest unit of `currency` (e.g. cents): the academic rate. */
   rateMinorPerHour: number;
   /** ISO 4217 code, lowercase as the payment provider expects (e.g. `eur`). */
   currency: string;
@@ -73,6 +73,13 @@ export interface TelescopeNode extends NodeSpec {
   siteId: number;
   site: Site;
   active: boolean;
+  /**
+   * External rate per node-hour in the smallest unit of `currency`, paid by programs of rate
+   * class `external` (docs/billing.md); `null`: they pay the academic rate, `rateMinorPerHour`.
+   * It sits here rather than beside `rateMinorPerHour` in NodeSpec because target plans never
+   * use it (they show the academic fee). The server always sends it; absent reads as `null`.
+   */
+  externalRateMinorPerHour?: number | null;
 }
 
 /** An allocation round. All instants are ISO 8601 UTC strings. */

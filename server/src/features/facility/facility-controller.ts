@@ -1,6 +1,8 @@
 import type { Request, Response } from 'express';
+import { nodeUpdateSchema } from '@spincycle/shared/facility/node-schemas';
+import { idParamSchema } from '@spincycle/shared/http/ids';
 import type { AppContext } from '../../app-context';
-import { getNodes, getSites } from './facility-service';
+import { getNodes, getSites, updateNode } from './facility-service';
 
 /** Handlers of /api/sites and /api/nodes. */
 export function createFacilityController(ctx: AppContext) {
@@ -10,6 +12,10 @@ export function createFacilityController(ctx: AppContext) {
     },
     async nodes(_req: Request, res: Response) {
       res.json(await getNodes(ctx));
+    },
+    async updateNode(req: Request, res: Response) {
+      const { id } = idParamSchema.parse(req.params);
+      res.json(await updateNode(ctx, id, nodeUpdateSchema.parse(req.body)));
     },
   };
 }

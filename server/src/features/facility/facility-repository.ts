@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import type { NodeUpdateInput } from '@spincycle/shared/facility/node-schemas';
 import type { NodeBand, ScintillationModel, Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
 
 interface SiteRow {
@@ -56,6 +57,7 @@ function toNode(r: NodeRow, site: Site): TelescopeNode {
     sunAltitudeLimitDeg: r.sun_altitude_limit_deg as number,
     weatherLossFraction: r.weather_loss_fraction as number,
     rateMinorPerHour: r.rate_minor_per_hour as number,
+    externalRateMinorPerHour: (r.external_rate_minor_per_hour as number | null) ?? null,
     currency: r.currency as string,
   };
 }
@@ -71,4 +73,12 @@ export async function listNodes(db: Knex, ids?: number[]): Promise<TelescopeNode
   const q = db<NodeRow>('nodes').orderBy('code');
   if (ids) q.whereIn('id', ids);
   return (await q).map((r) => toNode(r, sites.get(r.site_id)!));
+}
+
+/** Writes the given fields of a node (absent ones stay as they are); false when there is no such node. */
+export async function updateNodeRow(db: Knex, id: number, patch: NodeUpdateInput): Promise<boolean> {
+  const row: Record<string, unknown> = {};
+  if (patch.externalRateMinorPerHour !== undefined) row['external_rate_minor_per_hour'] = patch.externalRateMinorPerHour;
+  if (!Object.keys(row).length) return (await db('nodes').where({ id }).first('id')) !== undefined;
+  return (await db('nodes').where({ id }).update(row)) > 0;
 }

@@ -1,4 +1,4 @@
-import { signedIn, startHarness, type Harness } from '../../../../test/support/api-harness';
+import { Browser, signedIn, startHarness, type Harness } from '../../../../test/support/api-harness';
 
 let h: Harness;
 let siteId: number;
@@ -131,5 +131,104 @@ describe('facility read routes', () => {
       categories: ['A', 'B'],
       nodes: [{ nodeId, nodeCode: `${tag}N`, nodeHoursAvailable: 123.5 }],
     });
+  });
+});
+
+describe('PATCH /api/nodes/:id: the external rate', () => {
+  const stored = async () =>
+    (await h.created.ctx.db('nodes').where({ id: nodeId }).first('external_rate_minor_per_hour', 'rate_minor_per_hour')) as {
+      external_rate_minor_per_hour: number | null;
+      rate_minor_per_hour: number;
+    };
+
+  afterEach(async () => {
+    await h.created.ctx.db('nodes').where({ id: nodeId }).update({ external_rate_minor_per_hour: null });
+  });
+
+  it('a node without an external rate reads externalRateMinorPerHour null', async () => {
+    const { browser } = await signedIn(h);
+    const node = (await browser.get('/api/nodes')).body.find((n: { id: number }) => n.id === nodeId);
+    expect(node).toMatchObject({ rateMinorPerHour: 2500, externalRateMinorPerHour: null });
+  });
+
+  it('a facility manager sets it: answered, stored, read back by everyone; the academic rate stays', async () => {
+    const { browser } = await signedIn(h, ['facility_manager']);
+    const res = await browser.patch(`/api/nodes/${nodeId}`, { externalRateMinorPerHour: 4000 });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({
+      id: nodeId,
+      code: `${tag}N`,
+      rateMinorPerHour: 2500,
+      externalRateMinorPerHour: 4000,
+      site: { id: siteId },
+    });
+    expect(await stored()).toEqual({ external_rate_minor_per_hour: 4000, rate_minor_per_hour: 2500 });
+    const { browser: proposer } = await signedIn(h);
+    const node = (await proposer.get('/api/nodes')).body.find((n: { id: number }) => n.id === nodeId);
+    expect(node).toMatchObject({ rateMinorPerHour: 2500, externalRateMinorPerHour: 4000 });
+  });
+
+  it('0 is a rate (free for external programs), not "unset"', async () => {
+    const { browser } = await signedIn(h, ['facility_manager']);
+    const res = await browser.patch(`/api/nodes/${nodeId}`, { externalRateMinorPerHour: 0 });
+    expect(res.status).toBe(200);
+    expect(res.body.externalRateMinorPerHour).toBe(0);
+    expect((await stored()).external_rate_minor_per_hour).toBe(0);
+  });
+
+  it('null clears it (external programs pay the academic rate again)', async () => {
+    await h.created.ctx.db('nodes').where({ id: nodeId }).update({ external_rate_minor_per_hour: 3100 });
+    const { browser } = await signedIn(h, ['facility_manager']);
+    const res = await browser.patch(`/api/nodes/${nodeId}`, { externalRateMinorPerHour: null });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ rateMinorPerHour: 2500, externalRateMinorPerHour: null });
+    expect((await stored()).external_rate_minor_per_hour).toBeNull();
+  });
+
+  it.each([
+    ['a fraction of the smallest unit', 40.5],
+    ['a negative rate', -1],
+    ['text', '4000'],
+    ['a rate beyond the column (2³¹)', 2_147_483_648],
+  ])('refuses %s with 400 naming externalRateMinorPerHour, and stores nothing', async (_what, value) => {
+    await h.created.ctx.db('nodes').where({ id: nodeId }).update({ external_rate_minor_per_hour: 3100 });
+    const { browser } = await signedIn(h, ['facility_manager']);
+    const res = await browser.patch(`/api/nodes/${nodeId}`, { externalRateMinorPerHour: value });
+    expect(res.status).toBe(400);
+    expect(res.body.code).toBe('validation_failed');
+    expect(res.body.message).toMatch(/^externalRateMinorPerHour: /);
+    expect(Object.keys(res.body.fieldErrors)).toEqual(['externalRateMinorPerHour']);
+    expect((await stored()).external_rate_minor_per_hour).toBe(3100);
+  });
+
+  it('refuses a field it cannot change (the academic rate) instead of ignoring it, and an empty body', async () => {
+    const { browser } = await signedIn(h, ['facility_manager']);
+    const academic = await browser.patch(`/api/nodes/${nodeId}`, { externalRateMinorPerHour: 4000, rateMinorPerHour: 1 });
+    expect(academic.status).toBe(400);
+    expect(academic.body.message).toContain('rateMinorPerHour');
+    const empty = await browser.patch(`/api/nodes/${nodeId}`, {});
+    expect(empty.status).toBe(400);
+    expect(empty.body.message).toContain('externalRateMinorPerHour');
+    expect(await stored()).toEqual({ external_rate_minor_per_hour: null, rate_minor_per_hour: 2500 });
+  });
+
+  it('an unknown node answers 404; a malformed id 400', async () => {
+    const { browser } = await signedIn(h, ['facility_manager']);
+    const missing = await browser.patch('/api/nodes/2147483000', { externalRateMinorPerHour: 10 });
+    expect(missing.status).toBe(404);
+    expect(missing.body.code).toBe('node_not_found');
+    const malformed = await browser.patch('/api/nodes/1e3', { externalRateMinorPerHour: 10 });
+    expect(malformed.status).toBe(400);
+    expect(malformed.body.message).toMatch(/^id: /);
+  });
+
+  it('other roles are refused (403) and nothing changes; signed out 401', async () => {
+    const { browser } = await signedIn(h, ['proposer', 'reviewer', 'billing_contact', 'administrator']);
+    const res = await browser.patch(`/api/nodes/${nodeId}`, { externalRateMinorPerHour: 9999 });
+    expect(res.status).toBe(403);
+    expect(res.body.code).toBe('forbidden');
+    const anonymous = await new Browser(h).patch(`/api/nodes/${nodeId}`, { externalRateMinorPerHour: 9999 });
+    expect(anonymous.status).toBe(401);
+    expect((await stored()).external_rate_minor_per_hour).toBeNull();
   });
 });

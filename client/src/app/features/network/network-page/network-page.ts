@@ -1,6 +1,9 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { MatIconButton } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
 import { MatIcon } from '@angular/material/icon';
+import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSort, MatSortHeader, Sort } from '@angular/material/sort';
 import {
   MatCell,
@@ -16,12 +19,14 @@ import {
 } from '@angular/material/table';
 import { MatTooltip } from '@angular/material/tooltip';
 import type { Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
+import { SessionAuth } from '../../../core/auth/session-auth';
 import { loadErrorText } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { sortRows, SortValue } from '../../../ui/table/sort-rows';
 import { CoordinatePipe } from '../../../ui/units/coordinate-pipe';
 import { MinorCurrencyPipe } from '../../../ui/units/minor-currency-pipe';
 import { NetworkApi } from '../network-api';
+import { NodeRateDialog, type NodeRateDialogData, type NodeRateDialogResult } from '../node-rate-dialog/node-rate-dialog';
 
 const NODE_COLUMNS = [
   'code',
@@ -36,8 +41,12 @@ const NODE_COLUMNS = [
   'sunLimit',
   'weatherLoss',
   'rate',
+  'externalRate',
   'active',
 ] as const;
+
+/** Facility managers also get a button per node to set its external rate. */
+const MANAGER_NODE_COLUMNS = [...NODE_COLUMNS, 'edit'] as const;
 
 const SITE_COLUMNS = ['code', 'name', 'latitude', 'longitude', 'elevation', 'timeZone', 'sky', 'nodes'] as const;
 
@@ -67,6 +76,9 @@ function nodeValue(node: TelescopeNode, column: string): SortValue {
       return node.weatherLossFraction;
     case 'rate':
       return node.rateMinorPerHour;
+    case 'externalRate':
+      // What an external program pays: without an external rate, the academic one.
+      return node.externalRateMinorPerHour ?? node.rateMinorPerHour;
     case 'active':
       return node.active;
     default:
@@ -95,7 +107,10 @@ function siteValue(site: Site, column: string): SortValue {
   }
 }
 
-/** The nodes of the network and the sites they stand at. Read-only for every role. */
+/**
+ * The nodes of the network and the sites they stand at, with each node's academic and external
+ * rate. Read-only, except that facility managers set a node's external rate (NodeRateDialog).
+ */
 @Component({
   selector: 'app-network-page',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -111,6 +126,7 @@ function siteValue(site: Site, column: string): SortValue {
     MatHeaderRow,
     MatHeaderRowDef,
     MatIcon,
+    MatIconButton,
     MatRow,
     MatRowDef,
     MatSort,
@@ -124,10 +140,14 @@ function siteValue(site: Site, column: string): SortValue {
 })
 export default class NetworkPage {
   private readonly api = inject(NetworkApi);
+  private readonly auth = inject(SessionAuth);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
   protected readonly nodes = this.api.nodesResource();
   protected readonly sites = this.api.sitesResource();
 
-  protected readonly nodeColumns = NODE_COLUMNS;
+  protected readonly canEditRates = computed(() => this.auth.hasRole('facility_manager'));
+  protected readonly nodeColumns = computed<readonly string[]>(() => (this.canEditRates() ? MANAGER_NODE_COLUMNS : NODE_COLUMNS));
   protected readonly siteColumns = SITE_COLUMNS;
   protected readonly nodeSort = signal<Sort>({ active: 'code', direction: 'asc' });
   protected readonly siteSort = signal<Sort>({ active: 'code', direction: 'asc' });
@@ -147,4 +167,16 @@ export default class NetworkPage {
   protected readonly sitesError = computed(() => loadErrorText(this.sites.error(), 'The sites could not be loaded.'));
   protected readonly nodesEmpty = computed(() => this.nodes.hasValue() && this.nodeList().length === 0);
   protected readonly sitesEmpty = computed(() => this.sites.hasValue() && this.siteList().length === 0);
+
+  /** Opens the external rate of a node for editing; the table shows the saved node at once. */
+  protected editRate(node: TelescopeNode): void {
+    this.dialog
+      .open<NodeRateDialog, NodeRateDialogData, NodeRateDialogResult>(NodeRateDialog, { data: { node }, autoFocus: 'first-tabbable' })
+      .afterClosed()
+      .subscribe((saved) => {
+        if (!saved) return;
+        this.nodes.update((list) => list.map((n) => (n.id === saved.id ? saved : n)));
+        this.snackBar.open(`External rate of ${saved.code} saved.`, 'Dismiss', { duration: 6000 });
+      });
+  }
 }
