@@ -20,9 +20,9 @@ export interface PlanJobData {
 /**
  * A pg-boss instance on the application's database. `role` decides what it does besides
  * sending: the web process only sends (no maintenance, no schedules); the worker supervises
- * (archives and expires jobs).
+ * (archives and expires jobs); the worker's scheduler keeps cron schedules (pg-boss's timekeeper).
  */
-export function createPgBoss(config: Config, role: 'web' | 'worker'): PgBoss {
+export function createPgBoss(config: Config, role: 'web' | 'worker' | 'worker-schedule'): PgBoss {
   return new PgBoss({
     host: config.PGHOST,
     port: config.PGPORT,
@@ -31,9 +31,9 @@ export function createPgBoss(config: Config, role: 'web' | 'worker'): PgBoss {
     database: config.PGDATABASE,
     schema: PG_BOSS_SCHEMA,
     application_name: `spincycle-${role}`,
-    max: role === 'web' ? 2 : 4,
+    max: role === 'worker' ? 4 : 2,
     supervise: role === 'worker',
-    schedule: false,
+    schedule: role === 'worker-schedule',
     migrate: true,
   });
 }

@@ -1,9 +1,8 @@
-import PgBoss from 'pg-boss';
 import type { Logger } from 'pino';
 import type { Config } from '../config';
 import type { Db } from '../db/knex';
 import { completeProgramsOfEndedCampaigns } from '../features/night-plans/program-completion';
-import { PG_BOSS_SCHEMA } from './pg-boss-factory';
+import { createPgBoss } from './pg-boss-factory';
 
 /** The queue of the daily sweep (one per database: every worker shares it). */
 export const PROGRAM_COMPLETION_QUEUE = 'program-completion';
@@ -52,9 +51,8 @@ export async function runProgramCompletionJob(
  * it and it still runs once a day), works the queue, and queues one sweep at once so that a
  * worker that was stopped at 00:10 UTC catches up when it starts.
  *
- * It has a pg-boss instance of its own because the workers' instances are made with
- * `schedule: false` (pg-boss-factory.ts), and cron needs pg-boss's timekeeper, which only runs
- * with `schedule: true`. pg-boss takes care that among several processes one sends each due job.
+ * It has a pg-boss instance of its own (role 'worker-schedule' in pg-boss-factory.ts): cron needs
+ * pg-boss's timekeeper, which the other instances do not run. pg-boss takes care that among several processes one sends each due job.
  *
  * `now` is the clock the sweep judges campaign ends by (tests move it); `queue`, `cron` and
  * `data` (the payload of the scheduled and the start-up sweeps) default to the production ones
@@ -74,19 +72,7 @@ export async function startProgramCompletionJob(deps: {
   const queue = deps.queue ?? PROGRAM_COMPLETION_QUEUE;
   const cron = deps.cron ?? PROGRAM_COMPLETION_CRON;
   const data = deps.data ?? {};
-  const boss = new PgBoss({
-    host: config.PGHOST,
-    port: config.PGPORT,
-    user: config.PGUSER,
-    password: config.PGPASSWORD,
-    database: config.PGDATABASE,
-    schema: PG_BOSS_SCHEMA,
-    application_name: 'spincycle-worker-schedule',
-    max: 2,
-    supervise: false,
-    schedule: true,
-    migrate: true,
-  });
+  const boss = createPgBoss(config, 'worker-schedule');
   boss.on('error', (err) => logger.error({ err }, 'pg-boss (program completion) error'));
   await boss.start();
   try {

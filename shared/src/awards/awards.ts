@@ -231,8 +231,8 @@ export type ReleaseInput = z.infer<typeof releaseSchema>;
 export interface ReleaseResult {
   board: AwardBoard;
   /**
-   * Teams mailed now, and mails that failed (logged; the award's `mailedAt` stays null, and a
-   * later change of that decision mails the team again).
+   * Teams mailed now, and mails the relay did not take now (they stay in the outbox, which the
+   * worker tries again; the award's `mailedAt` is set when the mail is sent).
    */
   mailed: number;
   mailFailures: number;

@@ -7,7 +7,6 @@
  * issued invoice may be voided instead (it keeps its number, so the numbers have no gaps).
  */
 import { z } from 'zod';
-import { idSchema } from '../http/ids';
 import { safeMultiLineText } from '../http/text';
 
 export const INVOICE_STATES = ['draft', 'issued', 'paid', 'void', 'refunded'] as const;
@@ -116,7 +115,6 @@ export const inviteBillingContactSchema = z.strictObject({
     .max(254, 'at most 254 characters')
     .pipe(z.email({ message: 'must be an e-mail address' })),
 });
-export const invoiceIdSchema = idSchema;
 
 // ---------------------------------------------------------------- responses
 

@@ -586,10 +586,6 @@ export async function markReleased(db: Knex, cycleId: number, accountId: number,
   await db('cycles').where('id', cycleId).update({ awards_released_at: at, awards_released_by: accountId, updated_at: db.fn.now() });
 }
 
-export async function markMailed(db: Knex, proposalId: number, at: Date): Promise<void> {
-  await db('awards').where('proposal_id', proposalId).update({ mailed_at: at });
-}
-
 /** The team's addresses: the PI and accepted members, at their account e-mail (enabled accounts). */
 export async function listTeamEmails(db: Knex, proposalId: number): Promise<string[]> {
   const rows = (await db('proposal_members as m')

@@ -5,10 +5,12 @@ import type { AppContext } from '../../app-context';
 import { AppError } from '../../http/app-error';
 import { insertAudit } from '../awards/award-repository';
 import {
+  findAttemptByKey,
   findInvoice,
   insertAttempt,
   invoiceRecipients,
   isBillingContact,
+  isPi,
   listInvoiceLines,
   recordEvent,
   updateInvoice,
@@ -78,8 +80,7 @@ export async function payInvoice(ctx: AppContext, viewer: SessionUser, id: numbe
     if (!invoice || invoice.state === 'draft') throw invoiceNotFound(id);
     if (!(await isBillingContact(trx, invoice.proposalId, viewer.id))) {
       // The PI sees the invoice but pays through a billing contact; others do not see it at all.
-      const sees = await trx('proposal_members').where({ proposal_id: invoice.proposalId, account_id: viewer.id, role: 'pi' }).first('id');
-      if (!sees) throw invoiceNotFound(id);
+      if (!(await isPi(trx, invoice.proposalId, viewer.id))) throw invoiceNotFound(id);
       throw new AppError(
         'not_billing_contact',
         'Only the program’s billing contacts pay its invoices. Invite yourself or someone else as billing contact.',
@@ -90,21 +91,11 @@ export async function payInvoice(ctx: AppContext, viewer: SessionUser, id: numbe
       const why = invoice.state === 'paid' || invoice.state === 'refunded' ? 'is already paid' : 'is void';
       throw new AppError('invoice_not_payable', `Invoice ${invoice.number} ${why}.`, 409);
     }
+    // The same click again (or a retried request): answer what the first one did, without a second charge.
+    const asked = paymentKey({ id, version: input.version, createdAt: invoice.createdAt });
+    if (await findAttemptByKey(trx, id, asked)) return { state: 'processing' as const, message: PROCESSING };
+    if (input.version !== invoice.version) throw staleInvoice();
     const key = paymentKey(invoice);
-    if (input.version !== invoice.version) {
-      // The same click again after the first one went through: answer what the first one did.
-      const earlier = await trx('payment_attempts')
-        .where({ invoice_id: id, idempotency_key: paymentKey({ id, version: input.version, createdAt: invoice.createdAt }) })
-        .whereIn('state', ['processing', 'succeeded'])
-        .first('id');
-      if (earlier) return { state: 'processing' as const, message: PROCESSING };
-      throw staleInvoice();
-    }
-    const earlier = await trx('payment_attempts')
-      .where({ invoice_id: id, idempotency_key: key })
-      .whereIn('state', ['processing', 'succeeded'])
-      .first('id');
-    if (earlier) return { state: 'processing' as const, message: PROCESSING };
 
     const last4 = input.cardNumber.slice(-4);
     const brand = cardBrand(input.cardNumber);

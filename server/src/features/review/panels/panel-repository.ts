@@ -432,11 +432,6 @@ export async function setAssignmentSource(db: Knex, id: number, source: Assignme
     .update({ source, assigned_by: assignedBy, version: db.raw('version + 1') });
 }
 
-export async function markNotified(db: Knex, ids: number[]): Promise<void> {
-  if (!ids.length) return;
-  await db('review_assignments').whereIn('id', ids).update({ notified_at: db.fn.now() });
-}
-
 /* ---------- distributed review ---------- */
 
 export interface TeamReviewerEntry {

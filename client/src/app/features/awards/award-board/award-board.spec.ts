@@ -389,7 +389,7 @@ describe('AwardBoardPage', () => {
     });
     await fixture.whenStable();
     expect(snackOpen).toHaveBeenCalledWith(
-      'Decisions released: 2 teams mailed, 1 mail failed (sent again at the next release or change), 2 programs created.',
+      'Decisions released: 2 teams mailed, 1 mail not sent yet (tried again automatically), 2 programs created.',
       'Dismiss',
       { duration: 12000 },
     );

@@ -62,7 +62,7 @@ function count(n: number, one: string, many: string): string {
 export function releaseSummary(result: Pick<ReleaseResult, 'mailed' | 'mailFailures' | 'programsCreated'>): string {
   const parts = [`${count(result.mailed, 'team', 'teams')} mailed`, `${count(result.programsCreated, 'program', 'programs')} created`];
   if (result.mailFailures) {
-    parts.splice(1, 0, `${count(result.mailFailures, 'mail', 'mails')} failed (sent again at the next release or change)`);
+    parts.splice(1, 0, `${count(result.mailFailures, 'mail', 'mails')} not sent yet (tried again automatically)`);
   }
   return `Decisions released: ${parts.join(', ')}.`;
 }
