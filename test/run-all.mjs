@@ -8,7 +8,7 @@
 // command's whole process group (jest, its workers, the browser suite's servers) and then the
 // test cluster (unless another run, such as a `npx jest` beside it, still holds a lease on it).
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
-import { join } from 'node:path';
+import { join, relative } from 'node:path';
 import { bringUpCluster, clusterEnv } from '../database/cluster.mjs';
 import { ensureDebianPackages, fileExists, pythonModule } from '../server/scripts/debian-packages.mjs';
 import { stopChild } from '../server/scripts/processes.cjs';
@@ -27,6 +27,8 @@ const E2E_DB = process.env.SPINCYCLE_E2E_DB ?? 'spincycle_e2e';
 const resultsDir = join(projectDir, '.data', 'test-results');
 const bin = (name) => join(projectDir, 'node_modules', '.bin', name);
 
+/** @type {string[]} failed tests, named, for the summary */
+const failures = [];
 /** @type {{ suite: string, passed: number, failed: number, seconds: number, note?: string }[]} */
 const rows = [];
 
@@ -111,6 +113,26 @@ async function jestSuite(project, extraArgs = []) {
   // A suite that finds no tests is a failure too: something was misconfigured.
   const empty = json.numTotalTests === 0;
   record(project, json.numPassedTests, json.numFailedTests + brokenFiles + (empty ? 1 : 0), seconds, empty ? 'no tests found' : undefined);
+  // Failures are repeated in the summary (CI may keep only the end of the output).
+  for (const file of json.testResults) {
+    const where = relative(projectDir, file.name);
+    if (file.status === 'failed' && file.assertionResults.length === 0) failures.push(`${project}: ${where}: ${firstLines(file.message)}`);
+    for (const a of file.assertionResults)
+      if (a.status === 'failed') failures.push(`${project}: ${where}: ${a.fullName}: ${firstLines(a.failureMessages.join('\n'))}`);
+  }
+}
+
+/** The first few lines of a failure message, without colour codes. */
+function firstLines(text, lines = 6) {
+  return (
+    (text ?? '')
+      // eslint-disable-next-line no-control-regex -- colour codes start with ESC
+      .replace(/\x1b\[[0-9;]*m/g, '')
+      .split('\n')
+      .filter((l) => l.trim() !== '')
+      .slice(0, lines)
+      .join('\n    ')
+  );
 }
 
 async function main() {
@@ -182,6 +204,10 @@ async function main() {
     console.log(
       `${mark} ${r.suite.padEnd(w)}  ${String(r.passed).padStart(5)} passed  ${String(r.failed).padStart(3)} failed  ${r.seconds.toFixed(1).padStart(6)} s${r.note ? `  (${r.note})` : ''}`,
     );
+  }
+  if (failures.length) {
+    console.log('\n══ Failed');
+    for (const f of failures) console.log(`✗ ${f}`);
   }
   console.log(`total time ${((performance.now() - t0) / 1000).toFixed(0)} s`);
   console.log(`${passed} passed, ${failed} failed`);

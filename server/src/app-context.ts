@@ -2,6 +2,7 @@ import type { Logger } from 'pino';
 import type { Config } from './config';
 import type { Db } from './db/knex';
 import type { NightPlanQueue } from './jobs/night-plan-queue';
+import type { PhotometryQueue } from './jobs/photometry-queue';
 import type { PlanQueue } from './jobs/plan-queue';
 import type { Mailer } from './mail/mailer';
 
@@ -19,6 +20,8 @@ export interface AppContext {
    * asked for then answers 503.
    */
   nightPlanQueue?: NightPlanQueue;
+  /** Where light-curve analyses are queued (pg-boss; the worker runs them); left out as nightPlanQueue may be (503). */
+  photometryQueue?: PhotometryQueue;
   /**
    * The server's clock. Deadlines (a cycle's call closing instant) are judged against it; tests
    * replace it to stand one second before or after a deadline.

@@ -31,6 +31,8 @@ import { createRequestLogger } from './http/request-logger';
 import { endSessionsOlderThan, storeSignedInSessionsOnly, throttleSessionTouch } from './http/session-lifetime';
 import { createPgBossNightPlanQueue } from './jobs/night-plan-queue';
 import { createPgBossPlanQueue } from './jobs/plan-queue';
+import { createPgBossPhotometryQueue } from './jobs/photometry-queue';
+import { createPhotometryRoutes } from './features/photometry/photometry-routes';
 import { createLogger } from './logger';
 import { createSmtpMailer } from './mail/mailer';
 
@@ -52,6 +54,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
     mailer: overrides.ctx?.mailer ?? createSmtpMailer(config),
     planQueue: overrides.ctx?.planQueue ?? createPgBossPlanQueue(config, logger),
     nightPlanQueue: overrides.ctx?.nightPlanQueue ?? createPgBossNightPlanQueue(config, logger),
+    photometryQueue: overrides.ctx?.photometryQueue ?? createPgBossPhotometryQueue(config, logger),
     now: overrides.ctx?.now ?? (() => new Date()),
   };
   const production = config.NODE_ENV === 'production';
@@ -112,6 +115,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
   api.use('/admin/mail-outbox', createMailOutboxRoutes(ctx));
   api.use('/sky-windows', createSkyWindowsRoutes(ctx));
   api.use('/cycles', createCycleRoutes(ctx));
+  api.use('/proposals/:id/photometry', createPhotometryRoutes(ctx));
   api.use('/proposals', createProposalRoutes(ctx));
   api.use('/invitations', createInvitationRoutes(ctx));
   api.use('/target-lists', createTargetListRoutes(ctx));
@@ -142,6 +146,7 @@ export function createApp(overrides: { config?: ConfigOverrides; ctx?: Partial<A
       ctx.mailer.close();
       await ctx.planQueue.close().catch((err) => logger.error({ err }, 'closing the plan queue failed'));
       await ctx.nightPlanQueue?.close().catch((err) => logger.error({ err }, 'closing the night-plan queue failed'));
+      await ctx.photometryQueue?.close().catch((err) => logger.error({ err }, 'closing the photometry queue failed'));
       await Promise.allSettled([ctx.db.destroy(), sessionPool.end()]);
     },
   };

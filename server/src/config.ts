@@ -107,6 +107,11 @@ const envSchema = z.object({
     .string()
     .regex(/^[A-Za-z0-9_.-]+$/)
     .default('night-plans'),
+  /** pg-boss queue of the photometry analysis runs (tests use their own name to keep their jobs apart). */
+  PHOTOMETRY_QUEUE: z
+    .string()
+    .regex(/^[A-Za-z0-9_.-]+$/)
+    .default('photometry'),
   /** How often an idle plan worker looks for new jobs, seconds. */
   PLAN_WORKER_POLL_SECONDS: z.coerce.number().min(0.5).max(60).default(1),
   /**

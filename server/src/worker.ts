@@ -2,6 +2,7 @@ import { loadConfig } from './config';
 import { createDb } from './db/knex';
 import { instanceId } from './features/health/instance-id';
 import { startNightPlanWorker } from './jobs/night-plan-worker';
+import { startPhotometryWorker } from './jobs/photometry-worker';
 import { startPlanWorker } from './jobs/plan-worker';
 import { startProgramCompletionJob } from './jobs/program-completion-job';
 import { createLogger } from './logger';
@@ -10,7 +11,7 @@ import { startMailOutboxWorker } from './mail/outbox-worker';
 /**
  * The background worker process: computes target plans and night plans (one job per node of a
  * build), sweeps the mail outbox and, daily at 00:10 UTC, makes the programs of ended campaigns
- * complete, from the pg-boss queues in the application's database (PLAN_WORKER=off: night plans
+ * complete, and analyses returned light curves, from the pg-boss queues in the application's database (PLAN_WORKER=off: night plans
  * only, no target plans, no mail and no daily completion sweep). Started by `npm start` beside the web server; any number may run,
  * on any machine that reaches the database. SIGINT/SIGTERM let a running job finish first
  * (pg-boss graceful stop, up to 20 s; a job cut off then is queued again at the next start).
@@ -28,6 +29,7 @@ async function main(): Promise<void> {
   const parts = [
     full ? await startPlanWorker({ config, db, logger }) : null,
     await startNightPlanWorker({ config, db, logger }),
+    full ? await startPhotometryWorker({ config, db, logger }) : null,
     full ? await startMailOutboxWorker({ config, db, logger }) : null,
     full ? await startProgramCompletionJob({ config, db, logger }) : null,
   ];

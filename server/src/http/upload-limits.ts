@@ -1,3 +1,5 @@
+import { tmpdir } from 'node:os';
+import { rm } from 'node:fs/promises';
 import type { RequestHandler } from 'express';
 import multer, { MulterError } from 'multer';
 import { AppError } from './app-error';
@@ -53,4 +55,49 @@ export function requireUploadedFile(file: Express.Multer.File | undefined, field
     throw new AppError('file_missing', message, 400, { [field]: [message] });
   }
   return file;
+}
+
+export interface MultiFileUploadOptions {
+  field: string;
+  maxBytes: number;
+  maxFiles: number;
+  tooLargeMessage: string;
+}
+
+/**
+ * Several files of a multipart form, each written to a temporary file (large files are read
+ * back as streams, never held whole in memory); the files are removed when the response ends,
+ * whatever happens. Multer's errors become AppErrors as in {@link singleFileUpload}.
+ */
+export function multiFileUpload(options: MultiFileUploadOptions): RequestHandler {
+  const upload = multer({
+    storage: multer.diskStorage({ destination: tmpdir() }),
+    defParamCharset: 'utf8',
+    limits: { fileSize: options.maxBytes, files: options.maxFiles, fields: 20, parts: options.maxFiles + 20 },
+  }).array(options.field, options.maxFiles);
+  return (req, res, next) => {
+    const cleanUp = () => {
+      const files = Array.isArray(req.files) ? req.files : [];
+      for (const f of files) if (f.path) void rm(f.path, { force: true });
+    };
+    res.on('close', cleanUp);
+    upload(req, res, (err?: unknown) => {
+      if (!err) return next();
+      if (err instanceof MulterError) {
+        if (err.code === 'LIMIT_FILE_SIZE')
+          return next(new AppError('file_too_large', options.tooLargeMessage, 413, { [options.field]: [options.tooLargeMessage] }));
+        if (err.code === 'LIMIT_FILE_COUNT' || (err.code === 'LIMIT_UNEXPECTED_FILE' && err.field === options.field)) {
+          const message = `Send at most ${options.maxFiles} files at once`;
+          return next(new AppError('too_many_files', message, 400, { [options.field]: [message] }));
+        }
+        if (err.code === 'LIMIT_UNEXPECTED_FILE') {
+          const message = `Send the files in the form field "${options.field}"`;
+          return next(new AppError('unexpected_file_field', message, 400, { [options.field]: [message] }));
+        }
+        return next(new AppError('bad_upload', `The upload was refused: ${err.message}`, 400));
+      }
+      const message = err instanceof Error ? err.message : String(err);
+      return next(new AppError('bad_upload', `The upload could not be read: ${message}`, 400));
+    });
+  };
 }

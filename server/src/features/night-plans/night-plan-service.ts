@@ -177,7 +177,7 @@ async function nightPlanNode(
 }
 
 /** Each program's progress from the stored figures (empty targets before a build). */
-async function programProgress(db: Knex, programs: ProgramRow[]): Promise<ProgramProgress[]> {
+export async function programProgress(db: Knex, programs: ProgramRow[]): Promise<ProgramProgress[]> {
   if (!programs.length) return [];
   const ids = programs.map((p) => p.proposalId);
   const completions = await findCompletions(

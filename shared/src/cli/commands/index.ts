@@ -13,4 +13,5 @@ export const COMMANDS: CommandEntry[] = [
   () => import('./plan'),
   () => import('./periodogram'),
   () => import('./windows'),
+  () => import('./measure'),
 ];

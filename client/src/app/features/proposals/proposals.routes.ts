@@ -22,6 +22,13 @@ const proposalsRoutes: Routes = [
         loadComponent: () => import('./justification/proposal-justification/proposal-justification'),
       },
       { path: 'submit', title: 'Submit', loadComponent: () => import('./submission/proposal-submit/proposal-submit') },
+      // Returned photometry of the program (once awarded): the program's table, and one target's measurement.
+      { path: 'photometry', title: 'Light curves', loadComponent: () => import('../photometry/photometry-page/photometry-page') },
+      {
+        path: 'photometry/:targetId',
+        title: 'Light curve of a target',
+        loadComponent: () => import('../photometry/target-photometry/target-photometry'),
+      },
     ],
   },
 ];

@@ -2,8 +2,12 @@ import { ChangeDetectionStrategy, Component, computed, inject, input, LOCALE_ID,
 import { MatButton } from '@angular/material/button';
 import { MatCard } from '@angular/material/card';
 import { MatIcon } from '@angular/material/icon';
+import { HttpErrorResponse } from '@angular/common/http';
+import { RouterLink } from '@angular/router';
 import type { ProgramCompletion, ProgramProgress } from '@spincycle/shared/night-plans/night-plans';
+import type { ProgramPhotometry } from '@spincycle/shared/photometry/photometry';
 import { loadErrorTextUnlessMissing } from '../../../core/http/api-error-message';
+import { PhotometryApi } from '../../photometry/photometry-api';
 import { LoadStatus } from '../../../ui/load-status/load-status';
 import { NightPlansApi } from '../night-plans-api';
 import { RECOVERY_EXPLANATION } from '../night-plan-format';
@@ -19,12 +23,13 @@ let nextId = 0;
  * planned and required, the chance that the planned visits reveal the targets' periods
  * (explained on demand), and the targets at risk with the reasons. A complete program says why
  * (every visit night its targets need is done, or the campaign ended) and shows what was done
- * instead of what is still at risk. Shows nothing while there is no program or no plan (404).
+ * instead of what is still at risk, and how far the analysis of the returned light curves has come,
+ * with a link to them. Shows nothing while there is no program or no plan (404).
  */
 @Component({
   selector: 'app-program-progress-card',
   changeDetection: ChangeDetectionStrategy.OnPush,
-  imports: [LoadStatus, MatButton, MatCard, MatIcon, ProgramStateChip, RecoveryBar],
+  imports: [LoadStatus, MatButton, MatCard, MatIcon, ProgramStateChip, RecoveryBar, RouterLink],
   template: `
     @if (program(); as p) {
       <mat-card appearance="outlined" class="progress-card" data-testid="program-progress-card">
@@ -70,6 +75,28 @@ let nextId = 0;
           </p>
           @if (explain()) {
             <p class="muted explanation" [id]="uid + '-why'" data-testid="program-recovery-explanation">{{ meaning }}</p>
+          }
+
+          <h3>Light curves</h3>
+          @if (photometry(); as ph) {
+            <p class="photometry" data-testid="program-photometry">
+              <span>
+                @if (ph.progress.targetsWithPhotometry === 0) {
+                  No light curve uploaded yet.
+                } @else {
+                  <strong>{{ ph.progress.targetsAnalysed }} of {{ ph.progress.targetsAwarded }}</strong>
+                  {{ ph.progress.targetsAwarded === 1 ? 'target' : 'targets' }} analysed, {{ ph.progress.targetsMeasured }} with a measured
+                  period.
+                }
+              </span>
+              <a [routerLink]="['/proposals', proposalId(), 'photometry']" data-testid="program-photometry-link">{{
+                ph.canUpload ? 'Upload and read the light curves' : 'Read the light curves'
+              }}</a>
+            </p>
+          } @else if (photometryError()) {
+            <p class="muted" data-testid="program-photometry-error">The progress of the light curves could not be loaded.</p>
+          } @else if (photometryResource.isLoading()) {
+            <p class="muted">Loading the light curves' progress…</p>
           }
 
           @if (p.programState !== 'complete') {
@@ -150,6 +177,13 @@ let nextId = 0;
       gap: 8px;
       margin: 0;
     }
+    .photometry {
+      display: flex;
+      flex-wrap: wrap;
+      align-items: baseline;
+      gap: 4px 12px;
+      margin: 0;
+    }
     .risks {
       margin: 0;
       padding: 0;
@@ -182,6 +216,19 @@ export class ProgramProgressCard {
   protected readonly error = computed(() =>
     loadErrorTextUnlessMissing(this.resource.error(), 'The progress of your program could not be loaded.'),
   );
+  /** The program's returned photometry, asked for once the program is known to exist. */
+  private readonly photometryApi = inject(PhotometryApi);
+  protected readonly photometryResource = this.photometryApi.programResource(() => (this.program() ? this.proposalId() : null));
+  protected readonly photometry = computed<ProgramPhotometry | null>(() =>
+    this.photometryResource.hasValue() ? this.photometryResource.value() : null,
+  );
+  /** A failure other than "no program" (409) or "not found" (404), which show nothing. */
+  protected readonly photometryError = computed(() => {
+    const error = this.photometryResource.error();
+    if (!error) return false;
+    const cause = error instanceof HttpErrorResponse ? error : (error as { cause?: unknown }).cause;
+    return !(cause instanceof HttpErrorResponse && (cause.status === 404 || cause.status === 409));
+  });
   protected readonly explain = signal(false);
   protected readonly meaning = RECOVERY_EXPLANATION;
   protected readonly risks = risksOf;

@@ -8,6 +8,7 @@ import { RouterTestingHarness } from '@angular/router/testing';
 import { Clock } from '../../../core/time/clock';
 import { formatLocalInstant } from '../../../ui/time/date-format';
 import proposalsRoutes from '../proposals.routes';
+import { testProgram as testPhotometry } from '../../photometry/testing/photometry-fixtures';
 import { testProposal } from '../testing/fixtures';
 
 const NOW = Date.parse('2027-01-10T12:00:00Z');
@@ -76,6 +77,38 @@ describe('ProposalEditor', () => {
     expect(squash(banner.textContent)).toBe(`lock Submitted on 9 Jan 2027, 16:45 UTC${local && ` (your time: ${local})`} — read-only.`);
     expect(banner.textContent).toContain('— read-only.');
     expect((el().querySelector('app-proposal-overview textarea') as HTMLTextAreaElement).disabled).toBe(true);
+  });
+
+  it('awarded: a "Light curves" tab after the others leads to the program\'s returned photometry', async () => {
+    await harness.navigateByUrl('/proposals/5/photometry');
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal({ state: 'awarded', editable: false }));
+    await new Promise((resolve) => setTimeout(resolve));
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5/photometry').flush(testPhotometry());
+    await harness.fixture.whenStable();
+    const links = Array.from(el().querySelectorAll('nav a')) as HTMLAnchorElement[];
+    expect(links.map((a) => a.textContent?.trim())).toEqual([
+      'Overview',
+      'Team',
+      'Targets',
+      'Plans',
+      'Justification',
+      'Submit',
+      'Light curves',
+    ]);
+    expect(links[6].getAttribute('href')).toBe('/proposals/5/photometry');
+    expect(links[6].classList).toContain('mdc-tab--active');
+    expect(el().querySelector('[data-testid=photometry-table]')).not.toBeNull();
+  });
+
+  it('not awarded: no "Light curves" tab', async () => {
+    await harness.navigateByUrl('/proposals/5/justification');
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5').flush(testProposal({ state: 'in_review', editable: false }));
+    await harness.fixture.whenStable();
+    const labels = Array.from(el().querySelectorAll('nav a')).map((a) => a.textContent?.trim());
+    expect(labels).not.toContain('Light curves');
   });
 
   it('not on the team (404): says so instead of the tabs', async () => {

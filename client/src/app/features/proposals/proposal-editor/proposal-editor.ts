@@ -12,6 +12,9 @@ import { EDITOR_TABS } from '../editor-tabs';
 import { ProposalStateChip } from '../proposal-state-chip/proposal-state-chip';
 import { ProposalStore } from '../proposal-store';
 
+/** The tab of the program's returned photometry (a child route of /proposals/:id, not a tab of the proposal itself). */
+const PHOTOMETRY_TAB = { path: 'photometry', label: 'Light curves' } as const;
+
 /**
  * /proposals/:id: the proposal's header, the read-only banner once it is submitted, and its
  * tabs as linkable child routes. Provides the ProposalStore the tabs share.
@@ -46,7 +49,13 @@ export default class ProposalEditor {
     return Number.isInteger(id) && id > 0 ? id : null;
   });
 
-  protected readonly tabs = EDITOR_TABS;
+  /**
+   * The editor's tabs, and "Light curves" once the proposal is awarded: its program then exists
+   * (the release of the awards creates it in the same transaction as the state).
+   */
+  protected readonly tabs = computed<readonly { path: string; label: string }[]>(() =>
+    this.proposal()?.state === 'awarded' ? [...EDITOR_TABS, PHOTOMETRY_TAB] : EDITOR_TABS,
+  );
   protected readonly stateLabels = PROPOSAL_STATE_LABELS;
   protected readonly proposal = this.store.proposal;
 

@@ -11,6 +11,7 @@ import type { Proposal } from '@spincycle/shared/proposals/proposal-schemas';
 import { testTeamDecision } from '../../awards/testing/award-fixtures';
 import { testProgramBilling } from '../../fees/testing/fee-fixtures';
 import { testProgram } from '../../night-plans/testing/night-plan-fixtures';
+import { testProgram as testPhotometry } from '../../photometry/testing/photometry-fixtures';
 import { AUTOSAVE_DEBOUNCE_MS, ProposalStore } from '../proposal-store';
 import { testCycle, testProposal } from '../testing/fixtures';
 import ProposalOverview, { requestRows } from './proposal-overview';
@@ -323,6 +324,10 @@ describe('ProposalOverview decision card', () => {
     backend.expectOne('/api/awards/proposals/5/decision').flush(testTeamDecision());
     backend.expectOne('/api/night-plans/programs/5').flush(testProgram({ proposalId: 5 }));
     backend.expectOne('/api/billing/programs/5').flush(testProgramBilling());
+    // The progress card asks for the light curves' progress once its program has arrived.
+    await new Promise((resolve) => setTimeout(resolve));
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5/photometry').flush(testPhotometry({ proposalId: 5 }));
     await fixture.whenStable();
     const card = fixture.nativeElement.querySelector('[data-testid=program-progress-card]') as HTMLElement;
     expect(card.textContent).toContain('6 of 34 planned visits done so far.');
@@ -335,6 +340,10 @@ describe('ProposalOverview decision card', () => {
     backend.expectOne('/api/awards/proposals/5/decision').flush(testTeamDecision());
     backend.expectOne('/api/night-plans/programs/5').flush(testProgram({ proposalId: 5 }));
     backend.expectOne('/api/billing/programs/5').flush(testProgramBilling());
+    // The progress card asks for the light curves' progress once its program has arrived.
+    await new Promise((resolve) => setTimeout(resolve));
+    TestBed.tick();
+    backend.expectOne('/api/proposals/5/photometry').flush(testPhotometry({ proposalId: 5 }));
     await fixture.whenStable();
     const card = fixture.nativeElement.querySelector('[data-testid=billing-contacts-card]') as HTMLElement;
     expect(card.textContent).toContain('ledger@greyhollow.example');
