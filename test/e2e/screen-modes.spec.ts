@@ -1,5 +1,5 @@
 /**
- * The awards, night-plan and fees screens on the demo data in four modes — phone (390 × 844) and
+ * The awards, night-plan, fees and light-curve screens on the demo data in four modes — phone (390 × 844) and
  * desktop (1440 × 1000), light and dark — each checked with axe-core (colour contrast included,
  * which is where dark mode fails first) and photographed (.data/screenshots/modes-*). No screen
  * may scroll sideways at phone width: wide tables scroll inside their own region.
@@ -62,7 +62,35 @@ const SCREENS: Screen[] = [
     },
     ready: 'invoice-lines',
   },
+  { name: 'light-curves', account: 'proposer@halcyon.example', open: lightCurves, ready: 'photometry-table' },
+  {
+    name: 'light-curve-target',
+    account: 'proposer@halcyon.example',
+    open: async (p) => {
+      await lightCurves(p);
+      await p
+        .locator('[data-testid^=photometry-row-]')
+        .filter({ hasText: 'Measured' })
+        .first()
+        .locator('[data-testid^=photometry-row-link-]')
+        .click();
+      await p.waitForURL(/\/photometry\/\d+$/);
+    },
+    ready: 'folded-chart',
+  },
 ];
+
+/** The demo proposer's awarded cluster program, at its light curves. */
+async function lightCurves(page: Page): Promise<void> {
+  await page.goto('/proposals');
+  const program = page
+    .locator('tr')
+    .filter({ has: page.getByText('Awarded', { exact: true }) })
+    .first();
+  await program.getByRole('link').first().click();
+  await page.waitForURL(/\/proposals\/\d+\//);
+  await page.goto(page.url().replace(/\/proposals\/(\d+)\/.*$/, '/proposals/$1/photometry'));
+}
 
 describe.each(MODES)('$name', (mode) => {
   it.each(SCREENS.map((s) => [s.name, s] as const))('%s: accessible, no sideways scrolling', async (_name, screen) => {

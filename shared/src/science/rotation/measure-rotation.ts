@@ -264,8 +264,9 @@ function analyse(
   // Charts.
   const freqs = new Float64Array(band.count);
   for (let k = 0; k < band.count; k++) freqs[k] = freqAt(k);
-  const wFrom = Math.max(0, Math.floor(band.minFrequencyPerDay / grid.stepPerDay) - 1);
-  const wTo = Math.min(wCount - 1, Math.ceil(fmax / grid.stepPerDay) - 1);
+  // The window is drawn from zero to past the daily alias, whatever the band: its peaks are where aliases come from.
+  const wFrom = 0;
+  const wTo = wCount - 1;
   const wFreqs = new Float64Array(Math.max(0, wTo - wFrom + 1));
   for (let k = wFrom; k <= wTo; k++) wFreqs[k - wFrom] = (k + 1) * grid.stepPerDay;
   const charts: MeasurementCharts = {

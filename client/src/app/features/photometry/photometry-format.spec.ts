@@ -9,6 +9,7 @@ import {
   formatPeriod,
   isRunActive,
   periodDecimals,
+  readableReferences,
   runPercent,
   runSentence,
   sinusoidAtPhase,
@@ -167,5 +168,22 @@ describe('photometry-format', () => {
       const ys = curve.map((p) => p.y);
       expect(Math.max(...ys) - Math.min(...ys)).toBeCloseTo(0.01, 4);
     });
+  });
+
+  it('readableReferences: citations only, without the notes that stay in code', () => {
+    const refs = readableReferences({
+      periodogram: 'Zechmeister & Kürster (2009), A&A 496, 577 (floating mean); standard normalisation as astropy LombScargle',
+      grid: 'VanderPlas (2018), ApJS 236, 16; defaults as astropy LombScargle.autofrequency',
+      periodUncertainty: 'σP = P²·σf: Montgomery & O’Donoghue (1999), Delta Scuti Star Newsletter 13, 28; Kovács (1981) (from memory)',
+      amplitude: '1 mmag = 920.6 ppm (SCIENCE.md §3, derived); for flux, relative to the mean',
+      verdict: 'A rule of this product; thresholds: common practice, no single source',
+      offsets: 'Zero points per node by the median: common practice in differential photometry, no source',
+    });
+    expect(refs).toEqual([
+      'Zechmeister & Kürster (2009), A&A 496, 577 (floating mean)',
+      'VanderPlas (2018), ApJS 236, 16',
+      'Montgomery & O’Donoghue (1999), Delta Scuti Star Newsletter 13, 28',
+      'Kovács (1981)',
+    ]);
   });
 });

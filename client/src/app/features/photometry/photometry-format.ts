@@ -195,3 +195,31 @@ export function foldedModel(fit: SinusoidFit, samples = 101): XY[] {
 export function fitSemiAmplitude(fit: SinusoidFit): number {
   return Math.hypot(fit.sinCoefficient, fit.cosCoefficient);
 }
+
+/** Source keys whose text is a rule of this product (shown with the verdict and the alias check), not a reference. */
+const RULE_SOURCES = new Set(['alias', 'verdict']);
+
+/**
+ * The measurement's references as a reader wants them: citations only, without the notes that
+ * stay in code (how a value was checked, "from memory", our science notes, which library a
+ * method matches) and without sentences that cite nothing.
+ */
+export function readableReferences(sources: Readonly<Record<string, string>>): string[] {
+  const out: string[] = [];
+  for (const [key, text] of Object.entries(sources)) {
+    if (RULE_SOURCES.has(key)) continue;
+    const parts = text
+      .split(/;\s*/)
+      .map((part) =>
+        part
+          .replace(/\s*\((?:from memory|derived|SCIENCE\.md[^)]*)\)/g, '')
+          .replace(/,?\s*(?:defaults )?as astropy\b.*$/, '')
+          .replace(/\s*\(as astropy[^)]*\)/g, '')
+          .replace(/^.*?:\s*(?=[A-Z][\p{L}’'-]+(?: et al\.| &| and|,)? .*\(\d{4}\))/u, '')
+          .trim(),
+      )
+      .filter((part) => /\(\d{4}\)/.test(part));
+    for (const part of parts) if (!out.includes(part)) out.push(part);
+  }
+  return out;
+}

@@ -114,7 +114,7 @@ export async function createNightPlanFixture(
           proposal_id: id,
           position: t,
           name,
-          ra_deg: 60 + 25 * ((p + t) % 5) + 3 * t,
+          ra_deg: (60 + 25 * ((p + t) % 5) + 3 * t) % 360,
           dec_deg: 10 + 7 * (t % 3),
           magnitude: 11 + 0.5 * (t % 3),
           magnitude_band: 'V',

@@ -47,7 +47,11 @@ export class ClusterAgeCard {
 
   protected readonly chiSquareText = computed(() => {
     const chi = this.series().fit?.reducedChiSquare;
-    return chi === null || chi === undefined ? null : formatNumber(chi, this.locale, 2);
+    return chi === null || chi === undefined
+      ? null
+      : chi > 0 && chi < 0.01
+        ? `< ${formatNumber(0.01, this.locale, 2)}`
+        : formatNumber(chi, this.locale, 2);
   });
 
   /** The chart's text alternative: what is drawn and the numbers that matter. */

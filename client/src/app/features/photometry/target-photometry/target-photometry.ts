@@ -17,7 +17,7 @@ import { ProposalStore } from '../../proposals/proposal-store';
 import { ChartFigure } from '../measurement-charts/chart-figure';
 import { foldedChart, lightCurveChart, periodogramChart, windowChart } from '../measurement-charts/measurement-charts';
 import { PhotometryApi } from '../photometry-api';
-import { amplitudeUnit, formatAge, formatFap, formatNumber, formatPeriod } from '../photometry-format';
+import { amplitudeUnit, formatAge, formatFap, formatNumber, formatPeriod, readableReferences } from '../photometry-format';
 import { VerdictChip } from '../verdict-chip/verdict-chip';
 
 /**
@@ -105,7 +105,7 @@ export default class TargetPhotometry {
   protected readonly timeSystems = computed(() =>
     (this.measurement()?.input.timeSystems ?? []).map((s) => TIME_SYSTEM_LABELS[s]).join(', '),
   );
-  protected readonly sources = computed(() => Object.values(this.measurement()?.sources ?? {}));
+  protected readonly sources = computed(() => readableReferences(this.measurement()?.sources ?? {}));
 
   protected number(value: number | null | undefined, digits = 2): string {
     return formatNumber(value, this.locale, digits);
