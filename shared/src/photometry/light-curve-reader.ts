@@ -149,6 +149,9 @@ function shown(cell: string): string {
 export class LightCurveReader {
   private readonly options: ReaderOptions;
   private readonly targetsByName = new Map<string, ReaderTarget>();
+  /** The last target cell read and what it named: files list a target's rows together. */
+  private lastTargetCell: string | null = null;
+  private lastTarget: ReaderTarget | null = null;
   private readonly targetsById = new Map<number, ReaderTarget>();
   private readonly nodeCodes: Map<string, string> | null;
   private readonly nodeNames: string[] = [];
@@ -297,7 +300,11 @@ export class LightCurveReader {
     let target: ReaderTarget | null = null;
     const targetCell = cell(c.target);
     if (c.target >= 0 && targetCell !== '') {
-      target = this.targetsByName.get(targetCell.toLowerCase()) ?? null;
+      if (targetCell !== this.lastTargetCell) {
+        this.lastTargetCell = targetCell;
+        this.lastTarget = this.targetsByName.get(targetCell.toLowerCase()) ?? null;
+      }
+      target = this.lastTarget;
       if (!target) this.problem(row, 'target', `row ${row}, target: ${shown(targetCell)} is not a target of this proposal`);
     } else if (this.options.targetId !== undefined) {
       target = this.targetsById.get(this.options.targetId) ?? null;

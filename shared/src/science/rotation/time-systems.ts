@@ -144,6 +144,21 @@ export const NODE_STEP_DAYS = 1;
 /** J2000.0 as a JD: astronomy-engine counts days from it. */
 const J2000_JD = 2451545.0;
 
+/** The Earth's barycentric states at the nodes (x, y, z AU; vx, vy, vz AU/d), kept across calls: every target of an upload shares them. */
+const earthStates = new Map<number, Float64Array>();
+const EARTH_STATES_KEPT = 50_000;
+
+function earthStateAt(k: number): Float64Array {
+  let s = earthStates.get(k);
+  if (!s) {
+    const b = BaryState(Body.Earth, AstroTime.FromTerrestrialTime(k * NODE_STEP_DAYS));
+    s = Float64Array.of(b.x, b.y, b.z, b.vx, b.vy, b.vz);
+    if (earthStates.size >= EARTH_STATES_KEPT) earthStates.clear();
+    earthStates.set(k, s);
+  }
+  return s;
+}
+
 /**
  * JD (UTC) → BJD (TDB) for a target at J2000 (ICRS) right ascension and declination, degrees
  * (see the module comment).
@@ -161,8 +176,8 @@ export function toBjdTdb(jdUtc: Float64Array, raDeg: number, decDeg: number): Fl
   const node = (k: number) => {
     let e = nodes.get(k);
     if (!e) {
-      const s = BaryState(Body.Earth, AstroTime.FromTerrestrialTime(k * NODE_STEP_DAYS));
-      e = { p: s.x * nx + s.y * ny + s.z * nz, v: s.vx * nx + s.vy * ny + s.vz * nz };
+      const s = earthStateAt(k);
+      e = { p: s[0] * nx + s[1] * ny + s[2] * nz, v: s[3] * nx + s[4] * ny + s[5] * nz };
       nodes.set(k, e);
     }
     return e;

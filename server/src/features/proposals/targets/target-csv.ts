@@ -92,7 +92,7 @@ export function decodeCsvText(buffer: Buffer, filename: string): string {
 }
 
 /** The delimiter of the header line: comma, or semicolon / tab as some spreadsheets export. */
-function detectDelimiter(text: string): string {
+export function detectDelimiter(text: string): string {
   // Only the start of the text: splitting a whole large file into lines would hold the event loop.
   const firstLine =
     text
