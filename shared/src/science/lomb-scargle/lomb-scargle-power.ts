@@ -205,6 +205,18 @@ function bitCeil(x: number): number {
   return p;
 }
 
+/** Lagrange denominators for `order` points: den_0 = (order−1)!, den_j = den_{j−1}·j/(j−order). */
+export function lagrangeDenominators(order: number): Float64Array {
+  const den = new Float64Array(order);
+  let d = 1;
+  for (let j = 2; j < order; j++) d *= j;
+  for (let j = 0; j < order; j++) {
+    if (j > 0) d *= j / (j - order);
+    den[j] = d;
+  }
+  return den;
+}
+
 function fastPower(data: PreparedLightCurve, grid: FrequencyGrid, options: FastMethodOptions): Float64Array {
   const oversampling = requireInteger(options.oversampling ?? 5, 'oversampling', 1);
   const order = requireInteger(options.order ?? 4, 'order', 2);
@@ -214,14 +226,7 @@ function fastPower(data: PreparedLightCurve, grid: FrequencyGrid, options: FastM
   if (order > nfft) throw new ScienceInputError('order', `must not exceed the FFT length ${nfft}`);
   const { fft, grid: buffer, out } = workspace(nfft);
 
-  // Lagrange denominators for `order` points: den_0 = (order−1)!, den_j = den_{j−1}·j/(j−order).
-  const den = new Float64Array(order);
-  let d = 1;
-  for (let j = 2; j < order; j++) d *= j;
-  for (let j = 0; j < order; j++) {
-    if (j > 0) d *= j / (j - order);
-    den[j] = d;
-  }
+  const den = lagrangeDenominators(order);
 
   // Three sums, one FFT each, through one grid buffer: w·y at f, w at f, w at 2f
   // (frequencies 2f0 + k·2df).
@@ -230,15 +235,15 @@ function fastPower(data: PreparedLightCurve, grid: FrequencyGrid, options: FastM
   const C = new Float64Array(nf);
   const S = new Float64Array(nf);
   buffer.fill(0);
-  spread(t, y, w, n, f0, df, nfft, order, den, buffer);
+  extirpolate(t, y, w, n, f0, df, nfft, order, den, buffer);
   fft.transform(out, buffer);
-  readSums(out, nfft, nf, Ch, Sh);
+  readTrigSums(out, nfft, nf, Ch, Sh);
   buffer.fill(0);
-  spread(t, null, w, n, f0, df, nfft, order, den, buffer);
+  extirpolate(t, null, w, n, f0, df, nfft, order, den, buffer);
   fft.transform(out, buffer);
-  readSums(out, nfft, nf, C, S);
+  readTrigSums(out, nfft, nf, C, S);
   buffer.fill(0);
-  spread(t, null, w, n, 2 * f0, 2 * df, nfft, order, den, buffer);
+  extirpolate(t, null, w, n, 2 * f0, 2 * df, nfft, order, den, buffer);
   fft.transform(out, buffer);
   const powerOut = new Float64Array(nf);
   for (let k = 0; k < nf; k++) {
@@ -251,7 +256,7 @@ function fastPower(data: PreparedLightCurve, grid: FrequencyGrid, options: FastM
 /**
  * The FFT computes Σ g_j·e^(−2πi·jk/N); the sums need e^(+2πi·jk/N), found at index N − k.
  */
-function readSums(out: Float64Array, nfft: number, nf: number, cosSum: Float64Array, sinSum: Float64Array): void {
+export function readTrigSums(out: Float64Array, nfft: number, nf: number, cosSum: Float64Array, sinSum: Float64Array): void {
   cosSum[0] = out[0];
   sinSum[0] = out[1];
   for (let k = 1; k < nf; k++) {
@@ -267,7 +272,7 @@ function readSums(out: Float64Array, nfft: number, nf: number, cosSum: Float64Ar
  * Lagrange weights, so that Σ h·e^(2πi(f0 + k·df)t) ≈ Σ_j g_j·e^(2πi·jk/N). The weights h
  * are w·y when `y` is given, else w.
  */
-function spread(
+export function extirpolate(
   t: Float64Array,
   y: Float64Array | null,
   w: Float64Array,

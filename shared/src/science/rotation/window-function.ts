@@ -12,6 +12,7 @@
  * window of 10⁵ points on 10⁴ frequencies costs milliseconds.
  */
 import FFT from 'fft.js';
+import { extirpolate, lagrangeDenominators, readTrigSums } from '../lomb-scargle/lomb-scargle-power';
 
 export const WINDOW_SOURCE = 'Deeming (1975), Ap&SS 36, 137 (spectral window); evaluated as Press & Rybicki (1989), ApJ 338, 277';
 
@@ -39,52 +40,16 @@ export function spectralWindow(timeDays: ArrayLike<number>, f0: number, df: numb
   const fft = new FFT(nfft);
   const grid = new Float64Array(2 * nfft);
   const spectrum = new Float64Array(2 * nfft);
-
-  // Lagrange denominators for ORDER points: den_0 = (ORDER−1)!, den_j = den_{j−1}·j/(j−ORDER).
-  const den = new Float64Array(ORDER);
-  let d = 1;
-  for (let j = 2; j < ORDER; j++) d *= j;
-  for (let j = 0; j < ORDER; j++) {
-    if (j > 0) d *= j / (j - ORDER);
-    den[j] = d;
-  }
-  const scale = nfft * df;
-  const half = ORDER >> 1;
-  const maxLo = nfft - ORDER;
-  const omega0 = TWO_PI * f0;
-  for (let i = 0; i < n; i++) {
-    const ti = timeDays[i] - tMin;
-    const re = Math.cos(omega0 * ti);
-    const im = Math.sin(omega0 * ti);
-    let x = ti * scale;
-    x -= Math.floor(x / nfft) * nfft;
-    if (x === Math.floor(x)) {
-      const j = 2 * (x | 0);
-      grid[j] += re;
-      grid[j + 1] += im;
-      continue;
-    }
-    let lo = Math.trunc(x - half);
-    if (lo < 0) lo = 0;
-    else if (lo > maxLo) lo = maxLo;
-    let numerator = 1;
-    for (let m = 0; m < ORDER; m++) numerator *= x - lo - m;
-    for (let j = 0; j < ORDER; j++) {
-      const ind = lo + ORDER - 1 - j;
-      const c = numerator / (den[j] * (x - ind));
-      grid[2 * ind] += c * re;
-      grid[2 * ind + 1] += c * im;
-    }
-  }
+  const t = new Float64Array(n);
+  for (let i = 0; i < n; i++) t[i] = timeDays[i] - tMin;
+  // The periodogram's own extirpolation, with unit weights and a wider stencil.
+  extirpolate(t, null, new Float64Array(n).fill(1), n, f0, df, nfft, ORDER, lagrangeDenominators(ORDER), grid);
   fft.transform(spectrum, grid);
-  // The FFT computes Σ g_j·e^(−2πi·jk/N); the sum needs e^(+2πi·jk/N), found at index N − k.
+  const re = new Float64Array(count);
+  const im = new Float64Array(count);
+  readTrigSums(spectrum, nfft, count, re, im);
   const norm = 1 / (n * n);
-  for (let k = 0; k < count; k++) {
-    const idx = k === 0 ? 0 : 2 * (nfft - k);
-    const re = spectrum[idx];
-    const im = spectrum[idx + 1];
-    out[k] = Math.min(1, (re * re + im * im) * norm);
-  }
+  for (let k = 0; k < count; k++) out[k] = Math.min(1, (re[k] * re[k] + im[k] * im[k]) * norm);
   return out;
 }
 

@@ -30,6 +30,7 @@ import {
 import { colourLabel } from '@spincycle/shared/science/colour-sequence';
 import { readApiError } from '../../../core/http/api-error-message';
 import { LoadStatus } from '../../../ui/load-status/load-status';
+import { pollWhileActive } from '../../../ui/polling/poll-while-active';
 import { sortRows, type SortValue } from '../../../ui/table/sort-rows';
 import { UtcInstantPipe } from '../../../ui/time/date-pipes';
 import { ProposalStore } from '../../proposals/proposal-store';
@@ -204,29 +205,15 @@ export default class PhotometryPage {
     `${formatNumber(row.colour, this.locale, 2)} (${colourLabel(row.colourSystem)})`;
 
   constructor() {
-    // While the analysis runs, ask for its progress every second: each answer sets the run,
-    // which re-runs this effect and schedules the next request. When it ends, the program is
-    // fetched again once. The cleanup cancels the timer or the request when the run changes
-    // otherwise (a new upload) or the page closes.
-    effect((onCleanup) => {
-      const run = this.run();
-      const id = this.store.id();
-      if (!isRunActive(run) || id === null) return;
-      let request: { unsubscribe(): void } | undefined;
-      const timer = setTimeout(() => {
-        request = this.api.runStatus(id).subscribe({
-          next: (status) => {
-            this.run.set(status);
-            if (!isRunActive(status)) this.resource.reload();
-          },
-          // A failed poll is tried again after the same pause.
-          error: () => this.run.set({ ...run! }),
-        });
-      }, this.pollMs);
-      onCleanup(() => {
-        clearTimeout(timer);
-        request?.unsubscribe();
-      });
+    // While the analysis runs, ask for its progress every second; when it ends, the program is
+    // fetched again once.
+    pollWhileActive({
+      status: this.run,
+      id: () => this.store.id(),
+      active: isRunActive,
+      fetch: (id) => this.api.runStatus(id),
+      pauseMs: this.pollMs,
+      finished: () => this.resource.reload(),
     });
     // The "Analyse again" form follows the choices in force until the person edits it.
     effect(() => {

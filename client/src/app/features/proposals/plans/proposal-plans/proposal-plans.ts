@@ -37,6 +37,7 @@ import type { NodeRequest } from '@spincycle/shared/proposals/proposal-schemas';
 import { debounceTime, map } from 'rxjs';
 import { loadErrorText, readApiError } from '../../../../core/http/api-error-message';
 import { LoadStatus } from '../../../../ui/load-status/load-status';
+import { pollWhileActive } from '../../../../ui/polling/poll-while-active';
 import { reasonSentence } from '../../../../ui/text/reason-sentence';
 import { FractionPercentPipe } from '../../../../ui/units/fraction-percent-pipe';
 import { FeeWhyPipe } from '../../../../ui/units/fee-why-pipe';
@@ -238,32 +239,18 @@ export default class ProposalPlans {
   protected readonly reasonSentence = reasonSentence;
 
   constructor() {
-    // While a run is in progress, poll its status (a few hundred bytes) every second: each
-    // answer sets the run, which re-runs this effect and schedules the next request. When the
-    // run ends, the list is fetched once. The cleanup cancels the timer or the request when the
-    // run changes otherwise (recompute, a new page) or the tab closes.
-    effect((onCleanup) => {
-      const run = this.run();
-      const proposalId = this.store.id();
-      if (!inProgress(run) || proposalId === null) return;
-      let request: { unsubscribe(): void } | undefined;
-      const timer = setTimeout(() => {
-        request = this.planApi.status(proposalId).subscribe({
-          next: (status) => {
-            this.run.set(status);
-            if (!inProgress(status)) {
-              this.plans.reload();
-              this.markers.reload();
-            }
-          },
-          // A failed poll is tried again after the same pause.
-          error: () => this.run.set({ ...run! }),
-        });
-      }, PLAN_POLL_MS);
-      onCleanup(() => {
-        clearTimeout(timer);
-        request?.unsubscribe();
-      });
+    // While a run is in progress, poll its status (a few hundred bytes) every second; when it
+    // ends, the list is fetched once.
+    pollWhileActive({
+      status: this.run,
+      id: () => this.store.id(),
+      active: inProgress,
+      fetch: (id) => this.planApi.status(id),
+      pauseMs: PLAN_POLL_MS,
+      finished: () => {
+        this.plans.reload();
+        this.markers.reload();
+      },
     });
     // The proposal's request per node comes from the stored plans: fetch it again whenever a
     // computation has finished since it was loaded (also one that finished before this tab
