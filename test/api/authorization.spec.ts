@@ -467,10 +467,11 @@ describe('coverage', () => {
     // test/api/awards-permissions.spec.ts, test/api/night-plans-permissions.spec.ts: reviewers
     // assigned, conflicted, chairs and teams need fixtures of their own; the night plans' calendar
     // feed, /api/calendar-feeds, needs a link made by a manager; billing, test/api/billing-permissions.spec.ts,
-    // needs invoices and the payment fake; its webhook is checked by signature in billing.spec.ts); each path must appear
+    // needs invoices and the payment fake; its webhook is checked by signature in billing.spec.ts;
+    // returned photometry, test/api/photometry-permissions.spec.ts, needs an awarded program); each path must appear
     // there, with its parameters written as `:name` or as a template value.
     const reviewMatrices = readdirSync(__dirname)
-      .filter((f) => /^(review|awards)-.*-permissions\.spec\.ts$|^(awards|night-plans|billing)-permissions\.spec\.ts$/.test(f))
+      .filter((f) => /^(review|awards)-.*-permissions\.spec\.ts$|^(awards|night-plans|billing|photometry)-permissions\.spec\.ts$/.test(f))
       .map((f) => readFileSync(path.join(__dirname, f), 'utf8'))
       .join('\n');
     const inReviewMatrices = (route: string) => {
@@ -481,7 +482,9 @@ describe('coverage', () => {
         .join('');
       return new RegExp(`${pattern}(?![\\w/.])`).test(reviewMatrices);
     };
-    const review = found.filter((r) => /^\/api\/(review|awards|night-plans|calendar-feeds|billing)\//.test(r.split(' ')[1]));
+    const review = found.filter((r) =>
+      /^\/api\/(review|awards|night-plans|calendar-feeds|billing)\/|^\/api\/proposals\/:id\/photometry(\/|$)/.test(r.split(' ')[1]),
+    );
     expect(review.filter((r) => !inReviewMatrices(r))).toEqual([]);
     const others = found.filter((r) => !review.includes(r));
     expect(others.length).toBeGreaterThan(30);

@@ -57,19 +57,22 @@ interface Case {
   upload?: true;
 }
 
-const base = () => `/api/proposals/${f.proposalIds[0]}/photometry`;
 const CASES: Case[] = [
-  { name: 'GET /', method: 'get', path: base },
-  { name: 'POST /uploads', method: 'post', path: () => `${base()}/uploads`, upload: true },
+  { name: 'GET /', method: 'get', path: () => `/api/proposals/${f.proposalIds[0]}/photometry` },
+  { name: 'POST /uploads', method: 'post', path: () => `/api/proposals/${f.proposalIds[0]}/photometry/uploads`, upload: true },
   {
     name: 'POST /analyses',
     method: 'post',
-    path: () => `${base()}/analyses`,
+    path: () => `/api/proposals/${f.proposalIds[0]}/photometry/analyses`,
     body: { detrend: { offsets: 'none', clipSigma: 4, binMinutes: null } },
   },
-  { name: 'GET /run', method: 'get', path: () => `${base()}/run` },
-  { name: 'GET /targets/:targetId', method: 'get', path: () => `${base()}/targets/${f.targetIds[0][0]}` },
-  { name: 'GET /export.csv', method: 'get', path: () => `${base()}/export.csv` },
+  { name: 'GET /run', method: 'get', path: () => `/api/proposals/${f.proposalIds[0]}/photometry/run` },
+  {
+    name: 'GET /targets/:targetId',
+    method: 'get',
+    path: () => `/api/proposals/${f.proposalIds[0]}/photometry/targets/${f.targetIds[0][0]}`,
+  },
+  { name: 'GET /export.csv', method: 'get', path: () => `/api/proposals/${f.proposalIds[0]}/photometry/export.csv` },
 ];
 
 const browsers = new Map<Who, Browser>();

@@ -251,6 +251,19 @@ export interface RotationMeasurement {
     /** Plain words when flagged. */
     message: string | null;
   };
+  /**
+   * Whether the rotation period may be twice the best period (two spot groups, two dips per
+   * turn): a caution beside the verdict, which it does not change. Absent in measurements made
+   * before the check existed.
+   */
+  doublePeriod?: {
+    flagged: boolean;
+    /** Twice the best period, days (null when it is longer than the time covered: not checked). */
+    doublePeriodDays: number | null;
+    likelihoodRatio: number | null;
+    message: string | null;
+    rule: string;
+  };
   verdict: RotationVerdict;
   /** Why this verdict: each rule line with its outcome. */
   verdictReasons: string[];

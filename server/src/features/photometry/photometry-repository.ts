@@ -325,6 +325,7 @@ export async function upsertMeasurement(
       semi_amplitude_ppm: r.best?.semiAmplitudePpm ?? null,
       semi_amplitude_mmag: r.best?.semiAmplitudeMmag ?? null,
       alias_flagged: r.alias.flagged,
+      double_period_days: r.doublePeriod?.flagged ? r.doublePeriod.doublePeriodDays : null,
       age: r.age ? JSON.stringify(r.age) : null,
       result: JSON.stringify(r),
       analysed_at: m.at,
@@ -344,6 +345,8 @@ export interface MeasurementSummary {
   semiAmplitudePpm: number | null;
   semiAmplitudeMmag: number | null;
   aliasFlagged: boolean;
+  /** Twice the best period when the light curve suggests two spot groups, else null. */
+  doublePeriodDays: number | null;
   age: ImpliedAge | null;
   analysedAt: Date;
 }
@@ -363,6 +366,7 @@ export async function listMeasurements(db: Knex, proposalId: number): Promise<Me
       'semi_amplitude_ppm',
       'semi_amplitude_mmag',
       'alias_flagged',
+      'double_period_days',
       'age',
       'analysed_at',
     );
@@ -377,6 +381,7 @@ export async function listMeasurements(db: Knex, proposalId: number): Promise<Me
     semiAmplitudePpm: r.semi_amplitude_ppm,
     semiAmplitudeMmag: r.semi_amplitude_mmag,
     aliasFlagged: r.alias_flagged,
+    doublePeriodDays: r.double_period_days,
     age: (r.age as ImpliedAge | null) ?? null,
     analysedAt: r.analysed_at,
   }));

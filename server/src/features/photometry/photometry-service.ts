@@ -204,6 +204,7 @@ function cautionsOf(m: MeasurementSummary | undefined, withinExpected: boolean |
   if (!m) return [];
   const out: string[] = [];
   if (m.aliasFlagged) out.push('The period may be an alias of another peak.');
+  if (m.doublePeriodDays !== null) out.push(`The rotation period may be twice this (${m.doublePeriodDays.toFixed(2)} d): two spot groups.`);
   if (withinExpected === false) out.push('The period lies outside the expected range.');
   for (const f of m.age?.flags ?? []) if (f.severity !== 'info') out.push(f.message);
   return out;

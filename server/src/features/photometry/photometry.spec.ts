@@ -226,6 +226,29 @@ describe('upload, analysis and the program table', () => {
     expect(Math.abs(page.measurement!.best!.periodDays - 7.6)).toBeLessThan(3 * page.measurement!.best!.periodUncertaintyDays!);
   });
 
+  it('cautions in the table when the rotation period may be twice the best period (two spot groups)', async () => {
+    const { f, pi } = await program(1);
+    const rnd = seededRandom(71);
+    const rows: string[][] = [];
+    for (let night = 0; night < 70; night++) {
+      if (rnd.next() < 0.3) continue;
+      for (let t = 61100 + night + 0.05; t < 61100 + night + 0.3; t += 15 / 1440) {
+        // Two unequal dips per 9-day turn (a synthetic case built here).
+        const mag =
+          12 + 0.0025 * Math.sin((2 * Math.PI * t) / 9 + 0.3) + 0.008 * Math.sin((4 * Math.PI * t) / 9 + 1.1) + rnd.normal(0, 0.003);
+        rows.push([t.toFixed(6), mag.toFixed(5)]);
+      }
+    }
+    const res = await upload(pi, f.proposalIds[0], [{ name: 'dips.csv', body: csv('mjd,mag', rows) }], {
+      targetId: String(f.targetIds[0][0]),
+    });
+    expect(res.status).toBe(202);
+    await runJobs();
+    const row = ((await pi.get(`/api/proposals/${f.proposalIds[0]}/photometry`)).body as ProgramPhotometry).targets[0];
+    expect(row.periodDays).toBeCloseTo(4.5, 1);
+    expect(row.cautions.join(' ')).toMatch(/may be twice this \(9\.\d\d d\): two spot groups/);
+  });
+
   it('reads a 10⁵-row season of one target', async () => {
     const { f, pi } = await program(1);
     const a = synthetic({ periodDays: 6.1, seed: 41, nights: 220, cadenceMinutes: 0.5 });

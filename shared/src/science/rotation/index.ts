@@ -8,6 +8,7 @@ export * from './verdict';
 export * from './charts';
 export * from './implied-age';
 export * from './cluster-age';
+export * from './double-period';
 export {
   ROTATION_MODEL_VERSION,
   MIN_MEASURE_POINTS,

@@ -29,11 +29,12 @@ import { searchBand } from './search-band';
 import { BJD_SOURCE } from './time-systems';
 import { VERDICT_RULE_TEXT, rotationVerdict } from './verdict';
 import { WINDOW_SOURCE, spectralWindow } from './window-function';
+import { checkDoublePeriod, DOUBLE_PERIOD_RULE_TEXT } from './double-period';
 
 export type { StarForAge } from './implied-age';
 
 /** Bumped when the measurement changes for the same input (stored measurements then say which model made them). */
-export const ROTATION_MODEL_VERSION = 1;
+export const ROTATION_MODEL_VERSION = 2;
 
 /** Points needed before a period is searched for. */
 export const MIN_MEASURE_POINTS = 10;
@@ -258,6 +259,7 @@ function analyse(
     falseAlarm: fap,
   });
 
+  const double = checkDoublePeriod(data, f);
   const v = rotationVerdict({ falseAlarmProbability: bestFap, cyclesCovered, aliasFlagged: alias.flagged, aliasNote: alias.note });
   const age = impliedAge(context.star, P, sigmaP, v.verdict, alias.flagged);
 
@@ -299,6 +301,13 @@ function analyse(
     },
     peaks,
     alias: { flagged: alias.flagged, windowPeaks: alias.windowPeaks, candidates: alias.candidates, message: alias.message },
+    doublePeriod: {
+      flagged: double.flagged && v.verdict !== 'not_detected',
+      doublePeriodDays: double.doublePeriodDays,
+      likelihoodRatio: double.likelihoodRatio,
+      message: v.verdict !== 'not_detected' ? double.message : null,
+      rule: DOUBLE_PERIOD_RULE_TEXT,
+    },
     verdict: v.verdict,
     verdictReasons: v.reasons,
     verdictRule: VERDICT_RULE_TEXT,

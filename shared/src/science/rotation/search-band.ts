@@ -2,7 +2,9 @@
  * The band of frequencies searched: the expected period's range with margin, within what the
  * data can tell (Spincycle's rule, stated in `why`):
  * - with an expected period (low … high days): from 1/(2·high) (twice the longest plausible
- *   period) to 2/low (half the shortest), widened to the plan's band when there is one;
+ *   period) to 3/low (a third of the shortest: room for the half-period peak of a star with two
+ *   spot groups, which the double-period check then recognises), widened to the plan's band
+ *   when there is one;
  * - without: the plan's band, else periods of {@link SHORTEST_PERIOD_DAYS} d up to T/1.5;
  * - never below 1/T (a period longer than the time covered cannot be measured) nor above the
  *   data's useful limit min(1/{@link SHORTEST_PERIOD_DAYS} d, 5·N/(2T)) (five times the mean
@@ -41,9 +43,9 @@ export function searchBand(
   let fmax: number;
   if (expected) {
     fmin = 1 / (2 * expected.highDays);
-    fmax = 2 / expected.lowDays;
+    fmax = 3 / expected.lowDays;
     parts.push(
-      `The expected period is ${fmt(expected.lowDays)}–${fmt(expected.highDays)} d (${expected.from}): searched from half the shortest to twice the longest, ${days(fmax)} to ${days(fmin)}`,
+      `The expected period is ${fmt(expected.lowDays)}–${fmt(expected.highDays)} d (${expected.from}): searched from a third of the shortest (room for the half period of two spot groups) to twice the longest, ${days(fmax)} to ${days(fmin)}`,
     );
     if (band) {
       if (band.minFrequencyPerDay < fmin && band.minFrequencyPerDay > 0) fmin = band.minFrequencyPerDay;

@@ -81,6 +81,14 @@ describe('TargetPhotometry', () => {
     expect(el().querySelector('[data-testid=verdict-chip]')!.textContent).toContain('Tentative');
   });
 
+  it('a possibly double period: the warning with its message and rule (and none when not flagged)', async () => {
+    const message = 'The rotation period may be 16.428 d, twice the best period.';
+    const doublePeriod = { flagged: true, doublePeriodDays: 16.428, likelihoodRatio: 41.2, message, rule: 'Twice the best one when …' };
+    await open('14', testTargetPhotometry({ measurement: testMeasurement({ doublePeriod }) }));
+    expect(text('[data-testid=target-double-period]')).toContain('The rotation period may be twice this');
+    expect(text('[data-testid=target-double-period]')).toContain(message);
+  });
+
   it('a not-detected target without a best period: no folded chart, the verdict says why', async () => {
     const m = testMeasurement();
     await open(
