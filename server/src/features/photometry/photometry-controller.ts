@@ -1,4 +1,4 @@
-import type { Request, Response } from 'express';
+import type { NextFunction, Request, Response } from 'express';
 import { z } from 'zod';
 import { idParam } from '@spincycle/shared/http/ids';
 import { lightCurveUploadFieldsSchema, reanalyseSchema } from '@spincycle/shared/photometry/photometry';
@@ -9,6 +9,7 @@ import {
   getRunStatus,
   getTargetPhotometry,
   reanalyse,
+  requireUploader,
   uploadLightCurves,
 } from './photometry-service';
 
@@ -21,6 +22,11 @@ export function createPhotometryController(ctx: AppContext) {
     async program(req: Request, res: Response) {
       const { id } = programParams.parse(req.params);
       res.json(await getProgramPhotometry(ctx, req.user!, id));
+    },
+    async mayUpload(req: Request, _res: Response, next: NextFunction) {
+      const { id } = programParams.parse(req.params);
+      await requireUploader(ctx, req.user!, id);
+      next();
     },
     async upload(req: Request, res: Response) {
       const { id } = programParams.parse(req.params);

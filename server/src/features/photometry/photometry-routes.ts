@@ -23,7 +23,8 @@ export function createPhotometryRoutes(ctx: AppContext): Router {
   });
   const router = Router({ mergeParams: true });
   router.get('/', requireSignedIn, c.program);
-  router.post('/uploads', requireSignedIn, upload, c.upload);
+  // Who may upload is checked before the files are received.
+  router.post('/uploads', requireSignedIn, c.mayUpload, upload, c.upload);
   router.post('/analyses', requireSignedIn, c.analyse);
   router.get('/run', requireSignedIn, c.run);
   router.get('/targets/:targetId', requireSignedIn, c.target);

@@ -84,6 +84,11 @@ function requireUploadable(p: ProgramAccess): void {
   if (!canUploadTo(p)) throw new AppError('not_allowed', 'The program was withdrawn: no light curves can be added', 403);
 }
 
+/** 404 / 409 / 403 before an upload is received: the files are not even written for someone who may not upload. */
+export async function requireUploader(ctx: AppContext, viewer: SessionUser, proposalId: number): Promise<void> {
+  requireUploadable(await accessProgram(ctx.db, viewer, proposalId));
+}
+
 /** Queues a stored run; a queue that cannot be reached fails the run (503). */
 async function enqueueRun(ctx: AppContext, run: StoredRun): Promise<PhotometryRunStatus> {
   try {
