@@ -7,6 +7,7 @@
 import { stringify } from 'csv-stringify/sync';
 import type { Knex } from 'knex';
 import type { SessionUser } from '@spincycle/shared/accounts/account-schemas';
+import { stripControlCharacters } from '@spincycle/shared/http/text';
 import {
   DEFAULT_DETREND,
   detrendOptionsSchema,
@@ -24,6 +25,7 @@ import { fitClusterAge } from '@spincycle/shared/science/rotation';
 import type { AppContext } from '../../app-context';
 import { AppError } from '../../http/app-error';
 import { accessProposal } from '../proposals/proposal-access';
+import { escapeFormulaCell } from '../proposals/targets/target-csv';
 import { listPrograms } from '../night-plans/night-plan-repository';
 import { programProgress } from '../night-plans/night-plan-service';
 import { readLightCurveFiles } from './light-curve-files';
@@ -361,6 +363,8 @@ export async function getTargetPhotometry(
   };
 }
 
+/** A stored text as a cell: control characters removed, formula-escaped (OWASP CSV injection). */
+const text = (value: string) => escapeFormulaCell(stripControlCharacters(value));
 const fixed = (v: number | null, digits: number) => (v === null ? '' : v.toFixed(digits));
 const sig = (v: number | null) => (v === null ? '' : String(Number(v.toPrecision(4))));
 
@@ -374,11 +378,11 @@ export async function exportProgramPhotometry(
   const { rows } = await loadProgramTable(ctx, program);
   const body = stringify(
     rows.map((r) => ({
-      target: r.targetName,
+      target: text(r.targetName),
       colour: r.colour,
       colour_system: r.colourSystem,
       points: r.points ?? '',
-      nodes: r.nodes.join(' '),
+      nodes: text(r.nodes.join(' ')),
       expected_period_days: fixed(r.expected?.periodDays ?? null, 3),
       expected_low_days: fixed(r.expected?.lowDays ?? null, 3),
       expected_high_days: fixed(r.expected?.highDays ?? null, 3),
@@ -392,7 +396,7 @@ export async function exportProgramPhotometry(
       age_myr: fixed(r.ageMyr, 0),
       age_low_myr: fixed(r.ageLowMyr, 0),
       age_high_myr: fixed(r.ageHighMyr, 0),
-      cautions: r.cautions.join(' '),
+      cautions: text(r.cautions.join(' ')),
       analysed_at: r.analysedAt ?? '',
     })),
     { header: true, columns: undefined },

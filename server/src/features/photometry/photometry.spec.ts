@@ -249,6 +249,13 @@ describe('upload, analysis and the program table', () => {
     expect(row.cautions.join(' ')).toMatch(/may be twice this \(9\.\d\d d\): two spot groups/);
   });
 
+  it('exports target names that a spreadsheet would run as formulas as text (OWASP CSV injection)', async () => {
+    const { f, pi } = await program(1);
+    await h.created.ctx.db('targets').where('id', f.targetIds[0][0]).update({ name: '=HYPERLINK("x")' });
+    const exported = await pi.get(`/api/proposals/${f.proposalIds[0]}/photometry/export.csv`);
+    expect(exported.text.trim().split('\n')[1]).toMatch(/^"'=HYPERLINK\(""x""\)",/);
+  });
+
   it('reads a 10⁵-row season of one target', async () => {
     const { f, pi } = await program(1);
     const a = synthetic({ periodDays: 6.1, seed: 41, nights: 220, cadenceMinutes: 0.5 });
