@@ -23,7 +23,8 @@ import { detectDelimiter } from '../proposals/targets/target-csv';
 export function lightCurveErrors(errors: LightCurveRowError[], totalErrors = errors.length): AppError {
   const sorted = [...errors].sort((a, b) => a.file.localeCompare(b.file) || a.row - b.row);
   const listed = sorted.slice(0, LIGHT_CURVE_LIMITS.maxListedErrors);
-  const label = (e: LightCurveRowError) => (e.row === 0 ? `${e.file}: ${e.message}` : `${e.file}, row ${e.row}, ${e.field}: ${e.message}`);
+  // The reader's messages name their row and column already ("row 12, mag: …").
+  const label = (e: LightCurveRowError) => `${e.file}: ${e.message}`;
   const fieldErrors: Record<string, string[]> = {};
   for (const e of listed) (fieldErrors[e.row === 0 ? `files.${e.file}` : `files.${e.file}.rows.${e.row}.${e.field}`] ??= []).push(label(e));
   const more =

@@ -335,7 +335,7 @@ describe('bad files are refused whole, every problem named, nothing stored', () 
     const where = (res.body.rows as { file: string; row: number; field: string }[]).map((r) => `${r.file}:${r.row}:${r.field}`);
     expect(where).toEqual(['bad.csv:2:target', 'bad.csv:3:jd', 'bad.csv:4:mag', 'bad.csv:5:error', 'bad.csv:6:node']);
     expect(res.body.totalErrors).toBe(5);
-    expect(res.body.message).toMatch(/^bad\.csv, row 2, target: .*\(and 4 more problems; nothing was saved\)$/);
+    expect(res.body.message).toMatch(/^bad\.csv: row 2, target: .*\(and 4 more problems; nothing was saved\)$/);
     expect(await stored(f.proposalIds[0])).toEqual(before);
   });
 

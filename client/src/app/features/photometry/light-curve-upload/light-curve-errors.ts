@@ -38,7 +38,7 @@ import type { LightCurveRowError } from '@spincycle/shared/photometry/photometry
                   —
                 }
               </td>
-              <td>{{ problem.message }}</td>
+              <td>{{ withoutPlace(problem.message) }}</td>
             </tr>
           }
         </tbody>
@@ -102,4 +102,6 @@ export class LightCurveErrors {
   /** Problems in all (the server lists the first ones only). */
   readonly total = input(0);
   protected readonly more = computed(() => Math.max(0, this.total() - this.rows().length));
+  /** The message without its "row 12, mag: " lead: the table's own columns say where. */
+  protected readonly withoutPlace = (message: string) => message.replace(/^(?:row \d+(?:, [^:]+)?|header): /, '');
 }

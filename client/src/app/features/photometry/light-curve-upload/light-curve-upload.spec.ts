@@ -82,10 +82,11 @@ describe('LightCurveUpload', () => {
     uploadButton().click();
     const body: LightCurveErrorBody = {
       code: 'invalid_light_curve',
-      message: 'night-1.csv, row 3, mag: not a number (and 241 more problems; nothing was saved)',
+      message: 'night-1.csv: row 3, mag: "x" is not a number (and 241 more problems; nothing was saved)',
       rows: [
         { file: 'night-1.csv', row: 0, field: 'file', message: 'the file has no time column' },
-        { file: 'night-1.csv', row: 3, field: 'mag', message: 'not a number' },
+        // The reader's messages name their row and column; the table's columns say it already.
+        { file: 'night-1.csv', row: 3, field: 'mag', message: 'row 3, mag: "x" is not a number' },
       ],
       totalErrors: 242,
     };
@@ -97,7 +98,7 @@ describe('LightCurveUpload', () => {
     );
     expect(rows).toEqual([
       ['night-1.csv', 'whole file', '—', 'the file has no time column'],
-      ['night-1.csv', '3', 'mag', 'not a number'],
+      ['night-1.csv', '3', 'mag', '"x" is not a number'],
     ]);
     // 242 in all, 2 listed (worked by hand).
     expect(text('[data-testid=light-curve-more-errors]')).toBe('…and 240 more problems like these.');
