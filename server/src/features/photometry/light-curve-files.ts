@@ -101,6 +101,8 @@ export interface ReadOptions {
 /** What the files hold, per target (several files of one target joined), and their row counts. */
 export interface ReadResult {
   series: TargetSeries[];
+  /** The files that held each target's rows, by target id. */
+  filesOf: Map<number, string[]>;
   files: { fileName: string; rows: number }[];
   points: number;
 }
@@ -165,6 +167,7 @@ export async function readLightCurveFiles(files: UploadedLightCurveFile[], optio
   const errors: LightCurveRowError[] = [];
   let errorCount = 0;
   const parts: TargetSeries[] = [];
+  const filesOf = new Map<number, string[]>();
   const counts: { fileName: string; rows: number }[] = [];
   for (const file of files) {
     const r = await readOne(file, options);
@@ -172,6 +175,7 @@ export async function readLightCurveFiles(files: UploadedLightCurveFile[], optio
     errorCount += r.errorCount;
     counts.push({ fileName: file.fileName, rows: r.rows });
     parts.push(...r.series);
+    for (const part of r.series) filesOf.set(part.targetId, [...(filesOf.get(part.targetId) ?? []), file.fileName]);
   }
   const names = new Map(options.targets.map((t) => [t.id, t.name]));
   const merged = mergeTargetSeries(parts);
@@ -214,5 +218,5 @@ export async function readLightCurveFiles(files: UploadedLightCurveFile[], optio
     errorCount++;
   }
   if (errors.length) throw lightCurveErrors(errors, errorCount);
-  return { series, files: counts, points };
+  return { series, filesOf, files: counts, points };
 }

@@ -40,6 +40,7 @@ export interface StoredLightCurve {
   valueKind: LightCurveValueKind;
   timeSystems: TimeSystem[];
   nodeCodes: string[];
+  /** The files of its upload that held this target's rows. */
   fileNames: string[];
   firstBjd: number;
   lastBjd: number;
@@ -179,20 +180,19 @@ export async function findLightCurveData(db: Knex, targetId: number): Promise<Li
   };
 }
 
-/** Uploads that carried a target's current curve and earlier ones of the program, newest first. */
-export async function listUploads(db: Knex, proposalId: number) {
-  const rows = await db('light_curve_uploads as u')
+/** One upload: its files (name and rows), when and by whom. */
+export async function findUpload(db: Knex, uploadId: number) {
+  const r = await db('light_curve_uploads as u')
     .leftJoin('accounts as a', 'a.id', 'u.uploaded_by')
-    .where('u.proposal_id', proposalId)
-    .orderBy('u.id', 'desc')
-    .select('u.id', 'u.files', 'u.points', 'u.uploaded_at', 'a.display_name');
-  return rows.map((r) => ({
+    .where('u.id', uploadId)
+    .first('u.id', 'u.files', 'u.uploaded_at', 'a.display_name');
+  if (!r) return undefined;
+  return {
     id: Number(r.id),
     files: r.files as { fileName: string; rows: number }[],
-    points: Number(r.points),
     uploadedAt: r.uploaded_at as Date,
     uploadedBy: (r.display_name as string | null) ?? null,
-  }));
+  };
 }
 
 interface RunRow {

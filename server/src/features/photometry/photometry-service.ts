@@ -11,7 +11,6 @@ import { stripControlCharacters } from '@spincycle/shared/http/text';
 import {
   DEFAULT_DETREND,
   detrendOptionsSchema,
-  type ClusterAgeFit,
   type DetrendOptions,
   type LightCurveUploadFields,
   type PhotometryRunStatus,
@@ -38,7 +37,7 @@ import {
   insertUpload,
   listLightCurves,
   listMeasurements,
-  listUploads,
+  findUpload,
   supersedeRuns,
   toRunStatus,
   upsertLightCurve,
@@ -167,7 +166,7 @@ export async function uploadLightCurves(
   const run = await ctx.db.transaction(async (trx) => {
     const uploadId = await insertUpload(trx, { proposalId, uploadedBy: viewer.id, files: read.files, points: read.points, at });
     for (const series of read.series) {
-      await upsertLightCurve(trx, { proposalId, uploadId, series, fileNames: read.files.map((f) => f.fileName), at });
+      await upsertLightCurve(trx, { proposalId, uploadId, series, fileNames: read.filesOf.get(series.targetId) ?? [], at });
     }
     const total = Number((await trx('light_curves').where('proposal_id', proposalId).count({ n: '*' }))[0].n);
     const created = await insertRun(trx, { proposalId, total, detrend, requestedBy: viewer.id, at });
@@ -290,7 +289,7 @@ async function loadProgramTable(ctx: AppContext, program: ProgramAccess) {
 export async function getProgramPhotometry(ctx: AppContext, viewer: SessionUser, proposalId: number): Promise<ProgramPhotometry> {
   const program = await accessProgram(ctx.db, viewer, proposalId);
   await failStaleRuns(ctx.db, proposalId, ctx.now(), STALE_RUN_MS);
-  const [{ rows }, run, progressRow] = await Promise.all([
+  const [{ rows, measurements }, run, progressRow] = await Promise.all([
     loadProgramTable(ctx, program),
     findLatestRun(ctx.db, proposalId),
     listPrograms(ctx.db, program.cycleId).then((all) => all.filter((p) => p.proposalId === proposalId)),
@@ -299,15 +298,13 @@ export async function getProgramPhotometry(ctx: AppContext, viewer: SessionUser,
   const age = sharedAge(program.targets);
   let cluster: ProgramPhotometry['cluster'] = null;
   if (age !== null) {
-    const measured = await listMeasurements(ctx.db, proposalId);
-    const byTarget = new Map(measured.map((m) => [m.targetId, m]));
+    // The members measured on their current curves (the rows show no older measurement).
+    const byTarget = new Map(measurements.map((m) => [m.targetId, m]));
     const current = new Set(rows.filter((r) => r.analysedAt !== null).map((r) => r.targetId));
-    let fit: ClusterAgeFit | null = null;
     const members = program.targets
       .filter((t) => current.has(t.id))
       .map((t) => ({ targetName: t.name, verdict: byTarget.get(t.id)!.verdict, age: byTarget.get(t.id)!.age }));
-    if (members.length) fit = fitClusterAge(members);
-    cluster = { ageMyr: age, colourSystem: mostCommonSystem(program.targets), fit };
+    cluster = { ageMyr: age, colourSystem: mostCommonSystem(program.targets), fit: members.length ? fitClusterAge(members) : null };
   }
   return {
     proposalId,
@@ -338,27 +335,19 @@ export async function getTargetPhotometry(
 ): Promise<TargetPhotometry> {
   const program = await accessProgram(ctx.db, viewer, proposalId);
   if (!program.targets.some((t) => t.id === targetId)) throw new AppError('target_not_found', `No target ${targetId} in this program`, 404);
-  const { rows } = await loadProgramTable(ctx, program);
-  const row = rows.find((r) => r.targetId === targetId)!;
-  const uploads = await listUploads(ctx.db, proposalId);
-  const curve = (await listLightCurves(ctx.db, proposalId)).find((c) => c.targetId === targetId);
+  // The table's row of this one target (its plan alone is read).
+  const { rows, curves } = await loadProgramTable(ctx, { ...program, targets: program.targets.filter((t) => t.id === targetId) });
+  const row = rows[0];
+  const curve = curves.find((c) => c.targetId === targetId);
+  const upload = curve ? await findUpload(ctx.db, curve.uploadId) : undefined;
   const measurement = row.analysedAt ? ((await findMeasurementResult(ctx.db, targetId)) ?? null) : null;
   return {
     proposalId,
     row,
-    uploads: curve
-      ? uploads
-          .filter((u) => u.id <= curve.uploadId)
-          .slice(0, 1)
-          .flatMap((u) =>
-            u.files.map((f) => ({
-              fileName: f.fileName,
-              points: f.rows,
-              uploadedAt: u.uploadedAt.toISOString(),
-              uploadedBy: u.uploadedBy,
-            })),
-          )
-      : [],
+    // The files of the upload that carried the stored curve, those that held this target.
+    uploads: (upload?.files ?? [])
+      .filter((f) => curve!.fileNames.includes(f.fileName))
+      .map((f) => ({ fileName: f.fileName, points: f.rows, uploadedAt: upload!.uploadedAt.toISOString(), uploadedBy: upload!.uploadedBy })),
     measurement,
   };
 }

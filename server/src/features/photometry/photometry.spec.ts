@@ -226,6 +226,27 @@ describe('upload, analysis and the program table', () => {
     expect(Math.abs(page.measurement!.best!.periodDays - 7.6)).toBeLessThan(3 * page.measurement!.best!.periodUncertaintyDays!);
   });
 
+  it('lists on a target’s page only the files of its upload that held the target', async () => {
+    const { f, pi } = await program(2);
+    const [s0, s1] = f.targetNames[0];
+    const one = (name: string, seed: number) => {
+      const a = synthetic({ periodDays: 7.5, seed, nights: 20 });
+      return csv(
+        'target,mjd,mag',
+        a.mjd.map((t, i) => [name, t.toFixed(6), a.mag[i].toFixed(5)]),
+      );
+    };
+    const res = await upload(pi, f.proposalIds[0], [
+      { name: 'first-star.csv', body: one(s0, 81) },
+      { name: 'second-star.csv', body: one(s1, 82) },
+    ]);
+    expect(res.status).toBe(202);
+    const page = (await pi.get(`/api/proposals/${f.proposalIds[0]}/photometry/targets/${f.targetIds[0][1]}`)).body as TargetPhotometry;
+    expect(page.uploads.map((u) => u.fileName)).toEqual(['second-star.csv']);
+    expect(page.row.targetName).toBe(s1);
+    jobs.length = 0;
+  });
+
   it('cautions in the table when the rotation period may be twice the best period (two spot groups)', async () => {
     const { f, pi } = await program(1);
     const rnd = seededRandom(71);

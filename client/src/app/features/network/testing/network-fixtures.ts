@@ -1,5 +1,6 @@
 /** Invented sites and nodes for the network feature's specs (test data only). */
 import type { Site, TelescopeNode } from '@spincycle/shared/facility/facility-types';
+import { testNode as plannerTestNode } from '../../planner/planner-test-data';
 
 export const NORTH: Site = {
   id: 1,
@@ -23,36 +24,7 @@ export const SOUTH: Site = {
   skyBrightnessMagPerArcsec2: 21.2,
 };
 
-/** A node as GET /api/nodes answers it: academic rate €48.50, no external rate. */
+/** A node as GET /api/nodes answers it: the planner's test node at `site`, 27.5 % of nights lost, academic rate €48.50, no external rate. */
 export function testNode(id: number, code: string, site: Site = NORTH, overrides: Partial<TelescopeNode> = {}): TelescopeNode {
-  return {
-    id,
-    code,
-    name: `Node ${code}`,
-    siteId: site.id,
-    site,
-    active: true,
-    apertureM: 0.4,
-    obstructionFraction: 0.35,
-    throughput: 0.6,
-    band: 'V',
-    readNoiseE: 9,
-    darkCurrentEPerS: 0.02,
-    gainEPerAdu: 1.3,
-    saturationE: 60000,
-    pixelScaleArcsec: 1.2,
-    seeingFwhmArcsec: 1.6,
-    systematicFloorMmag: 1.5,
-    scintillationModel: 'young1967',
-    overheadSeconds: 60,
-    minExposureSeconds: 2,
-    maxExposureSeconds: 300,
-    altitudeLimitDeg: 30,
-    sunAltitudeLimitDeg: -12,
-    weatherLossFraction: 0.275,
-    rateMinorPerHour: 4850,
-    externalRateMinorPerHour: null,
-    currency: 'eur',
-    ...overrides,
-  };
+  return plannerTestNode(id, code, { siteId: site.id, site, weatherLossFraction: 0.275, externalRateMinorPerHour: null, ...overrides });
 }
